@@ -1,0 +1,306 @@
+/**
+ * Tributary's tables (MariaDB through Drizzle). Migrations are generated from this file
+ * into drizzle/ with `npm run db:generate`; never edit drizzle/ by hand.
+ */
+import {
+  bigint,
+  boolean,
+  datetime,
+  index,
+  int,
+  json,
+  mysqlEnum,
+  mysqlTable,
+  primaryKey,
+  text,
+  uniqueIndex,
+  varchar,
+} from "drizzle-orm/mysql-core";
+import { sql } from "drizzle-orm";
+
+const id = () => int("id", { unsigned: true }).autoincrement().primaryKey();
+const ref = (name: string) => int(name, { unsigned: true });
+const created = () => datetime("created_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+
+export const ROLES = ["provider", "analyst", "lead", "admin"] as const;
+export type UserRole = (typeof ROLES)[number];
+
+export const BATCH_STATES = ["received", "checking", "ready", "accepted", "bounced", "superseded", "unreadable"] as const;
+export type BatchState = (typeof BATCH_STATES)[number];
+
+export const organisations = mysqlTable(
+  "organisations",
+  {
+    id: id(),
+    name: varchar("name", { length: 200 }).notNull(),
+    slug: varchar("slug", { length: 100 }).notNull(),
+    /** "provider": sends batches; "team": the analysts' and leads' own organisation */
+    kind: mysqlEnum("kind", ["provider", "team"]).notNull().default("provider"),
+    createdAt: created(),
+  },
+  (t) => [uniqueIndex("organisations_slug_uq").on(t.slug)],
+);
+export type Organisation = typeof organisations.$inferSelect;
+
+export const users = mysqlTable(
+  "users",
+  {
+    id: id(),
+    email: varchar("email", { length: 320 }).notNull(),
+    name: varchar("name", { length: 200 }).notNull(),
+    role: mysqlEnum("role", ROLES).notNull(),
+    organisationId: ref("organisation_id").references(() => organisations.id),
+    passwordHash: varchar("password_hash", { length: 100 }),
+    active: boolean("active").notNull().default(true),
+    /** bumped on deactivation and password change: older sessions stop working */
+    sessionVersion: int("session_version", { unsigned: true }).notNull().default(1),
+    createdAt: created(),
+    updatedAt: datetime("updated_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [uniqueIndex("users_email_uq").on(t.email), index("users_org_idx").on(t.organisationId)],
+);
+export type User = typeof users.$inferSelect;
+
+export const studies = mysqlTable(
+  "studies",
+  {
+    id: id(),
+    slug: varchar("slug", { length: 100 }).notNull(),
+    title: varchar("title", { length: 300 }).notNull(),
+    description: text("description"),
+    /** who runs the study (the lead's team) */
+    teamOrganisationId: ref("team_organisation_id").references(() => organisations.id),
+    status: mysqlEnum("status", ["open", "closed"]).notNull().default("open"),
+    currentPlanVersion: int("current_plan_version", { unsigned: true }),
+    createdById: ref("created_by_id").references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [uniqueIndex("studies_slug_uq").on(t.slug)],
+);
+export type Study = typeof studies.$inferSelect;
+
+export const dataPlans = mysqlTable(
+  "data_plans",
+  {
+    id: id(),
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    version: int("version", { unsigned: true }).notNull(),
+    /** the plan JSON, validated by lib/readiness/plan.ts */
+    plan: json("plan").notNull(),
+    planHash: varchar("plan_hash", { length: 64 }).notNull(),
+    note: varchar("note", { length: 500 }),
+    createdById: ref("created_by_id").references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [uniqueIndex("data_plans_study_version_uq").on(t.studyId, t.version)],
+);
+export type DataPlan = typeof dataPlans.$inferSelect;
+
+export const studyAnalysts = mysqlTable(
+  "study_analysts",
+  {
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    userId: ref("user_id").notNull().references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [primaryKey({ columns: [t.studyId, t.userId] }), index("study_analysts_user_idx").on(t.userId)],
+);
+
+export const studyProviders = mysqlTable(
+  "study_providers",
+  {
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    organisationId: ref("organisation_id").notNull().references(() => organisations.id),
+    createdAt: created(),
+  },
+  (t) => [primaryKey({ columns: [t.studyId, t.organisationId] }), index("study_providers_org_idx").on(t.organisationId)],
+);
+
+export const batches = mysqlTable(
+  "batches",
+  {
+    id: id(),
+    /** random public id used in URLs and the API (not guessable, not sequential) */
+    publicId: varchar("public_id", { length: 32 }).notNull(),
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    organisationId: ref("organisation_id").notNull().references(() => organisations.id),
+    title: varchar("title", { length: 300 }).notNull(),
+    latestVersion: int("latest_version", { unsigned: true }).notNull().default(0),
+    createdById: ref("created_by_id").references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [
+    uniqueIndex("batches_public_id_uq").on(t.publicId),
+    index("batches_study_idx").on(t.studyId),
+    index("batches_org_idx").on(t.organisationId),
+  ],
+);
+export type Batch = typeof batches.$inferSelect;
+
+export const batchVersions = mysqlTable(
+  "batch_versions",
+  {
+    id: id(),
+    batchId: ref("batch_id").notNull().references(() => batches.id),
+    version: int("version", { unsigned: true }).notNull(),
+    /** the plan version this version is checked against */
+    planId: ref("plan_id").notNull().references(() => dataPlans.id),
+    fileKey: varchar("file_key", { length: 200 }).notNull(),
+    fileUrl: varchar("file_url", { length: 1000 }).notNull(),
+    fileName: varchar("file_name", { length: 300 }).notNull(),
+    fileSize: bigint("file_size", { mode: "number", unsigned: true }).notNull(),
+    contentHash: varchar("content_hash", { length: 64 }),
+    state: mysqlEnum("state", BATCH_STATES).notNull().default("received"),
+    /** rows read so far by the check (progress) */
+    progressRows: bigint("progress_rows", { mode: "number", unsigned: true }).notNull().default(0),
+    progressBytes: bigint("progress_bytes", { mode: "number", unsigned: true }).notNull().default(0),
+    uploadedById: ref("uploaded_by_id").references(() => users.id),
+    uploadedAt: created(),
+    stateChangedAt: datetime("state_changed_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [
+    uniqueIndex("batch_versions_batch_version_uq").on(t.batchId, t.version),
+    uniqueIndex("batch_versions_file_key_uq").on(t.fileKey),
+    index("batch_versions_state_idx").on(t.state),
+  ],
+);
+export type BatchVersion = typeof batchVersions.$inferSelect;
+
+export const checkJobs = mysqlTable(
+  "check_jobs",
+  {
+    id: id(),
+    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    status: mysqlEnum("status", ["queued", "running", "done", "failed"]).notNull().default("queued"),
+    attempts: int("attempts", { unsigned: true }).notNull().default(0),
+    lockedBy: varchar("locked_by", { length: 100 }),
+    heartbeatAt: datetime("heartbeat_at", { mode: "date", fsp: 3 }),
+    runAfter: datetime("run_after", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    lastError: text("last_error"),
+    createdAt: created(),
+    finishedAt: datetime("finished_at", { mode: "date", fsp: 3 }),
+  },
+  (t) => [index("check_jobs_status_idx").on(t.status, t.runAfter), index("check_jobs_version_idx").on(t.batchVersionId)],
+);
+
+export const reports = mysqlTable(
+  "reports",
+  {
+    id: id(),
+    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    planId: ref("plan_id").notNull().references(() => dataPlans.id),
+    status: mysqlEnum("status", ["checked", "unreadable"]).notNull(),
+    /** the engine's report JSON (lib/readiness/report.ts) */
+    report: json("report").notNull(),
+    /** the engine's mergeable state, for the pool */
+    engineState: json("engine_state"),
+    blockers: int("blockers", { unsigned: true }).notNull().default(0),
+    warnings: int("warnings", { unsigned: true }).notNull().default(0),
+    notes: int("notes", { unsigned: true }).notNull().default(0),
+    completeCases: int("complete_cases", { unsigned: true }).notNull().default(0),
+    residualDf: int("residual_df").notNull().default(0),
+    engineVersion: varchar("engine_version", { length: 40 }).notNull(),
+    createdAt: created(),
+  },
+  (t) => [index("reports_version_idx").on(t.batchVersionId, t.createdAt)],
+);
+
+export const decisions = mysqlTable(
+  "decisions",
+  {
+    id: id(),
+    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    decision: mysqlEnum("decision", ["accept", "bounce"]).notNull(),
+    comment: text("comment"),
+    decidedById: ref("decided_by_id").notNull().references(() => users.id),
+    decidedAt: created(),
+  },
+  // one decision per version: the second of two concurrent decisions fails on this key
+  (t) => [uniqueIndex("decisions_version_uq").on(t.batchVersionId)],
+);
+
+export const findingComments = mysqlTable(
+  "finding_comments",
+  {
+    id: id(),
+    decisionId: ref("decision_id").references(() => decisions.id),
+    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    findingCode: varchar("finding_code", { length: 80 }).notNull(),
+    columns: varchar("columns", { length: 1000 }).notNull().default(""),
+    comment: text("comment").notNull(),
+    authorId: ref("author_id").notNull().references(() => users.id),
+    createdAt: created(),
+  },
+  (t) => [index("finding_comments_version_idx").on(t.batchVersionId)],
+);
+
+export const auditEvents = mysqlTable(
+  "audit_events",
+  {
+    id: id(),
+    actorId: ref("actor_id").references(() => users.id),
+    action: varchar("action", { length: 80 }).notNull(),
+    objectType: varchar("object_type", { length: 40 }).notNull(),
+    objectId: varchar("object_id", { length: 64 }).notNull(),
+    studyId: ref("study_id"),
+    batchId: ref("batch_id"),
+    before: json("before"),
+    after: json("after"),
+    createdAt: created(),
+  },
+  (t) => [index("audit_object_idx").on(t.objectType, t.objectId), index("audit_batch_idx").on(t.batchId), index("audit_created_idx").on(t.createdAt)],
+);
+
+export const emailOutbox = mysqlTable(
+  "email_outbox",
+  {
+    id: id(),
+    /** stable key of what the message is about: never sent twice */
+    dedupeKey: varchar("dedupe_key", { length: 200 }).notNull(),
+    kind: varchar("kind", { length: 40 }).notNull(),
+    toAddress: varchar("to_address", { length: 320 }).notNull(),
+    subject: varchar("subject", { length: 500 }).notNull(),
+    textBody: text("text_body").notNull(),
+    htmlBody: text("html_body").notNull(),
+    batchId: ref("batch_id"),
+    status: mysqlEnum("status", ["pending", "sending", "sent", "failed"]).notNull().default("pending"),
+    attempts: int("attempts", { unsigned: true }).notNull().default(0),
+    nextAttemptAt: datetime("next_attempt_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    lastError: text("last_error"),
+    messageId: varchar("message_id", { length: 300 }),
+    sentAt: datetime("sent_at", { mode: "date", fsp: 3 }),
+    createdAt: created(),
+  },
+  (t) => [uniqueIndex("email_outbox_dedupe_uq").on(t.dedupeKey), index("email_outbox_status_idx").on(t.status, t.nextAttemptAt)],
+);
+
+export const apiTokens = mysqlTable(
+  "api_tokens",
+  {
+    id: id(),
+    userId: ref("user_id").notNull().references(() => users.id),
+    name: varchar("name", { length: 100 }).notNull(),
+    /** sha-256 of the token; the token itself is shown once */
+    tokenHash: varchar("token_hash", { length: 64 }).notNull(),
+    prefix: varchar("prefix", { length: 16 }).notNull(),
+    createdAt: created(),
+    lastUsedAt: datetime("last_used_at", { mode: "date", fsp: 3 }),
+    revokedAt: datetime("revoked_at", { mode: "date", fsp: 3 }),
+  },
+  (t) => [uniqueIndex("api_tokens_hash_uq").on(t.tokenHash), index("api_tokens_user_idx").on(t.userId)],
+);
+
+/** one-time links: invitations (set a password) and password resets */
+export const userTokens = mysqlTable(
+  "user_tokens",
+  {
+    id: id(),
+    userId: ref("user_id").notNull().references(() => users.id),
+    kind: mysqlEnum("kind", ["invite", "reset"]).notNull(),
+    tokenHash: varchar("token_hash", { length: 64 }).notNull(),
+    expiresAt: datetime("expires_at", { mode: "date", fsp: 3 }).notNull(),
+    usedAt: datetime("used_at", { mode: "date", fsp: 3 }),
+    createdAt: created(),
+  },
+  (t) => [uniqueIndex("user_tokens_hash_uq").on(t.tokenHash)],
+);
