@@ -1,0 +1,87 @@
+# Shared shell helpers for the project's scripts. Source it; do not run it.
+# shellcheck shell=bash
+
+TRIBUTARY_ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
+export TRIBUTARY_ROOT
+
+if [[ -t 1 ]]; then
+  _c_dim=$'\e[2m' _c_red=$'\e[31m' _c_yel=$'\e[33m' _c_grn=$'\e[32m' _c_off=$'\e[0m'
+else
+  _c_dim="" _c_red="" _c_yel="" _c_grn="" _c_off=""
+fi
+
+say()  { printf '%s▸%s %s\n' "$_c_grn" "$_c_off" "$*"; }
+note() { printf '%s  %s%s\n' "$_c_dim" "$*" "$_c_off"; }
+warn() { printf '%swarning:%s %s\n' "$_c_yel" "$_c_off" "$*" >&2; }
+die()  { printf '%serror:%s %s\n' "$_c_red" "$_c_off" "$*" >&2; exit 1; }
+
+# Node 20.9 or newer (Next 16 needs it).
+require_node() {
+  command -v node >/dev/null 2>&1 || die "Node.js is not installed; install Node 20 (20.9 or newer) and npm first."
+  local v major minor
+  v="$(node -p 'process.versions.node')"
+  major="${v%%.*}"; minor="${v#*.}"; minor="${minor%%.*}"
+  if (( major < 20 || (major == 20 && minor < 9) )); then
+    die "Node $v is too old; Tributary needs Node 20.9 or newer."
+  fi
+}
+
+# `npm ci` when node_modules is missing or older than package-lock.json.
+ensure_node_modules() {
+  local stamp="$TRIBUTARY_ROOT/node_modules/.package-lock.json"
+  if [[ ! -d "$TRIBUTARY_ROOT/node_modules" || ! -f "$stamp" || "$TRIBUTARY_ROOT/package-lock.json" -nt "$stamp" ]]; then
+    say "installing npm packages (npm ci)"
+    (cd "$TRIBUTARY_ROOT" && npm ci --no-audit --no-fund) || die "npm ci failed (see above)."
+  fi
+}
+
+pkg_installed() {
+  dpkg-query -W -f='${Status}' "$1" 2>/dev/null | grep -q 'install ok installed'
+}
+
+# Install the Debian packages given that are missing; `apt-get update` once, only if needed.
+ensure_apt_packages() {
+  local missing=() p
+  for p in "$@"; do pkg_installed "$p" || missing+=("$p"); done
+  (( ${#missing[@]} == 0 )) && return 0
+  command -v apt-get >/dev/null 2>&1 || die "missing system packages (${missing[*]}) and no apt-get to install them; install them by hand."
+  local sudo=()
+  if [[ $(id -u) -ne 0 ]]; then
+    command -v sudo >/dev/null 2>&1 || die "missing system packages (${missing[*]}); run as root or install them by hand."
+    sudo=(sudo)
+  fi
+  say "installing Debian packages: ${missing[*]}"
+  export DEBIAN_FRONTEND=noninteractive
+  "${sudo[@]}" apt-get -o DPkg::Lock::Timeout=600 update -q || die "apt-get update failed."
+  "${sudo[@]}" apt-get -o DPkg::Lock::Timeout=600 install -y -q --no-install-recommends "${missing[@]}" \
+    || die "apt-get install ${missing[*]} failed (see above)."
+}
+
+# Load KEY=VALUE lines of a dotenv file into the environment without overriding variables already set.
+load_env_file() {
+  local file="$1" line key value
+  [[ -f "$file" ]] || return 0
+  while IFS= read -r line || [[ -n "$line" ]]; do
+    line="${line%$'\r'}"
+    [[ "$line" =~ ^[[:space:]]*(#|$) ]] && continue
+    [[ "$line" =~ ^[[:space:]]*(export[[:space:]]+)?([A-Za-z_][A-Za-z0-9_]*)=(.*)$ ]] || continue
+    key="${BASH_REMATCH[2]}"; value="${BASH_REMATCH[3]}"
+    if [[ "$value" =~ ^\"(.*)\"$ || "$value" =~ ^\'(.*)\'$ ]]; then value="${BASH_REMATCH[1]}"; fi
+    [[ -n "${!key+x}" ]] || export "$key=$value"
+  done < "$file"
+}
+
+# True when something accepts TCP connections on 127.0.0.1:PORT.
+port_open() {
+  (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null
+}
+
+# True when PID is alive (not a zombie) and its command name is NAME.
+pid_is() {
+  local pid="$1" name="$2" stat
+  [[ -n "$pid" && -r "/proc/$pid/comm" ]] || return 1
+  [[ "$(cat "/proc/$pid/comm" 2>/dev/null)" == "$name" ]] || return 1
+  stat="$(cat "/proc/$pid/stat" 2>/dev/null)" || return 1
+  stat="${stat##*) }"
+  [[ "${stat:0:1}" != Z && "${stat:0:1}" != X ]]
+}
