@@ -1,0 +1,53 @@
+import "server-only";
+import { asc, eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { organisations, users, type UserRole } from "@/db/schema";
+import { can } from "@/lib/auth/permissions";
+import type { SessionUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+
+export type UserListItem = {
+  id: number;
+  email: string;
+  name: string;
+  role: UserRole;
+  organisationId: number | null;
+  organisationName: string | null;
+  active: boolean;
+  createdAt: Date;
+  updatedAt: Date;
+};
+
+export const userListColumns = {
+  id: users.id,
+  email: users.email,
+  name: users.name,
+  role: users.role,
+  organisationId: users.organisationId,
+  organisationName: organisations.name,
+  active: users.active,
+  createdAt: users.createdAt,
+  updatedAt: users.updatedAt,
+};
+
+/** Every user (never a password hash), for admins and leads; others get AppError("forbidden"). */
+export async function listUsers(actor: SessionUser): Promise<UserListItem[]> {
+  if (!can(actor.role, "user.manage") && !can(actor.role, "user.invite")) throw new AppError("forbidden");
+  return getDb()
+    .select(userListColumns)
+    .from(users)
+    .leftJoin(organisations, eq(organisations.id, users.organisationId))
+    .orderBy(asc(users.role), asc(users.name));
+}
+
+/** One user by id for admins and leads, or null. */
+export async function getUserForAdmin(actor: SessionUser, userId: number): Promise<UserListItem | null> {
+  if (!can(actor.role, "user.manage") && !can(actor.role, "user.invite")) throw new AppError("forbidden");
+  const rows = await getDb()
+    .select(userListColumns)
+    .from(users)
+    .leftJoin(organisations, eq(organisations.id, users.organisationId))
+    .where(eq(users.id, userId))
+    .limit(1);
+  return rows[0] ?? null;
+}

@@ -1,0 +1,52 @@
+/**
+ * One typed error for the server side. Its message is safe to show; the cause (database
+ * detail, stack) is logged and never sent to the browser or an API client.
+ */
+export const ERROR_STATUS = {
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  invalid: 422,
+  unavailable: 503,
+  internal: 500,
+} as const;
+
+export type ErrorCode = keyof typeof ERROR_STATUS;
+
+const DEFAULT_MESSAGES: Record<ErrorCode, string> = {
+  unauthenticated: "Sign in to continue.",
+  forbidden: "Your role does not allow this.",
+  not_found: "Not found.",
+  conflict: "This conflicts with the current state; reload and try again.",
+  invalid: "The request is not valid.",
+  unavailable: "A service this needs is not available right now; try again shortly.",
+  internal: "Something went wrong on our side. The error has been logged.",
+};
+
+export class AppError extends Error {
+  readonly code: ErrorCode;
+  readonly fieldErrors?: Record<string, string[]>;
+
+  constructor(code: ErrorCode, message?: string, options?: { cause?: unknown; fieldErrors?: Record<string, string[]> }) {
+    super(message ?? DEFAULT_MESSAGES[code], { cause: options?.cause });
+    this.name = "AppError";
+    this.code = code;
+    this.fieldErrors = options?.fieldErrors;
+  }
+
+  get status(): number {
+    return ERROR_STATUS[this.code];
+  }
+}
+
+export function isAppError(e: unknown): e is AppError {
+  return e instanceof AppError;
+}
+
+/** Turns anything thrown into an AppError; unknown errors become "internal" and are logged. */
+export function toAppError(e: unknown, context = "request"): AppError {
+  if (e instanceof AppError) return e;
+  console.error(`[tributary] ${context} failed:`, e);
+  return new AppError("internal", undefined, { cause: e });
+}
