@@ -1,0 +1,186 @@
+/**
+ * The demo scenario's batch files, generated (all invented): plot results from the
+ * Lowmoor Valley farms and home results from the heat-pump installers, some clean and
+ * some with the defects providers really send.
+ */
+import { BARLEY_VARIETIES, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES, INSULATION_BANDS, SOIL_TYPES } from "./plans";
+
+export interface DemoBatch {
+  organisationSlug: string;
+  studySlug: string;
+  title: string;
+  fileName: string;
+  /** what this file is meant to show in the demo */
+  shows: string;
+  csv: string;
+}
+
+/** A small seeded generator (mulberry32), so the demo is the same every time. */
+export function rng(seed: number) {
+  let a = seed >>> 0;
+  const next = () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+  const normal = () => {
+    const u = Math.max(next(), 1e-12);
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * next());
+  };
+  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(next() * xs.length)] as T;
+  return { next, normal, pick };
+}
+
+const round = (x: number, d: number) => Number(x.toFixed(d));
+
+const BARLEY_HEADER = [
+  "plot_id", "harvest_date", "farm_plot_note", "yield_t_ha", "nitrogen_kg_ha", "irrigation_mm", "rainfall_mm",
+  "total_water_mm", "soil", "variety", "sowing_doy", "plant_density", "organic_matter_pct",
+] as const;
+type BarleyRow = Record<(typeof BARLEY_HEADER)[number], string | number>;
+
+const SOIL_EFFECT: Record<string, number> = { loam: 0, clay: -0.35, sand: -0.6, silt: 0.15 };
+const VARIETY_EFFECT = [0, 0.3, -0.2, 0.45];
+
+/** One season of invented plot results for a farm. */
+export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow[] {
+  const r = rng(seed);
+  const rows: BarleyRow[] = [];
+  for (let i = 0; i < n; i++) {
+    const nitrogen = round(20 + r.next() * 200, 0);
+    const irrigation = round(Math.max(0, 60 + r.normal() * 35), 1);
+    const rainfall = round(Math.min(690, Math.max(80, 260 + r.normal() * 70)), 1);
+    // the plot gauge: what reached the plot, close to but not exactly irrigation + rainfall
+    const totalWater = round(irrigation + rainfall - 15 + r.normal() * 12, 1);
+    const soil = r.pick(SOIL_TYPES);
+    const vi = Math.floor(r.next() * BARLEY_VARIETIES.length);
+    const sowing = Math.round(70 + r.next() * 45);
+    const density = round(220 + r.normal() * 40, 0);
+    const om = round(Math.max(0.8, 3.2 + r.normal() * 1.1), 2);
+    const y =
+      2.2 + 0.016 * nitrogen - 0.00003 * nitrogen * nitrogen + 0.004 * irrigation + 0.0035 * rainfall +
+      (SOIL_EFFECT[soil] ?? 0) + (VARIETY_EFFECT[vi] ?? 0) - 0.012 * (sowing - 90) + 0.002 * (density - 220) + 0.12 * om +
+      r.normal() * 0.45;
+    const day = 200 + Math.floor(r.next() * 30);
+    const date = new Date(Date.UTC(2026, 0, day)).toISOString().slice(0, 10);
+    rows.push({
+      plot_id: `${farmCode}-${String(i + 1).padStart(3, "0")}`,
+      harvest_date: date,
+      farm_plot_note: r.next() < 0.08 ? "headland, some lodging" : "",
+      yield_t_ha: round(Math.max(0.5, y), 2),
+      nitrogen_kg_ha: nitrogen,
+      irrigation_mm: irrigation,
+      rainfall_mm: rainfall,
+      total_water_mm: totalWater,
+      soil,
+      variety: BARLEY_VARIETIES[vi] as string,
+      sowing_doy: sowing,
+      plant_density: density,
+      organic_matter_pct: om,
+    });
+  }
+  return rows;
+}
+
+function quote(v: string | number, delimiter: string): string {
+  const s = String(v);
+  return s.includes(delimiter) || s.includes('"') || s.includes("\n") ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export function toCsv<T extends Record<string, string | number>>(header: readonly (keyof T & string)[], rows: T[], delimiter = ","): string {
+  const lines = [header.join(delimiter)];
+  for (const row of rows) lines.push(header.map((h) => quote(row[h] ?? "", delimiter)).join(delimiter));
+  return lines.join("\n") + "\n";
+}
+
+/** The barley batches of the demo, one per farm, each with its story. */
+export function barleyBatches(): DemoBatch[] {
+  const h = BARLEY_HEADER;
+  const clean1 = barleyRows("HG", 180, 101);
+
+  // level spelling variants and a total_water column the farm computed as irrigation + rainfall
+  const fennick = barleyRows("FH", 160, 202).map((row, i) => ({
+    ...row,
+    soil: row.soil === "clay" ? (i % 3 === 0 ? "Clay" : i % 3 === 1 ? "clay " : "clay") : row.soil,
+    total_water_mm: round(Number(row.irrigation_mm) + Number(row.rainfall_mm), 1),
+  }));
+
+  // a third of irrigation missing
+  const bracken = barleyRows("BR", 150, 303).map((row, i) => (i % 3 === 1 ? { ...row, irrigation_mm: "" } : row));
+
+  // too small for the model
+  const otter = barleyRows("OM", 14, 404);
+
+  // semicolons with decimal commas, and -999 for plant density not counted
+  const salt = barleyRows("SE", 140, 505).map((row, i) => ({
+    ...row,
+    plant_density: i % 11 === 4 ? -999 : row.plant_density,
+  }));
+  const saltCsv = toCsv(h, salt, ";").replace(/(\d)\.(\d)/g, "$1,$2");
+
+  const coldwell = barleyRows("CW", 240, 606);
+
+  const study = "barley-nitrogen";
+  return [
+    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, spring 2026", fileName: "harrowgate-2026.csv", shows: "a clean batch", csv: toCsv(h, clean1) },
+    { organisationSlug: "fennick-hill", studySlug: study, title: "Fennick Hill plots, spring 2026", fileName: "fennick-hill-2026.csv", shows: "level spelling variants (Clay, clay ) and total_water_mm = irrigation_mm + rainfall_mm", csv: toCsv(h, fennick) },
+    { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing", csv: toCsv(h, bracken) },
+    { organisationSlug: "otterburn-mill", studySlug: study, title: "Otterburn Mill plots, spring 2026", fileName: "otterburn-mill-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
+    { organisationSlug: "saltmarsh-end", studySlug: study, title: "Saltmarsh End plots, spring 2026", fileName: "saltmarsh-end-2026.csv", shows: "decimal commas and -999 sentinels", csv: saltCsv },
+    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell) },
+  ];
+}
+
+const HEAT_HEADER = [
+  "property_ref", "install_date", "installer_note", "annual_kwh_saved", "floor_area_m2", "pre_retrofit_kwh",
+  "heat_pump_type", "insulation_band", "building_age_band", "household_size", "occupancy_hours",
+] as const;
+type HeatRow = Record<(typeof HEAT_HEADER)[number], string | number>;
+
+export function heatPumpRows(prefix: string, n: number, seed: number): HeatRow[] {
+  const r = rng(seed);
+  const rows: HeatRow[] = [];
+  for (let i = 0; i < n; i++) {
+    const area = round(Math.max(30, 95 + r.normal() * 30), 1);
+    const pre = round(Math.max(2500, area * 120 + r.normal() * 2500), 0);
+    const type = r.pick(HEAT_PUMP_TYPES);
+    const band = r.pick(INSULATION_BANDS);
+    const age = r.pick(BUILDING_AGE_BANDS);
+    const hh = Math.max(1, Math.min(7, Math.round(2.4 + r.normal() * 1.2)));
+    const occ = round(Math.min(24, Math.max(4, 14 + r.normal() * 4)), 1);
+    const saved = 0.35 * pre + (type === "ground" ? 900 : type === "hybrid" ? -400 : 0) - 60 * INSULATION_BANDS.indexOf(band) + 35 * (occ - 14) + r.normal() * 1100;
+    rows.push({
+      property_ref: `${prefix}${String(10000 + i)}`,
+      install_date: new Date(Date.UTC(2025, 3, 1 + Math.floor(r.next() * 200))).toISOString().slice(0, 10),
+      installer_note: "",
+      annual_kwh_saved: round(saved, 0),
+      floor_area_m2: area,
+      pre_retrofit_kwh: pre,
+      heat_pump_type: type,
+      insulation_band: band,
+      building_age_band: age,
+      household_size: hh,
+      occupancy_hours: occ,
+    });
+  }
+  return rows;
+}
+
+export function heatPumpBatches(): DemoBatch[] {
+  return [
+    {
+      organisationSlug: "greenhearth",
+      studySlug: "heat-pump-savings",
+      title: "Greenhearth retrofits, 2025 installs",
+      fileName: "greenhearth-2025.csv",
+      shows: "a clean batch under stricter thresholds",
+      csv: toCsv(HEAT_HEADER, heatPumpRows("GH-", 260, 707)),
+    },
+  ];
+}
+
+export function demoBatches(): DemoBatch[] {
+  return [...barleyBatches(), ...heatPumpBatches()];
+}
