@@ -1,0 +1,233 @@
+"use client";
+
+import { useId, useMemo, useState, type ReactNode } from "react";
+import { Table, Header, HeaderRow, Body, Row, Cell, HeaderCell } from "@table-library/react-table-library/table";
+import { useSort, HeaderCellSort } from "@table-library/react-table-library/sort";
+import { useTheme } from "@table-library/react-table-library/theme";
+import type { TableNode } from "@table-library/react-table-library/types/table";
+import { toCsv } from "@/lib/format";
+import { Button } from "@/components/ui/button";
+import { inputClass } from "@/components/ui/input";
+import { cx } from "@/components/ui/cx";
+
+type CellValue = string | number | boolean | Date | null | undefined;
+
+export type Column<T> = {
+  key: string;
+  header: string;
+  /** the raw value: used to sort, filter and write the CSV */
+  value: (row: T) => CellValue;
+  /** how the cell is drawn (defaults to the value as text) */
+  render?: (row: T) => ReactNode;
+  /** numbers line up on the right with tabular figures */
+  numeric?: boolean;
+  /** CSS grid track, e.g. "minmax(8rem, 2fr)" or "7rem" */
+  width?: string;
+  sortable?: boolean;
+};
+
+type Props<T extends TableNode> = {
+  rows: T[];
+  columns: Column<T>[];
+  /** accessible name of the table, also the start of the CSV file name */
+  caption: string;
+  csvName?: string;
+  filterPlaceholder?: string;
+  empty?: ReactNode;
+  toolbar?: ReactNode;
+};
+
+function comparable(v: CellValue): string | number {
+  if (v === null || v === undefined) return "";
+  if (v instanceof Date) return v.getTime();
+  if (typeof v === "boolean") return v ? 1 : 0;
+  return v;
+}
+
+function compare(a: CellValue, b: CellValue): number {
+  const x = comparable(a);
+  const y = comparable(b);
+  // empty values sort last in ascending order
+  if (x === "" && y !== "") return 1;
+  if (y === "" && x !== "") return -1;
+  if (typeof x === "number" && typeof y === "number") return x - y;
+  return String(x).localeCompare(String(y), "en", { numeric: true, sensitivity: "base" });
+}
+
+function asText(v: CellValue): string {
+  if (v === null || v === undefined) return "";
+  if (v instanceof Date) return v.toISOString();
+  return String(v);
+}
+
+const SortIcon = ({ dir }: { dir: "none" | "up" | "down" }) => (
+  <svg width="9" height="12" viewBox="0 0 9 12" aria-hidden="true" className="shrink-0">
+    <path d="M4.5 1 L8 5 H1 Z" fill={dir === "up" ? "#1F6F78" : "#C9C1B1"} />
+    <path d="M4.5 11 L8 7 H1 Z" fill={dir === "down" ? "#1F6F78" : "#C9C1B1"} />
+  </svg>
+);
+
+/**
+ * Every table of the product: sorts on each column, filters on text, downloads what is
+ * shown (filtered and sorted) as CSV with formula-safe cells.
+ */
+export function DataTable<T extends TableNode>({
+  rows,
+  columns,
+  caption,
+  csvName,
+  filterPlaceholder = "Filter rows",
+  empty,
+  toolbar,
+}: Props<T>) {
+  const [query, setQuery] = useState("");
+  const filterId = useId();
+
+  const filtered = useMemo(() => {
+    const q = query.trim().toLowerCase();
+    if (!q) return rows;
+    return rows.filter((r) => columns.some((c) => asText(c.value(r)).toLowerCase().includes(q)));
+  }, [rows, columns, query]);
+
+  const data = useMemo(() => ({ nodes: filtered }), [filtered]);
+
+  const sortFns = useMemo(() => {
+    const fns: Record<string, (nodes: TableNode[]) => TableNode[]> = {};
+    for (const c of columns) {
+      if (c.sortable === false) continue;
+      fns[c.key] = (nodes) => [...nodes].sort((a, b) => compare(c.value(a as T), c.value(b as T)));
+    }
+    return fns;
+  }, [columns]);
+
+  const sort = useSort(
+    data,
+    {},
+    {
+      sortFns,
+      sortIcon: {
+        margin: "0 0 0 4px",
+        iconDefault: <SortIcon dir="none" />,
+        iconUp: <SortIcon dir="up" />,
+        iconDown: <SortIcon dir="down" />,
+      },
+    },
+  );
+
+  const template = columns.map((c) => c.width ?? (c.numeric ? "minmax(6rem, 1fr)" : "minmax(9rem, 2fr)")).join(" ");
+  const theme = useTheme({
+    Table: `--data-table-library_grid-template-columns: ${template}; font-size: 0.8125rem; line-height: 1.25rem;`,
+    HeaderRow: `background: #EFEADF; color: #12262E;`,
+    HeaderCell: `font-weight: 600; padding: 7px 10px; border-bottom: 1px solid #8A8170; text-align: left;
+      & button { font-weight: 600; color: #12262E; }
+      & > div { white-space: normal; }`,
+    Row: `background: #FFFFFF; color: #12262E;
+      &:nth-of-type(even) { background: #FBF9F5; }
+      &:hover { background: #E9F3F2; }`,
+    Cell: `padding: 7px 10px; border-bottom: 1px solid #E2DCCF; & > div { white-space: normal; overflow-wrap: anywhere; }`,
+  });
+
+  const sortState = sort.state as { sortKey?: string; reverse?: boolean };
+  const visible = useMemo(() => {
+    const fn = sortState.sortKey ? sortFns[sortState.sortKey] : undefined;
+    if (!fn) return filtered;
+    const s = fn(filtered) as T[];
+    return sortState.reverse ? s.reverse() : s;
+  }, [filtered, sortFns, sortState.sortKey, sortState.reverse]);
+
+  function download() {
+    const csv = toCsv(
+      columns.map((c) => c.header),
+      visible.map((r) => columns.map((c) => c.value(r))),
+    );
+    const blob = new Blob([csv], { type: "text/csv;charset=utf-8" });
+    const url = URL.createObjectURL(blob);
+    const a = document.createElement("a");
+    a.href = url;
+    a.download = `${csvName ?? caption.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "")}.csv`;
+    document.body.appendChild(a);
+    a.click();
+    a.remove();
+    setTimeout(() => URL.revokeObjectURL(url), 1000);
+  }
+
+  return (
+    <div className="flex flex-col gap-2">
+      <div className="flex flex-wrap items-center gap-2">
+        <label htmlFor={filterId} className="sr-only">
+          Filter {caption}
+        </label>
+        <input
+          id={filterId}
+          type="search"
+          value={query}
+          onChange={(e) => setQuery(e.target.value)}
+          placeholder={filterPlaceholder}
+          className={cx(inputClass, "h-8 w-64 text-sm")}
+        />
+        <p className="text-sm text-silt-ink tabular" aria-live="polite">
+          {filtered.length === rows.length
+            ? `${rows.length} ${rows.length === 1 ? "row" : "rows"}`
+            : `${filtered.length} of ${rows.length} rows`}
+        </p>
+        <div className="ml-auto flex items-center gap-2">
+          {toolbar}
+          <Button variant="secondary" size="sm" onClick={download} disabled={visible.length === 0}>
+            Download CSV
+          </Button>
+        </div>
+      </div>
+      {rows.length === 0 && empty ? (
+        empty
+      ) : (
+        <div className="overflow-x-auto rounded border border-silt-line">
+          <Table data={data} sort={sort} theme={theme} layout={{ custom: true, horizontalScroll: true }} aria-label={caption}>
+            {(tableList: T[]) => (
+              <>
+                <Header>
+                  <HeaderRow>
+                    {columns.map((c) =>
+                      c.sortable === false ? (
+                        <HeaderCell key={c.key} className={c.numeric ? "text-right" : undefined}>
+                          {c.header}
+                        </HeaderCell>
+                      ) : (
+                        <HeaderCellSort
+                          key={c.key}
+                          sortKey={c.key}
+                          aria-sort={
+                            sortState.sortKey === c.key ? (sortState.reverse ? "descending" : "ascending") : "none"
+                          }
+                        >
+                          {c.header}
+                        </HeaderCellSort>
+                      ),
+                    )}
+                  </HeaderRow>
+                </Header>
+                <Body>
+                  {tableList.map((row) => (
+                    <Row key={row.id} item={row}>
+                      {columns.map((c) => (
+                        <Cell key={c.key} className={c.numeric ? "num" : undefined}>
+                          {c.render ? c.render(row) : asText(c.value(row))}
+                        </Cell>
+                      ))}
+                    </Row>
+                  ))}
+                  {tableList.length === 0 ? (
+                    <tr className="col-span-full">
+                      <td className="px-3 py-4 text-center text-sm text-silt-ink" style={{ gridColumn: "1 / -1" }}>
+                        No rows match “{query}”.
+                      </td>
+                    </tr>
+                  ) : null}
+                </Body>
+              </>
+            )}
+          </Table>
+        </div>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,52 @@
+import { BATCH_STATE_ORDER, batchStateLabel, formatCount } from "@/lib/format";
+import type { BatchState } from "@/db/schema";
+
+/** Fill of each state in the ledger bar; the word beside each count carries the meaning too. */
+export const STATE_FILL: Record<BatchState, string> = {
+  received: "#B9B09E",
+  checking: "#5FB1B8",
+  ready: "#4A5D78",
+  accepted: "#4F7A32",
+  bounced: "#A63D24",
+  superseded: "#DDD6C8",
+  unreadable: "#A8660B",
+};
+
+/**
+ * Batches by state as one bar (widths ∝ counts, in the order a batch moves) with the
+ * counts written out beneath it — a small picture of the intake flow.
+ */
+export function StateLedger({ counts, label }: { counts: Record<BatchState, number>; label: string }) {
+  const total = BATCH_STATE_ORDER.reduce((a, s) => a + (counts[s] ?? 0), 0);
+  return (
+    <figure className="max-w-4xl" aria-label={label}>
+      {total > 0 ? (
+        <div className="flex h-3 w-full overflow-hidden rounded-sm bg-sand-deep" aria-hidden="true">
+          {BATCH_STATE_ORDER.filter((s) => counts[s] > 0).map((s) => (
+            <div
+              key={s}
+              title={`${batchStateLabel(s)}: ${counts[s]}`}
+              style={{ width: `${(100 * counts[s]) / total}%`, background: STATE_FILL[s] }}
+              className="h-full border-r border-white last:border-r-0"
+            />
+          ))}
+        </div>
+      ) : (
+        <div className="h-3 w-full rounded-sm border border-dashed border-silt" aria-hidden="true" />
+      )}
+      <dl className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-sm">
+        {BATCH_STATE_ORDER.map((s) => (
+          <div key={s} className="flex items-center gap-1.5" data-state={s}>
+            <span aria-hidden="true" className="inline-block h-2.5 w-2.5 rounded-[2px]" style={{ background: STATE_FILL[s] }} />
+            <dt className="text-ink-soft">{batchStateLabel(s)}</dt>
+            <dd className={`tabular font-semibold ${counts[s] ? "text-ink" : "text-silt-ink"}`}>{formatCount(counts[s] ?? 0)}</dd>
+          </div>
+        ))}
+        <div className="flex items-center gap-1.5 border-l border-silt-line pl-5">
+          <dt className="text-ink-soft">All batches</dt>
+          <dd className="tabular font-semibold">{formatCount(total)}</dd>
+        </div>
+      </dl>
+    </figure>
+  );
+}
