@@ -17,6 +17,7 @@ export const BARLEY_PLAN: PlanInput = {
     { name: "nitrogen_kg_ha", role: "predictor", type: "number", min: 0, max: 250, description: "nitrogen applied, kg N per hectare" },
     { name: "irrigation_mm", role: "predictor", type: "number", min: 0, max: 300, description: "irrigation over the season, mm" },
     { name: "rainfall_mm", role: "predictor", type: "number", min: 50, max: 700, description: "rainfall from sowing to harvest, mm" },
+    { name: "total_water_mm", role: "predictor", type: "number", min: 0, max: 1000, description: "water that reached the plot over the season by the plot gauge, mm" },
     { name: "soil", role: "predictor", type: "category", levels: [...SOIL_TYPES], baseline: "loam", description: "dominant soil texture of the plot" },
     { name: "variety", role: "predictor", type: "category", levels: [...BARLEY_VARIETIES], baseline: "Halden Gold", description: "cultivar sown" },
     { name: "sowing_doy", role: "predictor", type: "integer", min: 32, max: 150, description: "sowing date as day of the year" },
