@@ -1,6 +1,6 @@
 /**
  * The readiness report: the engine's output for one batch version or for a pool.
- * A documented, versioned JSON format (see docs in README "Report format").
+ * A documented, versioned JSON format: lib/readiness/REPORT-FORMAT.md.
  * Field names here are relied on by the app, the API and outside scripts: change them
  * only with a new REPORT_FORMAT version.
  */
@@ -34,6 +34,8 @@ export interface ColumnReport {
   missing: { count: number; fraction: number };
   levels?: { level: string; count: number }[];
   summary?: { min: number; q1: number; median: number; q3: number; max: number; mean: number; sd: number };
+  /** how q1/median/q3 were found: from every value, or from a bounded sample (see REPORT-FORMAT.md) */
+  quartiles?: "exact" | "sample";
 }
 
 export interface TermReport {

@@ -1,0 +1,210 @@
+/**
+ * Small streaming accumulators with memory bounded independently of the row count.
+ */
+
+/** A count of rows with the first `cap` row numbers kept as evidence. */
+export class RowSample {
+  count = 0;
+  rows: number[] = [];
+  constructor(private cap: number) {}
+  add(line: number): void {
+    this.count++;
+    if (this.rows.length < this.cap) this.rows.push(line);
+  }
+}
+
+/** Welford running moments; merge by Chan et al. (1979) pairwise update. */
+export interface MomentsJSON {
+  n: number;
+  mean: number;
+  m2: number;
+  min: number;
+  max: number;
+}
+
+export class Moments {
+  n = 0;
+  mean = 0;
+  m2 = 0;
+  min = Infinity;
+  max = -Infinity;
+  add(x: number): void {
+    this.n++;
+    const d = x - this.mean;
+    this.mean += d / this.n;
+    this.m2 += d * (x - this.mean);
+    if (x < this.min) this.min = x;
+    if (x > this.max) this.max = x;
+  }
+  merge(o: MomentsJSON): void {
+    if (o.n === 0) return;
+    if (this.n === 0) {
+      Object.assign(this, { n: o.n, mean: o.mean, m2: o.m2, min: o.min, max: o.max });
+      return;
+    }
+    const n = this.n + o.n;
+    const d = o.mean - this.mean;
+    this.m2 += o.m2 + (d * d * this.n * o.n) / n;
+    this.mean += (d * o.n) / n;
+    this.n = n;
+    this.min = Math.min(this.min, o.min);
+    this.max = Math.max(this.max, o.max);
+  }
+  /** sample standard deviation (divisor n − 1) */
+  get sd(): number {
+    return this.n > 1 ? Math.sqrt(this.m2 / (this.n - 1)) : 0;
+  }
+  toJSON(): MomentsJSON {
+    return { n: this.n, mean: this.mean, m2: this.m2, min: this.min, max: this.max };
+  }
+  static fromJSON(j: MomentsJSON): Moments {
+    const m = new Moments();
+    m.merge(j);
+    return m;
+  }
+}
+
+/** Deterministic 32-bit generator (mulberry32) so reports are reproducible. */
+export function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/**
+ * Values for quartiles. Exact while the column has at most `cap` values (all are kept);
+ * beyond that a uniform reservoir sample of `cap` values (Vitter's algorithm R), whose
+ * quartiles are an approximation with standard error about 0.87·IQR/√cap.
+ */
+export class QuantileStore {
+  private buf: Float64Array;
+  private len = 0;
+  seen = 0;
+  private rnd = mulberry32(0x5eed);
+  constructor(private cap: number) {
+    this.buf = new Float64Array(Math.min(cap, 1024));
+  }
+  add(x: number): void {
+    this.seen++;
+    if (this.len < this.cap) {
+      if (this.len === this.buf.length) {
+        const b = new Float64Array(Math.min(this.cap, this.buf.length * 2));
+        b.set(this.buf);
+        this.buf = b;
+      }
+      this.buf[this.len++] = x;
+    } else {
+      const j = Math.floor(this.rnd() * this.seen);
+      if (j < this.cap) this.buf[j] = x;
+    }
+  }
+  get exact(): boolean {
+    return this.seen <= this.cap;
+  }
+  /** Sorted copy of the kept values. */
+  sorted(): Float64Array {
+    return this.buf.slice(0, this.len).sort();
+  }
+  /** A uniform sub-sample of at most m kept values (for the pool state). */
+  sample(m: number): number[] {
+    if (this.len <= m) return Array.from(this.buf.subarray(0, this.len));
+    const s = this.sorted();
+    const out: number[] = [];
+    for (let i = 0; i < m; i++) out.push(s[Math.floor(((i + 0.5) * s.length) / m)]!);
+    return out;
+  }
+}
+
+/** Quantile by R's default definition (type 7): linear interpolation between order statistics. */
+export function quantile(sorted: ArrayLike<number>, p: number): number {
+  const n = sorted.length;
+  if (n === 0) return NaN;
+  const h = (n - 1) * p;
+  const lo = Math.floor(h);
+  const hi = Math.min(n - 1, lo + 1);
+  return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
+}
+
+/**
+ * A set of 64-bit hashes in open addressing, for duplicate rows and keys: 12 bytes per slot
+ * (two 32-bit hash halves and the first row's line), kept at most half full, so about
+ * 24 bytes per distinct row; it stops growing at `maxEntries` and then says so.
+ */
+export class HashSet64 {
+  private hi: Uint32Array;
+  private lo: Uint32Array;
+  private line: Uint32Array;
+  size = 0;
+  full = false;
+  constructor(private maxEntries: number) {
+    this.hi = new Uint32Array(1024);
+    this.lo = new Uint32Array(1024);
+    this.line = new Uint32Array(1024);
+  }
+  /** Insert; returns the line of an earlier equal entry, 0 when new (or when the set is full). */
+  addOrGet(h1: number, h2: number, line: number): number {
+    if (h1 === 0 && h2 === 0) h2 = 1;
+    const mask = this.hi.length - 1;
+    let i = (h1 ^ Math.imul(h2, 0x9e3779b1)) & mask;
+    for (;;) {
+      const a = this.hi[i]!;
+      const b = this.lo[i]!;
+      if (a === 0 && b === 0) break;
+      if (a === h1 >>> 0 && b === h2 >>> 0) return this.line[i]!;
+      i = (i + 1) & mask;
+    }
+    if (this.size >= this.maxEntries) {
+      this.full = true;
+      return 0;
+    }
+    this.hi[i] = h1;
+    this.lo[i] = h2;
+    this.line[i] = line;
+    this.size++;
+    if (this.size * 2 > this.hi.length) this.grow();
+    return 0;
+  }
+  private grow(): void {
+    const { hi, lo, line } = this;
+    const cap = hi.length * 2;
+    this.hi = new Uint32Array(cap);
+    this.lo = new Uint32Array(cap);
+    this.line = new Uint32Array(cap);
+    const mask = cap - 1;
+    for (let k = 0; k < hi.length; k++) {
+      const a = hi[k]!;
+      const b = lo[k]!;
+      if (a === 0 && b === 0) continue;
+      let i = (a ^ Math.imul(b, 0x9e3779b1)) & mask;
+      while (this.hi[i] !== 0 || this.lo[i] !== 0) i = (i + 1) & mask;
+      this.hi[i] = a;
+      this.lo[i] = b;
+      this.line[i] = line[k]!;
+    }
+  }
+  get bytes(): number {
+    return this.hi.length * 12;
+  }
+}
+
+/** Two independent 32-bit string hashes (FNV-1a and a multiplicative one), fed field by field. */
+export function hashFields(fields: string[], from = 0, to = fields.length): [number, number] {
+  let a = 0x811c9dc5;
+  let b = 0x12345678;
+  for (let j = from; j < to; j++) {
+    const s = fields[j]!;
+    for (let i = 0; i < s.length; i++) {
+      const c = s.charCodeAt(i);
+      a = Math.imul(a ^ c, 0x01000193);
+      b = Math.imul(b + c, 0x5bd1e995) ^ (b >>> 13);
+    }
+    a = Math.imul(a ^ 0x1f, 0x01000193);
+    b = Math.imul(b + 0x1f, 0x5bd1e995) ^ (b >>> 13);
+  }
+  return [a >>> 0, b >>> 0];
+}

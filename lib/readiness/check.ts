@@ -1,0 +1,127 @@
+/**
+ * checkBatch: one streaming pass over a batch file, then the report.
+ */
+import { quantile } from "./accumulators";
+import { analyse, type Summary } from "./analyse";
+import { readCsv, type ByteInput, type CsvLimits } from "./csv-reader";
+import { UnreadableError } from "./decode";
+import { buildDesign, predictorsOf } from "./design";
+import { countFindings, finding, sortFindings } from "./findings";
+import type { Evidence } from "./findings-data";
+import { rowFindings } from "./findings-rows";
+import { thresholdsOf, type Plan } from "./plan";
+import { REPORT_FORMAT, type ReadinessReport } from "./report";
+import { Scan } from "./scan";
+import { stateOf } from "./state";
+
+/** Version of the engine's checks; part of every report and state. */
+export const ENGINE_VERSION = "1.0.0";
+
+export interface CheckOptions {
+  onProgress?: (p: { rows: number; bytes: number }) => void;
+  fileName?: string;
+  /** tighter or looser reading limits (tests) */
+  limits?: Partial<CsvLimits>;
+}
+
+function canonical(v: unknown): string {
+  if (Array.isArray(v)) return `[${v.map(canonical).join(",")}]`;
+  if (v && typeof v === "object") {
+    return `{${Object.keys(v)
+      .filter((k) => (v as Record<string, unknown>)[k] !== undefined)
+      .sort()
+      .map((k) => `${JSON.stringify(k)}:${canonical((v as Record<string, unknown>)[k])}`)
+      .join(",")}}`;
+  }
+  return JSON.stringify(v);
+}
+
+/** sha-256 (hex) of the plan's canonical JSON (keys sorted), through Web Crypto. */
+export async function hashPlan(plan: Plan): Promise<string> {
+  const bytes = new TextEncoder().encode(canonical(plan));
+  const digest = await globalThis.crypto.subtle.digest("SHA-256", bytes);
+  return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, "0")).join("");
+}
+
+const now = () => (typeof performance !== "undefined" ? performance.now() : Date.now());
+
+function emptyModel(plan: Plan): ReadinessReport["model"] {
+  const t = thresholdsOf(plan);
+  const d = buildDesign(plan, predictorsOf(plan));
+  return { parameters: d.columns.length - (plan.intercept ? 1 : 0), residualDf: 0, perParameter: null, terms: d.terms, dfTarget: t.dfTarget ?? t.dfFloor };
+}
+
+/** The report of a file that cannot be read: status "unreadable" and one blocker saying why. */
+export function unreadableReport(plan: Plan, planHash: string, e: UnreadableError, bytes: number | null, ms: number): ReadinessReport {
+  const findings = [finding("file.unreadable", "blocker", [], e.message, e.fix, { detail: e.detail })];
+  return {
+    format: REPORT_FORMAT,
+    status: "unreadable",
+    engineVersion: ENGINE_VERSION,
+    planHash,
+    ...(bytes !== null ? { file: { bytes, encoding: "unknown", delimiter: "", decimal: "." as const } } : {}),
+    rows: { total: 0, complete: 0 },
+    model: emptyModel(plan),
+    columns: [],
+    missingness: { patterns: [] },
+    collinearity: null,
+    fit: null,
+    findings,
+    counts: countFindings(findings),
+    timings: { ms },
+  };
+}
+
+/**
+ * Check one batch file against a data plan: one pass over the bytes in bounded memory, then
+ * every finding of CHECKS.md. Never throws for a bad file: it returns an "unreadable" report.
+ */
+export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOptions = {}): Promise<ReadinessReport> {
+  const t0 = now();
+  const planHash = await hashPlan(plan);
+  const t = thresholdsOf(plan);
+  const scan = new Scan(plan);
+  let read: Awaited<ReturnType<typeof readCsv>>;
+  try {
+    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits });
+  } catch (e) {
+    if (e instanceof UnreadableError) return unreadableReport(plan, planHash, e, null, now() - t0);
+    throw e;
+  }
+  const state = stateOf(scan, ENGINE_VERSION, planHash);
+  const evidence: Evidence = { missingRows: new Map(), responseMissingRows: scan.responseMissing.rows, levelRows: new Map() };
+  const summaries = new Map<string, { summary: Summary; exact: boolean }>();
+  for (const c of scan.cols) {
+    if (!evidence.missingRows.has(c.name)) evidence.missingRows.set(c.name, c.missing.rows);
+    if (c.levels && c.plan?.type === "category") evidence.levelRows.set(c.name, new Map([...c.levels].map(([l, a]) => [l, a.rows])));
+    if (c.quant && c.moments.n > 0 && !summaries.has(c.name)) {
+      const s = c.quant.sorted();
+      const m = c.moments;
+      summaries.set(c.name, { summary: { min: m.min, q1: quantile(s, 0.25), median: quantile(s, 0.5), q3: quantile(s, 0.75), max: m.max, mean: m.mean, sd: m.sd }, exact: c.quant.exact });
+    }
+  }
+  const a = analyse(state, plan, t, { evidence, summaries });
+  const findings = sortFindings([...rowFindings(scan), ...a.findings]);
+  if (read.records === 0) {
+    findings.push(finding("file.header-only", "note", [], "The file has a header row but no data rows.", "Export the data rows too; check that the sheet was not filtered to nothing before saving.", { rows: [1] }));
+  }
+  const decimal = scan.cols.some((c) => c.comma.count > 0 && c.comma.count * 2 > c.moments.n) ? "," : ".";
+  return {
+    format: REPORT_FORMAT,
+    status: "checked",
+    engineVersion: ENGINE_VERSION,
+    planHash,
+    file: { bytes: read.bytes, encoding: read.meta?.bom ? "utf-8 (BOM)" : "utf-8", delimiter: read.meta?.delimiter ?? ",", decimal },
+    rows: a.rows,
+    model: a.model,
+    columns: a.columns,
+    missingness: a.missingness,
+    collinearity: a.collinearity,
+    fit: a.fit,
+    sampleSize: a.sampleSize,
+    findings,
+    counts: countFindings(findings),
+    state,
+    timings: { ms: now() - t0 },
+  };
+}

@@ -1,0 +1,11 @@
+/**
+ * The readiness engine: a batch file and a data plan in, the readiness report out.
+ * Framework-free; runs in Node, worker threads, browser Web Workers and the CLI.
+ */
+export { checkBatch, ENGINE_VERSION, hashPlan, type CheckOptions } from "./check";
+export { draftPlan, type DraftResult } from "./draft";
+export { poolReport, driftFindings } from "./pool";
+export { mergeStates, isEngineState, type EngineState } from "./state";
+export { parsePlan, planSchema, thresholdsOf, DEFAULT_THRESHOLDS, type Plan, type PlanInput, type PlanIssue } from "./plan";
+export { REPORT_FORMAT, type ReadinessReport, type Finding, type Severity, type ColumnReport } from "./report";
+export type { ByteInput } from "./csv-reader";

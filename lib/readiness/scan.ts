@@ -1,0 +1,218 @@
+/**
+ * The single streaming pass: header checks, per-column accumulators, the design rows of the
+ * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
+ */
+import { HashSet64, RowSample, hashFields } from "./accumulators";
+import { ColumnScan } from "./column-scan";
+import type { CsvMeta, CsvSink } from "./csv-reader";
+import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
+import { thresholdsOf, type Plan, type Thresholds } from "./plan";
+import { LeastSquares, PatternMoments } from "./stats";
+
+/** total values kept for exact quartiles across all columns (8 bytes each) */
+export const QUANTILE_BUDGET = 4_000_000;
+/** per-column bound of exact quartiles; beyond it a reservoir sample of this size */
+export const QUANTILE_COLUMN_CAP = 200_000;
+/** distinct rows (and keys) hashed for duplicate detection; about 24 bytes each */
+export const DUPLICATE_CAP = 4_000_000;
+
+export interface ModelColumn {
+  name: string;
+  /** header index, or -1 when the column is absent */
+  index: number;
+}
+
+export class Scan implements CsvSink {
+  header: string[] = [];
+  meta: CsvMeta | null = null;
+  cols: ColumnScan[] = [];
+  /** header index of each plan column name (first occurrence) */
+  index = new Map<string, number>();
+  duplicateHeaders: { name: string; positions: number[] }[] = [];
+  blankHeaders: number[] = [];
+  t: Thresholds;
+  rowsTotal = 0;
+  rowsComplete = 0;
+  ragged: RowSample;
+  raggedWidths = new Map<number, number>();
+  duplicateRows: RowSample;
+  duplicateOf: [number, number][] = [];
+  private rowSet = new HashSet64(DUPLICATE_CAP);
+  keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number> }>();
+  predictors: Predictor[];
+  design: Design;
+  private encoder: RowEncoder;
+  ls: LeastSquares;
+  response: ModelColumn | null = null;
+  model: ModelColumn[] = [];
+  private predIdx: number[] = [];
+  private levelIndex: Map<string, number>[] = [];
+  private vals: Float64Array;
+  /** model columns used in the missingness patterns: response then predictors */
+  patterns = new Map<string, number>();
+  soleUnusable: number[] = [];
+  responseMissing: RowSample;
+  pm: PatternMoments | null = null;
+  pmCols: number[] = [];
+  private pmRow: (number | null)[] = [];
+  unknownLevels: Map<string, RowSample>[] = [];
+  ready = false;
+
+  constructor(readonly plan: Plan) {
+    this.t = thresholdsOf(plan);
+    const cap = this.t.sampleRows;
+    this.ragged = new RowSample(cap);
+    this.duplicateRows = new RowSample(cap);
+    this.responseMissing = new RowSample(cap);
+    this.predictors = predictorsOf(plan);
+    this.design = buildDesign(plan, this.predictors);
+    this.encoder = new RowEncoder(plan, this.predictors, this.design);
+    this.ls = new LeastSquares(this.design.columns.length);
+    this.vals = new Float64Array(this.predictors.length);
+  }
+
+  onHeader(fields: string[], meta: CsvMeta): void {
+    this.header = fields;
+    this.meta = meta;
+    const seen = new Map<string, number[]>();
+    fields.forEach((raw, i) => {
+      const name = raw.trim();
+      if (name === "") this.blankHeaders.push(i);
+      else {
+        const l = seen.get(name);
+        if (l) l.push(i);
+        else seen.set(name, [i]);
+      }
+    });
+    for (const [name, positions] of seen) if (positions.length > 1) this.duplicateHeaders.push({ name, positions });
+    const planByName = new Map(this.plan.columns.map((c) => [c.name, c]));
+    const quantCap = Math.max(1000, Math.min(QUANTILE_COLUMN_CAP, Math.floor(QUANTILE_BUDGET / Math.max(1, fields.length))));
+    this.cols = fields.map((raw, i) => {
+      const name = raw.trim();
+      const first = seen.get(name)?.[0] === i;
+      const pc = first ? (planByName.get(name) ?? null) : null;
+      if (first && pc) this.index.set(name, i);
+      return new ColumnScan(name, pc, this.plan.missingTokens, this.t.sampleRows, quantCap);
+    });
+    for (const c of this.plan.columns) {
+      if (c.role === "key") {
+        const i = this.index.get(c.name);
+        if (i !== undefined) this.keys.set(i, { set: new HashSet64(DUPLICATE_CAP), dup: new RowSample(this.t.sampleRows), examples: new Map() });
+      }
+    }
+    const resp = this.plan.columns.find((c) => c.role === "response");
+    if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
+    this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
+    this.predIdx = this.predictors.map((p) => this.index.get(p.name) ?? -1);
+    this.levelIndex = this.predictors.map((p) => new Map(p.levels.map((l, j) => [l, j])));
+    this.unknownLevels = this.predictors.map(() => new Map());
+    this.soleUnusable = this.model.map(() => 0);
+    const numericModel = this.model.filter((m) => {
+      const c = planByName.get(m.name)!;
+      return m.index >= 0 && (c.type === "number" || c.type === "integer");
+    });
+    if (numericModel.length >= 1) {
+      this.pmCols = numericModel.map((m) => m.index);
+      this.pm = new PatternMoments(numericModel.map((m) => m.name));
+      this.pmRow = numericModel.map(() => null);
+    }
+    this.ready = this.model.every((m) => m.index >= 0) && this.response !== null;
+  }
+
+  /** A new level of an open-list category: add its indicator (and interaction) columns. */
+  private addLevel(i: number, level: string): number {
+    const p = this.predictors[i]!;
+    const from = this.design.columns;
+    p.levels.push(level);
+    this.levelIndex[i]!.set(level, p.levels.length - 1);
+    this.design = buildDesign(this.plan, this.predictors);
+    if (this.design.columns.length !== from.length) this.ls = this.ls.expandColumns(from, this.design.columns);
+    this.encoder = new RowEncoder(this.plan, this.predictors, this.design);
+    return p.levels.length - 1;
+  }
+
+  onRecords(rows: string[][], lines: number[]): void {
+    const cols = this.cols;
+    const ncol = cols.length;
+    const model = this.model;
+    const nModel = model.length;
+    for (let r = 0; r < rows.length; r++) {
+      const f = rows[r]!;
+      const line = lines[r]!;
+      if (f.length !== ncol) {
+        this.ragged.add(line);
+        this.raggedWidths.set(f.length, (this.raggedWidths.get(f.length) ?? 0) + 1);
+        continue;
+      }
+      this.rowsTotal++;
+      for (let j = 0; j < ncol; j++) cols[j]!.read(f[j]!, line);
+      const [h1, h2] = hashFields(f);
+      const prev = this.rowSet.addOrGet(h1, h2, line);
+      if (prev) {
+        this.duplicateRows.add(line);
+        if (this.duplicateOf.length < this.t.sampleRows) this.duplicateOf.push([line, prev]);
+      }
+      for (const [k, key] of this.keys) {
+        if (cols[k]!.status !== 1) continue;
+        const [a, b] = hashFields(f, k, k + 1);
+        if (key.set.addOrGet(a, b, line)) {
+          key.dup.add(line);
+          const v = f[k]!;
+          if (key.examples.size < 10 || key.examples.has(v)) key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
+        }
+      }
+      if (!this.ready) continue;
+      // the planned model: complete cases, patterns, least squares
+      let unusable = 0;
+      let sole = -1;
+      let mask = "";
+      for (let m = 0; m < nModel; m++) {
+        const c = cols[model[m]!.index]!;
+        let ok = c.status === 1;
+        if (m > 0 || !this.response) {
+          const pi = this.response ? m - 1 : m;
+          const p = this.predictors[pi]!;
+          if (ok && p.kind === "category") {
+            const s = f[this.predIdx[pi]!]!;
+            let li = this.levelIndex[pi]!.get(s);
+            if (li === undefined) {
+              if (p.open) li = this.addLevel(pi, s);
+              else {
+                ok = false;
+                let u = this.unknownLevels[pi]!.get(s);
+                if (!u && this.unknownLevels[pi]!.size < 1000) this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
+                u?.add(line);
+              }
+            }
+            this.vals[pi] = li ?? -1;
+          } else this.vals[pi] = c.value;
+        }
+        if (nModel <= 64) mask += c.status === 0 ? "1" : "0";
+        if (!ok) {
+          unusable++;
+          sole = m;
+        }
+      }
+      if (this.response && cols[this.response.index]!.status === 0) this.responseMissing.add(line);
+      if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
+      if (this.pm) {
+        for (let q = 0; q < this.pmCols.length; q++) {
+          const c = cols[this.pmCols[q]!]!;
+          this.pmRow[q] = c.status === 1 ? c.value : null;
+        }
+        this.pm.addRow(this.pmRow);
+      }
+      if (unusable === 1) this.soleUnusable[sole]!++;
+      if (unusable > 0) continue;
+      this.rowsComplete++;
+      for (let pi = 0; pi < this.predictors.length; pi++) {
+        if (this.predictors[pi]!.kind === "category") {
+          const acc = cols[this.predIdx[pi]!]!.levels!.get(f[this.predIdx[pi]!]!);
+          if (acc) acc.complete++;
+        }
+      }
+      const y = this.response ? cols[this.response.index]!.value : 0;
+      this.ls.addRow(this.encoder.encode(this.vals), y);
+    }
+  }
+}

@@ -1,0 +1,93 @@
+/**
+ * Reading single values: numbers (with decimal-comma detection), booleans, dates, and the
+ * folding used to spot level spelling variants.
+ */
+
+const DECIMAL_COMMA = /^[+-]?(\d{1,3}(\.\d{3})+|\d+),\d+$|^[+-]?\d+,\d+([eE][+-]?\d+)?$/;
+const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
+
+/**
+ * Parse a number written with a decimal point; NaN when it is not one. Leading and trailing
+ * spaces are allowed; hex, `Infinity` and thousands separators are not.
+ */
+export function readNumber(s: string): number {
+  const n = s.length;
+  if (n === 0) return NaN;
+  const c0 = s.charCodeAt(0);
+  const cl = s.charCodeAt(n - 1);
+  // fast path: starts with a digit/sign/point, ends with a digit, not 0x/0b/0o
+  if (((c0 >= 48 && c0 <= 57) || c0 === 45 || c0 === 43 || c0 === 46) && cl >= 48 && cl <= 57) {
+    if (!(c0 === 48 && n > 2 && s.charCodeAt(1) > 57)) {
+      const v = +s;
+      if (v === v) return v;
+    }
+  }
+  const t = s.trim();
+  if (t.length === 0 || !PLAIN_NUMBER.test(t)) return NaN;
+  const v = +t;
+  return Number.isFinite(v) ? v : NaN;
+}
+
+/** A number written with a decimal comma (`12,5`, `1.234,5`) → its value; NaN otherwise. */
+export function readDecimalComma(s: string): number {
+  const t = s.trim();
+  if (!DECIMAL_COMMA.test(t)) return NaN;
+  const c = +t.replace(/\./g, "").replace(",", ".");
+  return Number.isFinite(c) ? c : NaN;
+}
+
+const TRUE = new Set(["true", "yes", "y", "t", "1"]);
+const FALSE = new Set(["false", "no", "n", "f", "0"]);
+
+/** Parse a boolean: true/false, yes/no, y/n, t/f, 1/0 (any case) → 1 / 0; null otherwise. */
+export function parseBoolean(s: string): 0 | 1 | null {
+  const t = s.trim().toLowerCase();
+  if (TRUE.has(t)) return 1;
+  if (FALSE.has(t)) return 0;
+  return null;
+}
+
+const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})([T ]\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+-]\d{2}:?\d{2})?)?$/;
+const DMY_LIKE = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{2}|\d{4})$/;
+
+export type DateParse = { kind: "iso" } | { kind: "pair"; a: number; b: number } | { kind: "bad" };
+
+function validYmd(y: number, m: number, d: number): boolean {
+  if (m < 1 || m > 12 || d < 1) return false;
+  const days = [31, (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0 ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1]!;
+  return d <= days;
+}
+
+/**
+ * Classify a date: ISO 8601 (unambiguous), or `a/b/yyyy` where the day/month order depends on
+ * the column (the caller decides from all values, or from the plan's dateFormat).
+ */
+export function parseDate(s: string): DateParse {
+  const t = s.trim();
+  const iso = ISO_DATE.exec(t);
+  if (iso) return validYmd(+iso[1]!, +iso[2]!, +iso[3]!) ? { kind: "iso" } : { kind: "bad" };
+  const p = DMY_LIKE.exec(t);
+  if (p) {
+    const a = +p[1]!;
+    const b = +p[2]!;
+    if ((a >= 1 && a <= 31 && b >= 1 && b <= 12) || (b >= 1 && b <= 31 && a >= 1 && a <= 12)) return { kind: "pair", a, b };
+  }
+  return { kind: "bad" };
+}
+
+/** Trim, lower-case and strip accents: `Clay `, `clay` and `Cláy` fold to the same key. */
+export function foldLevel(s: string): string {
+  return s.trim().toLowerCase().normalize("NFD").replace(/[\u0300-\u036f]/g, "").replace(/\s+/g, " ");
+}
+
+/** True when a and b are at most one edit (insert, delete or substitute) apart. */
+export function oneEditApart(a: string, b: string): boolean {
+  if (a === b) return true;
+  const la = a.length;
+  const lb = b.length;
+  if (Math.abs(la - lb) > 1) return false;
+  let i = 0;
+  while (i < la && i < lb && a[i] === b[i]) i++;
+  if (la === lb) return a.slice(i + 1) === b.slice(i + 1);
+  return la > lb ? a.slice(i + 1) === b.slice(i) : a.slice(i) === b.slice(i + 1);
+}
