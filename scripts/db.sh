@@ -52,7 +52,7 @@ root_sql() {
 # The pid of the mariadbd serving our data directory, or nothing.
 server_pid() {
   local pid=""
-  [[ -f "$PIDFILE" ]] && pid="$(tr -dc '0-9' < "$PIDFILE" 2>/dev/null || true)"
+  [[ -f "$PIDFILE" ]] && { read -r pid < "$PIDFILE"; } 2>/dev/null
   if pid_is "$pid" mariadbd; then echo "$pid"; return 0; fi
   local d
   for d in /proc/[0-9]*; do

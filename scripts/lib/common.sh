@@ -76,12 +76,13 @@ port_open() {
   (exec 3<>"/dev/tcp/127.0.0.1/$1") 2>/dev/null
 }
 
-# True when PID is alive (not a zombie) and its command name is NAME.
+# True when PID is alive (not a zombie) and its command name is NAME. Builtins only: it runs in loops.
 pid_is() {
-  local pid="$1" name="$2" stat
-  [[ -n "$pid" && -r "/proc/$pid/comm" ]] || return 1
-  [[ "$(cat "/proc/$pid/comm" 2>/dev/null)" == "$name" ]] || return 1
-  stat="$(cat "/proc/$pid/stat" 2>/dev/null)" || return 1
+  local pid="$1" name="$2" comm stat
+  [[ -n "$pid" && "$pid" =~ ^[0-9]+$ ]] || return 1
+  { read -r comm < "/proc/$pid/comm"; } 2>/dev/null || return 1
+  [[ "$comm" == "$name" ]] || return 1
+  { read -r stat < "/proc/$pid/stat"; } 2>/dev/null || return 1
   stat="${stat##*) }"
   [[ "${stat:0:1}" != Z && "${stat:0:1}" != X ]]
 }
