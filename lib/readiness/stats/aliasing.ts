@@ -90,7 +90,10 @@ export function describeCombination(
   if (!(nj > 0)) return "0 (the column is all zeros on the complete cases)";
   const significant = parts.filter((p) => Math.abs(p.coef) * (norms[p.column] as number) > 1e-8 * nj);
   const isIntercept = (c: number) => naming.intercept && c === 0;
-  const ordered = [...significant.filter((p) => !isIntercept(p.column)), ...significant.filter((p) => isIntercept(p.column))];
+  const others = significant.filter((p) => !isIntercept(p.column));
+  const constant = significant.filter((p) => isIntercept(p.column));
+  // "1 − a − b" reads better than "−a − b + 1"; otherwise the constant goes last ("2·a + 3")
+  const ordered = others.length > 0 && (others[0] as { coef: number }).coef < 0 ? [...constant, ...others] : [...others, ...constant];
   let text = "";
   ordered.forEach((p, idx) => {
     const neg = p.coef < 0;
