@@ -1,0 +1,191 @@
+"use client";
+/**
+ * The provider's upload: choose the study (or send a new version of a batch), choose a
+ * file, see the engine's findings from the browser at once, then upload with progress.
+ */
+import { useMemo, useRef, useState } from "react";
+import { useRouter } from "next/navigation";
+import { toast } from "sonner";
+import { generateReactHelpers } from "@uploadthing/react";
+import type { BatchFileRouter } from "@/lib/uploads/file-router";
+import { Button, Field, Input, Select } from "@/components/ui";
+import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
+import { usePrecheck } from "./use-precheck";
+
+const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
+
+export type UploadStudy = { slug: string; title: string; plan: unknown };
+
+const ACCEPT = ".csv,.tsv,.txt,text/csv,text/tab-separated-values,text/plain";
+
+function formatBytes(n: number): string {
+  if (n < 1024) return `${n} B`;
+  if (n < 1024 ** 2) return `${(n / 1024).toFixed(1)} KB`;
+  return `${(n / 1024 ** 2).toFixed(1)} MB`;
+}
+
+export function UploadPanel({
+  studies,
+  maxUploadMb,
+  batch,
+}: {
+  studies: UploadStudy[];
+  maxUploadMb: number;
+  /** set when sending a new version of an existing batch */
+  batch?: { publicId: string; title: string; studySlug: string };
+}) {
+  const router = useRouter();
+  const [studySlug, setStudySlug] = useState(batch?.studySlug ?? studies[0]?.slug ?? "");
+  const [label, setLabel] = useState("");
+  const [file, setFile] = useState<File | null>(null);
+  const [fileError, setFileError] = useState<string | null>(null);
+  const [progress, setProgress] = useState<number | null>(null);
+  const input = useRef<HTMLInputElement>(null);
+  const precheck = usePrecheck();
+  const study = useMemo(() => studies.find((s) => s.slug === studySlug), [studies, studySlug]);
+
+  const { startUpload, isUploading } = useUploadThing("batchFile", {
+    onUploadProgress: (p) => setProgress(p),
+    onUploadError: (e) => {
+      setProgress(null);
+      toast.error(e.message || "The upload failed. Nothing was recorded; try again.");
+    },
+  });
+
+  function choose(f: File | null) {
+    setFileError(null);
+    precheck.reset();
+    setFile(null);
+    if (!f) return;
+    if (f.size === 0) return setFileError(`"${f.name}" is empty (0 bytes). Choose the file that holds the batch.`);
+    if (f.size > maxUploadMb * 1024 * 1024) {
+      return setFileError(`"${f.name}" is ${formatBytes(f.size)}; the limit is ${maxUploadMb} MB. Split the batch into smaller files.`);
+    }
+    if (!/\.(csv|tsv|txt)$/i.test(f.name)) {
+      return setFileError(`"${f.name}" is not a CSV file. Export the data as CSV (comma, semicolon or tab separated) and choose that file.`);
+    }
+    setFile(f);
+    if (study) precheck.run(f, study.plan);
+  }
+
+  async function upload() {
+    if (!file || !study) return;
+    setProgress(0);
+    const res = await startUpload([file], {
+      studySlug: study.slug,
+      ...(batch ? { batchId: batch.publicId } : {}),
+      ...(label.trim() ? { label: label.trim() } : {}),
+    });
+    const data = res?.[0]?.serverData as { batchId?: string; version?: number } | undefined;
+    if (data?.batchId) {
+      toast.success(`Received as version ${data.version ?? 1}. The checks are running.`);
+      router.push(`/batches/${data.batchId}`);
+    } else {
+      setProgress(null);
+    }
+  }
+
+  const s = precheck.state;
+  const pct = s.phase === "running" && s.total > 0 ? Math.min(100, Math.round((s.bytes / s.total) * 100)) : null;
+
+  return (
+    <div className="grid gap-5">
+      {batch ? (
+        <p className="text-sm text-ink">
+          New version of <strong>{batch.title}</strong>. The previous version will be marked superseded.
+        </p>
+      ) : (
+        <div className="grid gap-4 sm:grid-cols-2">
+          <Field id="study" label="Study">
+            <Select id="study" value={studySlug} onChange={(e) => { setStudySlug(e.target.value); if (file) { const st = studies.find((x) => x.slug === e.target.value); if (st) precheck.run(file, st.plan); } }}>
+              {studies.map((st) => (
+                <option key={st.slug} value={st.slug}>{st.title}</option>
+              ))}
+            </Select>
+          </Field>
+          <Field id="label" label="Batch name (optional)" hint="Defaults to the file name.">
+            <Input id="label" value={label} maxLength={200} onChange={(e) => setLabel(e.target.value)} />
+          </Field>
+        </div>
+      )}
+
+      <div
+        className="rounded border-2 border-dashed border-silt/60 bg-white px-6 py-8 text-center"
+        onDragOver={(e) => e.preventDefault()}
+        onDrop={(e) => {
+          e.preventDefault();
+          choose(e.dataTransfer.files?.[0] ?? null);
+        }}
+      >
+        <p className="mb-3 text-ink">Drop a CSV file here, or</p>
+        <Button variant="secondary" onClick={() => input.current?.click()}>Choose a file</Button>
+        <input
+          ref={input}
+          type="file"
+          accept={ACCEPT}
+          className="sr-only"
+          aria-label="Batch file"
+          data-testid="batch-file-input"
+          onChange={(e) => choose(e.target.files?.[0] ?? null)}
+        />
+        <p className="mt-3 text-sm text-silt">CSV or TSV, UTF-8, up to {maxUploadMb} MB.</p>
+        {file ? <p className="mt-2 font-mono text-sm">{file.name} · {formatBytes(file.size)}</p> : null}
+      </div>
+      <p aria-live="polite" className="text-sm text-clay" role={fileError ? "alert" : undefined}>{fileError}</p>
+
+      <section aria-live="polite" aria-label="Check before upload" data-testid="precheck">
+        {s.phase === "running" ? (
+          <p className="tabular-nums text-sm">
+            Checking in your browser… {s.rows.toLocaleString()} rows read{pct !== null ? ` (${pct} %)` : ""}
+          </p>
+        ) : null}
+        {s.phase === "error" ? <p className="text-sm text-silt">{s.message}</p> : null}
+        {s.phase === "done" ? (
+          <div className="grid gap-2">
+            <div className="flex flex-wrap items-center gap-3 text-sm">
+              <span className="font-semibold">Before upload:</span>
+              <SeverityBadge severity="blocker" count={s.report.counts.blocker} />
+              <SeverityBadge severity="warning" count={s.report.counts.warning} />
+              <SeverityBadge severity="note" count={s.report.counts.note} />
+              <span className="tabular-nums text-silt">
+                {s.report.rows.total.toLocaleString()} rows, {s.report.rows.complete.toLocaleString()} complete cases
+              </span>
+            </div>
+            {s.report.findings.filter((f) => f.severity !== "note").length > 0 ? (
+              <ul className="grid gap-1 text-sm">
+                {s.report.findings
+                  .filter((f) => f.severity !== "note")
+                  .slice(0, 12)
+                  .map((f, i) => (
+                    <li key={`${f.code}-${i}`} className="flex gap-2">
+                      <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
+                      <span>
+                        <code className="text-xs text-silt">{f.code}</code> {f.message} <span className="text-silt">— {f.fix}</span>
+                      </span>
+                    </li>
+                  ))}
+              </ul>
+            ) : (
+              <p className="text-sm text-reed">No blockers or warnings found in the browser.</p>
+            )}
+            <p className="text-xs text-silt">
+              You can fix the file and choose it again, or upload it as it is: the server checks it again either way.
+            </p>
+          </div>
+        ) : null}
+      </section>
+
+      <div className="flex items-center gap-4">
+        <Button onClick={upload} disabled={!file || !study || isUploading} busy={isUploading} data-testid="upload-button">
+          {batch ? "Upload new version" : "Upload batch"}
+        </Button>
+        {progress !== null ? (
+          <div className="flex items-center gap-2 text-sm tabular-nums" aria-live="polite">
+            <progress max={100} value={progress} className="h-2 w-40" aria-label="Upload progress" />
+            <span>Uploading… {progress} %</span>
+          </div>
+        ) : null}
+      </div>
+    </div>
+  );
+}
