@@ -1,0 +1,32 @@
+import { requireUser } from "@/lib/auth/session";
+import { PageHeader } from "@/components/ui/page-header";
+import { Section } from "@/components/ui/section";
+import { PASSWORD_MIN_LENGTH } from "@/lib/auth/password-rules";
+import { roleLabel } from "@/lib/format";
+import { PasswordForm } from "./password-form";
+
+export const metadata = { title: "Settings" };
+
+export default async function SettingsPage() {
+  const user = await requireUser();
+  return (
+    <>
+      <PageHeader title="Settings" description="Your account." />
+      <Section id="account" title="Account">
+        <dl className="grid max-w-xl grid-cols-[10rem_1fr] gap-y-1.5 text-base">
+          <dt className="text-silt-ink">Name</dt>
+          <dd>{user.name}</dd>
+          <dt className="text-silt-ink">E-mail</dt>
+          <dd>{user.email}</dd>
+          <dt className="text-silt-ink">Role</dt>
+          <dd>{roleLabel(user.role)}</dd>
+          <dt className="text-silt-ink">Organisation</dt>
+          <dd>{user.organisationName ?? "–"}</dd>
+        </dl>
+      </Section>
+      <Section id="password" title="Change your password" note="After the change you sign in again; sessions on other devices end too.">
+        <PasswordForm minLength={PASSWORD_MIN_LENGTH} />
+      </Section>
+    </>
+  );
+}

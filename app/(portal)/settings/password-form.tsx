@@ -1,0 +1,62 @@
+"use client";
+
+import { startTransition, useActionState, useEffect, useRef } from "react";
+import { signOut } from "next-auth/react";
+import { toast } from "sonner";
+import { Button } from "@/components/ui/button";
+import { Field } from "@/components/ui/field";
+import { Input } from "@/components/ui/input";
+import { changePasswordAction, type ChangePasswordState } from "./actions";
+
+export function PasswordForm({ minLength }: { minLength: number }) {
+  const [state, action, pending] = useActionState<ChangePasswordState, FormData>(changePasswordAction, null);
+  const formRef = useRef<HTMLFormElement>(null);
+  const errors = state && !state.ok ? (state.fieldErrors ?? {}) : {};
+
+  useEffect(() => {
+    if (!state) return;
+    if (state.ok) {
+      formRef.current?.reset();
+      toast.success("Password changed. Sign in again with the new password.");
+      // the change ended this session on the server: leave cleanly
+      const t = setTimeout(async () => {
+        await signOut({ redirect: false });
+        window.location.assign("/sign-in?notice=password-changed");
+      }, 1200);
+      return () => clearTimeout(t);
+    }
+    if (!state.fieldErrors) toast.error(state.message);
+  }, [state]);
+
+  return (
+    <form
+      ref={formRef}
+      onSubmit={(e) => {
+        e.preventDefault();
+        const data = new FormData(e.currentTarget);
+        startTransition(() => action(data));
+      }}
+      noValidate
+      className="flex max-w-sm flex-col gap-4"
+      aria-label="Change your password"
+    >
+      <Field id="current-password" label="Current password" errors={errors.currentPassword}>
+        <Input name="currentPassword" type="password" autoComplete="current-password" required />
+      </Field>
+      <Field id="new-password" label="New password" hint={`At least ${minLength} characters.`} errors={errors.newPassword}>
+        <Input name="newPassword" type="password" autoComplete="new-password" required minLength={minLength} />
+      </Field>
+      <Field id="confirm-password" label="New password again" errors={errors.confirmPassword}>
+        <Input name="confirmPassword" type="password" autoComplete="new-password" required />
+      </Field>
+      <p aria-live="polite" className="text-sm text-clay">
+        {state && !state.ok && state.fieldErrors ? state.message : ""}
+      </p>
+      <div>
+        <Button type="submit" busy={pending}>
+          Change password
+        </Button>
+      </div>
+    </form>
+  );
+}

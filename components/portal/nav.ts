@@ -1,0 +1,24 @@
+import type { UserRole } from "@/db/schema";
+import { can, type Action } from "@/lib/auth/permissions";
+
+/** Where each role starts. */
+export const ROLE_HOME: Record<UserRole, string> = {
+  provider: "/provider",
+  analyst: "/analyst",
+  lead: "/lead",
+  admin: "/admin",
+};
+
+type NavItem = { href: string; label: string; action?: Action; roles?: readonly UserRole[] };
+
+// Pages that exist; each later page adds itself here with the action that opens it.
+const NAV: readonly NavItem[] = [
+  { href: "/admin/users", label: "Users", action: "user.manage" },
+];
+
+/** The top-bar links a role may follow (read from the permissions table). */
+export function navFor(role: UserRole): { href: string; label: string }[] {
+  const home = { href: ROLE_HOME[role], label: "Home" };
+  const rest = NAV.filter((n) => (!n.action || can(role, n.action)) && (!n.roles || n.roles.includes(role)));
+  return [home, ...rest.map(({ href, label }) => ({ href, label })), { href: "/settings", label: "Settings" }];
+}
