@@ -1,0 +1,52 @@
+import "server-only";
+/**
+ * The app's upload route: who may upload (checked before a byte is stored) and what an
+ * upload becomes (a batch version with its check job).
+ */
+import { eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { studies } from "@/db/schema";
+import { getCurrentUser } from "@/lib/auth/session";
+import { AppError } from "@/lib/errors";
+import { makeFileRouter } from "@/lib/uploads/file-router";
+import { utapi } from "@/lib/uploads";
+import { authoriseUpload, recordBatchVersion } from "./record-upload";
+
+/** A file name as given, without any folder part or control characters. */
+export function cleanFileName(name: string): string {
+  const base = name.split(/[\\/]/).pop() ?? "";
+  // eslint-disable-next-line no-control-regex
+  const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
+  return (clean || "batch.csv").slice(0, 255);
+}
+
+export async function studyIdBySlug(slug: string): Promise<number | null> {
+  const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));
+  return s?.id ?? null;
+}
+
+export const batchFileRouter = makeFileRouter({
+  async authorise(_req, input) {
+    const user = await getCurrentUser();
+    if (!user) throw new AppError("unauthenticated", "Your session has ended. Sign in again to upload.");
+    const studyId = await studyIdBySlug(input.studySlug);
+    if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
+    const ok = await authoriseUpload(getDb(), user.id, { studyId, batchPublicId: input.batchId ?? null });
+    if (!ok.ok) throw new AppError("forbidden", ok.message);
+    return { userId: user.id, studyId, batchId: input.batchId ?? null, label: input.label ?? null };
+  },
+  async onComplete(meta, file) {
+    const recorded = await recordBatchVersion(
+      getDb(),
+      meta.userId,
+      { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
+      { key: file.key, url: file.ufsUrl, name: cleanFileName(file.name), size: file.size, hash: file.fileHash },
+    );
+    if (!recorded.ok) {
+      // refused between the start and the end of the upload (e.g. the study closed): keep nothing
+      await utapi().deleteFiles([file.key]).catch((e) => console.error("could not delete a refused upload", e));
+      throw new AppError("forbidden", recorded.message);
+    }
+    return { batchId: recorded.data.batchPublicId, version: recorded.data.version };
+  },
+});
