@@ -5,7 +5,7 @@
  * Skipped, with the reason printed, when Rscript is not installed.
  */
 import path from "node:path";
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import {
   LeastSquares,
   PatternMoments,
@@ -132,9 +132,8 @@ const CASES: Case[] = [
 
 describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
   const { raw, value } = generate(c);
-  const dir = tempDir();
-  const csv = path.join(dir, "design.csv");
-  writeCsv(csv, ["x1", "x2", "x3", "f", "x4", "y"], raw.map((r) => [r.x1, r.x2, r.x3, r.f, r.x4, r.y]));
+  const csv = path.join(R.ok ? tempDir() : "", "design.csv");
+  if (R.ok) writeCsv(csv, ["x1", "x2", "x3", "f", "x4", "y"], raw.map((r) => [r.x1, r.x2, r.x3, r.f, r.x4, r.y]));
   const spec: DesignSpec = { columns: c.columns, intercept: true, terms: c.terms, numericColumns: ["x1", "x2", "x3", "x4"].filter((x) => c.columns.includes(x)) };
   // Fox & Monette groups as CHECKS.md defines them: a predictor with the interaction columns containing it
   const groups = c.terms
@@ -145,7 +144,10 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
     })
     .filter((g) => !g.startsWith("x4="))
     .join(";");
-  const out = runRJson<LmOut>("lm-check.R", [csv, c.formula, groups]);
+  let out: LmOut;
+  beforeAll(() => {
+    out = runRJson<LmOut>("lm-check.R", [csv, c.formula, groups]);
+  });
   const ls = new LeastSquares(c.columns.length);
   for (const r of raw) ls.addRow(c.columns.map((col) => value(r, col)), r.y);
   const res = analyseDesign(ls, spec, { alpha: 0.05, power: 0.8 });
@@ -240,10 +242,12 @@ describe.skipIf(!R.ok)("distributions against R pf/pt/pchisq/qf/qt/qchisq and no
     for (const x of [0.5, v, 2 * v + 10]) grid.push(["chiUpper", x, v, 0, 0]);
     for (const p of [0.025, 0.5, 0.975]) grid.push(["qchisq", p, v, 0, 0]);
   }
-  const dir = tempDir();
-  const csv = path.join(dir, "grid.csv");
-  writeCsv(csv, ["fn", "x", "d1", "d2", "ncp"], grid);
-  const out = runRJson<{ values: number[] }>("distributions.R", [csv]);
+  let out: { values: number[] };
+  beforeAll(() => {
+    const csv = path.join(tempDir(), "grid.csv");
+    writeCsv(csv, ["fn", "x", "d1", "d2", "ncp"], grid);
+    out = runRJson<{ values: number[] }>("distributions.R", [csv]);
+  });
   const ours = (fn: string, x: number, d1: number, d2: number, ncp: number): number => {
     switch (fn) {
       case "fUpper": return fUpper(x, d1, d2);
