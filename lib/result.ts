@@ -1,15 +1,25 @@
+import type { ErrorCode } from "./errors";
+
 /**
  * The one result shape of services, server actions and forms: success carries data,
- * failure a message (and field errors shown next to their fields).
+ * failure a message (and field errors shown next to their fields). `code` lets a route
+ * handler answer with the right HTTP status (lib/errors.ts ERROR_STATUS).
  */
-export type Result<T> = { ok: true; data: T } | { ok: false; message: string; fieldErrors?: Record<string, string[]> };
+export type Result<T> =
+  | { ok: true; data: T }
+  | { ok: false; message: string; fieldErrors?: Record<string, string[]>; code?: ErrorCode };
 
 export function ok<T>(data: T): Result<T> {
   return { ok: true, data };
 }
 
-export function fail<T = never>(message: string, fieldErrors?: Record<string, string[]>): Result<T> {
-  return fieldErrors ? { ok: false, message, fieldErrors } : { ok: false, message };
+export function fail<T = never>(message: string, fieldErrors?: Record<string, string[]>, code?: ErrorCode): Result<T> {
+  return {
+    ok: false,
+    message,
+    ...(fieldErrors ? { fieldErrors } : {}),
+    ...(code ? { code } : fieldErrors ? { code: "invalid" as const } : {}),
+  };
 }
 
 /** Field errors from a zod error, keyed by the top-level field name. */

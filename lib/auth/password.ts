@@ -1,7 +1,7 @@
 /** Password hashing with bcrypt (bcryptjs: pure JS, no native build). */
 import bcrypt from "bcryptjs";
 
-export const PASSWORD_MIN_LENGTH = 10;
+export { PASSWORD_MIN_LENGTH } from "./password-rules";
 const COST = 11;
 
 export function hashPassword(plain: string): Promise<string> {

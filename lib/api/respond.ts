@@ -1,0 +1,29 @@
+/** JSON answers of the v1 API: `{ data }` on success, `{ error: { code, message, fieldErrors? } }` on failure. */
+import { AppError, ERROR_STATUS, toAppError, type ErrorCode } from "@/lib/errors";
+import type { Result } from "@/lib/result";
+
+const NO_STORE = { "cache-control": "no-store" };
+
+export function jsonData(data: unknown, status = 200): Response {
+  return Response.json({ data }, { status, headers: NO_STORE });
+}
+
+export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record<string, string[]>, extraHeaders?: Record<string, string>): Response {
+  return Response.json(
+    { error: { code, message, ...(fieldErrors ? { fieldErrors } : {}) } },
+    { status: ERROR_STATUS[code], headers: { ...NO_STORE, ...extraHeaders } },
+  );
+}
+
+/** Any thrown value as a safe JSON error; unexpected ones are logged, never echoed. */
+export function errorResponse(e: unknown, context: string): Response {
+  const err = e instanceof AppError ? e : toAppError(e, context);
+  const headers: Record<string, string> | undefined = err.code === "unauthenticated" ? { "www-authenticate": 'Bearer realm="tributary"' } : undefined;
+  return jsonError(err.code, err.message, err.fieldErrors, headers);
+}
+
+/** A service Result as JSON: data with `successStatus`, or the failure's code (422 by default). */
+export function resultResponse<T>(result: Result<T>, successStatus = 200): Response {
+  if (result.ok) return jsonData(result.data, successStatus);
+  return jsonError(result.code ?? "invalid", result.message, result.fieldErrors);
+}

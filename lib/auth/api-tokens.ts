@@ -1,0 +1,52 @@
+import "server-only";
+import { createHash, randomBytes } from "node:crypto";
+import { and, eq, isNull, lt, or } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { apiTokens } from "@/db/schema";
+import { loadSessionUser, type SessionUser } from "./load-user";
+
+/** Tokens look like `trb_` + 32 url-safe characters; only their sha-256 is stored. */
+export const API_TOKEN_PREFIX = "trb_";
+
+export function generateApiToken(): { token: string; hash: string; prefix: string } {
+  const token = API_TOKEN_PREFIX + randomBytes(24).toString("base64url");
+  return { token, hash: hashApiToken(token), prefix: token.slice(0, 12) };
+}
+
+export function hashApiToken(token: string): string {
+  return createHash("sha256").update(token, "utf8").digest("hex");
+}
+
+export type TokenLookup =
+  | { ok: true; user: SessionUser; tokenId: number }
+  | { ok: false; reason: "unknown" | "revoked" | "inactive" };
+
+// last_used_at is written at most once a minute per token, not on every call
+const LAST_USED_RESOLUTION_MS = 60_000;
+
+/**
+ * Finds the user behind a Bearer API token: unknown or revoked tokens and inactive users
+ * are refused; a good token has its last_used_at brought up to date.
+ */
+export async function lookupApiToken(token: string): Promise<TokenLookup> {
+  if (!token.startsWith(API_TOKEN_PREFIX) || token.length > 100) return { ok: false, reason: "unknown" };
+  const db = getDb();
+  const rows = await db
+    .select({ id: apiTokens.id, userId: apiTokens.userId, revokedAt: apiTokens.revokedAt })
+    .from(apiTokens)
+    .where(eq(apiTokens.tokenHash, hashApiToken(token)))
+    .limit(1);
+  const row = rows[0];
+  if (!row) return { ok: false, reason: "unknown" };
+  if (row.revokedAt) return { ok: false, reason: "revoked" };
+  const user = await loadSessionUser(row.userId);
+  if (!user) return { ok: false, reason: "inactive" };
+  const now = new Date();
+  await db
+    .update(apiTokens)
+    .set({ lastUsedAt: now })
+    .where(
+      and(eq(apiTokens.id, row.id), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now.getTime() - LAST_USED_RESOLUTION_MS)))),
+    );
+  return { ok: true, user, tokenId: row.id };
+}

@@ -1,0 +1,25 @@
+import "server-only";
+import { AppError, toAppError } from "@/lib/errors";
+import { fail, type Result } from "@/lib/result";
+
+/**
+ * Runs a service body and turns what it throws into the Result shape: an AppError keeps
+ * its safe message, code and field errors; anything else is logged and reported plainly.
+ */
+export async function runService<T>(name: string, body: () => Promise<Result<T>>): Promise<Result<T>> {
+  try {
+    return await body();
+  } catch (e) {
+    const err = e instanceof AppError ? e : toAppError(e, name);
+    return fail(err.message, err.fieldErrors, err.code);
+  }
+}
+
+/** MariaDB's duplicate-key error (ER_DUP_ENTRY), possibly wrapped by drizzle. */
+export function isDuplicateKey(e: unknown): boolean {
+  for (let cur: unknown = e, depth = 0; cur && depth < 4; depth++) {
+    if (typeof cur === "object" && cur !== null && "code" in cur && (cur as { code?: unknown }).code === "ER_DUP_ENTRY") return true;
+    cur = typeof cur === "object" && cur !== null && "cause" in cur ? (cur as { cause?: unknown }).cause : undefined;
+  }
+  return false;
+}
