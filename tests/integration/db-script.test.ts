@@ -13,7 +13,7 @@ import { afterAll, beforeAll, describe, expect, test } from "vitest";
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const SCRIPT = path.join(ROOT, "scripts/db.sh");
 let home = "";
-let env: NodeJS.ProcessEnv = {};
+let env: NodeJS.ProcessEnv = { ...process.env };
 let port = 0;
 
 interface Run {

@@ -17,9 +17,7 @@ const NAME = `tributary_test_${process.pid}_migrations`;
 let url = "";
 
 /** Every table declared in db/schema.ts, by its SQL name. */
-const schemaTables = Object.values(schema)
-  .filter((v): v is MySqlTable => is(v, MySqlTable))
-  .map((t) => getTableConfig(t));
+const schemaTables = (Object.values(schema) as unknown[]).filter((v): v is MySqlTable => is(v, MySqlTable)).map((t) => getTableConfig(t));
 
 const journal = JSON.parse(fs.readFileSync(path.join(MIGRATIONS_FOLDER, "meta/_journal.json"), "utf8")) as { entries: unknown[] };
 

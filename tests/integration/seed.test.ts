@@ -9,7 +9,7 @@ import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import * as schema from "@/db/schema";
 import { runMigrations } from "@/db/migrate";
-import { seedDemo } from "@/db/seed";
+import { seedDemo, type SeedDb } from "@/db/seed";
 import { canonicalJson, DEMO_PASSWORD, planHash } from "@/lib/demo";
 import { parsePlan } from "@/lib/readiness/plan";
 
@@ -20,7 +20,7 @@ const dbsh = (...args: string[]) =>
 const NAME = `tributary_test_${process.pid}_seed`;
 const TABLES = ["organisations", "users", "studies", "data_plans", "study_analysts", "study_providers"] as const;
 let pool: mysql.Pool;
-let db: ReturnType<typeof drizzle<typeof schema>>;
+let db: SeedDb;
 
 async function counts(): Promise<Record<string, number>> {
   const out: Record<string, number> = {};
