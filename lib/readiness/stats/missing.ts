@@ -35,7 +35,8 @@ const schema = z.object({
 
 export class PatternMoments {
   readonly columns: string[];
-  private readonly patterns = new Map<string, Pattern>();
+  // key: the observed-column bitmask as a number (exact up to 52 columns), else a 0/1 string
+  private readonly patterns = new Map<number | string, Pattern>();
   private readonly keyBuf: string[];
   private readonly delta: Float64Array;
 
@@ -45,7 +46,13 @@ export class PatternMoments {
     this.delta = new Float64Array(columns.length);
   }
 
-  private pattern(observed: number[], key: string): Pattern {
+  private keyOf(observed: number[]): number | string {
+    const m = this.columns.length;
+    if (m <= 52) return observed.reduce((k, j) => k + 2 ** j, 0);
+    return Array.from({ length: m }, (_, j) => (observed.includes(j) ? "1" : "0")).join("");
+  }
+
+  private pattern(observed: number[], key: number | string): Pattern {
     let p = this.patterns.get(key);
     if (!p) {
       const q = observed.length;
@@ -59,16 +66,28 @@ export class PatternMoments {
   addRow(values: (number | null)[]): void {
     const m = this.columns.length;
     if (values.length !== m) throw new RangeError(`row has ${values.length} values, expected ${m}`);
-    const kb = this.keyBuf;
-    for (let j = 0; j < m; j++) {
-      const v = values[j];
-      kb[j] = v === null || v === undefined || Number.isNaN(v) ? "0" : "1";
+    let key: number | string = 0;
+    if (m <= 52) {
+      let bit = 1;
+      for (let j = 0; j < m; j++, bit *= 2) {
+        const v = values[j];
+        if (!(v === null || v === undefined || Number.isNaN(v))) key += bit;
+      }
+    } else {
+      const kb = this.keyBuf;
+      for (let j = 0; j < m; j++) {
+        const v = values[j];
+        kb[j] = v === null || v === undefined || Number.isNaN(v) ? "0" : "1";
+      }
+      key = kb.join("");
     }
-    const key = kb.join("");
     let p = this.patterns.get(key);
     if (!p) {
       const observed: number[] = [];
-      for (let j = 0; j < m; j++) if (kb[j] === "1") observed.push(j);
+      for (let j = 0; j < m; j++) {
+        const v = values[j];
+        if (!(v === null || v === undefined || Number.isNaN(v))) observed.push(j);
+      }
       p = this.pattern(observed, key);
     }
     const obs = p.observed;
@@ -83,10 +102,10 @@ export class PatternMoments {
       d[a] = dv;
       p.mean[a] = (p.mean[a] as number) + dv / n;
     }
-    // M2 += δ_old · (x − mean_new)ᵀ
+    // M2 += δ_old · (x − mean_new)ᵀ, upper triangle only (mirrored when read)
     for (let a = 0; a < q; a++) {
       const da = d[a] as number;
-      for (let b = 0; b < q; b++) {
+      for (let b = a; b < q; b++) {
         const after = (values[obs[b] as number] as number) - (p.mean[b] as number);
         p.comoment[a * q + b] = (p.comoment[a * q + b] as number) + da * after;
       }
@@ -118,7 +137,12 @@ export class PatternMoments {
 
   /** Patterns with their counts (observed column indices). */
   summary(): { observed: number[]; count: number; mean: number[]; comoment: number[] }[] {
-    return [...this.patterns.values()].map((p) => ({ observed: [...p.observed], count: p.count, mean: Array.from(p.mean), comoment: Array.from(p.comoment) }));
+    return [...this.patterns.values()].map((p) => {
+      const q = p.observed.length;
+      const c = Array.from(p.comoment);
+      for (let a = 0; a < q; a++) for (let b = 0; b < a; b++) c[a * q + b] = c[b * q + a] as number;
+      return { observed: [...p.observed], count: p.count, mean: Array.from(p.mean), comoment: c };
+    });
   }
 
   toJSON(): PatternMomentsJSON {
@@ -133,11 +157,10 @@ export class PatternMoments {
     const m = s.columns.length;
     for (const p of s.patterns) {
       const q = p.observed.length;
-      if (p.mean.length !== q || p.comoment.length !== q * q || p.observed.some((j) => j >= m)) {
+      if (p.mean.length !== q || p.comoment.length !== q * q || p.observed.some((j, i) => j >= m || (i > 0 && j <= (p.observed[i - 1] as number)))) {
         throw new Error("stored missingness moments have a pattern of the wrong shape");
       }
-      const key = Array.from({ length: m }, (_, j) => (p.observed.includes(j) ? "1" : "0")).join("");
-      pm.patterns.set(key, { observed: [...p.observed], count: p.count, mean: Float64Array.from(p.mean), comoment: Float64Array.from(p.comoment) });
+      pm.patterns.set(pm.keyOf(p.observed), { observed: [...p.observed], count: p.count, mean: Float64Array.from(p.mean), comoment: Float64Array.from(p.comoment) });
     }
     return pm;
   }
