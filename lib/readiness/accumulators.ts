@@ -110,14 +110,68 @@ export class QuantileStore {
   sorted(): Float64Array {
     return this.buf.slice(0, this.len).sort();
   }
-  /** A uniform sub-sample of at most m kept values (for the pool state). */
+  /**
+   * Quantiles (R type 7) of the kept values by selection, O(n) each, without a full sort.
+   * Reorders the kept values (their order is not needed afterwards).
+   */
+  quantiles(ps: number[]): number[] {
+    const a = this.buf.subarray(0, this.len);
+    return ps.map((p) => selectQuantile(a, p));
+  }
+  /** A systematic sample of at most m kept values (for the pool state). */
   sample(m: number): number[] {
     if (this.len <= m) return Array.from(this.buf.subarray(0, this.len));
-    const s = this.sorted();
     const out: number[] = [];
-    for (let i = 0; i < m; i++) out.push(s[Math.floor(((i + 0.5) * s.length) / m)]!);
+    for (let i = 0; i < m; i++) out.push(this.buf[Math.floor(((i + 0.5) * this.len) / m)]!);
     return out;
   }
+}
+
+/** Rearrange a so that a[k] is its k-th smallest value (Hoare's selection, median-of-three pivot). */
+export function selectInPlace(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (hi > lo) {
+    const mid = (lo + hi) >>> 1;
+    if (a[mid]! < a[lo]!) swap(a, mid, lo);
+    if (a[hi]! < a[lo]!) swap(a, hi, lo);
+    if (a[hi]! < a[mid]!) swap(a, hi, mid);
+    const pivot = a[mid]!;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) {
+        swap(a, i, j);
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else break;
+  }
+  return a[k]!;
+}
+
+function swap(a: Float64Array, i: number, j: number): void {
+  const t = a[i]!;
+  a[i] = a[j]!;
+  a[j] = t;
+}
+
+/** Quantile p (R type 7) of a, by selection; reorders a. */
+export function selectQuantile(a: Float64Array, p: number): number {
+  const n = a.length;
+  if (n === 0) return NaN;
+  const h = (n - 1) * p;
+  const lo = Math.floor(h);
+  const v = selectInPlace(a, lo);
+  if (h === lo || lo + 1 >= n) return v;
+  let next = Infinity;
+  for (let i = lo + 1; i < n; i++) if (a[i]! < next) next = a[i]!;
+  return v + (h - lo) * (next - v);
 }
 
 /** Quantile by R's default definition (type 7): linear interpolation between order statistics. */

@@ -1,7 +1,6 @@
 /**
  * checkBatch: one streaming pass over a batch file, then the report.
  */
-import { quantile } from "./accumulators";
 import { analyse, type Summary } from "./analyse";
 import { readCsv, type ByteInput, type CsvLimits } from "./csv-reader";
 import { UnreadableError } from "./decode";
@@ -95,9 +94,9 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
     if (!evidence.missingRows.has(c.name)) evidence.missingRows.set(c.name, c.missing.rows);
     if (c.levels && c.plan?.type === "category") evidence.levelRows.set(c.name, new Map([...c.levels].map(([l, a]) => [l, a.rows])));
     if (c.quant && c.moments.n > 0 && !summaries.has(c.name)) {
-      const s = c.quant.sorted();
+      const [q1, median, q3] = c.quant.quantiles([0.25, 0.5, 0.75]) as [number, number, number];
       const m = c.moments;
-      summaries.set(c.name, { summary: { min: m.min, q1: quantile(s, 0.25), median: quantile(s, 0.5), q3: quantile(s, 0.75), max: m.max, mean: m.mean, sd: m.sd }, exact: c.quant.exact });
+      summaries.set(c.name, { summary: { min: m.min, q1, median, q3, max: m.max, mean: m.mean, sd: m.sd }, exact: c.quant.exact });
     }
   }
   const a = analyse(state, plan, t, { evidence, summaries });

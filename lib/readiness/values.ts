@@ -51,6 +51,8 @@ const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})([T ]\d{2}:\d{2}(:\d{2}(\.\d+)?)?(Z|[+
 const DMY_LIKE = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{2}|\d{4})$/;
 
 export type DateParse = { kind: "iso" } | { kind: "pair"; a: number; b: number } | { kind: "bad" };
+const ISO_OK: DateParse = { kind: "iso" };
+const BAD: DateParse = { kind: "bad" };
 
 function validYmd(y: number, m: number, d: number): boolean {
   if (m < 1 || m > 12 || d < 1) return false;
@@ -63,6 +65,12 @@ function validYmd(y: number, m: number, d: number): boolean {
  * the column (the caller decides from all values, or from the plan's dateFormat).
  */
 export function parseDate(s: string): DateParse {
+  if (s.length === 10 && s.charCodeAt(4) === 45 && s.charCodeAt(7) === 45) {
+    const y = +s.slice(0, 4);
+    const m = +s.slice(5, 7);
+    const d = +s.slice(8, 10);
+    if (y === y && m === m && d === d) return validYmd(y, m, d) ? ISO_OK : BAD;
+  }
   const t = s.trim();
   const iso = ISO_DATE.exec(t);
   if (iso) return validYmd(+iso[1]!, +iso[2]!, +iso[3]!) ? { kind: "iso" } : { kind: "bad" };
