@@ -10,6 +10,7 @@ import { generateReactHelpers } from "@uploadthing/react";
 import type { BatchFileRouter } from "@/lib/uploads/file-router";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
+import { batchFileProblem, formatBytes } from "@/lib/intake/file-rules";
 import { usePrecheck } from "./use-precheck";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
@@ -17,12 +18,6 @@ const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
 export type UploadStudy = { slug: string; title: string; plan: unknown };
 
 const ACCEPT = ".csv,.tsv,.txt,text/csv,text/tab-separated-values,text/plain";
-
-function formatBytes(n: number): string {
-  if (n < 1024) return `${n} B`;
-  if (n < 1024 ** 2) return `${(n / 1024).toFixed(1)} KB`;
-  return `${(n / 1024 ** 2).toFixed(1)} MB`;
-}
 
 export function UploadPanel({
   studies,
@@ -57,13 +52,8 @@ export function UploadPanel({
     precheck.reset();
     setFile(null);
     if (!f) return;
-    if (f.size === 0) return setFileError(`"${f.name}" is empty (0 bytes). Choose the file that holds the batch.`);
-    if (f.size > maxUploadMb * 1024 * 1024) {
-      return setFileError(`"${f.name}" is ${formatBytes(f.size)}; the limit is ${maxUploadMb} MB. Split the batch into smaller files.`);
-    }
-    if (!/\.(csv|tsv|txt)$/i.test(f.name)) {
-      return setFileError(`"${f.name}" is not a CSV file. Export the data as CSV (comma, semicolon or tab separated) and choose that file.`);
-    }
+    const problem = batchFileProblem(f, maxUploadMb);
+    if (problem) return setFileError(problem);
     setFile(f);
     if (study) precheck.run(f, study.plan);
   }

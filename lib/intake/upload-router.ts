@@ -7,9 +7,11 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { studies } from "@/db/schema";
 import { getCurrentUser } from "@/lib/auth/session";
+import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { makeFileRouter } from "@/lib/uploads/file-router";
 import { utapi } from "@/lib/uploads";
+import { batchFileProblem } from "./file-rules";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
 
 /** A file name as given, without any folder part or control characters. */
@@ -26,9 +28,13 @@ export async function studyIdBySlug(slug: string): Promise<number | null> {
 }
 
 export const batchFileRouter = makeFileRouter({
-  async authorise(_req, input) {
+  async authorise(_req, input, files) {
     const user = await getCurrentUser();
     if (!user) throw new AppError("unauthenticated", "Your session has ended. Sign in again to upload.");
+    for (const f of files) {
+      const problem = batchFileProblem(f, env().MAX_UPLOAD_MB);
+      if (problem) throw new AppError("invalid", problem);
+    }
     const studyId = await studyIdBySlug(input.studySlug);
     if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
     const ok = await authoriseUpload(getDb(), user.id, { studyId, batchPublicId: input.batchId ?? null });

@@ -36,7 +36,7 @@ export type BatchUploadMeta = Record<string, string | number | boolean | null>;
 
 export type FileRouterHooks<M extends BatchUploadMeta> = {
   /** Session and role checks. Throw `UploadThingError` (or any Error) to refuse. */
-  authorise(req: Request, input: BatchUploadInput): Promise<M> | M;
+  authorise(req: Request, input: BatchUploadInput, files: readonly { name: string; size: number }[]): Promise<M> | M;
   /** Records the upload; what it returns reaches the client as `serverData`. */
   onComplete(meta: M, file: UploadedBatchFile): Promise<Record<string, string | number | boolean | null>>;
   /** Upload size limit in MB; default MAX_UPLOAD_MB or 200. */
@@ -88,9 +88,9 @@ export function makeFileRouter<M extends BatchUploadMeta>(hooks: FileRouterHooks
       { awaitServerData: true, getFileHashParts: (file) => [file.name, file.size, randomUUID()] },
     )
       .input(batchUploadInput)
-      .middleware(async ({ req, input }) => {
+      .middleware(async ({ req, input, files }) => {
         try {
-          return await hooks.authorise(req, input);
+          return await hooks.authorise(req, input, files);
         } catch (e) {
           throw toUploadError(e);
         }

@@ -1,0 +1,25 @@
+// GET /api/v1/batches/:publicId/versions/:n/report — the version's readiness report (the engine's JSON format), or its progress while checking.
+import { z } from "zod";
+import { apiRoute } from "@/lib/api/route";
+import { parseParams } from "@/lib/api/parse";
+import { jsonData } from "@/lib/api/respond";
+import { getVersionReportForUser } from "@/lib/dal/reports";
+import { AppError } from "@/lib/errors";
+
+const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });
+
+export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
+  const { id, version } = parseParams(params, paramsSchema);
+  const found = await getVersionReportForUser(actor, id, version);
+  if (!found) throw new AppError("not_found", "No batch version with this id is visible to you.");
+  const v = found.version;
+  return jsonData({
+    batchId: found.batch.publicId,
+    version: v.version,
+    state: v.state,
+    progress: { rows: v.progressRows, bytes: v.progressBytes, totalBytes: v.fileSize },
+    planVersion: found.plan.version,
+    reportedAt: found.reportedAt,
+    report: found.report,
+  });
+});

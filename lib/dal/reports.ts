@@ -1,0 +1,44 @@
+import "server-only";
+import { and, desc, eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { dataPlans, reports } from "@/db/schema";
+import type { SessionUser } from "@/lib/auth/session";
+import type { ReadinessReport } from "@/lib/readiness/report";
+import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./batches";
+
+export type VersionReport = {
+  batch: BatchDetail;
+  version: BatchVersionSummary;
+  plan: { id: number; version: number; plan: unknown };
+  /** the newest report of this version; null while the check has not finished */
+  report: ReadinessReport | null;
+  reportedAt: Date | null;
+};
+
+/**
+ * A batch version with its readiness report, within the user's scope (null otherwise, so
+ * callers answer 404 whether it does not exist or is not theirs to see).
+ */
+export async function getVersionReportForUser(user: SessionUser, publicId: string, versionNo: number): Promise<VersionReport | null> {
+  const batch = await getBatchForUser(user, publicId);
+  const version = batch?.versions.find((v) => v.version === versionNo);
+  if (!batch || !version) return null;
+  const db = getDb();
+  const [plan] = await db
+    .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan })
+    .from(dataPlans)
+    .where(eq(dataPlans.id, version.planId));
+  const [row] = await db
+    .select({ report: reports.report, createdAt: reports.createdAt })
+    .from(reports)
+    .where(and(eq(reports.batchVersionId, version.id)))
+    .orderBy(desc(reports.createdAt), desc(reports.id))
+    .limit(1);
+  return {
+    batch,
+    version,
+    plan: plan ?? { id: version.planId, version: 0, plan: null },
+    report: (row?.report as ReadinessReport | undefined) ?? null,
+    reportedAt: row?.createdAt ?? null,
+  };
+}
