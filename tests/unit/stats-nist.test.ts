@@ -5,7 +5,7 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { LeastSquares, analyseDesign, type DesignSpec } from "@/lib/readiness/stats";
+import { LeastSquares, analyseDesign, conditionFlags, highCorrelationPairs, type DesignSpec } from "@/lib/readiness/stats";
 
 const REF = path.resolve(import.meta.dirname, "../../../shared/reference");
 
@@ -161,5 +161,24 @@ describe("Longley collinearity (Belsley, Kuh & Welsch 1980; Marquardt VIFs)", ()
     // informational: printed so the level of agreement is visible in the test log
     console.info("NIST StRD minimum log relative error (coefficients, SEs):", JSON.stringify(achieved));
     expect(Object.keys(achieved).length).toBe(MODELS.length);
+  });
+});
+
+describe("Longley condition flags and pairs", () => {
+  const m = MODELS[3] as Model;
+  const res = analyseDesign(fitRows(m, readData("longley").rows), spec(m), { alpha: 0.05, power: 0.8 });
+  it("flags the near-dependency of the intercept and year (η ≥ 30, two proportions > 0.5)", () => {
+    const flags = conditionFlags(res.collinearity);
+    // Belsley (1991, Conditioning Diagnostics) Longley: the largest index (~43,000) carries the intercept and the year (x6) with proportions near 1
+    const last = flags.at(-1);
+    expect(last?.conditionIndex).toBeGreaterThan(43_000);
+    expect(last?.columns).toEqual(expect.arrayContaining(["intercept", "x6"]));
+  });
+  it("pairs with |r| ≥ 0.9", () => {
+    const pairs = highCorrelationPairs(res.collinearity, spec(m).numericColumns);
+    // Longley (1967) correlations: GNP deflator (x1) and GNP (x2) r = 0.9916 (R: cor(longley$GNP.deflator, longley$GNP))
+    const p12 = pairs.find((p) => p.a === "x1" && p.b === "x2");
+    expect(p12?.r).toBeCloseTo(0.9915892, 6);
+    expect(pairs.some((p) => p.a === "x3" && p.b === "x4")).toBe(false);
   });
 });

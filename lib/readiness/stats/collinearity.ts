@@ -87,3 +87,45 @@ export function conditionDiagnostics(x: number[][], r: number): { indices: numbe
   const proportions = order.map((_, kk) => Array.from({ length: r }, (_, j) => ((phi[j] as number[])[kk] as number) / (totals[j] as number)));
   return { indices, proportions };
 }
+
+/** Pairs of numeric predictors with |r| ≥ threshold (CHECKS.md collinear.pair, default 0.9). */
+export function highCorrelationPairs(
+  report: CollinearityReport | null,
+  numericColumns: string[],
+  threshold = 0.9,
+): { a: string; b: string; r: number }[] {
+  if (!report) return [];
+  const { columns, matrix } = report.correlations;
+  const numeric = new Set(numericColumns);
+  const out: { a: string; b: string; r: number }[] = [];
+  for (let i = 0; i < columns.length; i++) {
+    for (let j = i + 1; j < columns.length; j++) {
+      const r = (matrix[i] as number[])[j] as number;
+      if (numeric.has(columns[i] as string) && numeric.has(columns[j] as string) && Math.abs(r) >= threshold) {
+        out.push({ a: columns[i] as string, b: columns[j] as string, r });
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * Dimensions with condition index η ≥ `index` in which two or more design columns have a
+ * variance-decomposition proportion > `proportion` (Belsley, Kuh & Welsch 1980: 30 and 0.5).
+ */
+export function conditionFlags(
+  report: CollinearityReport | null,
+  index = 30,
+  proportion = 0.5,
+): { conditionIndex: number; columns: string[]; proportions: number[] }[] {
+  if (!report) return [];
+  const names = report.varianceProportions.columns;
+  const out: { conditionIndex: number; columns: string[]; proportions: number[] }[] = [];
+  report.conditionIndices.forEach((eta, k) => {
+    if (!(eta >= index)) return;
+    const row = report.varianceProportions.matrix[k] ?? [];
+    const hit = row.map((p, j) => ({ p, j })).filter((e) => e.p > proportion);
+    if (hit.length >= 2) out.push({ conditionIndex: eta, columns: hit.map((e) => names[e.j] as string), proportions: hit.map((e) => e.p) });
+  });
+  return out;
+}

@@ -2,6 +2,7 @@
 export { LeastSquares, type LeastSquaresJSON } from "./least-squares";
 export { analyseDesign, type DesignSpec, type DesignAnalysis } from "./design";
 export { ALIAS_TOLERANCE } from "./aliasing";
+export { highCorrelationPairs, conditionFlags } from "./collinearity";
 export { PatternMoments, littleMcar, type PatternMomentsJSON } from "./missing";
 export {
   fCdf,
