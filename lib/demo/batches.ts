@@ -52,12 +52,12 @@ export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow
     const nitrogen = round(20 + r.next() * 200, 0);
     const irrigation = round(Math.max(0, 60 + r.normal() * 35), 1);
     const rainfall = round(Math.min(690, Math.max(80, 260 + r.normal() * 70)), 1);
-    // the plot gauge: what reached the plot, close to but not exactly irrigation + rainfall
-    const totalWater = round(irrigation + rainfall - 15 + r.normal() * 12, 1);
+    // the plot gauge: what reached the root zone after run-off and drift, which varies from plot to plot
+    const totalWater = round(Math.max(40, 0.8 * irrigation + rainfall * (0.45 + 0.5 * r.next()) + r.normal() * 30), 1);
     const soil = r.pick(SOIL_TYPES);
     const vi = Math.floor(r.next() * BARLEY_VARIETIES.length);
-    const sowing = Math.round(70 + r.next() * 45);
-    const density = round(220 + r.normal() * 40, 0);
+    const sowing = Math.round(55 + r.next() * 80);
+    const density = round(Math.min(420, Math.max(160, 220 + r.normal() * 40)), 0);
     const om = round(Math.max(0.8, 3.2 + r.normal() * 1.1), 2);
     const y =
       2.2 + 0.016 * nitrogen - 0.00003 * nitrogen * nitrogen + 0.004 * irrigation + 0.0035 * rainfall +
