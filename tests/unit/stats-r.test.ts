@@ -166,7 +166,7 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
         expect(co.aliased).toBe(true); // R: NA coefficient
         return;
       }
-      expect(rel(co.estimate as number, rc)).toBeLessThan(1e-9);
+      expect(rel(co.estimate as number, rc as number)).toBeLessThan(1e-9);
       expect(rel(co.stdError as number, out.se[se++] as number)).toBeLessThan(1e-9);
     });
     expect(rel(res.fit.rss, out.rss[0] as number)).toBeLessThan(1e-10);
