@@ -55,6 +55,7 @@ export class ColumnScan {
   value = NaN;
   status: FieldStatus = 0;
   private tokens: Set<string>;
+  private maxToken: number;
   private sentinelSet: Set<number>;
   readonly kind: "number" | "integer" | "boolean" | "category" | "date" | "text" | "profile" | "ignore";
 
@@ -66,6 +67,7 @@ export class ColumnScan {
     quantCap: number,
   ) {
     this.tokens = new Set([...fileTokens, ...(plan?.missingTokens ?? [])]);
+    this.maxToken = Math.max(0, ...[...this.tokens].map((x) => x.length));
     this.sentinelSet = new Set(plan?.sentinels ?? []);
     this.missing = new RowSample(sampleCap);
     this.mismatch = new RowSample(sampleCap);
@@ -79,9 +81,9 @@ export class ColumnScan {
   }
 
   private isMissing(s: string): boolean {
-    if (this.tokens.has(s)) return true;
     const n = s.length;
     if (n === 0) return true;
+    if (n <= this.maxToken && this.tokens.has(s)) return true;
     if (s.charCodeAt(0) <= 32 || s.charCodeAt(n - 1) <= 32) {
       const t = s.trim();
       return t === "" || this.tokens.has(t);

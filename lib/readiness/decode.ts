@@ -93,23 +93,67 @@ export function firstInvalidUtf8(b: Uint8Array): number {
   return -1;
 }
 
-/** Streaming UTF-8 decoder that turns a decoding failure into a provider-facing reason. */
+/**
+ * Streaming UTF-8 decoder that turns a decoding failure into a provider-facing reason.
+ * Decodes with the (fast) replacing decoder on whole sequences; only when a replacement
+ * character appears is the chunk validated byte by byte (a file may hold U+FFFD legitimately).
+ */
 export class Utf8Stream {
-  private decoder = new TextDecoder("utf-8", { fatal: true, ignoreBOM: false });
+  private decoder = new TextDecoder("utf-8", { ignoreBOM: false });
+  private carry: Uint8Array | null = null;
+  private carryOffset = 0;
 
   decode(chunk: Uint8Array, offset: number, last: boolean): string {
-    try {
-      return this.decoder.decode(chunk, { stream: !last });
-    } catch {
-      const at = firstInvalidUtf8(chunk);
-      const pos = at >= 0 ? offset + at : offset;
-      const byte = at >= 0 ? chunk[at]! : 0;
-      const latin = byte >= 0xa0 ? String.fromCharCode(byte) : null;
-      throw new UnreadableError(
-        `The file is not valid UTF-8: byte ${pos} (0x${byte.toString(16).padStart(2, "0")}) cannot be decoded${latin ? `; it looks like Latin-1 or Windows-1252 text (that byte would be “${latin}”)` : ""}.`,
-        "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8; in LibreOffice: Character set → Unicode (UTF-8)).",
-        { kind: "encoding", byte: pos },
-      );
+    let b = chunk;
+    let start = offset;
+    if (this.carry) {
+      b = new Uint8Array(this.carry.length + chunk.length);
+      b.set(this.carry);
+      b.set(chunk, this.carry.length);
+      start = this.carryOffset;
+      this.carry = null;
     }
+    let end = b.length;
+    if (!last) {
+      // keep an incomplete trailing sequence for the next chunk
+      let i = b.length - 1;
+      let back = 0;
+      while (i >= 0 && back < 3 && (b[i]! & 0xc0) === 0x80) {
+        i--;
+        back++;
+      }
+      if (i >= 0 && b[i]! >= 0xc0) {
+        const need = b[i]! >= 0xf0 ? 4 : b[i]! >= 0xe0 ? 3 : 2;
+        if (b.length - i < need) end = i;
+      }
+      if (end < b.length) {
+        this.carry = b.slice(end);
+        this.carryOffset = start + end;
+      }
+    }
+    const part = end === b.length ? b : b.subarray(0, end);
+    const text = this.decoder.decode(part);
+    if (text.indexOf("\uFFFD") >= 0) {
+      const at = firstInvalidUtf8(part);
+      if (at >= 0 || (last && truncatedTail(part))) {
+        const pos = start + (at >= 0 ? at : part.length - 1);
+        const byte = at >= 0 ? part[at]! : part[part.length - 1]!;
+        const latin = byte >= 0xa0 ? String.fromCharCode(byte) : null;
+        throw new UnreadableError(
+          `The file is not valid UTF-8: byte ${pos} (0x${byte.toString(16).padStart(2, "0")}) cannot be decoded${latin ? `; it looks like Latin-1 or Windows-1252 text (that byte would be “${latin}”)` : ""}.`,
+          "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8; in LibreOffice: Character set → Unicode (UTF-8)).",
+          { kind: "encoding", byte: pos },
+        );
+      }
+    }
+    return text;
   }
+}
+
+function truncatedTail(b: Uint8Array): boolean {
+  let i = b.length - 1;
+  while (i >= 0 && b.length - i <= 4 && (b[i]! & 0xc0) === 0x80) i--;
+  if (i < 0 || b[i]! < 0xc0) return false;
+  const need = b[i]! >= 0xf0 ? 4 : b[i]! >= 0xe0 ? 3 : 2;
+  return b.length - i < need;
 }

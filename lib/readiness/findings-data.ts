@@ -129,23 +129,22 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
     const candidates = [...new Set([...planned, ...names])];
     const countOf = new Map(observed.map((l) => [l[0], l[1]]));
     const merges: { from: string; to: string; count: number }[] = [];
+    const near = (a: string, b: string) => {
+      const fa = foldLevel(a);
+      const fb = foldLevel(b);
+      return fa === fb || (Math.min(fa.length, fb.length) >= 4 && oneEditApart(fa, fb));
+    };
     if (candidates.length <= 500) {
-      for (let i = 0; i < candidates.length; i++) {
-        for (let j = i + 1; j < candidates.length; j++) {
-          const a = candidates[i]!;
-          const b = candidates[j]!;
-          const fa = foldLevel(a);
-          const fb = foldLevel(b);
-          const near = fa === fb || (Math.min(fa.length, fb.length) >= 4 && oneEditApart(fa, fb));
-          if (!near) continue;
-          if (planned.includes(a) && planned.includes(b)) continue;
-          const aIn = planned.includes(a);
-          const bIn = planned.includes(b);
-          const to = aIn ? a : bIn ? b : (countOf.get(a) ?? 0) >= (countOf.get(b) ?? 0) ? a : b;
-          const from = to === a ? b : a;
-          if ((countOf.get(from) ?? 0) === 0) continue;
-          merges.push({ from, to, count: countOf.get(from) ?? 0 });
-        }
+      // each level outside the plan (or, with no plan list, each rarer level) merges into one target:
+      // a planned level when one is near, else the most frequent near level
+      const byCount = [...names].sort((a, b) => (countOf.get(b) ?? 0) - (countOf.get(a) ?? 0));
+      for (const from of names) {
+        if (planned.includes(from)) continue;
+        let to = planned.find((l) => near(from, l));
+        const cf = countOf.get(from) ?? 0;
+        const commoner = (l: string) => (countOf.get(l) ?? 0) > cf || ((countOf.get(l) ?? 0) === cf && l > from);
+        if (to === undefined) to = byCount.find((l) => l !== from && !planned.includes(l) && near(from, l) && commoner(l));
+        if (to !== undefined) merges.push({ from, to, count: countOf.get(from) ?? 0 });
       }
     }
     if (merges.length) {

@@ -50,6 +50,8 @@ export class Scan implements CsvSink {
   private vals: Float64Array;
   /** model columns used in the missingness patterns: response then predictors */
   patterns = new Map<string, number>();
+  /** patterns as bit masks while counting (model columns ≤ 30), turned into strings by patternMasks() */
+  private bitPatterns = new Map<number, number>();
   soleUnusable: number[] = [];
   responseMissing: RowSample;
   pm: PatternMoments | null = null;
@@ -119,6 +121,18 @@ export class Scan implements CsvSink {
     this.ready = this.model.every((m) => m.index >= 0) && this.response !== null;
   }
 
+  /** Missingness patterns over the model columns as strings ("1" = missing), with counts. */
+  patternMasks(): [string, number][] {
+    const n = this.model.length;
+    const out: [string, number][] = [...this.patterns.entries()];
+    for (const [bits, count] of this.bitPatterns) {
+      let s = "";
+      for (let m = 0; m < n; m++) s += bits & (1 << m) ? "1" : "0";
+      out.push([s, count]);
+    }
+    return out;
+  }
+
   /** A new level of an open-list category: add its indicator (and interaction) columns. */
   private addLevel(i: number, level: string): number {
     const p = this.predictors[i]!;
@@ -166,6 +180,8 @@ export class Scan implements CsvSink {
       let unusable = 0;
       let sole = -1;
       let mask = "";
+      let bits = 0;
+      const useBits = nModel <= 30;
       for (let m = 0; m < nModel; m++) {
         const c = cols[model[m]!.index]!;
         let ok = c.status === 1;
@@ -187,14 +203,19 @@ export class Scan implements CsvSink {
             this.vals[pi] = li ?? -1;
           } else this.vals[pi] = c.value;
         }
-        if (nModel <= 64) mask += c.status === 0 ? "1" : "0";
+        if (c.status === 0) {
+          if (useBits) bits |= 1 << m;
+          else mask += "1";
+        } else if (!useBits) mask += "0";
         if (!ok) {
           unusable++;
           sole = m;
         }
       }
       if (this.response && cols[this.response.index]!.status === 0) this.responseMissing.add(line);
-      if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
+      if (useBits) {
+        if (bits !== 0) this.bitPatterns.set(bits, (this.bitPatterns.get(bits) ?? 0) + 1);
+      } else if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
       if (this.pm) {
         for (let q = 0; q < this.pmCols.length; q++) {
           const c = cols[this.pmCols[q]!]!;

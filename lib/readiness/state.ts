@@ -56,7 +56,7 @@ export function stateOf(scan: Scan, engineVersion: string, planHash: string): En
     design: { columns: [...scan.design.columns], levels },
     ls: scan.ls.toJSON() as LeastSquaresJSON,
     pm: scan.pm ? scan.pm.toJSON() : null,
-    patterns: { columns: scan.model.map((m) => m.name), masks: [...scan.patterns.entries()] },
+    patterns: { columns: scan.model.map((m) => m.name), masks: scan.patternMasks() },
     soleUnusable: [...scan.soleUnusable],
     responseMissing: scan.responseMissing.count,
     columns: scan.cols.map((c) => ({
