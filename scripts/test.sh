@@ -30,30 +30,11 @@ say "vitest: unit and integration"
 record vitest "vitest (unit + integration)" "$?" "$OUT/vitest.json"
 
 # ---- 2. next build, when the sources changed
-build_fingerprint() {
-  if git rev-parse --is-inside-work-tree >/dev/null 2>&1; then
-    {
-      git ls-files -co --exclude-standard -- . ':!tests' ':!*.md' ':!scripts' ':!.ci' ':!playwright.config.ts' \
-        | sort | while IFS= read -r f; do [[ -f "$f" ]] && stat -c '%n %s %Y' -- "$f"; done
-      stat -c '%n %s %Y' node_modules/.package-lock.json 2>/dev/null
-    } | sha256sum | cut -d' ' -f1
-  else
-    date +%s%N  # no git: always build
-  fi
-}
-FINGERPRINT_FILE=".next/.tributary-fingerprint"
-fingerprint="$(build_fingerprint)"
 build_ok=1
-if [[ -f .next/BUILD_ID && -f "$FINGERPRINT_FILE" && "$(cat "$FINGERPRINT_FILE")" == "$fingerprint" ]]; then
-  note "next build: up to date, skipped"
-else
-  say "next build"
-  rm -f "$FINGERPRINT_FILE"
-  "$BIN/next" build </dev/null
-  code=$?
-  record step "next build" "$code"
-  if [[ $code -eq 0 ]]; then echo "$fingerprint" > "$FINGERPRINT_FILE"; else build_ok=0; fi
-fi
+ensure_build
+code=$?
+[[ $BUILD_RAN -eq 1 ]] && record step "next build" "$code"
+[[ $code -eq 0 ]] || build_ok=0
 
 # ---- 3. Playwright
 if [[ ! -f playwright.config.ts ]]; then

@@ -3,6 +3,8 @@
 
 TRIBUTARY_ROOT="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
 export TRIBUTARY_ROOT
+# no network here, and no reason to send any
+export NEXT_TELEMETRY_DISABLED=1
 
 if [[ -t 1 ]]; then
   _c_dim=$'\e[2m' _c_red=$'\e[31m' _c_yel=$'\e[33m' _c_grn=$'\e[32m' _c_off=$'\e[0m'
@@ -85,4 +87,37 @@ pid_is() {
   { read -r stat < "/proc/$pid/stat"; } 2>/dev/null || return 1
   stat="${stat##*) }"
   [[ "${stat:0:1}" != Z && "${stat:0:1}" != X ]]
+}
+
+# A fingerprint of everything `next build` reads (tracked and new files, less tests, docs and scripts).
+build_fingerprint() {
+  if git -C "$TRIBUTARY_ROOT" rev-parse --is-inside-work-tree >/dev/null 2>&1; then
+    (
+      cd "$TRIBUTARY_ROOT" || exit 1
+      git ls-files -co --exclude-standard -- . ':!tests' ':!*.md' ':!scripts' ':!.ci' ':!playwright.config.ts' \
+        | sort | while IFS= read -r f; do [[ -f "$f" ]] && stat -c '%n %s %Y' -- "$f"; done
+      stat -c '%n %s %Y' node_modules/.package-lock.json 2>/dev/null
+    ) | sha256sum | cut -d' ' -f1
+  else
+    date +%s%N # no git: always build
+  fi
+}
+
+# `next build` unless the last build is of the same sources. Returns 0 when built or up to date,
+# the build's exit code otherwise; sets BUILD_RAN=1 when it ran.
+ensure_build() {
+  local stamp="$TRIBUTARY_ROOT/.next/.tributary-fingerprint" fp code
+  BUILD_RAN=0
+  fp="$(build_fingerprint)"
+  if [[ -f "$TRIBUTARY_ROOT/.next/BUILD_ID" && -f "$stamp" && "$(cat "$stamp")" == "$fp" ]]; then
+    note "next build: up to date, skipped"
+    return 0
+  fi
+  say "building the app (next build)"
+  BUILD_RAN=1
+  rm -f "$stamp"
+  (cd "$TRIBUTARY_ROOT" && NODE_ENV=production node_modules/.bin/next build </dev/null)
+  code=$?
+  [[ $code -eq 0 ]] && echo "$fp" > "$stamp"
+  return $code
 }
