@@ -10,7 +10,8 @@ import { generateReactHelpers } from "@uploadthing/react";
 import type { BatchFileRouter } from "@/lib/uploads/file-router";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
-import { batchFileProblem, formatBytes } from "@/lib/intake/file-rules";
+import { batchFileProblem } from "@/lib/intake/file-rules";
+import { formatBytes } from "@/lib/format";
 import { usePrecheck } from "./use-precheck";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
@@ -118,7 +119,7 @@ export function UploadPanel({
           data-testid="batch-file-input"
           onChange={(e) => choose(e.target.files?.[0] ?? null)}
         />
-        <p className="mt-3 text-sm text-silt">CSV or TSV, UTF-8, up to {maxUploadMb} MB.</p>
+        <p className="mt-3 text-sm text-silt-ink">CSV or TSV, UTF-8, up to {maxUploadMb} MB.</p>
         {file ? <p className="mt-2 font-mono text-sm">{file.name} · {formatBytes(file.size)}</p> : null}
       </div>
       <p aria-live="polite" className="text-sm text-clay" role={fileError ? "alert" : undefined}>{fileError}</p>
@@ -129,7 +130,7 @@ export function UploadPanel({
             Checking in your browser… {s.rows.toLocaleString()} rows read{pct !== null ? ` (${pct} %)` : ""}
           </p>
         ) : null}
-        {s.phase === "error" ? <p className="text-sm text-silt">{s.message}</p> : null}
+        {s.phase === "error" ? <p className="text-sm text-silt-ink">{s.message}</p> : null}
         {s.phase === "done" ? (
           <div className="grid gap-2">
             <div className="flex flex-wrap items-center gap-3 text-sm">
@@ -137,7 +138,7 @@ export function UploadPanel({
               <SeverityBadge severity="blocker" count={s.report.counts.blocker} />
               <SeverityBadge severity="warning" count={s.report.counts.warning} />
               <SeverityBadge severity="note" count={s.report.counts.note} />
-              <span className="tabular-nums text-silt">
+              <span className="tabular-nums text-silt-ink">
                 {s.report.rows.total.toLocaleString()} rows, {s.report.rows.complete.toLocaleString()} complete cases
               </span>
             </div>
@@ -150,7 +151,7 @@ export function UploadPanel({
                     <li key={`${f.code}-${i}`} className="flex gap-2">
                       <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
                       <span>
-                        <code className="text-xs text-silt">{f.code}</code> {f.message} <span className="text-silt">— {f.fix}</span>
+                        <code className="text-xs text-silt-ink">{f.code}</code> {f.message} <span className="text-silt-ink">— {f.fix}</span>
                       </span>
                     </li>
                   ))}
@@ -158,7 +159,7 @@ export function UploadPanel({
             ) : (
               <p className="text-sm text-reed">No blockers or warnings found in the browser.</p>
             )}
-            <p className="text-xs text-silt">
+            <p className="text-xs text-silt-ink">
               You can fix the file and choose it again, or upload it as it is: the server checks it again either way.
             </p>
           </div>

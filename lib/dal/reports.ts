@@ -19,8 +19,14 @@ export type VersionReport = {
  * A batch version with its readiness report, within the user's scope (null otherwise, so
  * callers answer 404 whether it does not exist or is not theirs to see).
  */
-export async function getVersionReportForUser(user: SessionUser, publicId: string, versionNo: number): Promise<VersionReport | null> {
-  const batch = await getBatchForUser(user, publicId);
+export async function getVersionReportForUser(
+  user: SessionUser,
+  publicId: string,
+  versionNo: number,
+  /** the batch, when the caller has just loaded it for the same user */
+  loaded?: BatchDetail,
+): Promise<VersionReport | null> {
+  const batch = loaded && loaded.publicId === publicId ? loaded : await getBatchForUser(user, publicId);
   const version = batch?.versions.find((v) => v.version === versionNo);
   if (!batch || !version) return null;
   const db = getDb();

@@ -4,11 +4,7 @@
  */
 export const BATCH_FILE_EXTENSIONS = /\.(csv|tsv|txt)$/i;
 
-export function formatBytes(n: number): string {
-  if (n < 1024) return `${n} B`;
-  if (n < 1024 ** 2) return `${(n / 1024).toFixed(1)} KB`;
-  return `${(n / 1024 ** 2).toFixed(1)} MB`;
-}
+import { formatBytes } from "@/lib/format";
 
 /** A plain message saying what to fix, or null when the file may be uploaded. */
 export function batchFileProblem(file: { name: string; size: number }, maxUploadMb: number): string | null {

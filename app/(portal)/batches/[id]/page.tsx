@@ -1,0 +1,109 @@
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { PageHeader } from "@/components/ui/page-header";
+import { Section } from "@/components/ui/section";
+import { StateBadge } from "@/components/state-badge";
+import { CheckProgress } from "@/components/report/check-progress";
+import { ReportView, findingKey } from "@/components/report/report-view";
+import { requireUser } from "@/lib/auth/session";
+import { can } from "@/lib/auth/permissions";
+import { getBatchForUser } from "@/lib/dal/batches";
+import { getVersionReportForUser } from "@/lib/dal/reports";
+import { formatBytes, formatDateTime } from "@/lib/format";
+
+export const metadata = { title: "Batch" };
+
+export default async function BatchPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ v?: string }> }) {
+  const user = await requireUser();
+  const { id } = await params;
+  const { v } = await searchParams;
+  const batchInfo = await getBatchForUser(user, id);
+  if (!batchInfo) notFound();
+  const wanted = v && /^\d+$/.test(v) ? Number(v) : batchInfo.latestVersion;
+  const found = await getVersionReportForUser(user, id, wanted, batchInfo);
+  if (!found) notFound();
+  const { batch, version, report } = found;
+
+  // compare with the previous version, finding by finding
+  let previous: { resolved: NonNullable<typeof report>["findings"]; status: Map<string, "remains" | "new"> } | null = null;
+  if (report && version.version > 1) {
+    const prev = await getVersionReportForUser(user, id, version.version - 1, batchInfo);
+    if (prev?.report) {
+      const before = new Set(prev.report.findings.map(findingKey));
+      const now = new Set(report.findings.map(findingKey));
+      previous = {
+        resolved: prev.report.findings.filter((f) => !now.has(findingKey(f))),
+        status: new Map(report.findings.map((f) => [findingKey(f), before.has(findingKey(f)) ? "remains" : "new"])),
+      };
+    }
+  }
+  const isProvider = user.role === "provider" && can(user.role, "batch.upload");
+  const canResubmit = isProvider && version.version === batch.latestVersion && batch.state !== "accepted";
+
+  return (
+    <>
+      <PageHeader
+        eyebrow={`${batch.studyTitle} · ${batch.organisationName}`}
+        title={batch.title}
+        description={
+          <>
+            Version {version.version} of {batch.latestVersion}: <span className="font-mono text-sm">{version.fileName}</span> ({formatBytes(version.fileSize)}),
+            uploaded {formatDateTime(version.uploadedAt)}
+            {version.uploadedByName ? ` by ${version.uploadedByName}` : ""}, checked against data plan version {found.plan.version}.
+          </>
+        }
+        actions={
+          <>
+            <StateBadge state={version.state} />
+            {canResubmit ? (
+              <Link href={`/batches/${batch.publicId}/new-version`} className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+                Upload a new version
+              </Link>
+            ) : null}
+          </>
+        }
+      />
+
+      {batch.versions.length > 1 ? (
+        <nav aria-label="Versions" className="mb-6 flex flex-wrap gap-2 text-sm">
+          {batch.versions.map((bv) => (
+            <Link
+              key={bv.version}
+              href={`/batches/${batch.publicId}?v=${bv.version}`}
+              aria-current={bv.version === version.version ? "page" : undefined}
+              className={`rounded border px-2 py-1 ${bv.version === version.version ? "border-channel bg-shallows font-semibold" : "border-silt-line bg-white hover:bg-channel-wash"}`}
+            >
+              v{bv.version} · {bv.state === "ready" ? "ready for review" : bv.state}
+            </Link>
+          ))}
+        </nav>
+      ) : null}
+
+      <CheckProgress batchId={batch.publicId} version={version.version} state={version.state} />
+
+      {previous ? (
+        <Section title={`Since version ${version.version - 1}`} id="since" note="Findings are matched by code and columns.">
+          <p className="text-sm tabular-nums" data-testid="since-previous">
+            {previous.resolved.length} resolved · {[...previous.status.values()].filter((s) => s === "remains").length} remain ·{" "}
+            {[...previous.status.values()].filter((s) => s === "new").length} new
+          </p>
+          {previous.resolved.length ? (
+            <ul className="mt-2 grid gap-1 text-sm">
+              {previous.resolved.map((f, i) => (
+                <li key={i} className="text-reed-ink">
+                  ✓ Resolved: <code className="text-xs">{f.code}</code> {f.columns.length ? <span className="font-mono text-xs">({f.columns.join(", ")})</span> : null} — {f.message}
+                </li>
+              ))}
+            </ul>
+          ) : null}
+        </Section>
+      ) : null}
+
+      {report ? (
+        <ReportView report={report} plan={found.plan.plan} csvPrefix={`${batch.publicId}-v${version.version}`} findingStatus={previous?.status} />
+      ) : version.state === "received" || version.state === "checking" ? null : (
+        <p className="text-base">No readiness report is stored for this version.</p>
+      )}
+    </>
+  );
+}

@@ -1,0 +1,137 @@
+"use client";
+/** The report's tables: findings, columns, coefficients and collinearity by term. */
+import { DataTable, type Column } from "@/components/data-table";
+import { SeverityBadge } from "@/components/severity-badge";
+import { formatCount, formatDecimal } from "@/lib/format";
+import type { ColumnReport, Coefficient, Finding } from "@/lib/readiness/report";
+
+const SEVERITY_ORDER = { blocker: 0, warning: 1, note: 2 } as const;
+
+export type FindingRow = Finding & { id: string; status?: "resolved" | "remains" | "new" };
+
+function rowsText(f: Finding): string {
+  if (f.rows.length === 0) return "";
+  const more = (f.rowCount ?? f.rows.length) > f.rows.length ? ` … (${formatCount(f.rowCount)} in all)` : "";
+  return f.rows.join(", ") + more;
+}
+
+export function FindingsTable({ findings, caption = "Findings", csvName }: { findings: FindingRow[]; caption?: string; csvName?: string }) {
+  const columns: Column<FindingRow>[] = [
+    {
+      key: "severity",
+      header: "Severity",
+      width: "7.5rem",
+      value: (f) => SEVERITY_ORDER[f.severity],
+      render: (f) => <SeverityBadge severity={f.severity} />,
+    },
+    ...(findings.some((f) => f.status)
+      ? [{ key: "status", header: "Since last version", width: "8rem", value: (f: FindingRow) => f.status ?? "" } satisfies Column<FindingRow>]
+      : []),
+    { key: "code", header: "Code", width: "minmax(9rem, 1fr)", value: (f) => f.code, render: (f) => <code className="text-xs">{f.code}</code> },
+    { key: "columns", header: "Columns", width: "minmax(8rem, 1fr)", value: (f) => f.columns.join(", "), render: (f) => <span className="font-mono text-xs">{f.columns.join(", ")}</span> },
+    { key: "message", header: "What was found", width: "minmax(16rem, 3fr)", value: (f) => f.message },
+    { key: "rows", header: "Rows", width: "minmax(8rem, 1.2fr)", value: (f) => rowsText(f), render: (f) => <span className="text-xs tabular-nums">{rowsText(f)}</span> },
+    { key: "fix", header: "What to do", width: "minmax(14rem, 2.5fr)", value: (f) => f.fix },
+  ];
+  return <DataTable rows={findings} columns={columns} caption={caption} csvName={csvName} filterPlaceholder="Filter findings" />;
+}
+
+type ColumnRow = ColumnReport & { id: string };
+
+export function ColumnsTable({ columns: cols, csvName }: { columns: ColumnReport[]; csvName?: string }) {
+  const rows: ColumnRow[] = cols.map((c) => ({ ...c, id: c.name }));
+  const columns: Column<ColumnRow>[] = [
+    { key: "name", header: "Column", width: "minmax(10rem, 1.5fr)", value: (c) => c.name, render: (c) => <span className="font-mono text-xs">{c.name}</span> },
+    { key: "role", header: "Role", width: "6.5rem", value: (c) => c.role ?? "not in plan" },
+    { key: "planned", header: "Planned type", width: "7rem", value: (c) => c.plannedType ?? "–" },
+    {
+      key: "inferred",
+      header: "Looks like",
+      width: "7rem",
+      value: (c) => c.inferredType,
+      render: (c) => <span className={c.plannedType && c.inferredType !== c.plannedType && c.inferredType !== "empty" && !(c.plannedType === "number" && c.inferredType === "integer") ? "font-semibold text-clay-ink" : undefined}>{c.inferredType}</span>,
+    },
+    { key: "missing", header: "Missing", numeric: true, width: "6.5rem", value: (c) => c.missing.fraction, render: (c) => `${formatDecimal(c.missing.fraction * 100, 1)} %` },
+    {
+      key: "summary",
+      header: "Range / levels",
+      width: "minmax(16rem, 3fr)",
+      value: (c) =>
+        c.summary
+          ? `min ${c.summary.min}, median ${c.summary.median}, max ${c.summary.max}, mean ${formatDecimal(c.summary.mean, 3)}, sd ${formatDecimal(c.summary.sd, 3)}`
+          : (c.levels ?? []).map((l) => `${l.level} ${l.count}`).join("; "),
+      render: (c) => (c.levels && c.levels.length > 0 ? <LevelBars levels={c.levels} /> : c.summary ? <SummaryText s={c.summary} /> : "–"),
+      sortable: false,
+    },
+  ];
+  return <DataTable rows={rows} columns={columns} caption="Columns" csvName={csvName} filterPlaceholder="Filter columns" />;
+}
+
+function SummaryText({ s }: { s: NonNullable<ColumnReport["summary"]> }) {
+  return (
+    <span className="text-xs tabular-nums">
+      {s.min} · <span title="lower quartile">{s.q1}</span> · <strong title="median">{s.median}</strong> · <span title="upper quartile">{s.q3}</span> · {s.max}
+      <span className="text-silt-ink"> (mean {formatDecimal(s.mean, 3)}, sd {formatDecimal(s.sd, 3)})</span>
+    </span>
+  );
+}
+
+/** Level bars: one bar per level, sparse levels (under 10 rows) marked. */
+export function LevelBars({ levels, sparse = 10 }: { levels: { level: string; count: number }[]; sparse?: number }) {
+  const max = Math.max(1, ...levels.map((l) => l.count));
+  const shown = levels.slice(0, 12);
+  return (
+    <ul className="grid w-full gap-0.5 text-xs" aria-label="Level counts">
+      {shown.map((l) => (
+        <li key={l.level} className="grid grid-cols-[minmax(5rem,8rem)_1fr_3.5rem] items-center gap-2">
+          <span className="truncate font-mono" title={l.level}>{JSON.stringify(l.level).slice(1, -1) || "(blank)"}</span>
+          <span className="h-2 bg-sand-deep">
+            <span className={`block h-2 ${l.count < sparse ? "bg-ochre" : "bg-channel"}`} style={{ width: `${(l.count / max) * 100}%` }} />
+          </span>
+          <span className="text-right tabular-nums">{formatCount(l.count)}{l.count < sparse ? " ◇" : ""}</span>
+        </li>
+      ))}
+      {levels.length > shown.length ? <li className="text-silt-ink">… and {levels.length - shown.length} more levels</li> : null}
+    </ul>
+  );
+}
+
+type CoefRow = Coefficient & { id: string };
+
+export function CoefficientsTable({ coefficients, csvName }: { coefficients: Coefficient[]; csvName?: string }) {
+  const rows: CoefRow[] = coefficients.map((c) => ({ ...c, id: c.term }));
+  const num = (v: number | null, d = 4) => (v === null ? "–" : Math.abs(v) >= 1e5 || (v !== 0 && Math.abs(v) < 1e-3) ? v.toExponential(3) : formatDecimal(v, d));
+  const columns: Column<CoefRow>[] = [
+    { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (c) => c.term, render: (c) => <span className="font-mono text-xs">{c.term}{c.aliased ? " (aliased)" : ""}</span> },
+    { key: "estimate", header: "Estimate", numeric: true, value: (c) => c.estimate, render: (c) => num(c.estimate) },
+    { key: "se", header: "Std. error", numeric: true, value: (c) => c.stdError, render: (c) => num(c.stdError) },
+    { key: "t", header: "t", numeric: true, value: (c) => c.t, render: (c) => num(c.t, 2) },
+    { key: "p", header: "p", numeric: true, value: (c) => c.pValue, render: (c) => (c.pValue === null ? "–" : c.pValue < 1e-4 ? c.pValue.toExponential(1) : formatDecimal(c.pValue, 4)) },
+  ];
+  return <DataTable rows={rows} columns={columns} caption="Coefficients" csvName={csvName} filterPlaceholder="Filter terms" />;
+}
+
+type TermRow = { id: string; term: string; df: number; vif?: number; gvif: number; gvifScaled: number };
+
+export function CollinearityTable({ terms, vifWarning, vifStrong, csvName }: { terms: Omit<TermRow, "id">[]; vifWarning: number; vifStrong: number; csvName?: string }) {
+  const rows: TermRow[] = terms.map((t) => ({ ...t, id: t.term }));
+  const flag = (scaled: number) => (scaled * scaled >= vifStrong ? "strong" : scaled * scaled >= vifWarning ? "warning" : "");
+  const columns: Column<TermRow>[] = [
+    { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (t) => t.term, render: (t) => <span className="font-mono text-xs">{t.term}</span> },
+    { key: "df", header: "df", numeric: true, width: "4rem", value: (t) => t.df },
+    { key: "vif", header: "VIF", numeric: true, value: (t) => t.vif ?? null, render: (t) => (t.vif === undefined ? "–" : formatDecimal(t.vif, 2)) },
+    { key: "gvif", header: "GVIF", numeric: true, value: (t) => t.gvif, render: (t) => formatDecimal(t.gvif, 2) },
+    { key: "gvifScaled", header: "GVIF^(1/(2·df))", numeric: true, value: (t) => t.gvifScaled, render: (t) => formatDecimal(t.gvifScaled, 3) },
+    {
+      key: "flag",
+      header: "Reading",
+      width: "9rem",
+      value: (t) => flag(t.gvifScaled),
+      render: (t) => {
+        const f = flag(t.gvifScaled);
+        return f === "strong" ? <SeverityBadge severity="warning" /> : f === "warning" ? <span className="text-ochre-ink">◇ above {vifWarning}</span> : <span className="text-silt-ink">—</span>;
+      },
+    },
+  ];
+  return <DataTable rows={rows} columns={columns} caption="Collinearity by term" csvName={csvName} filterPlaceholder="Filter terms" />;
+}
