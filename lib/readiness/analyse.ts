@@ -27,10 +27,15 @@ export interface Analysis {
 }
 
 /** The design in force for a state: the plan's predictors with the state's level lists. */
-export function designOf(plan: Plan, levels: Record<string, string[]>): Design {
+export function designOf(plan: Plan, levels: Record<string, string[]>, full = false): Design {
   const preds = predictorsOf(plan);
-  for (const p of preds) if (p.kind === "category") for (const l of levels[p.name] ?? []) if (!p.levels.includes(l)) p.levels.push(l);
-  return buildDesign(plan, preds);
+  for (const p of preds) {
+    if (p.kind !== "category") continue;
+    for (const l of levels[p.name] ?? []) if (!p.levels.includes(l)) p.levels.push(l);
+    // an open list without a planned baseline: the first level seen is the baseline
+    if (p.col.baseline === undefined && (p.col.levels ?? []).length === 0) p.levels = [...(levels[p.name] ?? [])];
+  }
+  return buildDesign(plan, preds, full);
 }
 
 function summaryFromSample(m: Moments, values: number[]): Summary {

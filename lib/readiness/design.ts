@@ -45,17 +45,22 @@ export function predictorsOf(plan: Plan, extraLevels: Record<string, string[]> =
     });
 }
 
-function termColumns(p: Predictor): string[] {
+function termColumns(p: Predictor, full: boolean): string[] {
   if (p.kind !== "category") return [p.name];
-  return p.levels.slice(1).map((l) => `${p.name}[${l}]`);
+  return p.levels.slice(full ? 0 : 1).map((l) => `${p.name}[${l}]`);
 }
 
-/** Build the design from the plan and the level lists in force. */
-export function buildDesign(plan: Plan, predictors: Predictor[]): Design {
+/**
+ * Build the design from the plan and the level lists in force. `full` keeps an indicator for
+ * every level, the baseline's too: the engine state is stored that way, so that dropping the
+ * baseline's columns later gives the treatment-coded fit for any baseline (pooling batches
+ * whose open level lists start differently, or a plan whose baseline changed).
+ */
+export function buildDesign(plan: Plan, predictors: Predictor[], full = false): Design {
   const terms: DesignTerm[] = [];
   const byName = new Map(predictors.map((p) => [p.name, p]));
   for (const p of predictors) {
-    const cols = termColumns(p);
+    const cols = termColumns(p, full);
     terms.push({ term: p.name, columns: cols, df: cols.length });
   }
   for (const [a, b] of plan.interactions) {
@@ -63,7 +68,7 @@ export function buildDesign(plan: Plan, predictors: Predictor[]): Design {
     const pb = byName.get(b);
     if (!pa || !pb) continue;
     const cols: string[] = [];
-    for (const ca of termColumns(pa)) for (const cb of termColumns(pb)) cols.push(`${ca}:${cb}`);
+    for (const ca of termColumns(pa, full)) for (const cb of termColumns(pb, full)) cols.push(`${ca}:${cb}`);
     terms.push({ term: `${a}:${b}`, columns: cols, df: cols.length });
   }
   const columns = [...(plan.intercept ? ["intercept"] : []), ...terms.flatMap((t) => t.columns)];
@@ -83,12 +88,13 @@ export class RowEncoder {
     plan: Plan,
     private predictors: Predictor[],
     design: Design,
+    private full = false,
   ) {
     this.x = new Float64Array(design.columns.length);
     let off = plan.intercept ? 1 : 0;
     for (const p of predictors) {
       this.offsets.push(off);
-      off += p.kind === "category" ? p.levels.length - 1 : 1;
+      off += p.kind === "category" ? p.levels.length - (full ? 0 : 1) : 1;
     }
     const index = new Map(predictors.map((p, i) => [p.name, i]));
     for (const [a, b] of plan.interactions) {
@@ -103,7 +109,7 @@ export class RowEncoder {
   }
   private width(i: number): number {
     const p = this.predictors[i]!;
-    return p.kind === "category" ? p.levels.length - 1 : 1;
+    return p.kind === "category" ? p.levels.length - (this.full ? 0 : 1) : 1;
   }
   /** Fill this.x from the values; returns this.x. */
   encode(values: ArrayLike<number>): Float64Array {
@@ -113,9 +119,10 @@ export class RowEncoder {
       const off = this.offsets[i]!;
       const v = values[i]!;
       if (ps[i]!.kind === "category") {
-        const w = ps[i]!.levels.length - 1;
+        const shift = this.full ? 0 : 1;
+        const w = ps[i]!.levels.length - shift;
         for (let j = 0; j < w; j++) x[off + j] = 0;
-        if (v > 0) x[off + v - 1] = 1;
+        if (v >= shift) x[off + v - shift] = 1;
       } else x[off] = v;
     }
     for (const it of this.inter) {

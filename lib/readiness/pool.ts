@@ -23,7 +23,7 @@ export async function poolReport(states: unknown[], plan: Plan): Promise<Readine
   const t = thresholdsOf(plan);
   const planHash = await hashPlan(plan);
   const merged = valid.length
-    ? mergeStates(valid, (levels) => designOf(plan, levels).columns)
+    ? mergeStates(valid, (levels) => designOf(plan, levels, true).columns)
     : null;
   if (!merged) {
     const findings = [finding("pool.empty", "note", [], "The pool has no accepted batches yet.", "Accept a batch to start the pool.")];

@@ -15,6 +15,10 @@ export const QUANTILE_BUDGET = 4_000_000;
 export const QUANTILE_COLUMN_CAP = 200_000;
 /** distinct rows (and keys) hashed for duplicate detection; about 24 bytes each */
 export const DUPLICATE_CAP = 4_000_000;
+/** levels an open-list predictor may add as design columns; later new levels make rows incomplete */
+export const MAX_OPEN_LEVELS = 200;
+/** widest design the least-squares state may grow to by open levels (its memory is k²) */
+export const MAX_DESIGN_COLUMNS = 1000;
 
 export interface ModelColumn {
   name: string;
@@ -67,9 +71,9 @@ export class Scan implements CsvSink {
     this.duplicateRows = new RowSample(cap);
     this.responseMissing = new RowSample(cap);
     this.predictors = predictorsOf(plan);
-    this.design = buildDesign(plan, this.predictors);
-    this.encoder = new RowEncoder(plan, this.predictors, this.design);
-    this.ls = new LeastSquares(this.design.columns.length);
+    this.design = buildDesign(plan, this.predictors, true);
+    this.encoder = new RowEncoder(plan, this.predictors, this.design, true);
+    this.ls = new LeastSquares(Math.max(1, this.design.columns.length));
     this.vals = new Float64Array(this.predictors.length);
   }
 
@@ -137,11 +141,12 @@ export class Scan implements CsvSink {
   private addLevel(i: number, level: string): number {
     const p = this.predictors[i]!;
     const from = this.design.columns;
+    if (p.levels.length >= MAX_OPEN_LEVELS || from.length >= MAX_DESIGN_COLUMNS) return -1;
     p.levels.push(level);
     this.levelIndex[i]!.set(level, p.levels.length - 1);
-    this.design = buildDesign(this.plan, this.predictors);
+    this.design = buildDesign(this.plan, this.predictors, true);
     if (this.design.columns.length !== from.length) this.ls = this.ls.expandColumns(from, this.design.columns);
-    this.encoder = new RowEncoder(this.plan, this.predictors, this.design);
+    this.encoder = new RowEncoder(this.plan, this.predictors, this.design, true);
     return p.levels.length - 1;
   }
 
@@ -193,7 +198,8 @@ export class Scan implements CsvSink {
             let li = this.levelIndex[pi]!.get(s);
             if (li === undefined) {
               if (p.open) li = this.addLevel(pi, s);
-              else {
+              if (li === undefined || li < 0) {
+                li = undefined;
                 ok = false;
                 let u = this.unknownLevels[pi]!.get(s);
                 if (!u && this.unknownLevels[pi]!.size < 1000) this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
