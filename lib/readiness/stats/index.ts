@@ -3,7 +3,8 @@ export { LeastSquares, type LeastSquaresJSON } from "./least-squares";
 export { analyseDesign, type DesignSpec, type DesignAnalysis } from "./design";
 export { ALIAS_TOLERANCE } from "./aliasing";
 export { highCorrelationPairs, conditionFlags } from "./collinearity";
-export { PatternMoments, littleMcar, type PatternMomentsJSON } from "./missing";
+export { PatternMoments, type PatternMomentsJSON } from "./missing";
+export { littleMcar } from "./little-mcar";
 export {
   fCdf,
   fUpper,

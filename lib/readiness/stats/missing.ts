@@ -1,13 +1,12 @@
 /**
- * Little's (1988) MCAR test from per-pattern sufficient statistics (JASA 83, 1198–1202).
+ * Sufficient statistics for Little's (1988) MCAR test (see little-mcar.ts).
  * Each missingness pattern over the m numeric columns keeps its row count, the means of its
  * observed columns and their centred cross-products (Welford updates; merged with the pairwise
  * formula of Chan, Golub & LeVeque 1979), so states from chunks or batches combine exactly.
- * EM for μ, Σ (divisor n) runs on these statistics: the conditional expectations of the missing
- * values are linear in the observed ones, so no second pass over the rows is needed.
+ * EM for μ, Σ runs on these statistics alone: the conditional expectations of the missing values
+ * are linear in the observed ones, so no second pass over the rows is needed.
  */
 import { z } from "zod";
-import { chiSquareUpper } from "./distributions";
 
 interface Pattern {
   observed: number[]; // column indices observed in this pattern
@@ -164,160 +163,4 @@ export class PatternMoments {
     }
     return pm;
   }
-}
-
-/** Inverse of a symmetric positive-definite matrix by Cholesky; null when not positive definite. */
-function spdInverse(a: number[][]): number[][] | null {
-  const n = a.length;
-  const l: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = (a[i] as number[])[j] as number;
-      for (let t = 0; t < j; t++) s -= ((l[i] as number[])[t] as number) * ((l[j] as number[])[t] as number);
-      if (i === j) {
-        if (!(s > 1e-13 * Math.abs((a[i] as number[])[i] as number)) || !(s > 0)) return null;
-        (l[i] as number[])[i] = Math.sqrt(s);
-      } else (l[i] as number[])[j] = s / ((l[j] as number[])[j] as number);
-    }
-  }
-  // inv = L⁻ᵀ L⁻¹
-  const linv: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let c = 0; c < n; c++) {
-    for (let i = c; i < n; i++) {
-      let s = i === c ? 1 : 0;
-      for (let t = c; t < i; t++) s -= ((l[i] as number[])[t] as number) * ((linv[t] as number[])[c] as number);
-      (linv[i] as number[])[c] = s / ((l[i] as number[])[i] as number);
-    }
-  }
-  const inv: number[][] = Array.from({ length: n }, () => new Array<number>(n).fill(0));
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j <= i; j++) {
-      let s = 0;
-      for (let t = i; t < n; t++) s += ((linv[t] as number[])[i] as number) * ((linv[t] as number[])[j] as number);
-      (inv[i] as number[])[j] = s;
-      (inv[j] as number[])[i] = s;
-    }
-  }
-  return inv;
-}
-
-const sub = (m: number[][], rows: number[], cols: number[]) => rows.map((i) => cols.map((j) => (m[i] as number[])[j] as number));
-
-/**
- * Little's MCAR test: d² = Σ_j m_j (ȳ_j − μ̂_j)ᵀ Σ̂_j⁻¹ (ȳ_j − μ̂_j), df = Σ_j p_j − p, χ²(df).
- * μ̂, Σ̂: maximum-likelihood estimates under multivariate normality by EM (divisor n), from
- * the per-pattern statistics. Patterns with nothing observed add nothing; columns never
- * observed are left out. Null when df ≤ 0 (e.g. one pattern) or Σ̂ is singular.
- */
-export function littleMcar(pm: PatternMoments): { statistic: number; df: number; pValue: number } | null {
-  const all = pm.summary().filter((p) => p.observed.length > 0);
-  const seen = new Set(all.flatMap((p) => p.observed));
-  const cols = [...seen].sort((a, b) => a - b);
-  const m = cols.length;
-  if (m === 0 || all.length < 2) return null;
-  const at = new Map(cols.map((c, i) => [c, i]));
-  const pats = all.map((p) => ({ ...p, obs: p.observed.map((c) => at.get(c) as number) }));
-  const N = pats.reduce((s, p) => s + p.count, 0);
-
-  // Start: available-case means and variances, zero covariances.
-  const mu = new Array<number>(m).fill(0);
-  const cnt = new Array<number>(m).fill(0);
-  for (const p of pats) p.obs.forEach((c, a) => { mu[c] = (mu[c] as number) + p.count * (p.mean[a] as number); cnt[c] = (cnt[c] as number) + p.count; });
-  for (let c = 0; c < m; c++) mu[c] = (mu[c] as number) / (cnt[c] as number);
-  let sigma: number[][] = Array.from({ length: m }, () => new Array<number>(m).fill(0));
-  for (const p of pats) {
-    const q = p.obs.length;
-    p.obs.forEach((c, a) => {
-      const dm = (p.mean[a] as number) - (mu[c] as number);
-      (sigma[c] as number[])[c] = ((sigma[c] as number[])[c] as number) + (p.comoment[a * q + a] as number) + p.count * dm * dm;
-    });
-  }
-  for (let c = 0; c < m; c++) {
-    const v = ((sigma[c] as number[])[c] as number) / (cnt[c] as number);
-    (sigma[c] as number[])[c] = v > 0 ? v : 1;
-  }
-
-  for (let iter = 0; iter < 5000; iter++) {
-    // E-step per pattern: fill means ŷ = μ_m + B(ȳ_o − μ_o), B = Σ_mo Σ_oo⁻¹; within-pattern
-    // second moments: [S, SBᵀ; BS, BSBᵀ + n·C], S = comoment, C = Σ_mm − BΣ_om.
-    const t1 = new Array<number>(m).fill(0);
-    const fills: { count: number; yhat: number[]; within: number[][] }[] = [];
-    for (const p of pats) {
-      const o = p.obs;
-      const q = o.length;
-      const mis = cols.map((_, i) => i).filter((i) => !o.includes(i));
-      const yhat = new Array<number>(m).fill(0);
-      o.forEach((c, a) => (yhat[c] = p.mean[a] as number));
-      const within: number[][] = Array.from({ length: m }, () => new Array<number>(m).fill(0));
-      const S = Array.from({ length: q }, (_, a) => Array.from({ length: q }, (_, b) => p.comoment[a * q + b] as number));
-      o.forEach((c, a) => o.forEach((d, b) => ((within[c] as number[])[d] = (S[a] as number[])[b] as number)));
-      if (mis.length > 0) {
-        const inv = spdInverse(sub(sigma, o, o));
-        if (!inv) return null;
-        const smo = sub(sigma, mis, o);
-        const B = smo.map((row) => o.map((_, b) => row.reduce((s, v, t) => s + v * ((inv[t] as number[])[b] as number), 0)));
-        mis.forEach((c, r) => {
-          let v = mu[c] as number;
-          o.forEach((d, a) => (v += ((B[r] as number[])[a] as number) * ((p.mean[a] as number) - (mu[d] as number))));
-          yhat[c] = v;
-        });
-        // BS (mis × o)
-        const BS = B.map((row) => o.map((_, b) => row.reduce((s, v, t) => s + v * ((S[t] as number[])[b] as number), 0)));
-        mis.forEach((c, r) => {
-          o.forEach((d, b) => {
-            (within[c] as number[])[d] = (BS[r] as number[])[b] as number;
-            (within[d] as number[])[c] = (BS[r] as number[])[b] as number;
-          });
-          mis.forEach((e, s2) => {
-            let v = 0;
-            o.forEach((_, b) => (v += ((BS[r] as number[])[b] as number) * ((B[s2] as number[])[b] as number)));
-            let cond = (sigma[c] as number[])[e] as number;
-            o.forEach((_, a) => (cond -= ((B[r] as number[])[a] as number) * ((smo[s2] as number[])[a] as number)));
-            (within[c] as number[])[e] = v + p.count * cond;
-          });
-        });
-      }
-      for (let c = 0; c < m; c++) t1[c] = (t1[c] as number) + p.count * (yhat[c] as number);
-      fills.push({ count: p.count, yhat, within });
-    }
-    const muNew = t1.map((v) => v / N);
-    const sigmaNew: number[][] = Array.from({ length: m }, () => new Array<number>(m).fill(0));
-    for (const f of fills) {
-      for (let i = 0; i < m; i++) {
-        const di = (f.yhat[i] as number) - (muNew[i] as number);
-        for (let j = 0; j < m; j++) {
-          const dj = (f.yhat[j] as number) - (muNew[j] as number);
-          (sigmaNew[i] as number[])[j] = ((sigmaNew[i] as number[])[j] as number) + ((f.within[i] as number[])[j] as number) + f.count * di * dj;
-        }
-      }
-    }
-    for (const row of sigmaNew) for (let j = 0; j < m; j++) row[j] = (row[j] as number) / N;
-    let change = 0;
-    for (let i = 0; i < m; i++) {
-      const sd = Math.sqrt((sigmaNew[i] as number[])[i] as number) || 1;
-      change = Math.max(change, Math.abs((muNew[i] as number) - (mu[i] as number)) / sd);
-      for (let j = 0; j < m; j++) {
-        const scale = Math.sqrt(((sigmaNew[i] as number[])[i] as number) * ((sigmaNew[j] as number[])[j] as number)) || 1;
-        change = Math.max(change, Math.abs(((sigmaNew[i] as number[])[j] as number) - ((sigma[i] as number[])[j] as number)) / scale);
-      }
-    }
-    for (let i = 0; i < m; i++) mu[i] = muNew[i] as number;
-    sigma = sigmaNew;
-    if (change < 1e-12) break;
-  }
-
-  let d2 = 0;
-  let df = -m;
-  for (const p of pats) {
-    const o = p.obs;
-    const inv = spdInverse(sub(sigma, o, o));
-    if (!inv) return null;
-    const diff = o.map((c, a) => (p.mean[a] as number) - (mu[c] as number));
-    let quad = 0;
-    for (let a = 0; a < o.length; a++) for (let b = 0; b < o.length; b++) quad += (diff[a] as number) * ((inv[a] as number[])[b] as number) * (diff[b] as number);
-    d2 += p.count * quad;
-    df += o.length;
-  }
-  if (df <= 0) return null;
-  return { statistic: d2, df, pValue: chiSquareUpper(d2, df) };
 }
