@@ -1,0 +1,13 @@
+/** `npx tsx scripts/demo-batches.ts`: send the demo batch files through the pipeline (after the seed, with the fakes running). */
+import { getDb, getPool } from "@/db/client";
+import { sendDemoBatches } from "@/lib/demo/send-batches";
+
+try {
+  const n = await sendDemoBatches(getDb(), (l) => console.log(`[demo] ${l}`));
+  console.log(`[demo] ${n} demo batch file(s) sent; the worker checks them.`);
+} catch (e) {
+  console.error(`[demo] could not send the demo batches: ${e instanceof Error ? e.message : String(e)}`);
+  process.exitCode = 1;
+} finally {
+  await getPool().end();
+}
