@@ -7,8 +7,7 @@ import { useTheme } from "@table-library/react-table-library/theme";
 import type { TableNode } from "@table-library/react-table-library/types/table";
 import { toCsv } from "@/lib/format";
 import { Button } from "@/components/ui/button";
-import { inputClass } from "@/components/ui/input";
-import { cx } from "@/components/ui/cx";
+import { sized } from "@/components/ui/input";
 
 type CellValue = string | number | boolean | Date | null | undefined;
 
@@ -120,11 +119,13 @@ export function DataTable<T extends TableNode>({
     HeaderRow: `background: #EFEADF; color: #12262E;`,
     HeaderCell: `font-weight: 600; padding: 7px 10px; border-bottom: 1px solid #8A8170; text-align: left;
       & button { font-weight: 600; color: #12262E; }
-      & > div { white-space: normal; }`,
+      & > div { white-space: normal; }
+      & button > div { white-space: normal; overflow: visible; text-overflow: clip; text-align: inherit; }
+      &.th-num > div { display: flex; justify-content: flex-end; text-align: right; }`,
     Row: `background: #FFFFFF; color: #12262E;
       &:nth-of-type(even) { background: #FBF9F5; }
       &:hover { background: #E9F3F2; }`,
-    Cell: `padding: 7px 10px; border-bottom: 1px solid #E2DCCF; & > div { white-space: normal; overflow-wrap: anywhere; }`,
+    Cell: `padding: 6px 10px; border-bottom: 1px solid #E2DCCF; & > div { white-space: normal; overflow-wrap: anywhere; }`,
   });
 
   const sortState = sort.state as { sortKey?: string; reverse?: boolean };
@@ -163,7 +164,7 @@ export function DataTable<T extends TableNode>({
           value={query}
           onChange={(e) => setQuery(e.target.value)}
           placeholder={filterPlaceholder}
-          className={cx(inputClass, "h-8 w-64 text-sm")}
+          className={sized("h-8 w-72 max-w-full text-sm")}
         />
         <p className="text-sm text-silt-ink tabular" aria-live="polite">
           {filtered.length === rows.length
@@ -188,13 +189,14 @@ export function DataTable<T extends TableNode>({
                   <HeaderRow>
                     {columns.map((c) =>
                       c.sortable === false ? (
-                        <HeaderCell key={c.key} className={c.numeric ? "text-right" : undefined}>
+                        <HeaderCell key={c.key} className={c.numeric ? "th-num" : undefined}>
                           {c.header}
                         </HeaderCell>
                       ) : (
                         <HeaderCellSort
                           key={c.key}
                           sortKey={c.key}
+                          className={c.numeric ? "th-num" : undefined}
                           aria-sort={
                             sortState.sortKey === c.key ? (sortState.reverse ? "descending" : "ascending") : "none"
                           }

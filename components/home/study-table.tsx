@@ -20,7 +20,7 @@ export type StudyRow = {
 const total = (r: StudyRow) => Object.values(r.counts).reduce((a, b) => a + b, 0);
 
 function count(key: BatchState, header: string): Column<StudyRow> {
-  return { key, header, numeric: true, width: "minmax(5.5rem, 1fr)", value: (r) => r.counts[key] };
+  return { key, header, numeric: true, width: "minmax(6rem, 1fr)", value: (r) => r.counts[key] };
 }
 
 /** Studies with their batches by state; the provider, analyst and lead homes show different columns. */
@@ -32,9 +32,9 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
       width: "minmax(14rem, 3fr)",
       value: (r) => r.title,
       render: (r) => (
-        <span>
-          <span className="font-semibold">{r.title}</span>
-          <span className="ml-2 font-mono text-xs text-silt-ink">{r.slug}</span>
+        <span className="block">
+          <span className="block font-semibold">{r.title}</span>
+          <span className="block font-mono text-xs text-silt-ink">{r.slug}</span>
         </span>
       ),
     },

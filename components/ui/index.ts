@@ -1,5 +1,5 @@
 export { Button, type ButtonProps } from "./button";
-export { Input, inputClass } from "./input";
+export { Input, inputClass, sized } from "./input";
 export { Select } from "./select";
 export { Field } from "./field";
 export { Badge, type BadgeTone } from "./badge";

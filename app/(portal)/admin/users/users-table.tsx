@@ -32,7 +32,7 @@ function RoleCell({ row, self }: { row: UserRow; self: boolean }) {
       value={value}
       disabled={pending || locked}
       title={self ? "You cannot change your own role" : row.role === "provider" ? "A provider account stays a provider; create a team account instead" : undefined}
-      className="h-7 w-40 py-0 text-sm"
+      className="h-7 w-full py-0 text-sm"
       onChange={(e) => {
         const next = e.target.value as UserRole;
         const before = value;
@@ -87,7 +87,7 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
     {
       key: "role",
       header: "Role",
-      width: "11rem",
+      width: "12rem",
       value: (r) => r.role,
       render: (r) => <RoleCell key={`${r.id}-${r.role}`} row={r} self={r.id === currentUserId} />,
     },
