@@ -6,7 +6,8 @@
 import { randomBytes } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
-import { auditEvents, batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
+import { recordAudit } from "@/lib/services/audit";
+import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
 import type { Result } from "@/lib/result";
 
 export interface UploadTarget {
@@ -115,7 +116,7 @@ export async function recordBatchVersion(
         .$returningId();
       if (!ins) throw new Error("inserting the batch returned no id");
       batch = { id: ins.id, publicId, latestVersion: 0 };
-      await tx.insert(auditEvents).values({
+      await recordAudit(tx, {
         actorId: actor.id, action: "batch.created", objectType: "batch", objectId: publicId, studyId: study.id, batchId: batch.id, after: { title },
       });
     }
@@ -127,7 +128,7 @@ export async function recordBatchVersion(
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
         await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
-        await tx.insert(auditEvents).values({
+        await recordAudit(tx, {
           actorId: actor.id, action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
           before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },
         });
@@ -151,7 +152,7 @@ export async function recordBatchVersion(
     if (!bv) throw new Error("inserting the batch version returned no id");
     await tx.update(batches).set({ latestVersion: version }).where(eq(batches.id, batch.id));
     await tx.insert(checkJobs).values({ batchVersionId: bv.id });
-    await tx.insert(auditEvents).values({
+    await recordAudit(tx, {
       actorId: actor.id, action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
       after: { state: "received", version, fileName: file.name, fileSize: file.size },
     });

@@ -6,7 +6,8 @@
  */
 import { and, asc, eq, lte, or, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
-import { auditEvents, batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
+import { recordAudit } from "@/lib/services/audit";
+import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness/report";
 
 export const MAX_ATTEMPTS = 3;
@@ -143,7 +144,7 @@ export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessRepo
         .where(eq(batchVersions.id, job.batchVersionId));
     }
     await tx.update(checkJobs).set({ status: "done", finishedAt: now, lastError: null }).where(eq(checkJobs.id, job.jobId));
-    await tx.insert(auditEvents).values({
+    await recordAudit(tx, {
       actorId: null,
       action: "batch.checked",
       objectType: "batch_version",

@@ -1,4 +1,4 @@
-import "server-only";
+/** Audit rows; no `server-only` here: the worker (plain Node) writes audit rows too. */
 import type { Db } from "@/db/client";
 import { auditEvents } from "@/db/schema";
 
