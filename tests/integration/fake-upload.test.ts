@@ -10,13 +10,11 @@ import { mkdtemp, rm } from "node:fs/promises";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { genUploader } from "uploadthing/client";
-import { createRouteHandler, UTApi, UTFile } from "uploadthing/server";
+import { UTApi, UTFile } from "uploadthing/server";
 import { sign } from "@/fakes/upload/signing";
 import { startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { installFetchXhr } from "@/fakes/testing/fetch-xhr";
-import { serveFetchHandler, type ServedHandler } from "@/fakes/testing/serve-fetch-handler";
-import { makeFileRouter, type BatchFileRouter, type UploadedBatchFile } from "@/lib/uploads/file-router";
+import { startTestUploadApp, type TestUploadApp } from "@/fakes/testing/upload-app";
 import { createUtapi, openStoredFile } from "@/lib/uploads";
 
 const apiKey = "sk_test_fake_upload_" + randomBytes(8).toString("hex");
@@ -31,67 +29,8 @@ async function bytesOf(stream: ReadableStream<Uint8Array>): Promise<Buffer> {
   return Buffer.concat(parts);
 }
 
-type Completed = { meta: Record<string, unknown>; file: UploadedBatchFile };
-
-type TestApp = {
-  served: ServedHandler;
-  completed: Completed[];
-  uploadErrors: string[];
-  upload(file: File, opts?: { user?: string; input?: { studySlug: string; label?: string } }): Promise<
-    { key: string; ufsUrl: string; fileHash: string; serverData: unknown }[]
-  >;
-};
-
-/** An app with the batch route, served on a random port and pointed at the fake. */
-async function startApp(fake: UploadFake, isDev: boolean): Promise<TestApp> {
-  const completed: Completed[] = [];
-  const uploadErrors: string[] = [];
-  const router = makeFileRouter({
-    maxUploadMb: 8,
-    authorise(req, input) {
-      const user = req.headers.get("x-test-user");
-      if (user !== "provider-1") throw Object.assign(new Error("Only provider-1 may upload here."), { code: "forbidden" });
-      return { uploader: user, study: input.studySlug };
-    },
-    async onComplete(meta, file) {
-      completed.push({ meta, file });
-      return { batchId: `b-${completed.length}`, hashSeen: file.fileHash };
-    },
-  });
-  let handler: (r: Request) => Promise<Response> = async () => new Response("starting", { status: 503 });
-  const served = await serveFetchHandler((r) => handler(r));
-  const routeHandler = createRouteHandler({
-    router,
-    config: {
-      token,
-      isDev,
-      ingestUrl: fake.url,
-      callbackUrl: `${served.url}/api/uploadthing`,
-      logLevel: "Fatal",
-    },
-  });
-  handler = async (r) => {
-    // record error hooks before the SDK consumes the body
-    if (r.headers.get("uploadthing-hook") === "error") uploadErrors.push(await r.clone().text());
-    return routeHandler(r);
-  };
-  const uploader = genUploader<BatchFileRouter>({
-    url: new URL(`${served.url}/api/uploadthing`),
-    package: "tributary-test",
-    fetch: globalThis.fetch,
-  });
-  return {
-    served,
-    completed,
-    uploadErrors,
-    upload: (file, opts = {}) =>
-      uploader.uploadFiles("batchFile", {
-        files: [file],
-        input: opts.input ?? { studySlug: "barley-nitrogen" },
-        headers: { "x-test-user": opts.user ?? "provider-1" },
-      }) as Promise<{ key: string; ufsUrl: string; fileHash: string; serverData: unknown }[]>,
-  };
-}
+type TestApp = TestUploadApp;
+const startApp = (f: UploadFake, isDev: boolean) => startTestUploadApp({ token, ingestUrl: f.url, isDev });
 
 let dir: string;
 let fake: UploadFake;
