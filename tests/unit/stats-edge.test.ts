@@ -279,6 +279,21 @@ describe("PatternMoments", () => {
     expect(z?.df).toBe(x?.df);
     expect(Math.abs((z?.statistic as number) - (x?.statistic as number))).toBeLessThan(1e-9 * (x?.statistic as number));
     expect(() => PatternMoments.fromJSON({ kind: "pattern-moments", version: 1, columns: ["a"], patterns: [{ observed: [3], count: 1, mean: [1], comoment: [0] }] })).toThrow(/wrong shape/);
+    // memory bound: too many patterns drops the moments and the test, and says so
+    const saved = PatternMoments.MAX_CELLS;
+    try {
+      PatternMoments.MAX_CELLS = 50;
+      const small = new PatternMoments(["a", "b", "c"]);
+      rows.forEach((r) => small.addRow(r));
+      expect(small.overflowed).toBe(true);
+      expect(littleMcar(small)).toBeNull();
+      expect(PatternMoments.fromJSON(JSON.parse(JSON.stringify(small.toJSON()))).overflowed).toBe(true);
+      const fine = new PatternMoments(["a", "b", "c"]);
+      fine.merge(small);
+      expect(fine.overflowed).toBe(true);
+    } finally {
+      PatternMoments.MAX_CELLS = saved;
+    }
     const complete = new PatternMoments(["a", "b"]);
     complete.addRow([1, 2]);
     complete.addRow([2, 5]);

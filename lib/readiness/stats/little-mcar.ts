@@ -50,9 +50,11 @@ function cholSolve(l: Float64Array, q: number, b: Float64Array): void {
 /**
  * d² = Σ_j m_j (ȳ_j − μ̂_j)ᵀ Σ̂_j⁻¹ (ȳ_j − μ̂_j), df = Σ_j p_j − p, p-value from χ²(df).
  * Patterns with nothing observed add nothing; columns never observed are left out.
- * Null when df ≤ 0 (e.g. a single pattern) or Σ̂ is not positive definite.
+ * Null when df ≤ 0 (e.g. a single pattern), Σ̂ is not positive definite, or the state overflowed
+ * (more missingness patterns than PatternMoments keeps).
  */
 export function littleMcar(pm: PatternMoments): { statistic: number; df: number; pValue: number } | null {
+  if (pm.overflowed) return null;
   const raw = pm.summary().filter((p) => p.observed.length > 0);
   const cols = [...new Set(raw.flatMap((p) => p.observed))].sort((a, b) => a - b);
   const m = cols.length;
@@ -99,7 +101,11 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
     return cholesky(L, q);
   };
 
-  for (let iter = 0; iter < 10_000; iter++) {
+  // EM converges linearly; bound the work (≈ patterns·m³ per iteration) so a pathological
+  // state cannot stall a check. At the cap the estimates are already close to the MLE.
+  const perIter = pats.length * (m * m * m + 1);
+  const maxIter = Math.max(200, Math.min(10_000, Math.floor(2e9 / perIter)));
+  for (let iter = 0; iter < maxIter; iter++) {
     t1.fill(0);
     acc.fill(0);
     for (const p of pats) {

@@ -20,6 +20,8 @@ export interface PatternMomentsJSON {
   version: 1;
   columns: string[];
   patterns: { observed: number[]; count: number; mean: number[]; comoment: number[] }[];
+  /** true: too many patterns, moments dropped (see PatternMoments.MAX_CELLS) */
+  overflowed?: boolean;
 }
 
 const finite = z.number().refine(Number.isFinite, "must be a finite number");
@@ -27,6 +29,7 @@ const schema = z.object({
   kind: z.literal("pattern-moments"),
   version: z.literal(1),
   columns: z.array(z.string()),
+  overflowed: z.boolean().optional(),
   patterns: z.array(
     z.object({ observed: z.array(z.number().int().min(0)), count: z.number().int().min(1), mean: z.array(finite), comoment: z.array(finite) }),
   ),
@@ -38,6 +41,13 @@ export class PatternMoments {
   private readonly patterns = new Map<number | string, Pattern>();
   private readonly keyBuf: string[];
   private readonly delta: Float64Array;
+  private cells = 0;
+  private over = false;
+  /**
+   * Memory bound: when the patterns' statistics would exceed this many numbers (32 MB) the
+   * moments are dropped and `overflowed` is set (too many patterns for Little's test to mean much).
+   */
+  static MAX_CELLS = 4_000_000;
 
   constructor(columns: string[]) {
     this.columns = [...columns];
@@ -51,10 +61,22 @@ export class PatternMoments {
     return Array.from({ length: m }, (_, j) => (observed.includes(j) ? "1" : "0")).join("");
   }
 
+  /** True when there were too many missingness patterns to keep their moments. */
+  get overflowed(): boolean {
+    return this.over;
+  }
+
+  private overflow(): void {
+    this.over = true;
+    this.patterns.clear();
+    this.cells = 0;
+  }
+
   private pattern(observed: number[], key: number | string): Pattern {
     let p = this.patterns.get(key);
     if (!p) {
       const q = observed.length;
+      this.cells += q * q + q + 8;
       p = { observed, count: 0, mean: new Float64Array(q), comoment: new Float64Array(q * q) };
       this.patterns.set(key, p);
     }
@@ -65,6 +87,7 @@ export class PatternMoments {
   addRow(values: (number | null)[]): void {
     const m = this.columns.length;
     if (values.length !== m) throw new RangeError(`row has ${values.length} values, expected ${m}`);
+    if (this.over) return;
     let key: number | string = 0;
     if (m <= 52) {
       let bit = 1;
@@ -88,6 +111,10 @@ export class PatternMoments {
         if (!(v === null || v === undefined || Number.isNaN(v))) observed.push(j);
       }
       p = this.pattern(observed, key);
+      if (this.cells > PatternMoments.MAX_CELLS) {
+        this.overflow();
+        return;
+      }
     }
     const obs = p.observed;
     const q = obs.length;
@@ -116,6 +143,11 @@ export class PatternMoments {
     if (o.columns.length !== this.columns.length || o.columns.some((c, i) => c !== this.columns[i])) {
       throw new RangeError("cannot merge missingness moments over different column lists");
     }
+    if (this.over) return;
+    if (o.over) {
+      this.overflow();
+      return;
+    }
     for (const [key, src] of o.patterns) {
       const dst = this.pattern([...src.observed], key);
       const q = src.observed.length;
@@ -132,6 +164,7 @@ export class PatternMoments {
       for (let a = 0; a < q; a++) dst.mean[a] = (dst.mean[a] as number) + ((delta[a] as number) * nb) / n;
       dst.count = n;
     }
+    if (this.cells > PatternMoments.MAX_CELLS) this.overflow();
   }
 
   /** Patterns with their counts (observed column indices). */
@@ -145,7 +178,9 @@ export class PatternMoments {
   }
 
   toJSON(): PatternMomentsJSON {
-    return { kind: "pattern-moments", version: 1, columns: [...this.columns], patterns: this.summary() };
+    const j: PatternMomentsJSON = { kind: "pattern-moments", version: 1, columns: [...this.columns], patterns: this.summary() };
+    if (this.over) j.overflowed = true;
+    return j;
   }
 
   static fromJSON(j: unknown): PatternMoments {
@@ -154,11 +189,16 @@ export class PatternMoments {
     const s = parsed.data;
     const pm = new PatternMoments(s.columns);
     const m = s.columns.length;
+    if (s.overflowed) {
+      pm.over = true;
+      return pm;
+    }
     for (const p of s.patterns) {
       const q = p.observed.length;
       if (p.mean.length !== q || p.comoment.length !== q * q || p.observed.some((j, i) => j >= m || (i > 0 && j <= (p.observed[i - 1] as number)))) {
         throw new Error("stored missingness moments have a pattern of the wrong shape");
       }
+      pm.cells += q * q + q + 8;
       pm.patterns.set(pm.keyOf(p.observed), { observed: [...p.observed], count: p.count, mean: Float64Array.from(p.mean), comoment: Float64Array.from(p.comoment) });
     }
     return pm;
