@@ -86,6 +86,9 @@ export class QuantileStore {
   private len = 0;
   seen = 0;
   private rnd = mulberry32(0x5eed);
+  /** Li's algorithm L: the index of the next value to enter the reservoir, and the running W */
+  private nextIn = 0;
+  private w = 1;
   constructor(private cap: number) {
     this.buf = new Float64Array(Math.min(cap, 1024));
   }
@@ -99,9 +102,18 @@ export class QuantileStore {
       }
       this.buf[this.len++] = x;
     } else {
-      const j = Math.floor(this.rnd() * this.seen);
-      if (j < this.cap) this.buf[j] = x;
+      if (this.seen === this.cap + 1) this.skip();
+      if (this.seen === this.nextIn) {
+        this.buf[Math.floor(this.rnd() * this.cap)] = x;
+        this.skip();
+      }
     }
+  }
+  /** Algorithm L (Li 1994): geometric jumps between replacements, one draw per replacement. */
+  private skip(): void {
+    const k = this.cap;
+    this.w *= Math.exp(Math.log(Math.max(this.rnd(), 1e-300)) / k);
+    this.nextIn = (this.nextIn === 0 ? this.cap : this.nextIn) + Math.floor(Math.log(Math.max(this.rnd(), 1e-300)) / Math.log(1 - this.w)) + 1;
   }
   get exact(): boolean {
     return this.seen <= this.cap;
@@ -247,7 +259,10 @@ export class HashSet64 {
 }
 
 /** Two independent 32-bit string hashes (FNV-1a and a multiplicative one), fed field by field. */
-export function hashFields(fields: string[], from = 0, to = fields.length): [number, number] {
+/** Output of hashFields (two 32-bit halves), reused to avoid an allocation per row. */
+export const HASH = { a: 0, b: 0 };
+
+export function hashFields(fields: string[], from = 0, to = fields.length): void {
   let a = 0x811c9dc5;
   let b = 0x12345678;
   for (let j = from; j < to; j++) {
@@ -260,5 +275,6 @@ export function hashFields(fields: string[], from = 0, to = fields.length): [num
     a = Math.imul(a ^ 0x1f, 0x01000193);
     b = Math.imul(b + 0x1f, 0x5bd1e995) ^ (b >>> 13);
   }
-  return [a >>> 0, b >>> 0];
+  HASH.a = a >>> 0;
+  HASH.b = b >>> 0;
 }

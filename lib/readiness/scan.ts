@@ -2,7 +2,7 @@
  * The single streaming pass: header checks, per-column accumulators, the design rows of the
  * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
  */
-import { HashSet64, RowSample, hashFields } from "./accumulators";
+import { HASH, HashSet64, RowSample, hashFields } from "./accumulators";
 import { ColumnScan } from "./column-scan";
 import type { CsvMeta, CsvSink } from "./csv-reader";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
@@ -43,6 +43,7 @@ export class Scan implements CsvSink {
   duplicateOf: [number, number][] = [];
   private rowSet = new HashSet64(DUPLICATE_CAP);
   keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number> }>();
+  private keyList: number[] = [];
   predictors: Predictor[];
   design: Design;
   private encoder: RowEncoder;
@@ -106,6 +107,7 @@ export class Scan implements CsvSink {
         if (i !== undefined) this.keys.set(i, { set: new HashSet64(DUPLICATE_CAP), dup: new RowSample(this.t.sampleRows), examples: new Map() });
       }
     }
+    this.keyList = [...this.keys.keys()];
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
     this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
@@ -165,16 +167,18 @@ export class Scan implements CsvSink {
       }
       this.rowsTotal++;
       for (let j = 0; j < ncol; j++) cols[j]!.read(f[j]!, line);
-      const [h1, h2] = hashFields(f);
-      const prev = this.rowSet.addOrGet(h1, h2, line);
+      hashFields(f);
+      const prev = this.rowSet.addOrGet(HASH.a, HASH.b, line);
       if (prev) {
         this.duplicateRows.add(line);
         if (this.duplicateOf.length < this.t.sampleRows) this.duplicateOf.push([line, prev]);
       }
-      for (const [k, key] of this.keys) {
+      for (let q = 0; q < this.keyList.length; q++) {
+        const k = this.keyList[q]!;
         if (cols[k]!.status !== 1) continue;
-        const [a, b] = hashFields(f, k, k + 1);
-        if (key.set.addOrGet(a, b, line)) {
+        const key = this.keys.get(k)!;
+        hashFields(f, k, k + 1);
+        if (key.set.addOrGet(HASH.a, HASH.b, line)) {
           key.dup.add(line);
           const v = f[k]!;
           if (key.examples.size < 10 || key.examples.has(v)) key.examples.set(v, (key.examples.get(v) ?? 1) + 1);

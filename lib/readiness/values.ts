@@ -10,9 +10,38 @@ const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
  * Parse a number written with a decimal point; NaN when it is not one. Leading and trailing
  * spaces are allowed; hex, `Infinity` and thousands separators are not.
  */
+const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+
 export function readNumber(s: string): number {
   const n = s.length;
   if (n === 0) return NaN;
+  // Fast path for plain decimals ([-]digits[.digits], at most 15 digits): the digits as an
+  // exact integer divided by an exact power of ten is correctly rounded (Clinger 1990), so
+  // the result is the same double as Number(s).
+  if (n <= 16) {
+    let i = 0;
+    let neg = false;
+    if (s.charCodeAt(0) === 45) {
+      neg = true;
+      i = 1;
+    }
+    let m = 0;
+    let digitsSeen = 0;
+    let frac = -1;
+    for (; i < n; i++) {
+      const c = s.charCodeAt(i);
+      if (c >= 48 && c <= 57) {
+        m = m * 10 + (c - 48);
+        digitsSeen++;
+        if (frac >= 0) frac++;
+      } else if (c === 46 && frac < 0) frac = 0;
+      else break;
+    }
+    if (i === n && digitsSeen > 0 && digitsSeen <= 15) {
+      const v = frac > 0 ? m / POW10[frac]! : m;
+      return neg ? -v : v;
+    }
+  }
   const c0 = s.charCodeAt(0);
   const cl = s.charCodeAt(n - 1);
   // fast path: starts with a digit/sign/point, ends with a digit, not 0x/0b/0o
@@ -54,6 +83,17 @@ export type DateParse = { kind: "iso" } | { kind: "pair"; a: number; b: number }
 const ISO_OK: DateParse = { kind: "iso" };
 const BAD: DateParse = { kind: "bad" };
 
+/** The decimal number written in s[from, to) with digits only; −1 otherwise. */
+function digits(s: string, from: number, to: number): number {
+  let v = 0;
+  for (let i = from; i < to; i++) {
+    const c = s.charCodeAt(i) - 48;
+    if (c < 0 || c > 9) return -1;
+    v = v * 10 + c;
+  }
+  return v;
+}
+
 function validYmd(y: number, m: number, d: number): boolean {
   if (m < 1 || m > 12 || d < 1) return false;
   const days = [31, (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0 ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1]!;
@@ -66,10 +106,10 @@ function validYmd(y: number, m: number, d: number): boolean {
  */
 export function parseDate(s: string): DateParse {
   if (s.length === 10 && s.charCodeAt(4) === 45 && s.charCodeAt(7) === 45) {
-    const y = +s.slice(0, 4);
-    const m = +s.slice(5, 7);
-    const d = +s.slice(8, 10);
-    if (y === y && m === m && d === d) return validYmd(y, m, d) ? ISO_OK : BAD;
+    const y = digits(s, 0, 4);
+    const m = digits(s, 5, 7);
+    const d = digits(s, 8, 10);
+    if (y >= 0 && m >= 0 && d >= 0) return validYmd(y, m, d) ? ISO_OK : BAD;
   }
   const t = s.trim();
   const iso = ISO_DATE.exec(t);

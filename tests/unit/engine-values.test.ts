@@ -1,0 +1,95 @@
+/**
+ * Value readers and streaming accumulators against their definitions: number parsing equals
+ * ECMAScript Number() on plain decimals; quartiles by selection equal R's type-7 quantile on the
+ * sorted values (R: quantile(c(1, 2, 3, 4, 10)) = 2, 3, 4); the reservoir beyond its bound stays
+ * within a few standard errors; pooled moments equal one pass (Chan et al. 1979).
+ */
+import { describe, expect, test } from "vitest";
+import { Moments, QuantileStore, quantile, selectQuantile } from "@/lib/readiness/accumulators";
+import { foldLevel, oneEditApart, parseDate, readDecimalComma, readNumber } from "@/lib/readiness/values";
+import { rng } from "../fixtures/engine/data";
+
+describe("readNumber", () => {
+  test("equals Number() on 20,000 random plain decimals", () => {
+    const r = rng(99);
+    for (let i = 0; i < 20_000; i++) {
+      const digits = 1 + Math.floor(r() * 15);
+      let s = "";
+      for (let d = 0; d < digits; d++) s += Math.floor(r() * 10);
+      const point = Math.floor(r() * (digits + 1));
+      if (point < digits && r() < 0.7) s = `${s.slice(0, point) || "0"}.${s.slice(point)}`;
+      if (r() < 0.3) s = `-${s}`;
+      expect(Object.is(readNumber(s), Number(s)), s).toBe(true);
+    }
+  });
+  test.each([
+    ["1e3", 1000],
+    [" 12.5 ", 12.5],
+    ["+4", 4],
+    ["1234567890123456789", 1234567890123456789],
+    ["0x1F", NaN],
+    ["Infinity", NaN],
+    ["12,5", NaN],
+    ["1.2.3", NaN],
+    ["-", NaN],
+  ])("%s → %s", (s, v) => expect(readNumber(s)).toBe(v));
+  test.each([
+    ["12,5", 12.5],
+    ["1.234,5", 1234.5],
+    ["-0,25", -0.25],
+    ["12.5", NaN],
+  ])("decimal comma %s → %s", (s, v) => expect(readDecimalComma(s)).toBe(v));
+});
+
+describe("dates and level folding", () => {
+  test.each([
+    ["2026-04-30", "iso"],
+    ["2026-02-30", "bad"],
+    ["2024-02-29", "iso"],
+    ["03/04/2026", "pair"],
+    ["31/12/2026", "pair"],
+    ["13/13/2026", "bad"],
+  ])("%s is %s", (s, kind) => expect(parseDate(s).kind).toBe(kind));
+  test("folding and one edit", () => {
+    expect(foldLevel(" Cláy ")).toBe("clay");
+    expect(oneEditApart("amberlea", "amberleaa")).toBe(true);
+    expect(oneEditApart("amberlea", "ambrlea")).toBe(true);
+    expect(oneEditApart("amberlea", "amberlee")).toBe(true);
+    expect(oneEditApart("loam", "sand")).toBe(false);
+  });
+});
+
+describe("quartiles", () => {
+  test("selection equals type-7 quantiles of the sorted values", () => {
+    expect([0.25, 0.5, 0.75].map((p) => selectQuantile(Float64Array.from([10, 4, 1, 3, 2]), p))).toEqual([2, 3, 4]);
+    const r = rng(5);
+    for (let n = 1; n < 300; n += 7) {
+      const v = Float64Array.from({ length: n }, () => Math.round(r() * 50));
+      const sorted = v.slice().sort();
+      for (const p of [0.25, 0.5, 0.75]) expect(selectQuantile(v.slice(), p)).toBeCloseTo(quantile(sorted, p), 12);
+    }
+  });
+  test("beyond the bound the reservoir's quartiles of U(0,1) are within 5 standard errors", () => {
+    const q = new QuantileStore(2000);
+    const r = rng(8);
+    for (let i = 0; i < 200_000; i++) q.add(r());
+    expect(q.exact).toBe(false);
+    const [q1, med, q3] = q.quantiles([0.25, 0.5, 0.75]) as [number, number, number];
+    // SE of a sample quantile of U(0,1): √(p(1−p)/m)
+    expect(Math.abs(q1 - 0.25)).toBeLessThan(5 * Math.sqrt(0.1875 / 2000));
+    expect(Math.abs(med - 0.5)).toBeLessThan(5 * Math.sqrt(0.25 / 2000));
+    expect(Math.abs(q3 - 0.75)).toBeLessThan(5 * Math.sqrt(0.1875 / 2000));
+  });
+  test("merged moments equal one pass", () => {
+    const r = rng(3);
+    const xs = Array.from({ length: 1000 }, () => 1e6 + r());
+    const all = new Moments();
+    const a = new Moments();
+    const b = new Moments();
+    xs.forEach((x, i) => (all.add(x), (i < 300 ? a : b).add(x)));
+    a.merge(b.toJSON());
+    expect(a.mean).toBeCloseTo(all.mean, 8);
+    expect(a.sd / all.sd).toBeCloseTo(1, 9);
+    expect([a.min, a.max, a.n]).toEqual([all.min, all.max, 1000]);
+  });
+});
