@@ -7,6 +7,8 @@ export const CORS_HEADERS: Record<string, string> = {
   "access-control-allow-headers": "content-type, range, x-uploadthing-version, b3, traceparent",
   "access-control-expose-headers": "x-ut-range-start",
   "access-control-max-age": "600",
+  // Chromium's private-network preflight (harmless elsewhere)
+  "access-control-allow-private-network": "true",
 };
 
 export function sendJson(res: ServerResponse, status: number, body: unknown, extra: Record<string, string> = {}): void {

@@ -116,10 +116,12 @@ export async function handlePut(req: IncomingMessage, res: ServerResponse, key: 
       got = await receiveMultipartFile(req, boundary, temp, hasSize ? declared : ctx.maxUploadBytes);
     } catch (e) {
       await ctx.store.discard(temp);
-      const status = e instanceof MultipartError ? e.status : 400;
-      const message = e instanceof MultipartError ? e.message : `The upload was interrupted: ${(e as Error).message}`;
-      await reportError(ctx, key, reg, message);
-      return reject(req, res, status, message);
+      if (!(e instanceof MultipartError)) {
+        // the client went away (or paused): keep the registration so it can PUT again
+        return reject(req, res, 400, `The upload was interrupted: ${(e as Error).message}`);
+      }
+      await reportError(ctx, key, reg, e.message);
+      return reject(req, res, e.status, e.message);
     }
     if (hasSize && got.size !== declared) {
       await ctx.store.discard(temp);

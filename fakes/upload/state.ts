@@ -32,6 +32,9 @@ export class IngestState {
   readonly streams = new Set<DevStream>();
 
   register(keys: string[], reg: Registration): void {
+    // forget registrations whose upload never came (presigned URLs live an hour by default)
+    const old = Date.now() - 6 * 3600_000;
+    for (const [k, r] of this.registrations) if (r.createdAt < old) this.registrations.delete(k);
     for (const k of keys) {
       this.registrations.set(k, reg);
       const w = this.waiters.get(k);

@@ -211,6 +211,18 @@ describe("UTApi from Node", () => {
     expect((await fetch(data.ufsUrl)).status).toBe(404);
   });
 
+  it("keeps a non-ASCII file name through the double-encoded query and serves it in Content-Disposition", async () => {
+    const name = "Ærøskøbing høst 2026 (ét).csv";
+    const res = await api.uploadFiles(new UTFile(["x\n1\n"], name, { type: "text/csv" }), { contentDisposition: "attachment" });
+    expect((await api.listFiles()).files.find((f) => f.key === res.data!.key)?.name).toBe(name);
+    const r = await fetch(res.data!.ufsUrl);
+    // RFC 6266 / RFC 8187: the UTF-8 name percent-encoded in filename*
+    expect(r.headers.get("content-disposition")).toBe(
+      `attachment; filename="_r_sk_bing h_st 2026 (_t).csv"; filename*=UTF-8''${encodeURIComponent(name)}`,
+    );
+    await r.body?.cancel();
+  });
+
   it("private files need a valid, unexpired signature", async () => {
     const content = "a\n1\n";
     const res = await api.uploadFiles(new UTFile([content], "p.csv", { type: "text/csv" }), { acl: "private" });
