@@ -182,3 +182,29 @@ describe("Longley condition flags and pairs", () => {
     expect(pairs.some((p) => p.a === "x3" && p.b === "x4")).toBe(false);
   });
 });
+
+describe("NIST StRD Wampler1 and Wampler2 (higher difficulty; data rebuilt from their defining polynomials)", () => {
+  // NIST StRD Wampler1: x = 0…20, y = 1 + x + x² + x³ + x⁴ + x⁵ (integers); certified B0…B5 = 1, SDs 0, residual SD 0, R² = 1.
+  // NIST StRD Wampler2: same x, y = 1 + 0.1x + 0.01x² + … + 0.00001x⁵ (exact to 5 decimals as printed); certified B = 1, 0.1, …, 1e-5.
+  const cases = [
+    { name: "Wampler1", coefs: [1, 1, 1, 1, 1, 1], digits: 9 },
+    { name: "Wampler2", coefs: [1, 0.1, 0.01, 0.001, 0.0001, 0.00001], digits: 13 },
+  ];
+  it.each(cases)("$name", ({ name, coefs, digits }) => {
+    const ls = new LeastSquares(6);
+    for (let x = 0; x <= 20; x++) {
+      const row = [1, x, x ** 2, x ** 3, x ** 4, x ** 5];
+      const y = row.reduce((s, v, i) => s + v * (coefs[i] as number), 0);
+      ls.addRow(row, name === "Wampler2" ? Number(y.toFixed(5)) : y);
+    }
+    const cols = ["intercept", "x1", "x2", "x3", "x4", "x5"];
+    const res = analyseDesign(ls, { columns: cols, intercept: true, terms: cols.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })), numericColumns: [] }, { alpha: 0.05, power: 0.8 });
+    expect(res.rank).toBe(6);
+    const got = Math.min(...res.fit.coefficients.map((c, i) => lre(c.estimate, coefs[i] as number)));
+    achieved[name.toLowerCase()] = got;
+    expect(got).toBeGreaterThanOrEqual(digits);
+    expect(res.fit.rSquared).toBeCloseTo(1, 12); // certified R² = 1
+    // certified SDs are 0: ours are rounding noise, tiny against each coefficient
+    res.fit.coefficients.forEach((c, i) => expect((c.stdError as number) / (coefs[i] as number)).toBeLessThan(1e-9));
+  });
+});
