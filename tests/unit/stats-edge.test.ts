@@ -1,6 +1,6 @@
 /** Edge cases of the design analysis: rank deficiency, too few rows, constant columns, merging states with different columns. */
 import { describe, expect, it } from "vitest";
-import { LeastSquares, PatternMoments, analyseDesign, littleMcar, type DesignSpec } from "@/lib/readiness/stats";
+import { LeastSquares, analyseDesign, type DesignSpec } from "@/lib/readiness/stats";
 
 const OPTS = { alpha: 0.05, power: 0.8 };
 
@@ -217,6 +217,18 @@ describe("states with different indicator sets merge through expandColumns", () 
     close(x.collinearity?.conditionIndices.at(-1), y.collinearity?.conditionIndices.at(-1));
   });
 
+  it("dropping a column gives the fit without it", () => {
+    const dropped = one.expandColumns(all, ["intercept", "x", "soil[clay]"]);
+    const direct = new LeastSquares(3);
+    data.forEach((r) => direct.addRow(row(r, ["intercept", "x", "soil[clay]"]), r.y));
+    const s3: DesignSpec = { columns: ["intercept", "x", "soil[clay]"], intercept: true, terms: [{ term: "x", columns: ["x"], df: 1 }, { term: "soil", columns: ["soil[clay]"], df: 1 }], numericColumns: ["x"] };
+    const p = analyseDesign(dropped, s3, OPTS);
+    const q = analyseDesign(direct, s3, OPTS);
+    expect(dropped.n).toBe(200);
+    expect(Math.abs(p.fit.rss - q.fit.rss)).toBeLessThan(1e-10 * q.fit.rss);
+    p.fit.coefficients.forEach((c, i) => expect(c.estimate as number).toBeCloseTo(q.fit.coefficients[i]?.estimate as number, 10));
+  });
+
   it("a batch without a level has that indicator aliased as a zero column", () => {
     const res = analyseDesign(a.expandColumns(colsA, all), spec, OPTS);
     expect(res.aliased.map((x) => x.term)).toEqual(["soil[silt]"]);
@@ -247,56 +259,5 @@ describe("no intercept", () => {
     expect(res.fit.tss).toBeCloseTo(sumY2, 10); // NIST NoInt convention (SOURCES.md)
     expect(res.fit.dfModel).toBe(1);
     expect(res.collinearity?.terms).toEqual([]);
-  });
-});
-
-describe("PatternMoments", () => {
-  it("merges and round-trips; a single pattern has no MCAR test", () => {
-    const g = rng(8);
-    const rows = Array.from({ length: 300 }, () => {
-      const a = g.normal();
-      const b = a + g.normal();
-      const c = g.normal() * 3 + 100;
-      return [a, g.u() < 0.2 ? null : b, g.u() < 0.3 ? null : c];
-    });
-    const one = new PatternMoments(["a", "b", "c"]);
-    const p1 = new PatternMoments(["a", "b", "c"]);
-    const p2 = new PatternMoments(["a", "b", "c"]);
-    rows.forEach((r, i) => {
-      one.addRow(r);
-      (i < 120 ? p1 : p2).addRow(r);
-    });
-    p1.merge(p2);
-    const x = littleMcar(one);
-    const y = littleMcar(PatternMoments.fromJSON(JSON.parse(JSON.stringify(p1.toJSON()))));
-    expect(x).not.toBeNull();
-    expect(Math.abs((x?.statistic as number) - (y?.statistic as number))).toBeLessThan(1e-8 * (x?.statistic as number));
-    expect(x?.df).toBe(y?.df);
-    // a column never observed is left out: same test as without it
-    const withEmpty = new PatternMoments(["a", "b", "c", "z"]);
-    rows.forEach((r) => withEmpty.addRow([...r, null]));
-    const z = littleMcar(withEmpty);
-    expect(z?.df).toBe(x?.df);
-    expect(Math.abs((z?.statistic as number) - (x?.statistic as number))).toBeLessThan(1e-9 * (x?.statistic as number));
-    expect(() => PatternMoments.fromJSON({ kind: "pattern-moments", version: 1, columns: ["a"], patterns: [{ observed: [3], count: 1, mean: [1], comoment: [0] }] })).toThrow(/wrong shape/);
-    // memory bound: too many patterns drops the moments and the test, and says so
-    const saved = PatternMoments.MAX_CELLS;
-    try {
-      PatternMoments.MAX_CELLS = 50;
-      const small = new PatternMoments(["a", "b", "c"]);
-      rows.forEach((r) => small.addRow(r));
-      expect(small.overflowed).toBe(true);
-      expect(littleMcar(small)).toBeNull();
-      expect(PatternMoments.fromJSON(JSON.parse(JSON.stringify(small.toJSON()))).overflowed).toBe(true);
-      const fine = new PatternMoments(["a", "b", "c"]);
-      fine.merge(small);
-      expect(fine.overflowed).toBe(true);
-    } finally {
-      PatternMoments.MAX_CELLS = saved;
-    }
-    const complete = new PatternMoments(["a", "b"]);
-    complete.addRow([1, 2]);
-    complete.addRow([2, 5]);
-    expect(littleMcar(complete)).toBeNull();
   });
 });
