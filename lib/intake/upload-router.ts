@@ -17,7 +17,6 @@ import { authoriseUpload, recordBatchVersion } from "./record-upload";
 /** A file name as given, without any folder part or control characters. */
 export function cleanFileName(name: string): string {
   const base = name.split(/[\\/]/).pop() ?? "";
-  // eslint-disable-next-line no-control-regex
   const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
   return (clean || "batch.csv").slice(0, 255);
 }

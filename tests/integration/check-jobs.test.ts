@@ -11,39 +11,15 @@ import { recordBatchVersion } from "@/lib/intake/record-upload";
 import { claimJob, STALE_AFTER_MS } from "@/lib/jobs/check-jobs";
 import { runJob } from "@/lib/jobs/worker";
 import { barleyBatches } from "@/lib/demo/batches";
+import { drainQueue, openMemoryFile, storeInMemory } from "./helpers/pipeline";
 
 const db = getDb();
 let providerId = 0;
 let otherProviderId = 0;
 let studyId = 0;
 let heatStudyId = 0;
-const files = new Map<string, string>();
-let keySeq = 0;
-
-function streamOf(text: string): ReadableStream<Uint8Array> {
-  const bytes = new TextEncoder().encode(text);
-  return new ReadableStream({
-    start(c) {
-      for (let i = 0; i < bytes.length; i += 4096) c.enqueue(bytes.slice(i, i + 4096));
-      c.close();
-    },
-  });
-}
-const openFile = async (key: string) => {
-  const text = files.get(key);
-  if (text === undefined) throw new Error(`no stored file ${key}`);
-  return streamOf(text);
-};
-function store(csv: string, name = "plots.csv") {
-  const key = `test-${process.pid}-${++keySeq}`;
-  files.set(key, csv);
-  return { key, url: `http://127.0.0.1/f/${key}`, name, size: csv.length };
-}
-
-/** Drain every queued job so each test starts from an empty queue. */
-async function drainQueue() {
-  await db.update(checkJobs).set({ status: "done" }).where(sql`${checkJobs.status} in ('queued','running')`);
-}
+const openFile = openMemoryFile;
+const store = storeInMemory;
 
 beforeAll(async () => {
   const [p] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
