@@ -29,6 +29,8 @@ export type UploadFakeOptions = {
   publicUrl?: string;
   /** how long a PUT waits for the app's /callback-result (default 30 s) */
   callbackTimeoutMs?: number;
+  /** production mode: how long after the app answered the callback a missing result means failure (default 5 s) */
+  callbackGraceMs?: number;
   /** how long a PUT carrying a slug waits for the app's /route-metadata (default 5 s) */
   registrationWaitMs?: number;
   /** how long a dev-mode /route-metadata stream may stay open (default 15 min) */
@@ -190,6 +192,7 @@ export async function startUploadFake(opts: UploadFakeOptions): Promise<UploadFa
     appId: opts.appId,
     base: "",
     callbackTimeoutMs: opts.callbackTimeoutMs ?? 30_000,
+    callbackGraceMs: opts.callbackGraceMs ?? 5_000,
     registrationWaitMs: opts.registrationWaitMs ?? 5_000,
     devStreamTimeoutMs: opts.devStreamTimeoutMs ?? 15 * 60_000,
     maxUploadBytes: opts.maxUploadBytes ?? 1024 ** 3,

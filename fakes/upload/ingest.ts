@@ -20,6 +20,8 @@ export type IngestContext = {
   appId?: string;
   base: string;
   callbackTimeoutMs: number;
+  /** production mode: wait this long for /callback-result after the app answered the callback */
+  callbackGraceMs: number;
   registrationWaitMs: number;
   /** uploads without a declared size are capped at this many bytes */
   maxUploadBytes: number;
@@ -169,6 +171,13 @@ export async function handlePut(req: IncomingMessage, res: ServerResponse, key: 
       if (err) {
         ctx.log(`upload fake: ${err}`);
         ctx.state.settle(key, { ok: false, error: err });
+      } else if (!r.isDev && held) {
+        // In production mode the SDK answers the callback only after onUploadComplete and its
+        // /callback-result post; no result shortly after means onUploadComplete failed.
+        setTimeout(
+          () => ctx.state.settle(key, { ok: false, error: "The app could not record the upload (onUploadComplete failed). Try again." }),
+          ctx.callbackGraceMs,
+        ).unref();
       }
       return err;
     });

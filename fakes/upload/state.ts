@@ -86,7 +86,7 @@ export class IngestState {
     return new Promise<HeldResult>((resolve) => {
       const t = setTimeout(() => {
         this.held.delete(key);
-        resolve({ ok: false, error: `The app did not report the result of onUploadComplete within ${ms} ms.` });
+        resolve({ ok: false, error: `The app did not confirm recording the upload within ${Math.round(ms / 1000)} s. Try again.` });
       }, ms);
       this.held.set(key, (r) => {
         clearTimeout(t);

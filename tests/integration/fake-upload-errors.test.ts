@@ -19,17 +19,20 @@ const token = Buffer.from(JSON.stringify({ apiKey, appId, regions: ["local1"] })
 
 let dir: string;
 let fake: UploadFake;
+let prodFake: UploadFake;
 let restoreXhr: () => void;
 
 beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-upload-errors-"));
   fake = await startUploadFake({ port: 0, apiKey, appId, dir, callbackTimeoutMs: 1500, registrationWaitMs: 300, log: () => {} });
+  prodFake = await startUploadFake({ port: 0, apiKey, appId, dir, callbackTimeoutMs: 20_000, callbackGraceMs: 300, log: () => {} });
   restoreXhr = installFetchXhr();
 });
 
 afterAll(async () => {
   restoreXhr?.();
   await fake?.close();
+  await prodFake?.close();
   if (dir) await rm(dir, { recursive: true, force: true });
 });
 
@@ -68,12 +71,28 @@ describe("upload failures", () => {
     expect(r.status).toBe(403);
   });
 
-  it.each([false, true])("when onUploadComplete fails (dev %s) the client gets an error after the timeout", async (isDev) => {
-    const app = await startTestUploadApp({ token, ingestUrl: fake.url, isDev, failComplete: true });
+  it("when onUploadComplete fails in dev mode the client gets an error once the wait runs out", async () => {
+    const app = await startTestUploadApp({ token, ingestUrl: fake.url, isDev: true, failComplete: true });
     try {
       const started = Date.now();
-      await expect(app.upload(new File(["a,b\n1,2\n"], "x.csv", { type: "text/csv" }))).rejects.toThrow(/did not report the result/);
+      await expect(app.upload(new File(["a,b\n1,2\n"], "x.csv", { type: "text/csv" }))).rejects.toThrow(
+        /did not confirm recording the upload within 2 s/,
+      );
       expect(Date.now() - started).toBeGreaterThanOrEqual(1400);
+    } finally {
+      await app.served.close();
+    }
+  });
+
+  it("when onUploadComplete fails in production mode the client is told soon after the callback returns", async () => {
+    const app = await startTestUploadApp({ token, ingestUrl: prodFake.url, isDev: false, failComplete: true });
+    try {
+      const started = Date.now();
+      await expect(app.upload(new File(["a,b\n1,2\n"], "x.csv", { type: "text/csv" }))).rejects.toThrow(
+        /could not record the upload \(onUploadComplete failed\)/,
+      );
+      // the grace (300 ms), well before the 20 s overall wait
+      expect(Date.now() - started).toBeLessThan(10_000);
     } finally {
       await app.served.close();
     }
