@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { dataPlans, reports } from "@/db/schema";
+import { dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./batches";
@@ -13,6 +13,13 @@ export type VersionReport = {
   /** the newest report of this version; null while the check has not finished */
   report: ReadinessReport | null;
   reportedAt: Date | null;
+  decision: {
+    decision: "accept" | "bounce";
+    comment: string | null;
+    decidedBy: string;
+    decidedAt: Date;
+    findingComments: { code: string; columns: string[]; comment: string }[];
+  } | null;
 };
 
 /**
@@ -40,7 +47,22 @@ export async function getVersionReportForUser(
     .where(and(eq(reports.batchVersionId, version.id)))
     .orderBy(desc(reports.createdAt), desc(reports.id))
     .limit(1);
+  const [d] = await db
+    .select({ id: decisions.id, decision: decisions.decision, comment: decisions.comment, decidedBy: users.name, decidedAt: decisions.decidedAt })
+    .from(decisions)
+    .innerJoin(users, eq(users.id, decisions.decidedById))
+    .where(eq(decisions.batchVersionId, version.id));
+  const comments = d
+    ? await db
+        .select({ code: findingComments.findingCode, columns: findingComments.columns, comment: findingComments.comment })
+        .from(findingComments)
+        .where(eq(findingComments.decisionId, d.id))
+        .orderBy(findingComments.id)
+    : [];
   return {
+    decision: d
+      ? { decision: d.decision, comment: d.comment, decidedBy: d.decidedBy, decidedAt: d.decidedAt, findingComments: comments.map((c) => ({ ...c, columns: c.columns ? c.columns.split(",") : [] })) }
+      : null,
     batch,
     version,
     plan: plan ?? { id: version.planId, version: 0, plan: null },

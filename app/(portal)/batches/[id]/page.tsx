@@ -4,6 +4,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { StateBadge } from "@/components/state-badge";
 import { CheckProgress } from "@/components/report/check-progress";
+import { DecisionForm } from "@/components/triage/decision-form";
+import { decideAction } from "./actions";
 import { ReportView, findingKey } from "@/components/report/report-view";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
@@ -38,6 +40,8 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
     }
   }
   const isProvider = user.role === "provider" && can(user.role, "batch.upload");
+  const canDecide =
+    can(user.role, "batch.decide") && version.version === batch.latestVersion && (version.state === "ready" || version.state === "unreadable");
   const canResubmit = isProvider && version.version === batch.latestVersion && batch.state !== "accepted";
 
   return (
@@ -96,6 +100,31 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
               ))}
             </ul>
           ) : null}
+        </Section>
+      ) : null}
+
+      {found.decision ? (
+        <Section title={found.decision.decision === "accept" ? "Accepted" : "Bounced"} id="decision">
+          <div className={`rounded border-l-4 px-4 py-3 ${found.decision.decision === "accept" ? "border-reed bg-reed-wash" : "border-clay bg-clay-wash"}`} data-testid="decision">
+            <p className="text-sm">
+              {found.decision.decision === "accept" ? "Accepted" : "Bounced"} by {found.decision.decidedBy} on {formatDateTime(found.decision.decidedAt)}.
+            </p>
+            {found.decision.comment ? <p className="mt-2 whitespace-pre-wrap text-base">{found.decision.comment}</p> : null}
+            {found.decision.findingComments.length ? (
+              <ul className="mt-2 grid gap-1 text-sm">
+                {found.decision.findingComments.map((c, i) => (
+                  <li key={i}>
+                    <code className="text-xs">{c.code}</code>
+                    {c.columns.length ? <span className="font-mono text-xs"> ({c.columns.join(", ")})</span> : null}: {c.comment}
+                  </li>
+                ))}
+              </ul>
+            ) : null}
+          </div>
+        </Section>
+      ) : canDecide && report ? (
+        <Section title="Decision" id="decide" note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments.">
+          <DecisionForm batchId={batch.publicId} version={version.version} findings={report.findings} canAccept={version.state === "ready"} decide={decideAction} />
         </Section>
       ) : null}
 
