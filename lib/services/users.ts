@@ -4,6 +4,7 @@ import { getDb } from "@/db/client";
 import { organisations, users, type UserRole } from "@/db/schema";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
 import { can, INVITABLE_ROLES } from "@/lib/auth/permissions";
+import { checkSignInAllowed, clearSignInFailures, recordSignInFailure } from "@/lib/auth/rate-limit";
 import { AppError } from "@/lib/errors";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { changePasswordSchema, createUserSchema, updateUserSchema, userIdSchema } from "@/lib/validation/users";
@@ -209,10 +210,18 @@ export async function changeOwnPassword(
 
     const db = getDb();
     await loadActor(db, actorId);
+    // an unattended open session must not become a way to guess the password
+    const throttleKey = `user:${actorId}`;
+    const gate = checkSignInAllowed(throttleKey, "password-change");
+    if (!gate.allowed) {
+      return fail(`Too many wrong current passwords. Try again in ${Math.ceil(gate.retryAfterSeconds / 60)} minutes.`, undefined, "conflict");
+    }
     const rows = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actorId)).limit(1);
     if (!(await verifyPassword(parsed.data.currentPassword, rows[0]?.passwordHash))) {
+      recordSignInFailure(throttleKey, "password-change");
       return fail("Check the highlighted fields.", { currentPassword: ["That is not your current password."] });
     }
+    clearSignInFailures(throttleKey, "password-change");
     const hash = await hashPassword(parsed.data.newPassword);
 
     return db.transaction(async (tx) => {

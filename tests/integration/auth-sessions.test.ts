@@ -150,6 +150,19 @@ describe("password change", () => {
   });
 });
 
+describe("password change throttling", () => {
+  test("ten wrong current passwords block the eleventh attempt, even a right one", async () => {
+    const u = w.users.lead;
+    for (let i = 0; i < 10; i++) {
+      const r = await changeOwnPassword(u.id, `wrong-current-${i}`, "another-new-password");
+      expect(r.ok === false && r.fieldErrors?.currentPassword).toBeTruthy();
+    }
+    const blocked = await changeOwnPassword(u.id, WORLD_PASSWORD, "another-new-password");
+    expect(blocked).toMatchObject({ ok: false, code: "conflict", message: expect.stringMatching(/Too many wrong current passwords/) });
+    expect(await sessionVersionOf(u.id)).toBe(1);
+  });
+});
+
 describe("role change", () => {
   test("bites at the next request although the session still says the old role", async () => {
     const u = w.users.analystB;
