@@ -13,7 +13,7 @@ type NavItem = { href: string; label: string; action?: Action; roles?: readonly 
 
 // Pages that exist; each later page adds itself here with the action that opens it.
 const NAV: readonly NavItem[] = [
-  { href: "/upload", label: "Upload", action: "batch.upload" },
+  { href: "/upload", label: "Upload", action: "batch.upload", roles: ["provider"] },
   { href: "/queue", label: "Review queue", action: "batch.decide" },
   { href: "/admin/users", label: "Users", action: "user.manage" },
 ];
