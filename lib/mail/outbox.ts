@@ -91,10 +91,14 @@ export function retryDelayMs(attempts: number, baseMs: number, maxMs: number): n
   return Math.min(maxMs, baseMs * 2 ** Math.max(0, attempts - 1));
 }
 
-/** `<outbox-<id>@<domain of From>>`: stable across attempts of the same row. */
-export function messageIdFor(rowId: number, from: string): string {
+/**
+ * `<outbox-<id>.<created, base 36>@<domain of From>>`: the same for every attempt of a row,
+ * and different for rows of another database (or after a reset) that reuse the id, since
+ * some receivers drop a message whose Message-ID they have seen.
+ */
+export function messageIdFor(row: { id: number; createdAt: Date }, from: string): string {
   const domain = /@([^>\s]+)>?\s*$/.exec(from)?.[1] ?? "tributary.local";
-  return `<outbox-${rowId}@${domain}>`;
+  return `<outbox-${row.id}.${row.createdAt.getTime().toString(36)}@${domain}>`;
 }
 
 function isPermanent(e: unknown): boolean {
@@ -137,7 +141,7 @@ export async function deliverOutbox(opts: DeliverOptions = {}): Promise<DeliverR
 
   const result: DeliverResult = { claimed: claimed.length, sent: 0, retrying: 0, failed: 0 };
   for (const row of claimed) {
-    const messageId = messageIdFor(row.id, from);
+    const messageId = messageIdFor(row, from);
     // only the holder of this claim (same attempt count, still 'sending') records the outcome
     const mine = and(eq(emailOutbox.id, row.id), eq(emailOutbox.status, "sending"), eq(emailOutbox.attempts, row.attempts));
     try {

@@ -52,6 +52,7 @@ async function myRows() {
       attempts: emailOutbox.attempts,
       lastError: emailOutbox.lastError,
       messageId: emailOutbox.messageId,
+      createdAt: emailOutbox.createdAt,
       /** ms until the next attempt, by the database clock */
       dueInMs: sql<number>`TIMESTAMPDIFF(MICROSECOND, NOW(3), ${emailOutbox.nextAttemptAt}) / 1000`.mapWith(Number),
     })
@@ -137,8 +138,8 @@ describe("outbox", () => {
     for (const r of rows) {
       const got = await inbox(r.to);
       expect(got).toHaveLength(1);
-      expect(got[0]!.messageId).toBe(messageIdFor(r.id, FROM));
-      expect(r.messageId).toBe(`<outbox-${r.id}@tributary.test>`);
+      expect(got[0]!.messageId).toBe(messageIdFor(r, FROM));
+      expect(r.messageId).toBe(`<outbox-${r.id}.${r.createdAt.getTime().toString(36)}@tributary.test>`);
       const full = (await (await fetch(`${fake!.mailboxUrl}/messages/${got[0]!.id}`)).json()) as StoredMessage;
       const n = r.dedupeKey.slice(-1);
       expect(full.subject).toBe(`Batch bounced (${n})`);
@@ -179,7 +180,7 @@ describe("outbox", () => {
     expect([stale.status, stale.attempts]).toEqual(["sent", 2]);
     expect([leased.status, leased.attempts]).toEqual(["sending", 1]);
     const got = await inbox(addr("stale"));
-    expect(got.map((m) => m.messageId)).toEqual([messageIdFor(stale.id, FROM)]);
+    expect(got.map((m) => m.messageId)).toEqual([messageIdFor(stale, FROM)]);
     expect(await inbox(addr("leased"))).toEqual([]);
   });
 
