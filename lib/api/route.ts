@@ -36,6 +36,22 @@ export async function getApiActor(req: Request): Promise<ApiActor> {
 
 type RouteContext<P> = { params: Promise<P> };
 
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/**
+ * Cookie-authenticated changes must come from our own pages. SameSite=Lax cookies already
+ * keep most cross-site requests out; this refuses the rest when the browser names the origin.
+ */
+function assertSameOrigin(req: Request): void {
+  const origin = req.headers.get("origin");
+  if (!origin || SAFE_METHODS.has(req.method)) return;
+  const allowed = new Set([new URL(req.url).origin]);
+  for (const url of [process.env.APP_URL, process.env.NEXTAUTH_URL]) {
+    if (url) allowed.add(new URL(url).origin);
+  }
+  if (!allowed.has(origin)) throw new AppError("forbidden", "Requests from other sites are refused; use an API token for scripts.");
+}
+
 /**
  * Wraps a v1 route handler in the house order: who is calling (401) → may their role do
  * this (403) → the handler parses input (422), loads within the caller's scope (404) and
@@ -49,6 +65,7 @@ export function apiRoute<P extends Record<string, string | string[]> = Record<st
   return async (req, ctx) => {
     try {
       const actor = await getApiActor(req);
+      if (actor.via === "session") assertSameOrigin(req);
       if (options.action && !can(actor.role, options.action)) throw new AppError("forbidden");
       const params = ((await ctx?.params) ?? {}) as P;
       return await handler({ req, actor, params });

@@ -93,6 +93,25 @@ describe("POST /api/v1/admin/users", () => {
     expect(res.json.error?.fieldErrors?.organisationId?.[0]).toMatch(message);
   });
 
+  test("a cookie-authenticated change from another site's page is refused and writes nothing", async () => {
+    const email = unique("csrf");
+    const body = JSON.stringify({ email, name: "Cross Site", role: "admin", organisationId: w.team.id, password: "a-long-password" });
+    const send = (origin: string) =>
+      createAdminUser(
+        new Request("http://127.0.0.1:3410/api/v1/admin/users", {
+          method: "POST",
+          headers: { cookie: admin.cookie, origin, "content-type": "application/json" },
+          body,
+        }),
+        { params: Promise.resolve({}) },
+      );
+    const res = await send("http://evil.example");
+    expect(res.status).toBe(403);
+    expect(await getDb().select({ id: users.id }).from(users).where(eq(users.email, email))).toEqual([]);
+    // our own origin is fine
+    expect((await send("http://127.0.0.1:3410")).status).toBe(201);
+  });
+
   test("a body that is not JSON → 422 with a plain message", async () => {
     const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: "{email:", as: admin });
     expect(res.status).toBe(422);
