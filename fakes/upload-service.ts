@@ -206,6 +206,9 @@ export async function startUploadFake(opts: UploadFakeOptions): Promise<UploadFa
       else res.destroy();
     });
   });
+  // large uploads from a slow client may take a while; held PUTs end by callbackTimeoutMs
+  server.requestTimeout = 30 * 60_000;
+  server.headersTimeout = 60_000;
   await new Promise<void>((resolve, reject) => {
     server.once("error", reject);
     server.listen(opts.port, host, () => resolve());
