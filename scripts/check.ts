@@ -5,7 +5,8 @@
  * Exit code: 0 no blockers, 1 blockers, 2 unreadable file or bad usage.
  */
 import { createReadStream, readFileSync, statSync } from "node:fs";
-import { checkBatch, draftPlan, parsePlan, type ReadinessReport } from "../lib/readiness";
+import { draftPlan, parsePlan, type ReadinessReport } from "../lib/readiness";
+import { checkFile, isRangeWorker, runRangeWorker } from "../lib/readiness/node";
 
 const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json]
        npm run check -- FILE --draft-plan [--response COLUMN]`;
@@ -100,7 +101,9 @@ async function main() {
   }
   const showProgress = size > 20 << 20;
   let last = 0;
-  const report = await checkBatch(stream(), parsed.plan, {
+  const workers = process.env.TRIBUTARY_WORKERS !== undefined ? Number(process.env.TRIBUTARY_WORKERS) : undefined;
+  const report = await checkFile(args.file, parsed.plan, {
+    workers,
     fileName: args.file,
     onProgress: showProgress
       ? (p) => {
@@ -117,7 +120,12 @@ async function main() {
   process.exitCode = report.status === "unreadable" ? 2 : report.counts.blocker > 0 ? 1 : 0;
 }
 
-main().catch((e) => {
-  process.stderr.write(`internal error: ${(e as Error).stack ?? e}\n`);
-  process.exit(2);
-});
+if (isRangeWorker()) {
+  // a worker thread of checkFile reading one byte range of a large file
+  void runRangeWorker();
+} else {
+  main().catch((e) => {
+    process.stderr.write(`internal error: ${(e as Error).stack ?? e}\n`);
+    process.exit(2);
+  });
+}

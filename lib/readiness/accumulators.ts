@@ -11,6 +11,11 @@ export class RowSample {
     this.count++;
     if (this.rows.length < this.cap) this.rows.push(line);
   }
+  /** Add a later part's sample (parts in file order). */
+  absorb(o: { count: number; rows: number[] }): void {
+    this.count += o.count;
+    for (const r of o.rows) if (this.rows.length < this.cap) this.rows.push(r);
+  }
 }
 
 /** Welford running moments; merge by Chan et al. (1979) pairwise update. */
@@ -117,6 +122,33 @@ export class QuantileStore {
   }
   get exact(): boolean {
     return this.seen <= this.cap;
+  }
+  /** The kept values and how many values they stand for (to merge parts of a file). */
+  part(): { values: Float64Array; seen: number } {
+    return { values: this.buf.slice(0, this.len), seen: this.seen };
+  }
+  /**
+   * Add a later part: exact while the union fits, else a sample of `cap` values drawn from
+   * each part in proportion to the values it stands for (each part's kept values being a
+   * uniform sample of it, the result is a uniform sample of the union).
+   */
+  absorb(o: { values: Float64Array; seen: number }): void {
+    const total = this.seen + o.seen;
+    if (total <= this.cap) {
+      for (const v of o.values) this.add(v);
+      return;
+    }
+    const mine = Math.round((this.cap * this.seen) / total);
+    const out = new Float64Array(this.cap);
+    const pick = (src: Float64Array, m: number, at: number) => {
+      for (let i = 0; i < m; i++) out[at + i] = src[Math.floor(((i + 0.5) * src.length) / m)]!;
+    };
+    pick(this.buf.subarray(0, this.len), Math.min(mine, this.len), 0);
+    const taken = Math.min(mine, this.len);
+    pick(o.values, Math.min(this.cap - taken, o.values.length), taken);
+    this.len = taken + Math.min(this.cap - taken, o.values.length);
+    this.buf = out;
+    this.seen = total;
   }
   /** Sorted copy of the kept values. */
   sorted(): Float64Array {
@@ -255,6 +287,22 @@ export class HashSet64 {
   }
   get bytes(): number {
     return this.hi.length * 12;
+  }
+  raw(): { hi: Uint32Array; lo: Uint32Array; line: Uint32Array; size: number; full: boolean } {
+    return { hi: this.hi, lo: this.lo, line: this.line, size: this.size, full: this.full };
+  }
+  static fromRaw(r: { hi: Uint32Array; lo: Uint32Array; line: Uint32Array; size: number; full: boolean }, maxEntries: number): HashSet64 {
+    const h = new HashSet64(maxEntries);
+    h.hi = r.hi;
+    h.lo = r.lo;
+    h.line = r.line;
+    h.size = r.size;
+    h.full = r.full;
+    return h;
+  }
+  /** Visit the stored entries (hash halves and first line). */
+  forEach(f: (h1: number, h2: number, line: number) => void): void {
+    for (let i = 0; i < this.hi.length; i++) if (this.hi[i] !== 0 || this.lo[i] !== 0) f(this.hi[i]!, this.lo[i]!, this.line[i]!);
   }
 }
 

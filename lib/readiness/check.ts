@@ -42,7 +42,7 @@ export async function hashPlan(plan: Plan): Promise<string> {
   return [...new Uint8Array(digest)].map((b) => b.toString(16).padStart(2, "0")).join("");
 }
 
-const now = () => (typeof performance !== "undefined" ? performance.now() : Date.now());
+export const now = () => (typeof performance !== "undefined" ? performance.now() : Date.now());
 
 function emptyModel(plan: Plan): ReadinessReport["model"] {
   const t = thresholdsOf(plan);
@@ -78,7 +78,6 @@ export function unreadableReport(plan: Plan, planHash: string, e: UnreadableErro
 export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOptions = {}): Promise<ReadinessReport> {
   const t0 = now();
   const planHash = await hashPlan(plan);
-  const t = thresholdsOf(plan);
   const scan = new Scan(plan);
   let read: Awaited<ReturnType<typeof readCsv>>;
   try {
@@ -87,6 +86,12 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
     if (e instanceof UnreadableError) return unreadableReport(plan, planHash, e, null, now() - t0);
     throw e;
   }
+  return reportFromScan(scan, plan, planHash, { bytes: read.bytes, records: read.records, bom: read.meta?.bom ?? false, delimiter: read.meta?.delimiter ?? "," }, t0);
+}
+
+/** The report of a finished pass (one stream, or the merged byte ranges of a file). */
+export function reportFromScan(scan: Scan, plan: Plan, planHash: string, read: { bytes: number; records: number; bom: boolean; delimiter: string }, t0: number): ReadinessReport {
+  const t = thresholdsOf(plan);
   const state = stateOf(scan, ENGINE_VERSION, planHash);
   const evidence: Evidence = { missingRows: new Map(), responseMissingRows: scan.responseMissing.rows, levelRows: new Map() };
   const summaries = new Map<string, { summary: Summary; exact: boolean }>();
@@ -110,7 +115,7 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
     status: "checked",
     engineVersion: ENGINE_VERSION,
     planHash,
-    file: { bytes: read.bytes, encoding: read.meta?.bom ? "utf-8 (BOM)" : "utf-8", delimiter: read.meta?.delimiter ?? ",", decimal },
+    file: { bytes: read.bytes, encoding: read.bom ? "utf-8 (BOM)" : "utf-8", delimiter: read.delimiter, decimal },
     rows: a.rows,
     model: a.model,
     columns: a.columns,

@@ -120,23 +120,29 @@ function countNewlines(s: string): number {
 export async function readCsv(
   input: ByteInput,
   sink: CsvSink,
-  opts: { limits?: Partial<CsvLimits>; onProgress?: (p: { rows: number; bytes: number }) => void } = {},
+  opts: {
+    limits?: Partial<CsvLimits>;
+    onProgress?: (p: { rows: number; bytes: number }) => void;
+    /** reading a byte range of a larger file: its header and format are known, and where it starts */
+    range?: { meta: CsvMeta; byteOffset: number; firstLine: number };
+  } = {},
 ): Promise<{ bytes: number; records: number; meta: CsvMeta | null; blankLines: number }> {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
   const utf8 = new Utf8Stream();
-  let bytes = 0;
-  let head: Uint8Array | null = new Uint8Array(0);
+  let bytes = opts.range?.byteOffset ?? 0;
+  let head: Uint8Array | null = opts.range ? null : new Uint8Array(0);
   let bom = false;
   let text = "";
-  let meta: CsvMeta | null = null;
+  let meta: CsvMeta | null = opts.range?.meta ?? null;
   let parser: Papa.Parser | null = null;
-  let line = 1;
+  let line = opts.range?.firstLine ?? 1;
   let records = 0;
   let blankLines = 0;
-  let headerSeen = false;
+  let headerSeen = opts.range !== undefined;
   let lastProgress = 0;
 
   const feed = (last: boolean) => {
+    if (!parser && meta) parser = new Papa.Parser({ delimiter: meta.delimiter, newline: meta.newline as "\n", quoteChar: '"' });
     if (!meta) {
       if (!last && text.length < SNIFF_CHARS) return;
       const s = sniffText(text.slice(0, SNIFF_CHARS), last);

@@ -97,7 +97,7 @@ export function rowFindings(scan: Scan): Finding[] {
     if (!key.dup.count) continue;
     const name = scan.cols[k]!.name;
     out.push(
-      finding("key.duplicate", "blocker", [name], `The key ${quote(name)} repeats in ${fmt(key.dup.count)} rows (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))}).`, `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`, {
+      finding("key.duplicate", "blocker", [name], `The key ${quote(name)} repeats in ${fmt(key.dup.count)} rows${key.examples.size ? ` (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))})` : ""}.`, `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`, {
         rows: key.dup.rows,
         rowCount: key.dup.count,
         detail: { examples: Object.fromEntries(key.examples) },
