@@ -3,7 +3,6 @@
  * before and after an upload (who may upload, what to record) is passed in, so the
  * intake code owns the rules and tests can supply their own.
  */
-import { randomUUID } from "node:crypto";
 import { createUploadthing, type FileRouter } from "uploadthing/server";
 import { UploadThingError } from "uploadthing/server";
 import { z } from "zod";
@@ -85,7 +84,7 @@ export function makeFileRouter<M extends BatchUploadMeta>(hooks: FileRouterHooks
     batchFile: f(
       Object.fromEntries(BATCH_FILE_TYPES.map((t) => [t, one])) as Record<(typeof BATCH_FILE_TYPES)[number], typeof one>,
       // a random part makes keys unpredictable (the default hashes name, size and time)
-      { awaitServerData: true, getFileHashParts: (file) => [file.name, file.size, randomUUID()] },
+      { awaitServerData: true, getFileHashParts: (file) => [file.name, file.size, crypto.randomUUID()] },
     )
       .input(batchUploadInput)
       .middleware(async ({ req, input, files }) => {
