@@ -206,3 +206,25 @@ describe("services read the actor's role from the database", () => {
     expect(row?.active).toBe(true);
   });
 });
+
+describe("GET /api/v1/audit", () => {
+  test("leads and admins read the trail of a user; providers and analysts get 403", async () => {
+    const { GET: listAudit } = await import("@/app/api/v1/audit/route");
+    const target = w.users.providerA;
+    expect((await patch(target.id, { active: false })).status).toBe(200);
+    expect((await patch(target.id, { active: true })).status).toBe(200);
+    const path = `/api/v1/audit?objectType=user&objectId=${target.id}`;
+    const lead = await call(listAudit, { path, as: { cookie: await sessionCookieFor(w.users.lead) } });
+    expect(lead.status).toBe(200);
+    expect((lead.json.data as { action: string; actorName: string }[]).slice(0, 2)).toEqual([
+      expect.objectContaining({ action: "user.reactivate", actorName: w.users.admin.name }),
+      expect.objectContaining({ action: "user.deactivate", actorName: w.users.admin.name }),
+    ]);
+    for (const who of [w.users.providerB, w.users.analystA]) {
+      const res = await call(listAudit, { path, as: { cookie: await sessionCookieFor(who) } });
+      expect(res.status).toBe(403);
+    }
+    const bad = await call(listAudit, { path: "/api/v1/audit?limit=9999", as: admin });
+    expect(bad.status).toBe(422);
+  });
+});
