@@ -59,6 +59,9 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
         actions={
           <>
             <StateBadge state={version.state} />
+            <Link href={`/batches/${batch.publicId}/trail`} className="text-sm text-channel underline">
+              Audit trail
+            </Link>
             {canResubmit ? (
               <Link href={`/batches/${batch.publicId}/new-version`} className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
                 Upload a new version
