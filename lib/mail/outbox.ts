@@ -11,6 +11,7 @@
 import { and, eq, inArray, lte, sql } from "drizzle-orm";
 import type { Transporter } from "nodemailer";
 import { getDb, type Db } from "@/db/client";
+import { isDuplicateKey } from "@/db/errors";
 import { emailOutbox } from "@/db/schema";
 import { env } from "@/lib/env";
 import { transport as defaultTransport } from "./transport";
@@ -61,12 +62,6 @@ export async function enqueueEmail(tx: Db | Tx, input: EmailInput): Promise<{ qu
   }
 }
 
-function isDuplicateKey(e: unknown): boolean {
-  for (let c = e as { code?: string; cause?: unknown } | undefined, i = 0; c && i < 4; c = c.cause as typeof c, i++) {
-    if (c.code === "ER_DUP_ENTRY") return true;
-  }
-  return false;
-}
 
 export type DeliverOptions = {
   db?: Db;
