@@ -54,12 +54,14 @@ server_pid() {
   local pid=""
   [[ -f "$PIDFILE" ]] && { read -r pid < "$PIDFILE"; } 2>/dev/null
   if pid_is "$pid" mariadbd; then echo "$pid"; return 0; fi
-  local d
+  local d a
+  local -a args
   for d in /proc/[0-9]*; do
     pid_is "${d#/proc/}" mariadbd || continue
-    if tr '\0' '\n' < "$d/cmdline" 2>/dev/null | grep -qxF -- "--datadir=$DATADIR"; then
-      echo "${d#/proc/}"; return 0
-    fi
+    { mapfile -d '' args < "$d/cmdline"; } 2>/dev/null || continue
+    for a in "${args[@]}"; do
+      [[ "$a" == "--datadir=$DATADIR" ]] && { echo "${d#/proc/}"; return 0; }
+    done
   done
   return 0
 }

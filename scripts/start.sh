@@ -163,7 +163,7 @@ note "logs: $LOG_DIR/{app,worker,fakes,mariadb}.log — press Ctrl-C to stop eve
 echo
 
 # show the parts' logs as they come; stop when any part exits
-tail -n 0 -F "$LOG_DIR/app.log" "$LOG_DIR/worker.log" "$LOG_DIR/fakes.log" 2>/dev/null &
+tail --pid=$$ -n 0 -F "$LOG_DIR/app.log" "$LOG_DIR/worker.log" "$LOG_DIR/fakes.log" 2>/dev/null &
 tailer=$!
 while :; do
   wait -n "${groups[@]}"

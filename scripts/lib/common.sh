@@ -103,6 +103,26 @@ build_fingerprint() {
   fi
 }
 
+# Waits (up to 10 minutes) while another `next build` runs in this checkout: two builds share .next.
+wait_for_other_build() {
+  local i d cwd said=0
+  local -a args
+  for ((i = 0; i < 300; i++)); do
+    local busy=0
+    for d in /proc/[0-9]*; do
+      [[ "${d#/proc/}" == "$$" ]] && continue
+      { mapfile -d '' args < "$d/cmdline"; } 2>/dev/null || continue
+      [[ " ${args[*]} " =~ [\ /]next\ build\  ]] || continue
+      cwd="$(readlink "$d/cwd" 2>/dev/null)" || continue
+      [[ "$cwd" == "$TRIBUTARY_ROOT" ]] && { busy=1; break; }
+    done
+    (( busy )) || return 0
+    (( said )) || { note "another next build is running in this checkout; waiting for it"; said=1; }
+    sleep 2
+  done
+  return 0
+}
+
 # `next build` unless the last build is of the same sources. Returns 0 when built or up to date,
 # the build's exit code otherwise; sets BUILD_RAN=1 when it ran.
 ensure_build() {
@@ -113,6 +133,7 @@ ensure_build() {
     note "next build: up to date, skipped"
     return 0
   fi
+  wait_for_other_build
   say "building the app (next build)"
   BUILD_RAN=1
   rm -f "$stamp"
