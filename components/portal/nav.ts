@@ -9,18 +9,20 @@ export const ROLE_HOME: Record<UserRole, string> = {
   admin: "/admin",
 };
 
-type NavItem = { href: string; label: string; action?: Action; roles?: readonly UserRole[] };
+type NavItem = { href: string; label: string; action?: Action; roles?: readonly UserRole[]; demoOnly?: boolean };
 
 // Pages that exist; each later page adds itself here with the action that opens it.
 const NAV: readonly NavItem[] = [
+  { href: "/studies", label: "Studies", action: "study.read" },
   { href: "/upload", label: "Upload", action: "batch.upload", roles: ["provider"] },
   { href: "/queue", label: "Review queue", action: "batch.decide" },
   { href: "/admin/users", label: "Users", action: "user.manage" },
+  { href: "/mailbox", label: "Mailbox", action: "mailbox.read", demoOnly: true },
 ];
 
 /** The top-bar links a role may follow (read from the permissions table). */
-export function navFor(role: UserRole): { href: string; label: string }[] {
+export function navFor(role: UserRole, opts: { mailbox?: boolean } = {}): { href: string; label: string }[] {
   const home = { href: ROLE_HOME[role], label: "Home" };
-  const rest = NAV.filter((n) => (!n.action || can(role, n.action)) && (!n.roles || n.roles.includes(role)));
+  const rest = NAV.filter((n) => (!n.action || can(role, n.action)) && (!n.roles || n.roles.includes(role)) && (!n.demoOnly || opts.mailbox));
   return [home, ...rest.map(({ href, label }) => ({ href, label })), { href: "/settings", label: "Settings" }];
 }

@@ -15,7 +15,7 @@ export function TopBar({ user }: { user: SessionUser }) {
           <span className="text-lg font-semibold tracking-tight text-ink">Tributary</span>
         </Link>
         <nav aria-label="Main">
-          <NavLinks items={navFor(user.role)} />
+          <NavLinks items={navFor(user.role, { mailbox: Boolean(process.env.MAILBOX_URL) })} />
         </nav>
         <div className="ml-auto flex items-center gap-3 text-right">
           <div className="leading-tight" data-testid="signed-in-user">
