@@ -1,0 +1,201 @@
+/**
+ * The pool of a study: the accepted batch versions combined. Figures come from the engine
+ * states stored beside each accepted version's newest report, merged by the engine's
+ * poolReport; no file is read again. Superseded, bounced and undecided versions never enter.
+ */
+import { and, desc, eq, inArray } from "drizzle-orm";
+import type { Db } from "@/db/client";
+import { batches, batchVersions, dataPlans, decisions, organisations, reports, studies } from "@/db/schema";
+import { driftFindings, isEngineState, parsePlan, poolReport, type Finding, type Plan, type ReadinessReport } from "@/lib/readiness";
+
+export type PoolMember = {
+  batchVersionId: number;
+  batchId: number;
+  batchPublicId: string;
+  batchTitle: string;
+  version: number;
+  organisationId: number;
+  organisationName: string;
+  fileKey: string;
+  fileName: string;
+  rowsTotal: number;
+  rowsComplete: number;
+  residualDf: number;
+  decidedAt: Date | null;
+  /** the report's delimiter and decimal mark, for reading the file again on export */
+  delimiter: string | null;
+  decimal: "." | "," | null;
+  encoding: string | null;
+  /** whether the stored state was checked against the study's current plan */
+  currentPlan: boolean;
+};
+
+export type StudyPool = {
+  studyId: number;
+  slug: string;
+  title: string;
+  planVersion: number;
+  plan: Plan;
+  /** the merged report; `state` holds the merged engine state (null while the pool is empty) */
+  report: ReadinessReport;
+  members: PoolMember[];
+};
+
+export type StudyRef = { id: number; slug: string; title: string; currentPlanVersion: number | null };
+
+type Loaded = { member: PoolMember; state: unknown };
+
+/** The study's current data plan, parsed. Throws when the study has none or it is invalid. */
+export async function loadCurrentPlan(db: Db, study: StudyRef): Promise<{ plan: Plan; version: number; planHash: string }> {
+  if (study.currentPlanVersion == null) throw new Error(`Study "${study.slug}" has no data plan yet.`);
+  const [row] = await db
+    .select({ plan: dataPlans.plan, version: dataPlans.version, planHash: dataPlans.planHash })
+    .from(dataPlans)
+    .where(and(eq(dataPlans.studyId, study.id), eq(dataPlans.version, study.currentPlanVersion)));
+  if (!row) throw new Error(`Study "${study.slug}" points at plan version ${study.currentPlanVersion}, which does not exist.`);
+  const parsed = parsePlan(row.plan);
+  if (!parsed.ok) throw new Error(`The data plan of study "${study.slug}" is not valid; fix it in the plan editor.`);
+  return { plan: parsed.plan, version: row.version, planHash: row.planHash };
+}
+
+export async function getStudyRef(db: Db, by: { id: number } | { slug: string }): Promise<StudyRef | null> {
+  const [s] = await db
+    .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
+    .from(studies)
+    .where("id" in by ? eq(studies.id, by.id) : eq(studies.slug, by.slug));
+  return s ?? null;
+}
+
+/** The newest report (and its engine state) of each of the given versions. */
+async function newestReports(db: Db, versionIds: number[]) {
+  const out = new Map<number, { report: unknown; engineState: unknown; planHash: string }>();
+  if (!versionIds.length) return out;
+  const rows = await db
+    .select({ versionId: reports.batchVersionId, report: reports.report, engineState: reports.engineState, planHash: dataPlans.planHash })
+    .from(reports)
+    .innerJoin(dataPlans, eq(dataPlans.id, reports.planId))
+    .where(inArray(reports.batchVersionId, versionIds))
+    .orderBy(desc(reports.id));
+  for (const r of rows) if (!out.has(r.versionId)) out.set(r.versionId, { report: r.report, engineState: r.engineState, planHash: r.planHash });
+  return out;
+}
+
+type VersionRow = {
+  batchVersionId: number; batchId: number; batchPublicId: string; batchTitle: string; version: number;
+  organisationId: number; organisationName: string; fileKey: string; fileName: string;
+};
+
+const versionColumns = {
+  batchVersionId: batchVersions.id,
+  batchId: batches.id,
+  batchPublicId: batches.publicId,
+  batchTitle: batches.title,
+  version: batchVersions.version,
+  organisationId: organisations.id,
+  organisationName: organisations.name,
+  fileKey: batchVersions.fileKey,
+  fileName: batchVersions.fileName,
+};
+
+async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
+  const reps = await newestReports(db, rows.map((r) => r.batchVersionId));
+  const out: Loaded[] = [];
+  for (const r of rows) {
+    const rep = reps.get(r.batchVersionId);
+    // a version without a stored engine state (unreadable, or checked by an engine that kept none) cannot be merged
+    if (!rep || !isEngineState(rep.engineState)) continue;
+    const body = rep.report as Partial<ReadinessReport>;
+    out.push({
+      member: {
+        ...r,
+        rowsTotal: body.rows?.total ?? 0,
+        rowsComplete: body.rows?.complete ?? 0,
+        residualDf: body.model?.residualDf ?? 0,
+        delimiter: body.file?.delimiter ?? null,
+        decimal: body.file?.decimal ?? null,
+        encoding: body.file?.encoding ?? null,
+        currentPlan: rep.planHash === planHash,
+      },
+      state: rep.engineState,
+    });
+  }
+  return out;
+}
+
+/**
+ * The accepted versions of a study with their stored engine states, oldest decision first.
+ * `asOf` rebuilds the pool as it stood at that moment: versions accepted before it and not
+ * yet superseded then (used by the weekly digest to see whether a pool crossed its target).
+ */
+export async function loadAccepted(db: Db, studyId: number, planHash: string, asOf?: Date): Promise<Loaded[]> {
+  const rows = await db
+    .select({ ...versionColumns, decidedAt: decisions.decidedAt, state: batchVersions.state, stateChangedAt: batchVersions.stateChangedAt })
+    .from(batchVersions)
+    .innerJoin(batches, eq(batches.id, batchVersions.batchId))
+    .innerJoin(organisations, eq(organisations.id, batches.organisationId))
+    .innerJoin(decisions, and(eq(decisions.batchVersionId, batchVersions.id), eq(decisions.decision, "accept")))
+    .where(and(eq(batches.studyId, studyId), asOf ? inArray(batchVersions.state, ["accepted", "superseded"]) : eq(batchVersions.state, "accepted")))
+    .orderBy(decisions.decidedAt, batchVersions.id);
+  const kept = asOf
+    ? rows.filter((r) => r.decidedAt < asOf && (r.state === "accepted" || r.stateChangedAt >= asOf))
+    : rows;
+  return withStates(db, kept, planHash);
+}
+
+/** Merges loaded states into the pool's report with the plan (engine's poolReport). */
+export async function poolOf(loaded: Loaded[], plan: Plan): Promise<ReadinessReport> {
+  return poolReport(loaded.map((l) => l.state), plan);
+}
+
+/** A study's pool: the merged report of its accepted versions under the current plan. */
+export async function getStudyPool(db: Db, study: StudyRef): Promise<StudyPool> {
+  const { plan, version, planHash } = await loadCurrentPlan(db, study);
+  const loaded = await loadAccepted(db, study.id, planHash);
+  const report = await poolOf(loaded, plan);
+  return { studyId: study.id, slug: study.slug, title: study.title, planVersion: version, plan, report, members: loaded.map((l) => l.member) };
+}
+
+export type IfAccepted = {
+  batchPublicId: string;
+  version: number;
+  studySlug: string;
+  /** the pool as it is */
+  before: ReadinessReport;
+  /** the pool with this version added */
+  after: ReadinessReport;
+  /** drift of this version against the pool as it is (empty while the pool is empty) */
+  drift: Finding[];
+  poolMembers: number;
+};
+
+/**
+ * "If accepted" for a version ready for review: the pool's figures with it added and the
+ * drift findings of it against the current pool. Null when the version is not ready for
+ * review or has no stored engine state.
+ */
+export async function getIfAccepted(db: Db, batchPublicId: string, versionNo: number): Promise<IfAccepted | null> {
+  const [v] = await db
+    .select({ ...versionColumns, studyId: batches.studyId, state: batchVersions.state })
+    .from(batchVersions)
+    .innerJoin(batches, eq(batches.id, batchVersions.batchId))
+    .innerJoin(organisations, eq(organisations.id, batches.organisationId))
+    .where(and(eq(batches.publicId, batchPublicId), eq(batchVersions.version, versionNo)));
+  if (!v || v.state !== "ready") return null;
+  const study = await getStudyRef(db, { id: v.studyId });
+  if (!study) return null;
+  const { plan, planHash } = await loadCurrentPlan(db, study);
+  const [mine] = await withStates(db, [{ ...v, decidedAt: null }], planHash);
+  if (!mine) return null;
+  const loaded = await loadAccepted(db, study.id, planHash);
+  const before = await poolOf(loaded, plan);
+  const after = await poolOf([...loaded, mine], plan);
+  const drift = before.state ? driftFindings(before.state, mine.state, plan) : [];
+  return { batchPublicId, version: versionNo, studySlug: study.slug, before, after, drift, poolMembers: loaded.length };
+}
+
+/** The report without its merged engine state (for JSON answers and pages). */
+export function withoutState(report: ReadinessReport): Omit<ReadinessReport, "state"> {
+  const { state: _state, ...rest } = report;
+  void _state;
+  return rest;
+}

@@ -1,0 +1,142 @@
+/**
+ * The pool from stored engine states equals the engine run on the concatenated accepted files;
+ * accepting a batch updates the pool; superseded and bounced versions never enter it; the
+ * "if accepted" figures are the pool's after the acceptance.
+ * Reference: checkBatch on one file holding the accepted CSVs under one header — the pooled
+ * least-squares fit is the fit on the stacked rows (normal equations add: X'X = Σ X_b'X_b).
+ */
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
+import { eq } from "drizzle-orm";
+import { getDb, getPool } from "@/db/client";
+import { organisations, studies, studyAnalysts, studyProviders, dataPlans } from "@/db/schema";
+import { barleyBatches } from "@/lib/demo/batches";
+import { BARLEY_PLAN } from "@/lib/demo/plans";
+import { checkBatch, hashPlan, parsePlan, type ReadinessReport } from "@/lib/readiness";
+import { decideVersion } from "@/lib/triage/decide";
+import { getIfAccepted, getStudyPool, getStudyRef } from "@/lib/pool/pool";
+import { streamOf, uploadAndCheck, userId } from "./helpers/pipeline";
+
+vi.mock("server-only", () => ({}));
+
+const db = getDb();
+const SLUG = `pool-merge-${process.pid}`;
+
+/** A study of its own with the barley plan, so batches of other test files never enter its pool. */
+async function scratchStudy(slug: string) {
+  const parsed = parsePlan(BARLEY_PLAN);
+  if (!parsed.ok) throw new Error("demo plan invalid");
+  const lead = await userId("lead@lowmoor.test");
+  const [team] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, "lowmoor"));
+  const [s] = await db.insert(studies).values({ slug, title: `Pool test ${slug}`, teamOrganisationId: team?.id ?? null, currentPlanVersion: 1, createdById: lead }).$returningId();
+  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
+  for (const org of ["harrowgate", "fennick-hill"]) {
+    const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, org));
+    await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
+  }
+  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
+  return { id: s!.id, plan: parsed.plan };
+}
+
+/** The CSVs under one header (all demo barley files share it). */
+function concat(csvs: string[]): string {
+  return csvs.map((c, i) => (i === 0 ? c : c.slice(c.indexOf("\n") + 1))).join("");
+}
+
+const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
+
+function expectSameFigures(pool: ReadinessReport, ref: ReadinessReport) {
+  expect(pool.rows).toEqual(ref.rows);
+  expect(pool.model.parameters).toBe(ref.model.parameters);
+  expect(pool.model.residualDf).toBe(ref.model.residualDf);
+  expect(pool.fit).not.toBeNull();
+  expect(ref.fit).not.toBeNull();
+  expect(rel(pool.fit!.rSquared, ref.fit!.rSquared)).toBeLessThan(1e-9);
+  expect(rel(pool.fit!.F!, ref.fit!.F!)).toBeLessThan(1e-9);
+  expect(pool.fit!.coefficients.map((c) => c.term)).toEqual(ref.fit!.coefficients.map((c) => c.term));
+  pool.fit!.coefficients.forEach((c, i) => {
+    const r = ref.fit!.coefficients[i]!;
+    if (r.estimate === null) expect(c.estimate).toBeNull();
+    else expect(rel(c.estimate!, r.estimate)).toBeLessThan(1e-9);
+    if (r.stdError !== null) expect(rel(c.stdError!, r.stdError)).toBeLessThan(1e-9);
+  });
+}
+
+let plan: Awaited<ReturnType<typeof scratchStudy>>["plan"];
+beforeAll(async () => {
+  plan = (await scratchStudy(SLUG)).plan;
+});
+afterAll(async () => {
+  await getPool().end();
+});
+
+describe("the pool", () => {
+  const demo = barleyBatches();
+  const harrowgate = demo[0]!.csv;
+  const fennick = demo[1]!.csv;
+  const bracken = demo[2]!.csv;
+  const coldwell = demo[5]!.csv;
+
+  it("is empty before anything is accepted, and a bounced version never enters it", async () => {
+    const analyst = await userId("analyst@lowmoor.test");
+    const up = await uploadAndCheck("provider@fennick.test", SLUG, fennick);
+    const r = await decideVersion(db, analyst, up.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan, please." });
+    expect(r.ok).toBe(true);
+    const pool = await getStudyPool(db, (await getStudyRef(db, { slug: SLUG }))!);
+    expect(pool.members).toHaveLength(0);
+    expect(pool.report.rows.total).toBe(0);
+    expect(pool.report.findings[0]?.code).toBe("pool.empty");
+  });
+
+  it("equals checkBatch on the concatenated accepted files, and each acceptance updates it", async () => {
+    const analyst = await userId("analyst@lowmoor.test");
+    const study = (await getStudyRef(db, { slug: SLUG }))!;
+    const a = await uploadAndCheck("provider@harrowgate.test", SLUG, harrowgate, { name: "harrowgate.csv" });
+    expect((await decideVersion(db, analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    const one = await getStudyPool(db, study);
+    expect(one.members.map((m) => m.batchPublicId)).toEqual([a.batchPublicId]);
+    expectSameFigures(one.report, await checkBatch(streamOf(harrowgate), plan));
+
+    const b = await uploadAndCheck("provider@harrowgate.test", SLUG, coldwell, { name: "coldwell.csv" });
+    const c = await uploadAndCheck("provider@fennick.test", SLUG, bracken, { name: "bracken.csv" });
+    // "if accepted" for b before its acceptance: the pool of a + b, and drift against a
+    const ifB = await getIfAccepted(db, b.batchPublicId, 1);
+    expect(ifB).not.toBeNull();
+    expect(ifB!.poolMembers).toBe(1);
+    expectSameFigures(ifB!.after, await checkBatch(streamOf(concat([harrowgate, coldwell])), plan));
+    // c lost a third of irrigation_mm: missingness moved by more than 10 points against the pool [CHECKS.md "Pool and drift"]
+    const ifC = await getIfAccepted(db, c.batchPublicId, 1);
+    expect(ifC!.drift.map((f) => `${f.code}:${f.columns.join()}`)).toContain("drift.missing:irrigation_mm");
+
+    expect((await decideVersion(db, analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    expect((await decideVersion(db, analyst, c.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    const three = await getStudyPool(db, study);
+    expect(three.members).toHaveLength(3);
+    const ref = await checkBatch(streamOf(concat([harrowgate, coldwell, bracken])), plan);
+    expect(ref.rows.total).toBe(180 + 240 + 150);
+    expectSameFigures(three.report, ref);
+    // the level counts per factor add up over the pool
+    const soil = three.report.columns.find((col) => col.name === "soil");
+    expect(soil?.levels?.reduce((s, l) => s + l.count, 0)).toBe(ref.columns.find((col) => col.name === "soil")?.levels?.reduce((s, l) => s + l.count, 0));
+    // once decided, a version has no "if accepted"
+    expect(await getIfAccepted(db, c.batchPublicId, 1)).toBeNull();
+  });
+
+  it("takes a resubmitted batch's newest version once accepted and never its superseded one", async () => {
+    const analyst = await userId("analyst@lowmoor.test");
+    const study = (await getStudyRef(db, { slug: SLUG }))!;
+    const otter = demo[3]!.csv;
+    const v1 = await uploadAndCheck("provider@harrowgate.test", SLUG, otter, { name: "otter-v1.csv" });
+    const v2csv = concat([otter, demo[0]!.csv.split("\n").slice(0, 41).join("\n") + "\n"]);
+    await uploadAndCheck("provider@harrowgate.test", SLUG, v2csv, { batchPublicId: v1.batchPublicId, name: "otter-v2.csv" });
+    // version 1 is superseded: it can neither be decided nor enter the pool
+    expect((await decideVersion(db, analyst, v1.batchPublicId, 1, { decision: "accept" })).ok).toBe(false);
+    expect(await getIfAccepted(db, v1.batchPublicId, 1)).toBeNull();
+    const during = await getStudyPool(db, study);
+    expect(during.members.map((m) => m.fileName).sort()).toEqual(["bracken.csv", "coldwell.csv", "harrowgate.csv"]);
+
+    expect((await decideVersion(db, analyst, v1.batchPublicId, 2, { decision: "accept" })).ok).toBe(true);
+    const after = await getStudyPool(db, study);
+    expect(after.members.map((m) => `${m.fileName}@${m.version}`).sort()).toEqual(["bracken.csv@1", "coldwell.csv@1", "harrowgate.csv@1", "otter-v2.csv@2"]);
+    expectSameFigures(after.report, await checkBatch(streamOf(concat([harrowgate, coldwell, bracken, v2csv])), plan));
+  });
+});
