@@ -10,6 +10,7 @@ import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { apiTokens, batches, batchVersions, dataPlans, organisations, studies, studyAnalysts, studyProviders, users, type UserRole } from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-tokens";
+import { DEMO_STUDIES, planHash } from "@/lib/demo";
 
 export const WORLD_PASSWORD = "correct-horse-battery";
 
@@ -69,7 +70,9 @@ export async function createWorld(): Promise<World> {
   const study = async (slug: string) => {
     const [row] = await db.insert(studies).values({ slug: `${slug}-${tag}`, title: `Study ${slug} ${tag}`, teamOrganisationId: team.id }).$returningId();
     if (!row) throw new Error("no study id");
-    await db.insert(dataPlans).values({ studyId: row.id, version: 1, plan: { columns: [] }, planHash: "0".repeat(64) });
+    // a real, valid plan (the demo barley plan), so code that parses every study's plan is not upset by ours
+    const plan = DEMO_STUDIES[0]!.plan;
+    await db.insert(dataPlans).values({ studyId: row.id, version: 1, plan, planHash: planHash(plan) });
     await db.update(studies).set({ currentPlanVersion: 1 }).where(eq(studies.id, row.id));
     return { id: row.id, slug: `${slug}-${tag}` };
   };
