@@ -89,6 +89,8 @@ async function generate() {
 
 interface Timed {
   wallS: number;
+  /** user + system CPU seconds (all threads) */
+  cpuS: number;
   peakMB: number;
   stdout: string;
   status: number | null;
@@ -102,8 +104,10 @@ function timed(cmd: string, args: string[]): Timed {
   const wallS = (performance.now() - t0) / 1000;
   const m = /Maximum resident set size \(kbytes\): (\d+)/.exec(res.stderr ?? "");
   const peakMB = m ? Number(m[1]) / 1024 : NaN;
+  const user = Number(/User time \(seconds\): ([\d.]+)/.exec(res.stderr ?? "")?.[1] ?? NaN);
+  const sys = Number(/System time \(seconds\): ([\d.]+)/.exec(res.stderr ?? "")?.[1] ?? NaN);
   if (res.status !== 0 && res.status !== 1) process.stderr.write(res.stderr ?? "");
-  return { wallS, peakMB, stdout: res.stdout ?? "", status: res.status };
+  return { wallS, cpuS: user + sys, peakMB, stdout: res.stdout ?? "", status: res.status };
 }
 
 const R_SCRIPT = `
@@ -154,7 +158,8 @@ async function main() {
   } catch {
     process.stdout.write(`CLI output was not JSON (exit ${cli.status})\n`);
   }
-  process.stdout.write(`CLI: ${cli.wallS.toFixed(2)} s wall, ${(ROWS / cli.wallS).toLocaleString("en", { maximumFractionDigits: 0 })} rows/s, peak ${cli.peakMB.toFixed(0)} MB, F = ${F}\n`);
+  const load = (await import("node:os")).loadavg()[0]!.toFixed(1);
+  process.stdout.write(`CLI: ${cli.wallS.toFixed(2)} s wall (${cli.cpuS.toFixed(2)} s CPU; load average ${load}), ${(ROWS / cli.wallS).toLocaleString("en", { maximumFractionDigits: 0 })} rows/s, peak ${cli.peakMB.toFixed(0)} MB, F = ${F}\n`);
   const rscript = spawnSync("sh", ["-c", "command -v Rscript"], { encoding: "utf8" }).stdout.trim();
   if (!rscript) {
     process.stdout.write("Rscript not found: R comparison skipped\n");
@@ -166,8 +171,8 @@ async function main() {
   const rF = Number(/^F (\S+)/m.exec(r.stdout)?.[1] ?? NaN);
   const rN = Number(/^n (\d+)/m.exec(r.stdout)?.[1] ?? NaN);
   const cond = /condition number (\S+)/.exec(r.stdout)?.[1];
-  process.stdout.write(`R:   ${r.wallS.toFixed(2)} s wall, peak ${r.peakMB.toFixed(0)} MB, F = ${rF}, n = ${rN}, condition number ${cond}\n`);
-  process.stdout.write(`ratio CLI/R: time ${(cli.wallS / r.wallS).toFixed(2)} (target ≤ 0.5), memory ${(cli.peakMB / r.peakMB).toFixed(2)}; peak ${cli.peakMB.toFixed(0)} MB (target < 400)\n`);
+  process.stdout.write(`R:   ${r.wallS.toFixed(2)} s wall (${r.cpuS.toFixed(2)} s CPU), peak ${r.peakMB.toFixed(0)} MB, F = ${rF}, n = ${rN}, condition number ${cond}\n`);
+  process.stdout.write(`ratio CLI/R: time ${(cli.wallS / r.wallS).toFixed(2)} (target ≤ 0.5), CPU ${(cli.cpuS / r.cpuS).toFixed(2)}, memory ${(cli.peakMB / r.peakMB).toFixed(2)}; peak ${cli.peakMB.toFixed(0)} MB (target < 400)\n`);
   if (F !== null) process.stdout.write(`F agreement: relative difference ${(Math.abs(F - rF) / rF).toExponential(2)}; complete cases ${n === rN ? "equal" : `differ (${n} vs ${rN})`}\n`);
 }
 

@@ -21,6 +21,8 @@ export interface CheckOptions {
   fileName?: string;
   /** tighter or looser reading limits (tests) */
   limits?: Partial<CsvLimits>;
+  /** "papaparse" turns off the quote-free fast path (tests compare both) */
+  tokenizer?: "auto" | "papaparse";
 }
 
 function canonical(v: unknown): string {
@@ -81,7 +83,7 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
   const scan = new Scan(plan);
   let read: Awaited<ReturnType<typeof readCsv>>;
   try {
-    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits });
+    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits, tokenizer: opts.tokenizer });
   } catch (e) {
     if (e instanceof UnreadableError) return unreadableReport(plan, planHash, e, null, now() - t0);
     throw e;

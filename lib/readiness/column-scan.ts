@@ -5,7 +5,7 @@
  */
 import { Moments, QuantileStore, RowSample, type MomentsJSON } from "./accumulators";
 import type { PlanColumn } from "./plan";
-import { parseBoolean, parseDate, readDecimalComma, readNumber } from "./values";
+import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber } from "./values";
 
 /** distinct values kept per column for level tables */
 export const LEVEL_CAP = 5000;
@@ -54,6 +54,12 @@ export class ColumnScan {
   /** parsed value of the current row (number, boolean 0/1) */
   value = NaN;
   status: FieldStatus = 0;
+  /** the text of the current field for category/text/profile columns ("" otherwise) */
+  str = "";
+  /** level-table entry of the current field (category columns) */
+  lastLevel: LevelAcc | undefined = undefined;
+  /** numbers may be read straight from the text (no missing token looks like a number) */
+  private spanNumbers: boolean;
   private tokens: Set<string>;
   private maxToken: number;
   private sentinelSet: Set<number>;
@@ -68,6 +74,7 @@ export class ColumnScan {
   ) {
     this.tokens = new Set([...fileTokens, ...(plan?.missingTokens ?? [])]);
     this.maxToken = Math.max(0, ...[...this.tokens].map((x) => x.length));
+    this.spanNumbers = [...this.tokens].every((x) => readNumber(x) !== readNumber(x));
     this.sentinelSet = new Set(plan?.sentinels ?? []);
     this.missing = new RowSample(sampleCap);
     this.mismatch = new RowSample(sampleCap);
@@ -118,12 +125,80 @@ export class ColumnScan {
 
   private level(s: string, line: number): void {
     const m = this.levels!;
-    const acc = m.get(s);
+    this.str = s;
+    let acc = m.get(s);
     if (acc) {
       acc.count++;
       if (acc.rows.length < this.sampleCap) acc.rows.push(line);
-    } else if (m.size < LEVEL_CAP) m.set(s, { count: 1, complete: 0, rows: [line] });
+    } else if (m.size < LEVEL_CAP) m.set(s, (acc = { count: 1, complete: 0, rows: [line] }));
     else this.levelOverflow++;
+    this.lastLevel = acc;
+  }
+
+  /**
+   * Read the field text[a, b) — the quote-free fast path: plain decimals in numeric columns
+   * are read from the characters without making a string; everything else goes through read().
+   */
+  readSpan(text: string, a: number, b: number, line: number): void {
+    const n = b - a;
+    if ((this.kind === "number" || this.kind === "integer") && n > 0 && n <= 16 && this.spanNumbers) {
+      let i = a;
+      let neg = false;
+      if (text.charCodeAt(i) === 45) {
+        neg = true;
+        i++;
+      }
+      let m = 0;
+      let digits = 0;
+      let frac = -1;
+      for (; i < b; i++) {
+        const c = text.charCodeAt(i);
+        if (c >= 48 && c <= 57) {
+          m = m * 10 + (c - 48);
+          digits++;
+          if (frac >= 0) frac++;
+        } else if (c === 46 && frac < 0) frac = 0;
+        else break;
+      }
+      if (i === b && digits > 0 && digits <= 15) {
+        let v = frac > 0 ? m / POW10[frac]! : m;
+        if (neg) v = -v;
+        const isInt = Number.isInteger(v);
+        if (this.kind === "number" || isInt) {
+          this.total++;
+          if (this.infer.seen < INFER_LIMIT) {
+            const f = this.infer;
+            f.seen++;
+            f.number++;
+            if (isInt) f.integer++;
+            if (v === 0 || v === 1) f.boolean++;
+          }
+          this.valueNumber(v, line);
+          return;
+        }
+      }
+    }
+    this.read(text.substring(a, b), line);
+  }
+
+  /** A parsed number of a number/integer column: sentinels, range, moments. */
+  private valueNumber(v: number, line: number): void {
+    if (this.sentinelSet.size && this.sentinelSet.has(v)) {
+      let r = this.sentinels.get(v);
+      if (!r) this.sentinels.set(v, (r = new RowSample(this.sampleCap)));
+      r.add(line);
+      this.missing.add(line);
+      this.status = 0;
+      return;
+    }
+    const p = this.plan!;
+    if ((p.min !== undefined && v < p.min) || (p.max !== undefined && v > p.max)) {
+      this.range.add(line);
+      if (this.rangeExamples.length < 5 && !this.rangeExamples.includes(v)) this.rangeExamples.push(v);
+    }
+    this.numeric(v, line);
+    this.value = v;
+    this.status = 1;
   }
 
   private extremes(v: number, line: number): void {
@@ -165,6 +240,7 @@ export class ColumnScan {
     if (this.isMissing(s)) {
       this.missing.add(line);
       this.status = 0;
+      this.str = s;
       return;
     }
     if (this.infer.seen < INFER_LIMIT) this.inferOne(s);
@@ -189,22 +265,7 @@ export class ColumnScan {
           this.status = 2;
           return;
         }
-        if (this.sentinelSet.size && this.sentinelSet.has(v)) {
-          let r = this.sentinels.get(v);
-          if (!r) this.sentinels.set(v, (r = new RowSample(this.sampleCap)));
-          r.add(line);
-          this.missing.add(line);
-          this.status = 0;
-          return;
-        }
-        const p = this.plan!;
-        if ((p.min !== undefined && v < p.min) || (p.max !== undefined && v > p.max)) {
-          this.range.add(line);
-          if (this.rangeExamples.length < 5 && !this.rangeExamples.includes(v)) this.rangeExamples.push(v);
-        }
-        this.numeric(v, line);
-        this.value = v;
-        this.status = 1;
+        this.valueNumber(v, line);
         return;
       }
       case "boolean": {

@@ -30,9 +30,11 @@ export interface CsvSink {
   onHeader(fields: string[], meta: CsvMeta): void;
   /** records with the 1-based line on which each starts (header = line 1) */
   onRecords(rows: string[][], lines: number[]): void;
+  /** optional fast path for quote-free text: complete lines text[from, to); returns [lines, records] */
+  onLines?(text: string, from: number, to: number, firstLine: number, delimiter: string): [number, number];
 }
 
-const BYTE_SLICE = 1 << 20;
+const BYTE_SLICE = 1 << 18;
 const TEXT_CHUNK = 1 << 18;
 const SNIFF_CHARS = 1 << 16;
 
@@ -125,6 +127,8 @@ export async function readCsv(
     onProgress?: (p: { rows: number; bytes: number }) => void;
     /** reading a byte range of a larger file: its header and format are known, and where it starts */
     range?: { meta: CsvMeta; byteOffset: number; firstLine: number };
+    /** "papaparse": tokenize everything with papaparse (no quote-free fast path) */
+    tokenizer?: "auto" | "papaparse";
   } = {},
 ): Promise<{ bytes: number; records: number; meta: CsvMeta | null; blankLines: number }> {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
@@ -150,6 +154,21 @@ export async function readCsv(
       parser = new Papa.Parser({ delimiter: s.delimiter, newline: s.newline as "\n", quoteChar: '"' });
     }
     if (!last && text.length < TEXT_CHUNK) return;
+    if (sink.onLines && opts.tokenizer !== "papaparse" && headerSeen && meta.newline !== "\r" && text.length <= limits.maxFieldChars && text.indexOf('"') < 0) {
+      // quote-free text: every line is one record; no tokenizer needed
+      const cut = last ? text.length : text.lastIndexOf("\n") + 1;
+      if (cut > 0) {
+        const [n, recs] = sink.onLines(text, 0, cut, line, meta.delimiter);
+        line += n;
+        records += recs;
+        text = text.substring(cut);
+        if (opts.onProgress && (records - lastProgress >= 50_000 || last)) {
+          lastProgress = records;
+          opts.onProgress({ rows: records, bytes });
+        }
+        return;
+      }
+    }
     const res = parser!.parse(text, 0, !last) as { data: string[][]; errors: { code: string; row: number }[]; meta: { cursor: number } };
     const hasQuote = text.indexOf('"') >= 0;
     const checkFields = text.length > limits.maxFieldChars;

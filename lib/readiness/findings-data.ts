@@ -3,7 +3,7 @@
  * computed from the engine state, so the pool gets them too; row evidence is attached when
  * the live pass has it.
  */
-import { finding, list, pct, quote } from "./findings";
+import { finding, list, pct, quote, rowsOf as nRows } from "./findings";
 import type { Plan, Thresholds } from "./plan";
 import type { Finding } from "./report";
 import type { EngineState } from "./state";
@@ -60,7 +60,7 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
         "note",
         top && top.rows > 0 ? [top.column] : [],
         `${complete.toLocaleString("en")} of ${total.toLocaleString("en")} rows (${pct(complete / total)}) are complete for the planned model.` +
-          (top && top.rows > 0 ? ` ${quote(top.column)} costs most: ${top.rows.toLocaleString("en")} rows are incomplete only because of it.` : ""),
+          (top && top.rows > 0 ? ` ${quote(top.column)} costs most: ${nRows(top.rows)} ${top.rows === 1 ? "is" : "are"} incomplete only because of it.` : ""),
         top && top.rows > 0 ? `Completing ${quote(top.column)} would recover the most rows for the model.` : "Complete the missing or unusable values of the model columns.",
         { rowCount: total - complete, detail: { complete, total, costs } },
       ),
@@ -76,7 +76,7 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
         "missing.pattern",
         "note",
         [...new Set(patterns.flatMap((p) => p.columns))],
-        `Most frequent missingness patterns among the model columns: ${patterns.map((p) => `${p.columns.join(" + ")} missing in ${p.count.toLocaleString("en")} rows`).join("; ")}.`,
+        `Most frequent missingness patterns among the model columns: ${patterns.map((p) => `${p.columns.join(" + ")} missing in ${nRows(p.count)}`).join("; ")}.`,
         "Check whether the same rows lose several values together (a skipped form, a broken sensor); such gaps are worth recovering at the source.",
         { detail: { patterns } },
       ),
@@ -117,7 +117,7 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
             "level.unknown",
             "blocker",
             [pc.name],
-            `${quote(pc.name)} has ${unknown.length} level${unknown.length > 1 ? "s" : ""} not in the plan: ${list(unknown.map((l) => `${quote(l[0])} (${l[1]} rows)`))}. Allowed: ${list(planned.map(quote), 20)}.`,
+            `${quote(pc.name)} has ${unknown.length} level${unknown.length > 1 ? "s" : ""} not in the plan: ${list(unknown.map((l) => `${quote(l[0])} (${nRows(l[1])})`))}. Allowed: ${list(planned.map(quote), 20)}.`,
             `Correct these values to one of the plan's levels (${list(planned, 20)}), or ask the analyst to add the level to the data plan.`,
             { rows: unknown.flatMap((l) => rowsOf(l[0])).sort((a, b) => a - b).slice(0, t.sampleRows), rowCount: count, detail: { levels: unknown.map((l) => ({ level: l[0], count: l[1] })) } },
           ),
@@ -153,7 +153,7 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
           "level.variant",
           "warning",
           [pc.name],
-          `${quote(pc.name)} has spelling variants of the same level: ${list(merges.map((m) => `${quote(m.from)} → ${quote(m.to)} (${m.count} rows)`))}.`,
+          `${quote(pc.name)} has spelling variants of the same level: ${list(merges.map((m) => `${quote(m.from)} → ${quote(m.to)} (${nRows(m.count)})`))}.`,
           `Merge the variants: ${merges.map((m) => `write ${quote(m.to)} instead of ${quote(m.from)}`).join("; ")}.`,
           { rows: merges.flatMap((m) => rowsOf(m.from)).sort((a, b) => a - b).slice(0, t.sampleRows), rowCount: merges.reduce((s, m) => s + m.count, 0), detail: { merges } },
         ),

@@ -3,7 +3,7 @@
  * file produces them, with sample row numbers as a spreadsheet shows them.
  */
 import type { ColumnScan } from "./column-scan";
-import { finding, list, pct, quote } from "./findings";
+import { finding, list, pct, quote, rowsOf } from "./findings";
 import type { Finding } from "./report";
 import type { Scan } from "./scan";
 
@@ -97,7 +97,7 @@ export function rowFindings(scan: Scan): Finding[] {
     if (!key.dup.count) continue;
     const name = scan.cols[k]!.name;
     out.push(
-      finding("key.duplicate", "blocker", [name], `The key ${quote(name)} repeats in ${fmt(key.dup.count)} rows${key.examples.size ? ` (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))})` : ""}.`, `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`, {
+      finding("key.duplicate", "blocker", [name], `The key ${quote(name)} repeats in ${rowsOf(key.dup.count)}${key.examples.size ? ` (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))})` : ""}.`, `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`, {
         rows: key.dup.rows,
         rowCount: key.dup.count,
         detail: { examples: Object.fromEntries(key.examples) },
@@ -135,7 +135,7 @@ export function rowFindings(scan: Scan): Finding[] {
     }
     for (const [v, r] of c.sentinels) {
       out.push(
-        finding("number.sentinel", "warning", [c.name], `${quote(c.name)} holds the declared missing-value code ${v} in ${fmt(r.count)} rows; they are read as missing.`, `Leave the cells empty instead of writing ${v}, so that nobody mistakes it for a measurement.`, {
+        finding("number.sentinel", "warning", [c.name], `${quote(c.name)} holds the declared missing-value code ${v} in ${rowsOf(r.count)}; they are read as missing.`, `Leave the cells empty instead of writing ${v}, so that nobody mistakes it for a measurement.`, {
           rows: r.rows,
           rowCount: r.count,
           detail: { value: v, declared: true },
@@ -150,7 +150,7 @@ export function rowFindings(scan: Scan): Finding[] {
             "number.sentinel",
             "warning",
             [c.name],
-            `${quote(c.name)} holds ${s.value} in ${fmt(s.count)} rows, far outside its other values (${s.z.toFixed(0)} standard deviations away): probably a code for “missing”.`,
+            `${quote(c.name)} holds ${s.value} in ${rowsOf(s.count)}, far outside its other values (${s.z.toFixed(0)} standard deviations away): probably a code for “missing”.`,
             `If ${s.value} means “not measured”, leave those cells empty (or ask the analyst to declare ${s.value} as a missing-value code in the plan); otherwise correct the values.`,
             { rows: s.rows, rowCount: s.count, detail: { value: s.value, declared: false, z: s.z } },
           ),

@@ -31,3 +31,6 @@ export function countFindings(fs: Finding[]): { blocker: number; warning: number
 export const pct = (x: number) => `${(100 * x).toFixed(x < 0.001 && x > 0 ? 2 : 1)} %`;
 export const quote = (s: string) => `“${s}”`;
 export const list = (xs: string[], max = 8) => (xs.length > max ? `${xs.slice(0, max).join(", ")} and ${xs.length - max} more` : xs.join(", "));
+
+/** "1 row", "2 rows", "1,234 rows" */
+export const rowsOf = (n: number) => `${n.toLocaleString("en")} row${n === 1 ? "" : "s"}`;

@@ -5,7 +5,7 @@
 import { Moments } from "./accumulators";
 import { analyse, designOf } from "./analyse";
 import { ENGINE_VERSION, hashPlan } from "./check";
-import { countFindings, finding, pct, quote, sortFindings } from "./findings";
+import { countFindings, finding, pct, quote, rowsOf, sortFindings } from "./findings";
 import { thresholdsOf, type Plan } from "./plan";
 import { REPORT_FORMAT, type Finding, type ReadinessReport } from "./report";
 import { isEngineState, mergeStates, type EngineState } from "./state";
@@ -85,7 +85,7 @@ export function driftFindings(poolState: unknown, batchState: unknown, plan: Pla
       const fresh = b.levels.filter((l) => l[1] > 0 && !known.has(l[0]));
       if (fresh.length) {
         out.push(
-          finding("drift.new-level", pc.role === "predictor" ? "warning" : "note", [pc.name], `${quote(pc.name)} has level${fresh.length > 1 ? "s" : ""} not seen in the pool: ${fresh.map((l) => `${quote(l[0])} (${l[1]} rows)`).join(", ")}.`, "Check that the new levels are genuine; a new level adds an indicator column to the pooled model.", {
+          finding("drift.new-level", pc.role === "predictor" ? "warning" : "note", [pc.name], `${quote(pc.name)} has level${fresh.length > 1 ? "s" : ""} not seen in the pool: ${fresh.map((l) => `${quote(l[0])} (${rowsOf(l[1])})`).join(", ")}.`, "Check that the new levels are genuine; a new level adds an indicator column to the pooled model.", {
             rowCount: fresh.reduce((s, l) => s + l[1], 0),
             detail: { levels: fresh.map((l) => ({ level: l[0], count: l[1] })) },
           }),

@@ -2,7 +2,7 @@
  * The single streaming pass: header checks, per-column accumulators, the design rows of the
  * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
  */
-import { HASH, HashSet64, RowSample, hashFields } from "./accumulators";
+import { HASH, HashSet64, RowSample, hashFields, hashSpan } from "./accumulators";
 import { ColumnScan, type ColumnPart } from "./column-scan";
 import type { CsvMeta, CsvSink } from "./csv-reader";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
@@ -68,6 +68,9 @@ export class Scan implements CsvSink {
   private rowSet = new HashSet64(DUPLICATE_CAP);
   keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number> }>();
   private keyList: number[] = [];
+  private keyHash = new Float64Array(0);
+  private spanStarts = new Int32Array(0);
+  private spanEnds = new Int32Array(0);
   predictors: Predictor[];
   design: Design;
   private encoder: RowEncoder;
@@ -132,6 +135,9 @@ export class Scan implements CsvSink {
       }
     }
     this.keyList = [...this.keys.keys()];
+    this.keyHash = new Float64Array(2 * this.keyList.length);
+    this.spanStarts = new Int32Array(fields.length);
+    this.spanEnds = new Int32Array(fields.length);
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
     this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
@@ -260,19 +266,95 @@ export class Scan implements CsvSink {
   onRecords(rows: string[][], lines: number[]): void {
     const cols = this.cols;
     const ncol = cols.length;
-    const model = this.model;
-    const nModel = model.length;
     for (let r = 0; r < rows.length; r++) {
       const f = rows[r]!;
       const line = lines[r]!;
       if (f.length !== ncol) {
-        this.ragged.add(line);
-        this.raggedWidths.set(f.length, (this.raggedWidths.get(f.length) ?? 0) + 1);
+        this.raggedRow(line, f.length);
         continue;
       }
       this.rowsTotal++;
       for (let j = 0; j < ncol; j++) cols[j]!.read(f[j]!, line);
+      for (let q = 0; q < this.keyList.length; q++) {
+        hashFields(f, this.keyList[q]!, this.keyList[q]! + 1);
+        this.keyHash[2 * q] = HASH.a;
+        this.keyHash[2 * q + 1] = HASH.b;
+      }
       hashFields(f);
+      this.finishRow(line);
+    }
+  }
+
+  private raggedRow(line: number, width: number): void {
+    this.ragged.add(line);
+    this.raggedWidths.set(width, (this.raggedWidths.get(width) ?? 0) + 1);
+  }
+
+  /**
+   * The quote-free fast path: complete lines text[from, to) (each ending in \n, the last one
+   * possibly not), the first numbered firstLine. Returns [lines consumed, records read].
+   */
+  onLines(text: string, from: number, to: number, firstLine: number, delimiter: string): [number, number] {
+    const cols = this.cols;
+    const ncol = cols.length;
+    const starts = this.spanStarts;
+    const ends = this.spanEnds;
+    const dc = delimiter.charCodeAt(0);
+    let line = firstLine;
+    let records = 0;
+    let pos = from;
+    while (pos < to) {
+      let end = text.indexOf("\n", pos);
+      if (end < 0 || end > to) end = to;
+      let e = end;
+      if (e > pos && text.charCodeAt(e - 1) === 13) e--;
+      const here = line;
+      line++;
+      const next = end + 1;
+      if (e === pos) {
+        pos = next;
+        continue;
+      }
+      // field boundaries; a row of the wrong width is ragged
+      let j = 0;
+      let a = pos;
+      for (;;) {
+        let d = text.indexOf(delimiter, a);
+        if (d < 0 || d > e) d = e;
+        if (j < ncol) {
+          starts[j] = a;
+          ends[j] = d;
+        }
+        j++;
+        if (d >= e) break;
+        a = d + 1;
+      }
+      pos = next;
+      records++;
+      if (j !== ncol) {
+        this.raggedRow(here, j);
+        continue;
+      }
+      this.rowsTotal++;
+      for (let k = 0; k < ncol; k++) cols[k]!.readSpan(text, starts[k]!, ends[k]!, here);
+      for (let q = 0; q < this.keyList.length; q++) {
+        const k = this.keyList[q]!;
+        hashSpan(text, starts[k]!, ends[k]!, dc);
+        this.keyHash[2 * q] = HASH.a;
+        this.keyHash[2 * q + 1] = HASH.b;
+      }
+      hashSpan(text, starts[0]!, e, dc);
+      this.finishRow(here);
+    }
+    return [line - firstLine, records];
+  }
+
+  /** After the columns of one row were read and HASH holds the row's hash (keys' in keyHash). */
+  private finishRow(line: number): void {
+    const cols = this.cols;
+    const model = this.model;
+    const nModel = model.length;
+    {
       const prev = this.rowSet.addOrGet(HASH.a, HASH.b, line);
       if (prev) {
         this.duplicateRows.add(line);
@@ -280,16 +362,16 @@ export class Scan implements CsvSink {
       }
       for (let q = 0; q < this.keyList.length; q++) {
         const k = this.keyList[q]!;
-        if (cols[k]!.status !== 1) continue;
+        const c = cols[k]!;
+        if (c.status !== 1) continue;
         const key = this.keys.get(k)!;
-        hashFields(f, k, k + 1);
-        if (key.set.addOrGet(HASH.a, HASH.b, line)) {
+        if (key.set.addOrGet(this.keyHash[2 * q]!, this.keyHash[2 * q + 1]!, line)) {
           key.dup.add(line);
-          const v = f[k]!;
+          const v = c.str || String(c.value);
           if (key.examples.size < 10 || key.examples.has(v)) key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
         }
       }
-      if (!this.ready) continue;
+      if (!this.ready) return;
       // the planned model: complete cases, patterns, least squares
       let unusable = 0;
       let sole = -1;
@@ -303,7 +385,7 @@ export class Scan implements CsvSink {
           const pi = this.response ? m - 1 : m;
           const p = this.predictors[pi]!;
           if (ok && p.kind === "category") {
-            const s = f[this.predIdx[pi]!]!;
+            const s = c.str;
             let li = this.levelIndex[pi]!.get(s);
             if (li === undefined) {
               if (p.open) li = this.addLevel(pi, s);
@@ -339,11 +421,11 @@ export class Scan implements CsvSink {
         this.pm.addRow(this.pmRow);
       }
       if (unusable === 1) this.soleUnusable[sole]!++;
-      if (unusable > 0) continue;
+      if (unusable > 0) return;
       this.rowsComplete++;
       for (let pi = 0; pi < this.predictors.length; pi++) {
         if (this.predictors[pi]!.kind === "category") {
-          const acc = cols[this.predIdx[pi]!]!.levels!.get(f[this.predIdx[pi]!]!);
+          const acc = cols[this.predIdx[pi]!]!.lastLevel;
           if (acc) acc.complete++;
         }
       }

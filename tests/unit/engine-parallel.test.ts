@@ -9,7 +9,7 @@ import path from "node:path";
 import { describe, expect, test } from "vitest";
 import { checkBatch, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
-import { HEADER, cleanRows, csvOf, plan } from "../fixtures/engine/data";
+import { HEADER, chunks, cleanRows, csvOf, plan } from "../fixtures/engine/data";
 
 function close(x: unknown, y: unknown, at: string): void {
   if (typeof x === "number" && typeof y === "number") {
@@ -23,6 +23,29 @@ function close(x: unknown, y: unknown, at: string): void {
   }
   expect(y, at).toEqual(x);
 }
+
+describe("the quote-free fast path equals papaparse tokenizing", () => {
+  test("a 30,000-row file with defects of every row-level kind, CRLF line ends and blank lines", async () => {
+    const rows = cleanRows(30_000);
+    const S = HEADER.indexOf("soil");
+    rows[100]![S] = "peat";
+    rows[7000]![S] = "Clay";
+    rows[20_000] = [...rows[10]!];
+    rows[25_000]![HEADER.indexOf("nitrogen")] = "n/a";
+    rows[26_000]![HEADER.indexOf("nitrogen")] = "12,5";
+    rows[27_000]![HEADER.indexOf("rainfall")] = -999;
+    rows[27_001]![HEADER.indexOf("rainfall")] = -999;
+    rows[28_000]![HEADER.indexOf("irrigation")] = "NA";
+    rows[29_000] = [1, 2, 3];
+    const text = csvOf(HEADER, rows, ";", "\r\n").replace("\r\n5;", "\r\n\r\n5;");
+    const p = plan();
+    const fast = await checkBatch(chunks(text, 100_000), p);
+    const slow = await checkBatch(chunks(text, 100_000), p, { tokenizer: "papaparse" });
+    const strip = ({ timings: _t, ...rest }: ReadinessReport) => rest;
+    expect(fast.findings.length).toBeGreaterThan(6);
+    close(strip(slow), strip(fast), "report");
+  });
+});
 
 describe("checkFile with worker threads equals one pass", () => {
   test("3 ranges, defects in every range and duplicates across ranges", async () => {
