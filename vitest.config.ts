@@ -1,7 +1,11 @@
 import { defineConfig } from "vitest/config";
 import path from "node:path";
 
-const alias = { "@": path.resolve(import.meta.dirname) };
+const alias = {
+  "@": path.resolve(import.meta.dirname),
+  // server code imports "server-only", which throws outside a React server build
+  "server-only": path.resolve(import.meta.dirname, "tests/helpers/server-only.ts"),
+};
 
 export default defineConfig({
   resolve: { alias },
