@@ -1,10 +1,14 @@
 // GET /api/v1/batches[?studyId=&state=] — the batches the caller may see, with their latest version's state.
+// POST /api/v1/batches — upload a batch file (multipart: study, file, batch?, label?); the same pipeline as the browser.
 import { z } from "zod";
 import { BATCH_STATES } from "@/db/schema";
 import { apiRoute } from "@/lib/api/route";
 import { parseQuery } from "@/lib/api/parse";
 import { jsonData } from "@/lib/api/respond";
 import { listBatchesForUser } from "@/lib/dal/batches";
+import { AppError } from "@/lib/errors";
+import { env } from "@/lib/env";
+import { uploadBatchViaApi } from "@/lib/intake/api-upload";
 
 const querySchema = z.object({
   studyId: z.coerce.number().int().positive("studyId is a positive whole number.").optional(),
@@ -15,4 +19,52 @@ const querySchema = z.object({
 export const GET = apiRoute({ action: "batch.read" }, async ({ req, actor }) => {
   const query = parseQuery(req, querySchema);
   return jsonData(await listBatchesForUser(actor, query));
+});
+
+const uploadFields = z.object({
+  study: z.string().trim().min(1, "Name the study by its slug in the field 'study'."),
+  batch: z.string().trim().min(1).max(32).optional(),
+  label: z.string().trim().max(200, "Keep the label under 200 characters.").optional(),
+});
+
+export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) => {
+  const type = req.headers.get("content-type") ?? "";
+  if (!type.startsWith("multipart/form-data")) {
+    throw new AppError("invalid", "Send the batch as multipart/form-data with the fields 'study' and 'file' (and 'batch' for a new version).");
+  }
+  const limit = env().MAX_UPLOAD_MB * 1024 * 1024;
+  const length = Number(req.headers.get("content-length") ?? 0);
+  if (length > limit + 64 * 1024) {
+    throw new AppError("invalid", `The upload is larger than the ${env().MAX_UPLOAD_MB} MB limit. Split the batch into smaller files.`);
+  }
+  let form: FormData;
+  try {
+    form = await req.formData();
+  } catch {
+    throw new AppError("invalid", "The multipart body could not be read. Send the fields 'study' and 'file'.");
+  }
+  const file = form.get("file");
+  if (!(file instanceof File)) throw new AppError("invalid", "Attach the batch file in the field 'file'.", { fieldErrors: { file: ["Attach the batch file."] } });
+  const fields = uploadFields.safeParse({
+    study: form.get("study") ?? undefined,
+    batch: form.get("batch") || undefined,
+    label: form.get("label") || undefined,
+  });
+  if (!fields.success) {
+    const first = fields.error.issues[0];
+    throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: { [String(first?.path[0] ?? "_form")]: [first?.message ?? "invalid"] } });
+  }
+  const done = await uploadBatchViaApi(actor, { studySlug: fields.data.study, batchId: fields.data.batch, label: fields.data.label, file });
+  return jsonData(
+    {
+      batchId: done.batchPublicId,
+      version: done.version,
+      state: "received",
+      links: {
+        batch: `/api/v1/batches/${done.batchPublicId}`,
+        report: `/api/v1/batches/${done.batchPublicId}/versions/${done.version}/report`,
+      },
+    },
+    201,
+  );
 });
