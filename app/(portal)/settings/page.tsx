@@ -3,12 +3,17 @@ import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { PASSWORD_MIN_LENGTH } from "@/lib/auth/password-rules";
 import { roleLabel } from "@/lib/format";
+import { ApiTokens } from "@/components/settings/api-tokens";
+import { can } from "@/lib/auth/permissions";
+import { listApiTokens } from "@/lib/services/api-tokens";
 import { PasswordForm } from "./password-form";
+import { createTokenAction, revokeTokenAction } from "./token-actions";
 
 export const metadata = { title: "Settings" };
 
 export default async function SettingsPage() {
   const user = await requireUser();
+  const tokens = can(user.role, "token.manage") ? await listApiTokens(user.id) : [];
   return (
     <>
       <PageHeader title="Settings" description="Your account." />
@@ -27,6 +32,15 @@ export default async function SettingsPage() {
       <Section id="password" title="Change your password" note="After the change you sign in again; sessions on other devices end too.">
         <PasswordForm minLength={PASSWORD_MIN_LENGTH} />
       </Section>
+      {can(user.role, "token.manage") ? (
+        <Section id="tokens" title="API tokens" note="For scripts that upload batches or read reports through the API (see the README). A token can do what you can, no more.">
+          <ApiTokens
+            tokens={tokens.map((t) => ({ ...t, createdAt: t.createdAt.toISOString(), lastUsedAt: t.lastUsedAt?.toISOString() ?? null, revokedAt: t.revokedAt?.toISOString() ?? null }))}
+            create={createTokenAction}
+            revoke={revokeTokenAction}
+          />
+        </Section>
+      ) : null}
     </>
   );
 }
