@@ -3,6 +3,7 @@
 import { useState, type FormEvent } from "react";
 import { signIn } from "next-auth/react";
 import { Button } from "@/components/ui/button";
+import { useHydrated } from "@/lib/hooks/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { SIGN_IN_ERROR, signInErrorMessage } from "@/lib/auth/sign-in-errors";
@@ -19,6 +20,7 @@ function messageFor(code: string | null | undefined): string | null {
 }
 
 export function SignInForm({ next, initialError }: { next: string; initialError: string | null }) {
+  const hydrated = useHydrated();
   const [error, setError] = useState<string | null>(messageFor(initialError));
   const [busy, setBusy] = useState(false);
 
@@ -49,7 +51,7 @@ export function SignInForm({ next, initialError }: { next: string; initialError:
   }
 
   return (
-    <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-describedby="sign-in-error">
+    <form method="post" onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-describedby="sign-in-error">
       <Field id="email" label="E-mail">
         <Input name="email" type="email" autoComplete="username" required autoFocus />
       </Field>
@@ -65,7 +67,7 @@ export function SignInForm({ next, initialError }: { next: string; initialError:
         >
           {error}
         </div>
-        <Button type="submit" busy={busy} className="w-full">
+        <Button type="submit" disabled={!hydrated} busy={busy} className="w-full">
           {busy ? "Signing in" : "Sign in"}
         </Button>
       </div>

@@ -4,11 +4,13 @@ import { startTransition, useActionState, useEffect, useRef } from "react";
 import { signOut } from "next-auth/react";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
+import { useHydrated } from "@/lib/hooks/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { changePasswordAction, type ChangePasswordState } from "./actions";
 
 export function PasswordForm({ minLength }: { minLength: number }) {
+  const hydrated = useHydrated();
   const [state, action, pending] = useActionState<ChangePasswordState, FormData>(changePasswordAction, null);
   const formRef = useRef<HTMLFormElement>(null);
   const errors = state && !state.ok ? (state.fieldErrors ?? {}) : {};
@@ -30,6 +32,7 @@ export function PasswordForm({ minLength }: { minLength: number }) {
 
   return (
     <form
+      method="post"
       ref={formRef}
       onSubmit={(e) => {
         e.preventDefault();
@@ -53,7 +56,7 @@ export function PasswordForm({ minLength }: { minLength: number }) {
         {state && !state.ok && state.fieldErrors ? state.message : ""}
       </p>
       <div>
-        <Button type="submit" busy={pending}>
+        <Button type="submit" disabled={!hydrated} busy={pending}>
           Change password
         </Button>
       </div>

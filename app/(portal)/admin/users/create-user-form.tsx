@@ -3,6 +3,7 @@
 import { startTransition, useActionState, useEffect, useRef, useState } from "react";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
+import { useHydrated } from "@/lib/hooks/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Select } from "@/components/ui/select";
@@ -13,6 +14,7 @@ import { createUserAction, type CreateUserState } from "./actions";
 type Org = { id: number; name: string; kind: "provider" | "team" };
 
 export function CreateUserForm({ organisations, passwordMinLength }: { organisations: Org[]; passwordMinLength: number }) {
+  const hydrated = useHydrated();
   const [state, action, pending] = useActionState<CreateUserState, FormData>(createUserAction, null);
   const [role, setRole] = useState<UserRole>("provider");
   const formRef = useRef<HTMLFormElement>(null);
@@ -34,6 +36,7 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
 
   return (
     <form
+      method="post"
       ref={formRef}
       // submitted by hand so React does not clear the fields when the server sends errors back
       onSubmit={(e) => {
@@ -71,7 +74,7 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
         <Input name="password" type="password" autoComplete="new-password" required minLength={passwordMinLength} />
       </Field>
       <div className="flex items-end gap-3 self-start pt-6">
-        <Button type="submit" busy={pending}>
+        <Button type="submit" disabled={!hydrated} busy={pending}>
           Create user
         </Button>
       </div>
