@@ -17,6 +17,8 @@ declare module "vitest" {
   export interface ProvidedContext {
     databaseUrl: string;
     databaseName: string;
+    /** schema and seed rows of the run's database as SQL; isolate-db.ts copies it per test file */
+    databaseTemplateSql: string;
   }
 }
 
@@ -90,12 +92,16 @@ export default async function setup(project: TestProject): Promise<() => void> {
   process.env.DATABASE_URL = url;
   project.provide("databaseUrl", url);
   project.provide("databaseName", name);
+  project.provide("databaseTemplateSql", db("dump", name));
 
   return () => {
     if (process.env.KEEP_TEST_DB === "1") {
       console.log(`kept test database ${name}`);
       return;
     }
+    // the run's database and the per-file copies of files that did not finish
+    const out = db("sql", "--skip-column-names", "-e", `SHOW DATABASES LIKE '${name.replace(/_/g, "\\_")}\\_%'`);
+    for (const n of out.split("\n").map((s) => s.trim()).filter(Boolean)) db("drop-db", n);
     db("drop-db", name);
   };
 }
