@@ -9,6 +9,10 @@ set -uo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib/common.sh"
 cd "$TRIBUTARY_ROOT"
 
+# whatever stops the run before the totals, the last line is still the totals line
+totals_printed=0
+trap '(( totals_printed )) || { echo "the test run stopped before any suite finished (see above)"; echo "0 passed, 1 failed"; }' EXIT
+
 require_node
 ensure_apt_packages mariadb-server chromium r-base-core r-cran-car r-cran-data.table
 ensure_node_modules
@@ -49,4 +53,11 @@ else
 fi
 
 # ---- totals: the last line is `N passed, N failed`
-"$BIN/tsx" scripts/totals.ts "$SUITES"
+summary="$("$BIN/tsx" scripts/totals.ts "$SUITES" 2>&1)"
+code=$?
+printf '%s\n' "$summary"
+if [[ "$(tail -n 1 <<<"$summary")" =~ ^[0-9]+\ passed,\ [0-9]+\ failed ]]; then
+  totals_printed=1
+  exit $code
+fi
+exit 1
