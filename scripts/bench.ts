@@ -144,7 +144,7 @@ async function main() {
   if (!process.argv.includes("--tsx")) {
     const { build } = await import("esbuild");
     const bundle = path.join(OUT, "check.cjs");
-    await build({ entryPoints: ["scripts/check.ts"], bundle: true, platform: "node", format: "cjs", target: "node20", outfile: bundle, logLevel: "error" });
+    await build({ entryPoints: ["scripts/check.ts"], bundle: true, minify: true, platform: "node", format: "cjs", target: "node20", outfile: bundle, logLevel: "error" });
     cliArgs = [bundle];
   }
   const cli = timed(process.execPath, [...cliArgs, CSV, "--plan", PLAN, "--json"]);

@@ -8,7 +8,7 @@ import { createReadStream, readFileSync, statSync } from "node:fs";
 import { draftPlan, parsePlan, type ReadinessReport } from "../lib/readiness";
 import { checkFile, isRangeWorker, runRangeWorker } from "../lib/readiness/node";
 
-const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json]
+const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json] [--workers N]
        npm run check -- FILE --draft-plan [--response COLUMN]`;
 
 function fail(msg: string): never {
@@ -17,13 +17,18 @@ function fail(msg: string): never {
 }
 
 function parseArgs(argv: string[]) {
-  const out: { file?: string; plan?: string; json: boolean; draft: boolean; response?: string } = { json: false, draft: false };
+  const out: { file?: string; plan?: string; json: boolean; draft: boolean; response?: string; workers?: number } = { json: false, draft: false };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
     if (a === "--json") out.json = true;
     else if (a === "--draft-plan") out.draft = true;
     else if (a === "--plan") out.plan = argv[++i] ?? fail("--plan needs a file name");
     else if (a === "--response") out.response = argv[++i] ?? fail("--response needs a column name");
+    else if (a === "--workers") {
+      const n = Number(argv[++i]);
+      if (!Number.isInteger(n) || n < 1 || n > 16) fail("--workers needs a whole number from 1 to 16");
+      out.workers = n;
+    }
     else if (a === "--help" || a === "-h") {
       process.stdout.write(`${USAGE}\n`);
       process.exit(0);
@@ -101,7 +106,7 @@ async function main() {
   }
   const showProgress = size > 20 << 20;
   let last = 0;
-  const workers = process.env.TRIBUTARY_WORKERS !== undefined ? Number(process.env.TRIBUTARY_WORKERS) : undefined;
+  const workers = args.workers ?? (process.env.TRIBUTARY_WORKERS !== undefined ? Number(process.env.TRIBUTARY_WORKERS) : undefined);
   const report = await checkFile(args.file, parsed.plan, {
     workers,
     fileName: args.file,

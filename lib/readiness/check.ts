@@ -21,6 +21,8 @@ export interface CheckOptions {
   fileName?: string;
   /** tighter or looser reading limits (tests) */
   limits?: Partial<CsvLimits>;
+  /** a faster decoder for pure-ASCII chunks (lib/readiness/node.ts passes Node's) */
+  fastAscii?: (b: Uint8Array) => string | null;
   /** "papaparse" turns off the quote-free fast path (tests compare both) */
   tokenizer?: "auto" | "papaparse";
 }
@@ -83,7 +85,7 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
   const scan = new Scan(plan);
   let read: Awaited<ReturnType<typeof readCsv>>;
   try {
-    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits, tokenizer: opts.tokenizer });
+    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits, tokenizer: opts.tokenizer, fastAscii: opts.fastAscii });
   } catch (e) {
     if (e instanceof UnreadableError) return unreadableReport(plan, planHash, e, null, now() - t0);
     throw e;

@@ -127,12 +127,14 @@ export async function readCsv(
     onProgress?: (p: { rows: number; bytes: number }) => void;
     /** reading a byte range of a larger file: its header and format are known, and where it starts */
     range?: { meta: CsvMeta; byteOffset: number; firstLine: number };
+    /** a faster decoder for pure-ASCII chunks (Node: Buffer's latin1), null when a chunk is not ASCII */
+    fastAscii?: (b: Uint8Array) => string | null;
     /** "papaparse": tokenize everything with papaparse (no quote-free fast path) */
     tokenizer?: "auto" | "papaparse";
   } = {},
 ): Promise<{ bytes: number; records: number; meta: CsvMeta | null; blankLines: number }> {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
-  const utf8 = new Utf8Stream();
+  const utf8 = new Utf8Stream(opts.fastAscii);
   let bytes = opts.range?.byteOffset ?? 0;
   let head: Uint8Array | null = opts.range ? null : new Uint8Array(0);
   let bom = false;

@@ -103,6 +103,9 @@ export class Utf8Stream {
   private carry: Uint8Array | null = null;
   private carryOffset = 0;
 
+  /** `fastAscii`: an optional faster decoder for pure-ASCII chunks (returns null otherwise). */
+  constructor(private fastAscii?: (b: Uint8Array) => string | null) {}
+
   decode(chunk: Uint8Array, offset: number, last: boolean): string {
     let b = chunk;
     let start = offset;
@@ -132,7 +135,7 @@ export class Utf8Stream {
       }
     }
     const part = end === b.length ? b : b.subarray(0, end);
-    const text = this.decoder.decode(part);
+    const text = this.fastAscii?.(part) ?? this.decoder.decode(part);
     if (text.indexOf("\uFFFD") >= 0) {
       const at = firstInvalidUtf8(part);
       if (at >= 0 || (last && truncatedTail(part))) {

@@ -304,31 +304,36 @@ export class Scan implements CsvSink {
     let records = 0;
     let pos = from;
     while (pos < to) {
-      let end = text.indexOf("\n", pos);
-      if (end < 0 || end > to) end = to;
-      let e = end;
-      if (e > pos && text.charCodeAt(e - 1) === 13) e--;
+      // one pass over the line's characters: field boundaries and the line end
+      let j = 0;
+      let a = pos;
+      let i = pos;
+      for (; i < to; i++) {
+        const c = text.charCodeAt(i);
+        if (c === dc) {
+          if (j < ncol) {
+            starts[j] = a;
+            ends[j] = i;
+          }
+          j++;
+          a = i + 1;
+        } else if (c === 10) break;
+      }
+      const end = i;
+      // a CR before the LF belongs to the line end, not to the last field
+      const e = end > a && text.charCodeAt(end - 1) === 13 ? end - 1 : end;
       const here = line;
       line++;
       const next = end + 1;
-      if (e === pos) {
+      if (j === 0 && e === pos) {
         pos = next;
         continue;
       }
-      // field boundaries; a row of the wrong width is ragged
-      let j = 0;
-      let a = pos;
-      for (;;) {
-        let d = text.indexOf(delimiter, a);
-        if (d < 0 || d > e) d = e;
-        if (j < ncol) {
-          starts[j] = a;
-          ends[j] = d;
-        }
-        j++;
-        if (d >= e) break;
-        a = d + 1;
+      if (j < ncol) {
+        starts[j] = a;
+        ends[j] = e;
       }
+      j++;
       pos = next;
       records++;
       if (j !== ncol) {
