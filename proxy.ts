@@ -3,7 +3,7 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { getToken } from "next-auth/jwt";
 
-const PUBLIC_PAGES = ["/sign-in"];
+const PUBLIC_PAGES = ["/sign-in", "/forgot-password", "/set-password"];
 
 export function isPublicPath(pathname: string): boolean {
   if (pathname.startsWith("/api/") || pathname === "/api" || pathname.startsWith("/_next/")) return true;

@@ -17,6 +17,7 @@ const NAV: readonly NavItem[] = [
   { href: "/upload", label: "Upload", action: "batch.upload", roles: ["provider"] },
   { href: "/queue", label: "Review queue", action: "batch.decide" },
   { href: "/admin/users", label: "Users", action: "user.manage" },
+  { href: "/invite", label: "Invite", action: "user.invite", roles: ["lead"] },
   { href: "/mailbox", label: "Mailbox", action: "mailbox.read", demoOnly: true },
 ];
 

@@ -15,11 +15,4 @@ export async function runService<T>(name: string, body: () => Promise<Result<T>>
   }
 }
 
-/** MariaDB's duplicate-key error (ER_DUP_ENTRY), possibly wrapped by drizzle. */
-export function isDuplicateKey(e: unknown): boolean {
-  for (let cur: unknown = e, depth = 0; cur && depth < 4; depth++) {
-    if (typeof cur === "object" && cur !== null && "code" in cur && (cur as { code?: unknown }).code === "ER_DUP_ENTRY") return true;
-    cur = typeof cur === "object" && cur !== null && "cause" in cur ? (cur as { cause?: unknown }).cause : undefined;
-  }
-  return false;
-}
+export { isDuplicateKey } from "@/db/errors";

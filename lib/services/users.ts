@@ -11,6 +11,7 @@ import { changePasswordSchema, createUserSchema, updateUserSchema, userIdSchema 
 import { loadActor } from "./actor";
 import { recordAudit, type Tx } from "./audit";
 import { isDuplicateKey, runService } from "./run";
+import { issueUserLink } from "./user-links";
 
 export type UserRecord = {
   id: number;
@@ -59,7 +60,7 @@ function record(row: { id: number; email: string; name: string; role: UserRole; 
 }
 
 /**
- * Creates a user with a password. Admins (user.manage) create any role; leads (user.invite)
+ * Creates a user, with a password or (without one) invited by e-mail to set their own. Admins (user.manage) create any role; leads (user.invite)
  * create providers and analysts. A provider belongs to a provider organisation; other roles
  * to a team organisation or none. A taken e-mail is a field error.
  */
@@ -76,7 +77,7 @@ export async function createUser(actorId: number, input: unknown): Promise<Resul
       if (can(actor.role, "user.invite")) return fail("You can invite providers and analysts only.", { role: ["Choose provider or analyst."] }, "forbidden");
       throw new AppError("forbidden");
     }
-    const passwordHash = await hashPassword(data.password);
+    const passwordHash = data.password ? await hashPassword(data.password) : null;
 
     try {
       return await db.transaction(async (tx) => {
@@ -100,7 +101,8 @@ export async function createUser(actorId: number, input: unknown): Promise<Resul
           .$returningId();
         if (!created) throw new Error("insert into users returned no id");
         const rec: UserRecord = { id: created.id, email: data.email, name: data.name, role: data.role, organisationId: data.organisationId, active: true };
-        await recordAudit(tx, { actorId: actor.id, action: "user.create", objectType: "user", objectId: rec.id, before: null, after: rec });
+        await recordAudit(tx, { actorId: actor.id, action: data.password ? "user.create" : "user.invite", objectType: "user", objectId: rec.id, before: null, after: rec });
+        if (!data.password) await issueUserLink(tx, { userId: rec.id, kind: "invite", email: rec.email, name: rec.name, actorId: actor.id });
         return ok(rec);
       });
     } catch (e) {

@@ -29,7 +29,8 @@ export const createUserSchema = z.object({
     emptyToNull,
     z.coerce.number({ error: "Choose an organisation." }).int("Choose an organisation.").positive("Choose an organisation.").nullable(),
   ),
-  password: passwordSchema,
+  /** absent or empty: the user is invited by e-mail and sets a password through the link */
+  password: z.preprocess((v) => (v === "" || v === null ? undefined : v), passwordSchema.optional()),
 });
 export type CreateUserInput = z.infer<typeof createUserSchema>;
 

@@ -1,0 +1,12 @@
+"use server";
+
+import type { Result } from "@/lib/result";
+import { requestPasswordReset, setPasswordWithLink } from "@/lib/services/user-links";
+
+export async function requestResetAction(email: string): Promise<Result<null>> {
+  return requestPasswordReset(email);
+}
+
+export async function setPasswordAction(token: string, password: string, confirmPassword: string): Promise<Result<{ email: string }>> {
+  return setPasswordWithLink(token, { password, confirmPassword });
+}

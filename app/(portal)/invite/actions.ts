@@ -1,0 +1,12 @@
+"use server";
+
+import { getCurrentUser } from "@/lib/auth/session";
+import { fail, type Result } from "@/lib/result";
+import { createUser, type UserRecord } from "@/lib/services/users";
+
+/** Invites a provider or analyst: the account is created without a password and an e-mail link lets them choose one. */
+export async function inviteAction(input: { email: string; name: string; role: string; organisationId: string }): Promise<Result<UserRecord>> {
+  const actor = await getCurrentUser();
+  if (!actor) return fail("Your session has ended. Sign in again.");
+  return createUser(actor.id, { ...input, password: "" });
+}
