@@ -29,29 +29,49 @@ export interface MomentsJSON {
 
 export class Moments {
   n = 0;
-  mean = 0;
-  m2 = 0;
   min = Infinity;
   max = -Infinity;
+  /** shifted sums Σ(x − K), Σ(x − K)² with K the first value: no division per value, and no
+   * cancellation as long as the mean is within a few SDs of K */
+  private k = 0;
+  private s1 = 0;
+  private s2 = 0;
   add(x: number): void {
+    if (this.n === 0) this.k = x;
     this.n++;
-    const d = x - this.mean;
-    this.mean += d / this.n;
-    this.m2 += d * (x - this.mean);
+    const d = x - this.k;
+    this.s1 += d;
+    this.s2 += d * d;
     if (x < this.min) this.min = x;
     if (x > this.max) this.max = x;
+  }
+  get mean(): number {
+    return this.n > 0 ? this.k + this.s1 / this.n : 0;
+  }
+  /** Σ(x − x̄)² */
+  get m2(): number {
+    return this.n > 0 ? Math.max(0, this.s2 - (this.s1 * this.s1) / this.n) : 0;
   }
   merge(o: MomentsJSON): void {
     if (o.n === 0) return;
     if (this.n === 0) {
-      Object.assign(this, { n: o.n, mean: o.mean, m2: o.m2, min: o.min, max: o.max });
+      this.n = o.n;
+      this.k = o.mean;
+      this.s1 = 0;
+      this.s2 = o.m2;
+      this.min = o.min;
+      this.max = o.max;
       return;
     }
+    // Chan et al. (1979): pooled mean and sum of squares, then re-expressed around this K
     const n = this.n + o.n;
     const d = o.mean - this.mean;
-    this.m2 += o.m2 + (d * d * this.n * o.n) / n;
-    this.mean += (d * o.n) / n;
+    const m2 = this.m2 + o.m2 + (d * d * this.n * o.n) / n;
+    const mean = this.mean + (d * o.n) / n;
     this.n = n;
+    this.k = mean;
+    this.s1 = 0;
+    this.s2 = m2;
     this.min = Math.min(this.min, o.min);
     this.max = Math.max(this.max, o.max);
   }
@@ -244,6 +264,14 @@ export class HashSet64 {
     this.lo = new Uint32Array(1024);
     this.line = new Uint32Array(1024);
   }
+  /** Make room for about n entries at once (avoids rehashing while a large file is read). */
+  reserve(n: number): void {
+    const want = Math.min(this.maxEntries, Math.max(0, Math.floor(n))) * 2;
+    let cap = this.hi.length;
+    while (cap < want) cap *= 2;
+    if (cap > this.hi.length) this.grow(cap);
+  }
+
   /** Insert; returns the line of an earlier equal entry, 0 when new (or when the set is full). */
   addOrGet(h1: number, h2: number, line: number): number {
     if (h1 === 0 && h2 === 0) h2 = 1;
@@ -267,9 +295,9 @@ export class HashSet64 {
     if (this.size * 2 > this.hi.length) this.grow();
     return 0;
   }
-  private grow(): void {
+  private grow(to?: number): void {
     const { hi, lo, line } = this;
-    const cap = hi.length * 2;
+    const cap = to ?? hi.length * 2;
     this.hi = new Uint32Array(cap);
     this.lo = new Uint32Array(cap);
     this.line = new Uint32Array(cap);

@@ -21,6 +21,8 @@ export interface CheckOptions {
   fileName?: string;
   /** tighter or looser reading limits (tests) */
   limits?: Partial<CsvLimits>;
+  /** the input's size in bytes when known (sizes the duplicate tables up front) */
+  expectedBytes?: number;
   /** a faster decoder for pure-ASCII chunks (lib/readiness/node.ts passes Node's) */
   fastAscii?: (b: Uint8Array) => string | null;
   /** "papaparse" turns off the quote-free fast path (tests compare both) */
@@ -83,6 +85,7 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
   const t0 = now();
   const planHash = await hashPlan(plan);
   const scan = new Scan(plan);
+  scan.expectedBytes = opts.expectedBytes ?? 0;
   let read: Awaited<ReturnType<typeof readCsv>>;
   try {
     read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits, tokenizer: opts.tokenizer, fastAscii: opts.fastAscii });

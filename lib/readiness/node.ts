@@ -99,7 +99,7 @@ export async function checkFile(
   const size = fs.statSync(file).size;
   // default: one thread; on a shared two-core machine the merge costs more than the second core gains
   const workers = opts.workers ?? 1;
-  const single = () => checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, { fastAscii, ...opts });
+  const single = () => checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, { fastAscii, expectedBytes: size, ...opts });
   if (workers < 2 || size < (opts.minBytes ?? PARALLEL_MIN_BYTES)) return single();
   const t0 = now();
   const s = survey(file, size, workers);
@@ -158,6 +158,7 @@ export async function runRangeWorker(): Promise<void> {
   const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
   const scan = new Scan(job.plan);
   scan.onHeader(job.header, job.meta);
+  scan.expectedBytes = job.end - job.start;
   const sink: CsvSink = scan;
   try {
     const read = await readCsv(fs.createReadStream(job.file, { start: job.start, end: job.end - 1, highWaterMark: 1 << 20 }), sink, {

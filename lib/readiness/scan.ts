@@ -90,6 +90,8 @@ export class Scan implements CsvSink {
   pmCols: number[] = [];
   private pmRow: (number | null)[] = [];
   unknownLevels: Map<string, RowSample>[] = [];
+  /** size of the whole input in bytes when known: the hash tables are sized from it at the first lines */
+  expectedBytes = 0;
   ready = false;
 
   constructor(readonly plan: Plan) {
@@ -303,6 +305,15 @@ export class Scan implements CsvSink {
     let line = firstLine;
     let records = 0;
     let pos = from;
+    if (this.expectedBytes > 0 && to - from > 4096) {
+      // about as many rows as bytes / (bytes per line in this text); ~1 byte per character here
+      let nl = 0;
+      for (let i = text.indexOf("\n", from); i >= 0 && i < to; i = text.indexOf("\n", i + 1)) nl++;
+      const rows = (this.expectedBytes / Math.max(1, (to - from) / Math.max(1, nl))) * 1.05;
+      this.rowSet.reserve(rows);
+      for (const k of this.keys.values()) k.set.reserve(rows);
+      this.expectedBytes = 0;
+    }
     while (pos < to) {
       // one pass over the line's characters: field boundaries and the line end
       let j = 0;
