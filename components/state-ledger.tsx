@@ -32,7 +32,7 @@ export function StateLedger({ counts, label }: { counts: Record<BatchState, numb
           ))}
         </div>
       ) : (
-        <div className="h-3 w-full rounded-sm border border-dashed border-silt" aria-hidden="true" />
+        <div className="h-3 w-full rounded-sm bg-sand-deep" aria-hidden="true" title="No batches yet" />
       )}
       <dl className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-sm">
         {BATCH_STATE_ORDER.map((s) => (

@@ -20,7 +20,7 @@ export type StudyRow = {
 const total = (r: StudyRow) => Object.values(r.counts).reduce((a, b) => a + b, 0);
 
 function count(key: BatchState, header: string): Column<StudyRow> {
-  return { key, header, numeric: true, width: "minmax(6rem, 1fr)", value: (r) => r.counts[key] };
+  return { key, header, numeric: true, width: "minmax(5rem, 1fr)", value: (r) => r.counts[key] };
 }
 
 /** Studies with their batches by state; the provider, analyst and lead homes show different columns. */
@@ -29,7 +29,7 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
     {
       key: "title",
       header: "Study",
-      width: "minmax(14rem, 3fr)",
+      width: "minmax(12rem, 3fr)",
       value: (r) => r.title,
       render: (r) => (
         <span className="block">
@@ -38,18 +38,18 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
         </span>
       ),
     },
-    { key: "team", header: "Run by", width: "minmax(10rem, 2fr)", value: (r) => r.team },
+    { key: "team", header: "Run by", width: "minmax(8rem, 2fr)", value: (r) => r.team },
     {
       key: "status",
       header: "Status",
-      width: "6rem",
+      width: "5.5rem",
       value: (r) => r.status,
       render: (r) => <Badge tone={r.status === "open" ? "channel" : "neutral"}>{r.status === "open" ? "Open" : "Closed"}</Badge>,
     },
     {
       key: "plan",
       header: "Data plan",
-      width: "6rem",
+      width: "5.5rem",
       numeric: true,
       value: (r) => r.planVersion,
       render: (r) => (r.planVersion == null ? "none" : `v${r.planVersion}`),
@@ -71,6 +71,6 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
   }
   columns.push(count("ready", "Ready for review"), count("accepted", "Accepted"), count("bounced", "Bounced"));
   if (variant !== "analyst") columns.push(count("checking", "Checking"));
-  columns.push({ key: "total", header: variant === "provider" ? "Your batches" : "All batches", numeric: true, width: "minmax(5.5rem, 1fr)", value: total });
+  columns.push({ key: "total", header: variant === "provider" ? "Your batches" : "All batches", numeric: true, width: "minmax(5rem, 1fr)", value: total });
   return <DataTable rows={rows} columns={columns} caption={caption} filterPlaceholder="Filter studies" />;
 }
