@@ -5,7 +5,7 @@
  */
 import { Moments, QuantileStore, RowSample, type MomentsJSON } from "./accumulators";
 import type { PlanColumn } from "./plan";
-import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber } from "./values";
+import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
 /** distinct values kept per column for level tables */
 export const LEVEL_CAP = 5000;
@@ -176,6 +176,38 @@ export class ColumnScan {
           this.valueNumber(v, line);
           return;
         }
+      }
+    }
+    if (this.kind === "category" && n > this.maxToken && this.levels!.size <= 16) {
+      // a few levels: find the span among the known level strings without making a new string
+      for (const [l, acc] of this.levels!) {
+        if (l.length !== n) continue;
+        let i = 0;
+        while (i < n && l.charCodeAt(i) === text.charCodeAt(a + i)) i++;
+        if (i < n) continue;
+        if (text.charCodeAt(a) <= 32 || text.charCodeAt(b - 1) <= 32) break; // spaces: let read() decide
+        this.total++;
+        if (this.infer.seen < INFER_LIMIT) this.inferOne(l);
+        acc.count++;
+        if (acc.rows.length < this.sampleCap) acc.rows.push(line);
+        this.str = l;
+        this.lastLevel = acc;
+        this.status = 1;
+        return;
+      }
+    }
+    if (this.kind === "date" && n === 10 && n > this.maxToken && text.charCodeAt(a + 4) === 45 && text.charCodeAt(a + 7) === 45) {
+      const y = spanDigits(text, a, a + 4);
+      const m = spanDigits(text, a + 5, a + 7);
+      const d = spanDigits(text, a + 8, a + 10);
+      if (y >= 0 && m >= 0 && d >= 0 && validYmd(y, m, d)) {
+        this.total++;
+        if (this.infer.seen < INFER_LIMIT) {
+          this.infer.seen++;
+          this.infer.date++;
+        }
+        this.status = 1;
+        return;
       }
     }
     this.read(text.substring(a, b), line);
@@ -426,4 +458,14 @@ export interface ColumnPart {
   lo: Extreme;
   hi: Extreme;
   date: { a13: number; b13: number; pairs: number; ambiguous: { count: number; rows: number[] } | null };
+}
+
+function spanDigits(s: string, from: number, to: number): number {
+  let v = 0;
+  for (let i = from; i < to; i++) {
+    const c = s.charCodeAt(i) - 48;
+    if (c < 0 || c > 9) return -1;
+    v = v * 10 + c;
+  }
+  return v;
 }

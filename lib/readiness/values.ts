@@ -94,7 +94,7 @@ function digits(s: string, from: number, to: number): number {
   return v;
 }
 
-function validYmd(y: number, m: number, d: number): boolean {
+export function validYmd(y: number, m: number, d: number): boolean {
   if (m < 1 || m > 12 || d < 1) return false;
   const days = [31, (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0 ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1]!;
   return d <= days;
