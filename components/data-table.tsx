@@ -23,6 +23,8 @@ export type Column<T> = {
   /** CSS grid track, e.g. "minmax(8rem, 2fr)" or "7rem" */
   width?: string;
   sortable?: boolean;
+  /** false leaves the column out of the CSV (buttons, controls) */
+  csv?: boolean;
 };
 
 type Props<T extends TableNode> = {
@@ -137,9 +139,10 @@ export function DataTable<T extends TableNode>({
   }, [filtered, sortFns, sortState.sortKey, sortState.reverse]);
 
   function download() {
+    const out = columns.filter((c) => c.csv !== false);
     const csv = toCsv(
-      columns.map((c) => c.header),
-      visible.map((r) => columns.map((c) => c.value(r))),
+      out.map((c) => c.header),
+      visible.map((r) => out.map((c) => c.value(r))),
     );
     const blob = new Blob([csv], { type: "text/csv;charset=utf-8" });
     const url = URL.createObjectURL(blob);

@@ -119,3 +119,18 @@ test("pages carry the security headers", async ({ request }) => {
   expect(h["referrer-policy"]).toBe("strict-origin-when-cross-origin");
   expect(h["x-powered-by"]).toBeUndefined();
 });
+
+test("repeated failures for one e-mail are throttled with a message saying to wait", async ({ page }) => {
+  const signIn = new SignInPage(page);
+  await signIn.goto();
+  // lib/auth/rate-limit.ts: 10 failures per e-mail and address within 15 minutes, then refusal
+  const email = `throttle-${Date.now().toString(36)}@nowhere.test`;
+  for (let i = 0; i < 10; i++) {
+    await signIn.signIn(email, `wrong-${i}`);
+    await expect(signIn.error).toHaveText(WRONG);
+    await expect(signIn.submit).toBeEnabled();
+  }
+  await signIn.signIn(email, "wrong-again");
+  await expect(signIn.error).toContainText(/too many failed sign-ins/i);
+  await expect(signIn.error).toContainText(/wait/i);
+});

@@ -105,6 +105,7 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
       header: "Access",
       width: "8rem",
       sortable: false,
+      csv: false,
       value: () => null,
       render: (r) => <ActiveCell row={r} self={r.id === currentUserId} />,
     },
