@@ -54,7 +54,7 @@ function summary(r: ReadinessReport, file: string): string {
     lines.push(`  rows: ${r.rows.total.toLocaleString("en")} (complete for the model: ${r.rows.complete.toLocaleString("en")})`);
     lines.push(`  model: ${r.model.parameters} parameters, residual df ${r.model.residualDf} (target ${r.model.dfTarget})${r.model.perParameter !== null ? `, ${r.model.perParameter.toFixed(1)} rows per parameter` : ""}`);
     if (r.fit) {
-      lines.push(`  fit preview: R² ${fmtNum(r.fit.rSquared)}, adjusted ${fmtNum(r.fit.adjRSquared)}, F ${fmtNum(r.fit.F, 6)} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${fmtNum(r.fit.pValue, 3)}`);
+      lines.push(`  fit preview: R² ${fmtNum(r.fit.rSquared)}, adjusted ${fmtNum(r.fit.adjRSquared)}, F ${fmtNum(r.fit.F, 6)} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${r.fit.pValue === 0 ? "< 1e-300" : fmtNum(r.fit.pValue, 3)}`);
     }
   }
   lines.push(`  findings: ${c.blocker} blocker${c.blocker === 1 ? "" : "s"}, ${c.warning} warning${c.warning === 1 ? "" : "s"}, ${c.note} note${c.note === 1 ? "" : "s"}`);
