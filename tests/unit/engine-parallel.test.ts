@@ -47,6 +47,18 @@ describe("the quote-free fast path equals papaparse tokenizing", () => {
   });
 });
 
+describe("switching between the fast path and papaparse keeps line numbers", () => {
+  test("a quoted two-line value deep in the file shifts later rows by one line", async () => {
+    const rows = cleanRows(20_000);
+    rows[12_000]![HEADER.indexOf("farm")] = '"Harrowgate,\nnorth"';
+    rows[15_000]![HEADER.indexOf("nitrogen")] = "n/a";
+    const r = await checkBatch(chunks(csvOf(HEADER, rows), 65_536), plan());
+    // data row 15,000 (0-based) is line 15,002, plus one for the line break inside row 12,000
+    expect(r.findings.find((f) => f.code === "type.mismatch")?.rows).toEqual([15_003]);
+    expect(r.rows.total).toBe(20_000);
+  });
+});
+
 describe("checkFile with worker threads equals one pass", () => {
   test("3 ranges, defects in every range and duplicates across ranges", async () => {
     const rows = cleanRows(6000);
