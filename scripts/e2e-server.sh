@@ -22,6 +22,8 @@ export UPLOADTHING_CALLBACK_URL="${APP_URL}/api/uploadthing"
 export SMTP_URL="smtp://127.0.0.1:3412"
 export MAILBOX_URL="http://127.0.0.1:3413"
 export FAKE_UPLOAD_PORT=3411 FAKE_SMTP_PORT=3412 FAKE_MAILBOX_PORT=3413
+# the e2e fakes keep their files apart from the demo's (the tests clear the mailbox)
+export FAKE_UPLOAD_DIR=.data/e2e/uploads FAKE_MAIL_DIR=.data/e2e/mail
 
 say() { echo "[e2e-server] $*"; }
 
@@ -52,11 +54,18 @@ trap cleanup EXIT
 trap 'exit 143' TERM
 trap 'exit 130' INT
 
+rm -rf .data/e2e
 if [ -f fakes/run.ts ]; then
   node_modules/.bin/tsx fakes/run.ts &
   pids+=($!)
 else
   say "WARNING: fakes/run.ts not found; uploads and mail will not work in this run" >&2
+fi
+
+if [ -f lib/jobs/worker-main.ts ]; then
+  # the check worker and e-mail sender, as in the product
+  node_modules/.bin/tsx lib/jobs/worker-main.ts &
+  pids+=($!)
 fi
 
 say "starting the app on ${APP_URL}"

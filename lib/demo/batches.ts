@@ -35,7 +35,7 @@ export function rng(seed: number) {
 
 const round = (x: number, d: number) => Number(x.toFixed(d));
 
-const BARLEY_HEADER = [
+export const BARLEY_HEADER = [
   "plot_id", "harvest_date", "farm_plot_note", "yield_t_ha", "nitrogen_kg_ha", "irrigation_mm", "rainfall_mm",
   "total_water_mm", "soil", "variety", "sowing_doy", "plant_density", "organic_matter_pct",
 ] as const;

@@ -1,0 +1,44 @@
+import { expect, type Locator, type Page } from "@playwright/test";
+
+/** /upload and /batches/<id>: choosing a file, the check before upload, the report, the decision. */
+export class BatchPage {
+  readonly precheck: Locator;
+  readonly verdict: Locator;
+  readonly findings: Locator;
+
+  constructor(readonly page: Page) {
+    this.precheck = page.getByTestId("precheck");
+    this.verdict = page.getByTestId("verdict");
+    this.findings = page.getByRole("table", { name: "Findings" });
+  }
+
+  /** Chooses a file (built in memory) in the upload panel. */
+  async chooseFile(name: string, csv: string): Promise<void> {
+    await this.page.getByTestId("batch-file-input").setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
+  }
+
+  async upload(): Promise<string> {
+    await this.page.getByTestId("upload-button").click();
+    await this.page.waitForURL(/\/batches\/[A-Za-z0-9_-]+$/, { timeout: 60_000 });
+    return new URL(this.page.url()).pathname.split("/")[2] ?? "";
+  }
+
+  /** Waits until the report is on the page (the worker has checked the version). */
+  async waitForReport(): Promise<void> {
+    await expect(this.verdict).toBeVisible({ timeout: 60_000 });
+  }
+
+  async commentOnFinding(code: string, text: string): Promise<void> {
+    const form = this.page.getByTestId("decision-form");
+    const details = form.locator("details");
+    if (!(await details.evaluate((d) => (d as HTMLDetailsElement).open))) await details.locator("summary").click();
+    await form.locator(`textarea[data-finding-code="${code}"]`).first().fill(text);
+  }
+
+  async decide(decision: "accept" | "bounce", comment = ""): Promise<void> {
+    const form = this.page.getByTestId("decision-form");
+    if (comment) await form.getByLabel("Comment to the provider").fill(comment);
+    await form.getByTestId(decision === "accept" ? "accept-button" : "bounce-button").click();
+    await expect(this.page.getByTestId("decision")).toBeVisible({ timeout: 30_000 });
+  }
+}
