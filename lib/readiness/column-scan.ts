@@ -3,7 +3,7 @@
  * values, levels, moments, quartile store and extremes (for sentinel detection).
  * Memory per column is bounded by the caps below, never by the number of rows.
  */
-import { Moments, QuantileStore, RowSample, type MomentsJSON } from "./accumulators";
+import { Moments, QuantileStore, RowSample } from "./accumulators";
 import type { PlanColumn } from "./plan";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
@@ -69,7 +69,7 @@ export class ColumnScan {
     readonly name: string,
     readonly plan: PlanColumn | null,
     fileTokens: string[],
-    private sampleCap: number,
+    readonly sampleCap: number,
     quantCap: number,
   ) {
     this.tokens = new Set([...fileTokens, ...(plan?.missingTokens ?? [])]);
@@ -346,72 +346,6 @@ export class ColumnScan {
     }
   }
 
-  /** Everything this column gathered, as plain data (to send from a worker thread). */
-  part(): ColumnPart {
-    const rs = (r: RowSample) => ({ count: r.count, rows: r.rows });
-    return {
-      total: this.total,
-      missing: rs(this.missing),
-      infer: { ...this.infer },
-      levels: this.levels ? [...this.levels.entries()] : null,
-      levelOverflow: this.levelOverflow,
-      moments: this.moments.toJSON(),
-      quant: this.quant ? this.quant.part() : null,
-      mismatch: rs(this.mismatch),
-      offenders: [...this.offenders.entries()],
-      comma: rs(this.comma),
-      commaExamples: this.commaExamples,
-      range: rs(this.range),
-      rangeExamples: this.rangeExamples,
-      sentinels: [...this.sentinels.entries()].map(([v, r]) => [v, rs(r)] as [number, { count: number; rows: number[] }]),
-      lo: this.lo,
-      hi: this.hi,
-      date: { a13: this.date.a13, b13: this.date.b13, pairs: this.date.pairs, ambiguous: this.date.ambiguous ? rs(this.date.ambiguous) : null },
-    };
-  }
-
-  /** Add a later part of the same column (parts in file order): the result is that of one pass. */
-  absorb(p: ColumnPart): void {
-    this.total += p.total;
-    this.missing.absorb(p.missing);
-    for (const k of Object.keys(this.infer) as (keyof InferCounts)[]) this.infer[k] += p.infer[k];
-    if (this.levels && p.levels) {
-      for (const [l, a] of p.levels) {
-        const mine = this.levels.get(l);
-        if (mine) {
-          mine.count += a.count;
-          mine.complete += a.complete;
-          for (const r of a.rows) if (mine.rows.length < this.sampleCap) mine.rows.push(r);
-        } else if (this.levels.size < LEVEL_CAP) this.levels.set(l, { count: a.count, complete: a.complete, rows: a.rows.slice(0, this.sampleCap) });
-        else this.levelOverflow += a.count;
-      }
-    }
-    this.levelOverflow += p.levelOverflow;
-    this.moments.merge(p.moments);
-    if (this.quant && p.quant) this.quant.absorb(p.quant);
-    this.mismatch.absorb(p.mismatch);
-    for (const [v, n] of p.offenders) {
-      const c = this.offenders.get(v);
-      if (c !== undefined) this.offenders.set(v, c + n);
-      else if (this.offenders.size < OFFENDER_CAP) this.offenders.set(v, n);
-    }
-    this.comma.absorb(p.comma);
-    for (const e of p.commaExamples) if (this.commaExamples.length < 5 && !this.commaExamples.includes(e)) this.commaExamples.push(e);
-    this.range.absorb(p.range);
-    for (const e of p.rangeExamples) if (this.rangeExamples.length < 5 && !this.rangeExamples.includes(e)) this.rangeExamples.push(e);
-    for (const [v, r] of p.sentinels) {
-      let mine = this.sentinels.get(v);
-      if (!mine) this.sentinels.set(v, (mine = new RowSample(this.sampleCap)));
-      mine.absorb(r);
-    }
-    this.lo = mergeExtreme(this.lo, p.lo, 1, this.sampleCap);
-    this.hi = mergeExtreme(this.hi, p.hi, -1, this.sampleCap);
-    this.date.a13 += p.date.a13;
-    this.date.b13 += p.date.b13;
-    this.date.pairs += p.date.pairs;
-    if (this.date.ambiguous && p.date.ambiguous) this.date.ambiguous.absorb(p.date.ambiguous);
-  }
-
   /** The type the values look like, from the first INFER_LIMIT non-missing values. */
   inferredType(): "number" | "integer" | "category" | "date" | "boolean" | "text" | "empty" {
     const f = this.infer;
@@ -425,39 +359,6 @@ export class ColumnScan {
     if (distinct <= 50 || distinct <= f.seen * 0.2) return "category";
     return "text";
   }
-}
-
-type Extreme = { v: number; count: number; rows: number[]; next: number };
-
-/** Merge the smallest (dir 1) or largest (dir −1) value trackers of two parts. */
-function mergeExtreme(a: Extreme, b: Extreme, dir: 1 | -1, cap: number): Extreme {
-  const better = (x: number, y: number) => (dir === 1 ? x < y : x > y);
-  const pick = (...xs: number[]) => xs.reduce((m, x) => (better(x, m) ? x : m));
-  if (a.count === 0) return { ...b, rows: [...b.rows] };
-  if (b.count === 0) return a;
-  if (a.v === b.v) return { v: a.v, count: a.count + b.count, rows: [...a.rows, ...b.rows].slice(0, cap), next: pick(a.next, b.next) };
-  if (better(a.v, b.v)) return { ...a, next: pick(a.next, b.v) };
-  return { ...b, rows: [...b.rows], next: pick(b.next, a.v) };
-}
-
-export interface ColumnPart {
-  total: number;
-  missing: { count: number; rows: number[] };
-  infer: InferCounts;
-  levels: [string, LevelAcc][] | null;
-  levelOverflow: number;
-  moments: MomentsJSON;
-  quant: { values: Float64Array; seen: number } | null;
-  mismatch: { count: number; rows: number[] };
-  offenders: [string, number][];
-  comma: { count: number; rows: number[] };
-  commaExamples: string[];
-  range: { count: number; rows: number[] };
-  rangeExamples: number[];
-  sentinels: [number, { count: number; rows: number[] }][];
-  lo: Extreme;
-  hi: Extreme;
-  date: { a13: number; b13: number; pairs: number; ambiguous: { count: number; rows: number[] } | null };
 }
 
 function spanDigits(s: string, from: number, to: number): number {

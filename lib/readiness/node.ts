@@ -15,7 +15,8 @@ import { readCsv, sniffText, type CsvMeta, type CsvSink } from "./csv-reader";
 import { UnreadableError, sniffBytes } from "./decode";
 import type { Plan } from "./plan";
 import type { ReadinessReport } from "./report";
-import { Scan, type ScanPart } from "./scan";
+import { Scan } from "./scan";
+import { absorbPart, scanPart, type ScanPart } from "./scan-merge";
 
 /** Pure-ASCII bytes as a string through Buffer's latin1 decoding (identical to UTF-8 for ASCII, and faster). */
 export function fastAscii(b: Uint8Array): string | null {
@@ -132,7 +133,7 @@ export async function checkFile(
   let records = 0;
   results.forEach((r, i) => {
     if ("ok" in r && r.ok) {
-      scan.absorb(r.part, i === 0);
+      absorbPart(scan, r.part, i === 0);
       records += r.records;
     }
   });
@@ -166,7 +167,7 @@ export async function runRangeWorker(): Promise<void> {
       fastAscii,
       onProgress: (p) => parentPort!.postMessage({ progress: p.rows } satisfies RangeResult),
     });
-    const part = scan.part();
+    const part = scanPart(scan);
     const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
     parentPort!.postMessage({ ok: true, part, records: read.records } satisfies RangeResult, transfer as ArrayBuffer[]);
   } catch (e) {

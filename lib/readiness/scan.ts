@@ -2,36 +2,13 @@
  * The single streaming pass: header checks, per-column accumulators, the design rows of the
  * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
  */
-import { HASH, HashSet64, RowSample, hashFields, hashSpan } from "./accumulators";
-import { ColumnScan, type ColumnPart } from "./column-scan";
+import { RowSample } from "./accumulators";
+import { HASH, HashSet64, hashFields, hashSpan } from "./hashing";
+import { ColumnScan } from "./column-scan";
 import type { CsvMeta, CsvSink } from "./csv-reader";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
 import { thresholdsOf, type Plan, type Thresholds } from "./plan";
 import { LeastSquares, PatternMoments } from "./stats";
-import type { LeastSquaresJSON } from "./stats/least-squares";
-
-type Sample = { count: number; rows: number[] };
-type RawSet = ReturnType<HashSet64["raw"]>;
-
-/** A Scan's gatherings as plain data, to send from a worker thread that read one byte range. */
-export interface ScanPart {
-  rowsTotal: number;
-  rowsComplete: number;
-  ragged: Sample;
-  raggedWidths: [number, number][];
-  duplicateRows: Sample;
-  duplicateOf: [number, number][];
-  rowSet: RawSet;
-  keys: [number, { set: RawSet; dup: Sample; examples: [string, number][] }][];
-  levels: Record<string, string[]>;
-  designColumns: string[];
-  ls: LeastSquaresJSON;
-  pm: unknown | null;
-  patterns: [string, number][];
-  soleUnusable: number[];
-  responseMissing: Sample;
-  cols: ColumnPart[];
-}
 
 /** total values kept for exact quartiles across all columns (8 bytes each) */
 export const QUANTILE_BUDGET = 4_000_000;
@@ -65,7 +42,8 @@ export class Scan implements CsvSink {
   raggedWidths = new Map<number, number>();
   duplicateRows: RowSample;
   duplicateOf: [number, number][] = [];
-  private rowSet = new HashSet64(DUPLICATE_CAP);
+  /** @internal (scan-merge.ts) */
+  rowSet = new HashSet64(DUPLICATE_CAP);
   keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number> }>();
   private keyList: number[] = [];
   private keyHash = new Float64Array(0);
@@ -73,12 +51,14 @@ export class Scan implements CsvSink {
   private spanEnds = new Int32Array(0);
   predictors: Predictor[];
   design: Design;
-  private encoder: RowEncoder;
+  /** @internal (scan-merge.ts) */
+  encoder: RowEncoder;
   ls: LeastSquares;
   response: ModelColumn | null = null;
   model: ModelColumn[] = [];
   private predIdx: number[] = [];
-  private levelIndex: Map<string, number>[] = [];
+  /** @internal (scan-merge.ts) */
+  levelIndex: Map<string, number>[] = [];
   private vals: Float64Array;
   /** model columns used in the missingness patterns: response then predictors */
   patterns = new Map<string, number>();
@@ -157,87 +137,6 @@ export class Scan implements CsvSink {
       this.pmRow = numericModel.map(() => null);
     }
     this.ready = this.model.every((m) => m.index >= 0) && this.response !== null;
-  }
-
-  /** Everything gathered so far, as plain data (typed arrays can be transferred). */
-  part(): ScanPart {
-    const rs = (r: RowSample) => ({ count: r.count, rows: r.rows });
-    const levels: Record<string, string[]> = {};
-    for (const p of this.predictors) if (p.kind === "category") levels[p.name] = [...p.levels];
-    return {
-      rowsTotal: this.rowsTotal,
-      rowsComplete: this.rowsComplete,
-      ragged: rs(this.ragged),
-      raggedWidths: [...this.raggedWidths.entries()],
-      duplicateRows: rs(this.duplicateRows),
-      duplicateOf: this.duplicateOf,
-      rowSet: this.rowSet.raw(),
-      keys: [...this.keys.entries()].map(([k, v]) => [k, { set: v.set.raw(), dup: rs(v.dup), examples: [...v.examples.entries()] }]),
-      levels,
-      designColumns: [...this.design.columns],
-      ls: this.ls.toJSON() as LeastSquaresJSON,
-      pm: this.pm ? this.pm.toJSON() : null,
-      patterns: this.patternMasks(),
-      soleUnusable: [...this.soleUnusable],
-      responseMissing: rs(this.responseMissing),
-      cols: this.cols.map((c) => c.part()),
-    };
-  }
-
-  /**
-   * Add the part of a later byte range of the same file (parts in file order); afterwards this
-   * Scan holds what one pass over the whole file would (rows repeated across parts included).
-   */
-  absorb(p: ScanPart, first: boolean): void {
-    this.rowsTotal += p.rowsTotal;
-    this.rowsComplete += p.rowsComplete;
-    this.ragged.absorb(p.ragged);
-    for (const [w, n] of p.raggedWidths) this.raggedWidths.set(w, (this.raggedWidths.get(w) ?? 0) + n);
-    const mergeSet = (set: HashSet64, raw: RawSet, sample: RowSample, pairs: [number, number][] | null, partSample: Sample, partPairs: [number, number][]): HashSet64 => {
-      if (first) {
-        sample.absorb(partSample);
-        if (pairs) pairs.push(...partPairs.slice(0, this.t.sampleRows - pairs.length));
-        return HashSet64.fromRaw(raw, DUPLICATE_CAP);
-      }
-      const cross: number[] = [];
-      const crossPairs: [number, number][] = [];
-      HashSet64.fromRaw(raw, DUPLICATE_CAP).forEach((h1, h2, line) => {
-        const prev = set.addOrGet(h1, h2, line);
-        if (prev) {
-          cross.push(line);
-          crossPairs.push([line, prev]);
-        }
-      });
-      const rows = [...partSample.rows, ...cross].sort((a, b) => a - b).slice(0, this.t.sampleRows);
-      sample.absorb({ count: partSample.count + cross.length, rows });
-      if (pairs) pairs.push(...[...partPairs, ...crossPairs].sort((a, b) => a[0] - b[0]).slice(0, Math.max(0, this.t.sampleRows - pairs.length)));
-      return set;
-    };
-    this.rowSet = mergeSet(this.rowSet, p.rowSet, this.duplicateRows, this.duplicateOf, p.duplicateRows, p.duplicateOf);
-    for (const [k, v] of p.keys) {
-      const mine = this.keys.get(k);
-      if (!mine) continue;
-      mine.set = mergeSet(mine.set, v.set, mine.dup, null, v.dup, []);
-      for (const [e, n] of v.examples) if (mine.examples.size < 10 || mine.examples.has(e)) mine.examples.set(e, (mine.examples.get(e) ?? 0) + n);
-    }
-    // design: unite the level lists, then merge the least-squares factors on the united columns
-    for (const pr of this.predictors) {
-      if (pr.kind !== "category") continue;
-      for (const l of p.levels[pr.name] ?? []) if (!pr.levels.includes(l)) pr.levels.push(l);
-    }
-    const from = this.design.columns;
-    this.design = buildDesign(this.plan, this.predictors, true);
-    if (this.design.columns.join("\u0000") !== from.join("\u0000")) this.ls = this.ls.expandColumns(from, this.design.columns);
-    let other = LeastSquares.fromJSON(p.ls);
-    if (p.designColumns.join("\u0000") !== this.design.columns.join("\u0000")) other = other.expandColumns(p.designColumns, this.design.columns);
-    this.ls.merge(other);
-    this.levelIndex = this.predictors.map((pr) => new Map(pr.levels.map((l, j) => [l, j])));
-    this.encoder = new RowEncoder(this.plan, this.predictors, this.design, true);
-    if (this.pm && p.pm) this.pm.merge(PatternMoments.fromJSON(p.pm));
-    for (const [m, c] of p.patterns) this.patterns.set(m, (this.patterns.get(m) ?? 0) + c);
-    p.soleUnusable.forEach((v, i) => (this.soleUnusable[i]! += v));
-    this.responseMissing.absorb(p.responseMissing);
-    p.cols.forEach((c, i) => this.cols[i]?.absorb(c));
   }
 
   /** Missingness patterns over the model columns as strings ("1" = missing), with counts. */
