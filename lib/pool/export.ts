@@ -185,7 +185,7 @@ export function dataDictionary(pool: StudyPool, now = new Date()): DataDictionar
   };
 }
 
-const list = (xs: readonly (string | number)[] | null) => (xs ? xs.map((x) => (x === "" ? '""' : String(x))).join(" | ") : "");
+const list = (xs: readonly (string | number)[] | null) => (xs ? xs.map((x) => (x === "" ? "(empty)" : String(x))).join(" | ") : "");
 
 /** The dictionary's columns as CSV, one row per plan column; the pool figures as leading comment-free summary rows. */
 export function dataDictionaryCsv(d: DataDictionary): string {
