@@ -9,7 +9,8 @@ export class BatchPage {
   constructor(readonly page: Page) {
     this.precheck = page.getByTestId("precheck");
     this.verdict = page.getByTestId("verdict");
-    this.findings = page.getByRole("table", { name: "Findings" });
+    // react-table-library renders its tables with the grid role
+    this.findings = page.getByRole("grid", { name: "Findings" });
   }
 
   /** Chooses a file (built in memory) in the upload panel. */
