@@ -1,5 +1,6 @@
 "use client";
 
+import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
 import { StateBadge } from "@/components/state-badge";
 import { EmptyState } from "@/components/ui/empty-state";
@@ -38,7 +39,11 @@ export function BatchTable({
       header: "Batch",
       width: "minmax(12rem, 3fr)",
       value: (r) => r.title,
-      render: (r) => <span className="font-semibold">{r.title}</span>,
+      render: (r) => (
+        <Link href={`/batches/${r.publicId}`} className="font-semibold text-channel underline-offset-2 hover:underline">
+          {r.title}
+        </Link>
+      ),
     },
     { key: "study", header: "Study", width: "minmax(12rem, 3fr)", value: (r) => r.studyTitle },
   ];

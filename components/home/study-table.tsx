@@ -1,5 +1,6 @@
 "use client";
 
+import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
 import { Badge } from "@/components/ui/badge";
 import type { BatchState } from "@/db/schema";
@@ -33,7 +34,9 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
       value: (r) => r.title,
       render: (r) => (
         <span className="block">
-          <span className="block font-semibold">{r.title}</span>
+          <Link href={`/studies/${r.slug}`} className="block font-semibold text-channel underline-offset-2 hover:underline">
+            {r.title}
+          </Link>
           <span className="block font-mono text-xs text-silt-ink">{r.slug}</span>
         </span>
       ),
