@@ -54,6 +54,12 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  // leave the demo accounts' memberships as the seed made them, for the other test files
+  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
+  if (s) {
+    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
+    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
+  }
   await getPool().end();
 });
 
