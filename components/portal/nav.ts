@@ -16,6 +16,8 @@ const NAV: readonly NavItem[] = [
   { href: "/studies", label: "Studies", action: "study.read" },
   { href: "/upload", label: "Upload", action: "batch.upload", roles: ["provider"] },
   { href: "/queue", label: "Review queue", action: "batch.decide" },
+  { href: "/board", label: "Board", action: "board.read" },
+  { href: "/pool", label: "Pools", action: "pool.read" },
   { href: "/admin/users", label: "Users", action: "user.manage" },
   { href: "/invite", label: "Invite", action: "user.invite", roles: ["lead"] },
   { href: "/mailbox", label: "Mailbox", action: "mailbox.read", demoOnly: true },

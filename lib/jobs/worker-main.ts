@@ -3,6 +3,7 @@
  * Start as many as you like, on as many machines as share the database.
  */
 import { getDb, getPool } from "@/db/client";
+import { runDigestSchedule } from "@/lib/digest/schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/uploads";
 import { defaultWorkerId, runWorker } from "./worker";
@@ -21,6 +22,7 @@ log(`started as ${workerId}`);
 await Promise.all([
   runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
+  runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
 ]);
 await getPool().end();
 log("stopped");

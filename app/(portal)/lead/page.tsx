@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { getHomeSummary } from "@/lib/dal/home";
 import { getStudyForUser } from "@/lib/dal/studies";
 import { PageHeader } from "@/components/ui/page-header";
@@ -22,6 +23,16 @@ export default async function LeadHome() {
         eyebrow="Lead"
         title="Intake across studies"
         description="Where every batch stands, and which providers send data to each study."
+        actions={
+          <>
+            <Link href="/board" className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+              Status board
+            </Link>
+            <Link href="/pool" className="rounded border border-silt bg-white px-3 py-1.5 text-sm font-semibold text-ink hover:bg-sand-deep">
+              Pools
+            </Link>
+          </>
+        }
       />
       <Section id="by-state" title="All batches by state">
         <StateLedger counts={home.batchesByState} label="All batches by state" />

@@ -5,6 +5,7 @@ import { Section } from "@/components/ui/section";
 import { StateBadge } from "@/components/state-badge";
 import { CheckProgress } from "@/components/report/check-progress";
 import { DecisionForm } from "@/components/triage/decision-form";
+import { IfAcceptedPanel } from "@/components/pool/if-accepted";
 import { decideAction } from "./actions";
 import { ReportView, findingKey } from "@/components/report/report-view";
 import { requireUser } from "@/lib/auth/session";
@@ -130,6 +131,8 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
           <DecisionForm batchId={batch.publicId} version={version.version} findings={report.findings} canAccept={version.state === "ready"} decide={decideAction} />
         </Section>
       ) : null}
+
+      <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
 
       {report ? (
         <ReportView report={report} plan={found.plan.plan} csvPrefix={`${batch.publicId}-v${version.version}`} findingStatus={previous?.status} />
