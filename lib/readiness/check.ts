@@ -14,7 +14,7 @@ import { Scan } from "./scan";
 import { stateOf } from "./state";
 
 /** Version of the engine's checks; part of every report and state. */
-export const ENGINE_VERSION = "1.0.0";
+export const ENGINE_VERSION = "1.1.0";
 
 export interface CheckOptions {
   onProgress?: (p: { rows: number; bytes: number }) => void;

@@ -3,7 +3,7 @@
  * computed from the engine state, so the pool gets them too; row evidence is attached when
  * the live pass has it.
  */
-import { finding, list, pct, quote, rowsOf as nRows } from "./findings";
+import { finding, list, pct, quote, rowsOf as nRows, sampleOf } from "./findings";
 import type { Plan, Thresholds } from "./plan";
 import type { Finding } from "./report";
 import type { EngineState } from "./state";
@@ -25,15 +25,19 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
     const c = byName.get(pc.name);
     if (!c || c.total === 0 || c.missing === 0) continue;
     const frac = c.missing / c.total;
-    const severity = frac >= t.missingBlocker ? "blocker" : frac >= t.missingWarning ? "warning" : frac > t.missingNote ? "note" : null;
+    // the thresholds guard the planned model and the keys; a carried column's gaps cost the model nothing
+    const graded = pc.role === "response" || pc.role === "predictor" || pc.role === "key";
+    const severity = !graded ? (frac > t.missingNote ? "note" : null) : frac >= t.missingBlocker ? "blocker" : frac >= t.missingWarning ? "warning" : frac > t.missingNote ? "note" : null;
     if (!severity) continue;
     out.push(
       finding(
         "missing.column",
         severity,
         [pc.name],
-        `${quote(pc.name)} is missing in ${c.missing.toLocaleString("en")} of ${c.total.toLocaleString("en")} rows (${pct(frac)}).`,
-        severity === "note"
+        `${quote(pc.name)} is missing in ${c.missing.toLocaleString("en")} of ${c.total.toLocaleString("en")} rows (${pct(frac)})${graded ? "" : `; it is carried along, not part of the planned model, so this is only a note`}.`,
+        !graded
+          ? `Nothing to do if ${quote(pc.name)} is often left blank on purpose; fill it in where the value is known.`
+          : severity === "note"
           ? `Fill in the missing values of ${quote(pc.name)} where they are known; leave the cell empty only where the value was not recorded.`
           : `Recover the missing values of ${quote(pc.name)} from the field records before sending the batch; at ${pct(frac)} missing the rows are lost to the model.`,
         { rows: ev?.missingRows.get(pc.name) ?? [], rowCount: c.missing, detail: { fraction: frac } },
@@ -119,7 +123,7 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
             [pc.name],
             `${quote(pc.name)} has ${unknown.length} level${unknown.length > 1 ? "s" : ""} not in the plan: ${list(unknown.map((l) => `${quote(l[0])} (${nRows(l[1])})`))}. Allowed: ${list(planned.map(quote), 20)}.`,
             `Correct these values to one of the plan's levels (${list(planned, 20)}), or ask the analyst to add the level to the data plan.`,
-            { rows: unknown.flatMap((l) => rowsOf(l[0])).sort((a, b) => a - b).slice(0, t.sampleRows), rowCount: count, detail: { levels: unknown.map((l) => ({ level: l[0], count: l[1] })) } },
+            { rows: sampleOf(unknown.map((l) => rowsOf(l[0])), t.sampleRows), rowCount: count, detail: { levels: unknown.map((l) => ({ level: l[0], count: l[1] })) } },
           ),
         );
       }
@@ -140,10 +144,15 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
       const byCount = [...names].sort((a, b) => (countOf.get(b) ?? 0) - (countOf.get(a) ?? 0));
       for (const from of names) {
         if (planned.includes(from)) continue;
-        let to = planned.find((l) => near(from, l));
+        const folded = foldLevel(from);
+        let to = planned.find((l) => foldLevel(l) === folded) ?? planned.find((l) => near(from, l));
         const cf = countOf.get(from) ?? 0;
         const commoner = (l: string) => (countOf.get(l) ?? 0) > cf || ((countOf.get(l) ?? 0) === cf && l > from);
-        if (to === undefined) to = byCount.find((l) => l !== from && !planned.includes(l) && near(from, l) && commoner(l));
+        // a closed list merges only onto its own levels; an open (or absent) list onto the most frequent near spelling
+        if (to === undefined && !closed) {
+          const ok = (l: string) => l !== from && !planned.includes(l) && commoner(l);
+          to = byCount.find((l) => ok(l) && foldLevel(l) === folded) ?? byCount.find((l) => ok(l) && near(from, l));
+        }
         if (to !== undefined) merges.push({ from, to, count: countOf.get(from) ?? 0 });
       }
     }
@@ -155,7 +164,7 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
           [pc.name],
           `${quote(pc.name)} has spelling variants of the same level: ${list(merges.map((m) => `${quote(m.from)} → ${quote(m.to)} (${nRows(m.count)})`))}.`,
           `Merge the variants: ${merges.map((m) => `write ${quote(m.to)} instead of ${quote(m.from)}`).join("; ")}.`,
-          { rows: merges.flatMap((m) => rowsOf(m.from)).sort((a, b) => a - b).slice(0, t.sampleRows), rowCount: merges.reduce((s, m) => s + m.count, 0), detail: { merges } },
+          { rows: sampleOf(merges.map((m) => rowsOf(m.from)), t.sampleRows), rowCount: merges.reduce((s, m) => s + m.count, 0), detail: { merges } },
         ),
       );
     }
@@ -213,7 +222,7 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
             [pc.name],
             `${quote(pc.name)} has level${sparse.length > 1 ? "s" : ""} with fewer than ${t.sparseLevel} complete rows: ${list(sparse.map((l) => `${quote(l)} (${complete.get(l) ?? 0})`))}; ${sparse.length > 1 ? "their coefficients are" : "its coefficient is"} poorly determined${sparse.some((l) => (complete.get(l) ?? 0) === 0) ? " (a level with no rows cannot be estimated at all)" : ""}.`,
             `Collect more rows for these levels, or ask the analyst to merge them with a related level.`,
-            { rows: sparse.flatMap((l) => rowsOf(l)).sort((a, b) => a - b).slice(0, t.sampleRows), detail: { levels: sparse.map((l) => ({ level: l, complete: complete.get(l) ?? 0 })) } },
+            { rows: sampleOf(sparse.map((l) => rowsOf(l)), t.sampleRows), detail: { levels: sparse.map((l) => ({ level: l, complete: complete.get(l) ?? 0 })) } },
           ),
         );
       }

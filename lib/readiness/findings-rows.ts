@@ -186,6 +186,6 @@ export function rowFindings(scan: Scan): Finding[] {
   return out;
 }
 
-function article(type: string): string {
+export function article(type: string): string {
   return { number: "a number", integer: "an integer", boolean: "a yes/no value", date: "a date", category: "a level", text: "text" }[type] ?? type;
 }

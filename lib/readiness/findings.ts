@@ -9,10 +9,21 @@ export function finding(
   fix: string,
   extra: { rows?: number[]; rowCount?: number; detail?: Record<string, unknown> } = {},
 ): Finding {
-  const f: Finding = { code, severity, columns, rows: extra.rows ?? [], message, fix };
+  const f: Finding = { code, severity, columns, rows: distinctSorted(extra.rows ?? []), message, fix };
   if (extra.rowCount !== undefined) f.rowCount = extra.rowCount;
   if (extra.detail) f.detail = extra.detail;
   return f;
+}
+
+/** Row numbers ascending, each once. */
+export function distinctSorted(rows: readonly number[]): number[] {
+  const out = [...new Set(rows)].sort((a, b) => a - b);
+  return out;
+}
+
+/** The first `cap` distinct rows (ascending) of several row lists. */
+export function sampleOf(lists: readonly (readonly number[])[], cap: number): number[] {
+  return distinctSorted(lists.flat()).slice(0, cap);
 }
 
 const ORDER: Record<Severity, number> = { blocker: 0, warning: 1, note: 2 };

@@ -44,7 +44,9 @@ export class Scan implements CsvSink {
   duplicateOf: [number, number][] = [];
   /** @internal (scan-merge.ts) */
   rowSet = new HashSet64(DUPLICATE_CAP);
-  keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number> }>();
+  keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number>; lastRepeatOf: number }>();
+  /** line of the earlier equal row of the row just read (0: none) */
+  lastRepeatOf = 0;
   private keyList: number[] = [];
   private keyHash = new Float64Array(0);
   private spanStarts = new Int32Array(0);
@@ -113,7 +115,7 @@ export class Scan implements CsvSink {
     for (const c of this.plan.columns) {
       if (c.role === "key") {
         const i = this.index.get(c.name);
-        if (i !== undefined) this.keys.set(i, { set: new HashSet64(DUPLICATE_CAP), dup: new RowSample(this.t.sampleRows), examples: new Map() });
+        if (i !== undefined) this.keys.set(i, { set: new HashSet64(DUPLICATE_CAP), dup: new RowSample(this.t.sampleRows), examples: new Map(), lastRepeatOf: 0 });
       }
     }
     this.keyList = [...this.keys.keys()];
@@ -271,6 +273,7 @@ export class Scan implements CsvSink {
     const nModel = model.length;
     {
       const prev = this.rowSet.addOrGet(HASH.a, HASH.b, line);
+      this.lastRepeatOf = prev;
       if (prev) {
         this.duplicateRows.add(line);
         if (this.duplicateOf.length < this.t.sampleRows) this.duplicateOf.push([line, prev]);
@@ -280,7 +283,9 @@ export class Scan implements CsvSink {
         const c = cols[k]!;
         if (c.status !== 1) continue;
         const key = this.keys.get(k)!;
-        if (key.set.addOrGet(this.keyHash[2 * q]!, this.keyHash[2 * q + 1]!, line)) {
+        const first = key.set.addOrGet(this.keyHash[2 * q]!, this.keyHash[2 * q + 1]!, line);
+        key.lastRepeatOf = first;
+        if (first) {
           key.dup.add(line);
           const v = c.str || String(c.value);
           if (key.examples.size < 10 || key.examples.has(v)) key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
