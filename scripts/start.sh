@@ -152,6 +152,11 @@ else
   warn "lib/jobs/worker-main.ts is missing: uploaded batches will not be checked in this run."
 fi
 
+# ---- the demo batch files, sent through the upload service and the check queue (once; idempotent)
+if [[ -f scripts/demo-batches.ts ]]; then
+  "$BIN/tsx" scripts/demo-batches.ts || warn "the demo batches could not be sent (see above); the app runs without them."
+fi
+
 url="${APP_URL:-http://127.0.0.1:$app_port}"
 echo
 say "Tributary is running: $url"
