@@ -30,6 +30,8 @@ export default defineConfig({
           hookTimeout: 180_000,
           fileParallelism: false,
           globalSetup: ["tests/integration/global-setup.ts"],
+          // each file gets its own copy of the seeded database
+          setupFiles: ["tests/integration/isolate-db.ts"],
         },
       },
     ],

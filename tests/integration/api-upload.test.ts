@@ -19,7 +19,8 @@ import { openStoredFile } from "@/lib/uploads";
 import { POST } from "@/app/api/v1/batches/route";
 import { drainQueue, uploadAndCheck } from "./helpers/pipeline";
 
-const db = getDb();
+// the database client reads the environment at first use: only after beforeAll has pointed the SDK at the fake
+const db = new Proxy({} as ReturnType<typeof getDb>, { get: (_t, k) => Reflect.get(getDb(), k) });
 let fake: Awaited<ReturnType<typeof startUploadFake>>;
 let dir = "";
 
