@@ -54,5 +54,9 @@ export const DEMO_USERS: readonly DemoUser[] = [
   { email: "provider@harrowgate.test", name: "Gareth Lund", role: "provider", organisationSlug: "harrowgate", active: true, note: "uploads for Harrowgate Farm" },
   { email: "provider@fennick.test", name: "Esther Quayle", role: "provider", organisationSlug: "fennick-hill", active: true, note: "uploads for Fennick Hill Farm" },
   { email: "installer@greenhearth.test", name: "Callum Reyes", role: "provider", organisationSlug: "greenhearth", active: true, note: "uploads for Greenhearth Installers" },
+  { email: "provider@brackenridge.test", name: "Ailsa Morrow", role: "provider", organisationSlug: "brackenridge", active: true, note: "uploads for Brackenridge Farm" },
+  { email: "provider@otterburn.test", name: "Hamish Teale", role: "provider", organisationSlug: "otterburn-mill", active: true, note: "uploads for Otterburn Mill Farm" },
+  { email: "provider@saltmarsh.test", name: "Priya Danes", role: "provider", organisationSlug: "saltmarsh-end", active: true, note: "uploads for Saltmarsh End Farm" },
+  { email: "provider@coldwell.test", name: "Owen Pritchard", role: "provider", organisationSlug: "coldwell", active: true, note: "uploads for Coldwell Farm" },
   { email: "inactive@harrowgate.test", name: "Dennis Otway", role: "provider", organisationSlug: "harrowgate", active: false, note: "deactivated: cannot sign in" },
 ];

@@ -49,9 +49,9 @@ describe("seedDemo", () => {
   test("first run writes the scenario of CONTRACTS.md; a second run adds nothing", async () => {
     await seedDemo(db);
     const first = await counts();
-    // CONTRACTS.md: 2 teams + 6 farms + 2 installers; 8 sign-ins; 2 studies with plan version 1;
+    // CONTRACTS.md: 2 teams + 6 farms + 2 installers; 12 sign-ins (CONTRACTS.md's 8 and a provider for each of the other four farms); 2 studies with plan version 1;
     // one analyst per study; six farms on barley, two installers on heat pumps
-    expect(first).toEqual({ organisations: 10, users: 8, studies: 2, data_plans: 2, study_analysts: 2, study_providers: 8 });
+    expect(first).toEqual({ organisations: 10, users: 12, studies: 2, data_plans: 2, study_analysts: 2, study_providers: 8 });
     const again = await seedDemo(db);
     expect(again.usersAdded).toBe(0);
     expect(again.plansAdded).toBe(0);
@@ -70,6 +70,10 @@ describe("seedDemo", () => {
       ["provider@harrowgate.test", "provider", "Harrowgate Farm", 1],
       ["provider@fennick.test", "provider", "Fennick Hill Farm", 1],
       ["installer@greenhearth.test", "provider", "Greenhearth Installers", 1],
+      ["provider@brackenridge.test", "provider", "Brackenridge Farm", 1],
+      ["provider@otterburn.test", "provider", "Otterburn Mill Farm", 1],
+      ["provider@saltmarsh.test", "provider", "Saltmarsh End Farm", 1],
+      ["provider@coldwell.test", "provider", "Coldwell Farm", 1],
       ["inactive@harrowgate.test", "provider", "Harrowgate Farm", 0],
     ];
     expect(rows[0].map((r) => [r.email, r.role, r.org, Number(r.active)])).toEqual(expected);
