@@ -14,7 +14,7 @@ import { LeastSquares, PatternMoments } from "./stats";
 export const QUANTILE_BUDGET = 4_000_000;
 /** per-column bound of exact quartiles; beyond it a reservoir sample of this size */
 export const QUANTILE_COLUMN_CAP = 200_000;
-/** distinct rows (and keys) hashed for duplicate detection; about 24 bytes each */
+/** distinct rows (and keys) hashed for duplicate detection; 20–40 bytes each */
 export const DUPLICATE_CAP = 4_000_000;
 /** levels an open-list predictor may add as design columns; later new levels make rows incomplete */
 export const MAX_OPEN_LEVELS = 200;
