@@ -19,6 +19,7 @@ const NAV: readonly NavItem[] = [
   { href: "/board", label: "Board", action: "board.read" },
   { href: "/pool", label: "Pools", action: "pool.read" },
   { href: "/admin/users", label: "Users", action: "user.manage" },
+  { href: "/admin/jobs", label: "Checks", action: "user.manage" },
   { href: "/invite", label: "Invite", action: "user.invite", roles: ["lead"] },
   { href: "/mailbox", label: "Mailbox", action: "mailbox.read", demoOnly: true },
 ];

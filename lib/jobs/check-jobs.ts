@@ -179,3 +179,18 @@ export async function failJob(db: Db, job: ClaimedJob, error: unknown): Promise<
     })
     .where(eq(checkJobs.id, job.jobId));
 }
+
+/** An admin sends a failed job round again: three fresh attempts, from now. */
+export async function retryFailedJob(db: Db, actorId: number, jobId: number): Promise<boolean> {
+  return db.transaction(async (tx) => {
+    const [job] = await tx
+      .select({ id: checkJobs.id, status: checkJobs.status, batchVersionId: checkJobs.batchVersionId })
+      .from(checkJobs)
+      .where(eq(checkJobs.id, jobId))
+      .for("update");
+    if (!job || job.status !== "failed") return false;
+    await tx.update(checkJobs).set({ status: "queued", attempts: 0, runAfter: new Date(), finishedAt: null, lockedBy: null }).where(eq(checkJobs.id, jobId));
+    await recordAudit(tx, { actorId, action: "job.retry", objectType: "check_job", objectId: jobId, before: { status: "failed" }, after: { status: "queued" } });
+    return true;
+  });
+}

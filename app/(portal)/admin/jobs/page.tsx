@@ -1,0 +1,26 @@
+import { notFound } from "next/navigation";
+import { PageHeader } from "@/components/ui/page-header";
+import { JobsTable } from "@/components/settings/jobs-table";
+import { requireUser } from "@/lib/auth/session";
+import { can } from "@/lib/auth/permissions";
+import { listOpenCheckJobs } from "@/lib/dal/jobs";
+import { retryJobAction } from "./actions";
+
+export const metadata = { title: "Checks" };
+export const dynamic = "force-dynamic";
+
+export default async function JobsPage() {
+  const user = await requireUser();
+  if (!can(user.role, "user.manage")) notFound();
+  const jobs = await listOpenCheckJobs(user);
+  return (
+    <>
+      <PageHeader
+        eyebrow="Admin"
+        title="Checks waiting, running or failed"
+        description="A check that failed three times stops here with its error; retry it once the cause (a missing file, the file store down) is fixed."
+      />
+      <JobsTable jobs={jobs.map((j) => ({ ...j, createdAt: j.createdAt.toISOString() }))} retry={retryJobAction} />
+    </>
+  );
+}
