@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
+import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./batches";
@@ -69,4 +69,12 @@ export async function getVersionReportForUser(
     report: (row?.report as ReadinessReport | undefined) ?? null,
     reportedAt: row?.createdAt ?? null,
   };
+}
+
+/** Where a visible version's file is stored (for re-reading it on the server only). */
+export async function getVersionFileKeyForUser(user: SessionUser, publicId: string, versionNo: number): Promise<{ found: VersionReport; fileKey: string } | null> {
+  const found = await getVersionReportForUser(user, publicId, versionNo);
+  if (!found) return null;
+  const [row] = await getDb().select({ fileKey: batchVersions.fileKey }).from(batchVersions).where(eq(batchVersions.id, found.version.id));
+  return row ? { found, fileKey: row.fileKey } : null;
 }

@@ -1,3 +1,4 @@
+import { Readable } from "node:stream";
 import { expect, test, type Browser, type Page } from "@playwright/test";
 import { BARLEY_HEADER, barleyBatches, barleyRows, toCsv } from "../../lib/demo/batches";
 import { SignInPage } from "./pages/sign-in-page";
@@ -62,7 +63,7 @@ test("the assigned analyst sees the same report and bounces it with two comments
   await page.context().close();
 });
 
-test("the provider gets the e-mail with both comments and the link, and sends version 2 which resolves them", async ({ browser }) => {
+test("the provider gets the e-mail with both comments and the link, downloads the rows at fault, and sends version 2 which resolves them", async ({ browser }) => {
   const page = await as(browser, "provider@fennick.test");
   const text = await openMail(page, /bounced/);
   expect(text).toContain("Write the soil level as clay");
@@ -70,6 +71,11 @@ test("the provider gets the e-mail with both comments and the link, and sends ve
   expect(text).toContain(`/batches/${batchId}?v=1`);
 
   await page.goto(`/batches/${batchId}`);
+  // the rows at fault, with their finding codes, to fix in the provider's own tools
+  const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("rows-at-fault").click()]);
+  const faulty = await new Response(Readable.toWeb(await download.createReadStream()) as ReadableStream).text();
+  expect(faulty.split("\n")[0]).toContain("finding_codes");
+  expect(faulty).toContain("level.variant");
   await page.getByRole("link", { name: "Upload a new version" }).click();
   const batch = new BatchPage(page);
   // the corrected file: same plots, plan spellings and the gauge's own water column

@@ -63,6 +63,16 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
             <Link href={`/batches/${batch.publicId}/trail`} className="text-sm text-channel underline">
               Audit trail
             </Link>
+            {report?.status === "checked" && report.findings.some((f) => f.rows.length > 0) ? (
+              <a
+                href={`/api/v1/batches/${batch.publicId}/versions/${version.version}/rows-at-fault`}
+                className="text-sm text-channel underline"
+                download
+                data-testid="rows-at-fault"
+              >
+                Download rows at fault (CSV)
+              </a>
+            ) : null}
             {canResubmit ? (
               <Link href={`/batches/${batch.publicId}/new-version`} className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
                 Upload a new version

@@ -1,0 +1,29 @@
+// GET /api/v1/batches/:publicId/versions/:n/rows-at-fault — the original rows that carry findings, with their codes and messages, as formula-safe CSV.
+import { z } from "zod";
+import { apiRoute } from "@/lib/api/route";
+import { parseParams } from "@/lib/api/parse";
+import { getVersionFileKeyForUser } from "@/lib/dal/reports";
+import { AppError } from "@/lib/errors";
+import { rowsAtFaultCsv } from "@/lib/intake/rows-at-fault";
+import { openStoredFile } from "@/lib/uploads";
+
+const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });
+
+export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
+  const { id, version } = parseParams(params, paramsSchema);
+  const got = await getVersionFileKeyForUser(actor, id, version);
+  if (!got) throw new AppError("not_found", "No batch version with this id is visible to you.");
+  const { found, fileKey } = got;
+  if (!found.report) throw new AppError("conflict", "This version has not been checked yet; its rows at fault are ready with its report.");
+  if (found.report.status === "unreadable") throw new AppError("conflict", "This file could not be read, so it has no rows to list; see the report's finding for what to fix.");
+  const body = rowsAtFaultCsv({ fileKey, plan: found.plan.plan, report: found.report, openFile: (k) => openStoredFile(k) });
+  const base = found.version.fileName.replace(/\.[^.]+$/, "").replace(/[^A-Za-z0-9._-]+/g, "-") || "batch";
+  return new Response(body, {
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": `attachment; filename="${base}-v${found.version.version}-rows-at-fault.csv"`,
+      "cache-control": "no-store",
+      "x-content-type-options": "nosniff",
+    },
+  });
+});
