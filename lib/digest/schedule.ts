@@ -5,6 +5,7 @@
  */
 import type { Db } from "@/db/client";
 import { sendDigest } from "./send";
+import { sleep } from "@/lib/sleep";
 
 /** Whether the weekly digest is due at `now`: any moment from Monday 07:00 UTC to the week's end. */
 export function digestDue(now: Date): boolean {
@@ -25,12 +26,6 @@ export async function runDigestSchedule(opts: { db: Db; signal: AbortSignal; int
         log(`weekly digest failed: ${e instanceof Error ? e.message : String(e)}`);
       }
     }
-    await new Promise<void>((resolve) => {
-      const t = setTimeout(resolve, interval);
-      opts.signal.addEventListener("abort", () => {
-        clearTimeout(t);
-        resolve();
-      }, { once: true });
-    });
+    await sleep(interval, opts.signal);
   }
 }

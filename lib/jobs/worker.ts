@@ -7,6 +7,7 @@ import type { Db } from "@/db/client";
 import { checkBatch } from "@/lib/readiness";
 import { parsePlan } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
+import { sleep } from "@/lib/sleep";
 import { claimJob, completeJob, failJob, heartbeat, type ClaimedJob } from "./check-jobs";
 
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
@@ -73,14 +74,4 @@ export async function runWorker(opts: WorkerOptions): Promise<void> {
     }
     await sleep(pollMs, opts.signal);
   }
-}
-
-function sleep(ms: number, signal?: AbortSignal): Promise<void> {
-  return new Promise((resolve) => {
-    const t = setTimeout(resolve, ms);
-    signal?.addEventListener("abort", () => {
-      clearTimeout(t);
-      resolve();
-    }, { once: true });
-  });
 }

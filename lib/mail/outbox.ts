@@ -15,6 +15,7 @@ import { isDuplicateKey } from "@/db/errors";
 import { emailOutbox } from "@/db/schema";
 import { env } from "@/lib/env";
 import { transport as defaultTransport } from "./transport";
+import { sleep } from "@/lib/sleep";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
@@ -195,12 +196,6 @@ export async function runMailSender(opts: {
       log(`mail: delivery round failed: ${(e as Error).message}`);
     }
     if (busy) continue;
-    await new Promise<void>((resolve) => {
-      const t = setTimeout(resolve, intervalMs);
-      opts.signal.addEventListener("abort", () => {
-        clearTimeout(t);
-        resolve();
-      }, { once: true });
-    });
+    await sleep(intervalMs, opts.signal);
   }
 }

@@ -60,6 +60,11 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
         actions={
           <>
             <StateBadge state={version.state} />
+            {canDecide && report && !found.decision ? (
+              <a href="#decide" className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+                Decide ↓
+              </a>
+            ) : null}
             <Link href={`/batches/${batch.publicId}/trail`} className="text-sm text-channel underline">
               Audit trail
             </Link>
@@ -136,19 +141,21 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
             ) : null}
           </div>
         </Section>
-      ) : canDecide && report ? (
-        <Section title="Decision" id="decide" note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments.">
-          <DecisionForm batchId={batch.publicId} version={version.version} findings={report.findings} canAccept={version.state === "ready"} decide={decideAction} />
-        </Section>
       ) : null}
-
-      <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
 
       {report ? (
         <ReportView report={report} plan={found.plan.plan} csvPrefix={`${batch.publicId}-v${version.version}`} findingStatus={previous?.status} />
       ) : version.state === "received" || version.state === "checking" ? null : (
         <p className="text-base">No readiness report is stored for this version.</p>
       )}
+
+      <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
+
+      {canDecide && report && !found.decision ? (
+        <Section title="Decision" id="decide" note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments.">
+          <DecisionForm batchId={batch.publicId} version={version.version} findings={report.findings} canAccept={version.state === "ready"} decide={decideAction} />
+        </Section>
+      ) : null}
     </>
   );
 }
