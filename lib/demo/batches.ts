@@ -12,6 +12,8 @@ export interface DemoBatch {
   fileName: string;
   /** what this file is meant to show in the demo */
   shows: string;
+  /** the analysts' decision the demo starts with, once the checks are done (none: left ready for review) */
+  decision?: { by: string; decision: "accept" | "bounce"; comment?: string; findingComments?: { code: string; columns: string[]; comment: string }[] };
   csv: string;
 }
 
@@ -124,12 +126,21 @@ export function barleyBatches(): DemoBatch[] {
 
   const study = "barley-nitrogen";
   return [
-    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, spring 2026", fileName: "harrowgate-2026.csv", shows: "a clean batch", csv: toCsv(h, clean1) },
-    { organisationSlug: "fennick-hill", studySlug: study, title: "Fennick Hill plots, spring 2026", fileName: "fennick-hill-2026.csv", shows: "level spelling variants (Clay, clay ) and total_water_mm = irrigation_mm + rainfall_mm", csv: toCsv(h, fennick) },
+    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, spring 2026", fileName: "harrowgate-2026.csv", shows: "a clean batch", csv: toCsv(h, clean1), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
+    { organisationSlug: "fennick-hill", studySlug: study, title: "Fennick Hill plots, spring 2026", fileName: "fennick-hill-2026.csv", shows: "level spelling variants (Clay, clay ) and total_water_mm = irrigation_mm + rainfall_mm", csv: toCsv(h, fennick),
+      decision: {
+        by: "analyst@lowmoor.test",
+        decision: "bounce",
+        comment: "Two fixes before this batch can join the pool; the rest looks good.",
+        findingComments: [
+          { code: "level.variant", columns: ["soil"], comment: "Write the soil level as clay: lower case, no trailing space." },
+          { code: "collinear.exact", columns: ["total_water_mm"], comment: "Send the plot gauge reading here, not irrigation plus rainfall." },
+        ],
+      } },
     { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing", csv: toCsv(h, bracken) },
     { organisationSlug: "otterburn-mill", studySlug: study, title: "Otterburn Mill plots, spring 2026", fileName: "otterburn-mill-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
     { organisationSlug: "saltmarsh-end", studySlug: study, title: "Saltmarsh End plots, spring 2026", fileName: "saltmarsh-end-2026.csv", shows: "decimal commas and -999 sentinels", csv: saltCsv },
-    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell) },
+    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
   ];
 }
 
@@ -176,6 +187,7 @@ export function heatPumpBatches(): DemoBatch[] {
       title: "Greenhearth retrofits, 2025 installs",
       fileName: "greenhearth-2025.csv",
       shows: "a clean batch under stricter thresholds",
+      decision: { by: "analyst2@lowmoor.test", decision: "accept" },
       csv: toCsv(HEAT_HEADER, heatPumpRows("GH-", 260, 707)),
     },
   ];

@@ -6,7 +6,9 @@
 import { and, eq } from "drizzle-orm";
 import { UTFile } from "uploadthing/server";
 import type { Db } from "@/db/client";
-import { batches, organisations, studies, users } from "@/db/schema";
+import { batchVersions, batches, organisations, studies, users } from "@/db/schema";
+import { sleep } from "@/lib/sleep";
+import { decideVersion } from "@/lib/triage/decide";
 import { recordBatchVersion } from "@/lib/intake/record-upload";
 import { utapi } from "@/lib/uploads";
 import { demoBatches, type DemoBatch } from "./batches";
@@ -49,4 +51,43 @@ export async function sendDemoBatches(db: Db, log: (line: string) => void = cons
     log(`sent ${b.fileName} (${b.shows})`);
   }
   return sent;
+}
+
+/**
+ * The analysts' demo decisions (accept the clean batches, bounce one with comments), taken
+ * through the real decision service once the worker has checked each version. Idempotent:
+ * a version already decided is left alone.
+ */
+export async function decideDemoBatches(db: Db, log: (line: string) => void = console.log, list: DemoBatch[] = demoBatches(), timeoutMs = 120_000): Promise<number> {
+  let decided = 0;
+  const deadline = Date.now() + timeoutMs;
+  for (const b of list) {
+    if (!b.decision) continue;
+    const [row] = await db
+      .select({ publicId: batches.publicId, batchId: batches.id })
+      .from(batches)
+      .innerJoin(organisations, eq(organisations.id, batches.organisationId))
+      .where(and(eq(organisations.slug, b.organisationSlug), eq(batches.title, b.title)));
+    if (!row) continue;
+    let state: string | undefined;
+    for (;;) {
+      const [v] = await db.select({ state: batchVersions.state }).from(batchVersions).where(and(eq(batchVersions.batchId, row.batchId), eq(batchVersions.version, 1)));
+      state = v?.state;
+      if (state !== "received" && state !== "checking") break;
+      if (Date.now() > deadline) break;
+      await sleep(1000);
+    }
+    if (state !== "ready") {
+      if (state === "received" || state === "checking") log(`${b.fileName} is still being checked; its demo decision is left to you`);
+      continue;
+    }
+    const [u] = await db.select({ id: users.id }).from(users).where(eq(users.email, b.decision.by));
+    if (!u) continue;
+    const r = await decideVersion(db, u.id, row.publicId, 1, { decision: b.decision.decision, comment: b.decision.comment ?? "", findingComments: b.decision.findingComments ?? [] });
+    if (r.ok) {
+      decided++;
+      log(`${b.decision.decision === "accept" ? "accepted" : "bounced"} ${b.fileName}`);
+    } else log(`could not decide ${b.fileName}: ${r.message}`);
+  }
+  return decided;
 }
