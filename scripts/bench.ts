@@ -7,6 +7,7 @@
 import { spawnSync } from "node:child_process";
 import { createWriteStream, existsSync, mkdirSync, writeFileSync } from "node:fs";
 import path from "node:path";
+import { mulberry32 } from "@/lib/readiness/accumulators";
 
 const OUT = path.resolve("bench-out");
 const rowsArg = process.argv.indexOf("--rows");
@@ -14,16 +15,7 @@ const ROWS = rowsArg > 0 ? Number(process.argv[rowsArg + 1]) : 1_000_000;
 const CSV = path.join(OUT, `trial-${ROWS}.csv`);
 const PLAN = path.join(OUT, "trial-plan.json");
 
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 const FARMS = ["harrowgate", "fennick-hill", "brackenridge", "otterburn-mill", "saltmarsh-end", "coldwell"];
 const SOILS = ["loam", "clay", "sand", "silt"];

@@ -3,6 +3,7 @@
  * Lowmoor Valley farms and home results from the heat-pump installers, some clean and
  * some with the defects providers really send.
  */
+import { mulberry32 } from "@/lib/readiness/accumulators";
 import { BARLEY_VARIETIES, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES, INSULATION_BANDS, SOIL_TYPES } from "./plans";
 
 export interface DemoBatch {
@@ -19,14 +20,7 @@ export interface DemoBatch {
 
 /** A small seeded generator (mulberry32), so the demo is the same every time. */
 export function rng(seed: number) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
+  const next = mulberry32(seed);
   const normal = () => {
     const u = Math.max(next(), 1e-12);
     return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * next());
