@@ -9,7 +9,7 @@ import os from "node:os";
 import path from "node:path";
 import { mkdtemp, readdir, rm } from "node:fs/promises";
 import { getDb, getPool } from "@/db/client";
-import { batchVersions, users } from "@/db/schema";
+import { batchVersions, studies, users } from "@/db/schema";
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
 import { barleyBatches } from "@/lib/demo/batches";
 import { claimJob } from "@/lib/jobs/check-jobs";
@@ -48,6 +48,8 @@ beforeAll(async () => {
   // the SDK reads these at first use (lib/uploads caches its UTApi, lib/env its parse)
   process.env.UPLOADTHING_API_URL = fake.url;
   process.env.UPLOADTHING_INGEST_URL = fake.url;
+  // a small limit, so the over-limit case needs no large file
+  process.env.MAX_UPLOAD_MB = "1";
 });
 
 afterAll(async () => {
@@ -99,6 +101,7 @@ describe("POST /api/v1/batches", () => {
     ["an empty file", "provider@fennick.test", { study: "barley-nitrogen" }, "empty.csv", "", 422, /empty \(0 bytes\)/],
     ["a workbook", "provider@fennick.test", { study: "barley-nitrogen" }, "plots.xlsx", "PK\u0003\u0004", 422, /not a CSV file/],
     ["an unknown study", "provider@fennick.test", { study: "no-such-study" }, "x.csv", "a\n1\n", 404, /does not exist/],
+    ["a file over the size limit", "provider@fennick.test", { study: "barley-nitrogen" }, "big.csv", "a,b\n" + "1,2\n".repeat(300_000), 422, /limit is 1 MB|1 MB limit/],
     ["an analyst (no upload permission)", "analyst@lowmoor.test", { study: "barley-nitrogen" }, "x.csv", "a\n1\n", 403, /role does not allow/],
   ])("refuses %s before storing anything", async (_what, email, fields, name, content, status, message) => {
     const { token } = await tokenFor(email);
@@ -109,6 +112,20 @@ describe("POST /api/v1/batches", () => {
     expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(message);
     expect(await storedCount()).toBe(before);
     expect((await db.select({ id: batchVersions.id }).from(batchVersions)).length).toBe(versionsBefore);
+  });
+
+  it("refuses an upload to a closed study before storing anything", async () => {
+    const { token } = await tokenFor("installer@greenhearth.test");
+    await db.update(studies).set({ status: "closed" }).where(eq(studies.slug, "heat-pump-savings"));
+    try {
+      const before = await storedCount();
+      const res = await post(token, { study: "heat-pump-savings", file: new File(["a\n1\n"], "x.csv") });
+      expect(res.status).toBe(403);
+      expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/is closed and takes no more batches/);
+      expect(await storedCount()).toBe(before);
+    } finally {
+      await db.update(studies).set({ status: "open" }).where(eq(studies.slug, "heat-pump-savings"));
+    }
   });
 
   it("without credentials answers 401 JSON", async () => {

@@ -5,7 +5,8 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import { auditEvents, batchVersions, decisions, emailOutbox, findingComments } from "@/db/schema";
+import { auditEvents, batchVersions, decisions, emailOutbox, findingComments, users } from "@/db/schema";
+import { getVersionReportForUser } from "@/lib/dal/reports";
 import { barleyBatches } from "@/lib/demo/batches";
 import { decideVersion } from "@/lib/triage/decide";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
@@ -44,6 +45,16 @@ describe("decisions", () => {
     expect(mail[0]?.textBody).toContain("use the gauge reading");
     expect(mail[0]?.textBody).toContain(`/batches/${up.batchPublicId}?v=1`);
     expect(mail[0]?.htmlBody).toContain("level.variant");
+
+    // the comments reach the provider of that organisation, and nobody outside the batch's scope
+    const asUser = async (email: string) => {
+      const [u] = await db.select({ id: users.id, email: users.email, name: users.name, role: users.role, organisationId: users.organisationId }).from(users).where(eq(users.email, email));
+      return { ...u!, organisationName: null };
+    };
+    const own = await getVersionReportForUser(await asUser("provider@fennick.test"), up.batchPublicId, 1);
+    expect(own?.decision?.findingComments.map((c) => c.code).sort()).toEqual(["collinear.exact", "level.variant"]);
+    expect(await getVersionReportForUser(await asUser("provider@harrowgate.test"), up.batchPublicId, 1)).toBeNull();
+    expect(await getVersionReportForUser(await asUser("analyst2@lowmoor.test"), up.batchPublicId, 1)).toBeNull();
   });
 
   it("of two analysts deciding at the same moment exactly one wins; the other is told who decided", async () => {
