@@ -29,7 +29,7 @@ export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInpu
   const studyId = await studyIdBySlug(input.studySlug);
   if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
   const admitted = await authoriseUpload(db, actor.id, { studyId, batchPublicId: input.batchId ?? null });
-  if (!admitted.ok) throw new AppError(actor.role === "provider" ? "forbidden" : "forbidden", admitted.message);
+  if (!admitted.ok) throw new AppError("forbidden", admitted.message);
 
   const bytes = new Uint8Array(await input.file.arrayBuffer());
   const hash = await crypto.subtle.digest("SHA-256", bytes);
