@@ -117,12 +117,29 @@ export function reportFromScan(scan: Scan, plan: Plan, planHash: string, read: {
     findings.push(finding("file.header-only", "note", [], "The file has a header row but no data rows.", "Export the data rows too; check that the sheet was not filtered to nothing before saving.", { rows: [1] }));
   }
   const decimal = scan.cols.some((c) => c.comma.count > 0 && c.comma.count * 2 > c.moments.n) ? "," : ".";
+  return checkedReport(a, findings, planHash, state, now() - t0, {
+    bytes: read.bytes,
+    encoding: read.bom ? "utf-8 (BOM)" : "utf-8",
+    delimiter: read.delimiter,
+    decimal,
+  });
+}
+
+/** A "checked" report from an analysis and its findings: the one place the report is put together. */
+export function checkedReport(
+  a: Pick<ReadinessReport, "rows" | "model" | "columns" | "missingness" | "collinearity" | "fit" | "sampleSize">,
+  findings: ReadinessReport["findings"],
+  planHash: string,
+  state: unknown,
+  ms: number,
+  file?: ReadinessReport["file"],
+): ReadinessReport {
   return {
     format: REPORT_FORMAT,
     status: "checked",
     engineVersion: ENGINE_VERSION,
     planHash,
-    file: { bytes: read.bytes, encoding: read.bom ? "utf-8 (BOM)" : "utf-8", delimiter: read.delimiter, decimal },
+    ...(file ? { file } : {}),
     rows: a.rows,
     model: a.model,
     columns: a.columns,
@@ -133,6 +150,6 @@ export function reportFromScan(scan: Scan, plan: Plan, planHash: string, read: {
     findings,
     counts: countFindings(findings),
     state,
-    timings: { ms: now() - t0 },
+    timings: { ms },
   };
 }

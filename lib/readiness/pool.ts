@@ -4,7 +4,7 @@
  */
 import { Moments } from "./accumulators";
 import { analyse, designOf } from "./analyse";
-import { ENGINE_VERSION, hashPlan } from "./check";
+import { ENGINE_VERSION, checkedReport, hashPlan } from "./check";
 import { countFindings, finding, pct, quote, rowsOf, sortFindings } from "./findings";
 import { thresholdsOf, type Plan } from "./plan";
 import { REPORT_FORMAT, type Finding, type ReadinessReport } from "./report";
@@ -44,23 +44,7 @@ export async function poolReport(states: unknown[], plan: Plan): Promise<Readine
   }
   const a = analyse(merged, plan, t);
   const findings = sortFindings(a.findings);
-  return {
-    format: REPORT_FORMAT,
-    status: "checked",
-    engineVersion: ENGINE_VERSION,
-    planHash,
-    rows: a.rows,
-    model: a.model,
-    columns: a.columns,
-    missingness: a.missingness,
-    collinearity: a.collinearity,
-    fit: a.fit,
-    sampleSize: a.sampleSize,
-    findings,
-    counts: countFindings(findings),
-    state: merged,
-    timings: { ms: Date.now() - t0 },
-  };
+  return checkedReport(a, findings, planHash, merged, Date.now() - t0);
 }
 
 /**
