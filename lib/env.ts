@@ -1,13 +1,51 @@
 /**
  * The environment, checked once with zod. Read lazily (at first use), so that
- * `next build` needs none of it.
+ * `next build` needs none of it; `instrumentation.ts` and the worker call it at start, so a
+ * production server with the demo secrets refuses to boot instead of failing later.
  */
 import { z } from "zod";
 
-const schema = z.object({
+/**
+ * Secrets that are public because they are written in this repository (.env.example, the
+ * test and e2e scripts). Fine on loopback for the demo and the tests; refused in production
+ * unless TRIBUTARY_DEMO=1 says this is the demo.
+ */
+export const PUBLIC_SECRETS = {
+  NEXTAUTH_SECRET: [
+    "tributary-demo-secret-change-me-0000000000",
+    "e2e-only-secret-not-for-production-000000",
+    "test-secret-not-for-production-0123456789",
+  ],
+  /** the api key inside the dev UPLOADTHING_TOKEN (whatever base64 spelling carries it) */
+  UPLOADTHING_API_KEY: ["sk_dev_tributary_local_0000000000"],
+  /** user:password of the demo database account */
+  DATABASE_CREDENTIALS: ["tributary:tributary"],
+} as const;
+
+/** The api key inside an UPLOADTHING_TOKEN (base64 JSON), or null when it does not decode. */
+export function uploadTokenApiKey(token: string): string | null {
+  try {
+    const v = JSON.parse(Buffer.from(token, "base64").toString("utf8")) as { apiKey?: unknown };
+    return typeof v.apiKey === "string" ? v.apiKey : null;
+  } catch {
+    return null;
+  }
+}
+
+function databaseCredentials(url: string): string | null {
+  try {
+    const u = new URL(url);
+    return `${decodeURIComponent(u.username)}:${decodeURIComponent(u.password)}`;
+  } catch {
+    return null;
+  }
+}
+
+const base = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: z.string().url().startsWith("mysql://", "DATABASE_URL must be a mysql:// URL"),
   APP_URL: z.string().url().default("http://127.0.0.1:3400"),
+  NEXTAUTH_URL: z.string().url().optional(),
   NEXTAUTH_SECRET: z.string().min(16, "NEXTAUTH_SECRET must be at least 16 characters"),
   UPLOADTHING_TOKEN: z.string().min(10).optional(),
   UPLOADTHING_INGEST_URL: z.string().url().optional(),
@@ -22,17 +60,56 @@ const schema = z.object({
   TRIBUTARY_DEMO: z.string().optional(),
 });
 
+const GENERATE = "generate one with `openssl rand -base64 32`";
+
+const schema = base.superRefine((e, ctx) => {
+  if (e.NODE_ENV !== "production" || e.TRIBUTARY_DEMO === "1") return;
+  const refuse = (path: string, message: string) => ctx.addIssue({ code: "custom", path: [path], message });
+  if ((PUBLIC_SECRETS.NEXTAUTH_SECRET as readonly string[]).includes(e.NEXTAUTH_SECRET)) {
+    refuse("NEXTAUTH_SECRET", `is a demo value published in this repository; set NEXTAUTH_SECRET to a secret of your own (${GENERATE})`);
+  } else if (e.NEXTAUTH_SECRET.length < 32) {
+    refuse("NEXTAUTH_SECRET", `must be at least 32 characters in production (${GENERATE})`);
+  }
+  if (!e.UPLOADTHING_TOKEN) {
+    refuse("UPLOADTHING_TOKEN", "is required in production; set it to the token of your upload-service app");
+  } else {
+    const key = uploadTokenApiKey(e.UPLOADTHING_TOKEN);
+    if (key !== null && (PUBLIC_SECRETS.UPLOADTHING_API_KEY as readonly string[]).includes(key)) {
+      refuse("UPLOADTHING_TOKEN", "carries the demo api key published in this repository; set UPLOADTHING_TOKEN to the token of your upload-service app");
+    }
+  }
+  const creds = databaseCredentials(e.DATABASE_URL);
+  if (creds !== null && (PUBLIC_SECRETS.DATABASE_CREDENTIALS as readonly string[]).includes(creds)) {
+    refuse("DATABASE_URL", "uses the demo database user and password published in this repository; create a database user with a password of your own and put it in DATABASE_URL");
+  }
+  // next-auth picks __Secure- cookies from NEXTAUTH_URL; both addresses must agree on https
+  const nextAuthUrl = e.NEXTAUTH_URL ?? e.APP_URL;
+  if (e.APP_URL.startsWith("https://") !== nextAuthUrl.startsWith("https://")) {
+    refuse("NEXTAUTH_URL", "must use the same scheme as APP_URL (set both to the app's https:// address)");
+  }
+});
+
 export type Env = z.infer<typeof schema>;
+
+/** The check without caching, for start-up checks and tests: the parsed settings or a message saying what to set. */
+export function checkEnv(source: Record<string, string | undefined> = process.env): { ok: true; env: Env } | { ok: false; message: string } {
+  const r = schema.safeParse(source);
+  if (r.success) return { ok: true, env: r.data };
+  const lines = r.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n");
+  const demo =
+    source.NODE_ENV === "production" && source.TRIBUTARY_DEMO !== "1"
+      ? "\nNODE_ENV=production without TRIBUTARY_DEMO=1 refuses the demo secrets of .env.example. For the local demo only, set TRIBUTARY_DEMO=1."
+      : "";
+  return { ok: false, message: `The environment is not set up correctly:\n${lines}${demo}\nSee .env.example.` };
+}
 
 let cached: Env | undefined;
 
+/** The checked environment (cached); throws with a message saying what to set. */
 export function env(): Env {
   if (cached) return cached;
-  const r = schema.safeParse(process.env);
-  if (!r.success) {
-    const lines = r.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n");
-    throw new Error(`The environment is not set up correctly:\n${lines}\nSee .env.example.`);
-  }
-  cached = r.data;
+  const r = checkEnv(process.env);
+  if (!r.ok) throw new Error(r.message);
+  cached = r.env;
   return cached;
 }

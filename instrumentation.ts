@@ -1,0 +1,16 @@
+/**
+ * Next's start-up hook: runs once when a server instance boots (`next start`, `next dev`),
+ * before it answers requests. It checks the environment, so a production server with the
+ * demo secrets and without TRIBUTARY_DEMO=1 stops at boot with a message saying what to set.
+ */
+export async function register(): Promise<void> {
+  if (process.env.NEXT_RUNTIME !== "nodejs") return;
+  // `next build` loads the hook too and needs no settings
+  if (process.env.NEXT_PHASE === "phase-production-build") return;
+  const { checkEnv } = await import("./lib/env");
+  const r = checkEnv(process.env);
+  if (r.ok) return;
+  console.error(`[tributary] refusing to start.\n${r.message}`);
+  // an error thrown here is only logged by some Next versions: end the process ourselves
+  process.exit(1);
+}
