@@ -9,6 +9,7 @@ import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/services/audit";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
 import type { Result } from "@/lib/result";
+import { cleanFileName, cleanText } from "./file-rules";
 
 export interface UploadTarget {
   studyId: number;
@@ -98,6 +99,8 @@ export async function recordBatchVersion(
   target: UploadTarget,
   file: StoredFile,
 ): Promise<Result<{ batchPublicId: string; batchId: number; version: number; batchVersionId: number }>> {
+  // every path that records a file comes through here: its name is made safe once, for all
+  const fileName = cleanFileName(file.name);
   return db.transaction(async (tx) => {
     const admitted = await authoriseUpload(tx, actorId, target);
     if (!admitted.ok) return admitted;
@@ -109,7 +112,7 @@ export async function recordBatchVersion(
       batch = { ...batch, latestVersion: locked?.latestVersion ?? batch.latestVersion };
     } else {
       const publicId = newPublicId();
-      const title = (target.title ?? "").trim() || file.name.replace(/\.[^.]+$/, "") || "Untitled batch";
+      const title = cleanText(target.title ?? "", 300) || fileName.replace(/\.[^.]+$/, "") || "Untitled batch";
       const [ins] = await tx
         .insert(batches)
         .values({ publicId, studyId: study.id, organisationId: actor.organisationId, title: title.slice(0, 300), createdById: actor.id })
@@ -142,7 +145,7 @@ export async function recordBatchVersion(
         planId: study.planId,
         fileKey: file.key,
         fileUrl: file.url,
-        fileName: file.name.slice(0, 300),
+        fileName,
         fileSize: file.size,
         contentHash: file.hash ?? null,
         state: "received",
@@ -154,7 +157,7 @@ export async function recordBatchVersion(
     await tx.insert(checkJobs).values({ batchVersionId: bv.id });
     await recordAudit(tx, {
       actorId: actor.id, action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
-      after: { state: "received", version, fileName: file.name, fileSize: file.size },
+      after: { state: "received", version, fileName, fileSize: file.size },
     });
     return { ok: true, data: { batchPublicId: batch.publicId, batchId: batch.id, version, batchVersionId: bv.id } };
   });

@@ -4,6 +4,7 @@ import { apiRoute } from "@/lib/api/route";
 import { parseQuery } from "@/lib/api/parse";
 import { jsonData } from "@/lib/api/respond";
 import { AppError } from "@/lib/errors";
+import { attachmentDisposition } from "@/lib/intake/file-rules";
 import { getIfAcceptedForUser, getPoolForUser, listPoolStudiesForUser, recordPoolExport } from "./access";
 import { dataDictionary, dataDictionaryCsv, poolCsvStream, type OpenFile } from "./export";
 import { getStudyPool, withoutState } from "./pool";
@@ -56,7 +57,7 @@ export function poolRowsHandler(openFile: OpenFile) {
     return new Response(poolCsvStream(pool, openFile), {
       headers: {
         "content-type": "text/csv; charset=utf-8",
-        "content-disposition": `attachment; filename="${fileName(pool.slug, "rows", "csv")}"`,
+        "content-disposition": attachmentDisposition(fileName(pool.slug, "rows", "csv")),
         "cache-control": "no-store",
         "x-pool-rows": String(pool.report.rows.total),
       },
@@ -77,7 +78,7 @@ export const dictionaryHandler = apiRoute<SlugParams>({ action: "pool.read" }, a
   return new Response(dataDictionaryCsv(d), {
     headers: {
       "content-type": "text/csv; charset=utf-8",
-      "content-disposition": `attachment; filename="${fileName(pool.slug, "dictionary", "csv")}"`,
+      "content-disposition": attachmentDisposition(fileName(pool.slug, "dictionary", "csv")),
       "cache-control": "no-store",
     },
   });

@@ -4,6 +4,7 @@ import { apiRoute } from "@/lib/api/route";
 import { parseParams } from "@/lib/api/parse";
 import { getVersionFileKeyForUser } from "@/lib/dal/reports";
 import { AppError } from "@/lib/errors";
+import { attachmentDisposition } from "@/lib/intake/file-rules";
 import { rowsAtFaultCsv } from "@/lib/intake/rows-at-fault";
 import { openStoredFile } from "@/lib/uploads";
 
@@ -17,11 +18,11 @@ export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.re
   if (!found.report) throw new AppError("conflict", "This version has not been checked yet; its rows at fault are ready with its report.");
   if (found.report.status === "unreadable") throw new AppError("conflict", "This file could not be read, so it has no rows to list; see the report's finding for what to fix.");
   const body = rowsAtFaultCsv({ fileKey, plan: found.plan.plan, report: found.report, openFile: (k) => openStoredFile(k) });
-  const base = found.version.fileName.replace(/\.[^.]+$/, "").replace(/[^A-Za-z0-9._-]+/g, "-") || "batch";
+  const base = found.version.fileName.replace(/\.[^.]+$/, "") || "batch";
   return new Response(body, {
     headers: {
       "content-type": "text/csv; charset=utf-8",
-      "content-disposition": `attachment; filename="${base}-v${found.version.version}-rows-at-fault.csv"`,
+      "content-disposition": attachmentDisposition(`${base}-v${found.version.version}-rows-at-fault.csv`),
       "cache-control": "no-store",
       "x-content-type-options": "nosniff",
     },

@@ -1,0 +1,35 @@
+// GET /api/v1/batches/:publicId/versions/:n/file — the original file as uploaded, streamed after the same scope check as the report; 404 outside it.
+import { z } from "zod";
+import { apiRoute } from "@/lib/api/route";
+import { parseParams } from "@/lib/api/parse";
+import { getVersionFileKeyForUser } from "@/lib/dal/reports";
+import { AppError } from "@/lib/errors";
+import { attachmentDisposition } from "@/lib/intake/file-rules";
+import { openStoredFile, StoredFileMissingError } from "@/lib/uploads";
+
+const paramsSchema = z.object({ id: z.string().min(1).max(64), version: z.coerce.number().int().positive("version is a whole number from 1.") });
+
+const TYPES: Record<string, string> = { csv: "text/csv", tsv: "text/tab-separated-values", txt: "text/plain" };
+
+export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
+  const { id, version } = parseParams(params, paramsSchema);
+  const got = await getVersionFileKeyForUser(actor, id, version);
+  if (!got) throw new AppError("not_found", "No batch version with this id is visible to you.");
+  const { found, fileKey } = got;
+  let body: ReadableStream<Uint8Array>;
+  try {
+    body = await openStoredFile(fileKey);
+  } catch (e) {
+    if (e instanceof StoredFileMissingError) throw new AppError("not_found", "The file of this version is no longer in the file store.");
+    throw new AppError("unavailable", "The file store did not answer. Try again in a moment.", { cause: e });
+  }
+  const ext = /\.([a-z]+)$/i.exec(found.version.fileName)?.[1]?.toLowerCase() ?? "";
+  return new Response(body, {
+    headers: {
+      "content-type": TYPES[ext] ?? "application/octet-stream",
+      "content-disposition": attachmentDisposition(found.version.fileName),
+      "cache-control": "private, no-store",
+      "x-content-type-options": "nosniff",
+    },
+  });
+});
