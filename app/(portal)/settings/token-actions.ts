@@ -8,7 +8,7 @@ import { createApiToken, revokeApiToken, type ApiTokenListItem } from "@/lib/ser
 /** Creates a personal API token; the token is returned once, here. */
 export async function createTokenAction(name: string): Promise<Result<ApiTokenListItem & { token: string }>> {
   const actor = await getCurrentUser();
-  if (!actor) return fail("Your session has ended. Sign in again.");
+  if (!actor) return fail("Your session has ended. Sign in again.", undefined, "unauthenticated");
   const r = await createApiToken(actor.id, { name });
   revalidatePath("/settings");
   return r;
@@ -16,7 +16,7 @@ export async function createTokenAction(name: string): Promise<Result<ApiTokenLi
 
 export async function revokeTokenAction(id: number): Promise<Result<{ id: number; revokedAt: Date }>> {
   const actor = await getCurrentUser();
-  if (!actor) return fail("Your session has ended. Sign in again.");
+  if (!actor) return fail("Your session has ended. Sign in again.", undefined, "unauthenticated");
   const r = await revokeApiToken(actor.id, id);
   revalidatePath("/settings");
   return r;

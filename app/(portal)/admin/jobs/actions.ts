@@ -9,7 +9,8 @@ import { fail, ok, type Result } from "@/lib/result";
 
 export async function retryJobAction(jobId: number): Promise<Result<null>> {
   const user = await getCurrentUser();
-  if (!user || !can(user.role, "user.manage")) return fail("Only admins can retry checks.", undefined, "forbidden");
+  if (!user) return fail("Your session has ended. Sign in again.", undefined, "unauthenticated");
+  if (!can(user.role, "user.manage")) return fail("Only admins can retry checks.", undefined, "forbidden");
   const done = await retryFailedJob(getDb(), user.id, jobId);
   revalidatePath("/admin/jobs");
   return done ? ok(null) : fail("This check is not failed any more; reload the page.", undefined, "conflict");

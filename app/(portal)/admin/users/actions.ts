@@ -1,6 +1,7 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
+import { can } from "@/lib/auth/permissions";
 import { getCurrentUser } from "@/lib/auth/session";
 import { changeRole, createUser, setActive } from "@/lib/services/users";
 import { createUserSchema, roleSchema, userIdSchema } from "@/lib/validation/users";
@@ -15,7 +16,9 @@ export type CreateUserState = Result<{ id: number; email: string }> | null;
 
 export async function createUserAction(_prev: CreateUserState, form: FormData): Promise<CreateUserState> {
   const actor = await getCurrentUser();
-  if (!actor) return fail(SIGNED_OUT);
+  if (!actor) return fail(SIGNED_OUT, undefined, "unauthenticated");
+  // this form sets a password, so it is for admins only; leads invite through /invite, where the person chooses it
+  if (!can(actor.role, "user.manage")) return fail("Only admins create accounts with a password; invite people instead.", undefined, "forbidden");
   const parsed = createUserSchema.safeParse(Object.fromEntries(form));
   if (!parsed.success) return fail("Check the marked fields.", fieldErrorsOf(parsed.error.issues));
   const res = await createUser(actor.id, parsed.data);
@@ -27,7 +30,7 @@ export async function createUserAction(_prev: CreateUserState, form: FormData): 
 
 export async function changeRoleAction(userId: number, role: string): Promise<Result<null>> {
   const actor = await getCurrentUser();
-  if (!actor) return fail(SIGNED_OUT);
+  if (!actor) return fail(SIGNED_OUT, undefined, "unauthenticated");
   const id = userIdSchema.safeParse(userId);
   const r = roleSchema.safeParse(role);
   if (!id.success || !r.success) return fail("Choose one of the listed roles.");
@@ -40,7 +43,7 @@ export async function changeRoleAction(userId: number, role: string): Promise<Re
 
 export async function setActiveAction(userId: number, active: boolean): Promise<Result<null>> {
   const actor = await getCurrentUser();
-  if (!actor) return fail(SIGNED_OUT);
+  if (!actor) return fail(SIGNED_OUT, undefined, "unauthenticated");
   const id = userIdSchema.safeParse(userId);
   if (!id.success || typeof active !== "boolean") return fail("That user could not be found; reload the page.");
   const res = await setActive(actor.id, id.data, active);
