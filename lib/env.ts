@@ -41,6 +41,11 @@ function databaseCredentials(url: string): string | null {
   }
 }
 
+function isLoopback(url: string): boolean {
+  const host = new URL(url).hostname;
+  return host === "127.0.0.1" || host === "localhost" || host === "[::1]";
+}
+
 const base = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: z.string().url().startsWith("mysql://", "DATABASE_URL must be a mysql:// URL"),
@@ -82,10 +87,14 @@ const schema = base.superRefine((e, ctx) => {
   if (creds !== null && (PUBLIC_SECRETS.DATABASE_CREDENTIALS as readonly string[]).includes(creds)) {
     refuse("DATABASE_URL", "uses the demo database user and password published in this repository; create a database user with a password of your own and put it in DATABASE_URL");
   }
-  // next-auth picks __Secure- cookies from NEXTAUTH_URL; both addresses must agree on https
-  const nextAuthUrl = e.NEXTAUTH_URL ?? e.APP_URL;
-  if (e.APP_URL.startsWith("https://") !== nextAuthUrl.startsWith("https://")) {
-    refuse("NEXTAUTH_URL", "must use the same scheme as APP_URL (set both to the app's https:// address)");
+  // session cookies are Secure only over https; plain http is for loopback
+  const appHttps = e.APP_URL.startsWith("https://");
+  if (!appHttps && !isLoopback(e.APP_URL)) {
+    refuse("APP_URL", "must be the app's https:// address in production, so session cookies are sent over TLS only");
+  }
+  // next-auth names its cookies (__Secure-…) from NEXTAUTH_URL, also where a token is read back
+  if (appHttps !== (e.NEXTAUTH_URL ?? "").startsWith("https://")) {
+    refuse("NEXTAUTH_URL", "must be set to the same https:// address as APP_URL");
   }
 });
 

@@ -7,12 +7,23 @@ import { authorizeCredentials, clientIpOf } from "./credentials";
 export const SESSION_MAX_AGE_SECONDS = 12 * 60 * 60;
 
 /**
+ * Session cookies marked Secure and named with the `__Secure-`/`__Host-` prefixes when the
+ * app is served over https. Decided from NEXTAUTH_URL — the address next-auth's getToken()
+ * also reads to pick the cookie name back — and lib/env.ts makes sure it is https whenever
+ * APP_URL is. The cookies are httpOnly and SameSite=Lax (next-auth's defaults, kept).
+ */
+export function secureCookiesFor(source: Record<string, string | undefined> = process.env): boolean {
+  return (source.NEXTAUTH_URL ?? "").startsWith("https://");
+}
+
+/**
  * next-auth v4: e-mail + password, JWT sessions. The JWT carries uid, role and sv (the
  * user's session_version); getCurrentUser() re-reads the user on every request, so the
  * role here is for display and a bumped session_version ends the session.
  */
 export const authOptions: NextAuthOptions = {
   secret: process.env.NEXTAUTH_SECRET,
+  useSecureCookies: secureCookiesFor(),
   session: { strategy: "jwt", maxAge: SESSION_MAX_AGE_SECONDS },
   jwt: { maxAge: SESSION_MAX_AGE_SECONDS },
   pages: { signIn: "/sign-in", error: "/sign-in" },
