@@ -115,6 +115,22 @@ function countNewlines(s: string): number {
   return n;
 }
 
+/** The refusal of a record that outgrew the cap: an open quote near its start, or a line without a break. */
+function tooLong(pending: string, line: number, maxRecordChars: number): UnreadableError {
+  const q = pending.indexOf('"');
+  const open = q >= 0 && q < 1000;
+  const mb = Math.max(1, Math.round(maxRecordChars / (1 << 20)));
+  return new UnreadableError(
+    open
+      ? `A quoted field that starts on line ${line} is never closed: more than ${mb} MB of text follows without the closing quote.`
+      : `Line ${line} runs on for more than ${mb} MB without a line break; this is not a line-based CSV file.`,
+    open
+      ? `Check line ${line}: every opening " needs a closing " (write a quote inside a quoted value as "").`
+      : "Export the data again as CSV with one row per line; check that the file is not a single long line of data or a different format.",
+    { kind: open ? "unclosed-quote" : "line-too-long", line },
+  );
+}
+
 /**
  * Read a CSV byte stream into `sink`. Throws UnreadableError when the file cannot be read;
  * returns the totals when it can.
@@ -146,6 +162,11 @@ export async function readCsv(
   let blankLines = 0;
   let headerSeen = opts.range !== undefined;
   let lastProgress = 0;
+  // whether a line break arrived since the pending text was last tokenized (searched in each new
+  // piece only: searching the pending text would flatten it again and again), and the length the
+  // pending text must reach before a parse that ended no record is tried again
+  let breakSince = false;
+  let retryAt = 0;
 
   const feed = (last: boolean) => {
     if (!parser && meta) parser = new Papa.Parser({ delimiter: meta.delimiter, newline: meta.newline as "\n", quoteChar: '"' });
@@ -164,6 +185,8 @@ export async function readCsv(
         line += n;
         records += recs;
         text = text.substring(cut);
+        breakSince = false;
+        retryAt = 0;
         if (opts.onProgress && (records - lastProgress >= 50_000 || last)) {
           lastProgress = records;
           opts.onProgress({ rows: records, bytes });
@@ -171,6 +194,15 @@ export async function readCsv(
         return;
       }
     }
+    if (!last && text.length <= limits.maxRecordChars) {
+      // No record can have ended since the last tokenizing: no line break in the pending text
+      // (a 20 MB line), or it has not doubled since a parse found no record end (an open quote).
+      // Tokenizing again would only re-read it; wait for more text, up to the record cap.
+      if (!breakSince || text.length < retryAt) return;
+    } else if (!last && !breakSince) {
+      throw tooLong(text, line, limits.maxRecordChars);
+    }
+    breakSince = false;
     const res = parser!.parse(text, 0, !last) as { data: string[][]; errors: { code: string; row: number }[]; meta: { cursor: number } };
     const hasQuote = text.indexOf('"') >= 0;
     const checkFields = text.length > limits.maxFieldChars;
@@ -221,19 +253,10 @@ export async function readCsv(
       rows.push(f);
       lines.push(start);
     }
+    // a parse that ended no record is tried again only once the pending text has doubled
+    retryAt = res.meta.cursor === 0 && res.data.length === 0 ? text.length * 2 : 0;
     text = text.substring(res.meta.cursor);
-    if (text.length > limits.maxRecordChars) {
-      const open = text.indexOf('"') >= 0 && text.indexOf('"') < 1000;
-      throw new UnreadableError(
-        open
-          ? `A quoted field that starts on line ${line} is never closed: more than ${(limits.maxRecordChars / (1 << 20)).toFixed(0)} MB of text follows without the closing quote.`
-          : `Line ${line} runs on for more than ${(limits.maxRecordChars / (1 << 20)).toFixed(0)} MB without a line break; this is not a line-based CSV file.`,
-        open
-          ? `Check line ${line}: every opening " needs a closing " (write a quote inside a quoted value as "").`
-          : "Export the data again as CSV with one row per line; check that the file is not a single long line of data or a different format.",
-        { kind: open ? "unclosed-quote" : "line-too-long", line },
-      );
-    }
+    if (text.length > limits.maxRecordChars) throw tooLong(text, line, limits.maxRecordChars);
     records += rows.length;
     if (rows.length) sink.onRecords(rows, lines);
     if (opts.onProgress && (records - lastProgress >= 50_000 || last)) {
@@ -259,7 +282,9 @@ export async function readCsv(
         chunk = merged;
       }
       checkBinary(chunk, bytes);
-      text += utf8.decode(chunk, bytes, false);
+      const piece = utf8.decode(chunk, bytes, false);
+      if (!breakSince && (piece.indexOf("\n") >= 0 || piece.indexOf("\r") >= 0)) breakSince = true;
+      text += piece;
       bytes += chunk.length;
       feed(false);
     }

@@ -7,91 +7,72 @@
 import { describe, expect, test } from "vitest";
 import { checkBatch } from "@/lib/readiness";
 import { HEADER, chunks, cleanRows, csvOf, plan, webStream } from "../fixtures/engine/data";
+import { ENGINE_DATASET, hostileFile, hostileFiles, type HostileOutcome } from "../fixtures/hostile-files";
 
 const P = plan();
-const enc = (s: string) => new TextEncoder().encode(s);
-const cat = (...parts: (Uint8Array | number[])[]) => {
-  const out = new Uint8Array(parts.reduce((n, p) => n + p.length, 0));
-  let o = 0;
-  for (const p of parts) {
-    out.set(p, o);
-    o += p.length;
-  }
-  return out;
-};
-const clean = csvOf(HEADER, cleanRows(40));
+const CASES = hostileFiles(ENGINE_DATASET);
+const bytesOf = (id: string) => hostileFile(ENGINE_DATASET, id).bytes();
 
-function utf16le(s: string, bom: boolean): Uint8Array {
-  const out = new Uint8Array((bom ? 2 : 0) + s.length * 2);
-  let o = 0;
-  if (bom) {
-    out[0] = 0xff;
-    out[1] = 0xfe;
-    o = 2;
-  }
-  for (let i = 0; i < s.length; i++) {
-    out[o++] = s.charCodeAt(i) & 0xff;
-    out[o++] = s.charCodeAt(i) >> 8;
-  }
-  return out;
-}
-
-describe("unreadable files get status unreadable and an actionable file.unreadable finding", () => {
-  test.each([
-    { name: "empty file", bytes: new Uint8Array(0), expect: /empty/i, fix: /export/i },
-    { name: "only a BOM and blank lines", bytes: cat([0xef, 0xbb, 0xbf], enc("\n\n")), expect: /no text/i, fix: /header/i },
-    { name: "xlsx workbook (zip signature PK\\x03\\x04)", bytes: cat([0x50, 0x4b, 0x03, 0x04], new Uint8Array(200)), expect: /Excel workbook/, fix: /CSV/ },
-    { name: "old .xls (OLE2 signature)", bytes: cat([0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1], new Uint8Array(200)), expect: /\.xls/, fix: /CSV/ },
-    { name: "UTF-16 with BOM", bytes: utf16le(clean.slice(0, 400), true), expect: /UTF-16/, fix: /UTF-8/ },
-    { name: "UTF-16 without BOM (NUL pattern)", bytes: utf16le(clean.slice(0, 400), false), expect: /UTF-16/, fix: /UTF-8/ },
-    // "plot_id,soil\n" is 13 bytes, so the NUL written after it is byte 13
-    { name: "NUL byte in text", bytes: cat(enc("plot_id,soil\n"), [0], enc("1,clay\n")), expect: /binary content at byte 13/, fix: /CSV/ },
-    { name: "binary bytes at byte 0", bytes: cat([0, 1, 2, 3, 4, 5, 6, 7, 8, 9]), expect: /byte 0/, fix: /CSV/ },
-    // "soil\n" is 5 bytes; 0xE9 is Latin-1 "é" (argil\xe9e)
-    { name: "Latin-1 text", bytes: cat(enc("soil\n"), enc("argil"), [0xe9], enc("e\n")), expect: /not valid UTF-8: byte 10.*Latin-1/, fix: /UTF-8/ },
-    { name: "unclosed quote at the end", bytes: enc(`${HEADER.join(",")}\n1,"harrowgate,loam\n2,x\n`), expect: /never closed/, fix: /closing "/ },
-  ])("$name", async ({ bytes, expect: msg, fix }) => {
-    const r = await checkBatch(chunks(bytes, 64), P);
+describe("the bad-input list (tests/fixtures/hostile-files.ts): each case ends in the outcome it promises", () => {
+  test.each(CASES.filter((c) => c.expect.kind !== "checked"))("$name: unreadable, one actionable file.unreadable blocker", async (c) => {
+    // a file the intake refuses must still be refused by the engine if it ever reached it
+    const want = c.expect.kind === "refused" ? c.expect.engine : (c.expect as { message: RegExp; fix: RegExp });
+    const r = await checkBatch(chunks(c.bytes(), 64 << 10), P);
     expect(r.status).toBe("unreadable");
     const f = r.findings.find((x) => x.code === "file.unreadable");
     expect(f?.severity).toBe("blocker");
-    expect(f?.message).toMatch(msg);
-    expect(f?.fix).toMatch(fix);
+    expect(f?.message).toMatch(want.message);
+    expect(f?.fix).toMatch(want.fix);
     expect(r.counts.blocker).toBe(1);
+  });
+
+  test.each(CASES.filter((c) => c.expect.kind === "checked"))("$name: read and reported with its findings", async (c) => {
+    const want = c.expect as Extract<HostileOutcome, { kind: "checked" }>;
+    const r = await checkBatch(chunks(c.bytes(), 333), P);
+    expect(r.status).toBe("checked");
+    const codes = r.findings.map((f) => f.code);
+    for (const code of want.findings) expect(codes).toContain(code);
+    for (const [code, rows] of Object.entries(want.rows ?? {})) expect(r.findings.find((f) => f.code === code)?.rows).toEqual(rows);
+    if (want.file?.delimiter) expect(r.file?.delimiter).toBe(want.file.delimiter);
+    if (want.file?.decimal) expect(r.file?.decimal).toBe(want.file.decimal);
   });
 });
 
 describe("bounded memory on pathological files", () => {
-  test("a 20 MB line without a newline is refused with bounded heap growth", async () => {
-    const size = 20 << 20;
-    async function* gen() {
-      yield enc(`${HEADER.join(",")}\n`);
-      const block = enc("1234567,".repeat(8192)); // 64 KiB
-      for (let i = 0; i < size / block.length; i++) yield block;
-    }
+  /** Peak heap growth while checking `bytes` (sampled at every progress report and at the end). */
+  async function peakGrowth(bytes: Uint8Array) {
     global.gc?.();
     const before = process.memoryUsage().heapUsed;
     let peak = before;
-    const r = await checkBatch(gen(), P, { onProgress: () => (peak = Math.max(peak, process.memoryUsage().heapUsed)) });
+    const r = await checkBatch(chunks(bytes, 1 << 16), P, { onProgress: () => (peak = Math.max(peak, process.memoryUsage().heapUsed)) });
     peak = Math.max(peak, process.memoryUsage().heapUsed);
+    return { r, growth: peak - before };
+  }
+
+  test("a 20 MB line without a newline is refused with bounded heap growth", async () => {
+    const { r, growth } = await peakGrowth(bytesOf("long-line"));
     expect(r.status).toBe("unreadable");
     expect(r.findings[0]!.message).toMatch(/Line 2 runs on for more than 4 MB without a line break/);
     // the record cap is 4 Mi characters; allow for copies while concatenating (limit chosen well under the 20 MB input)
-    expect(peak - before).toBeLessThan(64 << 20);
+    expect(growth).toBeLessThan(64 << 20);
   });
 
   test("50,000 columns are refused with a message, bounded heap growth", async () => {
-    const header = Array.from({ length: 50_000 }, (_, i) => `c${i}`).join(",");
-    const row = Array.from({ length: 50_000 }, () => "1").join(",");
-    const before = process.memoryUsage().heapUsed;
-    const r = await checkBatch(chunks(`${header}\n${row}\n${row}\n`, 1 << 16), P);
+    const { r, growth } = await peakGrowth(bytesOf("wide"));
     expect(r.status).toBe("unreadable");
     expect(r.findings[0]!.message).toMatch(/50,000 columns; the engine reads at most 2,000/);
     expect(r.findings[0]!.fix).toMatch(/delimiter/);
-    expect(process.memoryUsage().heapUsed - before).toBeLessThan(64 << 20);
+    expect(growth).toBeLessThan(64 << 20);
   });
 
   test("an unclosed quote that swallows a large file is refused once the record passes the cap", async () => {
+    const { r, growth } = await peakGrowth(bytesOf("unclosed-quote-large"));
+    expect(r.status).toBe("unreadable");
+    expect(r.findings[0]!.message).toMatch(/quoted field that starts on line 2 is never closed: more than 4 MB/);
+    expect(growth).toBeLessThan(64 << 20);
+  });
+
+  test("with a tighter record cap an unclosed quote is refused as soon as the record passes it", async () => {
     const body = csvOf(HEADER, cleanRows(30_000));
     const text = `${HEADER.join(",")}\n1,"harrowgate,loam,A,1,1,1,2026-04-01,1\n${body}`;
     const r = await checkBatch(chunks(text, 1 << 16), P, { limits: { maxRecordChars: 200_000 } });
@@ -134,15 +115,14 @@ describe("readable variants", () => {
   });
 
   test("header only: checked, df.none", async () => {
-    const r = await checkBatch(chunks(HEADER.join(",") + "\n"), P);
+    const r = await checkBatch(chunks(bytesOf("header-only")), P);
     expect(r.status).toBe("checked");
     expect(r.rows.total).toBe(0);
     expect(r.findings.map((f) => f.code)).toContain("df.none");
   });
 
   test("all values missing in a predictor: missing.column blocker and df.none", async () => {
-    const rows2 = cleanRows(30).map((r) => r.map((v, j) => (j === 5 ? "" : v)));
-    const r = await checkBatch(chunks(csvOf(HEADER, rows2)), P);
+    const r = await checkBatch(chunks(bytesOf("column-missing")), P);
     const m = r.findings.find((f) => f.code === "missing.column" && f.columns[0] === "irrigation");
     expect(m?.severity).toBe("blocker");
     expect(m?.rowCount).toBe(30);
@@ -150,8 +130,7 @@ describe("readable variants", () => {
   });
 
   test("semicolons with decimal commas: read, and number.decimal-comma says how to fix", async () => {
-    const text = csvOf(HEADER, cleanRows(30).map((r) => r.map((v) => (typeof v === "number" && !Number.isInteger(v) ? String(v).replace(".", ",") : v))), ";");
-    const r = await checkBatch(chunks(text), P);
+    const r = await checkBatch(chunks(bytesOf("decimal-comma")), P);
     expect(r.status).toBe("checked");
     expect(r.file?.delimiter).toBe(";");
     expect(r.file?.decimal).toBe(",");
