@@ -3,6 +3,12 @@
  * Any number of workers, on any number of machines, claim jobs with
  * SELECT … FOR UPDATE SKIP LOCKED; a job whose worker stopped sending heartbeats is
  * claimed again, and a job that failed MAX_ATTEMPTS times is marked failed.
+ *
+ * What counts as an attempt: every claim (a worker that dies mid-file — even one killed
+ * by the file itself — has used one). A failed check (file not fetchable, plan invalid)
+ * uses one. A database outage does not: the worker waits for the database and stores the
+ * report it already has. A job handed back at a graceful stop (releaseJob) gets its
+ * attempt back.
  */
 import { and, asc, eq, lte, or, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
@@ -11,11 +17,26 @@ import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/sche
 import type { ReadinessReport } from "@/lib/readiness/report";
 
 export const MAX_ATTEMPTS = 3;
-/** a running job without a heartbeat for this long belongs to a dead worker */
-export const STALE_AFTER_MS = 60_000;
+
+/** A positive whole number of milliseconds from the environment, else the default. */
+export function msFromEnv(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw.trim() === "") return fallback;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
+  return n;
+}
+
+/**
+ * A running job without a heartbeat for this long belongs to a dead worker and is claimed
+ * again. TRIBUTARY_JOB_STALE_MS (default 60 000); workers send heartbeats every quarter of it.
+ */
+export const STALE_AFTER_MS = msFromEnv("TRIBUTARY_JOB_STALE_MS", 60_000);
 
 export interface ClaimedJob {
   jobId: number;
+  /** the worker holding the claim; heartbeats, completion and release check it */
+  workerId: string;
   attempt: number;
   batchVersionId: number;
   batchId: number;
@@ -85,6 +106,7 @@ export async function claimJob(db: Db, workerId: string, now = new Date()): Prom
     }
     return {
       jobId: job.id,
+      workerId,
       attempt: job.attempts + 1,
       batchVersionId: job.batchVersionId,
       batchId: row.batchId,
@@ -98,23 +120,37 @@ export async function claimJob(db: Db, workerId: string, now = new Date()): Prom
   });
 }
 
-/** Record progress and prove the worker is alive. */
-export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: number; bytes: number }): Promise<void> {
+/** This worker's claim on the job, as a condition: it is still running and still ours. */
+function ours(job: ClaimedJob) {
+  return and(eq(checkJobs.id, job.jobId), eq(checkJobs.status, "running"), eq(checkJobs.lockedBy, job.workerId));
+}
+
+/**
+ * Record progress and prove the worker is alive. Returns false when the claim is no longer
+ * this worker's (it was taken over as stale, or finished by another worker).
+ */
+export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: number; bytes: number }): Promise<boolean> {
   const now = new Date();
-  await db.update(checkJobs).set({ heartbeatAt: now }).where(eq(checkJobs.id, job.jobId));
+  const [res] = await db.update(checkJobs).set({ heartbeatAt: now }).where(ours(job));
+  if (res.affectedRows === 0) return false;
   await db
     .update(batchVersions)
     .set({ progressRows: progress.rows, progressBytes: progress.bytes })
     .where(and(eq(batchVersions.id, job.batchVersionId), eq(batchVersions.state, "checking")));
+  return true;
 }
 
 /**
  * Store the report and move the version on, all in one transaction: a report is either
- * written whole with its state change and audit row, or not at all.
+ * written whole with its state change and audit row, or not at all. Safe to repeat: when
+ * the job is already done (a retry after a COMMIT whose answer was lost, or another worker
+ * that took the job over finished first) nothing is written and false is returned.
  */
-export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessReport): Promise<void> {
+export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessReport): Promise<boolean> {
   const now = new Date();
-  await db.transaction(async (tx) => {
+  return db.transaction(async (tx) => {
+    const [jobRow] = await tx.select({ status: checkJobs.status }).from(checkJobs).where(eq(checkJobs.id, job.jobId)).for("update");
+    if (!jobRow || jobRow.status === "done") return false;
     const [current] = await tx
       .select({ state: batchVersions.state })
       .from(batchVersions)
@@ -160,10 +196,14 @@ export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessRepo
         engineVersion: report.engineVersion,
       },
     });
+    return true;
   });
 }
 
-/** A failed attempt: back off and let another attempt (or worker) try again. */
+/**
+ * A failed attempt: back off and let another attempt (or worker) try again; after
+ * MAX_ATTEMPTS the job is marked failed. Does nothing when the claim is no longer ours.
+ */
 export async function failJob(db: Db, job: ClaimedJob, error: unknown): Promise<void> {
   const message = error instanceof Error ? error.message : String(error);
   const final = job.attempt >= MAX_ATTEMPTS;
@@ -177,7 +217,27 @@ export async function failJob(db: Db, job: ClaimedJob, error: unknown): Promise<
       finishedAt: final ? new Date() : null,
       lockedBy: null,
     })
-    .where(eq(checkJobs.id, job.jobId));
+    .where(ours(job));
+}
+
+/**
+ * Hand a claimed job back to the queue at a graceful stop: runnable at once by any worker,
+ * with its attempt given back (the stop was ours, not the file's), and its version shown as
+ * received again. Returns false when the claim was no longer ours.
+ */
+export async function releaseJob(db: Db, job: ClaimedJob): Promise<boolean> {
+  return db.transaction(async (tx) => {
+    const [res] = await tx
+      .update(checkJobs)
+      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: new Date() })
+      .where(ours(job));
+    if (res.affectedRows === 0) return false;
+    await tx
+      .update(batchVersions)
+      .set({ state: "received", stateChangedAt: new Date(), progressRows: 0, progressBytes: 0 })
+      .where(and(eq(batchVersions.id, job.batchVersionId), eq(batchVersions.state, "checking")));
+    return true;
+  });
 }
 
 /** An admin sends a failed job round again: three fresh attempts, from now. */

@@ -1,28 +1,42 @@
 /**
  * The worker process: runs the check queue and the e-mail outbox until stopped.
  * Start as many as you like, on as many machines as share the database.
+ *
+ * SIGTERM / SIGINT stop it gracefully: no new claims; the check in hand may finish within
+ * TRIBUTARY_WORKER_STOP_GRACE_MS (default 10 000), else it is handed back to the queue
+ * without using up an attempt; then the process exits 0. A second signal exits at once
+ * (the job in hand is then taken again after the stale timeout, TRIBUTARY_JOB_STALE_MS).
  */
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/digest/schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/uploads";
+import { msFromEnv } from "./check-jobs";
 import { defaultWorkerId, runWorker } from "./worker";
 
 const controller = new AbortController();
 const log = (line: string) => console.log(`[worker] ${line}`);
+const stopGraceMs = msFromEnv("TRIBUTARY_WORKER_STOP_GRACE_MS", 10_000);
+const pollMs = msFromEnv("TRIBUTARY_WORKER_POLL_MS", 1_000);
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
-    log(`${sig}: finishing the current job, then stopping`);
+    if (controller.signal.aborted) {
+      log(`${sig} again: stopping now`);
+      process.exit(1);
+    }
+    log(`${sig}: no new jobs; the current check may finish within ${stopGraceMs} ms, else it goes back to the queue`);
     controller.abort();
   });
 }
+// a stray rejection (e.g. a pool error event while the database restarts) is logged, not fatal
+process.on("unhandledRejection", (reason) => log(`unhandled rejection: ${reason instanceof Error ? reason.message : String(reason)}`));
 
 const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
-  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, log }),
+  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
 ]);
-await getPool().end();
+await getPool().end().catch(() => undefined);
 log("stopped");
