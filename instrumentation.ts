@@ -7,10 +7,7 @@ export async function register(): Promise<void> {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   // `next build` loads the hook too and needs no settings
   if (process.env.NEXT_PHASE === "phase-production-build") return;
-  const { checkEnv } = await import("./lib/env");
-  const r = checkEnv(process.env);
-  if (r.ok) return;
-  console.error(`[tributary] refusing to start.\n${r.message}`);
-  // an error thrown here is only logged by some Next versions: end the process ourselves
-  process.exit(1);
+  // an error thrown here is only logged by some Next versions: the check ends the process itself
+  const { exitUnlessEnvOk } = await import("./lib/env");
+  exitUnlessEnvOk("tributary");
 }

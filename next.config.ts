@@ -28,6 +28,10 @@ const securityHeaders = [
   { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
   { key: "X-Frame-Options", value: "DENY" },
   { key: "Permissions-Policy", value: "camera=(), microphone=(), geolocation=()" },
+  // no window another site opens can reach back into ours
+  { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
+  // browsers heed it only over https (RFC 6797 §8.1), so the plain-http demo is unaffected
+  ...(isDev ? [] : [{ key: "Strict-Transport-Security", value: "max-age=31536000; includeSubDomains" }]),
 ];
 
 const nextConfig: NextConfig = {

@@ -122,3 +122,14 @@ export function env(): Env {
   cached = r.env;
   return cached;
 }
+
+/**
+ * For start-up hooks: checks the environment and, when it is not right, prints what to set
+ * and ends the process with status 1 (Node only; the edge runtime has no process.exit).
+ */
+export function exitUnlessEnvOk(who: string): void {
+  const r = checkEnv(process.env);
+  if (r.ok) return;
+  console.error(`[${who}] refusing to start.\n${r.message}`);
+  process.exit(1);
+}
