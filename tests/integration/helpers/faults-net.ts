@@ -1,8 +1,8 @@
 /**
  * Network pieces for the fault tests: a gate in front of the upload fake's file downloads
  * that can hold a download mid-file until the test lets it go (so "mid-file" is a fact, not
- * a race), a proxy that drops an upload after some bytes (the store dying mid-upload), and
- * storing a file in the fake the way the app does.
+ * a race), a switch in front of the whole service that can take it down or cut uploads
+ * mid-body, and storing a file in the fake the way the app does.
  */
 import { createServer, request, type IncomingMessage, type Server, type ServerResponse } from "node:http";
 import type { AddressInfo, Socket } from "node:net";
@@ -105,29 +105,56 @@ export async function startFileGate(targetUrl: string): Promise<FileGate> {
   });
 }
 
-/** A proxy that forwards to `targetUrl` but cuts every PUT (an upload) after `bytes` bytes of its body. */
-export async function startDroppingProxy(targetUrl: string, bytes: number): Promise<Served & { dropped: number }> {
+export type ServiceSwitch = Served & {
+  /** stop listening: connections to the service's address are refused, open ones cut */
+  down(): Promise<void>;
+  /** listen again on the same port */
+  up(): Promise<void>;
+  /** cut every upload (PUT) after this many body bytes; null lets them through */
+  dropPutsAfter: number | null;
+  /** uploads cut so far */
+  dropped: number;
+};
+
+/**
+ * The upload service's address as the app sees it: forwards to the fake at `targetUrl`, and
+ * can go down (refusing connections, like a stopped service) or cut uploads mid-body.
+ */
+export async function startServiceSwitch(targetUrl: string): Promise<ServiceSwitch> {
   const target = new URL(targetUrl);
   const sockets = new Set<Socket>();
-  const stats = { dropped: 0 };
+  const sw = { dropPutsAfter: null, dropped: 0 } as unknown as ServiceSwitch;
   const server = createServer((req, res) => {
     const up = forward(req, target, (down) => {
       res.writeHead(down.statusCode ?? 502, down.headers);
       down.pipe(res);
     }, res);
-    if (req.method !== "PUT") return void req.pipe(up);
+    const limit = sw.dropPutsAfter;
+    if (req.method !== "PUT" || limit === null) return void req.pipe(up);
     let seen = 0;
     req.on("data", (chunk: Buffer) => {
       seen += chunk.length;
-      if (seen <= bytes) return void up.write(chunk);
-      stats.dropped++;
+      if (seen <= limit) return void up.write(chunk);
+      if (req.socket.destroyed) return;
+      sw.dropped++;
       up.destroy();
       req.socket.destroy();
     });
     req.on("end", () => up.end());
   });
   const served = await listen(server, sockets);
-  return Object.assign(stats, served);
+  return Object.assign(sw, served, {
+    down: () =>
+      new Promise<void>((resolve) => {
+        for (const s of sockets) s.destroy();
+        server.close(() => resolve());
+      }),
+    up: () =>
+      new Promise<void>((resolve, reject) => {
+        server.once("error", reject);
+        server.listen(served.port, "127.0.0.1", () => resolve());
+      }),
+  });
 }
 
 /** Stores `csv` in the upload service at `serviceUrl` as the app does (private attachment); returns key and URL. */
