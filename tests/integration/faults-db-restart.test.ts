@@ -12,13 +12,14 @@ import { mkdtemp, rm } from "node:fs/promises";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, inject, it } from "vitest";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import type mysql from "mysql2/promise";
 import type { Db } from "@/db/client";
 import { batchVersions, checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
 import { recordBatchVersion } from "@/lib/intake/record-upload";
+import { isDbUnavailable } from "@/lib/jobs/db-retry";
 import { killAllWorkers, loadTemplate, openDb, outcome, PRIVATE_DB, privateDb, startWorker, waitFor } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
 
@@ -95,6 +96,12 @@ describe("the database stopped and started during a check", () => {
     privateDb("stop");
     gate.release();
     await worker.waitForLine(new RegExp(`database unavailable while storing the report of job ${job.id}`));
+    // what the worker saw: an outage, told apart from a query that is simply wrong
+    const probe = openDb(url);
+    const outage = await probe.db.select().from(checkJobs).then(() => null, (e: unknown) => e);
+    await probe.pool.end();
+    expect(outage).not.toBeNull();
+    expect(isDbUnavailable(outage)).toBe(true);
     // it keeps retrying while the database is down, and the process stays up
     await new Promise((r) => setTimeout(r, 1_500));
     expect(worker.alive()).toBe(true);
@@ -106,6 +113,9 @@ describe("the database stopped and started during a check", () => {
     expect(worker.alive()).toBe(true);
 
     conn = openDb(url);
+    const wrong = await conn.db.execute(sql`SELECT no_such_column FROM check_jobs`).then(() => null, (e: unknown) => e);
+    expect(wrong).not.toBeNull();
+    expect(isDbUnavailable(wrong)).toBe(false);
     const o = (await outcome(conn.db, [versionId])).get(versionId)!;
     expect(o.reports).toHaveLength(1);
     expect(o.reports[0]!.status).toBe("checked");
