@@ -6,6 +6,8 @@
  * TRIBUTARY_WORKER_STOP_GRACE_MS (default 10 000), else it is handed back to the queue
  * without using up an attempt; then the process exits 0. A second signal exits at once
  * (the job in hand is then taken again after the stale timeout, TRIBUTARY_JOB_STALE_MS).
+ * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
+ * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  */
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/digest/schedule";
@@ -18,6 +20,7 @@ const controller = new AbortController();
 const log = (line: string) => console.log(`[worker] ${line}`);
 const stopGraceMs = msFromEnv("TRIBUTARY_WORKER_STOP_GRACE_MS", 10_000);
 const pollMs = msFromEnv("TRIBUTARY_WORKER_POLL_MS", 1_000);
+const stallMs = msFromEnv("TRIBUTARY_JOB_STALL_MS", 120_000);
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
     if (controller.signal.aborted) {
@@ -34,7 +37,7 @@ process.on("unhandledRejection", (reason) => log(`unhandled rejection: ${reason 
 const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
-  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, log }),
+  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
 ]);

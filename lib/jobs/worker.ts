@@ -31,6 +31,8 @@ export interface WorkerOptions {
   progressEveryMs?: number;
   /** how often a heartbeat is sent even without progress (default a quarter of the stale timeout) */
   heartbeatEveryMs?: number;
+  /** a file download that sends nothing for this long fails the attempt (default 120 s) */
+  stallMs?: number;
   log?: (line: string) => void;
 }
 
@@ -48,12 +50,23 @@ class StopRequested extends Error {
 
 const yieldToLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
+/** `promise`, or a rejection with `message` when it takes longer than `ms`. */
+function within<T>(promise: Promise<T>, ms: number, message: string): Promise<T> {
+  let timer: NodeJS.Timeout | undefined;
+  const timeout = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(new Error(message)), ms);
+  });
+  return Promise.race([promise, timeout]).finally(() => clearTimeout(timer));
+}
+
 /**
- * `stream`, erroring with `reason` as soon as `signal` aborts (and cancelling the source).
- * It also lets timers and sockets run at least every 50 ms: buffered chunks otherwise reach
- * the engine as microtasks only, and a busy check would starve its own heartbeats.
+ * `stream`, erroring with `reason` as soon as `signal` aborts (and cancelling the source), and
+ * with a plain error when no bytes come for `stallMs` (heartbeats would otherwise keep a hung
+ * download's job claimed for ever). It also lets timers and sockets run at least every 50 ms:
+ * buffered chunks otherwise reach the engine as microtasks only, and a busy check would
+ * starve its own heartbeats.
  */
-function abortable(stream: ReadableStream<Uint8Array>, signal: AbortSignal): ReadableStream<Uint8Array> {
+function abortable(stream: ReadableStream<Uint8Array>, signal: AbortSignal, stallMs: number): ReadableStream<Uint8Array> {
   const reader = stream.getReader();
   let onAbort: (() => void) | undefined;
   let lastYield = Date.now();
@@ -72,14 +85,16 @@ function abortable(stream: ReadableStream<Uint8Array>, signal: AbortSignal): Rea
           await yieldToLoop();
           lastYield = Date.now();
         }
-        const r = await reader.read();
+        const r = await within(reader.read(), stallMs, `The upload service sent no data for ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
         if (signal.aborted) return;
         if (r.done) {
           signal.removeEventListener("abort", onAbort!);
           controller.close();
         } else controller.enqueue(r.value);
       } catch (e) {
-        if (!signal.aborted) controller.error(e);
+        if (signal.aborted) return;
+        controller.error(e);
+        reader.cancel(e).catch(() => undefined);
       }
     },
     cancel(reason) {
@@ -140,7 +155,9 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
     try {
       const parsed = parsePlan(job.plan);
       if (!parsed.ok) throw new Error(`The stored data plan is not valid: ${parsed.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`);
-      const stream = abortable(await openFile(job.fileKey), stopJob.signal);
+      const stallMs = opts.stallMs ?? 120_000;
+      const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
+      const stream = abortable(opened, stopJob.signal, stallMs);
       report = await checkBatch(stream, parsed.plan, {
         fileName: job.fileName,
         onProgress: (p) => {

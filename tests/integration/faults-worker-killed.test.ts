@@ -22,10 +22,12 @@ import { drainQueue } from "./helpers/pipeline";
 
 const ROWS = 60_000;
 const STALE_MS = 2_000;
+const STALL_MS = 6_000;
 const token = process.env.UPLOADTHING_TOKEN!;
 let dir = "";
 let fake: UploadFake;
 let gate: FileGate;
+let survivor: WorkerProcess | undefined;
 
 beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-faults-kill-"));
@@ -51,21 +53,27 @@ function workerEnv(): Record<string, string> {
     // downloads go through the gate (the SDK signs URLs for this host)
     UPLOADTHING_UFS_HOST: `localhost:${gate.port}`,
     TRIBUTARY_JOB_STALE_MS: String(STALE_MS),
+    // longer than the stall below, which heartbeats must bridge
+    TRIBUTARY_JOB_STALL_MS: String(STALL_MS),
   };
 }
 
-describe("a worker killed mid-file", () => {
-  it("the job is taken over by another worker after the stale timeout and ends with exactly one report", async () => {
-    const db = getDb();
-    const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
-    const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
-    const csv = toCsv(BARLEY_HEADER, barleyRows("KL", ROWS, 707));
-    const file = await storeFile(fake.url, token, csv, "harrowgate-large.csv");
-    const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id, title: "Large season file" }, file);
-    if (!recorded.ok) throw new Error(recorded.message);
-    const versionId = recorded.data.batchVersionId;
+async function queueLarge(seed: number, name: string): Promise<{ versionId: number; size: number }> {
+  const db = getDb();
+  const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
+  const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
+  const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("KL", ROWS, seed)), name);
+  const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id, title: "Large season file" }, file);
+  if (!recorded.ok) throw new Error(recorded.message);
+  return { versionId: recorded.data.batchVersionId, size: file.size };
+}
 
-    const heldAt = Math.floor(file.size * 0.4);
+describe("a worker killed mid-file", () => {
+  it("the job is taken over by another worker after the stale timeout and ends with exactly one report", { timeout: 180_000 }, async () => {
+    const db = getDb();
+    const { versionId, size } = await queueLarge(707, "harrowgate-large.csv");
+
+    const heldAt = Math.floor(size * 0.4);
     const held = gate.holdNext(heldAt);
     const workers: WorkerProcess[] = [startWorker(workerEnv()), startWorker(workerEnv())];
     await held;
@@ -75,7 +83,7 @@ describe("a worker killed mid-file", () => {
       return j?.status === "running" && j.lockedBy ? j : null;
     });
     const victim = workers.find((w) => job.lockedBy!.includes(`:${w.pid}:`));
-    const survivor = workers.find((w) => w !== victim);
+    survivor = workers.find((w) => w !== victim);
     expect(victim, `the job is locked by one of our workers (${job.lockedBy})`).toBeDefined();
     expect(job.attempts).toBe(1);
 
@@ -111,5 +119,31 @@ describe("a worker killed mid-file", () => {
     expect(o.audit).toEqual(["batch.checked", "batch.received"]);
     expect(survivor!.alive()).toBe(true);
     await survivor!.waitForLine(new RegExp(`check job ${job.id} done: report stored \\(${ROWS} rows\\)`));
+  });
+
+  it("a download that hangs mid-file fails that attempt; the next attempt checks the batch", { timeout: 120_000 }, async () => {
+    const db = getDb();
+    const w = survivor!;
+    const { versionId, size } = await queueLarge(708, "harrowgate-hanging.csv");
+    // the service stops sending mid-file and never resumes (the gate is not released)
+    await gate.holdNext(Math.floor(size * 0.4));
+    const [job] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
+    await w.waitForLine(new RegExp(`check job ${job!.id} attempt 1 failed: The upload service sent no data for 6 s`), 30_000);
+    // the failure is recorded (the job goes back to the queue for 2 s, then is claimed again)
+    const failed = await waitFor("the failed attempt to be recorded", async () => {
+      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
+      return j?.lastError ? j : null;
+    });
+    expect(failed.lastError).toMatch(/sent no data for 6 s; the check is tried again later/);
+    expect(failed.status).not.toBe("failed");
+    const done = await waitFor("the second attempt to finish", async () => {
+      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
+      return j?.status === "done" ? j : null;
+    });
+    expect(done.attempts).toBe(2);
+    const o = (await outcome(db, [versionId])).get(versionId)!;
+    expect(o.reports).toHaveLength(1);
+    expect(Number(o.reports[0]!.rows)).toBe(ROWS);
+    expect(o.state).toBe("ready");
   });
 });

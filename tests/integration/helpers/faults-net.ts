@@ -74,6 +74,7 @@ export async function startFileGate(targetUrl: string): Promise<FileGate> {
           down.pause();
           hold.reached();
           releasers.push(() => {
+            if (res.destroyed) return;
             state = "after";
             res.write(rest);
             down.resume();
