@@ -20,7 +20,7 @@ import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/uplo
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
 import { recordBatchVersion } from "@/lib/intake/record-upload";
 import { isDbUnavailable } from "@/lib/jobs/db-retry";
-import { killAllWorkers, loadTemplate, openDb, outcome, PRIVATE_DB, privateDb, startWorker, waitFor } from "./helpers/faults";
+import { killAllWorkers, loadTemplate, openDb, outcome, PRIVATE_DB, privateDb, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
 
 const NAME = "tributary_faults";
@@ -31,6 +31,7 @@ let conn: { db: Db; pool: mysql.Pool } | null = null;
 let dir = "";
 let fake: UploadFake;
 let gate: FileGate;
+let worker: WorkerProcess | undefined;
 
 beforeAll(async () => {
   privateDb("start");
@@ -70,7 +71,7 @@ describe("the database stopped and started during a check", () => {
     const versionId = recorded.data.batchVersionId;
 
     const held = gate.holdNext(Math.floor(file.size * 0.4));
-    const worker = startWorker({
+    worker = startWorker({
       DATABASE_URL: url,
       UPLOADTHING_API_URL: fake.url,
       UPLOADTHING_INGEST_URL: fake.url,
@@ -124,5 +125,29 @@ describe("the database stopped and started during a check", () => {
     expect(o.audit).toEqual(["batch.checked", "batch.received"]);
     // the outage did not use up an attempt, and left no error behind
     expect(o.jobs.map((j) => [j.status, j.attempts, j.lastError])).toEqual([["done", 1, null]]);
+  });
+
+  it("an idle worker rides out an outage and takes new work once the database is back", { timeout: 120_000 }, async () => {
+    const w = worker!;
+    await conn!.pool.end();
+    conn = null;
+    privateDb("stop");
+    await w.waitForLine(/could not claim a job \(database unavailable; waiting for it\)/, 30_000);
+    privateDb("start");
+    await w.waitForLine(/database back after \d+ failed claims?; claiming again/, 30_000);
+    expect(w.alive()).toBe(true);
+
+    conn = openDb(url);
+    const db = conn.db;
+    const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
+    const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
+    const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("DC", 500, 809)), "after-outage.csv");
+    const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id }, file);
+    if (!recorded.ok) throw new Error(recorded.message);
+    const versionId = recorded.data.batchVersionId;
+    await waitFor("the new batch to be checked", async () => (await outcome(db, [versionId])).get(versionId)!.state === "ready");
+    const o = (await outcome(db, [versionId])).get(versionId)!;
+    expect(o.reports).toHaveLength(1);
+    expect(o.jobs.map((j) => [j.status, j.attempts])).toEqual([["done", 1]]);
   });
 });
