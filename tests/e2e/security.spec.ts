@@ -4,6 +4,7 @@ import { readFileSync } from "node:fs";
 import path from "node:path";
 import { expect, test, type APIResponse, type Browser, type Page } from "@playwright/test";
 import { barleyBatches } from "../../lib/demo/batches";
+import { BatchPage } from "./pages/batch-page";
 import { SignInPage } from "./pages/sign-in-page";
 
 // Security settings of the production server (`next start` on 3410, built for production):
@@ -133,6 +134,22 @@ test("an upload with a hostile name and label shows both as text; no element is 
   const csv = await readFile(await download.path(), "utf8");
   expect(csv).toContain(`"'=HYPERLINK(""http://example.invalid"",""open"") <img src=x onerror=""window.__label=1"">"`);
   expect(csv).not.toMatch(/(^|,)"?=/m);
+  await page.context().close();
+});
+
+test("a file chosen in the browser with markup and a right-to-left override in its name is stored clean and shown as text", async ({ browser }) => {
+  const page = await as(browser, "provider@fennick.test");
+  await page.goto("/upload");
+  const batch = new BatchPage(page);
+  await batch.chooseFile("<img src=x onerror=window.__up=1>\u202Etxt.csv", CSV);
+  // the check before upload names the file as chosen, as text
+  await expect(batch.precheck).toBeVisible({ timeout: 60_000 });
+  const id = await batch.upload();
+  await expect(page.getByText("_img src=x onerror=window.__up=1_txt.csv")).toBeVisible();
+  await expect(page.locator('img[src="x"]')).toHaveCount(0);
+  expect(await page.evaluate(() => (window as unknown as Record<string, unknown>).__up)).toBeUndefined();
+  const json = (await (await page.request.get(`/api/v1/batches/${id}`)).json()) as { data: { versions: { fileName: string }[] } };
+  expect(json.data.versions[0]!.fileName).toBe("_img src=x onerror=window.__up=1_txt.csv");
   await page.context().close();
 });
 
