@@ -13,7 +13,7 @@ export const SIGN_IN_ERROR = {
 const MESSAGES: Record<string, string> = {
   [SIGN_IN_ERROR.wrongCredentials]: "That e-mail and password do not match an account. Check both and try again.",
   [SIGN_IN_ERROR.tooManyAttempts]:
-    "Too many failed sign-ins for this e-mail from your address. Wait 15 minutes and try again, or ask an administrator to reset your password.",
+    "Too many failed sign-ins for this e-mail. Wait 15 minutes and try again, or ask an administrator to reset your password.",
   [SIGN_IN_ERROR.deactivated]: "This account has been deactivated. Ask an administrator to reactivate it.",
   SessionRequired: "Sign in to continue.",
 };
