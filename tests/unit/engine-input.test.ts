@@ -1,8 +1,9 @@
 /**
  * Bad and unusual input: every case yields a report (never a throw) whose finding tells the
  * provider what to do; memory stays bounded on the pathological ones.
- * Expected messages are this product's own wording (CHECKS.md "Inputs"); byte offsets are
- * counted by hand from the invented inputs below.
+ * The bad-input list itself, with each case's promised outcome, is tests/fixtures/hostile-files.ts
+ * (shared with the API pipeline and browser tests); expected messages are this product's own
+ * wording (CHECKS.md "Inputs"); byte offsets are counted by hand there.
  */
 import { describe, expect, test } from "vitest";
 import { checkBatch } from "@/lib/readiness";
