@@ -115,6 +115,22 @@ describe("readable variants", () => {
     expect(tm?.detail?.offenders).toEqual([{ value: "abc", count: 1 }]);
   });
 
+  test("a quoted value spanning 70,000 lines (700 kB) is read whole, and the rows after it keep their line numbers", async () => {
+    // the reader waits for more text while such a record is open; nothing may be lost or renumbered
+    const rows = cleanRows(30);
+    rows[9]![1] = `"${"note line\n".repeat(70_000)}"`;
+    rows[20]![4] = "abc";
+    const text = csvOf(HEADER, rows);
+    for (const tokenizer of ["auto", "papaparse"] as const) {
+      const r = await checkBatch(chunks(text, 1 << 16), P, { tokenizer });
+      expect(r.status).toBe("checked");
+      expect(r.rows.total).toBe(30);
+      // header (1), rows 1–9 (2–10), row 10 starts on line 11 and spans 70,001 lines, so row 11 is
+      // line 70,012 and row 21 (index 20) line 70,022
+      expect(r.findings.find((f) => f.code === "type.mismatch")?.rows).toEqual([70_022]);
+    }
+  });
+
   test("header only: checked, df.none", async () => {
     const r = await checkBatch(chunks(bytesOf("header-only")), P);
     expect(r.status).toBe("checked");
