@@ -2,6 +2,8 @@
  * One typed error for the server side. Its message is safe to show; the cause (database
  * detail, stack) is logged and never sent to the browser or an API client.
  */
+import { isDbUnavailable } from "@/db/errors";
+
 export const ERROR_STATUS = {
   unauthenticated: 401,
   forbidden: 403,
@@ -47,6 +49,10 @@ export function isAppError(e: unknown): e is AppError {
 /** Turns anything thrown into an AppError; unknown errors become "internal" and are logged. */
 export function toAppError(e: unknown, context = "request"): AppError {
   if (e instanceof AppError) return e;
+  if (isDbUnavailable(e)) {
+    console.error(`[tributary] ${context}: the database is unavailable:`, e instanceof Error ? e.message : e);
+    return new AppError("unavailable", "The database is not reachable right now. Try again in a moment.", { cause: e });
+  }
   console.error(`[tributary] ${context} failed:`, e);
   return new AppError("internal", undefined, { cause: e });
 }

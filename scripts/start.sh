@@ -34,7 +34,8 @@ group_alive() { kill -0 -- "-$1" 2>/dev/null; }
 stop_groups() {
   local g i
   for g in "$@"; do group_alive "$g" && kill -TERM -- "-$g" 2>/dev/null; done
-  for ((i = 0; i < 100; i++)); do
+  # 15 s: a worker given TERM may take its grace period (10 s) to hand its job back
+  for ((i = 0; i < 150; i++)); do
     local any=0
     for g in "$@"; do group_alive "$g" && any=1; done
     (( any == 0 )) && return 0

@@ -9,12 +9,16 @@
  * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  */
+import { exitUnlessEnvOk } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/digest/schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/uploads";
 import { msFromEnv } from "./check-jobs";
 import { defaultWorkerId, runWorker } from "./worker";
+
+// refuse the demo secrets in production, and say what is missing, before touching anything
+exitUnlessEnvOk("worker");
 
 const controller = new AbortController();
 const log = (line: string) => console.log(`[worker] ${line}`);
