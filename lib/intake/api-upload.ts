@@ -10,34 +10,37 @@ import { getDb } from "@/db/client";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import type { SessionUser } from "@/lib/auth/session";
-import { isDbUnavailable } from "@/lib/jobs/db-retry";
+import { isDbUnavailable } from "@/db/errors";
 import { utapi } from "@/lib/uploads";
-import { batchFileProblem } from "./file-rules";
+import { batchFileProblem, cleanFileName } from "./file-rules";
+import type { ReceivedFile } from "./multipart-upload";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
-import { cleanFileName, studyIdBySlug } from "./upload-router";
+import { DB_DOWN, studyIdBySlug } from "./upload-router";
 
 const STORE_DOWN = "The file store could not be reached, or it broke off the upload, so the file was not stored. Nothing was recorded; try again in a moment.";
-const DB_DOWN = "The database could not be reached, so the batch was not recorded (the stored file was removed again). Nothing was recorded; try again in a moment.";
 
 export interface ApiUploadInput {
   studySlug: string;
   batchId?: string | null;
   label?: string | null;
-  file: File;
+  /** streamed to a temporary file by receiveMultipart (multipart-upload.ts) */
+  file: ReceivedFile;
 }
 
 export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInput) {
   const db = getDb();
+  // judged on the name as sent (as the browser route does), stored cleaned
+  const problem = batchFileProblem({ name: input.file.name, size: input.file.size }, env().MAX_UPLOAD_MB);
   const name = cleanFileName(input.file.name);
-  const problem = batchFileProblem({ name, size: input.file.size }, env().MAX_UPLOAD_MB);
   if (problem) throw new AppError("invalid", problem, { fieldErrors: { file: [problem] } });
   const studyId = await studyIdBySlug(input.studySlug);
   if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
   const admitted = await authoriseUpload(db, actor.id, { studyId, batchPublicId: input.batchId ?? null });
-  if (!admitted.ok) throw new AppError("forbidden", admitted.message);
+  // a study or batch outside the organisation answers like a missing one (404), not 403
+  if (!admitted.ok) throw new AppError(admitted.code ?? "forbidden", admitted.message);
 
-  const bytes = new Uint8Array(await input.file.arrayBuffer());
-  const hash = await crypto.subtle.digest("SHA-256", bytes);
+  // a disk-backed Blob: the SDK streams it to the store without reading it into memory
+  const bytes = await input.file.blob();
   const stored = await utapi()
     .uploadFiles(new UTFile([bytes], name, { type: input.file.type || "text/csv" }), { acl: "private", contentDisposition: "attachment" })
     .catch((error: unknown) => ({ data: null, error }));
@@ -52,7 +55,7 @@ export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInpu
       db,
       actor.id,
       { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
-      { key, url: stored.data.ufsUrl, name, size: input.file.size, hash: Buffer.from(hash).toString("hex") },
+      { key, url: stored.data.ufsUrl, name, size: input.file.size, hash: input.file.hash },
     );
   } catch (error) {
     // the version, its job and its audit rows are one transaction: none of them was written
@@ -62,7 +65,7 @@ export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInpu
   }
   if (!recorded.ok) {
     await forget();
-    throw new AppError("forbidden", recorded.message);
+    throw new AppError(recorded.code ?? "forbidden", recorded.message);
   }
   return recorded.data;
 }

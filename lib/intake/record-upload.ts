@@ -53,7 +53,7 @@ export async function authoriseUpload(db: Db | Tx, actorId: number, target: Uplo
     .leftJoin(studyProviders, and(eq(studyProviders.studyId, studies.id), eq(studyProviders.organisationId, actor.organisationId)))
     .where(eq(studies.id, target.studyId));
   if (!study || study.admitted === null) {
-    return { ok: false, message: "This study does not exist or your organisation is not admitted to it. Ask the study's lead to admit your organisation." };
+    return { ok: false, code: "not_found", message: "This study does not exist or your organisation is not admitted to it. Ask the study's lead to admit your organisation." };
   }
   if (study.status !== "open") return { ok: false, message: `"${study.title}" is closed and takes no more batches.` };
   if (study.planVersion === null) return { ok: false, message: `"${study.title}" has no data plan yet; batches can be sent once the lead publishes one.` };
@@ -71,7 +71,7 @@ export async function authoriseUpload(db: Db | Tx, actorId: number, target: Uplo
       .where(eq(batches.publicId, target.batchPublicId));
     // Another organisation's batch answers exactly like a missing one.
     if (!b || b.organisationId !== actor.organisationId || b.studyId !== study.id) {
-      return { ok: false, message: "That batch was not found in this study for your organisation." };
+      return { ok: false, code: "not_found", message: "That batch was not found in this study for your organisation." };
     }
     const [latest] = await db
       .select({ state: batchVersions.state })

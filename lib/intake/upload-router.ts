@@ -11,15 +11,12 @@ import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { makeFileRouter } from "@/lib/uploads/file-router";
 import { utapi } from "@/lib/uploads";
+import { isDbUnavailable } from "@/db/errors";
 import { batchFileProblem } from "./file-rules";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
 
-/** A file name as given, without any folder part or control characters. */
-export function cleanFileName(name: string): string {
-  const base = name.split(/[\\/]/).pop() ?? "";
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, "").trim();
-  return (clean || "batch.csv").slice(0, 255);
-}
+/** Said when the database fails while an upload is recorded (API and browser uploads alike). */
+export const DB_DOWN = "The database could not be reached, so the batch was not recorded (the stored file was removed again). Nothing was recorded; try again in a moment.";
 
 export async function studyIdBySlug(slug: string): Promise<number | null> {
   const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));
@@ -37,20 +34,31 @@ export const batchFileRouter = makeFileRouter({
     const studyId = await studyIdBySlug(input.studySlug);
     if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
     const ok = await authoriseUpload(getDb(), user.id, { studyId, batchPublicId: input.batchId ?? null });
-    if (!ok.ok) throw new AppError("forbidden", ok.message);
+    // a study or batch outside the organisation answers like a missing one (404), not 403
+    if (!ok.ok) throw new AppError(ok.code ?? "forbidden", ok.message);
     return { userId: user.id, studyId, batchId: input.batchId ?? null, label: input.label ?? null };
   },
   async onComplete(meta, file) {
-    const recorded = await recordBatchVersion(
-      getDb(),
-      meta.userId,
-      { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
-      { key: file.key, url: file.ufsUrl, name: cleanFileName(file.name), size: file.size, hash: file.fileHash },
-    );
+    const forget = () => utapi().deleteFiles([file.key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
+    let recorded: Awaited<ReturnType<typeof recordBatchVersion>>;
+    try {
+      // recordBatchVersion cleans the file name (file-rules.ts cleanFileName)
+      recorded = await recordBatchVersion(
+        getDb(),
+        meta.userId,
+        { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
+        { key: file.key, url: file.ufsUrl, name: file.name, size: file.size, hash: file.fileHash },
+      );
+    } catch (error) {
+      // the version, its job and its audit rows are one transaction: none was written
+      await forget();
+      if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN, { cause: error });
+      throw error;
+    }
     if (!recorded.ok) {
       // refused between the start and the end of the upload (e.g. the study closed): keep nothing
-      await utapi().deleteFiles([file.key]).catch((e) => console.error("could not delete a refused upload", e));
-      throw new AppError("forbidden", recorded.message);
+      await forget();
+      throw new AppError(recorded.code ?? "forbidden", recorded.message);
     }
     return { batchId: recorded.data.batchPublicId, version: recorded.data.version };
   },

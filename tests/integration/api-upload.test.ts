@@ -97,7 +97,7 @@ describe("POST /api/v1/batches", () => {
   });
 
   it.each([
-    ["a provider not admitted to the study", "installer@greenhearth.test", { study: "barley-nitrogen" }, "x.csv", "a,b\n1,2\n", 403, /not admitted/],
+    ["a provider not admitted to the study", "installer@greenhearth.test", { study: "barley-nitrogen" }, "x.csv", "a,b\n1,2\n", 404, /not admitted/],
     ["an empty file", "provider@fennick.test", { study: "barley-nitrogen" }, "empty.csv", "", 422, /empty \(0 bytes\)/],
     ["a workbook", "provider@fennick.test", { study: "barley-nitrogen" }, "plots.xlsx", "PK\u0003\u0004", 422, /not a CSV file/],
     ["an unknown study", "provider@fennick.test", { study: "no-such-study" }, "x.csv", "a\n1\n", 404, /does not exist/],

@@ -247,11 +247,11 @@ describe("hostile files through the API upload and the check worker", () => {
       const check = checkPeak.get(c.id)!;
       expect(check.heap, `${c.id} check heap`).toBeLessThan(32 * MB);
       expect(check.rss, `${c.id} check rss`).toBeLessThan(48 * MB);
-      // Uploading through the API holds the whole file several times at once (this test's request
-      // body, the parsed multipart body, arrayBuffer() for the hash, the UTFile and the upload
-      // service request: measured 7-8x the file size). Bounded per upload by MAX_UPLOAD_MB, not by
-      // streaming; the bound catches anything worse than those copies.
-      expect(uploadPeak.get(c.id)!.rss, `${c.id} upload rss`).toBeLessThan(9 * size + 32 * MB);
+      // Uploading through the API: the server streams the file part to a temporary file and hands
+      // the store a disk-backed Blob (lib/intake/multipart-upload.ts), so what grows is this test's
+      // own request body (1x the file) and the in-process upload fake's copy as it stores it (up to
+      // 1x), plus stream chunks. Before streaming this measured 7-8x the file (136 MB for 20 MB).
+      expect(uploadPeak.get(c.id)!.rss, `${c.id} upload rss`).toBeLessThan(2 * size + 32 * MB);
     }
   });
 });

@@ -22,8 +22,6 @@ const CASES: [string, string][] = [
   ["../../etc/passwd.csv", "passwd.csv"],
   ["..\\..\\windows\\x.csv", "x.csv"],
   ["<img src=x onerror=alert(1)>.csv", "_img src=x onerror=alert(1)_.csv"],
-  ["plots\u0007\u001b[31m\u007f.csv", "plots[31m.csv"],
-  ["nul\u0000byte.csv", "nulbyte.csv"],
   ["report\u202Evsc.csv", "reportvsc.csv"],
   ["\u200Bzero\uFEFFwidth.csv", "zerowidth.csv"],
   ['say "hi"; x=1.csv', "say _hi_; x=1.csv"],
@@ -72,6 +70,14 @@ describe("hostile file names through the API", () => {
     expect(up.status, up.body.error?.message.slice(0, 80)).toBe(201);
     const [row] = await getDb().select({ fileName: batchVersions.fileName }).from(batchVersions).innerJoin(batches, eq(batches.id, batchVersions.batchId)).where(eq(batches.publicId, up.body.data!.batchId));
     expect(row!.fileName).toBe(`${"a".repeat(196)}.csv`);
+  });
+
+  // multipart part headers may not carry control characters (RFC 7230 §3.2 field-value), so the
+  // streaming reader refuses such a part with a message (the browser route stores them cleaned)
+  it.each(["plots\u0007\u001b[31m.csv", "nul\u0000byte.csv", "del\u007f.csv"])("%j is refused before storing, saying to rename the file", async (given) => {
+    const up = await apiUpload("provider@fennick.test", { study: "barley-nitrogen", file: new File([csv], given, { type: "text/csv" }) });
+    expect(up.status).toBe(422);
+    expect(up.body.error?.message).toMatch(/control characters.*Rename the file/);
   });
 
   it("a name that is nothing but dots and slashes is refused, saying to send a CSV file", async () => {

@@ -9,6 +9,7 @@ import { listBatchesForUser } from "@/lib/dal/batches";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
 import { uploadBatchViaApi } from "@/lib/intake/api-upload";
+import { receiveMultipart } from "@/lib/intake/multipart-upload";
 
 const querySchema = z.object({
   studyId: z.coerce.number().int().positive("studyId is a positive whole number.").optional(),
@@ -33,28 +34,27 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
     throw new AppError("invalid", "Send the batch as multipart/form-data with the fields 'study' and 'file' (and 'batch' for a new version).");
   }
   const limit = env().MAX_UPLOAD_MB * 1024 * 1024;
+  const tooLarge = `The upload is larger than the ${env().MAX_UPLOAD_MB} MB limit. Split the batch into smaller files.`;
   const length = Number(req.headers.get("content-length") ?? 0);
-  if (length > limit + 64 * 1024) {
-    throw new AppError("invalid", `The upload is larger than the ${env().MAX_UPLOAD_MB} MB limit. Split the batch into smaller files.`);
-  }
-  let form: FormData;
+  if (length > limit + 64 * 1024) throw new AppError("invalid", tooLarge, { fieldErrors: { file: [tooLarge] } });
+  // the file streams to a temporary file (never whole in memory) and is removed when done
+  const upload = await receiveMultipart(req, limit, tooLarge);
+  let done: Awaited<ReturnType<typeof uploadBatchViaApi>>;
   try {
-    form = await req.formData();
-  } catch {
-    throw new AppError("invalid", "The multipart body could not be read. Send the fields 'study' and 'file'.");
+    if (!upload.file) throw new AppError("invalid", "Attach the batch file in the field 'file'.", { fieldErrors: { file: ["Attach the batch file."] } });
+    const fields = uploadFields.safeParse({
+      study: upload.fields.study,
+      batch: upload.fields.batch || undefined,
+      label: upload.fields.label || undefined,
+    });
+    if (!fields.success) {
+      const first = fields.error.issues[0];
+      throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: { [String(first?.path[0] ?? "_form")]: [first?.message ?? "invalid"] } });
+    }
+    done = await uploadBatchViaApi(actor, { studySlug: fields.data.study, batchId: fields.data.batch, label: fields.data.label, file: upload.file });
+  } finally {
+    await upload.discard();
   }
-  const file = form.get("file");
-  if (!(file instanceof File)) throw new AppError("invalid", "Attach the batch file in the field 'file'.", { fieldErrors: { file: ["Attach the batch file."] } });
-  const fields = uploadFields.safeParse({
-    study: form.get("study") ?? undefined,
-    batch: form.get("batch") || undefined,
-    label: form.get("label") || undefined,
-  });
-  if (!fields.success) {
-    const first = fields.error.issues[0];
-    throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: { [String(first?.path[0] ?? "_form")]: [first?.message ?? "invalid"] } });
-  }
-  const done = await uploadBatchViaApi(actor, { studySlug: fields.data.study, batchId: fields.data.batch, label: fields.data.label, file });
   return jsonData(
     {
       batchId: done.batchPublicId,
