@@ -107,7 +107,7 @@ for ((i = 0; i < 120; i++)); do
 done
 grep -q "fakes ready" "$LOG_DIR/fakes.log" || fail "the fakes did not report ready within 60 s ($LOG_DIR/fakes.log)."
 
-start_part app "$BIN/next" start -H 127.0.0.1 -p "$APP_PORT"
+NODE_OPTIONS="${NODE_OPTIONS:-} --import $TRIBUTARY_ROOT/scripts/load/loop-monitor.mjs" start_part app "$BIN/next" start -H 127.0.0.1 -p "$APP_PORT"
 for ((i = 0; i < 240; i++)); do
   port_open "$APP_PORT" && break
   kill -0 "${groups[-1]}" 2>/dev/null || { tail -n 30 "$LOG_DIR/app.log" >&2; fail "the app stopped during start-up."; }

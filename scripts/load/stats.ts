@@ -48,6 +48,13 @@ class Series {
 /** Collects latencies, status codes and socket errors per endpoint. */
 export class Recorder {
   private series = new Map<Endpoint, Series>();
+  /** answers to requests sent before this time (Date.now() clock) are not counted */
+  private from = -Infinity;
+
+  /** Counts only requests sent from now on (the analysts' lead-in before the uploads is not measured). */
+  measureFrom(at: number): void {
+    this.from = at;
+  }
 
   private of(endpoint: Endpoint): Series {
     let s = this.series.get(endpoint);
@@ -57,8 +64,9 @@ export class Recorder {
 
   /** One answer: its status, latency (ms), size in bytes, and body (kept for the first few errors). */
   response(endpoint: Endpoint, status: number, latencyMs: number, bytes: number, body?: string): void {
-    const s = this.of(endpoint);
     const now = Date.now();
+    if (now - latencyMs < this.from) return;
+    const s = this.of(endpoint);
     s.latencies.push(latencyMs);
     s.at.push(now);
     s.statuses.push(status);

@@ -1,4 +1,5 @@
 /** The printed table of a load run, its targets, and the JSON kept in .data/load/last.json. */
+import type { LoopFigures } from "./loop";
 import type { CheckProgress } from "./progress";
 import { ms, table, type EndpointFigures } from "./stats";
 import type { UploadOutcome } from "./traffic";
@@ -67,7 +68,7 @@ export function evaluate(s: RunSettings, figs: EndpointFigures[], uploads: Uploa
 }
 
 /** The compact table and the lines under it. */
-export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadOutcome[], p: CheckProgress, targets: Target[], extra: { checksWindowMs: number | null; uploadBurstMs: number | null; loadAvg: string; reportsOpened: number; phases: PhaseFigures[] }): string {
+export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadOutcome[], p: CheckProgress, targets: Target[], extra: { checksWindowMs: number | null; uploadBurstMs: number | null; loadAvg: string; reportsOpened: number; phases: PhaseFigures[]; loop: LoopFigures }): string {
   const rows = figs.map((f) => [
     LABEL[f.endpoint] ?? f.endpoint,
     String(f.requests),
@@ -96,6 +97,7 @@ export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadO
     `last upload → last report ${secs(lastUploadToLastReport(p))}`,
     `checks                   ${rowsTotal.toLocaleString("en")} rows in ${secs(extra.checksWindowMs)} from first upload to last report` +
       (extra.checksWindowMs ? ` (${Math.round(rowsTotal / (extra.checksWindowMs / 1000)).toLocaleString("en")} rows/s)` : ""),
+    `event loop held up       app: longest ${ms(extra.loop.appMaxMs)} (${extra.loop.appSecondsOver100Ms} s with a stall of 100 ms or more); load generator: longest ${ms(extra.loop.generatorMaxMs)}`,
     `machine                  ${extra.loadAvg}`,
     "",
     ...targets.map((t) => `${t.met ? "met   " : "MISSED"} ${t.name}: ${t.detail}`),

@@ -95,7 +95,8 @@ export function startAnalysts(origin: string, tokens: string[], rec: Recorder, o
     let inflight: Endpoint = "queue";
     let lastBody = "";
     let seen: QueueItem[] = [];
-    let next = 0;
+    // each analyst starts at another place in the list, so between them they open many reports
+    let next = i;
     let opening = "";
     const start = () => {
       if (stopped) return;
