@@ -13,6 +13,7 @@ import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
 import { batchFileProblem } from "@/lib/intake/file-rules";
 import { formatBytes } from "@/lib/format";
 import { usePrecheck } from "./use-precheck";
+import { uploadErrorMessage } from "@/lib/intake/upload-errors";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
 
@@ -44,7 +45,7 @@ export function UploadPanel({
     onUploadProgress: (p) => setProgress(p),
     onUploadError: (e) => {
       setProgress(null);
-      toast.error(e.message || "The upload failed. Nothing was recorded; try again.");
+      toast.error(uploadErrorMessage(e));
     },
   });
 

@@ -14,10 +14,10 @@ import { isDbUnavailable } from "@/db/errors";
 import { utapi } from "@/lib/uploads";
 import { batchFileProblem, cleanFileName } from "./file-rules";
 import type { ReceivedFile } from "./multipart-upload";
+import { STORE_DOWN_MESSAGE } from "./upload-errors";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
 import { DB_DOWN, studyIdBySlug } from "./upload-router";
 
-const STORE_DOWN = "The file store could not be reached, or it broke off the upload, so the file was not stored. Nothing was recorded; try again in a moment.";
 
 export interface ApiUploadInput {
   studySlug: string;
@@ -45,7 +45,7 @@ export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInpu
     .uploadFiles(new UTFile([bytes], name, { type: input.file.type || "text/csv" }), { acl: "private", contentDisposition: "attachment" })
     .catch((error: unknown) => ({ data: null, error }));
   if (stored.error || !stored.data) {
-    throw new AppError("unavailable", STORE_DOWN, { cause: stored.error });
+    throw new AppError("unavailable", STORE_DOWN_MESSAGE, { cause: stored.error });
   }
   const key = stored.data.key;
   const forget = () => utapi().deleteFiles([key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
