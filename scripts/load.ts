@@ -13,6 +13,8 @@
  * report is stored is counted, and the p95 targets apply to that whole window. Each analyst
  * sends at most `--rate` requests a second (autocannon's connectionRate), alternating queue and
  * report; a request whose answer came late is followed at once by the next, as a closed loop.
+ * The uploads are built and sent by a child process (scripts/load/upload-burst.ts), so the
+ * event loop that times the analysts is never held up by 15 MB of request bodies.
  * Bounded: each upload is one request (timeout 180 s); the analysts stop when the last report
  * is stored, after --check-limit seconds at most; the whole run, start-up and build included,
  * ends after --timeout seconds.
@@ -22,14 +24,14 @@
 import { mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { loadBatch } from "./load/batches";
 import type { LoadAccounts } from "./load/accounts";
 import { appLoopStalls, watchOwnLoop, type LoopFigures } from "./load/loop";
 import { progressReader, type CheckProgress } from "./load/progress";
 import { startStack, type Stack } from "./load/stack";
 import { Recorder } from "./load/stats";
 import { evaluate, lastUploadToLastReport, render, type RunSettings } from "./load/summary";
-import { runUploads, startAnalysts, type AnalystTraffic } from "./load/traffic";
+import { startAnalysts, type AnalystTraffic } from "./load/traffic";
+import { prepareBurst, type Burst } from "./load/burst";
 
 const ROOT = path.resolve(import.meta.dirname, "..");
 const OUT_DIR = path.join(ROOT, ".data", "load");
@@ -69,8 +71,10 @@ const timeoutS = numberArg("timeout", 1800, 60, 7200);
 const log = (line: string) => console.log(`[load] ${line}`);
 let stack: Stack | null = null;
 let analysts: AnalystTraffic | null = null;
+let burst: Burst | null = null;
 
 async function teardown(): Promise<void> {
+  burst?.kill();
   await analysts?.stop().catch(() => undefined);
   if (stack) log("stopping the load stack and dropping tributary_load");
   await stack?.stop();
@@ -103,9 +107,9 @@ async function main(): Promise<number> {
     console.log(l),
   );
   const accounts = JSON.parse(readFileSync(stack.accountsFile, "utf8")) as LoadAccounts;
-  log(`generating ${settings.providers} batches of ${settings.rows.toLocaleString("en")} rows`);
-  const bodies = accounts.providers.map((p, k) => loadBatch(k, settings.rows, p.token, accounts.studySlug));
-  log(`each batch file ≈ ${(bodies[0]!.csvBytes / 1e6).toFixed(2)} MB`);
+  log(`generating ${settings.providers} batches of ${settings.rows.toLocaleString("en")} rows (in the upload sender's own process)`);
+  burst = prepareBurst(ROOT, stack.accountsFile, stack.origin, settings.rows, UPLOAD_TIMEOUT_S);
+  log(`each batch file ≈ ${((await burst.ready) / 1e6).toFixed(2)} MB`);
   const firstAnalyst = accounts.analysts[0];
   if (!firstAnalyst) throw new Error("the load setup made no analyst");
   await warmUp(stack.origin, firstAnalyst.token);
@@ -123,7 +127,10 @@ async function main(): Promise<number> {
     const ownLoop = watchOwnLoop();
     const sentAt = Date.now();
     rec.measureFrom(sentAt);
-    const uploads = await runUploads(stack.origin, bodies, rec, UPLOAD_TIMEOUT_S);
+    const sent = await burst.go();
+    for (const [at, latency, status] of sent.samples) rec.response("upload", status, latency, Math.round(sent.bytes / sent.samples.length), "", at);
+    for (let i = 0; i < sent.socketErrors; i++) rec.socketError("upload", new Error(sent.errorSamples[i] ?? "socket error"));
+    const uploads = sent.outcomes;
     const accepted = uploads.filter((u) => u.status === 201);
     const lastAccepted = Math.max(...accepted.map((u) => u.acceptedAt ?? 0));
     log(`${accepted.length}/${uploads.length} uploads accepted in ${((lastAccepted - sentAt) / 1000).toFixed(1)} s; waiting for the checks (limit ${checkLimitS} s)`);

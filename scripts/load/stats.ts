@@ -54,6 +54,8 @@ export class Recorder {
   /** Counts only requests sent from now on (the analysts' lead-in before the uploads is not measured). */
   measureFrom(at: number): void {
     this.from = at;
+    // everything answered so far was sent before `at`
+    this.series.clear();
   }
 
   private of(endpoint: Endpoint): Series {
@@ -63,8 +65,8 @@ export class Recorder {
   }
 
   /** One answer: its status, latency (ms), size in bytes, and body (kept for the first few errors). */
-  response(endpoint: Endpoint, status: number, latencyMs: number, bytes: number, body?: string): void {
-    const now = Date.now();
+  response(endpoint: Endpoint, status: number, latencyMs: number, bytes: number, body?: string, answeredAt = Date.now()): void {
+    const now = answeredAt;
     if (now - latencyMs < this.from) return;
     const s = this.of(endpoint);
     s.latencies.push(latencyMs);
