@@ -1,29 +1,13 @@
 import type { NextConfig } from "next";
+import { contentSecurityPolicy } from "./lib/csp";
 
 const isDev = process.env.NODE_ENV !== "production";
 
-/**
- * Content Security Policy. Scripts: Next's hydration data is inline, so 'unsafe-inline'
- * stays until pages carry nonces; dev mode also needs 'unsafe-eval' for fast refresh.
- * Styles: the table library (emotion) and sonner inject <style> tags at run time.
- */
-const csp = [
-  "default-src 'self'",
-  `script-src 'self' 'unsafe-inline'${isDev ? " 'unsafe-eval'" : ""}`,
-  "style-src 'self' 'unsafe-inline'",
-  "img-src 'self' data: blob:",
-  "font-src 'self'",
-  // uploads go to the upload service (the fake in the demo), on loopback ports
-  `connect-src 'self'${isDev ? " ws: http://127.0.0.1:* http://localhost:*" : " http://127.0.0.1:* http://localhost:*"}`,
-  "frame-ancestors 'none'",
-  "form-action 'self'",
-  "base-uri 'self'",
-  "object-src 'none'",
-  "worker-src 'self' blob:",
-].join("; ");
+// Pages get their policy, with a fresh script nonce, from proxy.ts; what the proxy does not
+// see (API answers, Next's static files, the favicon) gets the same policy without a nonce.
+const staticCsp = contentSecurityPolicy({ dev: isDev });
 
 const securityHeaders = [
-  { key: "Content-Security-Policy", value: csp },
   { key: "X-Content-Type-Options", value: "nosniff" },
   { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
   { key: "X-Frame-Options", value: "DENY" },
@@ -39,7 +23,11 @@ const nextConfig: NextConfig = {
   reactStrictMode: true,
   serverExternalPackages: ["mysql2", "bcryptjs"],
   async headers() {
-    return [{ source: "/:path*", headers: securityHeaders }];
+    const cspHeader = [{ key: "Content-Security-Policy", value: staticCsp }];
+    return [
+      { source: "/:path*", headers: securityHeaders },
+      ...["/api/:path*", "/_next/:path*", "/favicon.ico"].map((source) => ({ source, headers: cspHeader })),
+    ];
   },
 };
 

@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import { Toaster } from "sonner";
 import "./globals.css";
 
@@ -18,7 +19,10 @@ export const metadata: Metadata = {
 
 export const viewport: Viewport = { themeColor: "#12262E" };
 
-export default function RootLayout({ children }: { children: React.ReactNode }) {
+export default async function RootLayout({ children }: { children: React.ReactNode }) {
+  // every page is rendered per request: its scripts carry that request's CSP nonce (proxy.ts);
+  // a page prerendered at build time would have none and its scripts would be refused
+  await connection();
   return (
     <html lang="en-GB" className={sans.variable}>
       <body>
