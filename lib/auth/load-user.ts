@@ -13,6 +13,34 @@ export type SessionUser = {
   organisationName: string | null;
 };
 
+/** The columns a SessionUser is read from (users left-joined to organisations). */
+export const sessionUserColumns = {
+  id: users.id,
+  email: users.email,
+  name: users.name,
+  role: users.role,
+  organisationId: users.organisationId,
+  organisationName: organisations.name,
+  active: users.active,
+  sessionVersion: users.sessionVersion,
+};
+
+type SessionUserRow = { [K in keyof typeof sessionUserColumns]: (typeof sessionUserColumns)[K]["_"]["data"] | null };
+
+/** The SessionUser of a row read with sessionUserColumns, or null when the account is not active. */
+export function toSessionUser(row: SessionUserRow | undefined, sessionVersion?: number): SessionUser | null {
+  if (!row || !row.active || row.id === null || row.role === null) return null;
+  if (sessionVersion !== undefined && row.sessionVersion !== sessionVersion) return null;
+  return {
+    id: row.id,
+    email: row.email ?? "",
+    name: row.name ?? "",
+    role: row.role,
+    organisationId: row.organisationId,
+    organisationName: row.organisationName,
+  };
+}
+
 /**
  * Re-reads the user behind a session or token. Returns null when the account is gone,
  * deactivated, or (when `sessionVersion` is given) its session version moved on, which is
@@ -21,29 +49,10 @@ export type SessionUser = {
 export async function loadSessionUser(userId: number, sessionVersion?: number): Promise<SessionUser | null> {
   if (!Number.isInteger(userId) || userId <= 0) return null;
   const rows = await getDb()
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      organisationId: users.organisationId,
-      organisationName: organisations.name,
-      active: users.active,
-      sessionVersion: users.sessionVersion,
-    })
+    .select(sessionUserColumns)
     .from(users)
     .leftJoin(organisations, eq(organisations.id, users.organisationId))
     .where(eq(users.id, userId))
     .limit(1);
-  const row = rows[0];
-  if (!row || !row.active) return null;
-  if (sessionVersion !== undefined && row.sessionVersion !== sessionVersion) return null;
-  return {
-    id: row.id,
-    email: row.email,
-    name: row.name,
-    role: row.role,
-    organisationId: row.organisationId,
-    organisationName: row.organisationName,
-  };
+  return toSessionUser(rows[0], sessionVersion);
 }

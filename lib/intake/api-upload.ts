@@ -5,6 +5,7 @@ import "server-only";
  * (or not recorded) after storing is deleted again. When the file store or the database is
  * down the caller gets a 503 that says so, says nothing was recorded, and asks to try again.
  */
+import pLimit from "p-limit";
 import { UTFile } from "uploadthing/server";
 import { getDb } from "@/db/client";
 import { env } from "@/lib/env";
@@ -27,7 +28,21 @@ export interface ApiUploadInput {
   file: ReceivedFile;
 }
 
-export async function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInput) {
+/**
+ * At most this many API uploads are stored and recorded at once per app instance; the rest
+ * wait their turn (their bytes are already on disk). A burst of uploads otherwise shares the
+ * event loop with every page and API read, and the review queue slows while it lasts
+ * (measured with `npm run load`: README, Performance).
+ */
+export const API_UPLOAD_CONCURRENCY = 4;
+const uploadTurns = pLimit(API_UPLOAD_CONCURRENCY);
+
+/** Stores and records an API upload (admission checked first), in its turn. */
+export function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInput) {
+  return uploadTurns(() => storeAndRecord(actor, input));
+}
+
+async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   const db = getDb();
   // judged on the name as sent (as the browser route does), stored cleaned
   const problem = batchFileProblem({ name: input.file.name, size: input.file.size }, env().MAX_UPLOAD_MB);
