@@ -13,8 +13,8 @@ export type SessionUser = {
   organisationName: string | null;
 };
 
-/** The columns a SessionUser is read from (users left-joined to organisations). */
-export const sessionUserColumns = {
+/** Who a user is, from users left-joined to organisations (never the password hash). */
+export const userIdentityColumns = {
   id: users.id,
   email: users.email,
   name: users.name,
@@ -22,8 +22,10 @@ export const sessionUserColumns = {
   organisationId: users.organisationId,
   organisationName: organisations.name,
   active: users.active,
-  sessionVersion: users.sessionVersion,
 };
+
+/** The columns a SessionUser is read from. */
+export const sessionUserColumns = { ...userIdentityColumns, sessionVersion: users.sessionVersion };
 
 type SessionUserRow = { [K in keyof typeof sessionUserColumns]: (typeof sessionUserColumns)[K]["_"]["data"] | null };
 

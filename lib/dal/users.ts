@@ -2,6 +2,7 @@ import "server-only";
 import { asc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { organisations, users, type UserRole } from "@/db/schema";
+import { userIdentityColumns } from "@/lib/auth/load-user";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
@@ -19,13 +20,7 @@ export type UserListItem = {
 };
 
 export const userListColumns = {
-  id: users.id,
-  email: users.email,
-  name: users.name,
-  role: users.role,
-  organisationId: users.organisationId,
-  organisationName: organisations.name,
-  active: users.active,
+  ...userIdentityColumns,
   createdAt: users.createdAt,
   updatedAt: users.updatedAt,
 };
