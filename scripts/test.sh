@@ -34,6 +34,10 @@ say "vitest: unit and integration"
 record vitest "vitest (unit + integration)" "$?" "$OUT/vitest.json"
 
 # ---- 2. next build, when the sources changed
+# the build and the browser run hold the lock `npm run load` takes too: neither replaces .next
+# under the other (the lock ends with this script)
+exec 9>/tmp/tributary-e2e.lock
+flock -w 1800 9 || warn "waited 30 minutes for /tmp/tributary-e2e.lock (a load run?); going on without it"
 build_ok=1
 ensure_build
 code=$?
