@@ -150,7 +150,8 @@ test("an upload with a hostile name and label shows both as text; no element is 
   await expect(page.locator('img[src="x"]')).toHaveCount(0);
   expect(await page.evaluate(() => [(window as unknown as Record<string, unknown>).__label, (window as unknown as Record<string, unknown>).__fileName])).toEqual([undefined, undefined]);
 
-  // the original file, named safely
+  // the original file, linked from the page and named safely
+  await expect(page.getByTestId("original-file")).toHaveAttribute("href", `/api/v1/batches/${batchId}/versions/1/file`);
   const file = await page.request.get(`/api/v1/batches/${batchId}/versions/1/file`);
   expect(file.status()).toBe(200);
   expect(file.headers()["content-disposition"]).toMatch(/^attachment; filename="[A-Za-z0-9._-]+"; filename\*=UTF-8''[A-Za-z0-9!#$&+.^_`|~%-]+$/);

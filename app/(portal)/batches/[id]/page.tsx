@@ -68,6 +68,14 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
             <Link href={`/batches/${batch.publicId}/trail`} className="text-sm text-channel underline">
               Audit trail
             </Link>
+            <a
+              href={`/api/v1/batches/${batch.publicId}/versions/${version.version}/file`}
+              className="text-sm text-channel underline"
+              download
+              data-testid="original-file"
+            >
+              Original file
+            </a>
             {report?.status === "checked" && report.findings.some((f) => f.rows.length > 0) ? (
               <a
                 href={`/api/v1/batches/${batch.publicId}/versions/${version.version}/rows-at-fault`}
