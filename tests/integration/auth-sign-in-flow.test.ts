@@ -6,7 +6,6 @@
  * which is all the App Router form adds.
  */
 import { eq } from "drizzle-orm";
-import NextAuth from "next-auth";
 import { beforeAll, beforeEach, describe, expect, test, vi } from "vitest";
 
 vi.mock("server-only", () => ({}));
@@ -17,6 +16,7 @@ import { GET as getMe } from "@/app/api/v1/me/route";
 import { authOptions } from "@/lib/auth/options";
 import { resetSignInLimiter, SIGN_IN_LIMIT } from "@/lib/auth/rate-limit";
 import { call } from "./helpers/api";
+import { callNextAuth, type Jar } from "./helpers/next-auth";
 import { SESSION_COOKIE } from "./helpers/session";
 import { createWorld, WORLD_PASSWORD, type World } from "./helpers/world";
 
@@ -28,45 +28,9 @@ beforeAll(async () => {
 });
 beforeEach(() => resetSignInLimiter());
 
-type Jar = Record<string, string>;
-type Reply = { status: number; body: unknown; redirect?: string; setCookies: string[] };
-
-/** One request to next-auth; cookies it sets go into `jar` (an empty value clears one). */
-async function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>, query: Record<string, string> = {}): Promise<Reply> {
-  const reply: Reply = { status: 200, body: undefined, setCookies: [] };
-  const headers: Record<string, string[] | string> = {};
-  const res = {
-    status(code: number) {
-      reply.status = code;
-      return res;
-    },
-    getHeader: (name: string) => headers[name],
-    setHeader(name: string, value: string[] | string) {
-      headers[name] = value;
-      if (name.toLowerCase() === "location") reply.redirect = String(value);
-      return res;
-    },
-    send(b: unknown) {
-      reply.body = b;
-    },
-    json(b: unknown) {
-      reply.body = b;
-    },
-    end() {},
-  };
-  const req = { query: { ...query, nextauth: action }, method, body, cookies: { ...jar }, headers: { ...HEADERS, ...(body ? { "content-type": "application/x-www-form-urlencoded" } : {}) } };
-  await (NextAuth as unknown as (req: unknown, res: unknown, o: typeof authOptions) => Promise<void>)(req, res, authOptions);
-  for (const c of [headers["Set-Cookie"] ?? []].flat()) {
-    reply.setCookies.push(c);
-    const [pair] = c.split(";");
-    const eq = pair!.indexOf("=");
-    const name = pair!.slice(0, eq);
-    const value = decodeURIComponent(pair!.slice(eq + 1));
-    if (value) jar[name] = value;
-    else delete jar[name];
-  }
-  if (body?.json === "true" && reply.body && typeof reply.body === "object" && "url" in reply.body) reply.redirect = String((reply.body as { url: string }).url);
-  return reply;
+/** One request to next-auth as the browser at 127.0.0.1:3410 would send it. */
+function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>, query: Record<string, string> = {}) {
+  return callNextAuth(authOptions, action, method, jar, body, { query, headers: HEADERS });
 }
 
 async function signIn(email: string, password: string, opts: { csrf?: boolean } = {}) {

@@ -6,7 +6,6 @@
  * The plain-http case (the demo on loopback) is checked against the running server in
  * tests/e2e/security.spec.ts.
  */
-import NextAuth from "next-auth";
 import { afterAll, describe, expect, it, vi } from "vitest";
 
 vi.mock("server-only", () => ({}));
@@ -17,50 +16,18 @@ const { authOptions, secureCookiesFor } = await import("@/lib/auth/options");
 const { GET: getMe } = await import("@/app/api/v1/me/route");
 const { getPool } = await import("@/db/client");
 const { resetSignInLimiter } = await import("@/lib/auth/rate-limit");
+const { callNextAuth } = await import("./helpers/next-auth");
+type Jar = import("./helpers/next-auth").Jar;
 
 afterAll(async () => {
   await getPool().end();
 });
 
-type Reply = { status: number; body: unknown; setCookies: string[] };
+const HTTPS_HEADERS = { host: "tributary.example.org", "x-forwarded-proto": "https", "x-forwarded-for": "192.0.2.9" };
 
-async function nextAuth(action: string[], method: "GET" | "POST", jar: Record<string, string>, body?: Record<string, string>): Promise<Reply> {
-  const reply: Reply = { status: 200, body: undefined, setCookies: [] };
-  const headers: Record<string, string[] | string> = {};
-  const res = {
-    status(code: number) {
-      reply.status = code;
-      return res;
-    },
-    getHeader: (name: string) => headers[name],
-    setHeader(name: string, value: string[] | string) {
-      headers[name] = value;
-      return res;
-    },
-    send(b: unknown) {
-      reply.body = b;
-    },
-    json(b: unknown) {
-      reply.body = b;
-    },
-    end() {},
-  };
-  const req = {
-    query: { nextauth: action },
-    method,
-    body,
-    cookies: { ...jar },
-    headers: { host: "tributary.example.org", "x-forwarded-proto": "https", "x-forwarded-for": "192.0.2.9", ...(body ? { "content-type": "application/x-www-form-urlencoded" } : {}) },
-  };
-  await (NextAuth as unknown as (req: unknown, res: unknown, o: typeof authOptions) => Promise<void>)(req, res, authOptions);
-  for (const c of [headers["Set-Cookie"] ?? []].flat()) {
-    reply.setCookies.push(c);
-    const [pair] = c.split(";");
-    const at = pair!.indexOf("=");
-    const value = decodeURIComponent(pair!.slice(at + 1));
-    if (value) jar[pair!.slice(0, at)] = value;
-  }
-  return reply;
+/** One request to next-auth as a browser reaching the app over https would send it. */
+function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>) {
+  return callNextAuth(authOptions, action, method, jar, body, { headers: HTTPS_HEADERS });
 }
 
 function attributes(setCookie: string): { name: string; attrs: Set<string> } {
