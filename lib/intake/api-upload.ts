@@ -15,9 +15,9 @@ import { isDbUnavailable } from "@/db/errors";
 import { utapi } from "@/lib/uploads";
 import { batchFileProblem, cleanFileName } from "./file-rules";
 import type { ReceivedFile } from "./multipart-upload";
-import { STORE_DOWN_MESSAGE } from "./upload-errors";
+import { DB_DOWN_MESSAGE, STORE_DOWN_MESSAGE } from "./upload-errors";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
-import { DB_DOWN, studyIdBySlug } from "./upload-router";
+import { studyIdBySlug } from "./upload-router";
 
 
 export interface ApiUploadInput {
@@ -75,7 +75,7 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   } catch (error) {
     // the version, its job and its audit rows are one transaction: none of them was written
     await forget();
-    if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN, { cause: error });
+    if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
     throw error;
   }
   if (!recorded.ok) {

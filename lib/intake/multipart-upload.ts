@@ -35,7 +35,7 @@ export interface ReceivedUpload {
 
 const MALFORMED = "The multipart body could not be read. Send the fields 'study' and 'file'.";
 const BAD_HEADER =
-  "A part's header could not be read: the file name may hold control characters (such as NUL or escape codes). Rename the file to plain text and send it again.";
+  "The file's name could not be read: it may hold control characters (such as NUL or escape codes). Rename the file using letters, digits and ordinary punctuation, then send it again.";
 
 /** Undoes the escapes the WHATWG multipart/form-data encoding puts in names (LF, CR and `"`). */
 function unescapeFormName(name: string): string {

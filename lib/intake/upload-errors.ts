@@ -8,6 +8,10 @@
 export const STORE_DOWN_MESSAGE =
   "The file store could not be reached, or it broke off the upload, so the file was not stored. Nothing was recorded; try again in a moment.";
 
+/** Said when the database fails while an upload is recorded (API and browser uploads alike). */
+export const DB_DOWN_MESSAGE =
+  "The database could not be reached, so the batch was not recorded (the stored file was removed again). Nothing was recorded; try again in a moment.";
+
 const STORE_CODES = new Set(["INTERNAL_CLIENT_ERROR", "UPLOAD_FAILED", "INTERNAL_SERVER_ERROR"]);
 
 /** The message to show for a failed upload, from the library's error code and message. */

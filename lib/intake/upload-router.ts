@@ -13,10 +13,8 @@ import { makeFileRouter } from "@/lib/uploads/file-router";
 import { utapi } from "@/lib/uploads";
 import { isDbUnavailable } from "@/db/errors";
 import { batchFileProblem } from "./file-rules";
+import { DB_DOWN_MESSAGE } from "./upload-errors";
 import { authoriseUpload, recordBatchVersion } from "./record-upload";
-
-/** Said when the database fails while an upload is recorded (API and browser uploads alike). */
-export const DB_DOWN = "The database could not be reached, so the batch was not recorded (the stored file was removed again). Nothing was recorded; try again in a moment.";
 
 export async function studyIdBySlug(slug: string): Promise<number | null> {
   const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));
@@ -52,7 +50,7 @@ export const batchFileRouter = makeFileRouter({
     } catch (error) {
       // the version, its job and its audit rows are one transaction: none was written
       await forget();
-      if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN, { cause: error });
+      if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
       throw error;
     }
     if (!recorded.ok) {

@@ -6,8 +6,6 @@
 import { isDbUnavailable } from "@/db/errors";
 import { sleep } from "@/lib/sleep";
 
-export { isDbUnavailable } from "@/db/errors";
-
 export interface DbRetryOptions {
   /** what is being written, for the log ("storing the report of job 12") */
   what: string;

@@ -14,7 +14,8 @@ import { parsePlan } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
-import { isDbUnavailable, withDbRetry } from "./db-retry";
+import { isDbUnavailable } from "@/db/errors";
+import { withDbRetry } from "./db-retry";
 
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
 
