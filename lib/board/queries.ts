@@ -7,7 +7,7 @@
 import { and, eq, gte, isNull, lte, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, decisions, organisations, studies, studyProviders, type BatchState } from "@/db/schema";
-import { getStudyPool } from "@/lib/pool/pool";
+import { getStudyPool, poolFigures, type PoolFigures } from "@/lib/pool/pool";
 import { HOUR_MS, quantile, weekStart } from "./stats";
 
 export type BoardBatch = {
@@ -132,19 +132,7 @@ export async function silentProviders(db: Db): Promise<SilentProvider[]> {
     .orderBy(studies.title, organisations.name);
 }
 
-export type PoolHeadroom = {
-  studySlug: string;
-  studyTitle: string;
-  batches: number;
-  rows: number;
-  completeCases: number;
-  parameters: number;
-  residualDf: number;
-  dfTarget: number;
-  /** residual df beyond the target; negative while short of it */
-  headroom: number;
-  error?: string;
-};
+export type PoolHeadroom = PoolFigures & { studySlug: string; studyTitle: string; error?: string };
 
 /** Each study's pool against its df target (studies without a valid plan say why). */
 export async function poolHeadrooms(db: Db): Promise<PoolHeadroom[]> {
@@ -155,9 +143,7 @@ export async function poolHeadrooms(db: Db): Promise<PoolHeadroom[]> {
   const out: PoolHeadroom[] = [];
   for (const s of list) {
     try {
-      const p = await getStudyPool(db, s);
-      const m = p.report.model;
-      out.push({ studySlug: s.slug, studyTitle: s.title, batches: p.members.length, rows: p.report.rows.total, completeCases: p.report.rows.complete, parameters: m.parameters, residualDf: m.residualDf, dfTarget: m.dfTarget, headroom: m.residualDf - m.dfTarget });
+      out.push({ studySlug: s.slug, studyTitle: s.title, ...poolFigures(await getStudyPool(db, s)) });
     } catch (e) {
       out.push({ studySlug: s.slug, studyTitle: s.title, batches: 0, rows: 0, completeCases: 0, parameters: 0, residualDf: 0, dfTarget: 0, headroom: 0, error: e instanceof Error ? e.message : "The pool could not be computed." });
     }

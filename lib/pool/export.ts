@@ -7,7 +7,7 @@ import { Readable } from "node:stream";
 import Papa from "papaparse";
 import { csvCell } from "@/lib/format";
 import type { PlanColumn } from "@/lib/readiness/plan";
-import type { PoolMember, StudyPool } from "./pool";
+import { poolFigures, type PoolFigures, type PoolMember, type StudyPool } from "./pool";
 
 /** Opens a stored file by key (the upload service's openStoredFile, or a stand-in in tests). */
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
@@ -122,15 +122,7 @@ export type DataDictionary = {
   study: { slug: string; title: string; planVersion: number };
   generatedAt: string;
   model: { intercept: boolean; terms: { term: string; columns: string[]; df: number }[]; interactions: [string, string][] };
-  pool: {
-    batches: number;
-    rows: number;
-    completeCases: number;
-    parameters: number;
-    residualDf: number;
-    dfTarget: number;
-    /** residual df beyond the plan's target (negative: short of it) */
-    headroom: number;
+  pool: PoolFigures & {
     perParameter: number | null;
     rSquared: number | null;
     adjRSquared: number | null;
@@ -149,13 +141,7 @@ export function dataDictionary(pool: StudyPool, now = new Date()): DataDictionar
     generatedAt: now.toISOString(),
     model: { intercept: pool.plan.intercept, terms: r.model.terms, interactions: pool.plan.interactions },
     pool: {
-      batches: pool.members.length,
-      rows: r.rows.total,
-      completeCases: r.rows.complete,
-      parameters: r.model.parameters,
-      residualDf: r.model.residualDf,
-      dfTarget: r.model.dfTarget,
-      headroom: r.model.residualDf - r.model.dfTarget,
+      ...poolFigures(pool),
       perParameter: r.model.perParameter,
       rSquared: r.fit?.rSquared ?? null,
       adjRSquared: r.fit?.adjRSquared ?? null,

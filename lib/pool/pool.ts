@@ -41,6 +41,32 @@ export type StudyPool = {
   members: PoolMember[];
 };
 
+/** A pool's size against its model: the figures the board and the data dictionary show. */
+export type PoolFigures = {
+  batches: number;
+  rows: number;
+  completeCases: number;
+  parameters: number;
+  residualDf: number;
+  dfTarget: number;
+  /** residual df beyond the plan's target (negative: short of it) */
+  headroom: number;
+};
+
+/** The PoolFigures of a study's pool (headroom = residual df − df target). */
+export function poolFigures(pool: StudyPool): PoolFigures {
+  const m = pool.report.model;
+  return {
+    batches: pool.members.length,
+    rows: pool.report.rows.total,
+    completeCases: pool.report.rows.complete,
+    parameters: m.parameters,
+    residualDf: m.residualDf,
+    dfTarget: m.dfTarget,
+    headroom: m.residualDf - m.dfTarget,
+  };
+}
+
 export type StudyRef = { id: number; slug: string; title: string; currentPlanVersion: number | null };
 
 type Loaded = { member: PoolMember; state: unknown };
