@@ -18,7 +18,7 @@ import type { Db } from "@/db/client";
 import { batchVersions, checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
 import { isDbUnavailable } from "@/db/errors";
 import { killAllWorkers, loadTemplate, openDb, outcome, PRIVATE_DB, privateDb, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";

@@ -16,7 +16,7 @@ import { batchVersions, batches, checkJobs, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { POST } from "@/app/api/v1/batches/route";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { createApiToken } from "@/lib/services/api-tokens";
+import { createApiToken } from "@/lib/people/commands-tokens";
 import { clearOutbox, killAllWorkers, outcome, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, type FileGate } from "./helpers/faults-net";
 import { drainQueue } from "./helpers/pipeline";

@@ -15,7 +15,7 @@ import { getDb, getPool } from "@/db/client";
 import { checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
 import { clearOutbox, killAllWorkers, outcome, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
 import { drainQueue } from "./helpers/pipeline";

@@ -2,7 +2,7 @@
  * The bad-input list (tests/fixtures/hostile-files.ts) through the whole server pipeline: each
  * file is sent to POST /api/v1/batches with a provider's API token, stored in the upload-service
  * fake (started in-process), and checked by ONE running worker loop (runWorker, as
- * lib/jobs/worker-main.ts runs it), so a case that crashed or hung the loop would stop the rest.
+ * scripts/worker.ts runs it), so a case that crashed or hung the loop would stop the rest.
  * Every case ends refused with a 4xx message before storage, `unreadable` with its message, or
  * `ready for review` with its findings; the batch and report API answer afterwards; memory
  * stays bounded around the largest files.
@@ -17,9 +17,9 @@ import { mkdtemp, readdir, rm } from "node:fs/promises";
 import { getDb, getPool } from "@/db/client";
 import { batchVersions, batches, checkJobs, users } from "@/db/schema";
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
-import { runWorker } from "@/lib/jobs/worker";
-import { createApiToken } from "@/lib/services/api-tokens";
-import { openStoredFile } from "@/lib/uploads";
+import { runWorker } from "@/lib/batches/jobs/worker";
+import { createApiToken } from "@/lib/people/commands-tokens";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { GET as getBatch, POST } from "@/app/api/v1/batches/route";
 import { GET as getOneBatch } from "@/app/api/v1/batches/[id]/route";
 import { GET as getReport } from "@/app/api/v1/batches/[id]/versions/[version]/report/route";
@@ -83,7 +83,7 @@ beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-hostile-"));
   const { apiKey } = parseUploadToken(process.env.UPLOADTHING_TOKEN!);
   fake = await startUploadFake({ port: 0, apiKey, dir });
-  // the SDK reads these at first use (lib/uploads caches its UTApi)
+  // the SDK reads these at first use (lib/batches/intake/file-store.ts caches its UTApi)
   process.env.UPLOADTHING_API_URL = fake.url;
   process.env.UPLOADTHING_INGEST_URL = fake.url;
   const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@fennick.test"));
@@ -248,7 +248,7 @@ describe("hostile files through the API upload and the check worker", () => {
       expect(check.heap, `${c.id} check heap`).toBeLessThan(32 * MB);
       expect(check.rss, `${c.id} check rss`).toBeLessThan(48 * MB);
       // Uploading through the API: the server streams the file part to a temporary file and hands
-      // the store a disk-backed Blob (lib/intake/multipart-upload.ts), so what grows is this test's
+      // the store a disk-backed Blob (lib/batches/intake/multipart-upload.ts), so what grows is this test's
       // own request body (1x the file) and the in-process upload fake's copy as it stores it (up to
       // 1x), plus stream chunks. Before streaming this measured 7-8x the file (136 MB for 20 MB).
       expect(uploadPeak.get(c.id)!.rss, `${c.id} upload rss`).toBeLessThan(2 * size + 32 * MB);

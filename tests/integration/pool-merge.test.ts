@@ -12,7 +12,7 @@ import { organisations, studies, studyAnalysts, studyProviders, dataPlans } from
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { checkBatch, hashPlan, parsePlan, type ReadinessReport } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
+import { decideVersion } from "@/lib/batches/commands-decide";
 import { getIfAccepted, getStudyPool, getStudyRef } from "@/lib/pool/pool";
 import { streamOf, uploadAndCheck, userId } from "./helpers/pipeline";
 

@@ -18,7 +18,7 @@ const demo: NodeJS.ProcessEnv = {
 };
 
 function startWorker(env: NodeJS.ProcessEnv, timeout = 60_000) {
-  return spawnSync(process.execPath, ["--import", "tsx", "lib/jobs/worker-main.ts"], { cwd: root, env, encoding: "utf8", timeout });
+  return spawnSync(process.execPath, ["--import", "tsx", "scripts/worker.ts"], { cwd: root, env, encoding: "utf8", timeout });
 }
 
 test("production without the demo flag: exits 1 and names NEXTAUTH_SECRET and DATABASE_URL", () => {

@@ -1,5 +1,5 @@
 /**
- * Processes for the fault tests: real worker processes (lib/jobs/worker-main.ts) that can be
+ * Processes for the fault tests: real worker processes (scripts/worker.ts) that can be
  * stopped gracefully or killed, a private second MariaDB instance that can be stopped and
  * started without touching the shared one, and the database reads the assertions need.
  */
@@ -34,12 +34,12 @@ export type WorkerProcess = {
 const started = new Set<ChildProcess>();
 
 /**
- * Starts lib/jobs/worker-main.ts as its own Node process (node --import tsx, so the pid is
+ * Starts scripts/worker.ts as its own Node process (node --import tsx, so the pid is
  * the worker itself and SIGKILL kills the worker, not a launcher). `env` is added to the
  * test's environment; SMTP points at a closed port so no test mail reaches a shared fake.
  */
 export function startWorker(env: Record<string, string>): WorkerProcess {
-  const child = spawn(process.execPath, ["--import", "tsx", "lib/jobs/worker-main.ts"], {
+  const child = spawn(process.execPath, ["--import", "tsx", "scripts/worker.ts"], {
     cwd: ROOT,
     env: { ...process.env, SMTP_URL: "smtp://127.0.0.1:9", TRIBUTARY_WORKER_POLL_MS: "200", ...env },
     stdio: ["ignore", "pipe", "pipe"],

@@ -10,7 +10,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { formatDateTime } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, type Plan } from "@/lib/readiness/plan";
 import { modelSize } from "@/lib/studies/model-size";

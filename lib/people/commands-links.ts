@@ -11,9 +11,9 @@ import { hashPassword } from "@/lib/auth/password";
 import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail/outbox";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { passwordSchema } from "@/lib/validation/users";
-import { recordAudit, type DbOrTx } from "./audit";
-import { runService } from "./run";
+import { passwordSchema } from "@/lib/people/schemas";
+import { recordAudit, type DbOrTx } from "@/lib/core/audit";
+import { runService } from "@/lib/core/write";
 import { z } from "zod";
 
 const LIFETIME_MS = { invite: 7 * 24 * 3600_000, reset: 3600_000 } as const;

@@ -6,10 +6,10 @@
 import { randomBytes } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
-import { recordAudit } from "@/lib/services/audit";
+import { recordAudit } from "@/lib/core/audit";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
 import type { Result } from "@/lib/result";
-import { cleanFileName, cleanText } from "./file-rules";
+import { cleanFileName, cleanText } from "./intake/file-rules";
 
 export interface UploadTarget {
   studyId: number;

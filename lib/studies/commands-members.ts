@@ -3,11 +3,11 @@ import { and, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { organisations, studyAnalysts, studyProviders, users } from "@/db/schema";
 import { fail, ok, type Result } from "@/lib/result";
-import { loadActor } from "@/lib/services/actor";
-import { recordAudit, type Tx } from "@/lib/services/audit";
-import { isDuplicateKey, runService } from "@/lib/services/run";
-import { lockStudy } from "./studies";
-import { memberIdSchema } from "./validation";
+import { loadActor } from "@/lib/core/actor";
+import { recordAudit, type Tx } from "@/lib/core/audit";
+import { isDuplicateKey, runService } from "@/lib/core/write";
+import { lockStudy } from "./commands-studies";
+import { memberIdSchema } from "./schemas";
 
 export type Membership = { studyId: number; memberId: number; name: string };
 

@@ -9,9 +9,9 @@ import { users } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import { enqueueEmail } from "@/lib/mail/outbox";
 import { fail, ok, type Result } from "@/lib/result";
-import { recordAudit } from "@/lib/services/audit";
-import { weekStart } from "@/lib/board/stats";
-import { composeDigest, digestData } from "./compose";
+import { recordAudit } from "@/lib/core/audit";
+import { weekStart } from "@/lib/pool/board-stats";
+import { composeDigest, digestData } from "./digest-compose";
 
 export type DigestSent = { recipients: number; queued: number; subject: string };
 

@@ -9,12 +9,12 @@ import { studies } from "@/db/schema";
 import { getCurrentUser } from "@/lib/auth/session";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
-import { makeFileRouter } from "@/lib/uploads/file-router";
-import { utapi } from "@/lib/uploads";
+import { makeFileRouter } from "@/lib/batches/intake/file-router";
+import { utapi } from "@/lib/batches/intake/file-store";
 import { isDbUnavailable } from "@/db/errors";
 import { batchFileProblem } from "./file-rules";
 import { DB_DOWN_MESSAGE } from "./upload-errors";
-import { authoriseUpload, recordBatchVersion } from "./record-upload";
+import { authoriseUpload, recordBatchVersion } from "../commands-upload";
 
 export async function studyIdBySlug(slug: string): Promise<number | null> {
   const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));

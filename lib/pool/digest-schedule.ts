@@ -4,7 +4,7 @@
  * every further attempt that week, by any worker, a no-op.
  */
 import type { Db } from "@/db/client";
-import { sendDigest } from "./send";
+import { sendDigest } from "./digest-send";
 import { sleep } from "@/lib/sleep";
 
 /** Whether the weekly digest is due at `now`: any moment from Monday 07:00 UTC to the week's end. */

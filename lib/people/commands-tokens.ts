@@ -4,10 +4,10 @@ import { getDb } from "@/db/client";
 import { apiTokens } from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-tokens";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { apiTokenIdSchema, createApiTokenSchema } from "@/lib/validation/api-tokens";
-import { loadActor } from "./actor";
-import { recordAudit } from "./audit";
-import { runService } from "./run";
+import { apiTokenIdSchema, createApiTokenSchema } from "@/lib/people/schemas-tokens";
+import { loadActor } from "@/lib/core/actor";
+import { recordAudit } from "@/lib/core/audit";
+import { runService } from "@/lib/core/write";
 
 export type ApiTokenListItem = { id: number; name: string; prefix: string; createdAt: Date; lastUsedAt: Date | null; revokedAt: Date | null };
 

@@ -3,7 +3,7 @@ import { asc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { auditEvents, emailOutbox, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
-import { getBatchForUser, type BatchDetail } from "./batches";
+import { getBatchForUser, type BatchDetail } from "./queries";
 
 export type TrailEntry = {
   id: string;

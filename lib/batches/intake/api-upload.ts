@@ -12,11 +12,11 @@ import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import type { SessionUser } from "@/lib/auth/session";
 import { isDbUnavailable } from "@/db/errors";
-import { utapi } from "@/lib/uploads";
+import { utapi } from "@/lib/batches/intake/file-store";
 import { batchFileProblem, cleanFileName } from "./file-rules";
 import type { ReceivedFile } from "./multipart-upload";
 import { DB_DOWN_MESSAGE, STORE_DOWN_MESSAGE } from "./upload-errors";
-import { authoriseUpload, recordBatchVersion } from "./record-upload";
+import { authoriseUpload, recordBatchVersion } from "../commands-upload";
 import { studyIdBySlug } from "./upload-router";
 
 

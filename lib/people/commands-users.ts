@@ -7,11 +7,11 @@ import { can, INVITABLE_ROLES } from "@/lib/auth/permissions";
 import { checkSignInAllowed, clearSignInFailures, recordSignInFailure } from "@/lib/auth/rate-limit";
 import { AppError } from "@/lib/errors";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { changePasswordSchema, createUserSchema, updateUserSchema, userIdSchema } from "@/lib/validation/users";
-import { loadActor } from "./actor";
-import { recordAudit, type Tx } from "./audit";
-import { isDuplicateKey, runService } from "./run";
-import { issueUserLink } from "./user-links";
+import { changePasswordSchema, createUserSchema, updateUserSchema, userIdSchema } from "@/lib/people/schemas";
+import { loadActor } from "@/lib/core/actor";
+import { recordAudit, type Tx } from "@/lib/core/audit";
+import { isDuplicateKey, runService } from "@/lib/core/write";
+import { issueUserLink } from "./commands-links";
 
 export type UserRecord = {
   id: number;

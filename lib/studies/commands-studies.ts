@@ -4,10 +4,10 @@ import { getDb } from "@/db/client";
 import { organisations, studies } from "@/db/schema";
 import { AppError } from "@/lib/errors";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { loadActor } from "@/lib/services/actor";
-import { recordAudit, type Tx } from "@/lib/services/audit";
-import { isDuplicateKey, runService } from "@/lib/services/run";
-import { createStudySchema, updateStudySchema } from "./validation";
+import { loadActor } from "@/lib/core/actor";
+import { recordAudit, type Tx } from "@/lib/core/audit";
+import { isDuplicateKey, runService } from "@/lib/core/write";
+import { createStudySchema, updateStudySchema } from "./schemas";
 
 export type StudyRecord = {
   id: number;

@@ -4,8 +4,8 @@ import { getDb } from "@/db/client";
 import { studies } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
-import { studyScope } from "@/lib/dal/scope";
-import { recordAudit } from "@/lib/services/audit";
+import { studyScope } from "@/lib/studies/scope";
+import { recordAudit } from "@/lib/core/audit";
 import { getIfAccepted, getStudyPool, type IfAccepted, type StudyPool, type StudyRef } from "./pool";
 
 /** A study the user may see the pool of (analysts: assigned studies; leads and admins: all), or null. */

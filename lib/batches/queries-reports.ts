@@ -4,7 +4,7 @@ import { getDb } from "@/db/client";
 import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import type { ReadinessReport } from "@/lib/readiness/report";
-import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./batches";
+import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./queries";
 
 export type VersionReport = {
   batch: BatchDetail;

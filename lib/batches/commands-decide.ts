@@ -13,7 +13,7 @@ import { can } from "@/lib/auth/permissions";
 import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail/outbox";
 import { fail, ok, type Result } from "@/lib/result";
-import { recordAudit } from "@/lib/services/audit";
+import { recordAudit } from "@/lib/core/audit";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { decisionEmail } from "./decision-email";
 

@@ -11,11 +11,11 @@
  */
 import { exitUnlessEnvOk } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
-import { runDigestSchedule } from "@/lib/digest/schedule";
+import { runDigestSchedule } from "@/lib/pool/digest-schedule";
 import { runMailSender } from "@/lib/mail";
-import { openStoredFile } from "@/lib/uploads";
-import { msFromEnv } from "./check-jobs";
-import { defaultWorkerId, runWorker } from "./worker";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
+import { msFromEnv } from "@/lib/batches/jobs/check-jobs";
+import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
 
 // refuse the demo secrets in production, and say what is missing, before touching anything
 exitUnlessEnvOk("worker");

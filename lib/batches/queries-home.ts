@@ -3,9 +3,9 @@ import { and, count, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { BATCH_STATES, batches, batchVersions, organisations, ROLES, studies, studyProviders, users, type BatchState, type UserRole } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
-import { listBatchesForUser, type BatchSummary } from "./batches";
-import { batchScope } from "./scope";
-import { listStudiesForUser, type StudySummary } from "./studies";
+import { listBatchesForUser, type BatchSummary } from "./queries";
+import { batchScope } from "@/lib/studies/scope";
+import { listStudiesForUser, type StudySummary } from "@/lib/studies/queries-detail";
 
 export type StateCounts = Record<BatchState, number>;
 

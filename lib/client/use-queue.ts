@@ -1,7 +1,7 @@
 "use client";
 /** The review queue from the API, refreshed every few seconds and on focus. */
 import useSWR from "swr";
-import type { QueueItem } from "@/lib/dal/queue";
+import type { QueueItem } from "@/lib/batches/queries-queue";
 
 export type QueueRow = Omit<QueueItem, "uploadedAt" | "since"> & { uploadedAt: string; since: string };
 

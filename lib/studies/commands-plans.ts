@@ -5,11 +5,11 @@ import { dataPlans, studies } from "@/db/schema";
 import { planHash } from "@/lib/demo/plan-hash";
 import { parsePlan, type PlanIssue } from "@/lib/readiness/plan";
 import { fail, ok, type Result } from "@/lib/result";
-import { loadActor } from "@/lib/services/actor";
-import { recordAudit } from "@/lib/services/audit";
-import { isDuplicateKey, runService } from "@/lib/services/run";
-import { lockStudy } from "./studies";
-import { planNoteSchema } from "./validation";
+import { loadActor } from "@/lib/core/actor";
+import { recordAudit } from "@/lib/core/audit";
+import { isDuplicateKey, runService } from "@/lib/core/write";
+import { lockStudy } from "./commands-studies";
+import { planNoteSchema } from "./schemas";
 
 export type PublishedPlan = { studyId: number; planId: number; version: number; planHash: string; note: string | null };
 

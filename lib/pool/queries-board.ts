@@ -8,7 +8,7 @@ import { and, eq, gte, isNull, lte, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, decisions, organisations, studies, studyProviders, type BatchState } from "@/db/schema";
 import { getStudyPool, poolFigures, type PoolFigures } from "@/lib/pool/pool";
-import { HOUR_MS, quantile, weekStart } from "./stats";
+import { HOUR_MS, quantile, weekStart } from "./board-stats";
 
 export type BoardBatch = {
   studySlug: string;
