@@ -27,6 +27,7 @@ import { BARLEY_DATASET, hostileFiles, type HostileFile, type HostileOutcome } f
 import { call } from "./helpers/api";
 import { drainQueue } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
+import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
 
 v8.setFlagsFromString("--expose-gc");
 const gc = vm.runInNewContext("gc") as () => void;
@@ -137,7 +138,7 @@ describe("hostile files through the API upload and the check worker", () => {
     expect(sent.length).toBe(CASES.filter((x) => x.expect.kind !== "refused").length);
   });
 
-  it("one worker loop checks every case to an end state and keeps running; no attempt fails", async () => {
+  it("one worker loop checks every case to an end state and keeps running; no attempt fails", { timeout: processTestTimeout() }, async () => {
     const ids = sent.map((s) => s.versionId);
     const byKey = new Map<string, string>();
     for (const s of sent) {
@@ -169,7 +170,7 @@ describe("hostile files through the API upload and the check worker", () => {
         });
         try {
           while (!(await done())) {
-            if (Date.now() - started > 90_000) throw new Error(`the worker did not finish in 90 s; log: ${log.join("\n")}`);
+            if (Date.now() - started > PROCESS_PATIENCE_MS) throw new Error(`the worker did not finish in ${PROCESS_PATIENCE_MS / 1000} s; log: ${log.join("\n")}`);
             await new Promise((r) => setTimeout(r, 100));
           }
         } finally {

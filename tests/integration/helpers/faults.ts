@@ -11,6 +11,7 @@ import { and, eq, inArray, sql } from "drizzle-orm";
 import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import { auditEvents, batchVersions, checkJobs, emailOutbox, reports } from "@/db/schema";
+import { PROCESS_PATIENCE_MS } from "../../helpers/processes";
 
 export const ROOT = path.resolve(import.meta.dirname, "../../..");
 
@@ -75,7 +76,7 @@ export function startWorker(env: Record<string, string>): WorkerProcess {
     exited,
     alive: () => !done,
     kill: (signal) => void child.kill(signal),
-    waitForLine(re, timeoutMs = 60_000) {
+    waitForLine(re, timeoutMs = PROCESS_PATIENCE_MS) {
       const seen = lines.find((l) => re.test(l));
       if (seen) return Promise.resolve(seen);
       return new Promise((resolve, reject) => {
@@ -94,7 +95,7 @@ export async function killAllWorkers(): Promise<void> {
 }
 
 /** Polls `fn` until it returns a truthy value; throws `what` after `timeoutMs`. */
-export async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = 60_000, everyMs = 100): Promise<T> {
+export async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = PROCESS_PATIENCE_MS, everyMs = 100): Promise<T> {
   const until = Date.now() + timeoutMs;
   for (;;) {
     const v = await fn();
@@ -116,7 +117,7 @@ export function privateDb(...args: string[]): string {
     cwd: ROOT,
     env: { ...process.env, TRIBUTARY_DB_HOME: PRIVATE_DB.home, TRIBUTARY_DB_PORT: String(PRIVATE_DB.port) },
     encoding: "utf8",
-    timeout: 170_000,
+    timeout: PROCESS_PATIENCE_MS,
   });
   if (r.status !== 0) throw new Error(`db.sh ${args.join(" ")} (private instance on ${PRIVATE_DB.port}) failed:\n${r.stdout}${r.stderr}`);
   return r.stdout;

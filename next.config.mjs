@@ -1,5 +1,5 @@
-import type { NextConfig } from "next";
-import { contentSecurityPolicy } from "./lib/csp";
+// @ts-check
+import { contentSecurityPolicy } from "./lib/csp.js";
 
 const isDev = process.env.NODE_ENV !== "production";
 
@@ -18,7 +18,8 @@ const securityHeaders = [
   ...(isDev ? [] : [{ key: "Strict-Transport-Security", value: "max-age=31536000; includeSubDomains" }]),
 ];
 
-const nextConfig: NextConfig = {
+/** @type {import('next').NextConfig} */
+const nextConfig = {
   poweredByHeader: false,
   reactStrictMode: true,
   serverExternalPackages: ["mysql2", "bcryptjs"],

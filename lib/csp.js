@@ -1,11 +1,18 @@
+// @ts-check
 /**
  * The Content Security Policy, in one place for the proxy (pages, with a fresh nonce per
- * request) and next.config.ts (API answers and static files, which run no script).
+ * request) and next.config.mjs (API answers and static files, which run no script). Plain
+ * JavaScript with JSDoc types, because next.config.mjs is loaded by Node without a compiler.
  * Scripts: only those carrying the page's nonce, and what they load ('strict-dynamic'), as
  * Next's CSP guide recommends; dev mode adds 'unsafe-eval' for fast refresh. Styles keep
  * 'unsafe-inline': the table library (emotion) and sonner inject <style> tags at run time.
  */
-export function contentSecurityPolicy(opts: { nonce?: string; dev: boolean }): string {
+
+/**
+ * @param {{ nonce?: string; dev: boolean }} opts
+ * @returns {string}
+ */
+export function contentSecurityPolicy(opts) {
   const scripts = opts.nonce ? `'self' 'nonce-${opts.nonce}' 'strict-dynamic'` : "'self'";
   return [
     "default-src 'self'",
