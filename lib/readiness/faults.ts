@@ -42,7 +42,7 @@ export interface RowsAtFaultOptions {
   fastAscii?: (b: Uint8Array) => string | null;
 }
 
-/** Codes a row can be at fault with (the row-level findings of CHECKS.md). */
+/** Codes a row can be at fault with (the row-level findings of lib/readiness/CHECKS.md). */
 export const ROW_FAULT_CODES = [
   "row.ragged",
   "row.duplicate",

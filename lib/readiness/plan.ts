@@ -9,7 +9,7 @@ export const COLUMN_TYPES = ["number", "integer", "category", "date", "boolean",
 export type Role = (typeof ROLES)[number];
 export type ColumnType = (typeof COLUMN_TYPES)[number];
 
-/** Default thresholds of ../shared/CHECKS.md; a plan may override each. */
+/** Default thresholds of lib/readiness/CHECKS.md; a plan may override each. */
 export const DEFAULT_THRESHOLDS = {
   /** share missing per column: note above this */
   missingNote: 0,

@@ -109,7 +109,7 @@ describe("the pool", () => {
     expect(ifB).not.toBeNull();
     expect(ifB!.poolMembers).toBe(1);
     expectSameFigures(ifB!.after, await checkBatch(streamOf(concat([harrowgate, coldwell])), plan));
-    // c lost a third of irrigation_mm: missingness moved by more than 10 points against the pool [CHECKS.md "Pool and drift"]
+    // c lost a third of irrigation_mm: missingness moved by more than 10 points against the pool [lib/readiness/CHECKS.md "Pool and drift"]
     const ifC = await getIfAccepted(db, c.batchPublicId, 1);
     expect(ifC!.drift.map((f) => `${f.code}:${f.columns.join()}`)).toContain("drift.missing:irrigation_mm");
 
