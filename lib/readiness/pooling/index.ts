@@ -105,7 +105,7 @@ export function poolQuestions(
       candidate,
     },
     influence: { threshold: INFLUENCE_THRESHOLD, batches: influence, candidate: candidateInfluence },
-    selection: selectionPreview(ctx),
+    selection: opts.selection === false ? null : selectionPreview(ctx),
     caution: POOL_CAUTION,
   };
   return { ...partial, findings: poolFindings(partial, t.alpha) };
