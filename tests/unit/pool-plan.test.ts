@@ -105,6 +105,32 @@ describe("pool questions on bad or thin input", () => {
     expect(q.caution).toMatch(/Selection on the same data overstates the fit/);
   });
 
+  it("a batch without complete rows is said so and changes no other figure", async () => {
+    const pool = await makePool({
+      numeric: 2,
+      sizes: [40, 35, 30],
+      seed: 4,
+      selection: { candidates: ["x1", "x2"] },
+    });
+    const report = await checkBatch(
+      (async function* () {
+        yield new TextEncoder().encode("x1,x2,y\n1,2,NA\n3,,4\n");
+      })(),
+      pool.plan,
+    );
+    const empty = { id: "e", label: "batch e", group: "e", groupLabel: "e", state: report.state as never };
+    const withEmpty = poolQuestions([...pool.members, empty], pool.plan);
+    const without = poolQuestions(pool.members, pool.plan);
+    const row = withEmpty.poolability.batches.find((b) => b.id === "e")!;
+    expect(row.n).toBe(0);
+    expect(row.F).toBeNull();
+    expect(row.words).toMatch(/batch e has no complete rows/);
+    expect(withEmpty.poolability.whole!.groups).toBe(3);
+    expect(withEmpty.poolability.whole!.F).toBeCloseTo(without.poolability.whole!.F!, 10);
+    expect(withEmpty.selection!.lobo!.folds).toBe(3);
+    expect(withEmpty.selection!.lobo!.mspe).toEqual(without.selection!.lobo!.mspe);
+  });
+
   it("a plan that only counts candidates has no selection preview", async () => {
     const pool = await makePool({ numeric: 2, sizes: [30, 30], seed: 3, selection: { candidates: 4 } });
     expect(poolQuestions(pool.members, pool.plan).selection).toBeNull();

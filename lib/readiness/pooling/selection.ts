@@ -97,7 +97,9 @@ export function selectionPreview(ctx: PoolContext): SelectionPreview | null {
 
   let lobo: SelectionPreview["lobo"] = null;
   let stability: SelectionPreview["stability"] = null;
-  const folds = ctx.batches.flatMap((b) => (b.rest ? [{ own: b.factor, rest: b.rest }] : []));
+  const folds = ctx.batches.flatMap((b) =>
+    b.rest && b.factor.n > 0 ? [{ own: b.factor, rest: b.rest }] : [],
+  );
   if (folds.length >= 3) {
     const cv = crossValidate(
       folds,
