@@ -133,3 +133,15 @@ export function exitUnlessEnvOk(who: string): void {
   console.error(`[${who}] refusing to start.\n${r.message}`);
   process.exit(1);
 }
+
+/**
+ * A timing setting of the worker and the check queue (TRIBUTARY_JOB_STALE_MS, TRIBUTARY_WORKER_POLL_MS …):
+ * a positive whole number of milliseconds from the environment, else the default.
+ */
+export function msFromEnv(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw.trim() === "") return fallback;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
+  return n;
+}
