@@ -23,6 +23,8 @@ export {
   getPoolForUser,
   getPoolStudyForUser,
   listPoolStudiesForUser,
+  loadBoard,
+  loadPool,
   NO_VISIBLE_POOL,
   recordPoolExport,
 } from "./queries";

@@ -4,12 +4,13 @@ import { getDb } from "@/db/client";
 import { studies } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
-import { studyScope } from "@/lib/studies/scope";
+import { studyScope } from "@/lib/studies";
 import { z } from "zod";
 import { write } from "@/lib/core/write";
 import { unwrap } from "@/lib/errors";
 import { ok } from "@/lib/result";
 import { getIfAccepted, getStudyPool, type IfAccepted, type StudyPool, type StudyRef } from "./pool";
+import { getBoard, type Board } from "./queries-board";
 
 /** A study the user may see the pool of (analysts: assigned studies; leads and admins: all), or null. */
 export async function getPoolStudyForUser(user: SessionUser, slug: string): Promise<StudyRef | null> {
@@ -86,3 +87,13 @@ export async function recordPoolExport(
 
 /** The answer when a pool is not there or not the user's to see (the same words, so existence does not leak). */
 export const NO_VISIBLE_POOL = "No study with this name has a pool you can see.";
+
+/** The pool of a study already found in the user's scope (listPoolStudiesForUser). */
+export function loadPool(study: StudyRef): Promise<StudyPool> {
+  return getStudyPool(getDb(), study);
+}
+
+/** The lead's board over the last `weeks` weeks; the caller has checked board.read. */
+export function loadBoard(weeks: number, now = new Date()): Promise<Board> {
+  return getBoard(getDb(), now, weeks);
+}

@@ -1,16 +1,13 @@
 // GET /api/v1/pool — each visible study's pool in brief.
-import { getDb } from "@/db/client";
 import { jsonData } from "@/lib/http/respond";
 import { apiRoute } from "@/lib/http/route";
-import { getStudyPool, listPoolStudiesForUser, poolFigures } from "@/lib/pool";
+import { listPoolStudiesForUser, loadPool, poolFigures } from "@/lib/pool";
 
 export const GET = apiRoute({ action: "pool.read" }, async ({ actor }) => {
   const out = [];
   for (const s of await listPoolStudiesForUser(actor)) {
     if (s.currentPlanVersion == null) continue;
-    const { batches, rows, completeCases, parameters, residualDf, dfTarget, headroom } = poolFigures(
-      await getStudyPool(getDb(), s),
-    );
+    const { batches, rows, completeCases, parameters, residualDf, dfTarget, headroom } = poolFigures(await loadPool(s));
     out.push({ slug: s.slug, title: s.title, batches, rows, completeCases, parameters, residualDf, dfTarget, headroom });
   }
   return jsonData(out);
