@@ -40,8 +40,11 @@ type BarleyRow = Record<(typeof BARLEY_HEADER)[number], string | number>;
 const SOIL_EFFECT: Record<string, number> = { loam: 0, clay: -0.35, sand: -0.6, silt: 0.15 };
 const VARIETY_EFFECT = [0, 0.3, -0.2, 0.45];
 
-/** One season of invented plot results for a farm. */
-export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow[] {
+/**
+ * One season of invented plot results for a farm. `nitrogenResponse` scales the yield's
+ * response to nitrogen (1: the valley's usual curve; near 0: plots that hardly respond).
+ */
+export function barleyRows(farmCode: string, n: number, seed: number, nitrogenResponse = 1): BarleyRow[] {
   const r = rng(seed);
   const rows: BarleyRow[] = [];
   for (let i = 0; i < n; i++) {
@@ -56,7 +59,7 @@ export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow
     const density = round(Math.min(420, Math.max(160, 220 + r.normal() * 40)), 0);
     const om = round(Math.max(0.8, 3.2 + r.normal() * 1.1), 2);
     const y =
-      2.2 + 0.016 * nitrogen - 0.00003 * nitrogen * nitrogen + 0.004 * irrigation + 0.0035 * rainfall +
+      2.2 + nitrogenResponse * (0.016 * nitrogen - 0.00003 * nitrogen * nitrogen) + 0.004 * irrigation + 0.0035 * rainfall +
       (SOIL_EFFECT[soil] ?? 0) + (VARIETY_EFFECT[vi] ?? 0) - 0.012 * (sowing - 90) + 0.002 * (density - 220) + 0.12 * om +
       r.normal() * 0.45;
     const day = 200 + Math.floor(r.next() * 30);

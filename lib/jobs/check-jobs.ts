@@ -56,15 +56,19 @@ export async function claimJob(db: Db, workerId: string, now = new Date()): Prom
       .select({ id: checkJobs.id, attempts: checkJobs.attempts, batchVersionId: checkJobs.batchVersionId })
       .from(checkJobs)
       .where(
-        or(
-          and(eq(checkJobs.status, "queued"), lte(checkJobs.runAfter, now)),
-          and(eq(checkJobs.status, "running"), lte(checkJobs.heartbeatAt, staleBefore)),
+        and(
+          eq(checkJobs.kind, "check"),
+          or(
+            and(eq(checkJobs.status, "queued"), lte(checkJobs.runAfter, now)),
+            and(eq(checkJobs.status, "running"), lte(checkJobs.heartbeatAt, staleBefore)),
+          ),
         ),
       )
       .orderBy(asc(checkJobs.id))
       .limit(1)
       .for("update", { skipLocked: true });
-    if (!job) return null;
+    // a check job always names its version (only pool-question jobs may not)
+    if (!job || job.batchVersionId === null) return null;
 
     if (job.attempts >= MAX_ATTEMPTS) {
       await tx
