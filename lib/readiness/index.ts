@@ -6,6 +6,7 @@ export { checkBatch, ENGINE_VERSION, hashPlan, type CheckOptions } from "./check
 export { draftPlan, type DraftResult } from "./draft";
 export { poolReport, driftFindings } from "./pool";
 export { mergeStates, isEngineState, type EngineState } from "./state";
+export * from "./pooling";
 export { parsePlan, planSchema, thresholdsOf, DEFAULT_THRESHOLDS, type Plan, type PlanInput, type PlanIssue } from "./plan";
 export { REPORT_FORMAT, type ReadinessReport, type Finding, type Severity, type ColumnReport } from "./report";
 export type { ByteInput } from "./csv-reader";
