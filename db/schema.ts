@@ -332,8 +332,10 @@ export const poolQuestions = mysqlTable(
     /** the job that computed it: a later job's figures replace an earlier one's, never the other way */
     jobId: ref("job_id").notNull(),
     computedAt: datetime("computed_at", { mode: "date", fsp: 3 }).notNull(),
-    /** PoolQuestions (lib/readiness/pooling), JSON */
-    result: json("result").notNull(),
+    /** PoolQuestions (lib/readiness/pooling), JSON; null when they could not be computed */
+    result: json("result"),
+    /** why they could not be computed (a state that does not fit the plan), in plain words */
+    error: text("error"),
   },
   (t) => [uniqueIndex("pool_questions_study_uq").on(t.studyId)],
 );
@@ -350,7 +352,8 @@ export const ifAcceptedQuestions = mysqlTable(
     versionIds: json("version_ids").$type<number[]>().notNull(),
     jobId: ref("job_id").notNull(),
     computedAt: datetime("computed_at", { mode: "date", fsp: 3 }).notNull(),
-    result: json("result").notNull(),
+    result: json("result"),
+    error: text("error"),
   },
   (t) => [uniqueIndex("if_accepted_questions_version_uq").on(t.batchVersionId), index("if_accepted_questions_study_idx").on(t.studyId)],
 );

@@ -6,7 +6,8 @@ CREATE TABLE `if_accepted_questions` (
 	`version_ids` json NOT NULL,
 	`job_id` int unsigned NOT NULL,
 	`computed_at` datetime(3) NOT NULL,
-	`result` json NOT NULL,
+	`result` json,
+	`error` text,
 	CONSTRAINT `if_accepted_questions_id` PRIMARY KEY(`id`),
 	CONSTRAINT `if_accepted_questions_version_uq` UNIQUE(`batch_version_id`)
 );
@@ -18,7 +19,8 @@ CREATE TABLE `pool_questions` (
 	`version_ids` json NOT NULL,
 	`job_id` int unsigned NOT NULL,
 	`computed_at` datetime(3) NOT NULL,
-	`result` json NOT NULL,
+	`result` json,
+	`error` text,
 	CONSTRAINT `pool_questions_id` PRIMARY KEY(`id`),
 	CONSTRAINT `pool_questions_study_uq` UNIQUE(`study_id`)
 );

@@ -7,6 +7,7 @@ import { randomBytes } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/services/audit";
+import { enqueuePoolQuestions } from "@/lib/pool/questions-queue";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./file-rules";
@@ -131,6 +132,8 @@ export async function recordBatchVersion(
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
         await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
+        // an accepted version leaves the pool
+        if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
         await recordAudit(tx, {
           actorId: actor.id, action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
           before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },

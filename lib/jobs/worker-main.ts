@@ -1,5 +1,5 @@
 /**
- * The worker process: runs the check queue and the e-mail outbox until stopped.
+ * The worker process: runs the check queue, the pool questions and the e-mail outbox until stopped.
  * Start as many as you like, on as many machines as share the database.
  *
  * SIGTERM / SIGINT stop it gracefully: no new claims; the check in hand may finish within
@@ -14,6 +14,7 @@ import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/digest/schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/uploads";
+import { runPoolQuestionsWorker } from "@/lib/pool/questions-job";
 import { msFromEnv } from "./check-jobs";
 import { defaultWorkerId, runWorker } from "./worker";
 
@@ -42,6 +43,7 @@ const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
   runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
+  runPoolQuestionsWorker({ db: getDb(), workerId, signal: controller.signal, pollMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
 ]);

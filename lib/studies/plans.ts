@@ -7,6 +7,7 @@ import { parsePlan, type PlanIssue } from "@/lib/readiness/plan";
 import { fail, ok, type Result } from "@/lib/result";
 import { loadActor } from "@/lib/services/actor";
 import { recordAudit } from "@/lib/services/audit";
+import { enqueuePoolQuestions } from "@/lib/pool/questions-queue";
 import { isDuplicateKey, runService } from "@/lib/services/run";
 import { lockStudy } from "./studies";
 import { planNoteSchema } from "./validation";
@@ -71,6 +72,7 @@ export async function publishPlanVersion(actorId: number, studyId: number, planI
           .$returningId();
         if (!created) throw new Error("insert into data_plans returned no id");
         await tx.update(studies).set({ currentPlanVersion: version }).where(eq(studies.id, studyId));
+        await enqueuePoolQuestions(tx, studyId);
         await recordAudit(tx, {
           actorId: actor.id,
           action: "plan.publish",

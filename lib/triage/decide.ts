@@ -14,6 +14,7 @@ import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail/outbox";
 import { fail, ok, type Result } from "@/lib/result";
 import { recordAudit } from "@/lib/services/audit";
+import { enqueuePoolQuestions } from "@/lib/pool/questions-queue";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { decisionEmail } from "./decision-email";
 
@@ -115,6 +116,7 @@ async function decideInTx(tx: Tx, actorId: number, batchPublicId: string, versio
     );
   }
   await tx.update(batchVersions).set({ state, stateChangedAt: new Date() }).where(eq(batchVersions.id, version.id));
+  if (state === "accepted") await enqueuePoolQuestions(tx, batch.studyId);
   await recordAudit(tx, {
     actorId: actor.id,
     action: `batch.${input.decision}`,
