@@ -142,6 +142,8 @@ export interface SelectionPath {
 export interface SelectionPreview {
   candidates: string[];
   required: string[];
+  /** candidate terms the pool cannot estimate (e.g. a level without complete rows); left out */
+  unestimable?: string[];
   n: number;
   /** σ² of the model of all candidates (for Cp) */
   sigma2: number | null;
