@@ -166,6 +166,8 @@ export function PoolQuestionsSections({ view, slug }: { view: QuestionsView; slu
       part(q)
     ) : view.stored?.error ? (
       <p className="text-sm text-clay-ink">Could not be computed: {view.stored.error}</p>
+    ) : view.stored ? (
+      <p className="text-sm text-silt-ink">The pool has no accepted batches yet: accept a batch to ask its questions.</p>
     ) : null;
   return (
     <>

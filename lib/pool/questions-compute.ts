@@ -30,10 +30,14 @@ export function memberOf(l: Loaded): PoolMember {
   };
 }
 
-/** The questions, or the engine's plain message when a state does not fit the plan. */
-export type Outcome = { result: PoolQuestions; error: null } | { result: null; error: string };
+/**
+ * The questions; the engine's plain message when a state does not fit the plan; or neither
+ * while the pool is empty (there is nothing to ask yet).
+ */
+export type Outcome = { result: PoolQuestions; error: null } | { result: null; error: string | null };
 
 function attempt(members: PoolMember[], plan: Plan, candidate?: PoolMember): Outcome {
+  if (members.length === 0) return { result: null, error: null };
   try {
     return { result: poolQuestions(members, plan, candidate ? { candidate } : {}), error: null };
   } catch (e) {
