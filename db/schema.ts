@@ -166,11 +166,18 @@ export const batchVersions = mysqlTable(
 );
 export type BatchVersion = typeof batchVersions.$inferSelect;
 
+export const JOB_KINDS = ["check", "pool_questions"] as const;
+
 export const checkJobs = mysqlTable(
   "check_jobs",
   {
     id: id(),
-    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    /** "check": a version's file through the engine; "pool_questions": a study's pool questions (lib/pool/questions-job.ts) */
+    kind: mysqlEnum("kind", JOB_KINDS).notNull().default("check"),
+    /** the version to check; for pool questions the version under review, or null for the whole study */
+    batchVersionId: ref("batch_version_id").references(() => batchVersions.id),
+    /** pool questions only: the study whose pool changed */
+    studyId: ref("study_id").references(() => studies.id),
     status: mysqlEnum("status", ["queued", "running", "done", "failed"]).notNull().default("queued"),
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
     lockedBy: varchar("locked_by", { length: 100 }),
@@ -180,7 +187,11 @@ export const checkJobs = mysqlTable(
     createdAt: created(),
     finishedAt: datetime("finished_at", { mode: "date", fsp: 3 }),
   },
-  (t) => [index("check_jobs_status_idx").on(t.status, t.runAfter), index("check_jobs_version_idx").on(t.batchVersionId)],
+  (t) => [
+    index("check_jobs_status_idx").on(t.status, t.runAfter),
+    index("check_jobs_version_idx").on(t.batchVersionId),
+    index("check_jobs_kind_study_idx").on(t.kind, t.studyId, t.status),
+  ],
 );
 
 export const reports = mysqlTable(
@@ -303,4 +314,46 @@ export const userTokens = mysqlTable(
     createdAt: created(),
   },
   (t) => [uniqueIndex("user_tokens_hash_uq").on(t.tokenHash)],
+);
+
+/**
+ * A study's pool questions (poolability, influence, overall F, selection preview), computed by
+ * the worker from the stored engine states whenever the pool changes; pages read this row.
+ */
+export const poolQuestions = mysqlTable(
+  "pool_questions",
+  {
+    id: id(),
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    /** the plan version the figures were computed under */
+    planVersion: int("plan_version", { unsigned: true }).notNull(),
+    /** the accepted batch version ids the figures cover, ascending */
+    versionIds: json("version_ids").$type<number[]>().notNull(),
+    /** the job that computed it: a later job's figures replace an earlier one's, never the other way */
+    jobId: ref("job_id").notNull(),
+    computedAt: datetime("computed_at", { mode: "date", fsp: 3 }).notNull(),
+    /** PoolQuestions (lib/readiness/pooling), JSON; null when they could not be computed */
+    result: json("result"),
+    /** why they could not be computed (a state that does not fit the plan), in plain words */
+    error: text("error"),
+  },
+  (t) => [uniqueIndex("pool_questions_study_uq").on(t.studyId)],
+);
+
+/** "If accepted": the pool questions with one version under review added, per version. */
+export const ifAcceptedQuestions = mysqlTable(
+  "if_accepted_questions",
+  {
+    id: id(),
+    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    studyId: ref("study_id").notNull().references(() => studies.id),
+    planVersion: int("plan_version", { unsigned: true }).notNull(),
+    /** the accepted version ids of the pool it was added to, ascending */
+    versionIds: json("version_ids").$type<number[]>().notNull(),
+    jobId: ref("job_id").notNull(),
+    computedAt: datetime("computed_at", { mode: "date", fsp: 3 }).notNull(),
+    result: json("result"),
+    error: text("error"),
+  },
+  (t) => [uniqueIndex("if_accepted_questions_version_uq").on(t.batchVersionId), index("if_accepted_questions_study_idx").on(t.studyId)],
 );

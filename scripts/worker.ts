@@ -1,5 +1,5 @@
 /**
- * The worker process: runs the check queue and the e-mail outbox until stopped.
+ * The worker process: runs the check queue, the pool questions and the e-mail outbox until stopped.
  * Start as many as you like, on as many machines as share the database.
  *
  * SIGTERM / SIGINT stop it gracefully: no new claims; the check in hand may finish within
@@ -15,6 +15,7 @@ import { runDigestSchedule } from "@/lib/pool/digest-schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
+import { runPoolQuestionsWorker } from "@/lib/pool/questions-job";
 
 // refuse the demo secrets in production, and say what is missing, before touching anything
 exitUnlessEnvOk("worker");
@@ -41,6 +42,7 @@ const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
   runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
+  runPoolQuestionsWorker({ db: getDb(), workerId, signal: controller.signal, pollMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ signal: controller.signal, log }),
 ]);

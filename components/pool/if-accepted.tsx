@@ -11,6 +11,7 @@ import { FindingsTable } from "@/components/report/report-tables";
 import type { SessionUser } from "@/lib/auth/session";
 import { getIfAcceptedForUser } from "@/lib/pool/queries";
 import type { IfAccepted } from "@/lib/pool/pool";
+import { IfAcceptedQuestions } from "./if-accepted-questions";
 import { PoolFigures } from "./pool-figures";
 
 export async function IfAcceptedPanel({ batchPublicId, version, user, data }: { batchPublicId: string; version: number; user: SessionUser; data?: IfAccepted | null }) {
@@ -32,6 +33,7 @@ export async function IfAcceptedPanel({ batchPublicId, version, user, data }: { 
       <div className="grid gap-4" data-testid="if-accepted">
         <PoolFigures caption="Pool figures now and if this version is accepted" columns={[{ heading: "Pool now", report: r.before }, { heading: "With this version", report: r.after }]} />
         {r.after.status === "checked" && r.after.rows.total > 0 ? <DfLedger data={ledgerOf(r.after)} label="Pool with this version" /> : null}
+        <IfAcceptedQuestions user={user} batchPublicId={batchPublicId} version={version} />
         <div>
           <h3 className="mb-1 text-md font-semibold">Drift against the pool</h3>
           {r.poolMembers === 0 ? (

@@ -13,6 +13,7 @@ import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
+import { enqueuePoolQuestions } from "@/lib/pool";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { decisionEmail } from "./decision-email";
 import { decisionInput } from "./schemas";
@@ -109,6 +110,7 @@ async function decideInTx(
     );
   }
   await tx.update(batchVersions).set({ state, stateChangedAt: new Date() }).where(eq(batchVersions.id, version.id));
+  if (state === "accepted") await enqueuePoolQuestions(tx, batch.studyId);
   await audit({
     action: `batch.${input.decision}`,
     objectType: "batch_version",

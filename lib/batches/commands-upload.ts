@@ -10,6 +10,7 @@ import type { DbOrTx } from "@/db/client";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders } from "@/db/schema";
 import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
+import { enqueuePoolQuestions } from "@/lib/pool";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 
@@ -142,6 +143,8 @@ export function recordBatchVersion(
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
         await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
+        // an accepted version leaves the pool
+        if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
         await audit({
           action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
           before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },

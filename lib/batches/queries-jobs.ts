@@ -1,5 +1,5 @@
 import "server-only";
-import { desc, eq, inArray } from "drizzle-orm";
+import { and, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { batches, batchVersions, checkJobs, organisations, studies } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
@@ -46,7 +46,7 @@ export async function listOpenCheckJobs(user: SessionUser): Promise<CheckJobItem
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
     .innerJoin(studies, eq(studies.id, batches.studyId))
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
-    .where(inArray(checkJobs.status, ["queued", "running", "failed"]))
+    .where(and(eq(checkJobs.kind, "check"), inArray(checkJobs.status, ["queued", "running", "failed"])))
     .orderBy(desc(checkJobs.id))
     .limit(500);
 }

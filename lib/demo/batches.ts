@@ -37,11 +37,17 @@ export const BARLEY_HEADER = [
 ] as const;
 type BarleyRow = Record<(typeof BARLEY_HEADER)[number], string | number>;
 
+/** Brackenridge's plots follow a clover ley: their yield rises with nitrogen at 0.3 of the valley's usual rate. */
+export const BRACKENRIDGE_NITROGEN_RESPONSE = 0.3;
+
 const SOIL_EFFECT: Record<string, number> = { loam: 0, clay: -0.35, sand: -0.6, silt: 0.15 };
 const VARIETY_EFFECT = [0, 0.3, -0.2, 0.45];
 
-/** One season of invented plot results for a farm. */
-export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow[] {
+/**
+ * One season of invented plot results for a farm. `nitrogenResponse` scales the yield's
+ * response to nitrogen (1: the valley's usual curve; near 0: plots that hardly respond).
+ */
+export function barleyRows(farmCode: string, n: number, seed: number, nitrogenResponse = 1): BarleyRow[] {
   const r = rng(seed);
   const rows: BarleyRow[] = [];
   for (let i = 0; i < n; i++) {
@@ -56,7 +62,7 @@ export function barleyRows(farmCode: string, n: number, seed: number): BarleyRow
     const density = round(Math.min(420, Math.max(160, 220 + r.normal() * 40)), 0);
     const om = round(Math.max(0.8, 3.2 + r.normal() * 1.1), 2);
     const y =
-      2.2 + 0.016 * nitrogen - 0.00003 * nitrogen * nitrogen + 0.004 * irrigation + 0.0035 * rainfall +
+      2.2 + nitrogenResponse * (0.016 * nitrogen - 0.00003 * nitrogen * nitrogen) + 0.004 * irrigation + 0.0035 * rainfall +
       (SOIL_EFFECT[soil] ?? 0) + (VARIETY_EFFECT[vi] ?? 0) - 0.012 * (sowing - 90) + 0.002 * (density - 220) + 0.12 * om +
       r.normal() * 0.45;
     const day = 200 + Math.floor(r.next() * 30);
@@ -103,8 +109,9 @@ export function barleyBatches(): DemoBatch[] {
     total_water_mm: round(Number(row.irrigation_mm) + Number(row.rainfall_mm), 1),
   }));
 
-  // a third of irrigation missing
-  const bracken = barleyRows("BR", 150, 303).map((row, i) => (i % 3 === 1 ? { ...row, irrigation_mm: "" } : row));
+  // a third of irrigation missing, and plots after a clover ley whose yield hardly rises with nitrogen:
+  // the pool's questions flag this batch (its nitrogen response differs from the other farms')
+  const bracken = barleyRows("BR", 150, 303, BRACKENRIDGE_NITROGEN_RESPONSE).map((row, i) => (i % 3 === 1 ? { ...row, irrigation_mm: "" } : row));
 
   // too small for the model
   const otter = barleyRows("OM", 14, 404);
@@ -117,6 +124,9 @@ export function barleyBatches(): DemoBatch[] {
   const saltCsv = toCsv(h, salt, ";").replace(/(\d)\.(\d)/g, "$1,$2");
 
   const coldwell = barleyRows("CW", 240, 606);
+  // second trial fields of two farms: a provider's batches are tested together too
+  const harrowgateLong = barleyRows("HL", 150, 111);
+  const coldwellTop = barleyRows("CT", 130, 616);
 
   const study = "barley-nitrogen";
   return [
@@ -131,10 +141,13 @@ export function barleyBatches(): DemoBatch[] {
           { code: "collinear.exact", columns: ["total_water_mm"], comment: "Send the plot gauge reading here, not irrigation plus rainfall." },
         ],
       } },
-    { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing", csv: toCsv(h, bracken) },
+    { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing, and a nitrogen response unlike the other farms' (after a clover ley)", csv: toCsv(h, bracken),
+      decision: { by: "analyst@lowmoor.test", decision: "accept", comment: "Accepted: the plots without an irrigation figure stay out of the complete cases." } },
     { organisationSlug: "otterburn-mill", studySlug: study, title: "Otterburn Mill plots, spring 2026", fileName: "otterburn-mill-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
     { organisationSlug: "saltmarsh-end", studySlug: study, title: "Saltmarsh End plots, spring 2026", fileName: "saltmarsh-end-2026.csv", shows: "decimal commas and -999 sentinels", csv: saltCsv },
     { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
+    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, Long Meadow trial 2026", fileName: "harrowgate-long-meadow-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, harrowgateLong), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
+    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, Top Field trial 2026", fileName: "coldwell-top-field-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, coldwellTop), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
   ];
 }
 

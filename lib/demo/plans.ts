@@ -29,6 +29,11 @@ export const BARLEY_PLAN: PlanInput = {
   missingTokens: ["", "NA"],
   anticipatedR2: 0.35,
   outcome: { mean: 6.4, sd: 1.2 },
+  // nitrogen is what the study is about: always in; the pool's selection preview weighs the rest
+  selection: {
+    candidates: ["irrigation_mm", "rainfall_mm", "total_water_mm", "soil", "variety", "sowing_doy", "plant_density", "organic_matter_pct"],
+    required: ["nitrogen_kg_ha"],
+  },
   thresholds: {
     dfTarget: 150,
     dfFloor: 20,

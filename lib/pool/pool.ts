@@ -111,7 +111,7 @@ type VersionRow = {
   organisationId: number; organisationName: string; fileKey: string; fileName: string;
 };
 
-const versionColumns = {
+export const versionColumns = {
   batchVersionId: batchVersions.id,
   batchId: batches.id,
   batchPublicId: batches.publicId,
@@ -123,7 +123,7 @@ const versionColumns = {
   fileName: batchVersions.fileName,
 };
 
-async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
+export async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
   const reps = await newestReports(db, rows.map((r) => r.batchVersionId));
   const out: Loaded[] = [];
   for (const r of rows) {

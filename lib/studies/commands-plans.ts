@@ -3,6 +3,7 @@ import { and, eq, max } from "drizzle-orm";
 import { z } from "zod";
 import { dataPlans, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
+import { enqueuePoolQuestions } from "@/lib/pool";
 import { hashPlan } from "@/lib/readiness";
 import { parsePlan, type PlanIssue } from "@/lib/readiness/plan";
 import { fail, ok, type Result } from "@/lib/result";
@@ -79,6 +80,7 @@ export function publishPlanVersion(
         .$returningId();
       if (!created) throw new Error("insert into data_plans returned no id");
       await tx.update(studies).set({ currentPlanVersion: version }).where(eq(studies.id, studyId));
+      await enqueuePoolQuestions(tx, studyId);
       await audit({
         action: "plan.publish",
         objectType: "data_plan",

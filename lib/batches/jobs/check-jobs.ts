@@ -15,7 +15,8 @@ import type { Db } from "@/db/client";
 import { z } from "zod";
 import { recordAudit } from "@/lib/core/audit";
 import { write } from "@/lib/core/write";
-import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
+import { enqueuePoolQuestions } from "@/lib/pool";
+import { batchVersions, batches, checkJobs, dataPlans, reports, type JOB_KINDS } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { fail, ok, type Result } from "@/lib/result";
 import { msFromEnv } from "@/lib/env";
@@ -43,23 +44,44 @@ export interface ClaimedJob {
   planId: number;
 }
 
+/** Jobs of a kind that may be claimed now: queued and due, or running without a heartbeat for STALE_AFTER_MS. */
+export function claimable(kind: (typeof JOB_KINDS)[number], now: Date) {
+  const staleBefore = new Date(now.getTime() - STALE_AFTER_MS);
+  return and(
+    eq(checkJobs.kind, kind),
+    or(
+      and(eq(checkJobs.status, "queued"), lte(checkJobs.runAfter, now)),
+      and(eq(checkJobs.status, "running"), lte(checkJobs.heartbeatAt, staleBefore)),
+    ),
+  );
+}
+
+/** The job's row after a failed attempt: queued again after a back-off, or failed after MAX_ATTEMPTS. */
+export function afterFailure(attempt: number, error: unknown) {
+  const message = error instanceof Error ? error.message : String(error);
+  const final = attempt >= MAX_ATTEMPTS;
+  const backoffMs = 2_000 * 2 ** (attempt - 1);
+  return {
+    status: final ? ("failed" as const) : ("queued" as const),
+    lastError: message.slice(0, 4000),
+    runAfter: new Date(Date.now() + backoffMs),
+    finishedAt: final ? new Date() : null,
+    lockedBy: null,
+  };
+}
+
 /** Claim the oldest runnable job, or return null when there is none. */
 export async function claimJob(db: Db, workerId: string, now = new Date()): Promise<ClaimedJob | null> {
-  const staleBefore = new Date(now.getTime() - STALE_AFTER_MS);
   return db.transaction(async (tx) => {
     const [job] = await tx
       .select({ id: checkJobs.id, attempts: checkJobs.attempts, batchVersionId: checkJobs.batchVersionId })
       .from(checkJobs)
-      .where(
-        or(
-          and(eq(checkJobs.status, "queued"), lte(checkJobs.runAfter, now)),
-          and(eq(checkJobs.status, "running"), lte(checkJobs.heartbeatAt, staleBefore)),
-        ),
-      )
+      .where(claimable("check", now))
       .orderBy(asc(checkJobs.id))
       .limit(1)
       .for("update", { skipLocked: true });
-    if (!job) return null;
+    // a check job always names its version (only pool-question jobs may not)
+    if (!job || job.batchVersionId === null) return null;
 
     if (job.attempts >= MAX_ATTEMPTS) {
       await tx
@@ -173,6 +195,7 @@ export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessRepo
         .update(batchVersions)
         .set({ state: next, stateChangedAt: now, progressRows: report.rows.total })
         .where(eq(batchVersions.id, job.batchVersionId));
+      if (next === "ready") await enqueuePoolQuestions(tx, job.studyId, job.batchVersionId);
     }
     await tx.update(checkJobs).set({ status: "done", finishedAt: now, lastError: null }).where(eq(checkJobs.id, job.jobId));
     await recordAudit(tx, {
@@ -200,19 +223,7 @@ export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessRepo
  * MAX_ATTEMPTS the job is marked failed. Does nothing when the claim is no longer ours.
  */
 export async function failJob(db: Db, job: ClaimedJob, error: unknown): Promise<void> {
-  const message = error instanceof Error ? error.message : String(error);
-  const final = job.attempt >= MAX_ATTEMPTS;
-  const backoffMs = 2_000 * 2 ** (job.attempt - 1);
-  await db
-    .update(checkJobs)
-    .set({
-      status: final ? "failed" : "queued",
-      lastError: message.slice(0, 4000),
-      runAfter: new Date(Date.now() + backoffMs),
-      finishedAt: final ? new Date() : null,
-      lockedBy: null,
-    })
-    .where(ours(job));
+  await db.update(checkJobs).set(afterFailure(job.attempt, error)).where(ours(job));
 }
 
 /**

@@ -6,10 +6,12 @@ import { CoefficientsTable, CollinearityTable, ColumnsTable, FindingsTable, Leve
 import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "@/components/report/report-pictures";
 import { MembersTable } from "@/components/pool/members-table";
 import { PoolFigures } from "@/components/pool/pool-figures";
+import { PoolQuestionsSections } from "@/components/pool/pool-questions";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatCount, formatDecimal } from "@/lib/format";
 import { getPoolForUser } from "@/lib/pool/queries";
+import { getPoolQuestionsForUser } from "@/lib/pool/questions-access";
 import { thresholdsOf } from "@/lib/readiness/plan";
 
 export const metadata = { title: "Pool" };
@@ -20,6 +22,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
   const { slug } = await params;
   const pool = await getPoolForUser(user, slug);
   if (!pool) notFound();
+  const questions = await getPoolQuestionsForUser(user, slug);
   const r = pool.report;
   const t = thresholdsOf(pool.plan);
   const headroom = r.model.residualDf - r.model.dfTarget;
@@ -75,6 +78,8 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
           rows={pool.members.map((m) => ({ id: String(m.batchVersionId), organisationName: m.organisationName, batchPublicId: m.batchPublicId, batchTitle: m.batchTitle, version: m.version, fileName: m.fileName, rowsTotal: m.rowsTotal, rowsComplete: m.rowsComplete, residualDf: m.residualDf, decidedAt: m.decidedAt ? m.decidedAt.toISOString() : null, currentPlan: m.currentPlan }))}
         />
       </Section>
+
+      {questions ? <PoolQuestionsSections view={questions.view} slug={pool.slug} /> : null}
 
       {r.rows.total > 0 ? (
         <>
