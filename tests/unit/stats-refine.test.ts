@@ -14,19 +14,28 @@ import { chunks } from "../fixtures/engine/data";
 
 const lre = (b: number) => (b === 1 ? 16 : Math.min(16, -Math.log10(Math.abs(b - 1))));
 const COLS = ["intercept", "x1", "x2", "x3", "x4", "x5"];
-const SPEC: DesignSpec = { columns: COLS, intercept: true, terms: COLS.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })), numericColumns: [] };
+const SPEC: DesignSpec = {
+  columns: COLS,
+  intercept: true,
+  terms: COLS.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })),
+  numericColumns: [],
+};
 const OPTS = { alpha: 0.05, power: 0.8 };
 
 function polynomial(): LeastSquares {
   const ls = new LeastSquares(6);
   for (let x = 0; x <= 20; x++) {
     const row = [1, x, x ** 2, x ** 3, x ** 4, x ** 5];
-    ls.addRow(row, row.reduce((s, v) => s + v, 0));
+    ls.addRow(
+      row,
+      row.reduce((s, v) => s + v, 0),
+    );
   }
   return ls;
 }
 
-const digits = (ls: LeastSquares) => Math.min(...analyseDesign(ls, SPEC, OPTS).fit.coefficients.map((c) => lre(c.estimate as number)));
+const digits = (ls: LeastSquares) =>
+  Math.min(...analyseDesign(ls, SPEC, OPTS).fit.coefficients.map((c) => lre(c.estimate as number)));
 
 /** The same factor without its kept rows: what the engine solved before refinement. */
 function withoutRows(ls: LeastSquares): LeastSquares {
@@ -48,7 +57,10 @@ describe("exact degree-5 polynomial (Wampler1 data; coefficients 1 by constructi
     const b = new LeastSquares(6);
     for (let x = 0; x <= 20; x++) {
       const row = [1, x, x ** 2, x ** 3, x ** 4, x ** 5];
-      (x < 10 ? a : b).addRow(row, row.reduce((s, v) => s + v, 0));
+      (x < 10 ? a : b).addRow(
+        row,
+        row.reduce((s, v) => s + v, 0),
+      );
     }
     const merged = LeastSquares.fromJSON(JSON.parse(JSON.stringify(a.toJSON())));
     merged.merge(LeastSquares.fromJSON(b.toJSON()));
@@ -58,8 +70,12 @@ describe("exact degree-5 polynomial (Wampler1 data; coefficients 1 by constructi
 
   test("through the whole check of a CSV file and its plan", async () => {
     const lines = ["x1,x2,x3,x4,x5,y"];
-    for (let x = 0; x <= 20; x++) lines.push([x, x ** 2, x ** 3, x ** 4, x ** 5, 1 + x + x ** 2 + x ** 3 + x ** 4 + x ** 5].join(","));
-    const columns = [...["x1", "x2", "x3", "x4", "x5"].map((name) => ({ name, role: "predictor", type: "number" })), { name: "y", role: "response", type: "number" }];
+    for (let x = 0; x <= 20; x++)
+      lines.push([x, x ** 2, x ** 3, x ** 4, x ** 5, 1 + x + x ** 2 + x ** 3 + x ** 4 + x ** 5].join(","));
+    const columns = [
+      ...["x1", "x2", "x3", "x4", "x5"].map((name) => ({ name, role: "predictor", type: "number" })),
+      { name: "y", role: "response", type: "number" },
+    ];
     const parsed = parsePlan({ columns });
     if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
     const report = await checkBatch(chunks(lines.join("\n") + "\n"), parsed.plan);
@@ -97,16 +113,28 @@ describe("the kept rows and the step's safeguards", () => {
   test("on a well-conditioned design the refined coefficients equal the plain ones to rounding", () => {
     const ls = new LeastSquares(3);
     let s = 7;
-    const u = () => ((s = (s * 16807) % 2147483647) / 2147483647);
+    const u = () => (s = (s * 16807) % 2147483647) / 2147483647;
     for (let i = 0; i < 200; i++) {
       const a = u();
       const b = u();
       ls.addRow([1, a, b], 1 + 2 * a - 3 * b + (u() - 0.5));
     }
-    const spec: DesignSpec = { columns: ["intercept", "a", "b"], intercept: true, terms: [{ term: "a", columns: ["a"], df: 1 }, { term: "b", columns: ["b"], df: 1 }], numericColumns: [] };
+    const spec: DesignSpec = {
+      columns: ["intercept", "a", "b"],
+      intercept: true,
+      terms: [
+        { term: "a", columns: ["a"], df: 1 },
+        { term: "b", columns: ["b"], df: 1 },
+      ],
+      numericColumns: [],
+    };
     const refined = analyseDesign(ls, spec, OPTS).fit.coefficients;
     const plain = analyseDesign(withoutRows(ls), spec, OPTS).fit.coefficients;
-    refined.forEach((c, i) => expect(Math.abs((c.estimate as number) - (plain[i]!.estimate as number))).toBeLessThan(1e-12 * Math.max(1, Math.abs(c.estimate as number))));
+    refined.forEach((c, i) =>
+      expect(Math.abs((c.estimate as number) - (plain[i]!.estimate as number))).toBeLessThan(
+        1e-12 * Math.max(1, Math.abs(c.estimate as number)),
+      ),
+    );
   });
 
   test("renaming the design columns carries the kept rows (a missing level becomes a zero column)", () => {

@@ -63,12 +63,18 @@ export function joinKept(a: number[] | null, b: number[] | null): number[] | nul
 }
 
 /** Kept rows of k columns renamed to `width` columns: column j goes to targets[j] (dropped when −1). */
-export function remapKept(kept: number[] | null, k: number, targets: number[], width: number): number[] | null {
+export function remapKept(
+  kept: number[] | null,
+  k: number,
+  targets: number[],
+  width: number,
+): number[] | null {
   if (kept === null) return null;
   const out: number[] = [];
   for (let at = 0; at < kept.length; at += k + 1) {
     const row = new Array<number>(width + 1).fill(0);
-    for (let j = 0; j < k; j++) if ((targets[j] as number) >= 0) row[targets[j] as number] = kept[at + j] as number;
+    for (let j = 0; j < k; j++)
+      if ((targets[j] as number) >= 0) row[targets[j] as number] = kept[at + j] as number;
     row[width] = kept[at + k] as number;
     out.push(...row);
   }
@@ -96,7 +102,13 @@ function residuals(x: number[][], y: number[], b: number[]): number[] {
  * non-aliased ones, in order) and `r` their upper-triangular factor (RᵀR = XᵀX over those
  * columns). Returns b unchanged when no rows are kept or the step does not lower the RSS.
  */
-export function refineCoefficients(kept: readonly number[] | null, k: number, cols: number[], r: number[][], b: number[]): number[] {
+export function refineCoefficients(
+  kept: readonly number[] | null,
+  k: number,
+  cols: number[],
+  r: number[][],
+  b: number[],
+): number[] {
   const m = cols.length;
   if (kept === null || kept.length === 0 || m === 0) return b;
   const { x, y } = rowsOf(kept, k, cols);
