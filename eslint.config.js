@@ -10,6 +10,18 @@ const engineBoundary = {
   ],
 };
 
+// Everything outside the engine imports it through its public entries, the ones
+// lib/readiness/package.json exports: "@/lib/readiness" and "@/lib/readiness/node" (Node only).
+// Unit tests of the engine's own modules (tests/unit, tests/helpers) may reach inside.
+const engineEntries = {
+  patterns: [
+    {
+      group: ["@/lib/readiness/*", "!@/lib/readiness/node", "**/lib/readiness/*", "!**/lib/readiness/node", "@tributary/readiness/*", "!@tributary/readiness/node"],
+      message: "Import the engine through its public entry, @/lib/readiness (or @/lib/readiness/node for Node-only helpers); export what you need from lib/readiness/index.ts.",
+    },
+  ],
+};
+
 export default tseslint.config(
   { ignores: [".next/**", "node_modules/**", "drizzle/**", ".data/**", "next-env.d.ts", "bench-out/**"] },
   ...tseslint.configs.recommended,
@@ -21,5 +33,10 @@ export default tseslint.config(
   {
     files: ["lib/readiness/**/*.ts"],
     rules: { "no-restricted-imports": ["error", engineBoundary] },
+  },
+  {
+    files: ["**/*.{ts,tsx,js,mjs,cjs}"],
+    ignores: ["lib/readiness/**", "tests/unit/**", "tests/helpers/**"],
+    rules: { "no-restricted-imports": ["error", engineEntries] },
   },
 );

@@ -14,7 +14,7 @@ import { drizzle, type MySql2Database } from "drizzle-orm/mysql2";
 import mysql from "mysql2/promise";
 import * as schema from "./schema";
 import { DEMO_ORGANISATIONS, DEMO_PASSWORD, DEMO_STUDIES, DEMO_USERS, planHash } from "@/lib/demo";
-import { parsePlan, type Plan } from "@/lib/readiness/plan";
+import { parsePlan, type Plan } from "@/lib/readiness";
 import { databaseUrlOrExit, describeDbError, redact } from "./migrate";
 
 const { organisations, users, studies, dataPlans, studyAnalysts, studyProviders, batchVersions } = schema;

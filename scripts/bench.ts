@@ -7,7 +7,7 @@
 import { spawnSync } from "node:child_process";
 import { createWriteStream, existsSync, mkdirSync, writeFileSync } from "node:fs";
 import path from "node:path";
-import { mulberry32 } from "@/lib/readiness/accumulators";
+import { mulberry32 } from "@/lib/readiness";
 
 const OUT = path.resolve("bench-out");
 const rowsArg = process.argv.indexOf("--rows");

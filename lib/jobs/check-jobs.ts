@@ -14,7 +14,7 @@ import { and, asc, eq, lte, or, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/services/audit";
 import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 
 export const MAX_ATTEMPTS = 3;
 

@@ -3,7 +3,7 @@ import { and, eq, max } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { dataPlans, studies } from "@/db/schema";
 import { planHash } from "@/lib/demo/plan-hash";
-import { parsePlan, type PlanIssue } from "@/lib/readiness/plan";
+import { parsePlan, type PlanIssue } from "@/lib/readiness";
 import { fail, ok, type Result } from "@/lib/result";
 import { loadActor } from "@/lib/services/actor";
 import { recordAudit } from "@/lib/services/audit";

@@ -14,7 +14,7 @@ import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail/outbox";
 import { fail, ok, type Result } from "@/lib/result";
 import { recordAudit } from "@/lib/services/audit";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 import { decisionEmail } from "./decision-email";
 
 export const decisionInput = z.object({

@@ -10,7 +10,7 @@ import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatCount, formatDecimal } from "@/lib/format";
 import { getPoolForUser } from "@/lib/pool/access";
-import { thresholdsOf } from "@/lib/readiness/plan";
+import { thresholdsOf } from "@/lib/readiness";
 
 export const metadata = { title: "Pool" };
 
