@@ -1,20 +1,27 @@
 /**
- * The command line (issue 3, point 8): exit 0 without blockers, 1 with blockers, 2 for an
- * unreadable file or bad usage; --json prints the report alone; --draft-plan a plan.
+ * The command line, `tributary-check` (lib/readiness/cli, the package's bin): exit 0 without
+ * blockers, 1 with blockers, 2 for an unreadable file or bad usage (issue 3, point 8); --json
+ * prints the report alone; --draft-plan a plan; arguments as node:util parseArgs reads them
+ * (`--opt value` and `--opt=value`); `-` is standard input; progress only on a terminal.
  */
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { beforeAll, describe, expect, test } from "vitest";
-import { parsePlan } from "@/lib/readiness";
+import { ENGINE_VERSION, parsePlan } from "@/lib/readiness";
 import { HEADER, cleanRows, csvOf, planInput } from "../fixtures/engine/data";
 
+const BIN = path.resolve("lib/readiness/bin/tributary-check.mjs");
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tributary-cli-"));
 const f = (name: string) => path.join(dir, name);
 
 function cli(...args: string[]) {
-  const r = spawnSync(process.execPath, ["--import", "tsx", "scripts/check.ts", ...args], { encoding: "utf8", timeout: 60_000 });
+  return cliWith({}, ...args);
+}
+
+function cliWith(opts: { input?: string }, ...args: string[]) {
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", timeout: 60_000, input: opts.input });
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 
@@ -35,7 +42,12 @@ describe("exit codes", () => {
     { name: "unreadable file → 2", args: () => [f("book.csv"), "--plan", f("plan.json")], code: 2, out: /Excel workbook/ },
     { name: "missing file → 2", args: () => [f("nope.csv"), "--plan", f("plan.json")], code: 2, err: /no such file/ },
     { name: "no plan → 2", args: () => [f("clean.csv")], code: 2, err: /--plan PLAN\.json is required/ },
-    { name: "unknown option → 2", args: () => [f("clean.csv"), "--frobnicate"], code: 2, err: /unknown option/ },
+    { name: "unknown option → 2", args: () => [f("clean.csv"), "--frobnicate"], code: 2, err: /unknown option --frobnicate/ },
+    { name: "--plan without its file → 2", args: () => [f("clean.csv"), "--plan"], code: 2, err: /--plan needs a file name/ },
+    { name: "a value given to a switch → 2", args: () => [f("clean.csv"), "--plan", f("plan.json"), "--json=yes"], code: 2, err: /--json takes no value/ },
+    { name: "--workers out of range → 2", args: () => [f("clean.csv"), "--plan", f("plan.json"), "--workers", "0"], code: 2, err: /--workers needs a whole number from 1 to 16/ },
+    { name: "two files without --pool → 2", args: () => [f("clean.csv"), f("blocker.csv"), "--plan", f("plan.json")], code: 2, err: /only one file at a time[\s\S]*--pool/ },
+    { name: "--opt=value works like --opt value", args: () => [f("blocker.csv"), `--plan=${f("plan.json")}`, "--workers=2"], code: 1, out: /level\.unknown \(soil\)/ },
     { name: "invalid plan → 2 with field messages", args: () => [f("clean.csv"), "--plan", f("bad-plan.json")], code: 2, err: /columns\.1\.baseline: baseline "y" is not among the levels[\s\S]*exactly one response/ },
   ])("$name", ({ args, code, out, err }) => {
     const r = cli(...args());
@@ -68,5 +80,51 @@ describe("output modes", () => {
     const values = cleanRows(200).map((x) => Number(x[HEADER.indexOf("nitrogen")]));
     expect(nitrogen).toMatchObject({ type: "number", min: Math.min(...values), max: Math.max(...values) });
     expect(parsePlan(draft).ok).toBe(true);
+  });
+});
+
+describe("standard input, --version, progress and npx", () => {
+  test("`-` reads the batch from standard input: the same report as from the file", () => {
+    const fromFile = JSON.parse(cli(f("blocker.csv"), "--plan", f("plan.json"), "--json").out);
+    const r = cliWith({ input: fs.readFileSync(f("blocker.csv"), "utf8") }, "-", "--plan", f("plan.json"), "--json");
+    expect(r.code, r.err).toBe(1);
+    const fromStdin = JSON.parse(r.out);
+    expect(fromStdin.rows).toEqual(fromFile.rows);
+    expect(fromStdin.findings).toEqual(fromFile.findings);
+    expect(fromStdin.fit).toEqual(fromFile.fit);
+  });
+
+  test("`-` also drafts a plan from standard input", () => {
+    const r = cliWith({ input: fs.readFileSync(f("clean.csv"), "utf8") }, "-", "--draft-plan", "--response", "yield");
+    expect(r.code, r.err).toBe(0);
+    expect(parsePlan(JSON.parse(r.out)).ok).toBe(true);
+  });
+
+  test("--version names the package's version, which is the engine's checks version", () => {
+    const pkg = JSON.parse(fs.readFileSync("lib/readiness/package.json", "utf8"));
+    // bump lib/readiness/package.json "version" together with ENGINE_VERSION (lib/readiness/check.ts)
+    expect(pkg.version).toBe(ENGINE_VERSION);
+    const r = cli("--version");
+    expect(r.code).toBe(0);
+    expect(r.out).toBe(`tributary-check ${pkg.version} (checks ${ENGINE_VERSION}, report format 1)\n`);
+  });
+
+  test("progress goes to standard error only when it is a terminal", () => {
+    fs.writeFileSync(f("large.csv"), csvOf(HEADER, cleanRows(25_000)));
+    expect(fs.statSync(f("large.csv")).size).toBeGreaterThan(1 << 20);
+    const piped = cli(f("large.csv"), "--plan", f("plan.json"), "--json");
+    expect(piped.code).toBe(0);
+    expect(piped.err).toBe("");
+    // the same command on a pseudo-terminal (util-linux script): the progress line appears
+    const cmd = [process.execPath, BIN, f("large.csv"), "--plan", f("plan.json"), "--json"].map((a) => `'${a}'`).join(" ");
+    const tty = spawnSync("script", ["-qec", `${cmd} >/dev/null`, "/dev/null"], { encoding: "utf8", timeout: 60_000 });
+    expect(tty.status, tty.stderr).toBe(0);
+    expect(tty.stdout).toMatch(/large\.csv: read [\d,]+ rows, \d+ %/);
+  });
+
+  test("npx tributary-check runs the package's bin from the checkout (npm workspaces link it)", () => {
+    const r = spawnSync("npx", ["--no-install", "tributary-check", "--version"], { encoding: "utf8", timeout: 60_000 });
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stdout).toMatch(/^tributary-check \d+\.\d+\.\d+ /);
   });
 });
