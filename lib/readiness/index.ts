@@ -8,6 +8,7 @@ export { checkBatch, ENGINE_VERSION, hashPlan, type CheckOptions } from "./check
 export { draftPlan, type DraftResult } from "./draft";
 export { poolReport, driftFindings } from "./pool";
 export { mergeStates, isEngineState, type EngineState } from "./state";
+export * from "./pooling";
 export {
   parsePlan,
   planSchema,
