@@ -9,8 +9,8 @@ import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { beforeAll, describe, expect, test } from "vitest";
-import { ENGINE_VERSION, parsePlan } from "@/lib/readiness";
-import { HEADER, cleanRows, csvOf, planInput } from "../fixtures/engine/data";
+import { ENGINE_VERSION, checkBatch, parsePlan, poolQuestions, type PoolMember } from "@/lib/readiness";
+import { HEADER, chunks, cleanRows, csvOf, plan as planOf, planInput } from "../fixtures/engine/data";
 
 const BIN = path.resolve("lib/readiness/bin/tributary-check.mjs");
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tributary-cli-"));
@@ -126,5 +126,53 @@ describe("standard input, --version, progress and npx", () => {
     const r = spawnSync("npx", ["--no-install", "tributary-check", "--version"], { encoding: "utf8", timeout: 60_000 });
     expect(r.status, r.stderr).toBe(0);
     expect(r.stdout).toMatch(/^tributary-check \d+\.\d+\.\d+ /);
+  });
+});
+
+describe("--pool: several files, each one batch, pooled from their states", () => {
+  const selection = { selection: { candidates: ["soil", "variety", "nitrogen", "irrigation", "rainfall"], required: [] } };
+  const names = ["north.csv", "south.csv", "east.csv"];
+  beforeAll(() => {
+    fs.writeFileSync(f("select-plan.json"), JSON.stringify(planInput(selection)));
+    names.forEach((name, i) => fs.writeFileSync(f(name), csvOf(HEADER, cleanRows(150, 21 + i, 1 + 1000 * i))));
+  });
+
+  test("the JSON holds poolability, influence and selection, equal to poolQuestions on the files' own states", async () => {
+    const r = cli(...names.map(f), "--pool", "--plan", f("select-plan.json"), "--json");
+    expect(r.code, r.err).toBe(0);
+    const out = JSON.parse(r.out);
+    expect(out.files.map((x: { file: string }) => path.basename(x.file))).toEqual(names);
+    // independently: each file checked by checkBatch, its state pooled by poolQuestions
+    const p = planOf(selection);
+    const members: PoolMember[] = [];
+    for (const [i, name] of names.entries()) {
+      const rep = await checkBatch(chunks(fs.readFileSync(f(name))), p);
+      members.push({ id: String(i + 1), label: f(name), group: "files", groupLabel: "these files", state: rep.state as PoolMember["state"] });
+    }
+    const q = JSON.parse(JSON.stringify(poolQuestions(members, p)));
+    expect(out.poolability).toEqual(q.poolability);
+    expect(out.influence).toEqual(q.influence);
+    expect(out.selection).toEqual(q.selection);
+    expect(out.selection.picks.length).toBeGreaterThan(0);
+    expect(out.poolability.batches).toHaveLength(3);
+  });
+
+  test("the pool's fit is the fit of the three files stacked into one (the states merge exactly)", async () => {
+    const out = JSON.parse(cli(...names.map(f), "--pool", "--plan", f("plan.json"), "--json").out);
+    const stacked = names.flatMap((n) => fs.readFileSync(f(n), "utf8").trim().split("\n").slice(1));
+    const one = await checkBatch(chunks([HEADER.join(","), ...stacked].join("\n") + "\n"), planOf());
+    expect(out.pool.rows).toEqual({ total: 450, complete: 450 });
+    expect(Math.abs(out.pool.fit.F - one.fit!.F!) / one.fit!.F!).toBeLessThan(1e-10);
+  });
+
+  test("the readable summary names each file and the pool's answers; an unreadable file → 2, no pool", () => {
+    const r = cli(...names.map(f), "--pool", "--plan", f("plan.json"));
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toMatch(/north\.csv: 150 rows[\s\S]*Readiness report for the pool of 3 files[\s\S]*poolability:[\s\S]*influence:/);
+    const bad = cli(f("north.csv"), f("book.csv"), "--pool", "--plan", f("plan.json"), "--json");
+    expect(bad.code).toBe(2);
+    const out = JSON.parse(bad.out);
+    expect(out.pool).toBeNull();
+    expect(out.message).toMatch(/book\.csv cannot be read/);
   });
 });
