@@ -48,9 +48,8 @@ export function printSummary(
         `${r && m.kind !== "r" && m.n !== r.n ? ` (R: ${r.n?.toLocaleString("en")})` : ""}`,
     );
   }
-  out.push(
-    `(median of ${ms[0]?.walls.length ?? 0} runs each; walls: ${ms.map((m) => `${m.kind === "r" ? "R" : m.name.replace(/,.*/, "")}/${m.workers} ${m.walls.map((w) => w.toFixed(1)).join(" ")}`).join("; ")})`,
-  );
+  out.push(`medians of ${ms[0]?.walls.length ?? 0} runs each; the runs' wall times, s:`);
+  for (const m of ms) out.push(`  ${m.name.padEnd(30)} ${m.walls.map((w) => w.toFixed(2)).join("  ")}`);
   out.push(
     `load average ${ctx.load0.toFixed(1)} before, ${ctx.load1.toFixed(1)} after: the machine is shared, so figures move between runs`,
   );
