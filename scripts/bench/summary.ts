@@ -33,10 +33,11 @@ export function printSummary(
   const rel = (m: Measured) => (r?.F && m.F !== null ? Math.abs(m.F - r.F) / Math.abs(r.F) : NaN);
   const out: string[] = [""];
   out.push(
-    `${"".padEnd(32)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"peak MB".padStart(8)} ${"MB/s".padStart(6)} ${"× R".padStart(5)}  F vs R (relative)  complete rows`,
+    `${"".padEnd(32)} ${"wall s".padStart(7)} ${"CPU s".padStart(7)} ${"peak MB".padStart(8)} ${"MB/s".padStart(6)} ${"× R".padStart(5)} ${"CPU × R".padStart(7)}  F vs R (relative)  complete rows`,
   );
   for (const m of ms) {
     const ratio = r ? m.wallS / r.wallS : NaN;
+    const cpuRatio = r ? m.cpuS / r.cpuS : NaN;
     const f =
       m.kind === "r"
         ? `F = ${m.F?.toPrecision(12) ?? "–"}`
@@ -44,14 +45,14 @@ export function printSummary(
           ? `${rel(m).toExponential(1)} ${rel(m) <= TARGETS.fRelative ? "agrees" : "DIFFERS"}`
           : "–";
     out.push(
-      `${m.name.padEnd(32)} ${fmt(m.wallS).padStart(7)} ${fmt(m.cpuS).padStart(7)} ${fmt(m.peakMB, 0).padStart(8)} ${fmt(ctx.bytes / 1e6 / m.wallS, 1).padStart(6)} ${fmt(ratio).padStart(5)}  ${f.padEnd(17)}  ${m.n?.toLocaleString("en") ?? "–"}` +
+      `${m.name.padEnd(32)} ${fmt(m.wallS).padStart(7)} ${fmt(m.cpuS).padStart(7)} ${fmt(m.peakMB, 0).padStart(8)} ${fmt(ctx.bytes / 1e6 / m.wallS, 1).padStart(6)} ${fmt(ratio).padStart(5)} ${fmt(cpuRatio).padStart(7)}  ${f.padEnd(17)}  ${m.n?.toLocaleString("en") ?? "–"}` +
         `${r && m.kind !== "r" && m.n !== r.n ? ` (R: ${r.n?.toLocaleString("en")})` : ""}`,
     );
   }
   out.push(`medians of ${ms[0]?.walls.length ?? 0} runs each; the runs' wall times, s:`);
   for (const m of ms) out.push(`  ${m.name.padEnd(30)} ${m.walls.map((w) => w.toFixed(2)).join("  ")}`);
   out.push(
-    `load average ${ctx.load0.toFixed(1)} before, ${ctx.load1.toFixed(1)} after: the machine is shared, so figures move between runs`,
+    `load average ${ctx.load0.toFixed(1)} before, ${ctx.load1.toFixed(1)} after: the machine is shared, so wall times move between runs (CPU times less so)`,
   );
 
   const check = (w: "one" | "all") =>
