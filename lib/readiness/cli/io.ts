@@ -1,7 +1,7 @@
 /** The command's inputs: files or standard input, the plan file, one batch checked. */
 import { createReadStream, readFileSync, statSync } from "node:fs";
 import { checkBatch } from "../check";
-import { checkFile, fastAscii } from "../node";
+import { checkFile } from "../node";
 import { parsePlan, type Plan } from "../plan";
 import type { ReadinessReport } from "../report";
 import { UsageError } from "./args";
@@ -80,7 +80,6 @@ export async function checkInput(
     input.size === null
       ? await checkBatch(input.stream(), plan, {
           fileName: input.label,
-          fastAscii,
           onProgress: progress.onProgress,
         })
       : await checkFile(input.arg, plan, { workers, fileName: input.label, onProgress: progress.onProgress });
