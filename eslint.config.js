@@ -1,3 +1,4 @@
+import { readFileSync } from "node:fs";
 import tseslint from "typescript-eslint";
 
 // The readiness engine is a library: it runs in Node, workers, the browser and the CLI.
@@ -11,13 +12,23 @@ const engineBoundary = {
 };
 
 // Everything outside the engine imports it through its public entries, the ones
-// lib/readiness/package.json exports: "@/lib/readiness" and "@/lib/readiness/node" (Node only).
-// Unit tests of the engine's own modules (tests/unit, tests/helpers) may reach inside.
+// lib/readiness/package.json exports: "@/lib/readiness" and its subpaths (e.g. "@/lib/readiness/node",
+// Node only). To make a module public, add it to those "exports". Unit tests of the engine's own
+// modules (tests/unit, tests/helpers) may reach inside.
+const enginePackage = JSON.parse(readFileSync(new URL("./lib/readiness/package.json", import.meta.url), "utf8"));
+const publicSubpaths = Object.keys(enginePackage.exports)
+  .filter((k) => k !== "." && k !== "./package.json")
+  .map((k) => k.slice(2));
 const engineEntries = {
   patterns: [
     {
-      group: ["@/lib/readiness/*", "!@/lib/readiness/node", "**/lib/readiness/*", "!**/lib/readiness/node", "@tributary/readiness/*", "!@tributary/readiness/node"],
-      message: "Import the engine through its public entry, @/lib/readiness (or @/lib/readiness/node for Node-only helpers); export what you need from lib/readiness/index.ts.",
+      group: [
+        "@/lib/readiness/*",
+        "**/lib/readiness/*",
+        "@tributary/readiness/*",
+        ...publicSubpaths.flatMap((p) => [`!@/lib/readiness/${p}`, `!**/lib/readiness/${p}`, `!@tributary/readiness/${p}`]),
+      ],
+      message: `Import the engine through its public entries (@/lib/readiness${publicSubpaths.map((p) => `, @/lib/readiness/${p}`).join("")}): export what you need from lib/readiness/index.ts, or list the module in lib/readiness/package.json "exports".`,
     },
   ],
 };
