@@ -15,7 +15,7 @@ import mysql from "mysql2/promise";
 import * as schema from "./schema";
 import { DEMO_ORGANISATIONS, DEMO_PASSWORD, DEMO_STUDIES, DEMO_USERS } from "@/lib/demo";
 import { hashPlan } from "@/lib/readiness";
-import { parsePlan, type Plan } from "@/lib/readiness/plan";
+import { parsePlan, type Plan } from "@/lib/readiness";
 import { databaseUrlOrExit, describeDbError, redact } from "./migrate";
 
 const { organisations, users, studies, dataPlans, studyAnalysts, studyProviders, batchVersions } = schema;

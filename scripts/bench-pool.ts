@@ -5,8 +5,7 @@
  * and leave-one-batch-out cross-validation from the 100 stored states. Prints the time.
  *   npx tsx scripts/bench-pool.ts [--batches N] [--rows N] [--candidates M] [--null]
  */
-import { mulberry32 } from "@/lib/readiness/accumulators";
-import { checkBatch, isEngineState, parsePlan, poolQuestions, type PoolMember } from "@/lib/readiness";
+import { checkBatch, isEngineState, mulberry32, parsePlan, poolQuestions, type PoolMember } from "@/lib/readiness";
 
 const arg = (name: string, fallback: number) => {
   const i = process.argv.indexOf(`--${name}`);

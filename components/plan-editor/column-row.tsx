@@ -5,7 +5,7 @@ import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Select } from "@/components/ui/select";
-import { COLUMN_TYPES, ROLES } from "@/lib/readiness/plan";
+import { COLUMN_TYPES, ROLES } from "@/lib/readiness";
 import type { ColumnDraft } from "./form-state";
 import { TokenList } from "./token-list";
 

@@ -2,7 +2,7 @@
 
 import { useEffect, useId, useRef } from "react";
 import { toast } from "sonner";
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 import { formatBytes } from "@/lib/format";
 import { useDraft } from "@/lib/client/use-draft";
 

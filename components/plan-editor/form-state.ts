@@ -3,7 +3,7 @@
  * Numbers are kept as the text typed, so a half-typed value is never lost; converting
  * back reports what is not a number, by the plan path the server would use.
  */
-import { DEFAULT_THRESHOLDS, type ColumnType, type PlanColumn, type PlanInput, type Role } from "@/lib/readiness/plan";
+import { DEFAULT_THRESHOLDS, type ColumnType, type PlanColumn, type PlanInput, type Role } from "@/lib/readiness";
 
 export type ThresholdKey = keyof typeof DEFAULT_THRESHOLDS;
 export const THRESHOLD_KEYS = Object.keys(DEFAULT_THRESHOLDS) as ThresholdKey[];

@@ -2,7 +2,7 @@
 
 import { DataTable, type Column } from "@/components/data-table";
 import { Badge } from "@/components/ui/badge";
-import type { PlanColumn } from "@/lib/readiness/plan";
+import type { PlanColumn } from "@/lib/readiness";
 
 type Row = PlanColumn & { id: number; position: number };
 

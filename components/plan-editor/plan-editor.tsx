@@ -7,7 +7,7 @@ import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Section } from "@/components/ui/section";
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 import type { Result } from "@/lib/result";
 import { modelSize } from "@/lib/studies/model-size";
 import { ColumnRow } from "./column-row";

@@ -1,4 +1,4 @@
-import type { DEFAULT_THRESHOLDS } from "@/lib/readiness/plan";
+import type { DEFAULT_THRESHOLDS } from "@/lib/readiness";
 
 /** What each threshold does, in the product's words (values and sources in lib/readiness/CHECKS.md). */
 export const THRESHOLD_LABELS: Record<keyof typeof DEFAULT_THRESHOLDS, string> = {

@@ -2,7 +2,7 @@
 
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
-import { DEFAULT_THRESHOLDS } from "@/lib/readiness/plan";
+import { DEFAULT_THRESHOLDS } from "@/lib/readiness";
 import { THRESHOLD_KEYS, type PlanDraft, type ThresholdKey } from "./form-state";
 import { THRESHOLD_LABELS } from "./threshold-labels";
 

@@ -1,6 +1,6 @@
 /** The pool's figures side by side: as it stands and with a batch added (or one column alone). */
 import { formatCount, formatDecimal } from "@/lib/format";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 
 type Figure = { label: string; of: (r: ReadinessReport) => number | null; digits?: number; signed?: boolean };
 

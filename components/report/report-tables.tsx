@@ -3,7 +3,7 @@
 import { DataTable, type Column } from "@/components/data-table";
 import { SeverityBadge } from "@/components/severity-badge";
 import { formatCount, formatDecimal } from "@/lib/format";
-import type { ColumnReport, Coefficient, Finding } from "@/lib/readiness/report";
+import type { ColumnReport, Coefficient, Finding } from "@/lib/readiness";
 
 const SEVERITY_ORDER = { blocker: 0, warning: 1, note: 2 } as const;
 

@@ -2,8 +2,7 @@
 import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
 import { formatCount, formatDecimal } from "@/lib/format";
-import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf } from "@/lib/readiness/plan";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
 import { DfLedger, ledgerOf } from "./df-ledger";
 import { CoefficientsTable, CollinearityTable, ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
 import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "./report-pictures";

@@ -6,7 +6,7 @@ import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { SeverityShape } from "@/components/severity-badge";
-import type { Finding } from "@/lib/readiness/report";
+import type { Finding } from "@/lib/readiness";
 import type { Result } from "@/lib/result";
 import type { DecisionDone, DecisionInput } from "@/lib/batches/commands-decide";
 

@@ -14,7 +14,7 @@ import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { enqueuePoolQuestions } from "@/lib/pool";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 import { decisionEmail } from "./decision-email";
 import { decisionInput } from "./schemas";
 

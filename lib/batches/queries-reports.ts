@@ -3,7 +3,7 @@ import { and, desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./queries";
 
 export type VersionReport = {

@@ -2,8 +2,7 @@
  * Browser Web Worker: runs the readiness engine on the file a provider has chosen,
  * before it is uploaded, so obvious faults show at once and the page stays responsive.
  */
-import { checkBatch } from "@/lib/readiness";
-import { parsePlan } from "@/lib/readiness/plan";
+import { checkBatch, parsePlan } from "@/lib/readiness";
 
 export type PrecheckRequest = { file: File; plan: unknown };
 export type PrecheckMessage =

@@ -3,7 +3,7 @@
  * Lowmoor Valley farms and home results from the heat-pump installers, some clean and
  * some with the defects providers really send.
  */
-import { mulberry32 } from "@/lib/readiness/accumulators";
+import { mulberry32 } from "@/lib/readiness";
 import { BARLEY_VARIETIES, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES, INSULATION_BANDS, SOIL_TYPES } from "./plans";
 
 export interface DemoBatch {

@@ -2,7 +2,7 @@
  * The data plans of the two demo studies (invented). Both are parsed with parsePlan at seed
  * time, so a plan that drifts from the schema stops the seed with the field at fault.
  */
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 
 export const BARLEY_VARIETIES = ["Halden Gold", "Skerrow", "Brackwater", "Lowmoor Amber"] as const;
 export const SOIL_TYPES = ["loam", "clay", "sand", "silt"] as const;

@@ -1,5 +1,5 @@
 /** The two demo studies, who runs them, who reviews them and who sends them batches (invented). */
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 import { DEMO_AGENCY_SLUG, DEMO_FARMS, DEMO_INSTALLERS, DEMO_TEAM_SLUG } from "./accounts";
 import { BARLEY_PLAN, HEAT_PUMP_PLAN } from "./plans";
 

@@ -6,7 +6,7 @@
 import { Readable } from "node:stream";
 import Papa from "papaparse";
 import { csvCell } from "@/lib/format";
-import type { PlanColumn } from "@/lib/readiness/plan";
+import type { PlanColumn } from "@/lib/readiness";
 import { poolFigures, type PoolFigures, type PoolMember, type StudyPool } from "./pool";
 
 /** Opens a stored file by key (the upload service's openStoredFile, or a stand-in in tests). */

@@ -5,7 +5,7 @@ import { dataPlans, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/pool";
 import { hashPlan } from "@/lib/readiness";
-import { parsePlan, type PlanIssue } from "@/lib/readiness/plan";
+import { parsePlan, type PlanIssue } from "@/lib/readiness";
 import { fail, ok, type Result } from "@/lib/result";
 import { lockStudy } from "./commands-studies";
 import { planNoteSchema } from "./schemas";

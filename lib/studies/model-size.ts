@@ -2,8 +2,7 @@
  * The size of a plan's model, for the editor and the study page: how many parameters the
  * planned regression has and the sample it needs. No server imports: runs in the browser.
  */
-import { buildDesign, predictorsOf } from "@/lib/readiness/design";
-import { DEFAULT_THRESHOLDS, type Plan, type PlanInput } from "@/lib/readiness/plan";
+import { buildDesign, predictorsOf, DEFAULT_THRESHOLDS, type Plan, type PlanInput } from "@/lib/readiness";
 
 export type ModelTerm = { term: string; kind: "numeric" | "boolean" | "category" | "interaction"; df: number; columns: string[] };
 

@@ -10,7 +10,7 @@ import { getDb, getPool } from "@/db/client";
 import { batchVersions, dataPlans, reports } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
 import { rowsAtFaultCsv } from "@/lib/batches/intake/rows-at-fault";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 import { GET } from "@/app/api/v1/batches/[id]/versions/[version]/rows-at-fault/route";
 import { openMemoryFile, uploadAndCheck } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";

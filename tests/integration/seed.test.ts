@@ -11,7 +11,7 @@ import * as schema from "@/db/schema";
 import { runMigrations } from "@/db/migrate";
 import { seedDemo, type SeedDb } from "@/db/seed";
 import { canonicalJson, DEMO_PASSWORD, planHash } from "@/lib/demo";
-import { parsePlan } from "@/lib/readiness/plan";
+import { parsePlan } from "@/lib/readiness";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const dbsh = (...args: string[]) =>

@@ -15,7 +15,7 @@ import { organisations, studies, users } from "@/db/schema";
 import { GET as getPlan } from "@/app/api/v1/studies/[id]/plan/route";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { planHash } from "@/lib/demo/plan-hash";
-import { parsePlan } from "@/lib/readiness/plan";
+import { parsePlan } from "@/lib/readiness";
 import { admitProvider, createStudy, publishPlanVersion } from "@/lib/studies";
 import { call, expectSafeError, type Caller } from "./helpers/api";
 import { sessionCookieFor } from "./helpers/session";

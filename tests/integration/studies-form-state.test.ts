@@ -8,7 +8,7 @@ import { describe, expect, test } from "vitest";
 import { draftFromPlan, errorsByRow, planFromDraft } from "@/components/plan-editor/form-state";
 import { BARLEY_PLAN, HEAT_PUMP_PLAN } from "@/lib/demo/plans";
 import { planHash } from "@/lib/demo/plan-hash";
-import { parsePlan, type PlanInput } from "@/lib/readiness/plan";
+import { parsePlan, type PlanInput } from "@/lib/readiness";
 
 function parsed(input: unknown) {
   const r = parsePlan(input);

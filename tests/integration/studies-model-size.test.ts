@@ -7,7 +7,7 @@
 import { execFileSync } from "node:child_process";
 import { describe, expect, test } from "vitest";
 import { BARLEY_PLAN, HEAT_PUMP_PLAN } from "@/lib/demo/plans";
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 import { modelSize } from "@/lib/studies/model-size";
 
 function hasR(): boolean {

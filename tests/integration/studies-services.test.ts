@@ -14,7 +14,7 @@ import { getDb, getPool } from "@/db/client";
 import { auditEvents, dataPlans, organisations, studies, studyAnalysts, studyProviders, users } from "@/db/schema";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { planHash } from "@/lib/demo/plan-hash";
-import { parsePlan, type PlanInput } from "@/lib/readiness/plan";
+import { parsePlan, type PlanInput } from "@/lib/readiness";
 import { admitProvider, assignAnalyst, createStudy, publishPlanVersion, removeProvider, unassignAnalyst, updateStudy } from "@/lib/studies";
 
 const db = getDb();

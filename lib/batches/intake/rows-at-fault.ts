@@ -3,9 +3,7 @@
  * finding codes and messages beside them, as CSV that is safe to open in a spreadsheet.
  */
 import { csvCell } from "@/lib/format";
-import { rowsAtFault } from "@/lib/readiness";
-import { parsePlan } from "@/lib/readiness/plan";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import { rowsAtFault, parsePlan, type ReadinessReport } from "@/lib/readiness";
 
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
 

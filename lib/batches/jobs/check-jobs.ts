@@ -17,7 +17,7 @@ import { recordAudit } from "@/lib/core/audit";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/pool";
 import { batchVersions, batches, checkJobs, dataPlans, reports, type JOB_KINDS } from "@/db/schema";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import type { ReadinessReport } from "@/lib/readiness";
 import { fail, ok, type Result } from "@/lib/result";
 import { msFromEnv } from "@/lib/env";
 

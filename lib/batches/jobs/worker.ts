@@ -9,9 +9,7 @@
  */
 import os from "node:os";
 import type { Db } from "@/db/client";
-import { checkBatch } from "@/lib/readiness";
-import { parsePlan } from "@/lib/readiness/plan";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import { checkBatch, parsePlan, type ReadinessReport } from "@/lib/readiness";
 import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";

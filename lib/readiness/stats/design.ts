@@ -8,6 +8,7 @@ import type { LeastSquares } from "./least-squares";
 import { aliasCombination, describeCombination, detectAliasing } from "./aliasing";
 import { conditionDiagnostics, correlationFactor, correlationMatrix, termCollinearity, type TermGroup } from "./collinearity";
 import { invertUpper, solveUpper, triangularise } from "./linalg";
+import { refineCoefficients } from "./refine";
 import { fUpper, tTwoSided } from "./distributions";
 import { detectableR2 } from "./power";
 
@@ -97,7 +98,7 @@ export function analyseDesign(ls: LeastSquares, spec: DesignSpec, opts: { alpha:
   const adjRSquared = dfResidual > 0 && tss > 0 ? 1 - ((1 - rSquared) * (n - i0)) / dfResidual : 0;
   const F = dfModel > 0 && dfResidual > 0 && rss > 0 ? regSS / dfModel / sigma2 : null;
 
-  const beta = r > 0 ? solveUpper(t, qty.slice(0, r), r) : [];
+  const beta = r > 0 ? refineCoefficients(ls.keptRows, k, kept, t, solveUpper(t, qty.slice(0, r), r)) : [];
   const rInv = r > 0 ? invertUpper(t, r) : [];
   const naming = {
     names: spec.columns,

@@ -5,9 +5,11 @@
  * matrix [X | y] in the form Rbar (unit upper triangular, row-packed), D (row weights),
  * θ (Rbarᵀ-transformed y) and the residual sum of squares:
  *   [X | y]ᵀ[X | y] = [Rbar θ; 0 1]ᵀ diag(D, sserr) [Rbar θ; 0 1].
- * Memory is O(k²) whatever the number of rows; XᵀX is never formed.
+ * Memory is O(k²) whatever the number of rows (plus a bounded copy of the first rows, kept only
+ * while a batch is small, for refining the coefficients: refine.ts); XᵀX is never formed.
  */
 import { z } from "zod";
+import { joinKept, keepRow, remapKept } from "./refine";
 
 export interface LeastSquaresJSON {
   kind: "least-squares";
@@ -18,6 +20,8 @@ export interface LeastSquaresJSON {
   rbar: number[];
   thetab: number[];
   sserr: number;
+  /** the rows themselves ([x…, y] each) while they are few, for refining the coefficients (refine.ts) */
+  rows?: number[];
 }
 
 const finite = z.number().refine(Number.isFinite, "must be a finite number");
@@ -30,6 +34,7 @@ const jsonSchema = z.object({
   rbar: z.array(finite),
   thetab: z.array(finite),
   sserr: finite,
+  rows: z.array(finite).optional(),
 });
 
 export class LeastSquares {
@@ -40,6 +45,7 @@ export class LeastSquares {
   private readonly thetab: Float64Array;
   private sserr = 0;
   private readonly work: Float64Array;
+  private kept: number[] | null = [];
 
   constructor(k: number) {
     if (!Number.isInteger(k) || k < 1) throw new RangeError(`LeastSquares needs at least one design column (got k = ${k})`);
@@ -66,6 +72,7 @@ export class LeastSquares {
       w[i] = v;
     }
     if (y - y !== 0) throw new RangeError(`response value ${y} is not a finite number`);
+    this.kept = keepRow(this.kept, x, y);
     this.include(1, w, y);
     this.rows++;
   }
@@ -135,6 +142,7 @@ export class LeastSquares {
     const src = other === this ? other.clone() : other;
     this.absorb(src, (j) => j);
     this.rows += src.rows;
+    this.kept = joinKept(this.kept, src.kept);
   }
 
   /**
@@ -170,6 +178,7 @@ export class LeastSquares {
       }
     }
     out.rows = this.rows;
+    out.kept = remapKept(this.kept, this.k, targets, to.length);
     return out;
   }
 
@@ -192,6 +201,11 @@ export class LeastSquares {
     return a;
   }
 
+  /** The rows as added ([x…, y] each), while they are few enough to keep; null after. */
+  get keptRows(): readonly number[] | null {
+    return this.kept;
+  }
+
   /** Residual sum of squares of the full design (meaningful only when it has full rank). */
   get rssFull(): number {
     return this.sserr;
@@ -211,6 +225,7 @@ export class LeastSquares {
       rbar: Array.from(this.rbar),
       thetab: Array.from(this.thetab),
       sserr: this.sserr,
+      ...(this.kept ? { rows: [...this.kept] } : {}),
     };
   }
 
@@ -227,6 +242,10 @@ export class LeastSquares {
     ls.rbar.set(s.rbar);
     ls.thetab.set(s.thetab);
     ls.sserr = s.sserr;
+    if (s.rows !== undefined && s.rows.length !== s.n * (s.k + 1)) {
+      throw new Error(`stored least-squares state keeps ${s.rows.length} row values for ${s.n} rows of ${s.k + 1}`);
+    }
+    ls.kept = s.rows ?? null;
     return ls;
   }
 }

@@ -12,7 +12,7 @@ import { can } from "@/lib/auth/permissions";
 import { formatCount, formatDecimal } from "@/lib/format";
 import { getPoolForUser } from "@/lib/pool/queries";
 import { getPoolQuestionsForUser } from "@/lib/pool/questions-access";
-import { thresholdsOf } from "@/lib/readiness/plan";
+import { thresholdsOf } from "@/lib/readiness";
 
 export const metadata = { title: "Pool" };
 

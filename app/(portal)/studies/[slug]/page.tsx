@@ -12,7 +12,7 @@ import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
 import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { formatDateTime } from "@/lib/format";
-import { DEFAULT_THRESHOLDS, parsePlan, type Plan } from "@/lib/readiness/plan";
+import { DEFAULT_THRESHOLDS, parsePlan, type Plan } from "@/lib/readiness";
 import { modelSize } from "@/lib/studies/model-size";
 import { listMembershipCandidates, listPlanVersionsForUser } from "@/lib/studies/queries";
 import { MembersPanel } from "./members-panel";

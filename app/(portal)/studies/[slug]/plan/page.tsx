@@ -5,7 +5,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
 import { getStudyForUser } from "@/lib/studies/queries-detail";
-import type { PlanInput } from "@/lib/readiness/plan";
+import type { PlanInput } from "@/lib/readiness";
 import { listPlanVersionsForUser } from "@/lib/studies/queries";
 import { publishPlanAction } from "./actions";
 
