@@ -27,7 +27,7 @@ export { listQueueForUser, QUEUE_STATES, type QueueItem } from "./queries-queue"
 export { getVersionFileKeyForUser, getVersionReportForUser, type VersionReport } from "./queries-reports";
 export { getBatchTrailForUser, type TrailEntry } from "./queries-trail";
 export { listUploadTargets } from "./queries-upload-targets";
-export { retryFailedJob } from "./jobs/check-jobs";
+export { retryFailedJob } from "./commands-jobs";
 export { openStoredFile, StoredFileMissingError, utapi } from "./intake/file-store";
 // the check queue's claim rules and worker id, shared by the pool's questions jobs in the same table
 export { afterFailure, claimable, MAX_ATTEMPTS } from "./jobs/check-jobs";
