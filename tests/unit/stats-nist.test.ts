@@ -187,7 +187,7 @@ describe("NIST StRD Wampler1 and Wampler2 (higher difficulty; data rebuilt from 
   // NIST StRD Wampler1: x = 0…20, y = 1 + x + x² + x³ + x⁴ + x⁵ (integers); certified B0…B5 = 1, SDs 0, residual SD 0, R² = 1.
   // NIST StRD Wampler2: same x, y = 1 + 0.1x + 0.01x² + … + 0.00001x⁵ (exact to 5 decimals as printed); certified B = 1, 0.1, …, 1e-5.
   const cases = [
-    { name: "Wampler1", coefs: [1, 1, 1, 1, 1, 1], digits: 9 },
+    { name: "Wampler1", coefs: [1, 1, 1, 1, 1, 1], digits: 10 }, // 10 with the refinement step (stats/refine.ts); R's lm reaches 9.8
     { name: "Wampler2", coefs: [1, 0.1, 0.01, 0.001, 0.0001, 0.00001], digits: 13 },
   ];
   it.each(cases)("$name", ({ name, coefs, digits }) => {
