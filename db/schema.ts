@@ -17,10 +17,20 @@ import {
   varchar,
 } from "drizzle-orm/mysql-core";
 import { sql } from "drizzle-orm";
+import { now } from "../lib/core/clock";
 
 const id = () => int("id", { unsigned: true }).autoincrement().primaryKey();
 const ref = (name: string) => int(name, { unsigned: true });
-const created = () => datetime("created_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+/**
+ * A moment column that defaults to the services' clock (lib/core/clock.ts) on every insert
+ * through Drizzle, and to CURRENT_TIMESTAMP(3) for SQL typed by hand.
+ */
+const stamped = (name: string) =>
+  datetime(name, { mode: "date", fsp: 3 })
+    .notNull()
+    .default(sql`CURRENT_TIMESTAMP(3)`)
+    .$defaultFn(() => now());
+const created = () => stamped("created_at");
 
 export const ROLES = ["provider", "analyst", "lead", "admin"] as const;
 export type UserRole = (typeof ROLES)[number];
@@ -55,7 +65,7 @@ export const users = mysqlTable(
     /** bumped on deactivation and password change: older sessions stop working */
     sessionVersion: int("session_version", { unsigned: true }).notNull().default(1),
     createdAt: created(),
-    updatedAt: datetime("updated_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: stamped("updated_at"),
   },
   (t) => [uniqueIndex("users_email_uq").on(t.email), index("users_org_idx").on(t.organisationId)],
 );
@@ -156,7 +166,7 @@ export const batchVersions = mysqlTable(
     progressBytes: bigint("progress_bytes", { mode: "number", unsigned: true }).notNull().default(0),
     uploadedById: ref("uploaded_by_id").references(() => users.id),
     uploadedAt: created(),
-    stateChangedAt: datetime("state_changed_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    stateChangedAt: stamped("state_changed_at"),
   },
   (t) => [
     uniqueIndex("batch_versions_batch_version_uq").on(t.batchId, t.version),
@@ -175,7 +185,7 @@ export const checkJobs = mysqlTable(
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
     lockedBy: varchar("locked_by", { length: 100 }),
     heartbeatAt: datetime("heartbeat_at", { mode: "date", fsp: 3 }),
-    runAfter: datetime("run_after", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    runAfter: stamped("run_after"),
     lastError: text("last_error"),
     createdAt: created(),
     finishedAt: datetime("finished_at", { mode: "date", fsp: 3 }),
@@ -265,7 +275,7 @@ export const emailOutbox = mysqlTable(
     batchId: ref("batch_id"),
     status: mysqlEnum("status", ["pending", "sending", "sent", "failed"]).notNull().default("pending"),
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
-    nextAttemptAt: datetime("next_attempt_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    nextAttemptAt: stamped("next_attempt_at"),
     lastError: text("last_error"),
     messageId: varchar("message_id", { length: 300 }),
     sentAt: datetime("sent_at", { mode: "date", fsp: 3 }),

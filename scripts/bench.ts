@@ -17,7 +17,7 @@ const PLAN = path.join(OUT, "trial-plan.json");
 
 const rng = mulberry32;
 
-const FARMS = ["harrowgate", "fennick-hill", "brackenridge", "otterburn-mill", "saltmarsh-end", "coldwell"];
+const FARMS = ["harrowgate", "fennick-hill", "brackenridge", "hollinsfold", "saltmarsh-end", "coldwell"];
 const SOILS = ["loam", "clay", "sand", "silt"];
 const VARIETIES = ["Amberlea", "Corrin", "Halvard", "Tessmoor"];
 

@@ -24,7 +24,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
             <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
               <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
               <XAxis dataKey="label" tick={{ fontSize: 12, fill: "#6B6354" }} />
-              <YAxis tick={{ fontSize: 12, fill: "#6B6354" }} tickFormatter={(v: number) => formatHours(v)} width={64} />
+              <YAxis allowDecimals={false} tick={{ fontSize: 12, fill: "#6B6354" }} tickFormatter={(v: number) => formatHours(v)} width={64} />
               <Tooltip formatter={(v) => formatHours(typeof v === "number" ? v : null)} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               <Line type="monotone" dataKey="medianHours" name="median" stroke="#1F6F78" strokeWidth={2} connectNulls dot={{ r: 3 }} isAnimationActive={false} />

@@ -16,6 +16,7 @@ import { fail, ok, type Result } from "@/lib/result";
 import { recordAudit } from "@/lib/core/audit";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { decisionEmail } from "./decision-email";
+import { now } from "@/lib/core/clock";
 
 export const decisionInput = z.object({
   decision: z.enum(["accept", "bounce"], { error: "Choose accept or bounce." }),
@@ -114,7 +115,7 @@ async function decideInTx(tx: Tx, actorId: number, batchPublicId: string, versio
       input.findingComments.map((fc) => ({ decisionId: ins.id, batchVersionId: version.id, findingCode: fc.code, columns: fc.columns.join(",").slice(0, 1000), comment: fc.comment, authorId: actor.id })),
     );
   }
-  await tx.update(batchVersions).set({ state, stateChangedAt: new Date() }).where(eq(batchVersions.id, version.id));
+  await tx.update(batchVersions).set({ state, stateChangedAt: now() }).where(eq(batchVersions.id, version.id));
   await recordAudit(tx, {
     actorId: actor.id,
     action: `batch.${input.decision}`,

@@ -10,6 +10,7 @@ import { recordAudit } from "@/lib/core/audit";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
+import { now } from "@/lib/core/clock";
 
 export interface UploadTarget {
   studyId: number;
@@ -130,7 +131,7 @@ export async function recordBatchVersion(
         .from(batchVersions)
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
-        await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
+        await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: now() }).where(eq(batchVersions.id, prev.id));
         await recordAudit(tx, {
           actorId: actor.id, action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
           before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },

@@ -15,6 +15,7 @@ import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/core/audit";
 import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness/report";
+import { now as clockNow } from "@/lib/core/clock";
 
 export const MAX_ATTEMPTS = 3;
 
@@ -49,7 +50,7 @@ export interface ClaimedJob {
 }
 
 /** Claim the oldest runnable job, or return null when there is none. */
-export async function claimJob(db: Db, workerId: string, now = new Date()): Promise<ClaimedJob | null> {
+export async function claimJob(db: Db, workerId: string, now = clockNow()): Promise<ClaimedJob | null> {
   const staleBefore = new Date(now.getTime() - STALE_AFTER_MS);
   return db.transaction(async (tx) => {
     const [job] = await tx
@@ -130,7 +131,7 @@ function ours(job: ClaimedJob) {
  * this worker's (it was taken over as stale, or finished by another worker).
  */
 export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: number; bytes: number }): Promise<boolean> {
-  const now = new Date();
+  const now = clockNow();
   const [res] = await db.update(checkJobs).set({ heartbeatAt: now }).where(ours(job));
   if (res.affectedRows === 0) return false;
   await db
@@ -147,7 +148,7 @@ export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: numbe
  * that took the job over finished first) nothing is written and false is returned.
  */
 export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessReport): Promise<boolean> {
-  const now = new Date();
+  const now = clockNow();
   return db.transaction(async (tx) => {
     const [jobRow] = await tx.select({ status: checkJobs.status }).from(checkJobs).where(eq(checkJobs.id, job.jobId)).for("update");
     if (!jobRow || jobRow.status === "done") return false;
@@ -213,8 +214,8 @@ export async function failJob(db: Db, job: ClaimedJob, error: unknown): Promise<
     .set({
       status: final ? "failed" : "queued",
       lastError: message.slice(0, 4000),
-      runAfter: new Date(Date.now() + backoffMs),
-      finishedAt: final ? new Date() : null,
+      runAfter: new Date(clockNow().getTime() + backoffMs),
+      finishedAt: final ? clockNow() : null,
       lockedBy: null,
     })
     .where(ours(job));
@@ -229,12 +230,12 @@ export async function releaseJob(db: Db, job: ClaimedJob): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [res] = await tx
       .update(checkJobs)
-      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: new Date() })
+      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: clockNow() })
       .where(ours(job));
     if (res.affectedRows === 0) return false;
     await tx
       .update(batchVersions)
-      .set({ state: "received", stateChangedAt: new Date(), progressRows: 0, progressBytes: 0 })
+      .set({ state: "received", stateChangedAt: clockNow(), progressRows: 0, progressBytes: 0 })
       .where(and(eq(batchVersions.id, job.batchVersionId), eq(batchVersions.state, "checking")));
     return true;
   });
@@ -249,7 +250,7 @@ export async function retryFailedJob(db: Db, actorId: number, jobId: number): Pr
       .where(eq(checkJobs.id, jobId))
       .for("update");
     if (!job || job.status !== "failed") return false;
-    await tx.update(checkJobs).set({ status: "queued", attempts: 0, runAfter: new Date(), finishedAt: null, lockedBy: null }).where(eq(checkJobs.id, jobId));
+    await tx.update(checkJobs).set({ status: "queued", attempts: 0, runAfter: clockNow(), finishedAt: null, lockedBy: null }).where(eq(checkJobs.id, jobId));
     await recordAudit(tx, { actorId, action: "job.retry", objectType: "check_job", objectId: jobId, before: { status: "failed" }, after: { status: "queued" } });
     return true;
   });
