@@ -7,6 +7,7 @@
 import { createReadStream, readFileSync, statSync } from "node:fs";
 import { draftPlan, parsePlan, type ReadinessReport } from "../lib/readiness";
 import { checkFile, isRangeWorker, runRangeWorker } from "../lib/readiness/node";
+import { countOf, formatNumber, pEquals } from "../lib/format-number";
 
 const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json] [--workers N]
        npm run check -- FILE --draft-plan [--response COLUMN]`;
@@ -39,11 +40,6 @@ function parseArgs(argv: string[]) {
   return out;
 }
 
-function fmtNum(x: number | null | undefined, digits = 4): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  return Math.abs(x) >= 1e5 || (Math.abs(x) < 1e-3 && x !== 0) ? x.toExponential(digits - 1) : x.toPrecision(digits);
-}
-
 function summary(r: ReadinessReport, file: string): string {
   const lines: string[] = [];
   const c = r.counts;
@@ -51,21 +47,21 @@ function summary(r: ReadinessReport, file: string): string {
   if (r.status === "unreadable") {
     lines.push("  status: UNREADABLE");
   } else {
-    lines.push(`  rows: ${r.rows.total.toLocaleString("en")} (complete for the model: ${r.rows.complete.toLocaleString("en")})`);
-    lines.push(`  model: ${r.model.parameters} parameters, residual df ${r.model.residualDf} (target ${r.model.dfTarget})${r.model.perParameter !== null ? `, ${r.model.perParameter.toFixed(1)} rows per parameter` : ""}`);
+    lines.push(`  rows: ${formatNumber(r.rows.total, "count")} (complete for the model: ${formatNumber(r.rows.complete, "count")})`);
+    lines.push(`  model: ${countOf(r.model.parameters, "parameter")}, residual df ${formatNumber(r.model.residualDf, "count")} (target ${formatNumber(r.model.dfTarget, "count")})${r.model.perParameter !== null ? `, ${formatNumber(r.model.perParameter, "estimate")} rows per parameter` : ""}`);
     if (r.fit) {
-      lines.push(`  fit preview: R² ${fmtNum(r.fit.rSquared)}, adjusted ${fmtNum(r.fit.adjRSquared)}, F ${fmtNum(r.fit.F, 6)} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${r.fit.pValue === 0 ? "< 1e-300" : fmtNum(r.fit.pValue, 3)}`);
+      lines.push(`  fit preview: R² ${formatNumber(r.fit.rSquared, "estimate")}, adjusted ${formatNumber(r.fit.adjRSquared, "estimate")}, F ${formatNumber(r.fit.F, "statistic")} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${pEquals(r.fit.pValue)}`);
     }
   }
-  lines.push(`  findings: ${c.blocker} blocker${c.blocker === 1 ? "" : "s"}, ${c.warning} warning${c.warning === 1 ? "" : "s"}, ${c.note} note${c.note === 1 ? "" : "s"}`);
+  lines.push(`  findings: ${countOf(c.blocker, "blocker")}, ${countOf(c.warning, "warning")}, ${countOf(c.note, "note")}`);
   for (const f of r.findings) {
     lines.push("");
     lines.push(`[${f.severity.toUpperCase()}] ${f.code}${f.columns.length ? ` (${f.columns.join(", ")})` : ""}`);
     lines.push(`  ${f.message}`);
-    if (f.rows.length) lines.push(`  rows: ${f.rows.join(", ")}${f.rowCount && f.rowCount > f.rows.length ? ` … (${f.rowCount.toLocaleString("en")} in all)` : ""}`);
+    if (f.rows.length) lines.push(`  rows: ${f.rows.join(", ")}${f.rowCount && f.rowCount > f.rows.length ? ` … (${formatNumber(f.rowCount, "count")} in all)` : ""}`);
     lines.push(`  fix: ${f.fix}`);
   }
-  if (r.timings) lines.push("", `checked in ${(r.timings.ms / 1000).toFixed(2)} s`);
+  if (r.timings) lines.push("", `checked in ${formatNumber(r.timings.ms / 1000, "estimate")} s`);
   return lines.join("\n");
 }
 
@@ -115,7 +111,7 @@ async function main() {
           const t = Date.now();
           if (t - last < 500) return;
           last = t;
-          process.stderr.write(`\r  read ${p.rows.toLocaleString("en")} rows, ${((100 * p.bytes) / size).toFixed(0)} %   `);
+          process.stderr.write(`\r  read ${countOf(p.rows, "row")}, ${formatNumber(p.bytes / size, "percent")}   `);
         }
       : undefined,
   });

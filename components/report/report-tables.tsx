@@ -2,7 +2,7 @@
 /** The report's tables: findings, columns, coefficients and collinearity by term. */
 import { DataTable, type Column } from "@/components/data-table";
 import { SeverityBadge } from "@/components/severity-badge";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
 import type { ColumnReport, Coefficient, Finding } from "@/lib/readiness/report";
 
 const SEVERITY_ORDER = { blocker: 0, warning: 1, note: 2 } as const;
@@ -51,14 +51,14 @@ export function ColumnsTable({ columns: cols, csvName }: { columns: ColumnReport
       value: (c) => c.inferredType,
       render: (c) => <span className={c.plannedType && c.inferredType !== c.plannedType && c.inferredType !== "empty" && !(c.plannedType === "number" && c.inferredType === "integer") ? "font-semibold text-clay-ink" : undefined}>{c.inferredType}</span>,
     },
-    { key: "missing", header: "Missing", numeric: true, width: "6.5rem", value: (c) => c.missing.fraction, render: (c) => `${formatDecimal(c.missing.fraction * 100, 1)} %` },
+    { key: "missing", header: "Missing", numeric: true, width: "6.5rem", value: (c) => c.missing.fraction, render: (c) => formatNumber(c.missing.fraction, "percent") },
     {
       key: "summary",
       header: "Range / levels",
       width: "minmax(16rem, 3fr)",
       value: (c) =>
         c.summary
-          ? `min ${c.summary.min}, median ${c.summary.median}, max ${c.summary.max}, mean ${formatDecimal(c.summary.mean, 3)}, sd ${formatDecimal(c.summary.sd, 3)}`
+          ? `min ${formatNumber(c.summary.min, "measure")}, median ${formatNumber(c.summary.median, "measure")}, max ${formatNumber(c.summary.max, "measure")}, mean ${formatNumber(c.summary.mean, "estimate")}, sd ${formatNumber(c.summary.sd, "estimate")}`
           : (c.levels ?? []).map((l) => `${l.level} ${l.count}`).join("; "),
       render: (c) => (c.levels && c.levels.length > 0 ? <LevelBars levels={c.levels} /> : c.summary ? <SummaryText s={c.summary} /> : "–"),
       sortable: false,
@@ -71,7 +71,7 @@ function SummaryText({ s }: { s: NonNullable<ColumnReport["summary"]> }) {
   return (
     <span className="text-xs tabular-nums">
       {s.min} · <span title="lower quartile">{s.q1}</span> · <strong title="median">{s.median}</strong> · <span title="upper quartile">{s.q3}</span> · {s.max}
-      <span className="text-silt-ink"> (mean {formatDecimal(s.mean, 3)}, sd {formatDecimal(s.sd, 3)})</span>
+      <span className="text-silt-ink"> (mean {formatNumber(s.mean, "estimate")}, sd {formatNumber(s.sd, "estimate")})</span>
     </span>
   );
 }
@@ -100,13 +100,13 @@ type CoefRow = Coefficient & { id: string };
 
 export function CoefficientsTable({ coefficients, csvName }: { coefficients: Coefficient[]; csvName?: string }) {
   const rows: CoefRow[] = coefficients.map((c) => ({ ...c, id: c.term }));
-  const num = (v: number | null, d = 4) => (v === null ? "–" : Math.abs(v) >= 1e5 || (v !== 0 && Math.abs(v) < 1e-3) ? v.toExponential(3) : formatDecimal(v, d));
+  const num = (v: number | null) => formatNumber(v, "estimate");
   const columns: Column<CoefRow>[] = [
     { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (c) => c.term, render: (c) => <span className="font-mono text-xs">{c.term}{c.aliased ? " (aliased)" : ""}</span> },
     { key: "estimate", header: "Estimate", numeric: true, value: (c) => c.estimate, render: (c) => num(c.estimate) },
     { key: "se", header: "Std. error", numeric: true, value: (c) => c.stdError, render: (c) => num(c.stdError) },
-    { key: "t", header: "t", numeric: true, value: (c) => c.t, render: (c) => num(c.t, 2) },
-    { key: "p", header: "p", numeric: true, value: (c) => c.pValue, render: (c) => (c.pValue === null ? "–" : c.pValue < 1e-4 ? c.pValue.toExponential(1) : formatDecimal(c.pValue, 4)) },
+    { key: "t", header: "t", numeric: true, value: (c) => c.t, render: (c) => formatNumber(c.t, "statistic") },
+    { key: "p", header: "p", numeric: true, value: (c) => c.pValue, render: (c) => formatNumber(c.pValue, "pvalue") },
   ];
   return <DataTable rows={rows} columns={columns} caption="Coefficients" csvName={csvName} filterPlaceholder="Filter terms" />;
 }
@@ -119,9 +119,9 @@ export function CollinearityTable({ terms, vifWarning, vifStrong, csvName }: { t
   const columns: Column<TermRow>[] = [
     { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (t) => t.term, render: (t) => <span className="font-mono text-xs">{t.term}</span> },
     { key: "df", header: "df", numeric: true, width: "4rem", value: (t) => t.df },
-    { key: "vif", header: "VIF", numeric: true, value: (t) => t.vif ?? null, render: (t) => (t.vif === undefined ? "–" : formatDecimal(t.vif, 2)) },
-    { key: "gvif", header: "GVIF", numeric: true, value: (t) => t.gvif, render: (t) => formatDecimal(t.gvif, 2) },
-    { key: "gvifScaled", header: "GVIF^(1/(2·df))", numeric: true, value: (t) => t.gvifScaled, render: (t) => formatDecimal(t.gvifScaled, 3) },
+    { key: "vif", header: "VIF", numeric: true, value: (t) => t.vif ?? null, render: (t) => formatNumber(t.vif, "statistic") },
+    { key: "gvif", header: "GVIF", numeric: true, value: (t) => t.gvif, render: (t) => formatNumber(t.gvif, "statistic") },
+    { key: "gvifScaled", header: "GVIF^(1/(2·df))", numeric: true, value: (t) => t.gvifScaled, render: (t) => formatNumber(t.gvifScaled, "statistic") },
     {
       key: "flag",
       header: "Reading",

@@ -1,7 +1,7 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
 import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { DfLedger, ledgerOf } from "./df-ledger";
@@ -64,7 +64,7 @@ export function ReportView({
           <SeverityBadge severity="note" count={report.counts.note} />
           <span className="text-sm text-ink tabular-nums">
             n = {formatCount(report.rows.complete)} complete of {formatCount(report.rows.total)} rows · p = {report.model.parameters} · residual df{" "}
-            {formatCount(report.model.residualDf)} · {report.model.perParameter === null ? "–" : formatDecimal(report.model.perParameter, 1)} rows per parameter
+            {formatCount(report.model.residualDf)} · {formatNumber(report.model.perParameter, "estimate")} rows per parameter
           </span>
         </div>
       </div>
@@ -110,7 +110,7 @@ export function ReportView({
             )}
           </Section>
 
-          <Section title="Missingness" id="missingness" note={report.missingness.littleMCAR ? `Little's MCAR test: χ² = ${formatDecimal(report.missingness.littleMCAR.statistic, 2)} on ${report.missingness.littleMCAR.df} df, p = ${formatDecimal(report.missingness.littleMCAR.pValue, 4)}. A small p says the values are not missing completely at random.` : undefined}>
+          <Section title="Missingness" id="missingness" note={report.missingness.littleMCAR ? `Little's MCAR test: χ² = ${formatNumber(report.missingness.littleMCAR.statistic, "statistic")} on ${report.missingness.littleMCAR.df} df, p ${pEquals(report.missingness.littleMCAR.pValue)}. A small p says the values are not missing completely at random.` : undefined}>
             <MissingnessMap patterns={report.missingness.patterns} columns={planned} total={report.rows.total} />
           </Section>
 
@@ -118,11 +118,11 @@ export function ReportView({
             {report.fit ? (
               <div className="grid gap-3">
                 <p className="text-sm tabular-nums">
-                  R² = {formatDecimal(report.fit.rSquared, 4)} · adjusted R² = {formatDecimal(report.fit.adjRSquared, 4)} · residual standard error{" "}
-                  {formatDecimal(report.fit.residualStdError, 4)} on {report.fit.dfResidual} df · overall F ={" "}
-                  {report.fit.F === null ? "–" : formatDecimal(report.fit.F, 3)} on ({report.fit.dfModel}, {report.fit.dfResidual}) df, p ={" "}
-                  {report.fit.pValue === null ? "–" : report.fit.pValue < 1e-4 ? report.fit.pValue.toExponential(2) : formatDecimal(report.fit.pValue, 4)}
-                  {report.fit.power?.detectableR2 != null ? ` · detects R² ≥ ${formatDecimal(report.fit.power.detectableR2, 3)} with power ${report.fit.power.power} at α = ${report.fit.power.alpha}` : ""}
+                  R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² = {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}
+                  {formatNumber(report.fit.residualStdError, "estimate")} on {report.fit.dfResidual} df · overall F ={" "}
+                  {formatNumber(report.fit.F, "statistic")} on ({report.fit.dfModel}, {report.fit.dfResidual}) df, p{" "}
+                  {pEquals(report.fit.pValue)}
+                  {report.fit.power?.detectableR2 != null ? ` · detects ${detectable(report.fit.power.detectableR2)} with power ${formatNumber(report.fit.power.power, "estimate")} at α = ${formatNumber(report.fit.power.alpha, "estimate")}` : ""}
                 </p>
                 <CoefficientsTable coefficients={report.fit.coefficients} csvName={`${csvPrefix}-coefficients`} />
               </div>

@@ -18,7 +18,10 @@ function barleyCsv(code: string, n: number, seed: number, defect: Defect): strin
   const rows = barleyRows(code, n, seed).map((row, i) => {
     switch (defect) {
       case "variants":
-        return { ...row, soil: row.soil === "clay" ? (i % 3 === 0 ? "Clay" : i % 3 === 1 ? "clay " : "clay") : row.soil };
+        return {
+          ...row,
+          soil: row.soil === "clay" ? (i % 3 === 0 ? "Clay" : i % 3 === 1 ? "clay " : "clay") : row.soil,
+        };
       case "collinear":
         return { ...row, total_water_mm: round1(Number(row.irrigation_mm) + Number(row.rainfall_mm)) };
       case "missing":

@@ -11,7 +11,12 @@ const HOUR = 3_600_000;
 const DAY = 24 * HOUR;
 
 /** What happens to one version: its file's defect, then accepted, bounced or left waiting. */
-type Step = { defect: Defect; outcome: "accept" | "bounce" | "wait"; afterHours?: number; resubmitHours?: number };
+type Step = {
+  defect: Defect;
+  outcome: "accept" | "bounce" | "wait";
+  afterHours?: number;
+  resubmitHours?: number;
+};
 type Spec = {
   org: string;
   code: string;
@@ -23,8 +28,18 @@ type Spec = {
   steps: Step[];
 };
 
-const acc = (defect: Defect, afterHours: number, resubmitHours?: number): Step => ({ defect, outcome: "accept", afterHours, resubmitHours });
-const bounce = (defect: Defect, afterHours: number, resubmitHours: number): Step => ({ defect, outcome: "bounce", afterHours, resubmitHours });
+const acc = (defect: Defect, afterHours: number, resubmitHours?: number): Step => ({
+  defect,
+  outcome: "accept",
+  afterHours,
+  resubmitHours,
+});
+const bounce = (defect: Defect, afterHours: number, resubmitHours: number): Step => ({
+  defect,
+  outcome: "bounce",
+  afterHours,
+  resubmitHours,
+});
 const wait = (defect: Defect): Step => ({ defect, outcome: "wait" });
 
 const B = "barley-nitrogen" as const;
@@ -101,7 +116,16 @@ export type SeasonVersion = {
   csv: string;
   defect: Defect;
 };
-export type SeasonDecision = { kind: "decide"; at: Date; org: string; study: string; title: string; version: number; decision: "accept" | "bounce"; defect: Defect };
+export type SeasonDecision = {
+  kind: "decide";
+  at: Date;
+  org: string;
+  study: string;
+  title: string;
+  version: number;
+  decision: "accept" | "bounce";
+  defect: Defect;
+};
 export type SeasonPlanChange = { kind: "plan"; at: Date; study: string };
 export type SeasonEvent = SeasonVersion | SeasonDecision | SeasonPlanChange;
 
@@ -110,18 +134,41 @@ export function seasonEvents(today: Date): SeasonEvent[] {
   const start = new Date(weekStart(today).getTime() - 11 * 7 * DAY);
   const latest = today.getTime() - 10 * 60_000;
   const clamp = (t: number) => new Date(Math.min(t, latest));
-  const events: SeasonEvent[] = [{ kind: "plan", at: new Date(start.getTime() + 5 * 7 * DAY + 9.5 * HOUR), study: B }];
+  const events: SeasonEvent[] = [
+    { kind: "plan", at: new Date(start.getTime() + 5 * 7 * DAY + 9.5 * HOUR), study: B },
+  ];
   SPECS.forEach((s, i) => {
     const title = `${s.code} ${s.label}`;
-    let t = Array.isArray(s.at) ? start.getTime() + (s.at[0] * 7 + s.at[1]) * DAY + s.at[2] * HOUR : today.getTime() - s.at.hoursAgo * HOUR;
+    let t = Array.isArray(s.at)
+      ? start.getTime() + (s.at[0] * 7 + s.at[1]) * DAY + s.at[2] * HOUR
+      : today.getTime() - s.at.hoursAgo * HOUR;
     s.steps.forEach((step, v) => {
       const version = v + 1;
       const fileName = `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`;
       const csv = seasonCsv(s.study, `${s.code}${i}`, s.rows + 2 * v, 9000 + i * 31 + v, step.defect);
-      events.push({ kind: "upload", at: clamp(t), org: s.org, study: s.study, title, version, fileName, csv, defect: step.defect });
+      events.push({
+        kind: "upload",
+        at: clamp(t),
+        org: s.org,
+        study: s.study,
+        title,
+        version,
+        fileName,
+        csv,
+        defect: step.defect,
+      });
       if (step.outcome === "wait") return;
       const decidedAt = t + (step.afterHours ?? 4) * HOUR;
-      events.push({ kind: "decide", at: clamp(decidedAt), org: s.org, study: s.study, title, version, decision: step.outcome, defect: step.defect });
+      events.push({
+        kind: "decide",
+        at: clamp(decidedAt),
+        org: s.org,
+        study: s.study,
+        title,
+        version,
+        decision: step.outcome,
+        defect: step.defect,
+      });
       // a resubmission of 0 hours: the next version is today's, a few hours ago
       t = step.resubmitHours ? decidedAt + step.resubmitHours * HOUR : today.getTime() - (2 + (i % 9)) * HOUR;
       if (t <= decidedAt) t = decidedAt + HOUR;
@@ -130,10 +177,29 @@ export function seasonEvents(today: Date): SeasonEvent[] {
     const last = s.steps[s.steps.length - 1];
     if (last?.outcome === "bounce") {
       const version = s.steps.length + 1;
-      const csv = seasonCsv(s.study, `${s.code}${i}`, s.rows + 2 * s.steps.length, 9000 + i * 31 + version, "clean");
-      events.push({ kind: "upload", at: clamp(t), org: s.org, study: s.study, title, version, fileName: `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`, csv, defect: "clean" });
+      const csv = seasonCsv(
+        s.study,
+        `${s.code}${i}`,
+        s.rows + 2 * s.steps.length,
+        9000 + i * 31 + version,
+        "clean",
+      );
+      events.push({
+        kind: "upload",
+        at: clamp(t),
+        org: s.org,
+        study: s.study,
+        title,
+        version,
+        fileName: `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`,
+        csv,
+        defect: "clean",
+      });
     }
   });
   // uploads of one batch keep their order when clamped to the same moment
-  return events.map((e, i) => ({ e, i })).sort((a, b) => a.e.at.getTime() - b.e.at.getTime() || a.i - b.i).map(({ e }) => e);
+  return events
+    .map((e, i) => ({ e, i }))
+    .sort((a, b) => a.e.at.getTime() - b.e.at.getTime() || a.i - b.i)
+    .map(({ e }) => e);
 }

@@ -46,12 +46,23 @@ async function idOf(db: Db, email: string): Promise<number> {
 async function castSeason(db: Db, ids: Ids, at: Date): Promise<void> {
   setClock(at);
   for (const p of SEASON_PROVIDERS) {
-    await db.insert(organisations).values({ slug: p.slug, name: p.name, kind: p.kind }).onDuplicateKeyUpdate({ set: { name: p.name } });
-    const [org] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, p.slug));
+    await db
+      .insert(organisations)
+      .values({ slug: p.slug, name: p.name, kind: p.kind })
+      .onDuplicateKeyUpdate({ set: { name: p.name } });
+    const [org] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, p.slug));
     if (!org) throw new Error(`organisation ${p.slug} is missing after the upsert`);
     const [user] = await db.select({ id: users.id }).from(users).where(eq(users.email, p.user.email));
     if (!user) {
-      const r = await createUser(ids.admin, { ...p.user, role: "provider", organisationId: org.id, password: DEMO_PASSWORD });
+      const r = await createUser(ids.admin, {
+        ...p.user,
+        role: "provider",
+        organisationId: org.id,
+        password: DEMO_PASSWORD,
+      });
       if (!r.ok) throw new Error(`could not create ${p.user.email}: ${r.message}`);
     }
     const studyId = ids.study[p.studySlug]!;
@@ -85,8 +96,12 @@ async function upload(db: Db, ids: Ids, e: SeasonVersion, log: (l: string) => vo
   if (!uploader) throw new Error(`${e.org} has no active provider user`);
   const previous = e.version > 1 ? await batchOf(db, e) : null;
   const bytes = new TextEncoder().encode(e.csv);
-  const stored = await utapi().uploadFiles(new UTFile([bytes], e.fileName, { type: "text/csv" }), { acl: "private", contentDisposition: "attachment" });
-  if (stored.error || !stored.data) throw new Error(`the upload service refused ${e.fileName}: ${stored.error?.message ?? "no answer"}`);
+  const stored = await utapi().uploadFiles(new UTFile([bytes], e.fileName, { type: "text/csv" }), {
+    acl: "private",
+    contentDisposition: "attachment",
+  });
+  if (stored.error || !stored.data)
+    throw new Error(`the upload service refused ${e.fileName}: ${stored.error?.message ?? "no answer"}`);
   const digest = Buffer.from(await crypto.subtle.digest("SHA-256", bytes)).toString("hex");
   const r = await recordBatchVersion(
     db,
@@ -98,7 +113,8 @@ async function upload(db: Db, ids: Ids, e: SeasonVersion, log: (l: string) => vo
   // the check starts a few minutes later, as the worker would take it
   setClock(new Date(e.at.getTime() + (2 + (r.data.batchVersionId % 5)) * MINUTE));
   const job = await claimJob(db, "demo-season");
-  if (!job || job.batchVersionId !== r.data.batchVersionId) throw new Error(`the check job of ${e.fileName} was not the one in the queue; is a worker running?`);
+  if (!job || job.batchVersionId !== r.data.batchVersionId)
+    throw new Error(`the check job of ${e.fileName} was not the one in the queue; is a worker running?`);
   const report = await runJob({ db, openFile: openStoredFile, workerId: "demo-season", log }, job);
   if (!report) throw new Error(`the check of ${e.fileName} did not finish`);
 }
@@ -111,37 +127,57 @@ async function decide(db: Db, ids: Ids, e: SeasonDecision): Promise<void> {
     .from(reports)
     .innerJoin(batchVersions, eq(batchVersions.id, reports.batchVersionId))
     .where(and(eq(batchVersions.batchId, b.id), eq(batchVersions.version, e.version)));
-  const findings = ((rep?.report as { findings?: Finding[] } | undefined)?.findings ?? []).filter((f) => f.severity !== "note");
+  const findings = ((rep?.report as { findings?: Finding[] } | undefined)?.findings ?? []).filter(
+    (f) => f.severity !== "note",
+  );
   const words = BOUNCE_WORDS[e.defect];
   const first = findings[0];
   const r = await decideVersion(db, ids.analyst[e.study]!, b.publicId, e.version, {
     decision: e.decision,
     comment: e.decision === "bounce" ? words.comment : "",
-    findingComments: e.decision === "bounce" && first ? [{ code: first.code, columns: first.columns, comment: words.finding }] : [],
+    findingComments:
+      e.decision === "bounce" && first
+        ? [{ code: first.code, columns: first.columns, comment: words.finding }]
+        : [],
   });
   if (!r.ok) throw new Error(`could not ${e.decision} "${e.title}" version ${e.version}: ${r.message}`);
 }
 
 async function republish(ids: Ids, e: SeasonEvent & { kind: "plan" }): Promise<void> {
-  const r = await publishPlanVersion(ids.lead, ids.study[e.study]!, republishedBarley(BARLEY_PLAN), "df target raised to 1,000 after the first month, to see a smaller nitrogen × soil difference");
+  const r = await publishPlanVersion(
+    ids.lead,
+    ids.study[e.study]!,
+    republishedBarley(BARLEY_PLAN),
+    "df target raised to 1,000 after the first month, to see a smaller nitrogen × soil difference",
+  );
   if (!r.ok) throw new Error(`could not republish the ${e.study} plan: ${r.message}`);
 }
 
 /** Builds the season unless it is there already; the clock is back on the wall at the end. */
-export async function buildSeason(db: Db, log: (line: string) => void = console.log, today = new Date()): Promise<SeasonSummary> {
+export async function buildSeason(
+  db: Db,
+  log: (line: string) => void = console.log,
+  today = new Date(),
+): Promise<SeasonSummary> {
   const started = Date.now();
   const events = seasonEvents(today);
   const uploads = events.filter((e): e is SeasonVersion => e.kind === "upload");
   if (uploads[0] && (await batchOf(db, uploads[0]))) {
-    if (await batchOf(db, uploads[uploads.length - 1]!)) return { versions: 0, decisions: 0, skipped: true, ms: Date.now() - started };
-    throw new Error("this database holds a season that was only partly built (an earlier run stopped); drop the demo database (bash scripts/db.sh drop-db tributary) and start again");
+    if (await batchOf(db, uploads[uploads.length - 1]!))
+      return { versions: 0, decisions: 0, skipped: true, ms: Date.now() - started };
+    throw new Error(
+      "this database holds a season that was only partly built (an earlier run stopped); drop the demo database (bash scripts/db.sh drop-db tributary) and start again",
+    );
   }
 
   const studyRows = await db.select({ id: studies.id, slug: studies.slug }).from(studies);
   const ids: Ids = {
     admin: await idOf(db, "admin@tributary.test"),
     lead: await idOf(db, "lead@lowmoor.test"),
-    analyst: { "barley-nitrogen": await idOf(db, "analyst@lowmoor.test"), "heat-pump-savings": await idOf(db, "analyst2@lowmoor.test") },
+    analyst: {
+      "barley-nitrogen": await idOf(db, "analyst@lowmoor.test"),
+      "heat-pump-savings": await idOf(db, "analyst2@lowmoor.test"),
+    },
     study: Object.fromEntries(studyRows.map((s) => [s.slug, s.id])),
   };
   const quiet = () => undefined;
@@ -162,6 +198,8 @@ export async function buildSeason(db: Db, log: (line: string) => void = console.
   } finally {
     setClock(null);
   }
-  log(`season: ${versions} versions checked, ${decisions} decisions, 1 plan republished (${Date.now() - started} ms)`);
+  log(
+    `season: ${versions} versions checked, ${decisions} decisions, 1 plan republished (${Date.now() - started} ms)`,
+  );
   return { versions, decisions, skipped: false, ms: Date.now() - started };
 }

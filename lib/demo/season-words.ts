@@ -3,8 +3,14 @@ import type { PlanInput } from "@/lib/readiness/plan";
 import type { Defect } from "./season-files";
 
 export const BOUNCE_WORDS: Record<Defect, { comment: string; finding: string }> = {
-  clean: { comment: "Please send this batch again; see the comment on the finding.", finding: "Check this against the data plan and send a corrected file." },
-  commas: { comment: "Please send this batch again; see the comment on the finding.", finding: "Check this against the data plan and send a corrected file." },
+  clean: {
+    comment: "Please send this batch again; see the comment on the finding.",
+    finding: "Check this against the data plan and send a corrected file.",
+  },
+  commas: {
+    comment: "Please send this batch again; see the comment on the finding.",
+    finding: "Check this against the data plan and send a corrected file.",
+  },
   variants: {
     comment: "Nearly there: the soil levels are spelt several ways. Fix them and send the batch again.",
     finding: "Write each soil level exactly as the plan lists it: lower case, no trailing space.",
@@ -14,11 +20,14 @@ export const BOUNCE_WORDS: Record<Defect, { comment: string; finding: string }> 
     finding: "Send the plot gauge reading in total_water_mm, not the sum of the other two columns.",
   },
   missing: {
-    comment: "Too many readings are missing for the model to use these rows. Fill them in from the field records and send again.",
-    finding: "Fill in these values from your records; leave a cell empty only when it was truly not measured.",
+    comment:
+      "Too many readings are missing for the model to use these rows. Fill them in from the field records and send again.",
+    finding:
+      "Fill in these values from your records; leave a cell empty only when it was truly not measured.",
   },
   few: {
-    comment: "Thank you — this is too few rows for the model on its own. Add the rest of the season's rows and send it as a new version.",
+    comment:
+      "Thank you — this is too few rows for the model on its own. Add the rest of the season's rows and send it as a new version.",
     finding: "Add the remaining rows of the season to this batch.",
   },
   sentinel: {

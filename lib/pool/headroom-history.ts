@@ -11,7 +11,12 @@ import { HOUR_MS, weekStart } from "./board-stats";
 
 export type HeadroomWeek = { week: string; residualDf: number };
 
-export async function headroomByWeek(db: Db, studyId: number, fitted: number, opts: { weeks: number; now: Date }): Promise<HeadroomWeek[]> {
+export async function headroomByWeek(
+  db: Db,
+  studyId: number,
+  fitted: number,
+  opts: { weeks: number; now: Date },
+): Promise<HeadroomWeek[]> {
   const rows = await db
     .select({
       versionId: batchVersions.id,
@@ -36,7 +41,8 @@ export async function headroomByWeek(db: Db, studyId: number, fitted: number, op
     const end = Math.min(start + 7 * 24 * HOUR_MS, opts.now.getTime());
     let n = 0;
     for (const r of newest.values()) {
-      const inPool = r.decidedAt.getTime() < end && (r.state === "accepted" || r.stateChangedAt.getTime() >= end);
+      const inPool =
+        r.decidedAt.getTime() < end && (r.state === "accepted" || r.stateChangedAt.getTime() >= end);
       if (inPool) n += r.complete ?? 0;
     }
     out.push({ week: new Date(start).toISOString().slice(0, 10), residualDf: Math.max(0, n - fitted) });

@@ -15,7 +15,9 @@ async function pageText(page: Page, url: string): Promise<string> {
   return page.locator("body").innerText();
 }
 
-test("the lead's board shows the season: decisions in most weeks, a turnaround, and each pool's headroom by week", async ({ page }) => {
+test("the lead's board shows the season: decisions in most weeks, a turnaround, and each pool's headroom by week", async ({
+  page,
+}) => {
   await new SignInPage(page).signInAs("lead@lowmoor.test");
   await page.goto("/board");
   await expect(page.getByRole("heading", { name: "Status board", level: 1 })).toBeVisible();
@@ -25,7 +27,9 @@ test("the lead's board shows the season: decisions in most weeks, a turnaround, 
   const rows = turnaround.locator("tbody tr");
   await expect(rows).toHaveCount(12);
   let weeksWithDecisions = 0;
-  for (const cells of await rows.evaluateAll((trs) => trs.map((tr) => [...tr.querySelectorAll("td")].map((td) => td.textContent?.trim() ?? "")))) {
+  for (const cells of await rows.evaluateAll((trs) =>
+    trs.map((tr) => [...tr.querySelectorAll("td")].map((td) => td.textContent?.trim() ?? "")),
+  )) {
     const [, decisions, median] = cells;
     if (Number(decisions) > 0) {
       weeksWithDecisions++;
@@ -51,7 +55,14 @@ test("the lead's board shows the season: decisions in most weeks, a turnaround, 
 test("no page of the season prints a binary-float artefact", async ({ browser }) => {
   test.setTimeout(240_000);
   const pages: Record<string, string[]> = {
-    "lead@lowmoor.test": ["/board", "/lead", "/mailbox", "/pool/barley-nitrogen", "/pool/heat-pump-savings", "/studies"],
+    "lead@lowmoor.test": [
+      "/board",
+      "/lead",
+      "/mailbox",
+      "/pool/barley-nitrogen",
+      "/pool/heat-pump-savings",
+      "/studies",
+    ],
     "analyst@lowmoor.test": ["/analyst", "/queue"],
     "provider@fennick.test": ["/provider"],
   };
@@ -60,11 +71,16 @@ test("no page of the season prints a binary-float artefact", async ({ browser })
     await new SignInPage(page).signInAs(email);
     for (const url of urls) expect(await pageText(page, url), `${email} ${url}`).not.toMatch(FLOAT_ARTEFACT);
     // every batch the role sees from its home
-    const batchLinks = await page.goto(urls[0]!).then(() =>
-      page.locator('a[href^="/batches/"]').evaluateAll((as) => [...new Set(as.map((a) => (a as HTMLAnchorElement).getAttribute("href")!))]),
-    );
+    const batchLinks = await page
+      .goto(urls[0]!)
+      .then(() =>
+        page
+          .locator('a[href^="/batches/"]')
+          .evaluateAll((as) => [...new Set(as.map((a) => (a as HTMLAnchorElement).getAttribute("href")!))]),
+      );
     expect(batchLinks.length, `${email} sees batches`).toBeGreaterThan(0);
-    for (const href of batchLinks.slice(0, 6)) expect(await pageText(page, href), `${email} ${href}`).not.toMatch(FLOAT_ARTEFACT);
+    for (const href of batchLinks.slice(0, 6))
+      expect(await pageText(page, href), `${email} ${href}`).not.toMatch(FLOAT_ARTEFACT);
     await page.context().close();
   }
 });
