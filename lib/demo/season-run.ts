@@ -104,7 +104,6 @@ async function upload(db: Db, ids: Ids, e: SeasonVersion, log: (l: string) => vo
     throw new Error(`the upload service refused ${e.fileName}: ${stored.error?.message ?? "no answer"}`);
   const digest = Buffer.from(await crypto.subtle.digest("SHA-256", bytes)).toString("hex");
   const r = await recordBatchVersion(
-    db,
     uploader.id,
     { studyId: ids.study[e.study]!, title: e.title, batchPublicId: previous?.publicId ?? null },
     { key: stored.data.key, url: stored.data.ufsUrl, name: e.fileName, size: bytes.length, hash: digest },
@@ -132,7 +131,7 @@ async function decide(db: Db, ids: Ids, e: SeasonDecision): Promise<void> {
   );
   const words = BOUNCE_WORDS[e.defect];
   const first = findings[0];
-  const r = await decideVersion(db, ids.analyst[e.study]!, b.publicId, e.version, {
+  const r = await decideVersion(ids.analyst[e.study]!, b.publicId, e.version, {
     decision: e.decision,
     comment: e.decision === "bounce" ? words.comment : "",
     findingComments:
