@@ -75,7 +75,7 @@ export function isoDateTime(d: Date | string | number | null | undefined): strin
 export const BATCH_STATE_LABELS: Record<BatchState, string> = {
   received: "Received",
   checking: "Checking",
-  ready: "Ready for review",
+  ready: "Awaiting review",
   accepted: "Accepted",
   bounced: "Bounced",
   superseded: "Superseded",

@@ -1,5 +1,6 @@
 /** The report's pictures: correlation heatmap, missingness map, condition indices. */
 import { formatCount, formatNumber } from "@/lib/format";
+import { SeverityBadge } from "@/components/severity-badge";
 
 /** Diverging clay ↔ sand ↔ channel (DESIGN.md), r in [-1, 1]. */
 function corrColour(r: number): string {
@@ -123,7 +124,10 @@ export function ConditionIndices({
           return (
             <tr key={k} className={high ? "text-ochre-ink" : undefined}>
               <td className="pr-4 tabular-nums">{k + 1}</td>
-              <td className="pr-4 text-right tabular-nums">{formatNumber(eta, "statistic")}{high ? " ◇" : ""}</td>
+              <td className="pr-4 text-right tabular-nums">
+                {formatNumber(eta, "statistic")}
+                {high ? <SeverityBadge severity="warning" className="ml-2" /> : null}
+              </td>
               <td className="font-mono text-xs">{cols.join(", ") || "—"}</td>
             </tr>
           );

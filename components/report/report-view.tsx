@@ -1,7 +1,7 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
 import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
-import { detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
+import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { DfLedger, ledgerOf } from "./df-ledger";
@@ -11,12 +11,12 @@ import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "./report-p
 export function verdictOf(report: ReadinessReport): { tone: "clay" | "ochre" | "reed"; text: string } {
   if (report.status === "unreadable") return { tone: "clay", text: "This file could not be read. The finding below says why and what to do." };
   if (report.counts.blocker > 0) {
-    return { tone: "clay", text: `Not ready: ${report.counts.blocker} ${report.counts.blocker === 1 ? "blocker" : "blockers"} must be fixed before this batch can feed the model.` };
+    return { tone: "clay", text: `Needs fixes: ${countOf(report.counts.blocker, "blocker")} must be fixed before this batch can feed the model.` };
   }
   if (report.counts.warning > 0) {
-    return { tone: "ochre", text: `Usable with care: no blockers, ${report.counts.warning} ${report.counts.warning === 1 ? "warning" : "warnings"} for the analyst to weigh.` };
+    return { tone: "ochre", text: `Usable with care: no blockers, ${countOf(report.counts.warning, "warning")} for the analyst to weigh.` };
   }
-  return { tone: "reed", text: "No blockers or warnings: ready for the analyst's review." };
+  return { tone: "reed", text: "Passes the checks: no blockers or warnings for the analyst to weigh." };
 }
 
 export function Caution() {
@@ -82,7 +82,7 @@ export function ReportView({
       {report.status === "checked" ? (
         <>
           <Section title="Columns" id="columns">
-            <ColumnsTable columns={report.columns} csvName={`${csvPrefix}-columns`} />
+            <ColumnsTable columns={report.columns} findings={report.findings} csvName={`${csvPrefix}-columns`} />
           </Section>
 
           <Section title="Collinearity" id="collinearity" note="On the complete cases of the planned design. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992), comparable to √VIF.">

@@ -98,7 +98,7 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
         <label className="grid gap-1 text-sm font-semibold">
           State
           <Select value={state} onChange={(e) => setState(e.target.value)}>
-            <option value="ready">Ready for review</option>
+            <option value="ready">Awaiting review</option>
             <option value="unreadable">Unreadable</option>
             <option value="checking">Checking</option>
             <option value="received">Received</option>

@@ -84,3 +84,36 @@ test("no page of the season prints a binary-float artefact", async ({ browser })
     await page.context().close();
   }
 });
+
+test("a batch awaiting review with a blocker: the state and the verdict use different words, and the columns table marks only what the findings say", async ({
+  page,
+}) => {
+  await new SignInPage(page).signInAs("analyst2@lowmoor.test");
+  await page.goto("/analyst");
+  // Kestrel Row's scheme batch: sent three hours ago with two homes in five lacking occupancy hours
+  await page
+    .getByRole("link", { name: /KR homes, scheme/ })
+    .first()
+    .click();
+  await expect(page).toHaveURL(/\/batches\//);
+  const main = page.getByRole("main");
+  await expect(main).toContainText("Awaiting review");
+  await expect(page.getByTestId("verdict")).toContainText("Needs fixes");
+  await expect(main).not.toContainText(/ready for review|not ready/i);
+
+  const columns = page.getByRole("grid", { name: "Columns" });
+  // the key column is text planned as text: no mark
+  await expect(columns.getByRole("row").filter({ hasText: "property_ref" })).not.toContainText(
+    /Blocker|Warning|Note/,
+  );
+  // the column with the gaps carries the findings' word and shape
+  const occupancy = columns.getByRole("row").filter({ hasText: "occupancy_hours" });
+  await expect(occupancy.locator("[data-severity]").first()).toBeVisible();
+  // a numeric column has its box plot from the report's quartiles
+  await expect(
+    columns
+      .getByRole("row")
+      .filter({ hasText: "floor_area_m2" })
+      .getByRole("img", { name: /^min .*median .*max / }),
+  ).toBeVisible();
+});

@@ -94,7 +94,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
           </Section>
 
           <Section title="Columns" id="columns">
-            <ColumnsTable columns={r.columns} csvName={`${pool.slug}-pool-columns`} />
+            <ColumnsTable columns={r.columns} findings={r.findings} csvName={`${pool.slug}-pool-columns`} />
           </Section>
 
           <Section title="Collinearity" id="collinearity" note="On the pool's complete cases. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992).">
