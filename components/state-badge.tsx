@@ -11,7 +11,7 @@ const tones: Record<string, BadgeTone> = {
   unreadable: "ochre",
 };
 
-/** A batch state as a word on a tinted label ("Ready for review", "Bounced", …). */
+/** A batch state as a word on a tinted label ("Awaiting review", "Bounced", …). */
 export function StateBadge({ state }: { state: string }) {
   return <Badge tone={tones[state] ?? "neutral"}>{batchStateLabel(state)}</Badge>;
 }

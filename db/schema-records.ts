@@ -13,8 +13,7 @@ import {
   uniqueIndex,
   varchar,
 } from "drizzle-orm/mysql-core";
-import { sql } from "drizzle-orm";
-import { created, id, ref } from "./columns";
+import { created, id, ref, stamped } from "./columns";
 import { users } from "./schema";
 
 export const auditEvents = mysqlTable(
@@ -48,7 +47,7 @@ export const emailOutbox = mysqlTable(
     batchId: ref("batch_id"),
     status: mysqlEnum("status", ["pending", "sending", "sent", "failed"]).notNull().default("pending"),
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
-    nextAttemptAt: datetime("next_attempt_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    nextAttemptAt: stamped("next_attempt_at"),
     lastError: text("last_error"),
     messageId: varchar("message_id", { length: 300 }),
     sentAt: datetime("sent_at", { mode: "date", fsp: 3 }),

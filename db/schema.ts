@@ -16,8 +16,7 @@ import {
   uniqueIndex,
   varchar,
 } from "drizzle-orm/mysql-core";
-import { sql } from "drizzle-orm";
-import { created, id, ref } from "./columns";
+import { created, id, ref, stamped } from "./columns";
 
 
 export const ROLES = ["provider", "analyst", "lead", "admin"] as const;
@@ -53,7 +52,7 @@ export const users = mysqlTable(
     /** bumped on deactivation and password change: older sessions stop working */
     sessionVersion: int("session_version", { unsigned: true }).notNull().default(1),
     createdAt: created(),
-    updatedAt: datetime("updated_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: stamped("updated_at"),
   },
   (t) => [uniqueIndex("users_email_uq").on(t.email), index("users_org_idx").on(t.organisationId)],
 );
@@ -154,7 +153,7 @@ export const batchVersions = mysqlTable(
     progressBytes: bigint("progress_bytes", { mode: "number", unsigned: true }).notNull().default(0),
     uploadedById: ref("uploaded_by_id").references(() => users.id),
     uploadedAt: created(),
-    stateChangedAt: datetime("state_changed_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    stateChangedAt: stamped("state_changed_at"),
   },
   (t) => [
     uniqueIndex("batch_versions_batch_version_uq").on(t.batchId, t.version),
@@ -180,7 +179,7 @@ export const checkJobs = mysqlTable(
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
     lockedBy: varchar("locked_by", { length: 100 }),
     heartbeatAt: datetime("heartbeat_at", { mode: "date", fsp: 3 }),
-    runAfter: datetime("run_after", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    runAfter: stamped("run_after"),
     lastError: text("last_error"),
     createdAt: created(),
     finishedAt: datetime("finished_at", { mode: "date", fsp: 3 }),

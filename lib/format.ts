@@ -1,20 +1,28 @@
 /**
- * Display formatting shared by pages and tables: numbers, dates, batch states, roles,
- * and CSV cells that are safe to open in a spreadsheet.
+ * Display formatting shared by pages, e-mails, CSV downloads and the CLI: numbers (by purpose,
+ * lib/readiness/format-number.ts), durations, dates, batch states, roles, and CSV cells that are safe to
+ * open in a spreadsheet. Print no number any other way.
  */
 import type { BatchState, UserRole } from "@/db/schema";
+import { formatNumber, plainNumber } from "@/lib/readiness";
 
-const intFmt = new Intl.NumberFormat("en-GB", { maximumFractionDigits: 0 });
+export { countOf, detectableR2, formatNumber, niceTicks, pEquals, plainNumber, type NumberPurpose } from "@/lib/readiness";
 
-/** 12345 → "12,345"; null/undefined → "–". */
+/** 12345 → "12,345"; null/undefined → "–" (formatNumber's "count"). */
 export function formatCount(n: number | null | undefined): string {
-  return n === null || n === undefined || !Number.isFinite(n) ? "–" : intFmt.format(n);
+  return formatNumber(n, "count");
 }
 
-/** A number with a fixed count of decimals, "–" when absent. */
-export function formatDecimal(n: number | null | undefined, digits = 2): string {
-  if (n === null || n === undefined || !Number.isFinite(n)) return "–";
-  return n.toLocaleString("en-GB", { minimumFractionDigits: digits, maximumFractionDigits: digits });
+/**
+ * "3 d 4 h", "5 h", "25 min": how long something has waited, in words a lead reads at a
+ * glance (hours under 10 with one decimal).
+ */
+export function formatHours(h: number | null | undefined): string {
+  if (h === null || h === undefined || !Number.isFinite(h)) return "–";
+  if (h < 1) return `${formatNumber(h * 60, "count")} min`;
+  if (h < 48) return `${h < 10 ? formatNumber(Math.round(h * 10) / 10, "measure") : formatNumber(h, "count")} h`;
+  const d = Math.floor(h / 24);
+  return `${d} d ${Math.round(h - d * 24)} h`;
 }
 
 /** Bytes as B / KB / MB / GB with one decimal (1 KB = 1024 B). */
@@ -27,7 +35,7 @@ export function formatBytes(n: number | null | undefined): string {
     v /= 1024;
     u++;
   }
-  return u === 0 ? `${v} B` : `${v.toFixed(1)} ${units[u]}`;
+  return u === 0 ? `${formatNumber(v, "count")} B` : `${formatNumber(Math.round(v * 10) / 10, "measure")} ${units[u]}`;
 }
 
 const dateTimeFmt = new Intl.DateTimeFormat("en-GB", {
@@ -67,7 +75,7 @@ export function isoDateTime(d: Date | string | number | null | undefined): strin
 export const BATCH_STATE_LABELS: Record<BatchState, string> = {
   received: "Received",
   checking: "Checking",
-  ready: "Ready for review",
+  ready: "Awaiting review",
   accepted: "Accepted",
   bounced: "Bounced",
   superseded: "Superseded",
@@ -110,7 +118,7 @@ const NEEDS_QUOTES = /[",;\t\r\n]/;
  */
 export function csvCell(value: unknown): string {
   if (value === null || value === undefined) return "";
-  if (typeof value === "number") return Number.isFinite(value) ? String(value) : "";
+  if (typeof value === "number") return plainNumber(value);
   if (typeof value === "boolean") return value ? "true" : "false";
   let s = value instanceof Date ? value.toISOString() : String(value);
   if (FORMULA_START.test(s) && !PLAIN_NUMBER.test(s)) s = `'${s}`;

@@ -1,14 +1,16 @@
-/** `npx tsx scripts/demo-batches.ts`: send the demo batch files through the pipeline and take the demo decisions (after the seed, with the fakes and the worker running). */
+/**
+ * `npx tsx --conditions react-server scripts/demo-batches.ts`: builds the demo's season of
+ * intake (lib/demo/season-run.ts) after the seed, with the fakes running and before the
+ * worker starts. Safe to run again: a season already built is left alone.
+ */
 import { getDb, getPool } from "@/db/client";
-import { decideDemoBatches, sendDemoBatches } from "@/lib/demo/send-batches";
+import { buildSeason } from "@/lib/demo/season-run";
 
 try {
-  const n = await sendDemoBatches(getDb(), (l) => console.log(`[demo] ${l}`));
-  console.log(`[demo] ${n} demo batch file(s) sent; the worker checks them.`);
-  const d = await decideDemoBatches(getDb(), (l) => console.log(`[demo] ${l}`));
-  if (d) console.log(`[demo] ${d} demo decision(s) taken by the demo analysts.`);
+  const s = await buildSeason(getDb(), (l) => console.log(`[demo] ${l}`));
+  if (s.skipped) console.log("[demo] the season is already in this database; nothing sent.");
 } catch (e) {
-  console.error(`[demo] could not send the demo batches: ${e instanceof Error ? e.message : String(e)}`);
+  console.error(`[demo] could not build the season: ${e instanceof Error ? e.message : String(e)}`);
   process.exitCode = 1;
 } finally {
   await getPool().end();

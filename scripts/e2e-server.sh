@@ -50,6 +50,15 @@ else
   say "WARNING: fakes/run.ts not found; uploads and mail will not work in this run" >&2
 fi
 
+# the demo's season of intake (uploads through the upload fake, checked and decided with the
+# services' clock set back), before the worker starts so that it does not take the season's jobs
+for ((i = 0; i < 240; i++)); do
+  (exec 3<>"/dev/tcp/127.0.0.1/${FAKE_UPLOAD_PORT}") 2>/dev/null && break
+  sleep 0.5
+done
+say "building the demo season"
+node_modules/.bin/tsx --conditions react-server scripts/demo-batches.ts
+
 if [ -f scripts/worker.ts ]; then
   # the check worker and e-mail sender, as in the product
   node_modules/.bin/tsx scripts/worker.ts &

@@ -43,7 +43,7 @@ export function IntakeFlow({ flow, received, sinceLabel }: { flow: Flow; receive
   ].map(([a, b]) => ({ from: a!, to: b!, v: get(a!, b!) })).filter((l) => l.v > 0);
   const waitingInReady = value.ready! - value.accepted! - value.bounced! - value.superseded!;
   const stillReceived = received - value.checking!;
-  const summary = `Since ${sinceLabel}: ${received} versions received, ${value.checking} checked, ${value.ready} ready for review, ${value.unreadable} unreadable, ${value.accepted} accepted, ${value.bounced} bounced, ${value.superseded} superseded before a decision, ${waitingInReady} still waiting for a decision.`;
+  const summary = `Since ${sinceLabel}: ${received} versions received, ${value.checking} checked, ${value.ready} awaiting review, ${value.unreadable} unreadable, ${value.accepted} accepted, ${value.bounced} bounced, ${value.superseded} superseded before a decision, ${waitingInReady} still waiting for a decision.`;
   return (
     <figure className="grid gap-1" data-testid="intake-flow">
       <svg viewBox={`0 0 ${W} ${H}`} className="w-full max-w-4xl" role="img" aria-label={summary}>

@@ -3,19 +3,19 @@
 import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
 import type { ProviderStats } from "@/lib/pool/queries-board";
-import { formatDecimal } from "@/lib/format";
+import { formatNumber } from "@/lib/format";
 
 /** A row of the board's provider figures (lib/pool/queries-board.ts), keyed for the table. */
 export type ProviderRow = Omit<ProviderStats, "studySlug"> & { id: string };
 
-const pct = (x: number | null) => (x === null ? "–" : `${Math.round(x * 100)} %`);
+const pct = (x: number | null) => formatNumber(x, "percent");
 
 const columns: Column<ProviderRow>[] = [
   { key: "study", header: "Study", value: (r) => r.studyTitle, width: "minmax(10rem, 1.5fr)" },
   { key: "org", header: "Provider", value: (r) => r.organisationName, width: "minmax(9rem, 1.2fr)" },
   { key: "batches", header: "Batches", value: (r) => r.batches, numeric: true, width: "6rem" },
   { key: "versions", header: "Versions", value: (r) => r.versions, numeric: true, width: "6rem" },
-  { key: "vpb", header: "Versions per batch", value: (r) => (r.versionsPerBatch === null ? null : Number(r.versionsPerBatch.toFixed(2))), render: (r) => formatDecimal(r.versionsPerBatch, 2), numeric: true, width: "9rem" },
+  { key: "vpb", header: "Versions per batch", value: (r) => (r.versionsPerBatch === null ? null : Number(r.versionsPerBatch.toFixed(2))), render: (r) => formatNumber(r.versionsPerBatch, "estimate"), numeric: true, width: "9rem" },
   { key: "accepted", header: "Accepted", value: (r) => r.accepted, numeric: true, width: "6.5rem" },
   { key: "bounced", header: "Bounced", value: (r) => r.bounced, numeric: true, width: "6.5rem" },
   { key: "rate", header: "Bounce rate", value: (r) => (r.bounceRate === null ? null : Number(r.bounceRate.toFixed(4))), render: (r) => pct(r.bounceRate), numeric: true, width: "7rem" },
@@ -30,7 +30,7 @@ export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={decided} layout="vertical" margin={{ top: 4, right: 24, bottom: 4, left: 8 }}>
               <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" horizontal={false} />
-              <XAxis type="number" domain={[0, 100]} unit=" %" tick={{ fontSize: 12, fill: "#6B6354" }} />
+              <XAxis type="number" domain={[0, 100]} ticks={[0, 25, 50, 75, 100]} unit=" %" tick={{ fontSize: 12, fill: "#6B6354" }} />
               <YAxis type="category" dataKey="name" width={260} tick={{ fontSize: 12, fill: "#12262E" }} />
               <Tooltip formatter={(v) => `${v} % bounced`} />
               <Bar dataKey="rate" name="bounce rate" fill="#A63D24" isAnimationActive={false} />

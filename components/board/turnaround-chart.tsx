@@ -2,6 +2,7 @@
 /** Turnaround from upload to decision by week: median and 90th percentile as lines, and as a table. */
 import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
+import { formatCount, niceTicks } from "@/lib/format";
 import { formatHours } from "./format";
 
 export type TurnaroundRow = { week: string; decisions: number; medianHours: number | null; p90Hours: number | null };
@@ -16,6 +17,8 @@ const columns: Column<TurnaroundRow & { id: string }>[] = [
 export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
   const data = weeks.map((w) => ({ ...w, id: w.week, label: w.week.slice(5) }));
   const any = weeks.some((w) => w.decisions > 0);
+  // whole hours, 1-2-2.5-5 steps: distinct labels whatever the spread
+  const ticks = niceTicks(0, Math.max(1, ...weeks.map((w) => w.p90Hours ?? 0)), 5, true);
   return (
     <div className="grid gap-4">
       {any ? (
@@ -24,7 +27,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
             <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
               <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
               <XAxis dataKey="label" tick={{ fontSize: 12, fill: "#6B6354" }} />
-              <YAxis tick={{ fontSize: 12, fill: "#6B6354" }} tickFormatter={(v: number) => formatHours(v)} width={64} />
+              <YAxis domain={[0, ticks[ticks.length - 1] ?? 1]} ticks={ticks} tick={{ fontSize: 12, fill: "#6B6354" }} tickFormatter={(v: number) => `${formatCount(v)} h`} width={64} />
               <Tooltip formatter={(v) => formatHours(typeof v === "number" ? v : null)} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               <Line type="monotone" dataKey="medianHours" name="median" stroke="#1F6F78" strokeWidth={2} connectNulls dot={{ r: 3 }} isAnimationActive={false} />

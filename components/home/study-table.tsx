@@ -72,7 +72,7 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
       ),
     });
   }
-  columns.push(count("ready", "Ready for review"), count("accepted", "Accepted"), count("bounced", "Bounced"));
+  columns.push(count("ready", "Awaiting review"), count("accepted", "Accepted"), count("bounced", "Bounced"));
   if (variant !== "analyst") columns.push(count("checking", "Checking"));
   columns.push({ key: "total", header: variant === "provider" ? "Your batches" : "All batches", numeric: true, width: "minmax(5rem, 1fr)", value: total });
   return <DataTable rows={rows} columns={columns} caption={caption} filterPlaceholder="Filter studies" />;

@@ -11,7 +11,7 @@ import type { BatchFileRouter } from "@/lib/batches/intake/file-router";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
 import { batchFileProblem } from "@/lib/batches/intake/file-rules";
-import { formatBytes } from "@/lib/format";
+import { countOf, formatBytes } from "@/lib/format";
 import { usePrecheck } from "@/lib/client/use-precheck";
 import { uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 
@@ -128,7 +128,7 @@ export function UploadPanel({
       <section aria-live="polite" aria-label="Check before upload" data-testid="precheck">
         {s.phase === "running" ? (
           <p className="tabular-nums text-sm">
-            Checking in your browser… {s.rows.toLocaleString()} rows read{pct !== null ? ` (${pct} %)` : ""}
+            Checking in your browser… {countOf(s.rows, "row")} read{pct !== null ? ` (${pct} %)` : ""}
           </p>
         ) : null}
         {s.phase === "error" ? <p className="text-sm text-silt-ink">{s.message}</p> : null}
@@ -140,7 +140,7 @@ export function UploadPanel({
               <SeverityBadge severity="warning" count={s.report.counts.warning} />
               <SeverityBadge severity="note" count={s.report.counts.note} />
               <span className="tabular-nums text-silt-ink">
-                {s.report.rows.total.toLocaleString()} rows, {s.report.rows.complete.toLocaleString()} complete cases
+                {countOf(s.report.rows.total, "row")}, {countOf(s.report.rows.complete, "complete case")}
               </span>
             </div>
             {s.report.findings.filter((f) => f.severity !== "note").length > 0 ? (

@@ -1,5 +1,5 @@
 /** The pool's figures side by side: as it stands and with a batch added (or one column alone). */
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
 import type { ReadinessReport } from "@/lib/readiness";
 
 type Figure = { label: string; of: (r: ReadinessReport) => number | null; digits?: number; signed?: boolean };
@@ -19,7 +19,7 @@ const FIGURES: Figure[] = [
 
 function show(v: number | null, f: Figure): string {
   if (v === null || !Number.isFinite(v)) return "–";
-  const s = f.digits ? formatDecimal(v, f.digits) : formatCount(v);
+  const s = f.digits ? formatNumber(v, "estimate") : formatCount(v);
   return f.signed && v > 0 ? `+${s}` : s;
 }
 

@@ -4,7 +4,7 @@
  */
 import { Section } from "@/components/ui";
 import { FindingsTable } from "@/components/report/report-tables";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
 import type { QuestionsView } from "@/lib/pool/questions";
 import type { PoolQuestions } from "@/lib/readiness";
 import { CriteriaCharts } from "./criteria-chart";
@@ -91,10 +91,10 @@ function Overall({ q }: { q: PoolQuestions }) {
           {[
             ["F", `${formatStat(o.F)} on ${formatDf(o.df1, o.df2)} df`],
             ["p", formatP(o.p)],
-            ["R² · adjusted R²", `${formatDecimal(o.r2, 4)} · ${formatDecimal(o.adjR2, 4)}`],
+            ["R² · adjusted R²", `${formatNumber(o.r2, "estimate")} · ${formatNumber(o.adjR2, "estimate")}`],
             [
-              `Smallest R² detectable at this n (power ${formatDecimal(o.power, 2)}, α = ${formatDecimal(o.alpha, 2)})`,
-              o.detectableR2 === null ? "–" : formatDecimal(o.detectableR2, 4),
+              `Smallest R² detectable at this n (power ${formatNumber(o.power, "estimate")}, α = ${formatNumber(o.alpha, "estimate")})`,
+              formatNumber(o.detectableR2, "estimate"),
             ],
           ].map(([k, v]) => (
             <tr key={k} className="border-b border-silt-line/50">

@@ -1,6 +1,6 @@
 /** Table columns the pool questions' tables share: a statistic, a list of terms, a count. */
 import type { Column } from "@/components/data-table";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
 import { formatStat, rounded } from "./questions-format";
 
 /** A number column: sorted and downloaded rounded, shown with `digits` decimals ("fixed": never in e-notation). */
@@ -16,7 +16,7 @@ export function statColumn<T>(
     key,
     header,
     value: (r) => rounded(get(r), Math.max(digits, 4)),
-    render: (r) => (fixed ? formatDecimal(get(r), digits) : formatStat(get(r), digits)),
+    render: (r) => (fixed ? formatNumber(get(r) ?? null, "estimate") : formatStat(get(r), digits)),
     numeric: true,
     width,
   };

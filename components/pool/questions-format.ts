@@ -1,24 +1,24 @@
 /** Number formats of the pool questions' figures (tables, charts and their labels alike). */
-import { formatDecimal } from "@/lib/format";
+import { formatNumber } from "@/lib/format";
 
-/** A p-value: four decimals, or "< 0.0001" below that (a tiny p says no more than that). */
+/** A p-value as every page prints one (lib/format: two significant digits, "< 0.001" below that). */
 export function formatP(p: number | null | undefined): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return "–";
-  return p < 1e-4 ? "< 0.0001" : formatDecimal(p, 4);
+  return formatNumber(p ?? null, "pvalue");
 }
 
-/** A test statistic or criterion: two decimals, or three significant digits in e-notation when huge. */
+/**
+ * A test statistic or criterion (lib/format's "statistic": three significant digits), or with
+ * `digits` of 3 or more a fitted quantity such as R² ("estimate": four significant digits).
+ */
 export function formatStat(x: number | null | undefined, digits = 2): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  return Math.abs(x) >= 1e6 ? x.toExponential(2) : formatDecimal(x, digits);
+  return formatNumber(x ?? null, digits >= 3 ? "estimate" : "statistic");
 }
 
 /** Degrees of freedom as "(df1, df2)". */
 export const formatDf = (df1: number, df2: number) => `(${df1}, ${df2})`;
 
 /** A share as a whole per cent. */
-export const formatShare = (x: number | null | undefined) =>
-  x === null || x === undefined ? "–" : `${Math.round(x * 100)} %`;
+export const formatShare = (x: number | null | undefined) => formatNumber(x ?? null, "percent");
 
 /** Raw values for sorting and CSV: rounded so a download shows what the table shows. */
 export const rounded = (x: number | null | undefined, digits = 4) =>

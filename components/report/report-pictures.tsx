@@ -1,5 +1,6 @@
 /** The report's pictures: correlation heatmap, missingness map, condition indices. */
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
+import { SeverityBadge } from "@/components/severity-badge";
 
 /** Diverging clay ↔ sand ↔ channel (the palette of tailwind.config.ts), r in [-1, 1]. */
 function corrColour(r: number): string {
@@ -30,11 +31,11 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
           row.map((r, j) => (
             <g key={`${i}-${j}`}>
               <rect x={label + j * cell} y={label + i * cell} width={cell - 1} height={cell - 1} fill={corrColour(r)}>
-                <title>{`${columns[i]} × ${columns[j]}: r = ${formatDecimal(r, 3)}`}</title>
+                <title>{`${columns[i]} × ${columns[j]}: r = ${formatNumber(r, "statistic")}`}</title>
               </rect>
               {showValues && i !== j ? (
                 <text x={label + j * cell + cell / 2} y={label + i * cell + cell / 2 + 3} fontSize="10" textAnchor="middle" fill={Math.abs(r) > 0.55 ? "#FFFFFF" : "#12262E"} className="tabular-nums">
-                  {formatDecimal(r, 2)}
+                  {formatNumber(Math.round(r * 100) / 100, "measure")}
                 </text>
               ) : null}
             </g>
@@ -82,7 +83,7 @@ export function MissingnessMap({ patterns, columns, total }: { patterns: { colum
               <td className="pl-3">
                 <span className="flex items-center gap-2 tabular-nums">
                   <span className="inline-block h-3 bg-slate" style={{ width: `${Math.max(2, (p.count / max) * 160)}px` }} aria-hidden="true" />
-                  {formatCount(p.count)} ({formatDecimal((p.count / Math.max(1, total)) * 100, 1)} %)
+                  {formatCount(p.count)} ({formatNumber(p.count / Math.max(1, total), "percent")})
                 </span>
               </td>
             </tr>
@@ -123,7 +124,10 @@ export function ConditionIndices({
           return (
             <tr key={k} className={high ? "text-ochre-ink" : undefined}>
               <td className="pr-4 tabular-nums">{k + 1}</td>
-              <td className="pr-4 text-right tabular-nums">{formatDecimal(eta, 1)}{high ? " ◇" : ""}</td>
+              <td className="pr-4 text-right tabular-nums">
+                {formatNumber(eta, "statistic")}
+                {high ? <SeverityBadge severity="warning" className="ml-2" /> : null}
+              </td>
               <td className="font-mono text-xs">{cols.join(", ") || "—"}</td>
             </tr>
           );

@@ -1,8 +1,9 @@
 "use client";
 /** The report's tables: findings and columns (the model's tables are model-tables.tsx). */
 import { DataTable, type Column } from "@/components/data-table";
-import { SeverityBadge } from "@/components/severity-badge";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { SeverityBadge, type Severity } from "@/components/severity-badge";
+import { SummaryText } from "./box-plot";
+import { formatCount, formatNumber } from "@/lib/format";
 import type { ColumnReport, Finding } from "@/lib/readiness";
 
 export { CoefficientsTable, CollinearityTable } from "./model-tables";
@@ -38,44 +39,66 @@ export function FindingsTable({ findings, caption = "Findings", csvName }: { fin
   return <DataTable rows={findings} columns={columns} caption={caption} csvName={csvName} filterPlaceholder="Filter findings" />;
 }
 
-type ColumnRow = ColumnReport & { id: string };
+type ColumnRow = ColumnReport & { id: string; reading: Severity | null; readingCodes: string[] };
 
-export function ColumnsTable({ columns: cols, csvName }: { columns: ColumnReport[]; csvName?: string }) {
-  const rows: ColumnRow[] = cols.map((c) => ({ ...c, id: c.name }));
+/** The most severe finding on each column, with its codes: the Columns table's "Reading". */
+function readingsOf(findings: readonly Finding[]): Map<string, { severity: Severity; codes: string[] }> {
+  const out = new Map<string, { severity: Severity; codes: string[] }>();
+  for (const f of findings) {
+    for (const c of f.columns) {
+      const had = out.get(c);
+      if (!had) out.set(c, { severity: f.severity, codes: [f.code] });
+      else {
+        if (SEVERITY_ORDER[f.severity] < SEVERITY_ORDER[had.severity]) had.severity = f.severity;
+        if (!had.codes.includes(f.code)) had.codes.push(f.code);
+      }
+    }
+  }
+  return out;
+}
+
+/**
+ * One row per column. "Looks like" is what the values look like, told plainly (a key or text
+ * column looks like anything); the "Reading" is the column's most severe finding, with the
+ * findings' own word and shape, so nothing is marked here that the findings do not say.
+ */
+export function ColumnsTable({ columns: cols, findings = [], csvName }: { columns: ColumnReport[]; findings?: readonly Finding[]; csvName?: string }) {
+  const readings = readingsOf(findings);
+  const rows: ColumnRow[] = cols.map((c) => ({ ...c, id: c.name, reading: readings.get(c.name)?.severity ?? null, readingCodes: readings.get(c.name)?.codes ?? [] }));
   const columns: Column<ColumnRow>[] = [
     { key: "name", header: "Column", width: "minmax(10rem, 1.5fr)", value: (c) => c.name, render: (c) => <span className="font-mono text-xs">{c.name}</span> },
     { key: "role", header: "Role", width: "6.5rem", value: (c) => c.role ?? "not in plan" },
     { key: "planned", header: "Planned type", width: "7rem", value: (c) => c.plannedType ?? "–" },
+    { key: "inferred", header: "Looks like", width: "7rem", value: (c) => c.inferredType },
     {
-      key: "inferred",
-      header: "Looks like",
-      width: "7rem",
-      value: (c) => c.inferredType,
-      render: (c) => <span className={c.plannedType && c.inferredType !== c.plannedType && c.inferredType !== "empty" && !(c.plannedType === "number" && c.inferredType === "integer") ? "font-semibold text-clay-ink" : undefined}>{c.inferredType}</span>,
+      key: "reading",
+      header: "Reading",
+      width: "minmax(9rem, 1.2fr)",
+      value: (c) => (c.reading ? `${c.reading}: ${c.readingCodes.join(", ")}` : ""),
+      render: (c) =>
+        c.reading ? (
+          <span className="flex flex-wrap items-center gap-1" title={c.readingCodes.join(", ")}>
+            <SeverityBadge severity={c.reading} />
+            <code className="text-xs">{c.readingCodes[0]}{c.readingCodes.length > 1 ? ` +${c.readingCodes.length - 1}` : ""}</code>
+          </span>
+        ) : (
+          <span className="text-silt-ink">—</span>
+        ),
     },
-    { key: "missing", header: "Missing", numeric: true, width: "6.5rem", value: (c) => c.missing.fraction, render: (c) => `${formatDecimal(c.missing.fraction * 100, 1)} %` },
+    { key: "missing", header: "Missing", numeric: true, width: "6.5rem", value: (c) => c.missing.fraction, render: (c) => formatNumber(c.missing.fraction, "percent") },
     {
       key: "summary",
       header: "Range / levels",
       width: "minmax(16rem, 3fr)",
       value: (c) =>
         c.summary
-          ? `min ${c.summary.min}, median ${c.summary.median}, max ${c.summary.max}, mean ${formatDecimal(c.summary.mean, 3)}, sd ${formatDecimal(c.summary.sd, 3)}`
+          ? `min ${formatNumber(c.summary.min, "measure")}, median ${formatNumber(c.summary.median, "measure")}, max ${formatNumber(c.summary.max, "measure")}, mean ${formatNumber(c.summary.mean, "estimate")}, sd ${formatNumber(c.summary.sd, "estimate")}`
           : (c.levels ?? []).map((l) => `${l.level} ${l.count}`).join("; "),
       render: (c) => (c.levels && c.levels.length > 0 ? <LevelBars levels={c.levels} /> : c.summary ? <SummaryText s={c.summary} /> : "–"),
       sortable: false,
     },
   ];
   return <DataTable rows={rows} columns={columns} caption="Columns" csvName={csvName} filterPlaceholder="Filter columns" />;
-}
-
-function SummaryText({ s }: { s: NonNullable<ColumnReport["summary"]> }) {
-  return (
-    <span className="text-xs tabular-nums">
-      {s.min} · <span title="lower quartile">{s.q1}</span> · <strong title="median">{s.median}</strong> · <span title="upper quartile">{s.q3}</span> · {s.max}
-      <span className="text-silt-ink"> (mean {formatDecimal(s.mean, 3)}, sd {formatDecimal(s.sd, 3)})</span>
-    </span>
-  );
 }
 
 /** Level bars: one bar per level, sparse levels (under 10 rows) marked. */

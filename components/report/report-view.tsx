@@ -1,7 +1,7 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
 import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
 import { DfLedger, ledgerOf } from "./df-ledger";
 import { CoefficientsTable, CollinearityTable, ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
@@ -10,12 +10,12 @@ import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "./report-p
 export function verdictOf(report: ReadinessReport): { tone: "clay" | "ochre" | "reed"; text: string } {
   if (report.status === "unreadable") return { tone: "clay", text: "This file could not be read. The finding below says why and what to do." };
   if (report.counts.blocker > 0) {
-    return { tone: "clay", text: `Not ready: ${report.counts.blocker} ${report.counts.blocker === 1 ? "blocker" : "blockers"} must be fixed before this batch can feed the model.` };
+    return { tone: "clay", text: `Needs fixes: ${countOf(report.counts.blocker, "blocker")} must be fixed before this batch can feed the model.` };
   }
   if (report.counts.warning > 0) {
-    return { tone: "ochre", text: `Usable with care: no blockers, ${report.counts.warning} ${report.counts.warning === 1 ? "warning" : "warnings"} for the analyst to weigh.` };
+    return { tone: "ochre", text: `Usable with care: no blockers, ${countOf(report.counts.warning, "warning")} for the analyst to weigh.` };
   }
-  return { tone: "reed", text: "No blockers or warnings: ready for the analyst's review." };
+  return { tone: "reed", text: "Passes the checks: no blockers or warnings for the analyst to weigh." };
 }
 
 export function Caution() {
@@ -63,7 +63,7 @@ export function ReportView({
           <SeverityBadge severity="note" count={report.counts.note} />
           <span className="text-sm text-ink tabular-nums">
             n = {formatCount(report.rows.complete)} complete of {formatCount(report.rows.total)} rows · p = {report.model.parameters} · residual df{" "}
-            {formatCount(report.model.residualDf)} · {report.model.perParameter === null ? "–" : formatDecimal(report.model.perParameter, 1)} rows per parameter
+            {formatCount(report.model.residualDf)} · {formatNumber(report.model.perParameter, "estimate")} rows per parameter
           </span>
         </div>
       </div>
@@ -81,7 +81,7 @@ export function ReportView({
       {report.status === "checked" ? (
         <>
           <Section title="Columns" id="columns">
-            <ColumnsTable columns={report.columns} csvName={`${csvPrefix}-columns`} />
+            <ColumnsTable columns={report.columns} findings={report.findings} csvName={`${csvPrefix}-columns`} />
           </Section>
 
           <Section title="Collinearity" id="collinearity" note="On the complete cases of the planned design. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992), comparable to √VIF.">
@@ -109,7 +109,7 @@ export function ReportView({
             )}
           </Section>
 
-          <Section title="Missingness" id="missingness" note={report.missingness.littleMCAR ? `Little's MCAR test: χ² = ${formatDecimal(report.missingness.littleMCAR.statistic, 2)} on ${report.missingness.littleMCAR.df} df, p = ${formatDecimal(report.missingness.littleMCAR.pValue, 4)}. A small p says the values are not missing completely at random.` : undefined}>
+          <Section title="Missingness" id="missingness" note={report.missingness.littleMCAR ? `Little's MCAR test: χ² = ${formatNumber(report.missingness.littleMCAR.statistic, "statistic")} on ${report.missingness.littleMCAR.df} df, p ${pEquals(report.missingness.littleMCAR.pValue)}. A small p says the values are not missing completely at random.` : undefined}>
             <MissingnessMap patterns={report.missingness.patterns} columns={planned} total={report.rows.total} />
           </Section>
 
@@ -117,11 +117,11 @@ export function ReportView({
             {report.fit ? (
               <div className="grid gap-3">
                 <p className="text-sm tabular-nums">
-                  R² = {formatDecimal(report.fit.rSquared, 4)} · adjusted R² = {formatDecimal(report.fit.adjRSquared, 4)} · residual standard error{" "}
-                  {formatDecimal(report.fit.residualStdError, 4)} on {report.fit.dfResidual} df · overall F ={" "}
-                  {report.fit.F === null ? "–" : formatDecimal(report.fit.F, 3)} on ({report.fit.dfModel}, {report.fit.dfResidual}) df, p ={" "}
-                  {report.fit.pValue === null ? "–" : report.fit.pValue < 1e-4 ? report.fit.pValue.toExponential(2) : formatDecimal(report.fit.pValue, 4)}
-                  {report.fit.power?.detectableR2 != null ? ` · detects R² ≥ ${formatDecimal(report.fit.power.detectableR2, 3)} with power ${report.fit.power.power} at α = ${report.fit.power.alpha}` : ""}
+                  R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² = {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}
+                  {formatNumber(report.fit.residualStdError, "estimate")} on {report.fit.dfResidual} df · overall F ={" "}
+                  {formatNumber(report.fit.F, "statistic")} on ({report.fit.dfModel}, {report.fit.dfResidual}) df, p{" "}
+                  {pEquals(report.fit.pValue)}
+                  {report.fit.power?.detectableR2 != null ? ` · detects ${detectable(report.fit.power.detectableR2)} with power ${formatNumber(report.fit.power.power, "estimate")} at α = ${formatNumber(report.fit.power.alpha, "estimate")}` : ""}
                 </p>
                 <CoefficientsTable coefficients={report.fit.coefficients} csvName={`${csvPrefix}-coefficients`} />
               </div>

@@ -6,7 +6,7 @@ import { DataTable, type Column } from "@/components/data-table";
 import { SeverityBadge } from "@/components/severity-badge";
 import { StateBadge } from "@/components/state-badge";
 import { Select } from "@/components/ui/select";
-import { formatCount } from "@/lib/format";
+import { countOf, formatCount, formatHours } from "@/lib/format";
 import { useQueue, type QueueRow } from "@/lib/client/use-queue";
 
 type Row = QueueRow & { id: string };
@@ -14,7 +14,7 @@ type Row = QueueRow & { id: string };
 function waited(since: string, now: number): { ms: number; text: string } {
   const ms = Math.max(0, now - new Date(since).getTime());
   const h = ms / 3_600_000;
-  const text = h < 1 ? `${Math.max(1, Math.round(ms / 60_000))} min` : h < 48 ? `${h.toFixed(1)} h` : `${Math.round(h / 24)} days`;
+  const text = h < 1 ? `${Math.max(1, Math.round(ms / 60_000))} min` : h < 48 ? formatHours(h) : countOf(Math.round(h / 24), "day");
   return { ms, text };
 }
 
@@ -98,7 +98,7 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
         <label className="grid gap-1 text-sm font-semibold">
           State
           <Select value={state} onChange={(e) => setState(e.target.value)}>
-            <option value="ready">Ready for review</option>
+            <option value="ready">Awaiting review</option>
             <option value="unreadable">Unreadable</option>
             <option value="checking">Checking</option>
             <option value="received">Received</option>

@@ -20,6 +20,7 @@ import { decisionInput } from "./schemas";
 
 export type { DecisionInput } from "./schemas";
 import type { DecisionInput } from "./schemas";
+import { now } from "@/lib/core/clock";
 
 export type DecisionDone = { decisionId: number; state: "accepted" | "bounced"; emailsQueued: number };
 
@@ -109,7 +110,7 @@ async function decideInTx(
       input.findingComments.map((fc) => ({ decisionId: ins.id, batchVersionId: version.id, findingCode: fc.code, columns: fc.columns.join(",").slice(0, 1000), comment: fc.comment, authorId: actor.id })),
     );
   }
-  await tx.update(batchVersions).set({ state, stateChangedAt: new Date() }).where(eq(batchVersions.id, version.id));
+  await tx.update(batchVersions).set({ state, stateChangedAt: now() }).where(eq(batchVersions.id, version.id));
   if (state === "accepted") await enqueuePoolQuestions(tx, batch.studyId);
   await audit({
     action: `batch.${input.decision}`,

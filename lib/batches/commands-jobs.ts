@@ -3,6 +3,7 @@ import { eq } from "drizzle-orm";
 import { z } from "zod";
 import { checkJobs } from "@/db/schema";
 import { write } from "@/lib/core/write";
+import { now as clockNow } from "@/lib/core/clock";
 import { fail, ok, type Result } from "@/lib/result";
 
 /** An admin sends a failed job round again: three fresh attempts, from now. */
@@ -27,7 +28,7 @@ export function retryFailedJob(actorId: number, jobId: number): Promise<Result<n
       }
       await tx
         .update(checkJobs)
-        .set({ status: "queued", attempts: 0, runAfter: new Date(), finishedAt: null, lockedBy: null })
+        .set({ status: "queued", attempts: 0, runAfter: clockNow(), finishedAt: null, lockedBy: null })
         .where(eq(checkJobs.id, id));
       const change = { before: { status: "failed" }, after: { status: "queued" } };
       await audit({ action: "job.retry", objectType: "check_job", objectId: id, ...change });

@@ -4,7 +4,7 @@
  * without its job, and a job never without its version.
  */
 import { randomBytes } from "node:crypto";
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { DbOrTx } from "@/db/client";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders } from "@/db/schema";
@@ -13,6 +13,7 @@ import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/pool";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
+import { now } from "@/lib/core/clock";
 
 export interface UploadTarget {
   studyId: number;
@@ -142,7 +143,7 @@ export function recordBatchVersion(
         .from(batchVersions)
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
-        await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
+        await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: now() }).where(eq(batchVersions.id, prev.id));
         // an accepted version leaves the pool
         if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
         await audit({

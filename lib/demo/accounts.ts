@@ -19,7 +19,7 @@ export const DEMO_FARMS: readonly DemoOrganisation[] = [
   { slug: "harrowgate", name: "Harrowgate Farm", kind: "provider" },
   { slug: "fennick-hill", name: "Fennick Hill Farm", kind: "provider" },
   { slug: "brackenridge", name: "Brackenridge Farm", kind: "provider" },
-  { slug: "otterburn-mill", name: "Otterburn Mill Farm", kind: "provider" },
+  { slug: "hollinsfold", name: "Hollinsfold Farm", kind: "provider" },
   { slug: "saltmarsh-end", name: "Saltmarsh End Farm", kind: "provider" },
   { slug: "coldwell", name: "Coldwell Farm", kind: "provider" },
 ];
@@ -55,7 +55,7 @@ export const DEMO_USERS: readonly DemoUser[] = [
   { email: "provider@fennick.test", name: "Esther Quayle", role: "provider", organisationSlug: "fennick-hill", active: true, note: "uploads for Fennick Hill Farm" },
   { email: "installer@greenhearth.test", name: "Callum Reyes", role: "provider", organisationSlug: "greenhearth", active: true, note: "uploads for Greenhearth Installers" },
   { email: "provider@brackenridge.test", name: "Ailsa Morrow", role: "provider", organisationSlug: "brackenridge", active: true, note: "uploads for Brackenridge Farm" },
-  { email: "provider@otterburn.test", name: "Hamish Teale", role: "provider", organisationSlug: "otterburn-mill", active: true, note: "uploads for Otterburn Mill Farm" },
+  { email: "provider@hollinsfold.test", name: "Hamish Teale", role: "provider", organisationSlug: "hollinsfold", active: true, note: "uploads for Hollinsfold Farm" },
   { email: "provider@saltmarsh.test", name: "Priya Danes", role: "provider", organisationSlug: "saltmarsh-end", active: true, note: "uploads for Saltmarsh End Farm" },
   { email: "provider@coldwell.test", name: "Owen Pritchard", role: "provider", organisationSlug: "coldwell", active: true, note: "uploads for Coldwell Farm" },
   { email: "inactive@harrowgate.test", name: "Dennis Otway", role: "provider", organisationSlug: "harrowgate", active: false, note: "deactivated: cannot sign in" },

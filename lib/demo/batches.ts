@@ -1,7 +1,8 @@
 /**
  * The demo scenario's batch files, generated (all invented): plot results from the
  * Lowmoor Valley farms and home results from the heat-pump installers, some clean and
- * some with the defects providers really send.
+ * some with the defects providers really send. Tests use them as fixtures; the demo's season
+ * (season-plan.ts) generates its own files with the same generators.
  */
 import { mulberry32 } from "@/lib/readiness";
 import { BARLEY_VARIETIES, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES, INSULATION_BANDS, SOIL_TYPES } from "./plans";
@@ -143,7 +144,7 @@ export function barleyBatches(): DemoBatch[] {
       } },
     { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing, and a nitrogen response unlike the other farms' (after a clover ley)", csv: toCsv(h, bracken),
       decision: { by: "analyst@lowmoor.test", decision: "accept", comment: "Accepted: the plots without an irrigation figure stay out of the complete cases." } },
-    { organisationSlug: "otterburn-mill", studySlug: study, title: "Otterburn Mill plots, spring 2026", fileName: "otterburn-mill-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
+    { organisationSlug: "hollinsfold", studySlug: study, title: "Hollinsfold plots, spring 2026", fileName: "hollinsfold-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
     { organisationSlug: "saltmarsh-end", studySlug: study, title: "Saltmarsh End plots, spring 2026", fileName: "saltmarsh-end-2026.csv", shows: "decimal commas and -999 sentinels", csv: saltCsv },
     { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
     { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, Long Meadow trial 2026", fileName: "harrowgate-long-meadow-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, harrowgateLong), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
@@ -151,7 +152,7 @@ export function barleyBatches(): DemoBatch[] {
   ];
 }
 
-const HEAT_HEADER = [
+export const HEAT_HEADER = [
   "property_ref", "install_date", "installer_note", "annual_kwh_saved", "floor_area_m2", "pre_retrofit_kwh",
   "heat_pump_type", "insulation_band", "building_age_band", "household_size", "occupancy_hours",
 ] as const;

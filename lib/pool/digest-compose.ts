@@ -8,6 +8,7 @@ import { batches, batchVersions, decisions, organisations, studies } from "@/db/
 import { env } from "@/lib/env";
 import { escapeHtml } from "@/lib/mail";
 import { loadAccepted, loadCurrentPlan, poolOf } from "@/lib/pool/pool";
+import { countOf, formatCount } from "@/lib/format";
 
 const DAY = 86_400_000;
 
@@ -88,13 +89,13 @@ export function composeDigest(d: DigestData, appUrl = env().APP_URL): { subject:
     `Intake from ${day(d.from)} to ${day(d.to)}.`,
     "",
     `Waiting for a decision: ${d.waiting.length}`,
-    ...d.waiting.map((w) => `  - ${w.study} · ${w.organisation} · ${w.title} (version ${w.version}), waiting ${days(w.since, d.to)} days: ${base}/batches/${w.batchPublicId}?v=${w.version}`),
+    ...d.waiting.map((w) => `  - ${w.study} · ${w.organisation} · ${w.title} (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}: ${base}/batches/${w.batchPublicId}?v=${w.version}`),
     "",
     `Decided this week: ${d.accepted} accepted, ${d.bounced.length} bounced`,
     ...d.bounced.map((b) => `  - bounced: ${b.study} · ${b.organisation} · ${b.title} (version ${b.version})`),
     "",
     "Pools against their df targets:",
-    ...d.pools.map((p) => `  - ${p.title} ${POOL_WORDS[p.change]}: residual df ${p.before} → ${p.after}, target ${p.target}. ${base}/pool/${p.slug}`),
+    ...d.pools.map((p) => `  - ${p.title} ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}. ${base}/pool/${p.slug}`),
     "",
     `The board: ${base}/board`,
   ];
@@ -102,11 +103,11 @@ export function composeDigest(d: DigestData, appUrl = env().APP_URL): { subject:
   const html = [
     `<p>Intake from ${day(d.from)} to ${day(d.to)}.</p>`,
     `<h2>Waiting for a decision: ${d.waiting.length}</h2>`,
-    li(d.waiting.map((w) => `<a href="${esc(`${base}/batches/${w.batchPublicId}?v=${w.version}`)}">${esc(w.study)} · ${esc(w.organisation)} · ${esc(w.title)}</a> (version ${w.version}), waiting ${days(w.since, d.to)} days`)),
+    li(d.waiting.map((w) => `<a href="${esc(`${base}/batches/${w.batchPublicId}?v=${w.version}`)}">${esc(w.study)} · ${esc(w.organisation)} · ${esc(w.title)}</a> (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}`)),
     `<h2>Decided this week: ${d.accepted} accepted, ${d.bounced.length} bounced</h2>`,
     li(d.bounced.map((b) => `bounced: ${esc(b.study)} · ${esc(b.organisation)} · ${esc(b.title)} (version ${b.version})`)),
     `<h2>Pools against their df targets</h2>`,
-    li(d.pools.map((p) => `<a href="${esc(`${base}/pool/${p.slug}`)}">${esc(p.title)}</a> ${POOL_WORDS[p.change]}: residual df ${p.before} → ${p.after}, target ${p.target}`)),
+    li(d.pools.map((p) => `<a href="${esc(`${base}/pool/${p.slug}`)}">${esc(p.title)}</a> ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}`)),
     `<p><a href="${esc(`${base}/board`)}">Open the board</a></p>`,
   ].join("\n");
   return { subject, text: lines.join("\n") + "\n", html };

@@ -12,6 +12,7 @@ import { HOUR_MS, quantile, weekStart } from "./board-stats";
 import { providerStats, silentProviders, type ProviderStats, type SilentProvider } from "./queries-providers";
 
 export { providerStats, silentProviders, type ProviderStats, type SilentProvider };
+import { headroomByWeek, type HeadroomWeek } from "./headroom-history";
 
 export type BoardBatch = {
   studySlug: string;
@@ -80,10 +81,15 @@ export async function turnaroundByWeek(db: Db, opts: { weeks?: number; now?: Dat
   };
 }
 
-export type PoolHeadroom = PoolFigures & { studySlug: string; studyTitle: string; error?: string };
+export type PoolHeadroom = PoolFigures & { studySlug: string; studyTitle: string; error?: string; history: HeadroomWeek[] };
 
-/** Each study's pool against its df target (studies without a valid plan say why). */
-export async function poolHeadrooms(db: Db): Promise<PoolHeadroom[]> {
+/**
+ * Each study's pool against its df target (studies without a valid plan say why), with its
+ * residual df at the end of each of the last `weeks` weeks.
+ */
+export async function poolHeadrooms(db: Db, opts: { weeks?: number; now?: Date } = {}): Promise<PoolHeadroom[]> {
+  const weeks = opts.weeks ?? 12;
+  const now = opts.now ?? new Date();
   const list = await db
     .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
     .from(studies)
@@ -91,9 +97,12 @@ export async function poolHeadrooms(db: Db): Promise<PoolHeadroom[]> {
   const out: PoolHeadroom[] = [];
   for (const s of list) {
     try {
-      out.push({ studySlug: s.slug, studyTitle: s.title, ...poolFigures(await getStudyPool(db, s)) });
+      const pool = await getStudyPool(db, s);
+      const fitted = pool.report.model.parameters + (pool.plan.intercept ? 1 : 0);
+      const history = await headroomByWeek(db, s.id, fitted, { weeks, now });
+      out.push({ studySlug: s.slug, studyTitle: s.title, ...poolFigures(pool), history });
     } catch (e) {
-      out.push({ studySlug: s.slug, studyTitle: s.title, batches: 0, rows: 0, completeCases: 0, parameters: 0, residualDf: 0, dfTarget: 0, headroom: 0, error: e instanceof Error ? e.message : "The pool could not be computed." });
+      out.push({ studySlug: s.slug, studyTitle: s.title, batches: 0, rows: 0, completeCases: 0, parameters: 0, residualDf: 0, dfTarget: 0, headroom: 0, history: [], error: e instanceof Error ? e.message : "The pool could not be computed." });
     }
   }
   return out;
@@ -155,7 +164,7 @@ export async function getBoard(db: Db, now = new Date(), weeks = 12): Promise<Bo
     turnaroundByWeek(db, { weeks, now }),
     providerStats(db),
     silentProviders(db),
-    poolHeadrooms(db),
+    poolHeadrooms(db, { weeks, now }),
     intakeFlow(db, flowSince, now),
     db.select({ n: sql<number>`count(*)` }).from(batchVersions).where(and(gte(batchVersions.uploadedAt, flowSince), lte(batchVersions.uploadedAt, now))),
   ]);

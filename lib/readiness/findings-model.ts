@@ -2,6 +2,7 @@
  * Findings about the planned model on the complete cases: collinearity and the sample-size /
  * degrees-of-freedom rules of lib/readiness/CHECKS.md.
  */
+import { countOf, detectableR2, formatNumber } from "./format-number";
 import type { Design } from "./design";
 import { finding, list, quote } from "./findings";
 import type { Plan, Thresholds } from "./plan";
@@ -169,7 +170,7 @@ export function dfFindings(
   const pw = fit?.power;
   if (pw && pw.detectableR2 !== null) {
     out.push(
-      finding("df.power", "note", [], `With ${n} complete rows and ${p} parameters, the overall F test detects R² ≥ ${pw.detectableR2.toFixed(3)} with power ${pw.power} at α = ${pw.alpha}.`, "A smaller true R² would likely go unnoticed; more complete rows lower this threshold.", {
+      finding("df.power", "note", [], `With ${countOf(n, "complete row")} and ${countOf(p, "parameter")}, the overall F test detects ${detectableR2(pw.detectableR2)} with power ${formatNumber(pw.power, "estimate")} at α = ${formatNumber(pw.alpha, "estimate")}.`, "A smaller true R² would likely go unnoticed; more complete rows lower this threshold.", {
         detail: { ...pw, n, p },
       }),
     );

@@ -39,7 +39,7 @@ test("a provider sees the faults before upload, then the report with the variant
   await expect(batch.precheck).toContainText("collinear.exact");
   batchId = await batch.upload();
   await batch.waitForReport();
-  await expect(batch.verdict).toContainText("Not ready");
+  await expect(batch.verdict).toContainText("Needs fixes");
   await expect(batch.findings).toContainText("level.variant");
   await expect(batch.findings).toContainText("total_water_mm = irrigation_mm + rainfall_mm");
   await page.context().close();

@@ -127,8 +127,8 @@ test("semicolons with decimal commas: reported before upload and in the report, 
   await expect(batch.precheck).toContainText("number.decimal-comma", { timeout: 30_000 });
   await batch.upload();
   await batch.waitForReport();
-  await expect(batch.verdict).toContainText("Not ready");
-  await expect(page.getByRole("main")).toContainText("Ready for review");
+  await expect(batch.verdict).toContainText("Needs fixes");
+  await expect(page.getByRole("main")).toContainText("Awaiting review");
   await expect(batch.findings).toContainText("decimal comma");
   await serverStaysUp(page);
   await page.context().close();

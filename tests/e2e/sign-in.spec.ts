@@ -31,7 +31,7 @@ test.describe("each role lands on its own home, with its own data", () => {
     const studies = portal.section("Assigned studies");
     await expect(studies).toContainText("Spring barley nitrogen response");
     await expect(studies).not.toContainText("Heat-pump retrofit savings");
-    await expect(portal.section("Ready for review")).toBeVisible();
+    await expect(portal.section("Awaiting review")).toBeVisible();
     expect(watch.problems).toEqual([]);
   });
 

@@ -23,15 +23,15 @@ export default async function AnalystHome() {
       />
       <KeyFigures
         items={[
-          { id: "ready", label: "Ready for review", value: home.readyForReview },
+          { id: "ready", label: "Awaiting review", value: home.readyForReview },
           { id: "studies", label: "Assigned studies", value: home.studies.length },
           { id: "accepted", label: "Accepted", value: sum("accepted") },
           { id: "bounced", label: "Bounced", value: sum("bounced") },
         ]}
       />
-      <Section id="queue" title="Ready for review" note="Oldest first is usually fairest: sort by “State since”.">
+      <Section id="queue" title="Awaiting review" note="Oldest first is usually fairest: sort by “State since”.">
         <BatchTable
-          caption="Batches ready for review"
+          caption="Batches awaiting review"
           rows={toBatchRows(home.queue)}
           showProvider
           emptyTitle="Nothing waits for review"

@@ -5,6 +5,7 @@ import { StateLedger } from "@/components/state-ledger";
 import { BoardBatchesTable } from "@/components/board/batches-table";
 import { DigestButton } from "@/components/board/digest-button";
 import { formatHours } from "@/components/board/format";
+import { HeadroomChart } from "@/components/board/headroom-chart";
 import { IntakeFlow } from "@/components/board/intake-flow";
 import { PoolHeadroom } from "@/components/board/pool-headroom";
 import { ProviderChart } from "@/components/board/provider-chart";
@@ -44,6 +45,14 @@ export default async function BoardPage() {
 
       <Section title="Pools against their targets" id="pools" note="Residual df of each study's accepted data against the df target of its plan. Open a study for its pool.">
         <PoolHeadroom rows={board.pools} />
+      </Section>
+
+      <Section
+        title="Headroom by week"
+        id="headroom"
+        note={`Each pool's residual df at the end of each of the last ${WEEKS} weeks, under the current plan, against its df target (dashed).`}
+      >
+        <HeadroomChart series={board.pools.filter((p) => !p.error).map((p) => ({ studySlug: p.studySlug, studyTitle: p.studyTitle, dfTarget: p.dfTarget, history: p.history }))} />
       </Section>
 
       <Section title="Batches by state" id="by-state" note="The newest version of every batch. Time in state counts from the last change of state.">

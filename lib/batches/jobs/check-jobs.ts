@@ -17,6 +17,7 @@ import { enqueuePoolQuestions } from "@/lib/pool";
 import { batchVersions, batches, checkJobs, dataPlans, reports, type JOB_KINDS } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness";
 import { msFromEnv } from "@/lib/env";
+import { now as clockNow } from "@/lib/core/clock";
 
 export const MAX_ATTEMPTS = 3;
 
@@ -61,14 +62,14 @@ export function afterFailure(attempt: number, error: unknown) {
   return {
     status: final ? ("failed" as const) : ("queued" as const),
     lastError: message.slice(0, 4000),
-    runAfter: new Date(Date.now() + backoffMs),
-    finishedAt: final ? new Date() : null,
+    runAfter: new Date(clockNow().getTime() + backoffMs),
+    finishedAt: final ? clockNow() : null,
     lockedBy: null,
   };
 }
 
 /** Claim the oldest runnable job, or return null when there is none. */
-export async function claimJob(db: Db, workerId: string, now = new Date()): Promise<ClaimedJob | null> {
+export async function claimJob(db: Db, workerId: string, now = clockNow()): Promise<ClaimedJob | null> {
   return db.transaction(async (tx) => {
     const [job] = await tx
       .select({ id: checkJobs.id, attempts: checkJobs.attempts, batchVersionId: checkJobs.batchVersionId })
@@ -144,7 +145,7 @@ function ours(job: ClaimedJob) {
  * this worker's (it was taken over as stale, or finished by another worker).
  */
 export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: number; bytes: number }): Promise<boolean> {
-  const now = new Date();
+  const now = clockNow();
   const [res] = await db.update(checkJobs).set({ heartbeatAt: now }).where(ours(job));
   if (res.affectedRows === 0) return false;
   await db
@@ -161,7 +162,7 @@ export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: numbe
  * that took the job over finished first) nothing is written and false is returned.
  */
 export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessReport): Promise<boolean> {
-  const now = new Date();
+  const now = clockNow();
   return db.transaction(async (tx) => {
     const [jobRow] = await tx.select({ status: checkJobs.status }).from(checkJobs).where(eq(checkJobs.id, job.jobId)).for("update");
     if (!jobRow || jobRow.status === "done") return false;
@@ -232,12 +233,12 @@ export async function releaseJob(db: Db, job: ClaimedJob): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [res] = await tx
       .update(checkJobs)
-      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: new Date() })
+      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: clockNow() })
       .where(ours(job));
     if (res.affectedRows === 0) return false;
     await tx
       .update(batchVersions)
-      .set({ state: "received", stateChangedAt: new Date(), progressRows: 0, progressBytes: 0 })
+      .set({ state: "received", stateChangedAt: clockNow(), progressRows: 0, progressBytes: 0 })
       .where(and(eq(batchVersions.id, job.batchVersionId), eq(batchVersions.state, "checking")));
     return true;
   });

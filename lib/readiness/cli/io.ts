@@ -1,4 +1,5 @@
 /** The command's inputs: files or standard input, the plan file, one batch checked. */
+import { countOf, formatNumber } from "../format-number";
 import { createReadStream, readFileSync, statSync } from "node:fs";
 import { checkBatch } from "../check";
 import { checkFile } from "../node";
@@ -45,8 +46,8 @@ export function progressOf(input: Input): {
       if (t - last < 500) return;
       last = t;
       shown = true;
-      const share = input.size ? `, ${((100 * p.bytes) / input.size).toFixed(0)} %` : "";
-      process.stderr.write(`\r  ${input.label}: read ${p.rows.toLocaleString("en")} rows${share}   `);
+      const share = input.size ? `, ${formatNumber(p.bytes / input.size, "percent")}` : "";
+      process.stderr.write(`\r  ${input.label}: read ${countOf(p.rows, "row")}${share}   `);
     },
     done: () => (shown ? void process.stderr.write("\n") : undefined),
   };

@@ -4,6 +4,7 @@
  * (poolReport) and its questions (poolQuestions: poolability by Chow tests, batch influence,
  * the overall F test, the selection preview). The files count as one provider.
  */
+import { countOf, formatNumber } from "../format-number";
 import { poolReport } from "../pool";
 import { poolQuestions, type PoolMember, type PoolQuestions } from "../pooling";
 import type { Plan } from "../plan";
@@ -71,14 +72,14 @@ export function poolJson(o: PoolOutput): Record<string, unknown> {
   return { ...(o.questions ?? {}), files: o.files, pool: o.pool, message: o.message };
 }
 
-const p = (x: number | null) => (x === null ? "–" : x < 1e-4 ? x.toExponential(1) : x.toPrecision(2));
+const p = (x: number | null) => formatNumber(x, "pvalue");
 
 export function poolSummary(o: PoolOutput): string {
   const lines: string[] = [];
   for (const f of o.files) {
     const c = f.report.counts;
     lines.push(
-      `${f.file}: ${f.report.status === "unreadable" ? "UNREADABLE" : `${f.report.rows.total.toLocaleString("en")} rows`}, ${c.blocker} blockers, ${c.warning} warnings, ${c.note} notes`,
+      `${f.file}: ${f.report.status === "unreadable" ? "UNREADABLE" : `${countOf(f.report.rows.total, "row")}`}, ${countOf(c.blocker, "blocker")}, ${countOf(c.warning, "warning")}, ${countOf(c.note, "note")}`,
     );
   }
   if (o.message) lines.push("", o.message);
@@ -88,16 +89,16 @@ export function poolSummary(o: PoolOutput): string {
     lines.push("", "Pool questions");
     if (q.overall)
       lines.push(
-        `  overall F ${q.overall.F.toPrecision(6)} on (${q.overall.df1}, ${q.overall.df2}) df, p ${p(q.overall.p)}: ${q.overall.words}`,
+        `  overall F ${formatNumber(q.overall.F, "statistic")} on (${q.overall.df1}, ${q.overall.df2}) df, p ${p(q.overall.p)}: ${q.overall.words}`,
       );
     if (q.poolability.whole) lines.push(`  poolability: ${q.poolability.whole.words}`);
     for (const b of q.poolability.batches)
       lines.push(
-        `    ${b.label}: ${b.kind === "chow" ? "Chow" : "predictive Chow"} F ${b.F === null ? "–" : b.F.toPrecision(4)}, p ${p(b.p)}`,
+        `    ${b.label}: ${b.kind === "chow" ? "Chow" : "predictive Chow"} F ${formatNumber(b.F, "statistic")}, p ${p(b.p)}`,
       );
     const heavy = q.influence.batches.filter((b) => b.influential);
     lines.push(
-      `  influence: ${heavy.length ? heavy.map((b) => `${b.label} moves ${b.largest?.column} by ${b.largest?.shift.toFixed(2)} SE`).join("; ") : `no file moves a coefficient by more than ${q.influence.threshold} SE`}`,
+      `  influence: ${heavy.length ? heavy.map((b) => `${b.label} moves ${b.largest?.column} by ${formatNumber(b.largest?.shift ?? null, "estimate")} SE`).join("; ") : `no file moves a coefficient by more than ${q.influence.threshold} SE`}`,
     );
     if (q.selection)
       for (const pick of q.selection.picks)

@@ -1,12 +1,6 @@
 /** The readable summary of a report, as the command prints it without --json. */
+import { countOf, formatNumber, pEquals } from "../format-number";
 import type { ReadinessReport } from "../report";
-
-function fmtNum(x: number | null | undefined, digits = 4): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return "–";
-  return Math.abs(x) >= 1e5 || (Math.abs(x) < 1e-3 && x !== 0)
-    ? x.toExponential(digits - 1)
-    : x.toPrecision(digits);
-}
 
 export function summary(r: ReadinessReport, file: string): string {
   const lines: string[] = [];
@@ -16,19 +10,19 @@ export function summary(r: ReadinessReport, file: string): string {
     lines.push("  status: UNREADABLE");
   } else {
     lines.push(
-      `  rows: ${r.rows.total.toLocaleString("en")} (complete for the model: ${r.rows.complete.toLocaleString("en")})`,
+      `  rows: ${formatNumber(r.rows.total, "count")} (complete for the model: ${formatNumber(r.rows.complete, "count")})`,
     );
     lines.push(
-      `  model: ${r.model.parameters} parameters, residual df ${r.model.residualDf} (target ${r.model.dfTarget})${r.model.perParameter !== null ? `, ${r.model.perParameter.toFixed(1)} rows per parameter` : ""}`,
+      `  model: ${countOf(r.model.parameters, "parameter")}, residual df ${formatNumber(r.model.residualDf, "count")} (target ${formatNumber(r.model.dfTarget, "count")})${r.model.perParameter !== null ? `, ${formatNumber(r.model.perParameter, "estimate")} rows per parameter` : ""}`,
     );
     if (r.fit) {
       lines.push(
-        `  fit preview: R² ${fmtNum(r.fit.rSquared)}, adjusted ${fmtNum(r.fit.adjRSquared)}, F ${fmtNum(r.fit.F, 6)} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${r.fit.pValue === 0 ? "< 1e-300" : fmtNum(r.fit.pValue, 3)}`,
+        `  fit preview: R² ${formatNumber(r.fit.rSquared, "estimate")}, adjusted ${formatNumber(r.fit.adjRSquared, "estimate")}, F ${formatNumber(r.fit.F, "statistic")} on (${r.fit.dfModel}, ${r.fit.dfResidual}) df, p ${pEquals(r.fit.pValue)}`,
       );
     }
   }
   lines.push(
-    `  findings: ${c.blocker} blocker${c.blocker === 1 ? "" : "s"}, ${c.warning} warning${c.warning === 1 ? "" : "s"}, ${c.note} note${c.note === 1 ? "" : "s"}`,
+    `  findings: ${countOf(c.blocker, "blocker")}, ${countOf(c.warning, "warning")}, ${countOf(c.note, "note")}`,
   );
   for (const f of r.findings) {
     lines.push("");
@@ -38,10 +32,10 @@ export function summary(r: ReadinessReport, file: string): string {
     lines.push(`  ${f.message}`);
     if (f.rows.length)
       lines.push(
-        `  rows: ${f.rows.join(", ")}${f.rowCount && f.rowCount > f.rows.length ? ` … (${f.rowCount.toLocaleString("en")} in all)` : ""}`,
+        `  rows: ${f.rows.join(", ")}${f.rowCount && f.rowCount > f.rows.length ? ` … (${formatNumber(f.rowCount, "count")} in all)` : ""}`,
       );
     lines.push(`  fix: ${f.fix}`);
   }
-  if (r.timings) lines.push("", `checked in ${(r.timings.ms / 1000).toFixed(2)} s`);
+  if (r.timings) lines.push("", `checked in ${formatNumber(r.timings.ms / 1000, "estimate")} s`);
   return lines.join("\n");
 }

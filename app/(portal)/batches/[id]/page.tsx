@@ -104,7 +104,7 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
               aria-current={bv.version === version.version ? "page" : undefined}
               className={`rounded border px-2 py-1 ${bv.version === version.version ? "border-channel bg-shallows font-semibold" : "border-silt-line bg-white hover:bg-channel-wash"}`}
             >
-              v{bv.version} · {bv.state === "ready" ? "ready for review" : bv.state}
+              v{bv.version} · {bv.state === "ready" ? "awaiting review" : bv.state}
             </Link>
           ))}
         </nav>

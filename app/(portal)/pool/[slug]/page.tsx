@@ -9,7 +9,7 @@ import { PoolFigures } from "@/components/pool/pool-figures";
 import { PoolQuestionsSections } from "@/components/pool/pool-questions";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { formatCount, formatDecimal } from "@/lib/format";
+import { formatCount, formatNumber } from "@/lib/format";
 import { getPoolForUser } from "@/lib/pool/queries";
 import { getPoolQuestionsForUser } from "@/lib/pool/questions-access";
 import { thresholdsOf } from "@/lib/readiness";
@@ -60,7 +60,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
         </p>
         <p className="mt-1 text-sm tabular-nums">
           n = {formatCount(r.rows.complete)} complete of {formatCount(r.rows.total)} rows · p = {r.model.parameters} ·{" "}
-          {r.model.perParameter === null ? "–" : formatDecimal(r.model.perParameter, 1)} complete cases per parameter (plan asks {t.perParameter})
+          {formatNumber(r.model.perParameter, "estimate")} complete cases per parameter (plan asks {t.perParameter})
         </p>
       </div>
 
@@ -99,7 +99,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
           </Section>
 
           <Section title="Columns" id="columns">
-            <ColumnsTable columns={r.columns} csvName={`${pool.slug}-pool-columns`} />
+            <ColumnsTable columns={r.columns} findings={r.findings} csvName={`${pool.slug}-pool-columns`} />
           </Section>
 
           <Section title="Collinearity" id="collinearity" note="On the pool's complete cases. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992).">
@@ -122,8 +122,8 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             {r.fit ? (
               <div className="grid gap-3">
                 <p className="text-sm tabular-nums">
-                  R² = {formatDecimal(r.fit.rSquared, 4)} · adjusted R² = {formatDecimal(r.fit.adjRSquared, 4)} · residual standard error{" "}
-                  {formatDecimal(r.fit.residualStdError, 4)} on {r.fit.dfResidual} df · F = {r.fit.F === null ? "–" : formatDecimal(r.fit.F, 3)} on ({r.fit.dfModel},{" "}
+                  R² = {formatNumber(r.fit.rSquared, "estimate")} · adjusted R² = {formatNumber(r.fit.adjRSquared, "estimate")} · residual standard error{" "}
+                  {formatNumber(r.fit.residualStdError, "estimate")} on {r.fit.dfResidual} df · F = {formatNumber(r.fit.F, "statistic")} on ({r.fit.dfModel},{" "}
                   {r.fit.dfResidual}) df
                 </p>
                 <CoefficientsTable coefficients={r.fit.coefficients} csvName={`${pool.slug}-pool-coefficients`} />

@@ -1,0 +1,52 @@
+/** A numeric column's five numbers as a small box plot (min, quartiles, median, max from the report) and as text. */
+import { formatNumber } from "@/lib/format";
+import type { ColumnReport } from "@/lib/readiness";
+
+type Summary = NonNullable<ColumnReport["summary"]>;
+
+const W = 120;
+const H = 14;
+
+/** Whiskers from min to max, the box from the lower to the upper quartile, a bar at the median. */
+export function BoxPlot({ s }: { s: Summary }) {
+  const span = s.max - s.min;
+  const x = (v: number) => (span > 0 ? ((v - s.min) / span) * (W - 2) + 1 : W / 2);
+  const label = `min ${formatNumber(s.min, "measure")}, lower quartile ${formatNumber(s.q1, "measure")}, median ${formatNumber(s.median, "measure")}, upper quartile ${formatNumber(s.q3, "measure")}, max ${formatNumber(s.max, "measure")}`;
+  return (
+    <svg viewBox={`0 0 ${W} ${H}`} width={W} height={H} role="img" aria-label={label} className="shrink-0">
+      <title>{label}</title>
+      <line x1={x(s.min)} x2={x(s.max)} y1={H / 2} y2={H / 2} stroke="#6B6354" strokeWidth="1" />
+      <line x1={x(s.min)} x2={x(s.min)} y1={3} y2={H - 3} stroke="#6B6354" strokeWidth="1" />
+      <line x1={x(s.max)} x2={x(s.max)} y1={3} y2={H - 3} stroke="#6B6354" strokeWidth="1" />
+      <rect
+        x={x(s.q1)}
+        y={2}
+        width={Math.max(1, x(s.q3) - x(s.q1))}
+        height={H - 4}
+        fill="#D8E6E7"
+        stroke="#1F6F78"
+        strokeWidth="1"
+      />
+      <line x1={x(s.median)} x2={x(s.median)} y1={1} y2={H - 1} stroke="#12262E" strokeWidth="2" />
+    </svg>
+  );
+}
+
+/** The box plot beside min · q1 · median · q3 · max, with the mean and sd. */
+export function SummaryText({ s }: { s: Summary }) {
+  const m = (v: number) => formatNumber(v, "measure");
+  return (
+    <span className="flex flex-wrap items-center gap-2 text-xs tabular-nums">
+      <BoxPlot s={s} />
+      <span>
+        {m(s.min)} · <span title="lower quartile">{m(s.q1)}</span> ·{" "}
+        <strong title="median">{m(s.median)}</strong> · <span title="upper quartile">{m(s.q3)}</span> ·{" "}
+        {m(s.max)}
+        <span className="text-silt-ink">
+          {" "}
+          (mean {formatNumber(s.mean, "estimate")}, sd {formatNumber(s.sd, "estimate")})
+        </span>
+      </span>
+    </span>
+  );
+}
