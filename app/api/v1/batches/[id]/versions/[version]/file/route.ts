@@ -2,7 +2,7 @@
 import { apiRoute } from "@/lib/http/route";
 import { parseParams } from "@/lib/http/parse";
 import { batchVersionParams } from "@/lib/http/params";
-import { getVersionFileKeyForUser } from "@/lib/batches/queries-reports";
+import { requireVersionFileForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
 import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
 import { openStoredFile, StoredFileMissingError } from "@/lib/batches/intake/file-store";
@@ -17,9 +17,7 @@ export const GET = apiRoute<{ id: string; version: string }>(
   { action: "batch.read" },
   async ({ actor, params }) => {
     const { id, version } = parseParams(params, batchVersionParams);
-    const got = await getVersionFileKeyForUser(actor, id, version);
-    if (!got) throw new AppError("not_found", "No batch version with this id is visible to you.");
-    const { found, fileKey } = got;
+    const { found, fileKey } = await requireVersionFileForUser(actor, id, version);
     let body: ReadableStream<Uint8Array>;
     try {
       body = await openStoredFile(fileKey);
