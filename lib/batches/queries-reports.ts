@@ -1,9 +1,9 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
+import { AppError } from "@/lib/errors";
 import { getDb } from "@/db/client";
 import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
-import { AppError } from "@/lib/errors";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./queries";
 
