@@ -46,6 +46,16 @@ function attempt(members: PoolMember[], plan: Plan, candidate?: PoolMember): Out
   }
 }
 
+/**
+ * "If accepted" shows the version's poolability and influence, not a selection preview: the
+ * plan without its selection keeps a whole-study job with many versions under review cheap.
+ */
+export function withoutSelection(plan: Plan): Plan {
+  const { selection: _selection, ...rest } = plan;
+  void _selection;
+  return rest;
+}
+
 export type StudyQuestions = {
   studyId: number;
   planVersion: number;
@@ -107,7 +117,7 @@ export async function computeStudyQuestions(
     pool: only === null ? attempt(members, plan) : null,
     candidates: ready.map((l) => ({
       batchVersionId: l.member.batchVersionId,
-      outcome: attempt(members, plan, memberOf(l)),
+      outcome: attempt(members, withoutSelection(plan), memberOf(l)),
     })),
   };
 }

@@ -125,7 +125,8 @@ async function reference(candidateVersionId?: number): Promise<PoolQuestions> {
     groupLabel: org!.name,
     state: rep!.state as PoolMember["state"],
   };
-  return poolQuestions(members, plan, { candidate });
+  // "if accepted" is computed without the selection preview (lib/pool/questions-compute.ts)
+  return poolQuestions(members, { ...plan, selection: undefined }, { candidate });
 }
 
 async function orgId(slug: string) {
