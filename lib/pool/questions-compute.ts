@@ -165,7 +165,7 @@ export async function storeStudyQuestions(
         result: c.outcome.result,
         error: c.outcome.error,
       });
-    if (job.batchVersionId === null) {
+    if (job.candidateVersionId === null) {
       const kept = q.candidates.map((c) => c.batchVersionId);
       await tx
         .delete(ifAcceptedQuestions)

@@ -12,10 +12,10 @@ export const POOL_QUESTIONS_JOB = "pool_questions" as const;
 const ofKind = eq(checkJobs.kind, POOL_QUESTIONS_JOB);
 
 /** Jobs whose work includes the given version's (a whole-study job includes every version's). */
-const covering = (batchVersionId: number | null) =>
-  batchVersionId === null
-    ? isNull(checkJobs.batchVersionId)
-    : or(isNull(checkJobs.batchVersionId), eq(checkJobs.batchVersionId, batchVersionId));
+const covering = (candidateVersionId: number | null) =>
+  candidateVersionId === null
+    ? isNull(checkJobs.candidateVersionId)
+    : or(isNull(checkJobs.candidateVersionId), eq(checkJobs.candidateVersionId, candidateVersionId));
 
 /**
  * Queue the pool questions of a study (no version: the pool and every version under review),
@@ -25,7 +25,7 @@ const covering = (batchVersionId: number | null) =>
 export async function enqueuePoolQuestions(
   tx: DbOrTx,
   studyId: number,
-  batchVersionId: number | null = null,
+  candidateVersionId: number | null = null,
 ): Promise<void> {
   const [waiting] = await tx
     .select({ id: checkJobs.id })
@@ -36,14 +36,14 @@ export async function enqueuePoolQuestions(
         eq(checkJobs.studyId, studyId),
         eq(checkJobs.status, "queued"),
         eq(checkJobs.attempts, 0),
-        covering(batchVersionId),
+        covering(candidateVersionId),
       ),
     )
     .limit(1)
     // a locking read: a job a worker has just claimed (and may be computing from the old pool) does not count
     .for("update", { skipLocked: true });
   if (waiting) return;
-  await tx.insert(checkJobs).values({ kind: POOL_QUESTIONS_JOB, studyId, batchVersionId });
+  await tx.insert(checkJobs).values({ kind: POOL_QUESTIONS_JOB, studyId, candidateVersionId });
 }
 
 /**
@@ -55,7 +55,7 @@ export async function pendingPoolQuestions(
   db: DbOrTx,
   studyId: number,
   afterJobId: number,
-  batchVersionId: number | null = null,
+  candidateVersionId: number | null = null,
 ): Promise<boolean> {
   const [row] = await db
     .select({ id: checkJobs.id })
@@ -66,7 +66,7 @@ export async function pendingPoolQuestions(
         eq(checkJobs.studyId, studyId),
         inArray(checkJobs.status, ["queued", "running"]),
         gt(checkJobs.id, afterJobId),
-        covering(batchVersionId),
+        covering(candidateVersionId),
       ),
     )
     .orderBy(desc(checkJobs.id))
