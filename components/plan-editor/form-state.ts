@@ -36,8 +36,8 @@ export type PlanDraft = {
   selectionPlanned: boolean;
   /** a count of candidate parameters, or candidate term names separated by commas */
   selectionCandidates: string;
-  /** terms forced into every model of the selection (kept as the plan has them) */
-  selectionRequired: string[];
+  /** terms forced into every model of the selection, kept as the plan has them (null: none listed) */
+  selectionRequired: string[] | null;
 };
 
 let counter = 0;
@@ -85,7 +85,7 @@ export function draftFromPlan(input: PlanInput | null | undefined, keyPrefix = "
     outcomeSd: numText(p.outcome?.sd),
     selectionPlanned: p.selection !== undefined,
     selectionCandidates: Array.isArray(p.selection?.candidates) ? p.selection.candidates.join(", ") : numText(p.selection?.candidates),
-    selectionRequired: [...(p.selection?.required ?? [])],
+    selectionRequired: p.selection?.required ? [...p.selection.required] : null,
   };
 }
 
@@ -149,7 +149,7 @@ export function planFromDraft(d: PlanDraft): { plan: PlanInput; errors: Record<s
   if (d.selectionPlanned) {
     const text = d.selectionCandidates.trim();
     const names = text.split(",").map((t) => t.trim()).filter((t) => t !== "");
-    const required = d.selectionRequired.length ? { required: d.selectionRequired } : {};
+    const required = d.selectionRequired ? { required: d.selectionRequired } : {};
     if (text !== "" && !/^[\d\s.,]+$/.test(text)) plan.selection = { candidates: names, ...required };
     else {
       const n = num(text, "selection.candidates", errors, "The candidate count");

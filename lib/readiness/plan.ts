@@ -120,7 +120,7 @@ export const planSchema = z
     selection: z
       .object({
         candidates: z.union([z.number().int().min(1), z.array(name).min(1, "name at least one candidate term")]),
-        required: z.array(name).default([]),
+        required: z.array(name).optional(),
       })
       .optional(),
     thresholds: thresholdsSchema.default({}),
@@ -186,13 +186,13 @@ export const planSchema = z
 
 /** Every selection term must be a planned predictor or interaction, named once, in one list. */
 function selectionIssues(
-  plan: { interactions: [string, string][]; selection?: { candidates: number | string[]; required: string[] } },
+  plan: { interactions: [string, string][]; selection?: { candidates: number | string[]; required?: string[] } },
   predictors: Set<string>,
 ): { path: (string | number)[]; message: string }[] {
   const out: { path: (string | number)[]; message: string }[] = [];
   const terms = new Set([...predictors, ...plan.interactions.map(([a, b]) => `${a}:${b}`)]);
   const seen = new Map<string, string>();
-  const lists: ["candidates" | "required", string[]][] = [["required", plan.selection!.required]];
+  const lists: ["candidates" | "required", string[]][] = [["required", plan.selection!.required ?? []]];
   if (Array.isArray(plan.selection!.candidates)) lists.unshift(["candidates", plan.selection!.candidates]);
   for (const [key, names] of lists) {
     names.forEach((t, i) => {

@@ -3,6 +3,7 @@
 #   leaps: best subset of each size by leaps::regsubsets (exhaustive; numeric candidates), with
 #          summary()'s rss, cp, bic, adjr2; and leave-one-batch-out CV, each fold re-selected by
 #          regsubsets, fitted by lm and predicted by predict.lm; the BIC-chosen model per fold.
+#   paths: the step() paths only (more candidates than an exhaustive search can take).
 #   loop:  best subset of each size by an exhaustive loop of lm fits over term subsets
 #          (categorical terms enter whole), with extractAIC (k = 2 and log n) and summary.lm's adjusted R².
 # Both: step() forward and backward with k = 2 and k = log(n) over the same scope.

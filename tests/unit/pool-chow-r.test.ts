@@ -157,6 +157,30 @@ describe.skipIf(!R.ok).each(CASES)("poolability against R: $name", (c) => {
     }
   });
 
+  it("flags pool.not-poolable where R's p < 0.05 and pool.influential-batch where R's largest shift ≥ 1 SE [common practice]", () => {
+    const notPoolable = q.findings.filter((f) => f.code === "pool.not-poolable").map((f) => f.detail!.id);
+    const expected = [
+      ...q.poolability.batches.filter(
+        (b) => one((b.kind === "predictive" ? r.batches[b.id]!.predictive! : r.batches[b.id]!.chow).p) < 0.05,
+      ),
+      ...q.poolability.providers.filter(
+        (p) =>
+          one((p.kind === "predictive" ? r.providers[p.id]!.predictive! : r.providers[p.id]!.chow).p) < 0.05,
+      ),
+      ...(q.poolability.candidate && one(r.candidate!.chow.p) < 0.05 ? [q.poolability.candidate] : []),
+    ].map((b) => b.id);
+    expect(notPoolable).toEqual(expected);
+    expect(expected.length).toBeGreaterThan(0);
+    const influential = q.findings
+      .filter((f) => f.code === "pool.influential-batch")
+      .map((f) => f.detail!.id);
+    const big = Object.entries(r.batches)
+      .filter(([, b]) => Math.max(...b.shift) >= 1)
+      .map(([id]) => id);
+    if (r.candidate && Math.max(...r.candidate.shift) >= 1) big.push(q.poolability.candidate!.id);
+    expect([...influential].sort()).toEqual(big.sort());
+  });
+
   it.runIf(c.candidate !== undefined)(
     "the candidate's Chow test and influence ('if accepted') equal R's",
     () => {

@@ -57,7 +57,8 @@ function selectionOf(spec: PoolSpec) {
     const pool = await makePool(spec);
     sel = poolQuestions(pool.members, pool.plan).selection!;
     const s = spec.selection!;
-    const mode = (spec.factors ?? []).length ? "loop" : "leaps";
+    const mode =
+      (s.candidates as string[]).length > 25 ? "paths" : (spec.factors ?? []).length ? "loop" : "leaps";
     const file = writePoolCsv(pool, tempDir());
     r = runRJson<ROut>(
       "pool-select.R",
@@ -175,3 +176,24 @@ describe.skipIf(!R.ok)(
     pathChecks(() => ({ sel: g.sel(), r: g.r() }));
   },
 );
+
+describe.skipIf(!R.ok)("above 25 candidate terms: no exhaustive search, the paths against step()", () => {
+  const m = 27;
+  const spec: PoolSpec = {
+    numeric: m,
+    sizes: [60, 70, 55],
+    seed: 51,
+    beta: Array.from({ length: m }, (_, i) => (i < 5 ? 1 - 0.15 * i : 0)),
+    selection: { candidates: Array.from({ length: m }, (_, i) => `x${i + 1}`) },
+  };
+  const g = selectionOf(spec);
+
+  it("says why (2^m subsets) and gives the forward path's models by size", () => {
+    const sel = g.sel();
+    expect(sel.exhaustive).toBe(false);
+    expect(sel.why).toMatch(/2\^27 ≈ 1\.3e\+8 subsets: an exhaustive search is out of reach/);
+    expect(sel.bySize.map((b) => b.terms)).toEqual(sel.forward.aic.steps.map((s) => s.terms));
+  });
+
+  pathChecks(() => ({ sel: g.sel(), r: g.r() }));
+});

@@ -6,7 +6,7 @@ import type { ChowRow, InfluenceRow, PoolQuestions } from "./types";
 
 const JUDGEMENT = "The test supports the analyst's judgement; it does not replace it.";
 
-function notPoolable(r: ChowRow, what: string): Finding {
+function notPoolable(r: ChowRow, what: string, against = "the rest of the pool"): Finding {
   const size = r.largest
     ? r.largest.shift >= 1
       ? ` The largest difference is in ${colWords(r.largest.column)}: ${r.largest.shift.toFixed(1)} standard errors.`
@@ -16,7 +16,7 @@ function notPoolable(r: ChowRow, what: string): Finding {
     "pool.not-poolable",
     "warning",
     r.largest && r.largest.term !== "intercept" ? [r.largest.term.split(":")[0]!] : [],
-    `${what} ${r.label} does not describe the same relationship as the rest of the pool (${r.kind === "predictive" ? "Chow's predictive test" : "Chow test"}, F = ${r.F!.toPrecision(3)} on ${r.df1} and ${r.df2} df, ${fmtP(r.p!)}).${size}`,
+    `${what} ${r.label} does not describe the same relationship as ${against} (${r.kind === "predictive" ? "Chow's predictive test" : "Chow test"}, F = ${r.F!.toPrecision(3)} on ${r.df1} and ${r.df2} df, ${fmtP(r.p!)}).${size}`,
     `Ask the provider whether ${r.label} was measured or recorded differently (units, method, site); if the difference is real, model it (e.g. a batch term or interaction) rather than pooling blindly. ${JUDGEMENT}`,
     { detail: { id: r.id, F: r.F, df1: r.df1, df2: r.df2, p: r.p, kind: r.kind, largest: r.largest } },
   );
@@ -43,9 +43,10 @@ export function poolFindings(q: Omit<PoolQuestions, "findings">, alpha: number):
   const out: Finding[] = [];
   const { poolability: pa, influence: inf } = q;
   for (const r of pa.batches) if (r.p !== null && r.p < alpha) out.push(notPoolable(r, "Batch"));
-  for (const r of pa.providers) if (r.p !== null && r.p < alpha) out.push(notPoolable(r, "Provider"));
+  for (const r of pa.providers)
+    if (r.p !== null && r.p < alpha) out.push(notPoolable(r, "Provider", "the other providers' batches"));
   if (pa.candidate && pa.candidate.p !== null && pa.candidate.p < alpha)
-    out.push(notPoolable(pa.candidate, "If accepted, batch"));
+    out.push(notPoolable(pa.candidate, "Batch under review", "the accepted pool"));
   for (const r of [...inf.batches, ...(inf.candidate ? [inf.candidate] : [])])
     if (r.influential) out.push(influential(r, inf.threshold));
   const s = q.selection?.stability;

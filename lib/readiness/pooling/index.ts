@@ -22,7 +22,7 @@ export { selectionTerms, selectionBudget, type SelectionTerms } from "./terms";
 export { factorOf, type Factor } from "./factor";
 
 export const POOL_CAUTION =
-  "Selection on the same data overstates the fit: the chosen model's R² and p-values are optimistic. The preview plans the analysis; it does not replace it, and the checks support the analyst's judgement rather than replace it.";
+  "Selection on the same data overstates the fit: the chosen model's R² and p-values are optimistic. The preview plans the analysis; it does not replace it. These figures support the analyst's judgement; they do not replace it.";
 
 /**
  * Poolability, batch influence, the overall F test and the selection preview of a pool of
@@ -53,7 +53,17 @@ export function poolQuestions(
     const f = unitFits(g.factor, g.rest);
     if (!f.rest) return [];
     return [
-      chowRow(g.id, g.label, f.own, f.rest, fitAll, k, largestOf(shiftsOf(fitAll, f.rest, fr)), t.alpha),
+      chowRow(
+        g.id,
+        g.label,
+        f.own,
+        f.rest,
+        fitAll,
+        k,
+        largestOf(shiftsOf(fitAll, f.rest, fr)),
+        t.alpha,
+        "the other providers' batches",
+      ),
     ];
   });
 
@@ -83,6 +93,7 @@ export function poolQuestions(
       withFit.rank,
       candidateInfluence.largest,
       t.alpha,
+      "the accepted pool",
     );
   }
 
@@ -105,7 +116,7 @@ export function poolQuestions(
       candidate,
     },
     influence: { threshold: INFLUENCE_THRESHOLD, batches: influence, candidate: candidateInfluence },
-    selection: selectionPreview(ctx),
+    selection: opts.selection === false ? null : selectionPreview(ctx),
     caution: POOL_CAUTION,
   };
   return { ...partial, findings: poolFindings(partial, t.alpha) };

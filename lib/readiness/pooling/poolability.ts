@@ -49,6 +49,7 @@ export function chowRow(
   k: number,
   largest: LargestShift | null,
   alpha: number,
+  against = "the rest of the pool",
 ): ChowRow {
   const n = ownFit.n;
   const predictive = n <= k;
@@ -61,12 +62,14 @@ export function chowRow(
     ? "Chow's predictive test (the batch has too few rows to be fitted alone)"
     : "the Chow test";
   let words: string;
-  if (F === null || p === null) {
-    words = `${label} cannot be compared with the rest of the pool: ${test} has ${df1} and ${df2} degrees of freedom.`;
+  if (n === 0) {
+    words = `${label} has no complete rows (response and predictors all present): there is nothing to compare.`;
+  } else if (F === null || p === null) {
+    words = `${label} cannot be compared with ${against}: ${test} has ${df1} and ${df2} degrees of freedom.`;
   } else if (p < alpha) {
-    words = `The relationship in ${label} differs from the rest of the pool by ${test} (${fmtF(F, df1, df2)}, ${fmtP(p)}).${sizeWords(largest)}`;
+    words = `The relationship in ${label} differs from ${against} by ${test} (${fmtF(F, df1, df2)}, ${fmtP(p)}).${sizeWords(largest)}`;
   } else {
-    words = `No detectable difference between ${label} and the rest of the pool by ${test} (${fmtF(F, df1, df2)}, ${fmtP(p)}).`;
+    words = `No detectable difference between ${label} and ${against} by ${test} (${fmtF(F, df1, df2)}, ${fmtP(p)}).`;
   }
   return {
     id,
@@ -90,7 +93,9 @@ export function chowRow(
  * anova(lm(y ~ X), lm(y ~ X * batch)). A batch with n_b ≤ k rows in general position fits its
  * own rows exactly (RSS_b = 0, r_b = n_b): it enters as in Chow's predictive test.
  */
-export function wholePool(fits: Fit[], allFit: Fit, k: number, alpha: number): ChowResult | null {
+export function wholePool(all: Fit[], allFit: Fit, k: number, alpha: number): ChowResult | null {
+  // a batch without complete rows adds nothing to either model
+  const fits = all.filter((f) => f.n > 0);
   if (fits.length < 2) return null;
   let rss = 0;
   let rank = 0;

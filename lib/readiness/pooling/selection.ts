@@ -31,15 +31,22 @@ function modelsBySize(pr: Problem, seeds: number[][]): { subset: number[]; rss: 
   }));
 }
 
-function sizeModels(pr: Problem): SizeModels {
-  const best = modelsBySize(pr, []);
-  const bic = best.map((b) => criteriaOf(pr, b.subset, b.rss).bic);
-  return {
-    bySize: best.map((b) => b.subset),
-    bicSize: Math.max(
-      0,
-      argBest(bic, (a, b) => a < b),
-    ),
+/** A fold's models by size, the pool's best subsets (by term name) as the first incumbents. */
+function sizeModelsFrom(poolBest: string[][]): (pr: Problem) => SizeModels {
+  return (pr) => {
+    const index = new Map(pr.terms.map((t, i) => [t.name, i]));
+    const seeds = poolBest
+      .filter((s) => s.every((t) => index.has(t)))
+      .map((s) => s.map((t) => index.get(t)!));
+    const best = modelsBySize(pr, seeds);
+    const bic = best.map((b) => criteriaOf(pr, b.subset, b.rss).bic);
+    return {
+      bySize: best.map((b) => b.subset),
+      bicSize: Math.max(
+        0,
+        argBest(bic, (a, b) => a < b),
+      ),
+    };
   };
 }
 
@@ -97,14 +104,16 @@ export function selectionPreview(ctx: PoolContext): SelectionPreview | null {
 
   let lobo: SelectionPreview["lobo"] = null;
   let stability: SelectionPreview["stability"] = null;
-  const folds = ctx.batches.flatMap((b) => (b.rest ? [{ own: b.factor, rest: b.rest }] : []));
+  const folds = ctx.batches.flatMap((b) =>
+    b.rest && b.factor.n > 0 ? [{ own: b.factor, rest: b.rest }] : [],
+  );
   if (folds.length >= 3) {
     const cv = crossValidate(
       folds,
       forcedColumns,
       candidates.filter((c) => !pr.unestimable.includes(c.term)),
       intercept,
-      sizeModels,
+      sizeModelsFrom(bySize.map((b) => b.terms)),
     );
     lobo = cv.lobo;
     stability = cv.stability;

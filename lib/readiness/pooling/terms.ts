@@ -21,7 +21,7 @@ export function selectionTerms(plan: Plan, terms: DesignTerm[]): SelectionTerms 
   const named = new Set(s.candidates);
   const candidates = terms.filter((t) => named.has(t.term));
   if (candidates.length === 0) return null;
-  return { candidates, forced: terms.filter((t) => !named.has(t.term)), required: [...s.required] };
+  return { candidates, forced: terms.filter((t) => !named.has(t.term)), required: [...(s.required ?? [])] };
 }
 
 /**

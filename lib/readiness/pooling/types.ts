@@ -24,6 +24,8 @@ export interface PoolMember {
 export interface PoolQuestionsOptions {
   /** the version under review: tested "if accepted" against the pool of `members` */
   candidate?: PoolMember;
+  /** false: leave the selection preview out (null), e.g. for a quick "if accepted" figure; default true */
+  selection?: boolean;
 }
 
 /** The overall F test of the pool's model: do the predictors together explain anything? */
