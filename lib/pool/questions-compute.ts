@@ -39,21 +39,16 @@ export type Outcome = { result: PoolQuestions; error: null } | { result: null; e
 function attempt(members: PoolMember[], plan: Plan, candidate?: PoolMember): Outcome {
   if (members.length === 0) return { result: null, error: null };
   try {
-    return { result: poolQuestions(members, plan, candidate ? { candidate } : {}), error: null };
+    // "if accepted" shows the version's poolability and influence: no selection preview, which keeps a
+    // whole-study job with many versions under review quick
+    return {
+      result: poolQuestions(members, plan, candidate ? { candidate, selection: false } : {}),
+      error: null,
+    };
   } catch (e) {
     if (e instanceof RangeError) return { result: null, error: e.message };
     throw e;
   }
-}
-
-/**
- * "If accepted" shows the version's poolability and influence, not a selection preview: the
- * plan without its selection keeps a whole-study job with many versions under review cheap.
- */
-export function withoutSelection(plan: Plan): Plan {
-  const { selection: _selection, ...rest } = plan;
-  void _selection;
-  return rest;
 }
 
 export type StudyQuestions = {
@@ -117,7 +112,7 @@ export async function computeStudyQuestions(
     pool: only === null ? attempt(members, plan) : null,
     candidates: ready.map((l) => ({
       batchVersionId: l.member.batchVersionId,
-      outcome: attempt(members, withoutSelection(plan), memberOf(l)),
+      outcome: attempt(members, plan, memberOf(l)),
     })),
   };
 }

@@ -126,7 +126,7 @@ async function reference(candidateVersionId?: number): Promise<PoolQuestions> {
     state: rep!.state as PoolMember["state"],
   };
   // "if accepted" is computed without the selection preview (lib/pool/questions-compute.ts)
-  return poolQuestions(members, { ...plan, selection: undefined }, { candidate });
+  return poolQuestions(members, plan, { candidate, selection: false });
 }
 
 async function orgId(slug: string) {
