@@ -7,6 +7,12 @@ export function formatP(p: number | null | undefined): string {
   return p < 1e-4 ? "< 0.0001" : formatDecimal(p, 4);
 }
 
+/** "p = 0.0123" or "p < 0.0001", for a sentence. */
+export function pIs(p: number | null | undefined): string {
+  const s = formatP(p);
+  return s.startsWith("<") ? `p ${s}` : `p = ${s}`;
+}
+
 /** A test statistic or criterion: two decimals, or three significant digits in e-notation when huge. */
 export function formatStat(x: number | null | undefined, digits = 2): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return "–";

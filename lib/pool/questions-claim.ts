@@ -6,7 +6,7 @@
 import { and, asc, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { checkJobs } from "@/db/schema";
-import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/jobs/check-jobs";
+import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/jobs/queue-rules";
 import type { DbOrTx } from "@/lib/services/audit";
 import { POOL_QUESTIONS_JOB } from "./questions-queue";
 

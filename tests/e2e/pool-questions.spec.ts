@@ -144,8 +144,5 @@ test("the barley pool page singles out Brackenridge, and shows the criteria char
     /^Leave-one-batch-out mean squared prediction error .* by subset size; picks size \d+\. size 0: /,
   );
   await expect(page.getByRole("grid", { name: "Best subset of each size" })).toContainText("soil");
-  await test
-    .info()
-    .attach("pool page", { body: await page.screenshot({ fullPage: true }), contentType: "image/png" });
   await page.context().close();
 });
