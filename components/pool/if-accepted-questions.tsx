@@ -57,7 +57,7 @@ export async function IfAcceptedQuestions({
           findings={q.findings
             .filter((f) => f.code.startsWith("pool."))
             .map((f, i) => ({ ...f, id: `pq-${i}` }))}
-          caption="Poolability findings if accepted"
+          caption="Poolability warnings if accepted"
           csvName={`${name}-poolability-findings`}
         />
       ) : null}

@@ -82,7 +82,7 @@ test("before Brackenridge is accepted, its If accepted shows it would not pool",
   await expect(row).toContainText("under review");
   await expect(row).toContainText("nitrogen_kg_ha");
   await expect(row).toContainText("one standard error or more");
-  await expect(questions.getByRole("grid", { name: "Poolability findings if accepted" })).toContainText(
+  await expect(questions.getByRole("grid", { name: "Poolability warnings if accepted" })).toContainText(
     "pool.not-poolable",
   );
   await batch.decide(
