@@ -17,6 +17,10 @@ const covering = (candidateVersionId: number | null) =>
     ? isNull(checkJobs.candidateVersionId)
     : or(isNull(checkJobs.candidateVersionId), eq(checkJobs.candidateVersionId, candidateVersionId));
 
+/** This study's pool-questions jobs whose work includes the given version's (or the whole study's). */
+const jobsFor = (studyId: number, candidateVersionId: number | null) =>
+  and(ofKind, eq(checkJobs.studyId, studyId), covering(candidateVersionId));
+
 /**
  * Queue the pool questions of a study (no version: the pool and every version under review),
  * or of one version under review. Call it inside the transaction that changes the pool. A job
@@ -31,13 +35,7 @@ export async function enqueuePoolQuestions(
     .select({ id: checkJobs.id })
     .from(checkJobs)
     .where(
-      and(
-        ofKind,
-        eq(checkJobs.studyId, studyId),
-        eq(checkJobs.status, "queued"),
-        eq(checkJobs.attempts, 0),
-        covering(candidateVersionId),
-      ),
+      and(jobsFor(studyId, candidateVersionId), eq(checkJobs.status, "queued"), eq(checkJobs.attempts, 0)),
     )
     .limit(1)
     // a locking read: a job a worker has just claimed (and may be computing from the old pool) does not count
@@ -62,11 +60,9 @@ export async function pendingPoolQuestions(
     .from(checkJobs)
     .where(
       and(
-        ofKind,
-        eq(checkJobs.studyId, studyId),
+        jobsFor(studyId, candidateVersionId),
         inArray(checkJobs.status, ["queued", "running"]),
         gt(checkJobs.id, afterJobId),
-        covering(candidateVersionId),
       ),
     )
     .orderBy(desc(checkJobs.id))
