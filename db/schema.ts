@@ -171,10 +171,12 @@ export const checkJobs = mysqlTable(
     id: id(),
     /** "check": a version's file through the engine; "pool_questions": a study's pool questions (lib/pool/questions-job.ts) */
     kind: mysqlEnum("kind", JOB_KINDS).notNull().default("check"),
-    /** the version to check; for pool questions the version under review, or null for the whole study */
+    /** the version to check (check jobs only) */
     batchVersionId: ref("batch_version_id").references(() => batchVersions.id),
     /** pool questions only: the study whose pool changed */
     studyId: ref("study_id").references(() => studies.id),
+    /** pool questions only: the version under review to add ("if accepted"); null for the whole study */
+    candidateVersionId: ref("candidate_version_id").references(() => batchVersions.id),
     status: mysqlEnum("status", ["queued", "running", "done", "failed"]).notNull().default("queued"),
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
     lockedBy: varchar("locked_by", { length: 100 }),

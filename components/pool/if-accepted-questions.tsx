@@ -48,7 +48,7 @@ export async function IfAcceptedQuestions({
             ...q.influence.batches.filter((b) => b.id !== q.influence.candidate?.id),
           ]}
           threshold={q.influence.threshold}
-          caption="Influence in the pool with this version"
+          caption="Influence of this version (in the pool with it) and of each accepted batch (in the pool as it stands)"
           csvName={`${name}-influence`}
         />
       ) : null}
@@ -57,7 +57,7 @@ export async function IfAcceptedQuestions({
           findings={q.findings
             .filter((f) => f.code.startsWith("pool."))
             .map((f, i) => ({ ...f, id: `pq-${i}` }))}
-          caption="Poolability findings if accepted"
+          caption="Poolability warnings if accepted"
           csvName={`${name}-poolability-findings`}
         />
       ) : null}

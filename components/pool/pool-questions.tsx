@@ -10,7 +10,7 @@ import type { PoolQuestions } from "@/lib/readiness";
 import { CriteriaCharts } from "./criteria-chart";
 import { InfluenceChart } from "./influence-chart";
 import { PoolabilityTable, type PoolabilityRow } from "./poolability-table";
-import { formatDf, formatP, formatStat } from "./questions-format";
+import { formatDf, formatP, formatStat, pIs } from "./questions-format";
 import { QuestionsStatus } from "./questions-status";
 import { ChosenSubsets, SelectionPaths } from "./selection-tables";
 import { StabilityBars } from "./stability-bars";
@@ -43,7 +43,7 @@ function Poolability({ q, slug }: { q: PoolQuestions; slug: string }) {
           <p className="font-semibold">{p.whole.words}</p>
           <p className="tabular-nums">
             All {p.whole.groups} batches share one set of coefficients? F = {formatStat(p.whole.F)} on{" "}
-            {formatDf(p.whole.df1, p.whole.df2)} df, p = {formatP(p.whole.p)}
+            {formatDf(p.whole.df1, p.whole.df2)} df, {pIs(p.whole.p)}
             {p.whole.small
               ? ` (${p.whole.small} too small to fit alone enter as Chow's predictive test does)`
               : ""}
@@ -167,7 +167,9 @@ export function PoolQuestionsSections({ view, slug }: { view: QuestionsView; slu
     ) : view.stored?.error ? (
       <p className="text-sm text-clay-ink">Could not be computed: {view.stored.error}</p>
     ) : view.stored ? (
-      <p className="text-sm text-silt-ink">The pool has no accepted batches yet: accept a batch to ask its questions.</p>
+      <p className="text-sm text-silt-ink">
+        The pool has no accepted batches yet: accept a batch to ask its questions.
+      </p>
     ) : null;
   return (
     <>

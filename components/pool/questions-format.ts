@@ -6,6 +6,12 @@ export function formatP(p: number | null | undefined): string {
   return formatNumber(p ?? null, "pvalue");
 }
 
+/** "p = 0.012" or "p < 0.001", for a sentence. */
+export function pIs(p: number | null | undefined): string {
+  const s = formatP(p);
+  return s.startsWith("<") ? `p ${s}` : `p = ${s}`;
+}
+
 /**
  * A test statistic or criterion (lib/format's "statistic": three significant digits), or with
  * `digits` of 3 or more a fitted quantity such as R² ("estimate": four significant digits).

@@ -1,36 +1,14 @@
 /**
  * The demo scenario's batch files, generated (all invented): plot results from the
- * Lowmoor Valley farms and home results from the heat-pump installers, some clean and
- * some with the defects providers really send. Tests use them as fixtures; the demo's season
- * (season-plan.ts) generates its own files with the same generators.
+ * Lowmoor Valley farms (here) and home results from the heat-pump installers
+ * (heat-pump-batches.ts), some clean and some with the defects providers really send.
  */
-import { mulberry32 } from "@/lib/readiness";
-import { BARLEY_VARIETIES, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES, INSULATION_BANDS, SOIL_TYPES } from "./plans";
+import { BARLEY_VARIETIES, SOIL_TYPES } from "./plans";
+import { rng, round, toCsv, type DemoBatch } from "./generate";
+import { heatPumpBatches } from "./heat-pump-batches";
 
-export interface DemoBatch {
-  organisationSlug: string;
-  studySlug: string;
-  title: string;
-  fileName: string;
-  /** what this file is meant to show in the demo */
-  shows: string;
-  /** the analysts' decision the demo starts with, once the checks are done (none: left ready for review) */
-  decision?: { by: string; decision: "accept" | "bounce"; comment?: string; findingComments?: { code: string; columns: string[]; comment: string }[] };
-  csv: string;
-}
-
-/** A small seeded generator (mulberry32), so the demo is the same every time. */
-export function rng(seed: number) {
-  const next = mulberry32(seed);
-  const normal = () => {
-    const u = Math.max(next(), 1e-12);
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * next());
-  };
-  const pick = <T>(xs: readonly T[]): T => xs[Math.floor(next() * xs.length)] as T;
-  return { next, normal, pick };
-}
-
-const round = (x: number, d: number) => Number(x.toFixed(d));
+export { rng, toCsv, type DemoBatch } from "./generate";
+export { HEAT_HEADER, heatPumpBatches, heatPumpRows } from "./heat-pump-batches";
 
 export const BARLEY_HEADER = [
   "plot_id", "harvest_date", "farm_plot_note", "yield_t_ha", "nitrogen_kg_ha", "irrigation_mm", "rainfall_mm",
@@ -87,18 +65,7 @@ export function barleyRows(farmCode: string, n: number, seed: number, nitrogenRe
   return rows;
 }
 
-function quote(v: string | number, delimiter: string): string {
-  const s = String(v);
-  return s.includes(delimiter) || s.includes('"') || s.includes("\n") ? `"${s.replace(/"/g, '""')}"` : s;
-}
-
-export function toCsv<T extends Record<string, string | number>>(header: readonly (keyof T & string)[], rows: T[], delimiter = ","): string {
-  const lines = [header.join(delimiter)];
-  for (const row of rows) lines.push(header.map((h) => quote(row[h] ?? "", delimiter)).join(delimiter));
-  return lines.join("\n") + "\n";
-}
-
-/** The barley batches of the demo, one per farm, each with its story. */
+/** The barley batches of the demo, one per farm (two from Harrowgate and Coldwell), each with its story. */
 export function barleyBatches(): DemoBatch[] {
   const h = BARLEY_HEADER;
   const clean1 = barleyRows("HG", 180, 101);
@@ -149,55 +116,6 @@ export function barleyBatches(): DemoBatch[] {
     { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
     { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, Long Meadow trial 2026", fileName: "harrowgate-long-meadow-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, harrowgateLong), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
     { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, Top Field trial 2026", fileName: "coldwell-top-field-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, coldwellTop), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
-  ];
-}
-
-export const HEAT_HEADER = [
-  "property_ref", "install_date", "installer_note", "annual_kwh_saved", "floor_area_m2", "pre_retrofit_kwh",
-  "heat_pump_type", "insulation_band", "building_age_band", "household_size", "occupancy_hours",
-] as const;
-type HeatRow = Record<(typeof HEAT_HEADER)[number], string | number>;
-
-export function heatPumpRows(prefix: string, n: number, seed: number): HeatRow[] {
-  const r = rng(seed);
-  const rows: HeatRow[] = [];
-  for (let i = 0; i < n; i++) {
-    const area = round(Math.max(30, 95 + r.normal() * 30), 1);
-    const pre = round(Math.max(2500, area * 120 + r.normal() * 2500), 0);
-    const type = r.pick(HEAT_PUMP_TYPES);
-    const band = r.pick(INSULATION_BANDS);
-    const age = r.pick(BUILDING_AGE_BANDS);
-    const hh = Math.max(1, Math.min(7, Math.round(2.4 + r.normal() * 1.2)));
-    const occ = round(Math.min(24, Math.max(4, 14 + r.normal() * 4)), 1);
-    const saved = 0.35 * pre + (type === "ground" ? 900 : type === "hybrid" ? -400 : 0) - 60 * INSULATION_BANDS.indexOf(band) + 35 * (occ - 14) + r.normal() * 1100;
-    rows.push({
-      property_ref: `${prefix}${String(10000 + i)}`,
-      install_date: new Date(Date.UTC(2025, 3, 1 + Math.floor(r.next() * 200))).toISOString().slice(0, 10),
-      installer_note: "",
-      annual_kwh_saved: round(saved, 0),
-      floor_area_m2: area,
-      pre_retrofit_kwh: pre,
-      heat_pump_type: type,
-      insulation_band: band,
-      building_age_band: age,
-      household_size: hh,
-      occupancy_hours: occ,
-    });
-  }
-  return rows;
-}
-
-export function heatPumpBatches(): DemoBatch[] {
-  return [
-    {
-      organisationSlug: "greenhearth",
-      studySlug: "heat-pump-savings",
-      title: "Greenhearth retrofits, 2025 installs",
-      fileName: "greenhearth-2025.csv",
-      shows: "a clean batch under stricter thresholds",
-      decision: { by: "analyst2@lowmoor.test", decision: "accept" },
-      csv: toCsv(HEAT_HEADER, heatPumpRows("GH-", 260, 707)),
-    },
   ];
 }
 

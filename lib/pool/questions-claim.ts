@@ -16,7 +16,7 @@ export type PoolQuestionsJob = {
   attempt: number;
   studyId: number;
   /** the version under review to add ("if accepted"); null: the whole study */
-  batchVersionId: number | null;
+  candidateVersionId: number | null;
 };
 
 /** Claim the oldest runnable pool-questions job, or null when there is none. */
@@ -31,7 +31,7 @@ export async function claimPoolQuestionsJob(
         id: checkJobs.id,
         attempts: checkJobs.attempts,
         studyId: checkJobs.studyId,
-        batchVersionId: checkJobs.batchVersionId,
+        candidateVersionId: checkJobs.candidateVersionId,
       })
       .from(checkJobs)
       .where(claimable(POOL_QUESTIONS_JOB, now))
@@ -61,7 +61,7 @@ export async function claimPoolQuestionsJob(
       workerId,
       attempt: job.attempts + 1,
       studyId: job.studyId,
-      batchVersionId: job.batchVersionId,
+      candidateVersionId: job.candidateVersionId,
     };
   });
 }

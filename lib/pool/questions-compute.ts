@@ -39,7 +39,12 @@ export type Outcome = { result: PoolQuestions; error: null } | { result: null; e
 function attempt(members: PoolMember[], plan: Plan, candidate?: PoolMember): Outcome {
   if (members.length === 0) return { result: null, error: null };
   try {
-    return { result: poolQuestions(members, plan, candidate ? { candidate } : {}), error: null };
+    // "if accepted" shows the version's poolability and influence: no selection preview, which keeps a
+    // whole-study job with many versions under review quick
+    return {
+      result: poolQuestions(members, plan, candidate ? { candidate, selection: false } : {}),
+      error: null,
+    };
   } catch (e) {
     if (e instanceof RangeError) return { result: null, error: e.message };
     throw e;
@@ -155,7 +160,7 @@ export async function storeStudyQuestions(
         result: c.outcome.result,
         error: c.outcome.error,
       });
-    if (job.batchVersionId === null) {
+    if (job.candidateVersionId === null) {
       const kept = q.candidates.map((c) => c.batchVersionId);
       await tx
         .delete(ifAcceptedQuestions)

@@ -27,12 +27,12 @@ export async function runPoolQuestionsJob(
   log: Log = () => undefined,
 ): Promise<boolean> {
   const what =
-    job.batchVersionId === null
+    job.candidateVersionId === null
       ? `study ${job.studyId}`
-      : `version ${job.batchVersionId} of study ${job.studyId}`;
+      : `version ${job.candidateVersionId} of study ${job.studyId}`;
   try {
     const started = Date.now();
-    const q = await computeStudyQuestions(db, job.studyId, job.batchVersionId);
+    const q = await computeStudyQuestions(db, job.studyId, job.candidateVersionId);
     const stored = await storeStudyQuestions(db, job, q);
     log(
       stored

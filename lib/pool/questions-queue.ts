@@ -12,10 +12,14 @@ export const POOL_QUESTIONS_JOB = "pool_questions" as const;
 const ofKind = eq(checkJobs.kind, POOL_QUESTIONS_JOB);
 
 /** Jobs whose work includes the given version's (a whole-study job includes every version's). */
-const covering = (batchVersionId: number | null) =>
-  batchVersionId === null
-    ? isNull(checkJobs.batchVersionId)
-    : or(isNull(checkJobs.batchVersionId), eq(checkJobs.batchVersionId, batchVersionId));
+const covering = (candidateVersionId: number | null) =>
+  candidateVersionId === null
+    ? isNull(checkJobs.candidateVersionId)
+    : or(isNull(checkJobs.candidateVersionId), eq(checkJobs.candidateVersionId, candidateVersionId));
+
+/** This study's pool-questions jobs whose work includes the given version's (or the whole study's). */
+const jobsFor = (studyId: number, candidateVersionId: number | null) =>
+  and(ofKind, eq(checkJobs.studyId, studyId), covering(candidateVersionId));
 
 /**
  * Queue the pool questions of a study (no version: the pool and every version under review),
@@ -25,25 +29,19 @@ const covering = (batchVersionId: number | null) =>
 export async function enqueuePoolQuestions(
   tx: DbOrTx,
   studyId: number,
-  batchVersionId: number | null = null,
+  candidateVersionId: number | null = null,
 ): Promise<void> {
   const [waiting] = await tx
     .select({ id: checkJobs.id })
     .from(checkJobs)
     .where(
-      and(
-        ofKind,
-        eq(checkJobs.studyId, studyId),
-        eq(checkJobs.status, "queued"),
-        eq(checkJobs.attempts, 0),
-        covering(batchVersionId),
-      ),
+      and(jobsFor(studyId, candidateVersionId), eq(checkJobs.status, "queued"), eq(checkJobs.attempts, 0)),
     )
     .limit(1)
     // a locking read: a job a worker has just claimed (and may be computing from the old pool) does not count
     .for("update", { skipLocked: true });
   if (waiting) return;
-  await tx.insert(checkJobs).values({ kind: POOL_QUESTIONS_JOB, studyId, batchVersionId });
+  await tx.insert(checkJobs).values({ kind: POOL_QUESTIONS_JOB, studyId, candidateVersionId });
 }
 
 /**
@@ -55,18 +53,16 @@ export async function pendingPoolQuestions(
   db: DbOrTx,
   studyId: number,
   afterJobId: number,
-  batchVersionId: number | null = null,
+  candidateVersionId: number | null = null,
 ): Promise<boolean> {
   const [row] = await db
     .select({ id: checkJobs.id })
     .from(checkJobs)
     .where(
       and(
-        ofKind,
-        eq(checkJobs.studyId, studyId),
+        jobsFor(studyId, candidateVersionId),
         inArray(checkJobs.status, ["queued", "running"]),
         gt(checkJobs.id, afterJobId),
-        covering(batchVersionId),
       ),
     )
     .orderBy(desc(checkJobs.id))

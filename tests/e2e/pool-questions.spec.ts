@@ -82,7 +82,7 @@ test("before Brackenridge is accepted, its If accepted shows it would not pool",
   await expect(row).toContainText("under review");
   await expect(row).toContainText("nitrogen_kg_ha");
   await expect(row).toContainText("one standard error or more");
-  await expect(questions.getByRole("grid", { name: "Poolability findings if accepted" })).toContainText(
+  await expect(questions.getByRole("grid", { name: "Poolability warnings if accepted" })).toContainText(
     "pool.not-poolable",
   );
   await batch.decide(
@@ -141,7 +141,7 @@ test("the barley pool page singles out Brackenridge, and shows the criteria char
   await expect(pool.cvCurve).toBeVisible();
   await expect(pool.cvCurve).toHaveAttribute(
     "aria-label",
-    /Leave-one-batch-out mean squared prediction error by subset size; picks size \d+/,
+    /^Leave-one-batch-out mean squared prediction error .* by subset size; picks size \d+\. size 0: /,
   );
   await expect(page.getByRole("grid", { name: "Best subset of each size" })).toContainText("soil");
   await page.context().close();

@@ -84,7 +84,7 @@ async function runPoolJobs(): Promise<number> {
 
 async function queuedPoolJobs() {
   return db
-    .select({ id: checkJobs.id, batchVersionId: checkJobs.batchVersionId })
+    .select({ id: checkJobs.id, candidateVersionId: checkJobs.candidateVersionId })
     .from(checkJobs)
     .where(
       and(
@@ -125,7 +125,8 @@ async function reference(candidateVersionId?: number): Promise<PoolQuestions> {
     groupLabel: org!.name,
     state: rep!.state as PoolMember["state"],
   };
-  return poolQuestions(members, plan, { candidate });
+  // "if accepted" is computed without the selection preview (lib/pool/questions-compute.ts)
+  return poolQuestions(members, plan, { candidate, selection: false });
 }
 
 async function orgId(slug: string) {
@@ -219,13 +220,13 @@ describe("pool questions computed by the worker and stored", () => {
   it("a finished check queues its version's 'if accepted'; accepting queues the study once; the worker stores poolQuestions' figures", async () => {
     const bracken = versions.at(-1)!;
     // the last check to finish queued its own job (uploadAndCheck drains the queue before each upload)
-    expect((await queuedPoolJobs()).map((j) => j.batchVersionId)).toEqual([bracken.id]);
+    expect((await queuedPoolJobs()).map((j) => j.candidateVersionId)).toEqual([bracken.id]);
     const analyst = await userId("analyst@lowmoor.test");
     for (const v of versions.slice(0, 4))
       expect((await decideVersion(analyst, v.publicId, 1, { decision: "accept" })).ok).toBe(true);
     // four acceptances, one whole-study job waiting (it covers the version's job queued before it too)
     const queued = await queuedPoolJobs();
-    expect(queued.filter((j) => j.batchVersionId === null)).toHaveLength(1);
+    expect(queued.filter((j) => j.candidateVersionId === null)).toHaveLength(1);
     const ids = versions
       .slice(0, 4)
       .map((v) => v.id)

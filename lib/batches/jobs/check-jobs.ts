@@ -10,22 +10,16 @@
  * report it already has. A job handed back at a graceful stop (releaseJob) gets its
  * attempt back.
  */
-import { and, asc, eq, lte, or, sql } from "drizzle-orm";
+import { and, asc, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/core/audit";
 import { enqueuePoolQuestions } from "@/lib/pool";
-import { batchVersions, batches, checkJobs, dataPlans, reports, type JOB_KINDS } from "@/db/schema";
+import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness";
-import { msFromEnv } from "@/lib/env";
 import { now as clockNow } from "@/lib/core/clock";
+import { MAX_ATTEMPTS, afterFailure, claimable } from "./queue-rules";
 
-export const MAX_ATTEMPTS = 3;
-
-/**
- * A running job without a heartbeat for this long belongs to a dead worker and is claimed
- * again. TRIBUTARY_JOB_STALE_MS (default 60 000); workers send heartbeats every quarter of it.
- */
-export const STALE_AFTER_MS = msFromEnv("TRIBUTARY_JOB_STALE_MS", 60_000);
+export { afterFailure, claimable, MAX_ATTEMPTS, STALE_AFTER_MS } from "./queue-rules";
 
 export interface ClaimedJob {
   jobId: number;
@@ -40,32 +34,6 @@ export interface ClaimedJob {
   fileSize: number;
   plan: unknown;
   planId: number;
-}
-
-/** Jobs of a kind that may be claimed now: queued and due, or running without a heartbeat for STALE_AFTER_MS. */
-export function claimable(kind: (typeof JOB_KINDS)[number], now: Date) {
-  const staleBefore = new Date(now.getTime() - STALE_AFTER_MS);
-  return and(
-    eq(checkJobs.kind, kind),
-    or(
-      and(eq(checkJobs.status, "queued"), lte(checkJobs.runAfter, now)),
-      and(eq(checkJobs.status, "running"), lte(checkJobs.heartbeatAt, staleBefore)),
-    ),
-  );
-}
-
-/** The job's row after a failed attempt: queued again after a back-off, or failed after MAX_ATTEMPTS. */
-export function afterFailure(attempt: number, error: unknown) {
-  const message = error instanceof Error ? error.message : String(error);
-  const final = attempt >= MAX_ATTEMPTS;
-  const backoffMs = 2_000 * 2 ** (attempt - 1);
-  return {
-    status: final ? ("failed" as const) : ("queued" as const),
-    lastError: message.slice(0, 4000),
-    runAfter: new Date(clockNow().getTime() + backoffMs),
-    finishedAt: final ? clockNow() : null,
-    lockedBy: null,
-  };
 }
 
 /** Claim the oldest runnable job, or return null when there is none. */
