@@ -23,10 +23,10 @@ export interface CheckOptions {
   limits?: Partial<CsvLimits>;
   /** the input's size in bytes when known (sizes the duplicate tables up front) */
   expectedBytes?: number;
-  /** a faster decoder for pure-ASCII chunks (lib/readiness/node.ts passes Node's) */
-  fastAscii?: (b: Uint8Array) => string | null;
-  /** "papaparse" turns off the quote-free fast path (tests compare both) */
-  tokenizer?: "auto" | "papaparse";
+  /** a fast strict UTF-8 validator (lib/readiness/node.ts passes Node's buffer.isUtf8) */
+  isUtf8?: (b: Uint8Array) => boolean;
+  /** "strings": records handed to the scan as strings instead of byte spans (tests compare both) */
+  path?: "bytes" | "strings";
 }
 
 function canonical(v: unknown): string {
@@ -88,7 +88,8 @@ export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOption
   scan.expectedBytes = opts.expectedBytes ?? 0;
   let read: Awaited<ReturnType<typeof readCsv>>;
   try {
-    read = await readCsv(input, scan, { onProgress: opts.onProgress, limits: opts.limits, tokenizer: opts.tokenizer, fastAscii: opts.fastAscii });
+    const sink = opts.path === "strings" ? { onHeader: scan.onHeader.bind(scan), onRecords: scan.onRecords.bind(scan) } : scan;
+    read = await readCsv(input, sink, { onProgress: opts.onProgress, limits: opts.limits, isUtf8: opts.isUtf8 });
   } catch (e) {
     if (e instanceof UnreadableError) return unreadableReport(plan, planHash, e, null, now() - t0);
     throw e;

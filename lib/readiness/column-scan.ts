@@ -5,12 +5,15 @@
  */
 import { Moments, QuantileStore, RowSample } from "./accumulators";
 import type { PlanColumn } from "./plan";
+import { fieldText } from "./tokenizer";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
 /** distinct values kept per column for level tables */
 export const LEVEL_CAP = 5000;
 /** distinct offending values kept per column */
 export const OFFENDER_CAP = 50;
+/** offending values longer than this are kept by their first characters and their length */
+export const OFFENDER_CHARS = 200;
 /** non-missing values per column used for type inference */
 export const INFER_LIMIT = 20_000;
 
@@ -29,8 +32,18 @@ export interface InferCounts {
   comma: number;
 }
 
-/** status of the field just read: 0 missing, 1 usable, 2 present but unusable */
-export type FieldStatus = 0 | 1 | 2;
+/** What the field just read holds. */
+export const FieldStatus = {
+  Missing: 0,
+  Usable: 1,
+  /** present but not a value of the column's type */
+  Unusable: 2,
+} as const;
+export type FieldStatus = (typeof FieldStatus)[keyof typeof FieldStatus];
+
+/** levels of a category matched by their bytes (beyond it, the level table is looked up by string) */
+const KNOWN_BYTES_CAP = 16;
+const encoder = new TextEncoder();
 
 export class ColumnScan {
   readonly missing: RowSample;
@@ -53,9 +66,11 @@ export class ColumnScan {
   total = 0;
   /** parsed value of the current row (number, boolean 0/1) */
   value = NaN;
-  status: FieldStatus = 0;
+  status: FieldStatus = FieldStatus.Missing;
   /** the text of the current field for category/text/profile columns ("" otherwise) */
   str = "";
+  /** the first levels of a category column with their UTF-8 bytes (readBytes matches them) */
+  private levelBytes: { bytes: Uint8Array; text: string; acc: LevelAcc }[] = [];
   /** level-table entry of the current field (category columns) */
   lastLevel: LevelAcc | undefined = undefined;
   /** numbers may be read straight from the text (no missing token looks like a number) */
@@ -116,8 +131,10 @@ export class ColumnScan {
     else if (parseDate(s).kind !== "bad") f.date++;
   }
 
-  private offend(s: string, line: number): void {
+  private offend(value: string, line: number): void {
     this.mismatch.add(line);
+    // a long value is kept by its start and length (the report quotes it)
+    const s = value.length > OFFENDER_CHARS ? `${value.slice(0, 60)}… (${value.length.toLocaleString("en")} characters)` : value;
     const c = this.offenders.get(s);
     if (c !== undefined) this.offenders.set(s, c + 1);
     else if (this.offenders.size < OFFENDER_CAP) this.offenders.set(s, 1);
@@ -130,21 +147,29 @@ export class ColumnScan {
     if (acc) {
       acc.count++;
       if (acc.rows.length < this.sampleCap) acc.rows.push(line);
-    } else if (m.size < LEVEL_CAP) m.set(s, (acc = { count: 1, complete: 0, rows: [line] }));
+    } else if (m.size < LEVEL_CAP) {
+      m.set(s, (acc = { count: 1, complete: 0, rows: [line] }));
+      if (this.kind === "category") {
+        if (m.size <= KNOWN_BYTES_CAP) this.levelBytes.push({ bytes: encoder.encode(s), text: s, acc });
+        else this.levelBytes = [];
+      }
+    }
     else this.levelOverflow++;
     this.lastLevel = acc;
   }
 
   /**
-   * Read the field text[a, b) — the quote-free fast path: plain decimals in numeric columns
-   * are read from the characters without making a string; everything else goes through read().
+   * Read the field buf[a, b) (UTF-8 bytes): plain decimals of numeric columns, known levels of
+   * a category and ISO dates are read from the bytes without making a string; everything else
+   * goes through read().
    */
-  readSpan(text: string, a: number, b: number, line: number): void {
+  readBytes(buf: Uint8Array, a: number, b: number, line: number): void {
     const n = b - a;
-    if ((this.kind === "number" || this.kind === "integer") && n > 0 && n <= 16 && this.spanNumbers) {
+    const kind = this.kind;
+    if ((kind === "number" || kind === "integer") && n > 0 && n <= 16 && this.spanNumbers) {
       let i = a;
       let neg = false;
-      if (text.charCodeAt(i) === 45) {
+      if (buf[i] === 45) {
         neg = true;
         i++;
       }
@@ -152,7 +177,7 @@ export class ColumnScan {
       let digits = 0;
       let frac = -1;
       for (; i < b; i++) {
-        const c = text.charCodeAt(i);
+        const c = buf[i]!;
         if (c >= 48 && c <= 57) {
           m = m * 10 + (c - 48);
           digits++;
@@ -164,7 +189,7 @@ export class ColumnScan {
         let v = frac > 0 ? m / POW10[frac]! : m;
         if (neg) v = -v;
         const isInt = Number.isInteger(v);
-        if (this.kind === "number" || isInt) {
+        if (kind === "number" || isInt) {
           this.total++;
           if (this.infer.seen < INFER_LIMIT) {
             const f = this.infer;
@@ -178,39 +203,41 @@ export class ColumnScan {
         }
       }
     }
-    if (this.kind === "category" && n > this.maxToken && this.levels!.size <= 16) {
-      // a few levels: find the span among the known level strings without making a new string
-      for (const [l, acc] of this.levels!) {
-        if (l.length !== n) continue;
+    if (kind === "category" && n > this.maxToken && this.levelBytes.length > 0 && buf[a]! > 32 && buf[b - 1]! > 32) {
+      // a few levels: find the bytes among the known levels' bytes without making a string
+      const known = this.levelBytes;
+      for (let k = 0; k < known.length; k++) {
+        const l = known[k]!;
+        if (l.bytes.length !== n) continue;
         let i = 0;
-        while (i < n && l.charCodeAt(i) === text.charCodeAt(a + i)) i++;
+        while (i < n && l.bytes[i] === buf[a + i]) i++;
         if (i < n) continue;
-        if (text.charCodeAt(a) <= 32 || text.charCodeAt(b - 1) <= 32) break; // spaces: let read() decide
         this.total++;
-        if (this.infer.seen < INFER_LIMIT) this.inferOne(l);
+        if (this.infer.seen < INFER_LIMIT) this.inferOne(l.text);
+        const acc = l.acc;
         acc.count++;
         if (acc.rows.length < this.sampleCap) acc.rows.push(line);
-        this.str = l;
+        this.str = l.text;
         this.lastLevel = acc;
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       }
     }
-    if (this.kind === "date" && n === 10 && n > this.maxToken && text.charCodeAt(a + 4) === 45 && text.charCodeAt(a + 7) === 45) {
-      const y = spanDigits(text, a, a + 4);
-      const m = spanDigits(text, a + 5, a + 7);
-      const d = spanDigits(text, a + 8, a + 10);
+    if (kind === "date" && n === 10 && n > this.maxToken && buf[a + 4] === 45 && buf[a + 7] === 45) {
+      const y = byteDigits(buf, a, a + 4);
+      const m = byteDigits(buf, a + 5, a + 7);
+      const d = byteDigits(buf, a + 8, a + 10);
       if (y >= 0 && m >= 0 && d >= 0 && validYmd(y, m, d)) {
         this.total++;
         if (this.infer.seen < INFER_LIMIT) {
           this.infer.seen++;
           this.infer.date++;
         }
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       }
     }
-    this.read(text.substring(a, b), line);
+    this.read(fieldText(buf, a, b), line);
   }
 
   /** A parsed number of a number/integer column: sentinels, range, moments. */
@@ -220,7 +247,7 @@ export class ColumnScan {
       if (!r) this.sentinels.set(v, (r = new RowSample(this.sampleCap)));
       r.add(line);
       this.missing.add(line);
-      this.status = 0;
+      this.status = FieldStatus.Missing;
       return;
     }
     const p = this.plan!;
@@ -230,7 +257,7 @@ export class ColumnScan {
     }
     this.numeric(v, line);
     this.value = v;
-    this.status = 1;
+    this.status = FieldStatus.Usable;
   }
 
   private extremes(v: number, line: number): void {
@@ -266,12 +293,12 @@ export class ColumnScan {
   read(s: string, line: number): void {
     this.total++;
     if (this.kind === "ignore") {
-      this.status = 0;
+      this.status = FieldStatus.Missing;
       return;
     }
     if (this.isMissing(s)) {
       this.missing.add(line);
-      this.status = 0;
+      this.status = FieldStatus.Missing;
       this.str = s;
       return;
     }
@@ -288,13 +315,13 @@ export class ColumnScan {
             v = c;
           } else {
             this.offend(s, line);
-            this.status = 2;
+            this.status = FieldStatus.Unusable;
             return;
           }
         }
         if (this.kind === "integer" && !Number.isInteger(v)) {
           this.offend(s, line);
-          this.status = 2;
+          this.status = FieldStatus.Unusable;
           return;
         }
         this.valueNumber(v, line);
@@ -304,23 +331,23 @@ export class ColumnScan {
         const b = parseBoolean(s);
         if (b === null) {
           this.offend(s, line);
-          this.status = 2;
+          this.status = FieldStatus.Unusable;
           return;
         }
         this.numeric(b, line);
         this.value = b;
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       }
       case "category":
         this.level(s, line);
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       case "date": {
         const d = parseDate(s);
         if (d.kind === "bad") {
           this.offend(s, line);
-          this.status = 2;
+          this.status = FieldStatus.Unusable;
           return;
         }
         if (d.kind === "pair") {
@@ -329,19 +356,19 @@ export class ColumnScan {
           if (d.b > 12) this.date.b13++;
           if (d.a <= 12 && d.b <= 12 && d.a !== d.b) this.date.ambiguous!.add(line);
         }
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       }
       case "text":
         this.level(s, line);
-        this.status = 1;
+        this.status = FieldStatus.Usable;
         return;
       default: {
         // unplanned column: profile it (levels, and numbers when they parse)
         this.level(s, line);
         const v = readNumber(s);
         if (v === v) this.numeric(v, line);
-        this.status = 1;
+        this.status = FieldStatus.Usable;
       }
     }
   }
@@ -361,10 +388,10 @@ export class ColumnScan {
   }
 }
 
-function spanDigits(s: string, from: number, to: number): number {
+function byteDigits(s: Uint8Array, from: number, to: number): number {
   let v = 0;
   for (let i = from; i < to; i++) {
-    const c = s.charCodeAt(i) - 48;
+    const c = s[i]! - 48;
     if (c < 0 || c > 9) return -1;
     v = v * 10 + c;
   }

@@ -3,9 +3,10 @@
  * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
  */
 import { RowSample } from "./accumulators";
-import { HASH, HashSet64, hashFields, hashSpan } from "./hashing";
-import { ColumnScan } from "./column-scan";
+import { HASH, HashSet64, hashByteFields, hashFields } from "./hashing";
+import { ColumnScan, FieldStatus } from "./column-scan";
 import type { CsvMeta, CsvSink } from "./csv-reader";
+import type { FieldBatch } from "./tokenizer";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
 import { thresholdsOf, type Plan, type Thresholds } from "./plan";
 import { LeastSquares, PatternMoments } from "./stats";
@@ -49,8 +50,6 @@ export class Scan implements CsvSink {
   lastRepeatOf = 0;
   private keyList: number[] = [];
   private keyHash = new Float64Array(0);
-  private spanStarts = new Int32Array(0);
-  private spanEnds = new Int32Array(0);
   predictors: Predictor[];
   design: Design;
   /** @internal (scan-merge.ts) */
@@ -120,8 +119,6 @@ export class Scan implements CsvSink {
     }
     this.keyList = [...this.keys.keys()];
     this.keyHash = new Float64Array(2 * this.keyList.length);
-    this.spanStarts = new Int32Array(fields.length);
-    this.spanEnds = new Int32Array(fields.length);
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
     this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
@@ -193,77 +190,38 @@ export class Scan implements CsvSink {
     this.raggedWidths.set(width, (this.raggedWidths.get(width) ?? 0) + 1);
   }
 
-  /**
-   * The quote-free fast path: complete lines text[from, to) (each ending in \n, the last one
-   * possibly not), the first numbered firstLine. Returns [lines consumed, records read].
-   */
-  onLines(text: string, from: number, to: number, firstLine: number, delimiter: string): [number, number] {
+  /** A block of records as byte spans (the tokenizer's): the hot path. */
+  onBatch(bt: FieldBatch): void {
     const cols = this.cols;
     const ncol = cols.length;
-    const starts = this.spanStarts;
-    const ends = this.spanEnds;
-    const dc = delimiter.charCodeAt(0);
-    let line = firstLine;
-    let records = 0;
-    let pos = from;
-    if (this.expectedBytes > 0 && to - from > 4096) {
-      // about as many rows as bytes / (bytes per line in this text); ~1 byte per character here
-      let nl = 0;
-      for (let i = text.indexOf("\n", from); i >= 0 && i < to; i = text.indexOf("\n", i + 1)) nl++;
-      const rows = (this.expectedBytes / Math.max(1, (to - from) / Math.max(1, nl))) * 1.05;
+    const { buf, starts, ends, recs, lines } = bt;
+    if (this.expectedBytes > 0 && bt.count - bt.first > 100) {
+      // size the duplicate tables once: about as many rows as bytes / bytes per record here
+      const span = ends[recs[bt.count]! - 1]! - starts[recs[bt.first]!]!;
+      const rows = (this.expectedBytes / Math.max(1, span / (bt.count - bt.first))) * 1.05;
       this.rowSet.reserve(rows);
       for (const k of this.keys.values()) k.set.reserve(rows);
       this.expectedBytes = 0;
     }
-    while (pos < to) {
-      // one pass over the line's characters: field boundaries and the line end
-      let j = 0;
-      let a = pos;
-      let i = pos;
-      for (; i < to; i++) {
-        const c = text.charCodeAt(i);
-        if (c === dc) {
-          if (j < ncol) {
-            starts[j] = a;
-            ends[j] = i;
-          }
-          j++;
-          a = i + 1;
-        } else if (c === 10) break;
-      }
-      const end = i;
-      // a CR before the LF belongs to the line end, not to the last field
-      const e = end > a && text.charCodeAt(end - 1) === 13 ? end - 1 : end;
-      const here = line;
-      line++;
-      const next = end + 1;
-      if (j === 0 && e === pos) {
-        pos = next;
-        continue;
-      }
-      if (j < ncol) {
-        starts[j] = a;
-        ends[j] = e;
-      }
-      j++;
-      pos = next;
-      records++;
-      if (j !== ncol) {
-        this.raggedRow(here, j);
+    for (let r = bt.first; r < bt.count; r++) {
+      const f0 = recs[r]!;
+      const line = lines[r]!;
+      const width = recs[r + 1]! - f0;
+      if (width !== ncol) {
+        this.raggedRow(line, width);
         continue;
       }
       this.rowsTotal++;
-      for (let k = 0; k < ncol; k++) cols[k]!.readSpan(text, starts[k]!, ends[k]!, here);
+      for (let k = 0; k < ncol; k++) cols[k]!.readBytes(buf, starts[f0 + k]!, ends[f0 + k]!, line);
       for (let q = 0; q < this.keyList.length; q++) {
-        const k = this.keyList[q]!;
-        hashSpan(text, starts[k]!, ends[k]!, dc);
+        const k = f0 + this.keyList[q]!;
+        hashByteFields(buf, starts, ends, k, k + 1);
         this.keyHash[2 * q] = HASH.a;
         this.keyHash[2 * q + 1] = HASH.b;
       }
-      hashSpan(text, starts[0]!, e, dc);
-      this.finishRow(here);
+      hashByteFields(buf, starts, ends, f0, f0 + ncol);
+      this.finishRow(line);
     }
-    return [line - firstLine, records];
   }
 
   /** After the columns of one row were read and HASH holds the row's hash (keys' in keyHash). */
@@ -281,7 +239,7 @@ export class Scan implements CsvSink {
       for (let q = 0; q < this.keyList.length; q++) {
         const k = this.keyList[q]!;
         const c = cols[k]!;
-        if (c.status !== 1) continue;
+        if (c.status !== FieldStatus.Usable) continue;
         const key = this.keys.get(k)!;
         const first = key.set.addOrGet(this.keyHash[2 * q]!, this.keyHash[2 * q + 1]!, line);
         key.lastRepeatOf = first;
@@ -300,7 +258,7 @@ export class Scan implements CsvSink {
       const useBits = nModel <= 30;
       for (let m = 0; m < nModel; m++) {
         const c = cols[model[m]!.index]!;
-        let ok = c.status === 1;
+        let ok = c.status === FieldStatus.Usable;
         if (m > 0 || !this.response) {
           const pi = this.response ? m - 1 : m;
           const p = this.predictors[pi]!;
@@ -320,7 +278,7 @@ export class Scan implements CsvSink {
             this.vals[pi] = li ?? -1;
           } else this.vals[pi] = c.value;
         }
-        if (c.status === 0) {
+        if (c.status === FieldStatus.Missing) {
           if (useBits) bits |= 1 << m;
           else mask += "1";
         } else if (!useBits) mask += "0";
@@ -329,14 +287,14 @@ export class Scan implements CsvSink {
           sole = m;
         }
       }
-      if (this.response && cols[this.response.index]!.status === 0) this.responseMissing.add(line);
+      if (this.response && cols[this.response.index]!.status === FieldStatus.Missing) this.responseMissing.add(line);
       if (useBits) {
         if (bits !== 0) this.bitPatterns.set(bits, (this.bitPatterns.get(bits) ?? 0) + 1);
       } else if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
       if (this.pm) {
         for (let q = 0; q < this.pmCols.length; q++) {
           const c = cols[this.pmCols[q]!]!;
-          this.pmRow[q] = c.status === 1 ? c.value : null;
+          this.pmRow[q] = c.status === FieldStatus.Usable ? c.value : null;
         }
         this.pm.addRow(this.pmRow);
       }
