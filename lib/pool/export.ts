@@ -32,7 +32,7 @@ export async function* poolCsvLines(pool: StudyPool, openFile: OpenFile, counter
   for (const m of pool.members) {
     let index: (number | undefined)[] | null = null;
     // the engine's reader (UTF-8 only, lib/readiness/decode.ts): an accepted file reads as it was checked
-    for await (const { kind, line: lineNo, fields: rec } of csvRecords(await openFile(m.fileKey))) {
+    for await (const { kind, line: lineNo, fields: rec } of csvRecords(await openFile(m.fileKey), m.delimiter ? { delimiter: m.delimiter } : {})) {
       if (kind === "header" || !index) {
         const header = rec.map((h) => h.trim());
         index = cols.map((c) => {

@@ -111,6 +111,8 @@ export interface ReadOptions {
   range?: { meta: CsvMeta; byteOffset: number; firstLine: number; endOffset?: number };
   /** a fast strict UTF-8 validator (Node: buffer.isUtf8) */
   isUtf8?: (b: Uint8Array) => boolean;
+  /** the delimiter when known (a report's `file.delimiter`); otherwise sniffed from the start */
+  delimiter?: string;
 }
 
 export interface ReadResult {
@@ -185,7 +187,7 @@ export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions
     if (!range) {
       skip = sniffBytes(all).bom;
       const s = sniffText(new TextDecoder().decode(all.subarray(skip, skip + SNIFF_BYTES)), last);
-      meta = { ...s, encoding: "utf-8", bom: skip > 0 };
+      meta = { ...s, ...(opts.delimiter ? { delimiter: opts.delimiter } : {}), encoding: "utf-8", bom: skip > 0 };
     }
     const tokLimits = { maxFieldBytes: limits.maxFieldChars, maxRecordBytes: limits.maxRecordChars };
     tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, { offset: bytes + skip, firstLine: range?.firstLine ?? 1, endOffset: range?.endOffset });

@@ -13,13 +13,13 @@ import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker, isMainThread, parentPort, workerData } from "node:worker_threads";
 import { checkBatch, hashPlan, now, reportFromScan, unreadableReport, type CheckOptions } from "./check";
-import { DEFAULT_LIMITS, readCsv, sniffText, type CsvMeta } from "./csv-reader";
-import { UnreadableError, sniffBytes } from "./decode";
+import { readCsv, type CsvMeta } from "./csv-reader";
+import { UnreadableError } from "./decode";
 import type { Plan } from "./plan";
 import type { ReadinessReport } from "./report";
 import { Scan } from "./scan";
 import { absorbPart, scanPart, type ScanPart } from "./scan-merge";
-import { Tokenizer, recordText } from "./tokenizer";
+import { survey } from "./split";
 
 /** files smaller than this are read by one thread */
 export const PARALLEL_MIN_BYTES = 16 << 20;
@@ -41,64 +41,6 @@ interface RangeJob {
 type RangeDone = { ok: true; part: ScanPart; records: number; start: number; stoppedAt: number; lineAfter: number };
 type RangeResult = RangeDone | { ok: false; message: string; fix: string; detail: Record<string, unknown> } | { progress: number };
 
-/** Line breaks (LF, CR, CRLF once each) in the file's bytes [from, to). */
-function countLines(fd: number, from: number, to: number): number {
-  const block = Buffer.alloc(Math.min(8 << 20, Math.max(1, to - from)));
-  let n = 0;
-  let prevCR = false;
-  for (let pos = from; pos < to; ) {
-    const got = fs.readSync(fd, block, 0, Math.min(block.length, to - pos), pos);
-    if (got <= 0) break;
-    const b = block.subarray(0, got);
-    for (let at = b.indexOf(10); at >= 0; at = b.indexOf(10, at + 1)) if (!(at === 0 ? prevCR : b[at - 1] === 13)) n++;
-    for (let at = b.indexOf(13); at >= 0; at = b.indexOf(13, at + 1)) n++;
-    prevCR = b[got - 1] === 13;
-    pos += got;
-  }
-  return n;
-}
-
-/**
- * The header (read by the tokenizer, quotes and all), the format, and a first guess of where
- * each worker's range starts: the line start after an even share of the bytes. A guess may
- * fall inside a quoted field; checkFile finds that out and reads that range again.
- */
-function survey(file: string, size: number, parts: number): { meta: CsvMeta; header: string[]; starts: { start: number; firstLine: number }[] } | null {
-  const fd = fs.openSync(file, "r");
-  try {
-    const head = Buffer.alloc(Math.min(size, 1 << 20));
-    fs.readSync(fd, head, 0, head.length, 0);
-    let bom = 0;
-    let header: string[] | null = null;
-    let meta: CsvMeta;
-    let tok: Tokenizer;
-    try {
-      bom = sniffBytes(head).bom;
-      const { delimiter, newline } = sniffText(head.subarray(bom, Math.min(head.length, bom + (1 << 16))).toString("utf8"), head.length === size);
-      meta = { delimiter, newline, encoding: "utf-8", bom: bom > 0 };
-      tok = new Tokenizer(delimiter.charCodeAt(0), { maxFieldBytes: DEFAULT_LIMITS.maxFieldChars, maxRecordBytes: DEFAULT_LIMITS.maxRecordChars }, { offset: bom, endOffset: bom + 1 });
-      tok.push(head.subarray(bom), head.length === size, (b) => (header ??= recordText(b, 0)));
-    } catch {
-      return null; // the single pass reports it
-    }
-    if (!header || tok.stoppedAt < 0 || tok.stoppedAt >= size) return null;
-    const starts = [{ start: tok.stoppedAt, firstLine: tok.currentLine }];
-    const window = Buffer.alloc(1 << 16);
-    for (let i = 1; i < parts; i++) {
-      const target = Math.max(starts[starts.length - 1]!.start + 1, Math.floor((i * size) / parts));
-      const got = fs.readSync(fd, window, 0, Math.min(window.length, size - target), target);
-      const nl = window.subarray(0, Math.max(0, got)).indexOf(10);
-      if (nl < 0 || target + nl + 1 >= size) break;
-      const prev = starts[starts.length - 1]!;
-      const start = target + nl + 1;
-      starts.push({ start, firstLine: prev.firstLine + countLines(fd, prev.start, start) });
-    }
-    return { meta, header, starts };
-  } finally {
-    fs.closeSync(fd);
-  }
-}
-
 /**
  * Check a file on disk. Files of PARALLEL_MIN_BYTES and more are split into one byte range per
  * worker thread (default: one per core), each read by the same reader; the gatherings are
@@ -110,7 +52,14 @@ function survey(file: string, size: number, parts: number): { meta: CsvMeta; hea
 export async function checkFile(
   file: string,
   plan: Plan,
-  opts: CheckOptions & { workers?: number; workerScript?: string; execArgv?: string[]; minBytes?: number } = {},
+  opts: CheckOptions & {
+    workers?: number;
+    workerScript?: string;
+    execArgv?: string[];
+    minBytes?: number;
+    /** read the ranges one after another in this thread (tests of the splitting) */
+    inThread?: boolean;
+  } = {},
 ): Promise<ReadinessReport> {
   const size = fs.statSync(file).size;
   const workers = opts.workers ?? defaultWorkers();
@@ -126,6 +75,7 @@ export async function checkFile(
   const run = (i: number, start: number, firstLine: number) =>
     new Promise<RangeResult>((resolve, reject) => {
       const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
+      if (opts.inThread) return resolve(readRange(job));
       const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
       w.on("message", (m: RangeResult) => {
         if ("progress" in m) {
@@ -137,7 +87,9 @@ export async function checkFile(
       w.on("error", reject);
       w.on("exit", (code) => (code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined));
     });
-  const first = await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)));
+  const first: RangeResult[] = [];
+  if (opts.inThread) for (const [i, r] of s.starts.entries()) first.push(await run(i, r.start, r.firstLine));
+  else first.push(...(await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)))));
   // in file order: each range must start where the one before it stopped
   const results: RangeResult[] = [];
   let expect = { start: s.starts[0]!.start, line: s.starts[0]!.firstLine };
@@ -176,9 +128,8 @@ export function isRangeWorker(): boolean {
   return !isMainThread && typeof workerData === "object" && workerData !== null && "tributaryRange" in workerData;
 }
 
-/** The worker side of checkFile: read the range, post the Scan's part. */
-export async function runRangeWorker(): Promise<void> {
-  const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
+/** Read one byte range: the Scan's part, where the range stopped, or why the file is unreadable. */
+async function readRange(job: RangeJob, onProgress?: (rows: number) => void): Promise<RangeResult> {
   const scan = new Scan(job.plan);
   scan.onHeader(job.header, job.meta);
   scan.expectedBytes = job.end - job.start;
@@ -186,14 +137,21 @@ export async function runRangeWorker(): Promise<void> {
     const read = await readCsv(fs.createReadStream(job.file, { start: job.start, highWaterMark: 1 << 20 }), scan, {
       range: { meta: job.meta, byteOffset: job.start, firstLine: job.firstLine, endOffset: job.end },
       isUtf8,
-      onProgress: (p) => parentPort!.postMessage({ progress: p.rows } satisfies RangeResult),
+      onProgress: onProgress && ((p) => onProgress(p.rows)),
     });
-    const part = scanPart(scan);
-    const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
-    const done: RangeDone = { ok: true, part, records: read.records, start: job.start, stoppedAt: read.stoppedAt, lineAfter: read.lineAfter };
-    parentPort!.postMessage(done satisfies RangeResult, transfer as ArrayBuffer[]);
+    return { ok: true, part: scanPart(scan), records: read.records, start: job.start, stoppedAt: read.stoppedAt, lineAfter: read.lineAfter };
   } catch (e) {
-    if (e instanceof UnreadableError) parentPort!.postMessage({ ok: false, message: e.message, fix: e.fix, detail: e.detail } satisfies RangeResult);
-    else throw e;
+    if (e instanceof UnreadableError) return { ok: false, message: e.message, fix: e.fix, detail: e.detail };
+    throw e;
   }
+}
+
+/** The worker side of checkFile: read the range, post the Scan's part. */
+export async function runRangeWorker(): Promise<void> {
+  const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
+  const r = await readRange(job, (rows) => parentPort!.postMessage({ progress: rows } satisfies RangeResult));
+  if (!("ok" in r) || !r.ok) return parentPort!.postMessage(r);
+  const part = r.part;
+  const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
+  parentPort!.postMessage(r, transfer as ArrayBuffer[]);
 }

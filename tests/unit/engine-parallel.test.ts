@@ -10,19 +10,8 @@ import { describe, expect, test } from "vitest";
 import { checkBatch, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
 import { HEADER, chunks, cleanRows, csvOf, plan } from "../fixtures/engine/data";
+import { close } from "../helpers/close";
 
-function close(x: unknown, y: unknown, at: string): void {
-  if (typeof x === "number" && typeof y === "number") {
-    expect(Math.abs(x - y), `${at}: ${x} vs ${y}`).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(x)));
-    return;
-  }
-  if (x && typeof x === "object" && y && typeof y === "object") {
-    const keys = new Set([...Object.keys(x), ...Object.keys(y)]);
-    for (const k of keys) close((x as Record<string, unknown>)[k], (y as Record<string, unknown>)[k], `${at}.${k}`);
-    return;
-  }
-  expect(y, at).toEqual(x);
-}
 
 describe("the byte-span hot path equals the string path", () => {
   test("a 30,000-row file with defects of every row-level kind, CRLF line ends and blank lines", async () => {
