@@ -3,10 +3,10 @@
  * complete cases into the least-squares factor, missingness patterns, duplicate rows and keys.
  */
 import { RowSample } from "./accumulators";
-import { HASH, HashSet64, hashByteFields, hashFields } from "./hashing";
+import { Hash64, HashSet64, hashByteFields, hashFields } from "./hashing";
 import { ColumnScan, FieldStatus } from "./column-scan";
 import type { CsvMeta, CsvSink } from "./csv-reader";
-import type { FieldBatch } from "./tokenizer";
+import type { FieldBatch } from "./fields";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
 import { thresholdsOf, type Plan, type Thresholds } from "./plan";
 import { LeastSquares, PatternMoments } from "./stats";
@@ -49,6 +49,8 @@ export class Scan implements CsvSink {
   /** line of the earlier equal row of the row just read (0: none) */
   lastRepeatOf = 0;
   private keyList: number[] = [];
+  /** the hash of the row (or key) just read */
+  private readonly hash = new Hash64();
   private keyHash = new Float64Array(0);
   predictors: Predictor[];
   design: Design;
@@ -181,11 +183,11 @@ export class Scan implements CsvSink {
       this.rowsTotal++;
       for (let j = 0; j < ncol; j++) cols[j]!.read(f[j]!, line);
       for (let q = 0; q < this.keyList.length; q++) {
-        hashFields(f, this.keyList[q]!, this.keyList[q]! + 1);
-        this.keyHash[2 * q] = HASH.a;
-        this.keyHash[2 * q + 1] = HASH.b;
+        hashFields(this.hash, f, this.keyList[q]!, this.keyList[q]! + 1);
+        this.keyHash[2 * q] = this.hash.a;
+        this.keyHash[2 * q + 1] = this.hash.b;
       }
-      hashFields(f);
+      hashFields(this.hash, f);
       this.finishRow(line);
     }
   }
@@ -220,20 +222,20 @@ export class Scan implements CsvSink {
       for (let k = 0; k < ncol; k++) cols[k]!.readBytes(buf, starts[f0 + k]!, ends[f0 + k]!, line);
       for (let q = 0; q < this.keyList.length; q++) {
         const k = f0 + this.keyList[q]!;
-        hashByteFields(buf, starts, ends, k, k + 1);
-        this.keyHash[2 * q] = HASH.a;
-        this.keyHash[2 * q + 1] = HASH.b;
+        hashByteFields(this.hash, buf, starts, ends, k, k + 1);
+        this.keyHash[2 * q] = this.hash.a;
+        this.keyHash[2 * q + 1] = this.hash.b;
       }
-      hashByteFields(buf, starts, ends, f0, f0 + ncol);
+      hashByteFields(this.hash, buf, starts, ends, f0, f0 + ncol);
       this.finishRow(line);
     }
   }
 
-  /** After the columns of one row were read and HASH holds the row's hash (keys' in keyHash). */
+  /** After the columns of one row were read and `hash` holds the row's hash (keys' in keyHash). */
   private finishRow(line: number): void {
     const cols = this.cols;
     {
-      const prev = this.rowSet.addOrGet(HASH.a, HASH.b, line);
+      const prev = this.rowSet.addOrGet(this.hash.a, this.hash.b, line);
       this.lastRepeatOf = prev;
       if (prev) {
         this.duplicateRows.add(line);

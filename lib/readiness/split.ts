@@ -5,7 +5,8 @@
 import fs from "node:fs";
 import { DEFAULT_LIMITS, sniffText, type CsvMeta } from "./csv-reader";
 import { sniffBytes } from "./decode";
-import { Tokenizer, recordText } from "./tokenizer";
+import { recordText } from "./fields";
+import { Tokenizer } from "./tokenizer";
 
 export /** Line breaks (LF, CR, CRLF once each) in the file's bytes [from, to). */
 function countLines(fd: number, from: number, to: number): number {
