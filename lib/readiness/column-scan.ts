@@ -4,7 +4,7 @@
  */
 import { ColumnAccumulators } from "./column-acc";
 import { FieldStatus, INFER_LIMIT, inferredTypeOf } from "./column-types";
-import { fieldText } from "./fields";
+import type { BlockText } from "./fields";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
 export { FieldStatus, INFER_LIMIT, LEVEL_CAP, OFFENDER_CAP, OFFENDER_CHARS, type InferCounts, type LevelAcc } from "./column-types";
@@ -15,7 +15,7 @@ export class ColumnScan extends ColumnAccumulators {
    * a category and ISO dates are read from the bytes without making a string; everything else
    * goes through read().
    */
-  readBytes(buf: Uint8Array, a: number, b: number, line: number): void {
+  readBytes(buf: Uint8Array, a: number, b: number, line: number, text: BlockText): void {
     const n = b - a;
     const kind = this.kind;
     if ((kind === "number" || kind === "integer") && n > 0 && n <= 16 && this.spanNumbers) {
@@ -89,7 +89,7 @@ export class ColumnScan extends ColumnAccumulators {
         return;
       }
     }
-    this.read(fieldText(buf, a, b), line);
+    this.read(text.get(a, b), line);
   }
 
   /** Read one field; sets this.status and this.value. */
