@@ -156,3 +156,15 @@ export function msFromEnv(name: string, fallback: number): number {
 export function rawSetting(name: keyof Env): string | undefined {
   return process.env[name];
 }
+
+/**
+ * How many threads the worker checks a large batch with (TRIBUTARY_CHECK_WORKERS, 1 to 16);
+ * unset means the engine's default, one per core.
+ */
+export function checkWorkersFromEnv(): number | undefined {
+  const raw = process.env.TRIBUTARY_CHECK_WORKERS;
+  if (raw === undefined || raw.trim() === "") return undefined;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1 || n > 16) throw new Error(`TRIBUTARY_CHECK_WORKERS must be a whole number from 1 to 16; it is "${raw}".`);
+  return n;
+}

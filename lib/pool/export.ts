@@ -3,11 +3,9 @@
  * stored files and streamed as one CSV with provenance columns, and a data dictionary of the
  * plan with the pool's figures. Cells are formula-safe (lib/format csvCell).
  */
-import { Readable } from "node:stream";
-import Papa from "papaparse";
 import { csvCell } from "@/lib/format";
-import type { PlanColumn } from "@/lib/readiness";
-import { poolFigures, type PoolFigures, type PoolMember, type StudyPool } from "./pool";
+import { csvRecords, type PlanColumn } from "@/lib/readiness";
+import { poolFigures, type PoolFigures, type StudyPool } from "./pool";
 
 /** Opens a stored file by key (the upload service's openStoredFile, or a stand-in in tests). */
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
@@ -20,26 +18,10 @@ function isNumeric(c: PlanColumn) {
   return c.type === "number" || c.type === "integer";
 }
 
-/** The data rows of one member's file as arrays of raw strings (header row first). */
-async function* recordsOf(member: PoolMember, openFile: OpenFile): AsyncGenerator<string[]> {
-  const web = await openFile(member.fileKey);
-  // the engine reads UTF-8 only (lib/readiness/decode.ts), so an accepted file is UTF-8
-  const parser = Papa.parse(Papa.NODE_STREAM_INPUT, {
-    delimiter: member.delimiter ?? "",
-    skipEmptyLines: true,
-    header: false,
-  });
-  const source = Readable.fromWeb(web as unknown as import("node:stream/web").ReadableStream<Uint8Array>);
-  // a string decoder keeps a character split across two chunks whole
-  source.setEncoding("utf8");
-  source.on("error", (e) => parser.destroy(e));
-  source.pipe(parser);
-  for await (const rec of parser as AsyncIterable<string[]>) yield rec;
-}
-
 /**
  * The pool's rows as CSV lines: provenance columns (organisation, batch id, batch title,
- * version, the row's line number in its file with the header as line 1), then the plan's
+ * version, the row's line number in its file as the readiness report gives it: the line the
+ * record starts on, the header being line 1, quoted line breaks and blank lines counted), then the plan's
  * columns in plan order. Values are as sent, except numeric columns of a file written with
  * decimal commas, whose commas become points so every row reads the same way.
  */
@@ -48,17 +30,16 @@ export async function* poolCsvLines(pool: StudyPool, openFile: OpenFile, counter
   yield line([...PROVENANCE_COLUMNS, ...cols.map((c) => c.name)]);
   for (const m of pool.members) {
     let index: (number | undefined)[] | null = null;
-    let lineNo = 1;
-    for await (const rec of recordsOf(m, openFile)) {
-      if (!index) {
-        const header = rec.map((h, i) => (i === 0 ? h.replace(/^\uFEFF/, "") : h).trim());
+    // the engine's reader (UTF-8 only, lib/readiness/decode.ts): an accepted file reads as it was checked
+    for await (const { kind, line: lineNo, fields: rec } of csvRecords(await openFile(m.fileKey), m.delimiter ? { delimiter: m.delimiter } : {})) {
+      if (kind === "header" || !index) {
+        const header = rec.map((h) => h.trim());
         index = cols.map((c) => {
           const at = header.indexOf(c.name);
           return at >= 0 ? at : undefined;
         });
         continue;
       }
-      lineNo++;
       const values = cols.map((c, j) => {
         const at = index![j];
         const raw = at === undefined ? "" : (rec[at] ?? "");

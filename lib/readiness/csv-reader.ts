@@ -1,17 +1,19 @@
 /**
- * Streaming CSV reading: bytes → UTF-8 text → records, in bounded memory.
- * Tokenizing is papaparse's Parser, fed text chunks; the partial record at the end of a
- * chunk is carried to the next one, and refused once it outgrows `maxRecordChars`.
+ * Streaming CSV reading for every path that reads a batch: bytes checked (file kind, strict
+ * UTF-8, no NUL), the format sniffed, then records from the one tokenizer (./tokenizer.ts),
+ * in bounded memory. Readers take the records as byte spans (the check's hot path) or as
+ * strings; row numbers come from here only.
  */
-import Papa from "papaparse";
-import { UnreadableError, Utf8Stream, checkBinary, sniffBytes } from "./decode";
+import { UnreadableError, Utf8Check, checkBinary, sniffBytes } from "./decode";
+import { recordText, type FieldBatch } from "./fields";
+import { Tokenizer } from "./tokenizer";
 
 export type ByteInput = ReadableStream<Uint8Array> | AsyncIterable<Uint8Array>;
 
 export interface CsvLimits {
-  /** longest field, in characters (spreadsheet cells hold at most 32,767) */
+  /** longest field, in bytes (spreadsheet cells hold at most 32,767 characters) */
   maxFieldChars: number;
-  /** longest record (one row, possibly spanning lines), in characters */
+  /** longest record (one row, possibly spanning lines), in bytes */
   maxRecordChars: number;
   /** widest header */
   maxColumns: number;
@@ -28,15 +30,13 @@ export interface CsvMeta {
 
 export interface CsvSink {
   onHeader(fields: string[], meta: CsvMeta): void;
-  /** records with the 1-based line on which each starts (header = line 1) */
-  onRecords(rows: string[][], lines: number[]): void;
-  /** optional fast path for quote-free text: complete lines text[from, to); returns [lines, records] */
-  onLines?(text: string, from: number, to: number, firstLine: number, delimiter: string): [number, number];
+  /** records as strings with the 1-based line on which each starts (header = line 1) */
+  onRecords?(rows: string[][], lines: number[]): void;
+  /** records as byte spans (preferred when present): a block at a time */
+  onBatch?(batch: FieldBatch): void;
 }
 
-const BYTE_SLICE = 1 << 18;
-const TEXT_CHUNK = 1 << 18;
-const SNIFF_CHARS = 1 << 16;
+const SNIFF_BYTES = 1 << 16;
 
 /** Iterate a web ReadableStream or any async iterable of byte chunks. */
 export async function* bytesOf(input: ByteInput): AsyncGenerator<Uint8Array> {
@@ -104,204 +104,135 @@ export function sniffText(sample: string, complete: boolean): { delimiter: strin
   return { delimiter: best, newline };
 }
 
-function countNewlines(s: string): number {
-  let n = 0;
-  let at = s.indexOf("\n");
-  while (at >= 0) {
-    n++;
-    at = s.indexOf("\n", at + 1);
-  }
-  if (n === 0 && s.indexOf("\r") >= 0) for (let i = 0; i < s.length; i++) if (s.charCodeAt(i) === 13) n++;
-  return n;
+export interface ReadOptions {
+  limits?: Partial<CsvLimits>;
+  onProgress?: (p: { rows: number; bytes: number }) => void;
+  /** reading a byte range of a larger file: its header and format are known, where it starts,
+   * and (optionally) the offset at or after which no record may start */
+  range?: { meta: CsvMeta; byteOffset: number; firstLine: number; endOffset?: number };
+  /** a fast strict UTF-8 validator (Node: buffer.isUtf8) */
+  isUtf8?: (b: Uint8Array) => boolean;
+  /** the delimiter when known (a report's `file.delimiter`); otherwise sniffed from the start */
+  delimiter?: string;
 }
 
-/** The refusal of a record that outgrew the cap: an open quote near its start, or a line without a break. */
-function tooLong(pending: string, line: number, maxRecordChars: number): UnreadableError {
-  const q = pending.indexOf('"');
-  const open = q >= 0 && q < 1000;
-  const mb = Math.max(1, Math.round(maxRecordChars / (1 << 20)));
-  return new UnreadableError(
-    open
-      ? `A quoted field that starts on line ${line} is never closed: more than ${mb} MB of text follows without the closing quote.`
-      : `Line ${line} runs on for more than ${mb} MB without a line break; this is not a line-based CSV file.`,
-    open
-      ? `Check line ${line}: every opening " needs a closing " (write a quote inside a quoted value as "").`
-      : "Export the data again as CSV with one row per line; check that the file is not a single long line of data or a different format.",
-    { kind: open ? "unclosed-quote" : "line-too-long", line },
-  );
+export interface ReadResult {
+  bytes: number;
+  records: number;
+  meta: CsvMeta | null;
+  blankLines: number;
+  /** file offset just past the last record read (a range read stops at the first record at or beyond its end) */
+  stoppedAt: number;
+  /** the line on which the record at `stoppedAt` starts */
+  lineAfter: number;
 }
+
+const EMPTY = () =>
+  new UnreadableError("The file is empty (0 bytes).", "Upload the exported CSV file itself; check that the export finished and the file has a header row and data.", { kind: "empty" });
+const NO_TEXT = () => new UnreadableError("The file holds no text (only blank lines or a byte-order mark).", "Upload the exported CSV file itself, with a header row and data.", { kind: "empty" });
 
 /**
  * Read a CSV byte stream into `sink`. Throws UnreadableError when the file cannot be read;
  * returns the totals when it can.
  */
-export async function readCsv(
-  input: ByteInput,
-  sink: CsvSink,
-  opts: {
-    limits?: Partial<CsvLimits>;
-    onProgress?: (p: { rows: number; bytes: number }) => void;
-    /** reading a byte range of a larger file: its header and format are known, and where it starts */
-    range?: { meta: CsvMeta; byteOffset: number; firstLine: number };
-    /** a faster decoder for pure-ASCII chunks (Node: Buffer's latin1), null when a chunk is not ASCII */
-    fastAscii?: (b: Uint8Array) => string | null;
-    /** "papaparse": tokenize everything with papaparse (no quote-free fast path) */
-    tokenizer?: "auto" | "papaparse";
-  } = {},
-): Promise<{ bytes: number; records: number; meta: CsvMeta | null; blankLines: number }> {
+export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions = {}): Promise<ReadResult> {
   const limits = { ...DEFAULT_LIMITS, ...opts.limits };
-  const utf8 = new Utf8Stream(opts.fastAscii);
-  let bytes = opts.range?.byteOffset ?? 0;
-  let head: Uint8Array | null = opts.range ? null : new Uint8Array(0);
-  let bom = false;
-  let text = "";
-  let meta: CsvMeta | null = opts.range?.meta ?? null;
-  let parser: Papa.Parser | null = null;
-  let line = opts.range?.firstLine ?? 1;
+  const utf8 = new Utf8Check(opts.isUtf8);
+  const range = opts.range;
+  let bytes = range?.byteOffset ?? 0;
+  let meta: CsvMeta | null = range?.meta ?? null;
+  let tok: Tokenizer | null = null;
+  let headerSeen = range !== undefined;
   let records = 0;
-  let blankLines = 0;
-  let headerSeen = opts.range !== undefined;
   let lastProgress = 0;
-  // whether a line break arrived since the pending text was last tokenized (searched in each new
-  // piece only: searching the pending text would flatten it again and again), and the length the
-  // pending text must reach before a parse that ended no record is tried again
-  let breakSince = false;
-  let retryAt = 0;
+  // bytes held back until the file kind and the delimiter are known
+  let held: Uint8Array[] = [];
+  let heldBytes = 0;
+  let any = false;
 
-  const feed = (last: boolean) => {
-    if (!parser && meta) parser = new Papa.Parser({ delimiter: meta.delimiter, newline: meta.newline as "\n", quoteChar: '"' });
-    if (!meta) {
-      if (!last && text.length < SNIFF_CHARS) return;
-      const s = sniffText(text.slice(0, SNIFF_CHARS), last);
-      meta = { ...s, encoding: "utf-8", bom };
-      parser = new Papa.Parser({ delimiter: s.delimiter, newline: s.newline as "\n", quoteChar: '"' });
-    }
-    if (!last && text.length < TEXT_CHUNK) return;
-    if (sink.onLines && opts.tokenizer !== "papaparse" && headerSeen && meta.newline !== "\r" && text.length <= limits.maxFieldChars && text.indexOf('"') < 0) {
-      // quote-free text: every line is one record; no tokenizer needed
-      const cut = last ? text.length : text.lastIndexOf("\n") + 1;
-      if (cut > 0) {
-        const [n, recs] = sink.onLines(text, 0, cut, line, meta.delimiter);
-        line += n;
-        records += recs;
-        text = text.substring(cut);
-        breakSince = false;
-        retryAt = 0;
-        if (opts.onProgress && (records - lastProgress >= 50_000 || last)) {
-          lastProgress = records;
-          opts.onProgress({ rows: records, bytes });
-        }
-        return;
-      }
-    }
-    if (!last && text.length <= limits.maxRecordChars) {
-      // No record can have ended since the last tokenizing: no line break in the pending text
-      // (a 20 MB line), or it has not doubled since a parse found no record end (an open quote).
-      // Tokenizing again would only re-read it; wait for more text, up to the record cap.
-      if (!breakSince || text.length < retryAt) return;
-    } else if (!last && !breakSince) {
-      throw tooLong(text, line, limits.maxRecordChars);
-    }
-    breakSince = false;
-    const res = parser!.parse(text, 0, !last) as { data: string[][]; errors: { code: string; row: number }[]; meta: { cursor: number } };
-    const hasQuote = text.indexOf('"') >= 0;
-    const checkFields = text.length > limits.maxFieldChars;
-    const rows: string[][] = [];
-    const lines: number[] = [];
-    const missingQuote = last ? res.errors.find((e) => e.code === "MissingQuotes") : undefined;
-    for (let r = 0; r < res.data.length; r++) {
-      const f = res.data[r]!;
-      const start = line;
-      let span = 1;
-      if (hasQuote) for (const v of f) if (v.length > 0 && (v.indexOf("\n") >= 0 || v.indexOf("\r") >= 0)) span += countNewlines(v);
-      line += span;
-      if (missingQuote && r === missingQuote.row) {
+  const emit = (b: FieldBatch) => {
+    let first = 0;
+    if (!headerSeen) {
+      headerSeen = true;
+      first = 1;
+      const f = recordText(b, 0);
+      if (f.length > limits.maxColumns) {
         throw new UnreadableError(
-          `A quoted field that starts on line ${start} is never closed: the rest of the file was read as one value.`,
-          `Check line ${start}: every opening " needs a closing " (write a quote inside a quoted value as "").`,
-          { kind: "unclosed-quote", line: start },
+          `The header has ${f.length.toLocaleString("en")} columns; the engine reads at most ${limits.maxColumns.toLocaleString("en")}.`,
+          "Check that the delimiter is right and that the table is not transposed (one row per observation, one column per variable); drop the columns the study does not use.",
+          { kind: "too-many-columns", columns: f.length },
         );
       }
-      if (f.length === 1 && f[0] === "") {
-        if (headerSeen) blankLines++;
-        continue;
-      }
-      if (checkFields) {
-        for (let j = 0; j < f.length; j++) {
-          if (f[j]!.length > limits.maxFieldChars) {
-            throw new UnreadableError(
-              `Line ${start}, field ${j + 1} holds ${f[j]!.length.toLocaleString("en")} characters; the engine reads fields of at most ${limits.maxFieldChars.toLocaleString("en")}.`,
-              `Check line ${start}: a quote may be left open, or the cell holds something other than data (a picture, a document). Remove it and export again.`,
-              { kind: "field-too-long", line: start },
-            );
-          }
-        }
-      }
-      if (!headerSeen) {
-        headerSeen = true;
-        if (f.length > limits.maxColumns) {
-          throw new UnreadableError(
-            `The header has ${f.length.toLocaleString("en")} columns; the engine reads at most ${limits.maxColumns.toLocaleString("en")}.`,
-            "Check that the delimiter is right and that the table is not transposed (one row per observation, one column per variable); drop the columns the study does not use.",
-            { kind: "too-many-columns", columns: f.length },
-          );
-        }
-        f[0] = f[0]!.replace(/^\uFEFF/, "");
-        sink.onHeader(f, meta!);
-        continue;
-      }
-      rows.push(f);
-      lines.push(start);
+      sink.onHeader(f, meta!);
     }
-    // a parse that ended no record is tried again only once the pending text has doubled
-    retryAt = res.meta.cursor === 0 && res.data.length === 0 ? text.length * 2 : 0;
-    text = text.substring(res.meta.cursor);
-    if (text.length > limits.maxRecordChars) throw tooLong(text, line, limits.maxRecordChars);
-    records += rows.length;
-    if (rows.length) sink.onRecords(rows, lines);
-    if (opts.onProgress && (records - lastProgress >= 50_000 || last)) {
+    if (b.count <= first) return;
+    records += b.count - first;
+    if (sink.onBatch) sink.onBatch({ ...b, first });
+    else {
+      const rows: string[][] = [];
+      const lines: number[] = [];
+      for (let r = first; r < b.count; r++) {
+        rows.push(recordText(b, r));
+        lines.push(b.lines[r]!);
+      }
+      sink.onRecords?.(rows, lines);
+    }
+    if (opts.onProgress && records - lastProgress >= 50_000) {
       lastProgress = records;
       opts.onProgress({ rows: records, bytes });
     }
   };
 
-  for await (const raw of bytesOf(input)) {
-    for (let off = 0; off < raw.length; off += BYTE_SLICE) {
-      let chunk = raw.subarray(off, Math.min(raw.length, off + BYTE_SLICE));
-      if (head) {
-        // Collect enough bytes to recognise the file kind before decoding anything.
-        const merged: Uint8Array = new Uint8Array(head.length + chunk.length);
-        merged.set(head);
-        merged.set(chunk, head.length);
-        if (merged.length < 8) {
-          head = merged;
-          continue;
-        }
-        bom = sniffBytes(merged).bom > 0;
-        head = null;
-        chunk = merged;
+  const start = (all: Uint8Array, last: boolean) => {
+    let skip = 0;
+    if (!range) {
+      skip = sniffBytes(all).bom;
+      const s = sniffText(new TextDecoder().decode(all.subarray(skip, skip + SNIFF_BYTES)), last);
+      meta = { ...s, ...(opts.delimiter ? { delimiter: opts.delimiter } : {}), encoding: "utf-8", bom: skip > 0 };
+    }
+    const tokLimits = { maxFieldBytes: limits.maxFieldChars, maxRecordBytes: limits.maxRecordChars };
+    tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, { offset: bytes + skip, firstLine: range?.firstLine ?? 1, endOffset: range?.endOffset });
+    return skip;
+  };
+
+  const feed = (chunk: Uint8Array, last: boolean) => {
+    if (!tok) {
+      if (chunk.length) held.push(chunk);
+      heldBytes += chunk.length;
+      if (!last && heldBytes < SNIFF_BYTES) return;
+      const all = new Uint8Array(heldBytes);
+      let o = 0;
+      for (const h of held) {
+        all.set(h, o);
+        o += h.length;
       }
-      checkBinary(chunk, bytes);
-      const piece = utf8.decode(chunk, bytes, false);
-      if (!breakSince && (piece.indexOf("\n") >= 0 || piece.indexOf("\r") >= 0)) breakSince = true;
-      text += piece;
-      bytes += chunk.length;
-      feed(false);
+      held = [];
+      if (all.length === 0 && !range) throw EMPTY();
+      const skip = start(all, last);
+      checkBinary(all, bytes);
+      utf8.check(all, bytes, last);
+      bytes += all.length;
+      tok!.push(all.subarray(skip), last, emit);
+      return;
     }
+    checkBinary(chunk, bytes);
+    utf8.check(chunk, bytes, last);
+    bytes += chunk.length;
+    tok.push(chunk, last, emit);
+  };
+
+  if (range) start(new Uint8Array(0), false);
+  for await (const raw of bytesOf(input)) {
+    if (raw.length === 0) continue;
+    any = true;
+    feed(raw, false);
+    if (tok && (tok as Tokenizer).stoppedAt >= 0) break;
   }
-  if (head) {
-    if (head.length === 0) {
-      throw new UnreadableError("The file is empty (0 bytes).", "Upload the exported CSV file itself; check that the export finished and the file has a header row and data.", { kind: "empty" });
-    }
-    bom = sniffBytes(head).bom > 0;
-    checkBinary(head, 0);
-    text += utf8.decode(head, 0, false);
-    bytes += head.length;
-  }
-  text += utf8.decode(new Uint8Array(0), bytes, true);
-  if (text.replace(/^\uFEFF/, "").trim() === "" && !headerSeen) {
-    throw new UnreadableError("The file holds no text (only blank lines or a byte-order mark).", "Upload the exported CSV file itself, with a header row and data.", { kind: "empty" });
-  }
-  feed(true);
-  return { bytes, records, meta, blankLines };
+  if (!any && !range) throw EMPTY();
+  const t = tok as Tokenizer | null;
+  if (!t || t.stoppedAt < 0) feed(new Uint8Array(0), true);
+  const done = tok as unknown as Tokenizer;
+  if (!headerSeen) throw NO_TEXT();
+  if (opts.onProgress) opts.onProgress({ rows: records, bytes });
+  return { bytes, records, meta, blankLines: done.blankLines, stoppedAt: done.stoppedAt, lineAfter: done.currentLine };
 }

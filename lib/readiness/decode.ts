@@ -67,64 +67,73 @@ export function checkBinary(chunk: Uint8Array, offset: number): void {
 }
 
 /**
- * Find where a chunk stops being valid UTF-8 (the first offending byte), or -1.
- * Used only to explain a decoding failure, so speed does not matter.
+ * Where bytes stop being valid UTF-8 (RFC 3629): the offset of the first byte of the first
+ * sequence that is malformed, overlong (`C0 80`, `E0 80 80`), a surrogate (`ED A0 80`) or
+ * above U+10FFFF (`F4 90 80 80`); −1 when all is valid. A sequence cut off by the end of `b`
+ * counts as invalid only when `complete`; otherwise `incompleteAt` receives where it starts.
  */
-export function firstInvalidUtf8(b: Uint8Array): number {
-  let i = 0;
-  while (i < b.length) {
+export function firstInvalidUtf8(b: Uint8Array, from = 0, complete = true, incompleteAt?: { at: number }): number {
+  let i = from;
+  const n = b.length;
+  while (i < n) {
     const c = b[i]!;
     if (c < 0x80) {
       i++;
       continue;
     }
-    let need = 0;
+    let need: number;
+    let lo = 0x80;
+    let hi = 0xbf;
     if (c >= 0xc2 && c <= 0xdf) need = 1;
-    else if (c >= 0xe0 && c <= 0xef) need = 2;
-    else if (c >= 0xf0 && c <= 0xf4) need = 3;
-    else return i;
+    else if (c >= 0xe0 && c <= 0xef) {
+      need = 2;
+      if (c === 0xe0) lo = 0xa0;
+      else if (c === 0xed) hi = 0x9f;
+    } else if (c >= 0xf0 && c <= 0xf4) {
+      need = 3;
+      if (c === 0xf0) lo = 0x90;
+      else if (c === 0xf4) hi = 0x8f;
+    } else return i;
     for (let k = 1; k <= need; k++) {
-      const d = b[i + k];
-      if (d === undefined) return -1;
-      if ((d & 0xc0) !== 0x80) return i;
+      const x = b[i + k];
+      if (x === undefined) {
+        if (complete) return i;
+        if (incompleteAt) incompleteAt.at = i;
+        return -1;
+      }
+      if (k === 1 ? x < lo || x > hi : (x & 0xc0) !== 0x80) return i;
     }
     i += need + 1;
   }
   return -1;
 }
 
-/**
- * Streaming UTF-8 decoder that turns a decoding failure into a provider-facing reason.
- * Decodes with the (fast) replacing decoder on whole sequences; only when a replacement
- * character appears is the chunk validated byte by byte (a file may hold U+FFFD legitimately).
- */
-export class Utf8Stream {
-  private decoder = new TextDecoder("utf-8", { ignoreBOM: false });
-  private carry: Uint8Array | null = null;
+const fatal = new TextDecoder("utf-8", { fatal: true });
+
+/** Strict UTF-8 validation of a stream of chunks, with the file offset of the first bad byte. */
+export class Utf8Check {
+  private carry: Uint8Array = new Uint8Array(0);
   private carryOffset = 0;
 
-  /** `fastAscii`: an optional faster decoder for pure-ASCII chunks (returns null otherwise). */
-  constructor(private fastAscii?: (b: Uint8Array) => string | null) {}
+  /** `isUtf8`: a fast whole-buffer validator (Node's buffer.isUtf8); the default decodes with a fatal decoder. */
+  constructor(private isUtf8?: (b: Uint8Array) => boolean) {}
 
-  decode(chunk: Uint8Array, offset: number, last: boolean): string {
+  /** Validate the next chunk, which starts at file offset `offset`. Throws UnreadableError. */
+  check(chunk: Uint8Array, offset: number, last: boolean): void {
     let b = chunk;
     let start = offset;
-    if (this.carry) {
+    if (this.carry.length) {
       b = new Uint8Array(this.carry.length + chunk.length);
       b.set(this.carry);
       b.set(chunk, this.carry.length);
       start = this.carryOffset;
-      this.carry = null;
+      this.carry = new Uint8Array(0);
     }
     let end = b.length;
     if (!last) {
-      // keep an incomplete trailing sequence for the next chunk
+      // an incomplete sequence at the end waits for the next chunk
       let i = b.length - 1;
-      let back = 0;
-      while (i >= 0 && back < 3 && (b[i]! & 0xc0) === 0x80) {
-        i--;
-        back++;
-      }
+      while (i >= 0 && b.length - i <= 3 && (b[i]! & 0xc0) === 0x80) i--;
       if (i >= 0 && b[i]! >= 0xc0) {
         const need = b[i]! >= 0xf0 ? 4 : b[i]! >= 0xe0 ? 3 : 2;
         if (b.length - i < need) end = i;
@@ -135,28 +144,31 @@ export class Utf8Stream {
       }
     }
     const part = end === b.length ? b : b.subarray(0, end);
-    const text = this.fastAscii?.(part) ?? this.decoder.decode(part);
-    if (text.indexOf("\uFFFD") >= 0) {
-      const at = firstInvalidUtf8(part);
-      if (at >= 0 || (last && truncatedTail(part))) {
-        const pos = start + (at >= 0 ? at : part.length - 1);
-        const byte = at >= 0 ? part[at]! : part[part.length - 1]!;
-        const latin = byte >= 0xa0 ? String.fromCharCode(byte) : null;
-        throw new UnreadableError(
-          `The file is not valid UTF-8: byte ${pos} (0x${byte.toString(16).padStart(2, "0")}) cannot be decoded${latin ? `; it looks like Latin-1 or Windows-1252 text (that byte would be “${latin}”)` : ""}.`,
-          "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8; in LibreOffice: Character set → Unicode (UTF-8)).",
-          { kind: "encoding", byte: pos },
-        );
-      }
-    }
-    return text;
+    if (this.valid(part)) return;
+    const at = firstInvalidUtf8(part);
+    if (at < 0) return;
+    const pos = start + at;
+    const byte = part[at]!;
+    const latin = byte >= 0xa0 ? String.fromCharCode(byte) : null;
+    throw new UnreadableError(
+      `The file is not valid UTF-8: byte ${pos} (0x${byte.toString(16).padStart(2, "0")}) cannot be decoded${latin ? `; it looks like Latin-1 or Windows-1252 text (that byte would be “${latin}”)` : ""}.`,
+      "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8; in LibreOffice: Character set → Unicode (UTF-8)).",
+      { kind: "encoding", byte: pos },
+    );
+  }
+
+  private valid(b: Uint8Array): boolean {
+    if (this.isUtf8) return this.isUtf8(b);
+    for (let i = 0; i < b.length; i++) if (b[i]! >= 0x80) return tryDecode(b);
+    return true;
   }
 }
 
-function truncatedTail(b: Uint8Array): boolean {
-  let i = b.length - 1;
-  while (i >= 0 && b.length - i <= 4 && (b[i]! & 0xc0) === 0x80) i--;
-  if (i < 0 || b[i]! < 0xc0) return false;
-  const need = b[i]! >= 0xf0 ? 4 : b[i]! >= 0xe0 ? 3 : 2;
-  return b.length - i < need;
+function tryDecode(b: Uint8Array): boolean {
+  try {
+    fatal.decode(b);
+    return true;
+  } catch {
+    return false;
+  }
 }

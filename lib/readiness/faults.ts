@@ -7,13 +7,15 @@
  * levels and spelling variants) is taken from the batch's readiness report.
  */
 import { checkBatch, hashPlan } from "./check";
-import type { ColumnScan } from "./column-scan";
-import { bytesOf, readCsv, type ByteInput, type CsvLimits, type CsvMeta } from "./csv-reader";
+import { FieldStatus, type ColumnScan } from "./column-scan";
+import { readCsv, type ByteInput, type CsvLimits, type CsvMeta } from "./csv-reader";
 import { quote } from "./findings";
 import { article } from "./findings-rows";
 import type { Plan } from "./plan";
 import type { Finding, ReadinessReport } from "./report";
+import { pulled } from "./records";
 import { Scan } from "./scan";
+import { recordText, type FieldBatch } from "./fields";
 
 /** One thing wrong with a row: the finding's code, the column (null for the whole row), in plain words. */
 export interface Fault {
@@ -39,7 +41,8 @@ export interface RowsAtFaultOptions {
   report?: ReadinessReport;
   /** the reading limits the check used (tests) */
   limits?: Partial<CsvLimits>;
-  fastAscii?: (b: Uint8Array) => string | null;
+  /** a fast strict UTF-8 validator (Node's buffer.isUtf8) */
+  isUtf8?: (b: Uint8Array) => boolean;
 }
 
 /** Codes a row can be at fault with (the row-level findings of lib/readiness/CHECKS.md). */
@@ -107,6 +110,11 @@ class FaultScan extends Scan {
     this.before = new Float64Array(this.cols.length * 6);
   }
 
+  /** this pass reads strings: each row is compared with the counters it moved */
+  override onBatch(b: FieldBatch): void {
+    for (let r = b.first; r < b.count; r++) this.onRecords([recordText(b, r)], [b.lines[r]!]);
+  }
+
   override onRecords(rows: string[][], lines: number[]): void {
     const cols = this.cols;
     const b = this.before;
@@ -149,7 +157,7 @@ class FaultScan extends Scan {
     if (c.mismatch.count > b[6 * j + 1]!) faults.push({ code: "type.mismatch", column: name, message: `${quote(v)} is not ${article(pc.type)}.` });
     if (c.comma.count > b[6 * j + 2]!) faults.push({ code: "number.decimal-comma", column: name, message: `${quote(v)} is written with a decimal comma; write it with a point.` });
     if (sentinelCount(c) > b[6 * j + 4]!) faults.push({ code: "number.sentinel", column: name, message: `${quote(v)} is the plan's missing-value code; leave the cell empty instead.` });
-    else if (c.status === 1 && this.d.suspected.get(name) === c.value) {
+    else if (c.status === FieldStatus.Usable && this.d.suspected.get(name) === c.value) {
       faults.push({ code: "number.sentinel", column: name, message: `${quote(v)} lies far outside the column's other values: probably a code for “missing”; leave the cell empty if it was not measured.` });
     }
     if (c.range.count > b[6 * j + 3]!) {
@@ -159,7 +167,7 @@ class FaultScan extends Scan {
     if ((c.date.ambiguous?.count ?? 0) > b[6 * j + 5]! && this.d.ambiguousDates.has(name)) {
       faults.push({ code: "date.ambiguous", column: name, message: `${quote(v)} could be day/month or month/day; write it as YYYY-MM-DD.` });
     }
-    if (c.status === 1 && c.kind === "category") {
+    if (c.status === FieldStatus.Usable && c.kind === "category") {
       const to = this.d.variants.get(name)?.get(v);
       if (to !== undefined) faults.push({ code: "level.variant", column: name, message: `${quote(v)} is a spelling variant: write ${quote(to)}.` });
       if (this.d.unknown.get(name)?.has(v)) faults.push({ code: "level.unknown", column: name, message: `${quote(v)} is not a level of the plan${pc.levels?.length ? ` (${pc.levels.join(", ")})` : ""}.` });
@@ -190,77 +198,21 @@ export async function* rowsAtFault(input: ByteInput | (() => ByteInput), plan: P
   let report = opts.report;
   if (!report) {
     if (typeof input !== "function") throw new Error("rowsAtFault needs the file's readiness report (opts.report) or a function that opens the file again.");
-    report = await checkBatch(input(), plan, { limits: opts.limits, fastAscii: opts.fastAscii });
+    report = await checkBatch(input(), plan, { limits: opts.limits, isUtf8: opts.isUtf8 });
   } else if (report.planHash !== (await hashPlan(plan))) {
     throw new Error("The readiness report was checked against a different data plan; check the file against this plan first.");
   }
   const source = typeof input === "function" ? input() : input;
   const decisions = decisionsOf(report);
   const scan = new FaultScan(plan, decisions);
+  const header = (): FaultLine => ({ kind: "header", line: 1, fields: scan.header, faults: decisions.header });
   let headerSent = false;
-  let done = false;
-  let failure: unknown = null;
-  let cancelled = false;
-  let wake: (() => void) | null = null;
-  let resume: (() => void) | null = null;
-  const signal = () => {
-    const w = wake;
-    wake = null;
-    w?.();
-  };
-  // hand the bytes to the reader only while the consumer keeps up
-  async function* gated(): AsyncGenerator<Uint8Array> {
-    for await (const chunk of bytesOf(source)) {
-      if (cancelled) return;
-      if (scan.out.length >= HIGH_WATER) {
-        signal();
-        await new Promise<void>((r) => (resume = r));
-        if (cancelled) return;
-      }
-      yield chunk;
-      signal();
+  for await (const item of pulled(source, scan, (bytes) => readCsv(bytes, scan, { limits: opts.limits, isUtf8: opts.isUtf8 }), HIGH_WATER)) {
+    if (!headerSent) {
+      headerSent = true;
+      yield header();
     }
+    yield item;
   }
-  const reading = readCsv(gated(), scan, { limits: opts.limits, fastAscii: opts.fastAscii, tokenizer: "papaparse" }).then(
-    () => {
-      done = true;
-      signal();
-    },
-    (e: unknown) => {
-      failure = e;
-      done = true;
-      signal();
-    },
-  );
-  try {
-    const headerFaults = decisions.header;
-    for (;;) {
-      if (scan.out.length > 0 || (done && !failure)) {
-        if (!headerSent && scan.header.length > 0 && (scan.out.length > 0 || headerFaults.length > 0)) {
-          headerSent = true;
-          yield { kind: "header", line: 1, fields: scan.header, faults: headerFaults };
-        }
-        const batch = scan.out;
-        scan.out = [];
-        for (const item of batch) yield item;
-        if (scan.out.length === 0 && done) break;
-        const r = resume as (() => void) | null;
-        resume = null;
-        r?.();
-        continue;
-      }
-      if (failure) throw failure;
-      await new Promise<void>((r) => {
-        wake = r;
-        if (done || scan.out.length > 0) signal();
-      });
-    }
-    if (failure) throw failure;
-  } finally {
-    cancelled = true;
-    const r = resume as (() => void) | null;
-    resume = null;
-    r?.();
-    if (!done) await reading;
-  }
+  if (!headerSent && decisions.header.length > 0 && scan.header.length > 0) yield header();
 }

@@ -28,6 +28,7 @@ export { REPORT_FORMAT, type ReadinessReport, type Finding, type Severity, type 
 export { buildDesign, predictorsOf, type Design, type DesignTerm, type Predictor } from "./design";
 export { FINDING_CODES, isFindingCode, type FindingCode } from "./codes";
 export type { ByteInput } from "./csv-reader";
+export { csvRecords, type CsvRecord } from "./records";
 export { rowsAtFault, ROW_FAULT_CODES, type Fault, type FaultLine, type RowsAtFaultOptions } from "./faults";
 export { UnreadableError } from "./decode";
 /** the seeded generator the demo data and tests draw from (Tommy Ettinger's Mulberry32) */

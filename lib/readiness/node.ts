@@ -1,34 +1,36 @@
 /**
  * Node-only helpers (not part of the framework-free core): check a file on disk, splitting a
- * large file into byte ranges read by worker threads whose gatherings are merged afterwards.
+ * large file into byte ranges read by worker threads (one per core by default) whose
+ * gatherings are merged afterwards.
  * The merged result equals one pass (same counts, rows, factor); quartiles beyond the exact
  * bound come from the parts' samples.
  */
-import { isAscii } from "node:buffer";
+import { isUtf8 } from "node:buffer";
 import fs from "node:fs";
+import os from "node:os";
 import { createRequire } from "node:module";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
 import { Worker, isMainThread, parentPort, workerData } from "node:worker_threads";
 import { checkBatch, hashPlan, now, reportFromScan, unreadableReport, type CheckOptions } from "./check";
-import { readCsv, sniffText, type CsvMeta, type CsvSink } from "./csv-reader";
-import { UnreadableError, sniffBytes } from "./decode";
+import { readCsv, type CsvMeta } from "./csv-reader";
+import { UnreadableError } from "./decode";
 import type { Plan } from "./plan";
 import type { ReadinessReport } from "./report";
 import { Scan } from "./scan";
 import { absorbPart, scanPart, type ScanPart } from "./scan-merge";
-
-/** Pure-ASCII bytes as a string through Buffer's latin1 decoding (identical to UTF-8 for ASCII, and faster). */
-export function fastAscii(b: Uint8Array): string | null {
-  return isAscii(b) ? Buffer.from(b.buffer, b.byteOffset, b.byteLength).toString("latin1") : null;
-}
+import { survey } from "./split";
 
 /** files smaller than this are read by one thread */
 export const PARALLEL_MIN_BYTES = 16 << 20;
 
+/** Worker threads used by default: one per core. */
+export const defaultWorkers = () => Math.max(1, Math.min(16, os.availableParallelism()));
+
 interface RangeJob {
   file: string;
   start: number;
+  /** no record starting at or after this offset is read by this range */
   end: number;
   plan: Plan;
   meta: CsvMeta;
@@ -36,96 +38,71 @@ interface RangeJob {
   firstLine: number;
 }
 
-type RangeResult = { ok: true; part: ScanPart; records: number } | { ok: false; message: string; fix: string; detail: Record<string, unknown> } | { progress: number };
-
-/** Where the data rows start, the header and format, and whether the file can be split safely. */
-function survey(file: string, size: number, parts: number): { meta: CsvMeta; header: string[]; lines: number; splits: { start: number; end: number; firstLine: number }[] } | null {
-  const fd = fs.openSync(file, "r");
-  try {
-    const head = Buffer.alloc(Math.min(size, 1 << 20));
-    fs.readSync(fd, head, 0, head.length, 0);
-    let bom = 0;
-    try {
-      bom = sniffBytes(head).bom;
-    } catch {
-      return null; // the single pass reports it
-    }
-    const nl = head.indexOf(10, bom);
-    if (nl < 0) return null;
-    const { delimiter, newline } = sniffText(head.subarray(bom, Math.min(head.length, bom + (1 << 16))).toString("utf8"), head.length === size);
-    if (newline === "\r") return null;
-    const header = head.subarray(bom, nl).toString("utf8").replace(/\r$/, "").split(delimiter);
-    const meta: CsvMeta = { delimiter, newline, encoding: "utf-8", bom: bom > 0 };
-    const dataStart = nl + 1;
-    // one sweep: a file with quotes is not split (a record may span lines); line numbers at the splits
-    const targets = Array.from({ length: parts - 1 }, (_, i) => Math.floor(((i + 1) * size) / parts));
-    const starts = [dataStart];
-    const firstLines = [2];
-    let line = 2;
-    let ti = 0;
-    const block = Buffer.alloc(8 << 20);
-    for (let pos = dataStart; pos < size; ) {
-      const n = fs.readSync(fd, block, 0, Math.min(block.length, size - pos), pos);
-      if (n <= 0) break;
-      const b = block.subarray(0, n);
-      if (b.indexOf(34) >= 0) return null;
-      for (let at = b.indexOf(10); at >= 0; at = b.indexOf(10, at + 1)) {
-        line++;
-        const next = pos + at + 1;
-        if (ti < targets.length && next >= targets[ti]! && next < size) {
-          starts.push(next);
-          firstLines.push(line);
-          while (ti < targets.length && next >= targets[ti]!) ti++;
-        }
-      }
-      pos += n;
-    }
-    const splits = starts.map((st, i) => ({ start: st, end: starts[i + 1] ?? size, firstLine: firstLines[i]! }));
-    return { meta, header, lines: line, splits };
-  } finally {
-    fs.closeSync(fd);
-  }
-}
+type RangeDone = { ok: true; part: ScanPart; records: number; start: number; stoppedAt: number; lineAfter: number };
+type RangeResult = RangeDone | { ok: false; message: string; fix: string; detail: Record<string, unknown> } | { progress: number };
 
 /**
- * Check a file on disk. Files of PARALLEL_MIN_BYTES and more without any double quote are
- * split at line breaks into one byte range per worker thread; `workerScript` is a module that
- * calls runRangeWorker() when it is not the main thread (default: the running script).
+ * Check a file on disk. Files of PARALLEL_MIN_BYTES and more are split into one byte range per
+ * thread (default: one per core; this thread reads the first), each read by the same reader; the gatherings are
+ * merged in file order into what one pass gives. A range whose guessed start turns out to lie
+ * inside a record (a quoted line break) is read again from the true record boundary, which the
+ * range before it reports. `workerScript` is a module that calls runRangeWorker() when it is
+ * not the main thread (default: the running script).
  */
 export async function checkFile(
   file: string,
   plan: Plan,
-  opts: CheckOptions & { workers?: number; workerScript?: string; execArgv?: string[]; minBytes?: number } = {},
+  opts: CheckOptions & {
+    workers?: number;
+    workerScript?: string;
+    execArgv?: string[];
+    minBytes?: number;
+    /** read the ranges one after another in this thread (tests of the splitting) */
+    inThread?: boolean;
+  } = {},
 ): Promise<ReadinessReport> {
   const size = fs.statSync(file).size;
-  // default: one thread; on a shared two-core machine the merge costs more than the second core gains
-  const workers = opts.workers ?? 1;
-  const single = () => checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, { fastAscii, expectedBytes: size, ...opts });
+  const workers = opts.workers ?? defaultWorkers();
+  const single = () => checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, { isUtf8, expectedBytes: size, ...opts });
   if (workers < 2 || size < (opts.minBytes ?? PARALLEL_MIN_BYTES)) return single();
   const t0 = now();
   const s = survey(file, size, workers);
-  if (!s || s.splits.length < 2) return single();
+  if (!s || s.starts.length < 2) return single();
   const planHash = await hashPlan(plan);
   const script = path.resolve(opts.workerScript ?? process.argv[1]!);
-  const progress = s.splits.map(() => 0);
-  const results = await Promise.all(
-    s.splits.map(
-      (r, i) =>
-        new Promise<RangeResult>((resolve, reject) => {
-          const job: RangeJob = { file, start: r.start, end: r.end, plan, meta: s.meta, header: s.header, firstLine: r.firstLine };
-          const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
-          w.on("message", (m: RangeResult) => {
-            if ("progress" in m) {
-              progress[i] = m.progress;
-              const rows = progress.reduce((a, b) => a + b, 0);
-              opts.onProgress?.({ rows, bytes: Math.min(size, Math.round((size * rows) / Math.max(1, s.lines - 2))) });
-            } else resolve(m);
-          });
-          w.on("error", reject);
-          w.on("exit", (code) => (code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined));
-        }),
-    ),
-  );
+  const progress = s.starts.map(() => 0);
+  const ends = s.starts.map((_, i) => s.starts[i + 1]?.start ?? size);
+  const report = (i: number, rows: number) => {
+    progress[i] = rows;
+    const all = progress.reduce((a, b) => a + b, 0);
+    opts.onProgress?.({ rows: all, bytes: Math.min(size, Math.round((size * all) / Math.max(1, s.rowsGuess))) });
+  };
+  const run = (i: number, start: number, firstLine: number) =>
+    new Promise<RangeResult>((resolve, reject) => {
+      const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
+      // this thread reads the first range itself while the workers read the others
+      if (opts.inThread || i === 0) return resolve(readRange(job, (rows) => report(i, rows)));
+      const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
+      w.on("message", (m: RangeResult) => {
+        if ("progress" in m) report(i, m.progress);
+        else resolve(m);
+      });
+      w.on("error", reject);
+      w.on("exit", (code) => (code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined));
+    });
+  const first: RangeResult[] = [];
+  if (opts.inThread) for (const [i, r] of s.starts.entries()) first.push(await run(i, r.start, r.firstLine));
+  else first.push(...(await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)))));
+  // in file order: each range must start where the one before it stopped
+  const results: RangeResult[] = [];
+  let expect = { start: s.starts[0]!.start, line: s.starts[0]!.firstLine };
+  for (let i = 0; i < first.length; i++) {
+    let r = first[i]!;
+    if ("ok" in r && r.ok && r.start !== expect.start) r = await run(i, expect.start, expect.line);
+    results.push(r);
+    if (!("ok" in r) || !r.ok) break;
+    expect = { start: r.stoppedAt, line: r.lineAfter };
+  }
   const failed = results.find((r) => "ok" in r && !r.ok);
   if (failed && "message" in failed) return unreadableReport(plan, planHash, new UnreadableError(failed.message, failed.fix, failed.detail), null, now() - t0);
   const scan = new Scan(plan);
@@ -154,24 +131,30 @@ export function isRangeWorker(): boolean {
   return !isMainThread && typeof workerData === "object" && workerData !== null && "tributaryRange" in workerData;
 }
 
-/** The worker side of checkFile: read the range, post the Scan's part. */
-export async function runRangeWorker(): Promise<void> {
-  const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
+/** Read one byte range: the Scan's part, where the range stopped, or why the file is unreadable. */
+async function readRange(job: RangeJob, onProgress?: (rows: number) => void): Promise<RangeResult> {
   const scan = new Scan(job.plan);
   scan.onHeader(job.header, job.meta);
   scan.expectedBytes = job.end - job.start;
-  const sink: CsvSink = scan;
   try {
-    const read = await readCsv(fs.createReadStream(job.file, { start: job.start, end: job.end - 1, highWaterMark: 1 << 20 }), sink, {
-      range: { meta: job.meta, byteOffset: job.start, firstLine: job.firstLine },
-      fastAscii,
-      onProgress: (p) => parentPort!.postMessage({ progress: p.rows } satisfies RangeResult),
+    const read = await readCsv(fs.createReadStream(job.file, { start: job.start, highWaterMark: 1 << 20 }), scan, {
+      range: { meta: job.meta, byteOffset: job.start, firstLine: job.firstLine, endOffset: job.end },
+      isUtf8,
+      onProgress: onProgress && ((p) => onProgress(p.rows)),
     });
-    const part = scanPart(scan);
-    const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
-    parentPort!.postMessage({ ok: true, part, records: read.records } satisfies RangeResult, transfer as ArrayBuffer[]);
+    return { ok: true, part: scanPart(scan), records: read.records, start: job.start, stoppedAt: read.stoppedAt, lineAfter: read.lineAfter };
   } catch (e) {
-    if (e instanceof UnreadableError) parentPort!.postMessage({ ok: false, message: e.message, fix: e.fix, detail: e.detail } satisfies RangeResult);
-    else throw e;
+    if (e instanceof UnreadableError) return { ok: false, message: e.message, fix: e.fix, detail: e.detail };
+    throw e;
   }
+}
+
+/** The worker side of checkFile: read the range, post the Scan's part. */
+export async function runRangeWorker(): Promise<void> {
+  const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
+  const r = await readRange(job, (rows) => parentPort!.postMessage({ progress: rows } satisfies RangeResult));
+  if (!("ok" in r) || !r.ok) return parentPort!.postMessage(r);
+  const part = r.part;
+  const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
+  parentPort!.postMessage(r, transfer as ArrayBuffer[]);
 }

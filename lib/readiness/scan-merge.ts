@@ -76,16 +76,20 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
     }
     const cross: number[] = [];
     const crossPairs: [number, number][] = [];
+    // a row first seen in this part but repeating an earlier part's: its repeats inside this part repeat that earlier row
+    const earlier = new Map<number, number>();
     HashSet64.fromRaw(raw, DUPLICATE_CAP).forEach((h1, h2, line) => {
       const prev = set.addOrGet(h1, h2, line);
       if (prev) {
         cross.push(line);
         crossPairs.push([line, prev]);
+        earlier.set(line, prev);
       }
     });
     const rows = [...partSample.rows, ...cross].sort((a, b) => a - b).slice(0, scan.t.sampleRows);
     sample.absorb({ count: partSample.count + cross.length, rows });
-    if (pairs) pairs.push(...[...partPairs, ...crossPairs].sort((a, b) => a[0] - b[0]).slice(0, Math.max(0, scan.t.sampleRows - pairs.length)));
+    const inPart = partPairs.map(([l, p]): [number, number] => [l, earlier.get(p) ?? p]);
+    if (pairs) pairs.push(...[...inPart, ...crossPairs].sort((a, b) => a[0] - b[0]).slice(0, Math.max(0, scan.t.sampleRows - pairs.length)));
     return set;
   };
   scan.rowSet = mergeSet(scan.rowSet, p.rowSet, scan.duplicateRows, scan.duplicateOf, p.duplicateRows, p.duplicateOf);

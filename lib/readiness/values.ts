@@ -4,11 +4,47 @@
  */
 
 const DECIMAL_COMMA = /^[+-]?(\d{1,3}(\.\d{3})+|\d+),\d+$|^[+-]?\d+,\d+([eE][+-]?\d+)?$/;
-const PLAIN_NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 
 /**
- * Parse a number written with a decimal point; NaN when it is not one. Leading and trailing
- * spaces are allowed; hex, `Infinity` and thousands separators are not.
+ * Whether t is a plain decimal number: [+-] digits [. digits] [e [+-] digits], with at least one
+ * digit before the exponent. One pass over the characters (a regular expression with nested
+ * digit runs backtracks quadratically on a long run of digits that ends in something else).
+ */
+function isPlainNumber(t: string): boolean {
+  const n = t.length;
+  let i = 0;
+  let c = t.charCodeAt(0);
+  if (c === 43 || c === 45) c = t.charCodeAt(++i);
+  let mantissa = 0;
+  while (c >= 48 && c <= 57) {
+    mantissa++;
+    c = t.charCodeAt(++i);
+  }
+  if (c === 46) {
+    c = t.charCodeAt(++i);
+    while (c >= 48 && c <= 57) {
+      mantissa++;
+      c = t.charCodeAt(++i);
+    }
+  }
+  if (mantissa === 0) return false;
+  if (c === 101 || c === 69) {
+    c = t.charCodeAt(++i);
+    if (c === 43 || c === 45) c = t.charCodeAt(++i);
+    let exp = 0;
+    while (c >= 48 && c <= 57) {
+      exp++;
+      c = t.charCodeAt(++i);
+    }
+    if (exp === 0) return false;
+  }
+  return i === n;
+}
+
+/**
+ * Parse a number written with a decimal point; NaN when it is not one, or when it is too large
+ * to be a finite double (`1e999`, a run of 400 digits). Leading and trailing spaces are
+ * allowed; hex, `Infinity` and thousands separators are not.
  */
 export const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
 
@@ -48,11 +84,11 @@ export function readNumber(s: string): number {
   if (((c0 >= 48 && c0 <= 57) || c0 === 45 || c0 === 43 || c0 === 46) && cl >= 48 && cl <= 57) {
     if (!(c0 === 48 && n > 2 && s.charCodeAt(1) > 57)) {
       const v = +s;
-      if (v === v) return v;
+      if (v === v) return v - v === 0 ? v : NaN;
     }
   }
   const t = s.trim();
-  if (t.length === 0 || !PLAIN_NUMBER.test(t)) return NaN;
+  if (t.length === 0 || !isPlainNumber(t)) return NaN;
   const v = +t;
   return Number.isFinite(v) ? v : NaN;
 }

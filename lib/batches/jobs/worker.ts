@@ -9,7 +9,8 @@
  */
 import os from "node:os";
 import type { Db } from "@/db/client";
-import { checkBatch, parsePlan, type ReadinessReport } from "@/lib/readiness";
+import { parsePlan, type ReadinessReport } from "@/lib/readiness";
+import { checkStream } from "@/lib/readiness/node-stream";
 import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";
@@ -32,6 +33,8 @@ export interface WorkerOptions {
   heartbeatEveryMs?: number;
   /** a file download that sends nothing for this long fails the attempt (default 120 s) */
   stallMs?: number;
+  /** threads per check of a large batch (default one per core; 1 checks in this thread) */
+  checkWorkers?: number;
   log?: (line: string) => void;
 }
 
@@ -157,7 +160,8 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
       const stallMs = opts.stallMs ?? 120_000;
       const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
       const stream = abortable(opened, stopJob.signal, stallMs);
-      report = await checkBatch(stream, parsed.plan, {
+      report = await checkStream(stream, parsed.plan, {
+        workers: opts.checkWorkers,
         fileName: job.fileName,
         onProgress: (p) => {
           progress = p;
