@@ -13,7 +13,7 @@ import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { enqueuePoolQuestions } from "@/lib/pool";
+import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import type { ReadinessReport } from "@/lib/readiness";
 import { decisionEmail } from "./decision-email";
 import { decisionInput } from "./schemas";

@@ -10,7 +10,7 @@ import type { DbOrTx } from "@/db/client";
 import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders } from "@/db/schema";
 import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
-import { enqueuePoolQuestions } from "@/lib/pool";
+import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 import { now } from "@/lib/core/clock";

@@ -29,6 +29,3 @@ export { getBatchTrailForUser, type TrailEntry } from "./queries-trail";
 export { listUploadTargets } from "./queries-upload-targets";
 export { retryFailedJob } from "./commands-jobs";
 export { openStoredFile, StoredFileMissingError, utapi } from "./intake/file-store";
-// the check queue's claim rules and worker id, shared by the pool's questions jobs in the same table
-export { afterFailure, claimable, MAX_ATTEMPTS } from "./jobs/check-jobs";
-export { defaultWorkerId } from "./jobs/worker";

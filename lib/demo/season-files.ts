@@ -17,7 +17,7 @@ export function seasonCsv(study: string, code: string, n: number, seed: number, 
 function barleyCsv(code: string, n: number, seed: number, defect: Defect): string {
   // Brackenridge farms after a clover ley: its nitrogen response differs from the other farms',
   // which the pool's questions (poolability, influence) show on the barley pool
-  const response = code === "BR" ? BRACKENRIDGE_NITROGEN_RESPONSE : 1;
+  const response = /^BR\d*$/.test(code) ? BRACKENRIDGE_NITROGEN_RESPONSE : 1;
   const rows = barleyRows(code, n, seed, response).map((row, i) => {
     switch (defect) {
       case "variants":

@@ -43,4 +43,3 @@ export { quantile, weekStart, HOUR_MS } from "./board-stats";
 export { composeDigest, digestData, type DigestData } from "./digest-compose";
 export { digestDue, runDigestSchedule } from "./digest-schedule";
 export { sendDigest, type DigestSent } from "./digest-send";
-export { enqueuePoolQuestions } from "./questions-queue";

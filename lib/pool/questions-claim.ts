@@ -6,9 +6,9 @@
 import { and, asc, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { checkJobs } from "@/db/schema";
-import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/batches";
+import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/core/queue";
 import type { DbOrTx } from "@/db/client";
-import { POOL_QUESTIONS_JOB } from "./questions-queue";
+import { POOL_QUESTIONS_JOB } from "@/lib/core/pool-questions-queue";
 
 export type PoolQuestionsJob = {
   jobId: number;

@@ -9,12 +9,12 @@ import { and, eq, isNull } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { isDbUnavailable } from "@/db/errors";
 import { batches, batchVersions, ifAcceptedQuestions, poolQuestions, studies } from "@/db/schema";
-import { defaultWorkerId } from "@/lib/batches";
+import { defaultWorkerId } from "@/lib/core/queue";
 import { sleep } from "@/lib/sleep";
 import { acceptedVersionIds, describesPool } from "./questions";
 import { computeStudyQuestions, storeStudyQuestions } from "./questions-compute";
 import { claimPoolQuestionsJob, failPoolQuestionsJob, type PoolQuestionsJob } from "./questions-claim";
-import { enqueuePoolQuestions } from "./questions-queue";
+import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 
 type Log = (line: string) => void;
 

@@ -7,7 +7,7 @@ import { and, eq } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, decisions, ifAcceptedQuestions, poolQuestions } from "@/db/schema";
 import type { PoolQuestions } from "@/lib/readiness";
-import { pendingPoolQuestions } from "./questions-queue";
+import { pendingPoolQuestions } from "@/lib/core/pool-questions-queue";
 
 export type StoredQuestions = {
   computedAt: Date;

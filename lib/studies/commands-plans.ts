@@ -3,7 +3,7 @@ import { and, eq, max } from "drizzle-orm";
 import { z } from "zod";
 import { dataPlans, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
-import { enqueuePoolQuestions } from "@/lib/pool";
+import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import { hashPlan } from "@/lib/readiness";
 import { parsePlan, type PlanIssue } from "@/lib/readiness";
 import { fail, ok, type Result } from "@/lib/result";

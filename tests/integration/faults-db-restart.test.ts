@@ -40,6 +40,9 @@ beforeAll(async () => {
   privateDb("create-db", NAME);
   url = privateDb("url", NAME).trim();
   expect(url).toContain(`:${PRIVATE_DB.port}/`);
+  // the services this file calls (recordBatchVersion) write through getDb(), which opens
+  // DATABASE_URL at its first use: point it at the private instance before that
+  process.env.DATABASE_URL = url;
   await loadTemplate(url, inject("databaseTemplateSql"));
   conn = openDb(url);
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-faults-db-"));

@@ -13,13 +13,13 @@
 import { and, asc, eq, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/core/audit";
-import { enqueuePoolQuestions } from "@/lib/pool";
+import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness";
 import { now as clockNow } from "@/lib/core/clock";
-import { MAX_ATTEMPTS, afterFailure, claimable } from "./queue-rules";
+import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/core/queue";
 
-export { afterFailure, claimable, MAX_ATTEMPTS, STALE_AFTER_MS } from "./queue-rules";
+export { MAX_ATTEMPTS, STALE_AFTER_MS } from "@/lib/core/queue";
 
 export interface ClaimedJob {
   jobId: number;

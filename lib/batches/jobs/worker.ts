@@ -7,7 +7,6 @@
  * claiming at once; the job in hand may finish within `stopGraceMs`, else its check is
  * abandoned and the job handed back to the queue with its attempt returned.
  */
-import os from "node:os";
 import type { Db } from "@/db/client";
 import { parsePlan, type ReadinessReport } from "@/lib/readiness";
 import { checkStream } from "@/lib/readiness/node-stream";
@@ -15,6 +14,9 @@ import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";
 import { withDbRetry } from "./db-retry";
+import { defaultWorkerId } from "@/lib/core/queue";
+
+export { defaultWorkerId };
 
 export type OpenFile = (key: string) => Promise<ReadableStream<Uint8Array>>;
 
@@ -36,10 +38,6 @@ export interface WorkerOptions {
   /** threads per check of a large batch (default one per core; 1 checks in this thread) */
   checkWorkers?: number;
   log?: (line: string) => void;
-}
-
-export function defaultWorkerId(): string {
-  return `${os.hostname()}:${process.pid}:${Math.random().toString(36).slice(2, 8)}`;
 }
 
 /** Thrown into the check when the worker stops before the check ends. */

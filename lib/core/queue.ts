@@ -1,8 +1,10 @@
 /**
- * The queue's rules, shared by every job kind in check_jobs (checks, pool questions): how many
+ * The job queue's rules, shared by every job kind in check_jobs (a batch's check, a study's
+ * pool questions) and so kept outside both features (no `server-only`: the worker loads it): how many
  * attempts, when a running job's worker counts as gone, which jobs may be claimed, and what a
  * failed attempt leaves behind.
  */
+import os from "node:os";
 import { and, eq, lte, or } from "drizzle-orm";
 import { checkJobs, type JOB_KINDS } from "@/db/schema";
 import { now as clockNow } from "@/lib/core/clock";
@@ -40,4 +42,9 @@ export function afterFailure(attempt: number, error: unknown) {
     finishedAt: final ? clockNow() : null,
     lockedBy: null,
   };
+}
+
+/** A worker's name in locked_by: host, process id and a random tag. */
+export function defaultWorkerId(): string {
+  return `${os.hostname()}:${process.pid}:${Math.random().toString(36).slice(2, 8)}`;
 }
