@@ -27,5 +27,5 @@ export { listQueueForUser, QUEUE_STATES, type QueueItem } from "./queries-queue"
 export { getVersionFileKeyForUser, getVersionReportForUser, type VersionReport } from "./queries-reports";
 export { getBatchTrailForUser, type TrailEntry } from "./queries-trail";
 export { listUploadTargets } from "./queries-upload-targets";
-export { retryFailedJob } from "./jobs/check-jobs";
+export { retryFailedJob } from "./commands-jobs";
 export { openStoredFile, StoredFileMissingError, utapi } from "./intake/file-store";

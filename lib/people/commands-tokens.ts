@@ -1,39 +1,17 @@
 import "server-only";
-import { and, desc, eq, isNull } from "drizzle-orm";
-import { getDb } from "@/db/client";
+import { and, eq, isNull } from "drizzle-orm";
 import { apiTokens } from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-tokens";
 import { write } from "@/lib/core/write";
 import { fail, ok, type Result } from "@/lib/result";
 import { apiTokenIdSchema, createApiTokenSchema } from "./schemas";
 
-export type ApiTokenListItem = {
-  id: number;
-  name: string;
-  prefix: string;
-  createdAt: Date;
-  lastUsedAt: Date | null;
-  revokedAt: Date | null;
-};
+import type { ApiTokenListItem } from "./queries";
+
+export type { ApiTokenListItem };
 
 const MAX_ACTIVE_TOKENS = 20;
 const NO_SUCH_TOKEN = "There is no such token.";
-
-/** The actor's own API tokens (never the token or its hash). */
-export async function listApiTokens(actorId: number): Promise<ApiTokenListItem[]> {
-  return getDb()
-    .select({
-      id: apiTokens.id,
-      name: apiTokens.name,
-      prefix: apiTokens.prefix,
-      createdAt: apiTokens.createdAt,
-      lastUsedAt: apiTokens.lastUsedAt,
-      revokedAt: apiTokens.revokedAt,
-    })
-    .from(apiTokens)
-    .where(eq(apiTokens.userId, actorId))
-    .orderBy(desc(apiTokens.createdAt));
-}
 
 /** Creates an API token for the actor (token.manage). The token is returned here once and never again. */
 export function createApiToken(actorId: number, input: unknown): Promise<Result<ApiTokenListItem & { token: string }>> {

@@ -5,7 +5,7 @@
  * sessions and the role → actions table are lib/auth/, which every feature uses.
  */
 export { describeLink, issueUserLink, requestPasswordReset, setPasswordWithLink, type LinkInfo } from "./commands-links";
-export { createApiToken, listApiTokens, revokeApiToken, type ApiTokenListItem } from "./commands-tokens";
+export { createApiToken, revokeApiToken } from "./commands-tokens";
 export {
   changeOwnPassword,
   changeRole,
@@ -14,6 +14,6 @@ export {
   updateUser,
   type UserRecord,
 } from "./commands-users";
-export { getUserForAdmin, listUsers, type UserListItem } from "./queries";
+export { getUserForAdmin, listApiTokens, listUsers, type ApiTokenListItem, type UserListItem } from "./queries";
 export { listAuditEvents, type AuditEventItem, type AuditFilter } from "./queries-audit";
 export { listOrganisations, type OrganisationListItem } from "./queries-organisations";

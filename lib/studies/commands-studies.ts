@@ -5,17 +5,11 @@ import { organisations, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
 import { AppError } from "@/lib/errors";
 import { fail, ok, type Result } from "@/lib/result";
+import type { StudySummary } from "./queries-detail";
 import { createStudySchema, updateStudySchema } from "./schemas";
 
-export type StudyRecord = {
-  id: number;
-  slug: string;
-  title: string;
-  description: string | null;
-  status: "open" | "closed";
-  teamOrganisationId: number | null;
-  currentPlanVersion: number | null;
-};
+/** A study's own row (a StudySummary without the joined team name and the creation time). */
+export type StudyRecord = Omit<StudySummary, "teamOrganisationName" | "createdAt">;
 
 const SLUG_TAKEN = "Another study already uses this address; choose another.";
 export const CHECK_MARKED = "Check the marked fields.";
