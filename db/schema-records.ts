@@ -30,7 +30,11 @@ export const auditEvents = mysqlTable(
     after: json("after"),
     createdAt: created(),
   },
-  (t) => [index("audit_object_idx").on(t.objectType, t.objectId), index("audit_batch_idx").on(t.batchId), index("audit_created_idx").on(t.createdAt)],
+  (t) => [
+    index("audit_object_idx").on(t.objectType, t.objectId),
+    index("audit_batch_idx").on(t.batchId),
+    index("audit_created_idx").on(t.createdAt),
+  ],
 );
 
 export const emailOutbox = mysqlTable(
@@ -53,14 +57,19 @@ export const emailOutbox = mysqlTable(
     sentAt: datetime("sent_at", { mode: "date", fsp: 3 }),
     createdAt: created(),
   },
-  (t) => [uniqueIndex("email_outbox_dedupe_uq").on(t.dedupeKey), index("email_outbox_status_idx").on(t.status, t.nextAttemptAt)],
+  (t) => [
+    uniqueIndex("email_outbox_dedupe_uq").on(t.dedupeKey),
+    index("email_outbox_status_idx").on(t.status, t.nextAttemptAt),
+  ],
 );
 
 export const apiTokens = mysqlTable(
   "api_tokens",
   {
     id: id(),
-    userId: ref("user_id").notNull().references(() => users.id),
+    userId: ref("user_id")
+      .notNull()
+      .references(() => users.id),
     name: varchar("name", { length: 100 }).notNull(),
     /** sha-256 of the token; the token itself is shown once */
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
@@ -77,7 +86,9 @@ export const userTokens = mysqlTable(
   "user_tokens",
   {
     id: id(),
-    userId: ref("user_id").notNull().references(() => users.id),
+    userId: ref("user_id")
+      .notNull()
+      .references(() => users.id),
     kind: mysqlEnum("kind", ["invite", "reset"]).notNull(),
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
     expiresAt: datetime("expires_at", { mode: "date", fsp: 3 }).notNull(),
