@@ -70,14 +70,13 @@ test("no page of the season prints a binary-float artefact", async ({ browser })
     const page = await (await browser.newContext()).newPage();
     await new SignInPage(page).signInAs(email);
     for (const url of urls) expect(await pageText(page, url), `${email} ${url}`).not.toMatch(FLOAT_ARTEFACT);
-    // every batch the role sees from its home
-    const batchLinks = await page
-      .goto(urls[0]!)
-      .then(() =>
-        page
-          .locator('a[href^="/batches/"]')
-          .evaluateAll((as) => [...new Set(as.map((a) => (a as HTMLAnchorElement).getAttribute("href")!))]),
-      );
+    // every batch the role sees from its home (the home's tables may stream in after the first byte)
+    await page.goto(urls[0]!);
+    const links = page.locator('a[href^="/batches/"]');
+    await expect(links.first()).toBeVisible();
+    const batchLinks = await links.evaluateAll((as) => [
+      ...new Set(as.map((a) => (a as HTMLAnchorElement).getAttribute("href")!)),
+    ]);
     expect(batchLinks.length, `${email} sees batches`).toBeGreaterThan(0);
     for (const href of batchLinks.slice(0, 6))
       expect(await pageText(page, href), `${email} ${href}`).not.toMatch(FLOAT_ARTEFACT);
