@@ -304,3 +304,5 @@ export const userTokens = mysqlTable(
   },
   (t) => [uniqueIndex("user_tokens_hash_uq").on(t.tokenHash)],
 );
+
+export * from "./schema-limits";

@@ -18,7 +18,9 @@ export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record
 /** Any thrown value as a safe JSON error; unexpected ones are logged, never echoed. */
 export function errorResponse(e: unknown, context: string): Response {
   const err = e instanceof AppError ? e : toAppError(e, context);
-  const headers: Record<string, string> | undefined = err.code === "unauthenticated" ? { "www-authenticate": 'Bearer realm="tributary"' } : undefined;
+  const headers: Record<string, string> = {};
+  if (err.code === "unauthenticated") headers["www-authenticate"] = 'Bearer realm="tributary"';
+  if (err.retryAfterSeconds !== undefined) headers["retry-after"] = String(err.retryAfterSeconds);
   return jsonError(err.code, err.message, err.fieldErrors, headers);
 }
 

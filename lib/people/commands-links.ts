@@ -14,6 +14,7 @@ import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { passwordSchema } from "@/lib/people/schemas";
 import { recordAudit, type DbOrTx } from "@/lib/core/audit";
 import { runService } from "@/lib/core/write";
+import { requireWithinLimits } from "@/lib/auth/rate-limit";
 import { z } from "zod";
 
 const LIFETIME_MS = { invite: 7 * 24 * 3600_000, reset: 3600_000 } as const;
@@ -47,12 +48,21 @@ export async function issueUserLink(tx: DbOrTx, p: { userId: number; kind: "invi
 
 /**
  * Asks for a reset link. Answers the same whether or not the address has an account, so the
- * form does not tell who is registered; inactive accounts get nothing.
+ * form does not tell who is registered; inactive accounts get nothing. Limited per client
+ * address and per e-mail (counted whether or not it has an account, so the limit tells nothing
+ * either), so nobody can flood an inbox with reset mails.
  */
-export async function requestPasswordReset(emailInput: unknown): Promise<Result<null>> {
+export async function requestPasswordReset(emailInput: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<null>> {
   return runService("requestPasswordReset", async () => {
     const email = z.string().trim().toLowerCase().pipe(z.email({ error: "Enter an e-mail address like name@example.org." })).safeParse(emailInput);
     if (!email.success) return fail("Check the highlighted fields.", { email: [email.error.issues[0]?.message ?? "Enter an e-mail address."] });
+    await requireWithinLimits(
+      [
+        { name: "resetPerAddress", subject: meta.ip },
+        { name: "resetPerTarget", subject: email.data },
+      ],
+      "password-reset requests from here or for this address",
+    );
     await getDb().transaction(async (tx) => {
       const [u] = await tx.select({ id: users.id, name: users.name, active: users.active }).from(users).where(eq(users.email, email.data));
       if (u?.active) await issueUserLink(tx, { userId: u.id, kind: "reset", email: email.data, name: u.name, actorId: null });

@@ -4,7 +4,7 @@ import { getDb } from "@/db/client";
 import { organisations, users, type UserRole } from "@/db/schema";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
 import { can, INVITABLE_ROLES } from "@/lib/auth/permissions";
-import { checkSignInAllowed, clearSignInFailures, recordSignInFailure } from "@/lib/auth/rate-limit";
+import { clearLimit, countEvent, peekLimit, requireWithinLimits, waitText } from "@/lib/auth/rate-limit";
 import { AppError } from "@/lib/errors";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { changePasswordSchema, createUserSchema, updateUserSchema, userIdSchema } from "@/lib/people/schemas";
@@ -62,9 +62,10 @@ function record(row: { id: number; email: string; name: string; role: UserRole; 
 /**
  * Creates a user, with a password or (without one) invited by e-mail to set their own. Admins (user.manage) create any role; leads (user.invite)
  * create providers and analysts. A provider belongs to a provider organisation; other roles
- * to a team organisation or none. A taken e-mail is a field error.
+ * to a team organisation or none. A taken e-mail is a field error. Invitations are rate-limited
+ * (lib/auth/rate-limit.ts) per `meta.ip`, the client address, and per invited e-mail.
  */
-export async function createUser(actorId: number, input: unknown): Promise<Result<UserRecord>> {
+export async function createUser(actorId: number, input: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<UserRecord>> {
   return runService("createUser", async () => {
     const parsed = createUserSchema.safeParse(input);
     if (!parsed.success) return fail("Check the highlighted fields.", fieldErrorsOf(parsed.error.issues));
@@ -76,6 +77,16 @@ export async function createUser(actorId: number, input: unknown): Promise<Resul
     if (!mayCreate) {
       if (can(actor.role, "user.invite")) return fail("You can invite providers and analysts only.", { role: ["Choose provider or analyst."] }, "forbidden");
       throw new AppError("forbidden");
+    }
+    // an invitation is an e-mail to someone else's inbox: limited per sender's address and per invitee
+    if (!data.password) {
+      await requireWithinLimits(
+        [
+          { name: "invitePerAddress", subject: meta.ip },
+          { name: "invitePerTarget", subject: data.email },
+        ],
+        "invitations from here or to this address",
+      );
     }
     const passwordHash = data.password ? await hashPassword(data.password) : null;
 
@@ -214,16 +225,16 @@ export async function changeOwnPassword(
     await loadActor(db, actorId);
     // an unattended open session must not become a way to guess the password
     const throttleKey = `user:${actorId}`;
-    const gate = checkSignInAllowed(throttleKey, "password-change");
+    const gate = await peekLimit("passwordChange", throttleKey);
     if (!gate.allowed) {
-      return fail(`Too many wrong current passwords. Try again in ${Math.ceil(gate.retryAfterSeconds / 60)} minutes.`, undefined, "conflict");
+      return fail(`Too many wrong current passwords. Try again in ${waitText(gate.retryAfterSeconds)}.`, undefined, "rate_limited");
     }
     const rows = await db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, actorId)).limit(1);
     if (!(await verifyPassword(parsed.data.currentPassword, rows[0]?.passwordHash))) {
-      recordSignInFailure(throttleKey, "password-change");
+      await countEvent("passwordChange", throttleKey);
       return fail("Check the highlighted fields.", { currentPassword: ["That is not your current password."] });
     }
-    clearSignInFailures(throttleKey, "password-change");
+    await clearLimit("passwordChange", throttleKey);
     const hash = await hashPassword(parsed.data.newPassword);
 
     return db.transaction(async (tx) => {
