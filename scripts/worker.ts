@@ -9,12 +9,11 @@
  * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  */
-import { exitUnlessEnvOk } from "@/lib/env";
+import { exitUnlessEnvOk, msFromEnv } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/pool/digest-schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
-import { msFromEnv } from "@/lib/batches/jobs/check-jobs";
 import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
 
 // refuse the demo secrets in production, and say what is missing, before touching anything
@@ -43,7 +42,7 @@ log(`started as ${workerId}`);
 await Promise.all([
   runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
-  runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
+  runDigestSchedule({ signal: controller.signal, log }),
 ]);
 await getPool().end().catch(() => undefined);
 log("stopped");

@@ -15,17 +15,9 @@ import type { Db } from "@/db/client";
 import { recordAudit } from "@/lib/core/audit";
 import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness/report";
+import { msFromEnv } from "@/lib/env";
 
 export const MAX_ATTEMPTS = 3;
-
-/** A positive whole number of milliseconds from the environment, else the default. */
-export function msFromEnv(name: string, fallback: number): number {
-  const raw = process.env[name];
-  if (raw === undefined || raw.trim() === "") return fallback;
-  const n = Number(raw);
-  if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
-  return n;
-}
 
 /**
  * A running job without a heartbeat for this long belongs to a dead worker and is claimed
@@ -236,21 +228,6 @@ export async function releaseJob(db: Db, job: ClaimedJob): Promise<boolean> {
       .update(batchVersions)
       .set({ state: "received", stateChangedAt: new Date(), progressRows: 0, progressBytes: 0 })
       .where(and(eq(batchVersions.id, job.batchVersionId), eq(batchVersions.state, "checking")));
-    return true;
-  });
-}
-
-/** An admin sends a failed job round again: three fresh attempts, from now. */
-export async function retryFailedJob(db: Db, actorId: number, jobId: number): Promise<boolean> {
-  return db.transaction(async (tx) => {
-    const [job] = await tx
-      .select({ id: checkJobs.id, status: checkJobs.status, batchVersionId: checkJobs.batchVersionId })
-      .from(checkJobs)
-      .where(eq(checkJobs.id, jobId))
-      .for("update");
-    if (!job || job.status !== "failed") return false;
-    await tx.update(checkJobs).set({ status: "queued", attempts: 0, runAfter: new Date(), finishedAt: null, lockedBy: null }).where(eq(checkJobs.id, jobId));
-    await recordAudit(tx, { actorId, action: "job.retry", objectType: "check_job", objectId: jobId, before: { status: "failed" }, after: { status: "queued" } });
     return true;
   });
 }
