@@ -4,4 +4,7 @@ import { datetime, int } from "drizzle-orm/mysql-core";
 
 export const id = () => int("id", { unsigned: true }).autoincrement().primaryKey();
 export const ref = (name: string) => int(name, { unsigned: true });
-export const created = () => datetime("created_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+export const created = () =>
+  datetime("created_at", { mode: "date", fsp: 3 })
+    .notNull()
+    .default(sql`CURRENT_TIMESTAMP(3)`);

@@ -31,7 +31,11 @@ export const auditEvents = mysqlTable(
     after: json("after"),
     createdAt: created(),
   },
-  (t) => [index("audit_object_idx").on(t.objectType, t.objectId), index("audit_batch_idx").on(t.batchId), index("audit_created_idx").on(t.createdAt)],
+  (t) => [
+    index("audit_object_idx").on(t.objectType, t.objectId),
+    index("audit_batch_idx").on(t.batchId),
+    index("audit_created_idx").on(t.createdAt),
+  ],
 );
 
 export const emailOutbox = mysqlTable(
@@ -48,20 +52,27 @@ export const emailOutbox = mysqlTable(
     batchId: ref("batch_id"),
     status: mysqlEnum("status", ["pending", "sending", "sent", "failed"]).notNull().default("pending"),
     attempts: int("attempts", { unsigned: true }).notNull().default(0),
-    nextAttemptAt: datetime("next_attempt_at", { mode: "date", fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    nextAttemptAt: datetime("next_attempt_at", { mode: "date", fsp: 3 })
+      .notNull()
+      .default(sql`CURRENT_TIMESTAMP(3)`),
     lastError: text("last_error"),
     messageId: varchar("message_id", { length: 300 }),
     sentAt: datetime("sent_at", { mode: "date", fsp: 3 }),
     createdAt: created(),
   },
-  (t) => [uniqueIndex("email_outbox_dedupe_uq").on(t.dedupeKey), index("email_outbox_status_idx").on(t.status, t.nextAttemptAt)],
+  (t) => [
+    uniqueIndex("email_outbox_dedupe_uq").on(t.dedupeKey),
+    index("email_outbox_status_idx").on(t.status, t.nextAttemptAt),
+  ],
 );
 
 export const apiTokens = mysqlTable(
   "api_tokens",
   {
     id: id(),
-    userId: ref("user_id").notNull().references(() => users.id),
+    userId: ref("user_id")
+      .notNull()
+      .references(() => users.id),
     name: varchar("name", { length: 100 }).notNull(),
     /** sha-256 of the token; the token itself is shown once */
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
@@ -78,7 +89,9 @@ export const userTokens = mysqlTable(
   "user_tokens",
   {
     id: id(),
-    userId: ref("user_id").notNull().references(() => users.id),
+    userId: ref("user_id")
+      .notNull()
+      .references(() => users.id),
     kind: mysqlEnum("kind", ["invite", "reset"]).notNull(),
     tokenHash: varchar("token_hash", { length: 64 }).notNull(),
     expiresAt: datetime("expires_at", { mode: "date", fsp: 3 }).notNull(),

@@ -42,7 +42,13 @@ function linkEmail(invite: boolean, name: string, link: string) {
   };
 }
 
-type LinkFor = { userId: number; kind: "invite" | "reset"; email: string; name: string; actorId: number | null };
+type LinkFor = {
+  userId: number;
+  kind: "invite" | "reset";
+  email: string;
+  name: string;
+  actorId: number | null;
+};
 
 /** Creates a link for the user and queues its e-mail, in the caller's transaction. */
 export async function issueUserLink(tx: DbOrTx, p: LinkFor): Promise<void> {
@@ -99,7 +105,8 @@ export function requestPasswordReset(emailInput: unknown, meta: { ip: string } =
         .select({ id: users.id, name: users.name, active: users.active })
         .from(users)
         .where(eq(users.email, email));
-      if (u?.active) await issueUserLink(tx, { userId: u.id, kind: "reset", email, name: u.name, actorId: null });
+      if (u?.active)
+        await issueUserLink(tx, { userId: u.id, kind: "reset", email, name: u.name, actorId: null });
       return ok(null);
     },
   });

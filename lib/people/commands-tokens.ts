@@ -14,7 +14,10 @@ const MAX_ACTIVE_TOKENS = 20;
 const NO_SUCH_TOKEN = "There is no such token.";
 
 /** Creates an API token for the actor (token.manage). The token is returned here once and never again. */
-export function createApiToken(actorId: number, input: unknown): Promise<Result<ApiTokenListItem & { token: string }>> {
+export function createApiToken(
+  actorId: number,
+  input: unknown,
+): Promise<Result<ApiTokenListItem & { token: string }>> {
   return write({
     name: "createApiToken",
     actorId,
@@ -27,7 +30,11 @@ export function createApiToken(actorId: number, input: unknown): Promise<Result<
         .from(apiTokens)
         .where(and(eq(apiTokens.userId, actor.id), isNull(apiTokens.revokedAt)));
       if (active.length >= MAX_ACTIVE_TOKENS) {
-        return fail(`You have ${MAX_ACTIVE_TOKENS} active tokens; revoke one you no longer use first.`, undefined, "conflict");
+        return fail(
+          `You have ${MAX_ACTIVE_TOKENS} active tokens; revoke one you no longer use first.`,
+          undefined,
+          "conflict",
+        );
       }
       const { token, hash, prefix } = generateApiToken();
       const createdAt = new Date();
@@ -36,14 +43,22 @@ export function createApiToken(actorId: number, input: unknown): Promise<Result<
         .values({ userId: actor.id, name, tokenHash: hash, prefix, createdAt })
         .$returningId();
       if (!row) throw new Error("insert into api_tokens returned no id");
-      await audit({ action: "token.create", objectType: "api_token", objectId: row.id, after: { name, prefix } });
+      await audit({
+        action: "token.create",
+        objectType: "api_token",
+        objectId: row.id,
+        after: { name, prefix },
+      });
       return ok({ id: row.id, name, prefix, createdAt, lastUsedAt: null, revokedAt: null, token });
     },
   });
 }
 
 /** Revokes one of the actor's own tokens; someone else's token is "not found". */
-export function revokeApiToken(actorId: number, tokenId: unknown): Promise<Result<{ id: number; revokedAt: Date }>> {
+export function revokeApiToken(
+  actorId: number,
+  tokenId: unknown,
+): Promise<Result<{ id: number; revokedAt: Date }>> {
   return write({
     name: "revokeApiToken",
     actorId,

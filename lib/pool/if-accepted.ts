@@ -26,7 +26,11 @@ export type IfAccepted = {
  * drift findings of it against the current pool. Null when the version is not ready for
  * review or has no stored engine state.
  */
-export async function getIfAccepted(db: Db, batchPublicId: string, versionNo: number): Promise<IfAccepted | null> {
+export async function getIfAccepted(
+  db: Db,
+  batchPublicId: string,
+  versionNo: number,
+): Promise<IfAccepted | null> {
   const [v] = await db
     .select({ ...versionColumns, studyId: batches.studyId, state: batchVersions.state })
     .from(batchVersions)
@@ -43,6 +47,13 @@ export async function getIfAccepted(db: Db, batchPublicId: string, versionNo: nu
   const before = await poolOf(loaded, plan);
   const after = await poolOf([...loaded, mine], plan);
   const drift = before.state ? driftFindings(before.state, mine.state, plan) : [];
-  return { batchPublicId, version: versionNo, studySlug: study.slug, before, after, drift, poolMembers: loaded.length };
+  return {
+    batchPublicId,
+    version: versionNo,
+    studySlug: study.slug,
+    before,
+    after,
+    drift,
+    poolMembers: loaded.length,
+  };
 }
-

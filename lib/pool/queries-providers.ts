@@ -40,20 +40,44 @@ export async function providerStats(db: Db): Promise<ProviderStats[]> {
     const v = Number(r.versions);
     const acc = Number(r.accepted ?? 0);
     const bo = Number(r.bounced ?? 0);
-    return { ...r, batches: b, versions: v, versionsPerBatch: b ? v / b : null, accepted: acc, bounced: bo, bounceRate: acc + bo ? bo / (acc + bo) : null };
+    return {
+      ...r,
+      batches: b,
+      versions: v,
+      versionsPerBatch: b ? v / b : null,
+      accepted: acc,
+      bounced: bo,
+      bounceRate: acc + bo ? bo / (acc + bo) : null,
+    };
   });
 }
 
-export type SilentProvider = { studySlug: string; studyTitle: string; organisationName: string; admittedAt: Date };
+export type SilentProvider = {
+  studySlug: string;
+  studyTitle: string;
+  organisationName: string;
+  admittedAt: Date;
+};
 
 /** Provider organisations admitted to a study that have sent no batch to it yet. */
 export async function silentProviders(db: Db): Promise<SilentProvider[]> {
   return db
-    .select({ studySlug: studies.slug, studyTitle: studies.title, organisationName: organisations.name, admittedAt: studyProviders.createdAt })
+    .select({
+      studySlug: studies.slug,
+      studyTitle: studies.title,
+      organisationName: organisations.name,
+      admittedAt: studyProviders.createdAt,
+    })
     .from(studyProviders)
     .innerJoin(studies, eq(studies.id, studyProviders.studyId))
     .innerJoin(organisations, eq(organisations.id, studyProviders.organisationId))
-    .leftJoin(batches, and(eq(batches.studyId, studyProviders.studyId), eq(batches.organisationId, studyProviders.organisationId)))
+    .leftJoin(
+      batches,
+      and(
+        eq(batches.studyId, studyProviders.studyId),
+        eq(batches.organisationId, studyProviders.organisationId),
+      ),
+    )
     .where(isNull(batches.id))
     .orderBy(studies.title, organisations.name);
 }
