@@ -5,8 +5,9 @@ import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
 
 const NO_STORE = { "cache-control": "no-store" };
 
-export function jsonData(data: unknown, status = 200): Response {
-  return Response.json({ data }, { status, headers: NO_STORE });
+/** `{ data }` with `status`; a 201 names what it created in `location` (the Location header). */
+export function jsonData(data: unknown, status = 200, location?: string): Response {
+  return Response.json({ data }, { status, headers: { ...NO_STORE, ...(location ? { location } : {}) } });
 }
 
 export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record<string, string[]>, extraHeaders?: Record<string, string>): Response {

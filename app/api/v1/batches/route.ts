@@ -44,16 +44,19 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   } finally {
     await upload.discard();
   }
+  const batchUrl = `/api/v1/batches/${done.batchPublicId}`;
   return jsonData(
     {
       batchId: done.batchPublicId,
       version: done.version,
       state: "received",
       links: {
-        batch: `/api/v1/batches/${done.batchPublicId}`,
-        report: `/api/v1/batches/${done.batchPublicId}/versions/${done.version}/report`,
+        batch: batchUrl,
+        report: `${batchUrl}/versions/${done.version}/report`,
       },
     },
     201,
+    // the version created, addressed by its report (a version has no address of its own)
+    `${batchUrl}/versions/${done.version}/report`,
   );
 });
