@@ -248,3 +248,6 @@ export const findingComments = mysqlTable(
 export * from "./schema-records";
 // the pool's questions, stored by the worker
 export * from "./schema-pool";
+
+// the rate limits' counters
+export * from "./schema-limits";

@@ -61,6 +61,8 @@ const base = z.object({
   /** the SMTP fake's HTTP side; when set, the demo mailbox page is shown */
   MAILBOX_URL: z.string().url().optional(),
   MAX_UPLOAD_MB: z.coerce.number().int().positive().default(200),
+  /** API calls one personal token may make per minute (lib/auth/rate-limit.ts) */
+  API_RATE_LIMIT_PER_MINUTE: z.coerce.number().int().positive().default(600),
   /** the host of the upload service's file URLs, when it is not the SDK's default (the fake: 127.0.0.1:3401) */
   UPLOADTHING_UFS_HOST: z.string().optional(),
   /** "1" when running the demo: allows the demo secrets under NODE_ENV=production */

@@ -11,6 +11,7 @@ export const ERROR_STATUS = {
   not_found: 404,
   conflict: 409,
   invalid: 422,
+  rate_limited: 429,
   unavailable: 503,
   internal: 500,
 } as const;
@@ -23,6 +24,7 @@ const DEFAULT_MESSAGES: Record<ErrorCode, string> = {
   not_found: "Not found.",
   conflict: "This conflicts with the current state; reload and try again.",
   invalid: "The request is not valid.",
+  rate_limited: "Too many requests. Wait a little and try again.",
   unavailable: "A service this needs is not available right now; try again shortly.",
   internal: "Something went wrong on our side. The error has been logged.",
 };
@@ -30,12 +32,19 @@ const DEFAULT_MESSAGES: Record<ErrorCode, string> = {
 export class AppError extends Error {
   readonly code: ErrorCode;
   readonly fieldErrors?: Record<string, string[]>;
+  /** for rate_limited: seconds until the limit's window ends (the Retry-After header) */
+  readonly retryAfterSeconds?: number;
 
-  constructor(code: ErrorCode, message?: string, options?: { cause?: unknown; fieldErrors?: Record<string, string[]> }) {
+  constructor(
+    code: ErrorCode,
+    message?: string,
+    options?: { cause?: unknown; fieldErrors?: Record<string, string[]>; retryAfterSeconds?: number },
+  ) {
     super(message ?? DEFAULT_MESSAGES[code], { cause: options?.cause });
     this.name = "AppError";
     this.code = code;
     this.fieldErrors = options?.fieldErrors;
+    this.retryAfterSeconds = options?.retryAfterSeconds;
   }
 
   get status(): number {

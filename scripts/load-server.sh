@@ -24,6 +24,8 @@ BIN="$TRIBUTARY_ROOT/node_modules/.bin"
 
 export_loopback_stack "$APP_PORT" 3421 "$DB_NAME" "load-only-secret-not-for-production-00000" "$LOAD_DIR"
 export MAX_UPLOAD_MB="${MAX_UPLOAD_MB:-200}"
+# the run measures the app under its own traffic, not the per-token API limit
+export API_RATE_LIMIT_PER_MINUTE="${API_RATE_LIMIT_PER_MINUTE:-1000000}"
 
 say() { echo "[load-server] $*"; }
 fail() { echo "[load-server] error: $*" >&2; exit 1; }

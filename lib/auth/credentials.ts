@@ -24,7 +24,7 @@ export async function authorizeCredentials(
   const password = typeof credentials?.password === "string" ? credentials.password : "";
   if (!email || !password || email.length > 320 || password.length > 200) return null;
 
-  const gate = checkSignInAllowed(email, meta.ip);
+  const gate = await checkSignInAllowed(email, meta.ip);
   if (!gate.allowed) {
     // the password is not even compared: a guesser learns nothing more until the window moves
     throw new SignInRefused(SIGN_IN_ERROR.tooManyAttempts);
@@ -47,14 +47,14 @@ export async function authorizeCredentials(
 
   const matches = await verifyPassword(password, row?.passwordHash);
   if (!row || !matches) {
-    recordSignInFailure(email, meta.ip);
+    await recordSignInFailure(email, meta.ip);
     return null;
   }
   // only told to someone who knows the password, so it does not reveal which accounts exist
   if (!row.active) {
     throw new SignInRefused(SIGN_IN_ERROR.deactivated);
   }
-  clearSignInFailures(email, meta.ip);
+  await clearSignInFailures(email, meta.ip);
   return { id: String(row.id), email: row.email, name: row.name, role: row.role, sv: row.sessionVersion };
 }
 

@@ -5,8 +5,9 @@ import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
 
 const NO_STORE = { "cache-control": "no-store" };
 
-export function jsonData(data: unknown, status = 200): Response {
-  return Response.json({ data }, { status, headers: NO_STORE });
+/** `{ data }` with `status`; a 201 names what it created in `location` (the Location header). */
+export function jsonData(data: unknown, status = 200, location?: string): Response {
+  return Response.json({ data }, { status, headers: { ...NO_STORE, ...(location ? { location } : {}) } });
 }
 
 export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record<string, string[]>, extraHeaders?: Record<string, string>): Response {
@@ -19,7 +20,9 @@ export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record
 /** Any thrown value as a safe JSON error; unexpected ones are logged, never echoed. */
 export function errorResponse(e: unknown, context: string): Response {
   const err = e instanceof AppError ? e : toAppError(e, context);
-  const headers: Record<string, string> | undefined = err.code === "unauthenticated" ? { "www-authenticate": 'Bearer realm="tributary"' } : undefined;
+  const headers: Record<string, string> = {};
+  if (err.code === "unauthenticated") headers["www-authenticate"] = 'Bearer realm="tributary"';
+  if (err.retryAfterSeconds !== undefined) headers["retry-after"] = String(err.retryAfterSeconds);
   return jsonError(err.code, err.message, err.fieldErrors, headers);
 }
 

@@ -1,5 +1,6 @@
 import "server-only";
 import { lookupApiToken } from "@/lib/auth/api-tokens";
+import { requireWithinLimits } from "@/lib/auth/rate-limit";
 import { can, type Action } from "@/lib/auth/permissions";
 import { getSessionUserFromRequest } from "@/lib/auth/request-session";
 import type { SessionUser } from "@/lib/auth/session";
@@ -28,6 +29,8 @@ export async function getApiActor(req: Request): Promise<ApiActor> {
             : "This API token is not valid.";
       throw new AppError("unauthenticated", message);
     }
+    // counted in the database, so a token's calls to every instance count together (429 past it)
+    await requireWithinLimits([{ name: "apiPerToken", subject: `token:${found.tokenId}` }], "API calls with this token");
     return { ...found.user, via: "token" };
   }
   const user = await getSessionUserFromRequest(req);

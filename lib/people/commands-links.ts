@@ -9,6 +9,7 @@ import { z } from "zod";
 import { getDb, type DbOrTx } from "@/db/client";
 import { userTokens, users } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
+import { requireWithinLimits } from "@/lib/auth/rate-limit";
 import { recordAudit } from "@/lib/core/audit";
 import { CHECK_FIELDS, write } from "@/lib/core/write";
 import { env } from "@/lib/env";
@@ -82,9 +83,11 @@ const resetEmailSchema = z
 
 /**
  * Asks for a reset link. Answers the same whether or not the address has an account, so the
- * form does not tell who is registered; inactive accounts get nothing.
+ * form does not tell who is registered; inactive accounts get nothing. Limited per client
+ * address and per e-mail (counted whether or not it has an account, so the limit tells nothing
+ * either), so nobody can flood an inbox with reset mails.
  */
-export function requestPasswordReset(emailInput: unknown): Promise<Result<null>> {
+export function requestPasswordReset(emailInput: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<null>> {
   return write({
     name: "requestPasswordReset",
     actorId: null,
@@ -93,6 +96,11 @@ export function requestPasswordReset(emailInput: unknown): Promise<Result<null>>
     input: emailInput,
     invalid: (issues) => fail(CHECK_FIELDS, { email: [issues[0]?.message ?? "Enter an e-mail address."] }),
     run: async ({ tx, input: email }) => {
+      const limits = [
+        { name: "resetPerAddress", subject: meta.ip },
+        { name: "resetPerTarget", subject: email },
+      ] as const;
+      await requireWithinLimits([...limits], "password-reset requests from here or for this address");
       const [u] = await tx
         .select({ id: users.id, name: users.name, active: users.active })
         .from(users)

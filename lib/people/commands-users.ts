@@ -4,7 +4,7 @@ import type { Tx } from "@/db/client";
 import { organisations, users, type UserRole } from "@/db/schema";
 import { hashPassword, verifyPassword } from "@/lib/auth/password";
 import { can, INVITABLE_ROLES } from "@/lib/auth/permissions";
-import { checkSignInAllowed, clearSignInFailures, recordSignInFailure } from "@/lib/auth/rate-limit";
+import { clearLimit, countEvent, peekLimit, requireWithinLimits, waitText } from "@/lib/auth/rate-limit";
 import { CHECK_FIELDS, refuse, write, type Audit } from "@/lib/core/write";
 import { AppError } from "@/lib/errors";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
@@ -89,9 +89,10 @@ async function organisationProblem(
  * Creates a user, with a password or (without one) invited by e-mail to set their own. Admins
  * (user.manage) create any role; leads (user.invite) create providers and analysts. A provider
  * belongs to a provider organisation; other roles to a team organisation or none. A taken
- * e-mail is a field error.
+ * e-mail is a field error. Invitations are rate-limited (lib/auth/rate-limit.ts) per `meta.ip`,
+ * the client address, and per invited e-mail.
  */
-export function createUser(actorId: number, input: unknown): Promise<Result<UserRecord>> {
+export function createUser(actorId: number, input: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<UserRecord>> {
   const taken = () => fail<UserRecord>(CHECK_FIELDS, { email: [EMAIL_TAKEN] }, "conflict");
   return write({
     name: "createUser",
@@ -108,6 +109,14 @@ export function createUser(actorId: number, input: unknown): Promise<Result<User
           { role: ["Choose provider or analyst."] },
           "forbidden",
         );
+      }
+      // an invitation is an e-mail to someone else's inbox: limited per sender's address and per invitee
+      if (!data.password) {
+        const checks = [
+          { name: "invitePerAddress", subject: meta.ip },
+          { name: "invitePerTarget", subject: data.email },
+        ] as const;
+        await requireWithinLimits([...checks], "invitations from here or to this address");
       }
       const existing = await tx
         .select({ id: users.id })
@@ -253,22 +262,18 @@ export function changeOwnPassword(
     run: async ({ tx, actor, input, audit }) => {
       // an unattended open session must not become a way to guess the password
       const throttleKey = `user:${actor.id}`;
-      const gate = checkSignInAllowed(throttleKey, "password-change");
+      const gate = await peekLimit("passwordChange", throttleKey);
       if (!gate.allowed) {
-        const minutes = Math.ceil(gate.retryAfterSeconds / 60);
-        return fail(
-          `Too many wrong current passwords. Try again in ${minutes} minutes.`,
-          undefined,
-          "conflict",
-        );
+        const wait = waitText(gate.retryAfterSeconds);
+        return fail(`Too many wrong current passwords. Try again in ${wait}.`, undefined, "rate_limited");
       }
       const target = await lockUser(tx, actor.id);
       const [row] = await tx.select({ hash: users.passwordHash }).from(users).where(eq(users.id, actor.id));
       if (!(await verifyPassword(input.currentPassword, row?.hash))) {
-        recordSignInFailure(throttleKey, "password-change");
+        await countEvent("passwordChange", throttleKey);
         return fail(CHECK_FIELDS, { currentPassword: ["That is not your current password."] });
       }
-      clearSignInFailures(throttleKey, "password-change");
+      await clearLimit("passwordChange", throttleKey);
       const passwordHash = await hashPassword(input.newPassword);
       const next = target.sessionVersion + 1;
       await tx

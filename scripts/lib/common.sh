@@ -36,14 +36,14 @@ export_loopback_stack() {
   export FAKE_UPLOAD_DIR="$data_dir/uploads" FAKE_MAIL_DIR="$data_dir/mail"
 }
 
-# Node 20.9 or newer (Next 16 needs it).
+# Node 20.12 or newer (Next 16 needs 20.9; Node's own .env parser, util.parseEnv, 20.12).
 require_node() {
-  command -v node >/dev/null 2>&1 || die "Node.js is not installed; install Node 20 (20.9 or newer) and npm first."
+  command -v node >/dev/null 2>&1 || die "Node.js is not installed; install Node 20 (20.12 or newer) and npm first."
   local v major minor
   v="$(node -p 'process.versions.node')"
   major="${v%%.*}"; minor="${v#*.}"; minor="${minor%%.*}"
-  if (( major < 20 || (major == 20 && minor < 9) )); then
-    die "Node $v is too old; Tributary needs Node 20.9 or newer."
+  if (( major < 20 || (major == 20 && minor < 12) )); then
+    die "Node $v is too old; Tributary needs Node 20.12 or newer."
   fi
 }
 
@@ -78,18 +78,22 @@ ensure_apt_packages() {
     || die "apt-get install ${missing[*]} failed (see above)."
 }
 
-# Load KEY=VALUE lines of a dotenv file into the environment without overriding variables already set.
+# Load a dotenv file into the environment without overriding variables already set. Node's own
+# parser reads it (scripts/lib/env-file.mjs), the same as process.loadEnvFile in db/migrate.ts, so
+# quotes and inline comments (`MAX_UPLOAD_MB=200 # megabytes`) mean the same everywhere. Next
+# would read .env once more with a parser of its own that expands `$NAME` even in variables set
+# before it (a password with a `$` would change), so this also sets the flag Next gives the
+# processes it starts once it has read the files (__NEXT_PROCESSED_ENV): Next reads no .env then.
 load_env_file() {
-  local file="$1" line key value
+  local file="$1" parts i key
   [[ -f "$file" ]] || return 0
-  while IFS= read -r line || [[ -n "$line" ]]; do
-    line="${line%$'\r'}"
-    [[ "$line" =~ ^[[:space:]]*(#|$) ]] && continue
-    [[ "$line" =~ ^[[:space:]]*(export[[:space:]]+)?([A-Za-z_][A-Za-z0-9_]*)=(.*)$ ]] || continue
-    key="${BASH_REMATCH[2]}"; value="${BASH_REMATCH[3]}"
-    if [[ "$value" =~ ^\"(.*)\"$ || "$value" =~ ^\'(.*)\'$ ]]; then value="${BASH_REMATCH[1]}"; fi
-    [[ -n "${!key+x}" ]] || export "$key=$value"
-  done < "$file"
+  mapfile -d '' -t parts < <(node "$TRIBUTARY_ROOT/scripts/lib/env-file.mjs" "$file")
+  wait $! || die "could not read $file (see above)."
+  for ((i = 0; i + 1 < ${#parts[@]}; i += 2)); do
+    key="${parts[i]}"
+    [[ -n "${!key+x}" ]] || export "$key=${parts[i + 1]}"
+  done
+  export __NEXT_PROCESSED_ENV=true
 }
 
 # True when something accepts TCP connections on 127.0.0.1:PORT.

@@ -68,6 +68,8 @@ describe("POST /api/v1/batches", () => {
     const body = (await res.json()) as { data: { batchId: string; version: number; links: { report: string } } };
     expect(body.data.version).toBe(1);
     expect(body.data.links.report).toBe(`/api/v1/batches/${body.data.batchId}/versions/1/report`);
+    // 201 names what it created (RFC 9110 §15.3.2)
+    expect(res.headers.get("location")).toBe(body.data.links.report);
 
     const job = await claimJob(db, "api-test");
     expect(job?.fileName).toBe("fennick.csv");

@@ -10,13 +10,13 @@ vi.mock("server-only", () => ({}));
 import { GET as listStudies } from "@/app/api/v1/studies/route";
 import { GET as getStudy } from "@/app/api/v1/studies/[id]/route";
 import { authorizeCredentials } from "@/lib/auth/credentials";
-import { resetSignInLimiter } from "@/lib/auth/rate-limit";
+import { resetRateLimits } from "@/lib/auth/rate-limit";
 import { DEMO_PASSWORD } from "@/lib/demo";
 import { call } from "./helpers/api";
 import { sessionCookieFor } from "./helpers/session";
 
 const ip = { ip: "198.51.100.77" };
-beforeAll(() => resetSignInLimiter());
+beforeAll(() => resetRateLimits());
 
 // README.md "Using Tributary, role by role": e-mail → role and the demo studies (by slug) each account works on
 const ACCOUNTS = [

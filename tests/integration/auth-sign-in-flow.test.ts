@@ -14,7 +14,7 @@ import { getDb } from "@/db/client";
 import { users } from "@/db/schema";
 import { GET as getMe } from "@/app/api/v1/me/route";
 import { authOptions } from "@/lib/auth/options";
-import { resetSignInLimiter, SIGN_IN_LIMIT } from "@/lib/auth/rate-limit";
+import { resetRateLimits, SIGN_IN_LIMIT } from "@/lib/auth/rate-limit";
 import { call } from "./helpers/api";
 import { callNextAuth, type Jar } from "./helpers/next-auth";
 import { SESSION_COOKIE } from "./helpers/session";
@@ -26,7 +26,7 @@ const HEADERS = { host: "127.0.0.1:3410", "x-forwarded-for": "192.0.2.44" };
 beforeAll(async () => {
   w = await createWorld();
 });
-beforeEach(() => resetSignInLimiter());
+beforeEach(() => resetRateLimits());
 
 /** One request to next-auth as the browser at 127.0.0.1:3410 would send it. */
 function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>, query: Record<string, string> = {}) {

@@ -15,7 +15,7 @@ process.env.NEXTAUTH_URL = "https://tributary.example.org";
 const { authOptions, secureCookiesFor } = await import("@/lib/auth/options");
 const { GET: getMe } = await import("@/app/api/v1/me/route");
 const { getPool } = await import("@/db/client");
-const { resetSignInLimiter } = await import("@/lib/auth/rate-limit");
+const { resetRateLimits } = await import("@/lib/auth/rate-limit");
 const { callNextAuth } = await import("./helpers/next-auth");
 type Jar = import("./helpers/next-auth").Jar;
 
@@ -43,7 +43,7 @@ describe("cookies over https", () => {
   });
 
   it("a sign-in sets __Secure-/__Host- cookies, HttpOnly, Secure, SameSite=Lax; the API reads the session back", async () => {
-    resetSignInLimiter();
+    await resetRateLimits();
     const jar: Record<string, string> = {};
     const csrf = await nextAuth(["csrf"], "GET", jar);
     const csrfToken = (csrf.body as { csrfToken: string }).csrfToken;

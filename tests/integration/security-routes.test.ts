@@ -13,7 +13,7 @@ vi.mock("server-only", () => ({}));
 vi.mock("next/cache", () => ({ revalidatePath: () => undefined, revalidateTag: () => undefined, updateTag: () => undefined, refresh: () => undefined }));
 
 import { getPool } from "@/db/client";
-import { resetSignInLimiter } from "@/lib/auth/rate-limit";
+import { resetRateLimits } from "@/lib/auth/rate-limit";
 import { ACTION_PROBES } from "./helpers/security-walk-actions";
 import { installFakeNextHeaders } from "./helpers/security-walk-request";
 import { routeProbe, type Probe, type RouteFn } from "./helpers/security-walk-routes";
@@ -90,7 +90,7 @@ describe.each(TABLE.map((r) => [`${r.handler} (${r.call})`, r] as const))("%s", 
       : [{ scope: "own", answer: cell[0]!.answer }];
     for (const expected of calls) {
       if (calls.some((c) => !c.answer)) throw new Error(`README line ${row.line}: the ${role} cell names only one scope.`);
-      resetSignInLimiter();
+      await resetRateLimits();
       const run = await probe.prepare({ w, role, scope: expected.scope, cookie: w.cookies[role] });
       const before = probe.mutates ? await dataSnapshot() : "";
       const got = await run();

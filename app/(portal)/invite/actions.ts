@@ -1,5 +1,6 @@
 "use server";
 
+import { requestAddress } from "@/lib/auth/request-address";
 import { getCurrentUser } from "@/lib/auth/session";
 import { fail, type Result } from "@/lib/result";
 import { createUser, type UserRecord } from "@/lib/people/commands-users";
@@ -8,5 +9,5 @@ import { createUser, type UserRecord } from "@/lib/people/commands-users";
 export async function inviteAction(input: { email: string; name: string; role: string; organisationId: string }): Promise<Result<UserRecord>> {
   const actor = await getCurrentUser();
   if (!actor) return fail("Your session has ended. Sign in again.", undefined, "unauthenticated");
-  return createUser(actor.id, { ...input, password: "" });
+  return createUser(actor.id, { ...input, password: "" }, { ip: await requestAddress() });
 }

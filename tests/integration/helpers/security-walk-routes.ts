@@ -108,6 +108,7 @@ export const ROUTE_PROBES: Record<string, (fn: RouteFn, url: string, method: str
     }),
     { mutates: true },
   ),
+  "GET /api/v1/openapi.json | —": plain,
   "GET /api/v1/me | —": plain,
   "GET /api/v1/studies | —": plain,
   "GET /api/v1/studies/[id] | —": byStudy,

@@ -2,6 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { can } from "@/lib/auth/permissions";
+import { requestAddress } from "@/lib/auth/request-address";
 import { getCurrentUser } from "@/lib/auth/session";
 import { changeRole, createUser, setActive } from "@/lib/people/commands-users";
 import { createUserSchema, roleSchema, userIdSchema } from "@/lib/people/schemas";
@@ -21,7 +22,7 @@ export async function createUserAction(_prev: CreateUserState, form: FormData): 
   if (!can(actor.role, "user.manage")) return fail("Only admins create accounts with a password; invite people instead.", undefined, "forbidden");
   const parsed = createUserSchema.safeParse(Object.fromEntries(form));
   if (!parsed.success) return fail("Check the marked fields.", fieldErrorsOf(parsed.error.issues));
-  const res = await createUser(actor.id, parsed.data);
+  const res = await createUser(actor.id, parsed.data, { ip: await requestAddress() });
   if (!res.ok) return res;
   revalidatePath("/admin/users");
   revalidatePath("/admin");

@@ -1,9 +1,9 @@
 // GET /api/v1/batches[?studyId=&state=] — the batches the caller may see, with their latest version's state.
 // POST /api/v1/batches — upload a batch file (multipart: study, file, batch?, label?); the same pipeline as the browser.
-import { z } from "zod";
-import { BATCH_STATES } from "@/db/schema";
 import { apiRoute } from "@/lib/http/route";
 import { parseQuery } from "@/lib/http/parse";
+import { batchesQuery } from "@/lib/http/queries";
+import { uploadFieldsSchema } from "@/lib/http/api-schemas";
 import { jsonData } from "@/lib/http/respond";
 import { listBatchesForUser } from "@/lib/batches/queries";
 import { AppError } from "@/lib/errors";
@@ -12,21 +12,9 @@ import { env } from "@/lib/env";
 import { uploadBatchViaApi } from "@/lib/batches/intake/api-upload";
 import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
 
-const querySchema = z.object({
-  studyId: z.coerce.number().int().positive("studyId is a positive whole number.").optional(),
-  state: z.enum(BATCH_STATES, { error: `state is one of: ${BATCH_STATES.join(", ")}.` }).optional(),
-  limit: z.coerce.number().int().min(1).max(2000, "limit is at most 2000.").optional(),
-});
-
 export const GET = apiRoute({ action: "batch.read" }, async ({ req, actor }) => {
-  const query = parseQuery(req, querySchema);
+  const query = parseQuery(req, batchesQuery);
   return jsonData(await listBatchesForUser(actor, query));
-});
-
-const uploadFields = z.object({
-  study: z.string().trim().min(1, "Name the study by its slug in the field 'study'."),
-  batch: z.string().trim().min(1).max(32).optional(),
-  label: z.string().trim().max(200, "Keep the label under 200 characters.").optional(),
 });
 
 export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) => {
@@ -43,7 +31,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   let done: Awaited<ReturnType<typeof uploadBatchViaApi>>;
   try {
     if (!upload.file) throw new AppError("invalid", "Attach the batch file in the field 'file'.", { fieldErrors: { file: ["Attach the batch file."] } });
-    const fields = uploadFields.safeParse({
+    const fields = uploadFieldsSchema.safeParse({
       study: upload.fields.study,
       batch: upload.fields.batch || undefined,
       label: upload.fields.label || undefined,
@@ -56,16 +44,19 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   } finally {
     await upload.discard();
   }
+  const batchUrl = `/api/v1/batches/${done.batchPublicId}`;
   return jsonData(
     {
       batchId: done.batchPublicId,
       version: done.version,
       state: "received",
       links: {
-        batch: `/api/v1/batches/${done.batchPublicId}`,
-        report: `/api/v1/batches/${done.batchPublicId}/versions/${done.version}/report`,
+        batch: batchUrl,
+        report: `${batchUrl}/versions/${done.version}/report`,
       },
     },
     201,
+    // the version created, addressed by its report (a version has no address of its own)
+    `${batchUrl}/versions/${done.version}/report`,
   );
 });

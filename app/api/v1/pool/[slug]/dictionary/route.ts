@@ -1,5 +1,5 @@
 // GET /api/v1/pool/:slug/dictionary[?format=csv] — the data dictionary (plan and pool figures); audited.
-import { z } from "zod";
+import { dictionaryQuery } from "@/lib/http/queries";
 import { AppError } from "@/lib/errors";
 import { parseParams, parseQuery } from "@/lib/http/parse";
 import { poolParams } from "@/lib/http/params";
@@ -14,14 +14,10 @@ import {
   recordPoolExport,
 } from "@/lib/pool";
 
-const query = z.object({
-  format: z.enum(["json", "csv"], { error: "format is json or csv." }).default("json"),
-});
-
 export const GET = apiRoute<{ slug: string }>({ action: "pool.read" }, async ({ req, actor, params }) => {
   const pool = await getPoolForUser(actor, parseParams(params, poolParams).slug);
   if (!pool) throw new AppError("not_found", NO_VISIBLE_POOL);
-  const { format } = parseQuery(req, query);
+  const { format } = parseQuery(req, dictionaryQuery);
   await recordPoolExport(actor.id, pool, "dictionary", format);
   const d = dataDictionary(pool);
   if (format === "json") return jsonData(d);

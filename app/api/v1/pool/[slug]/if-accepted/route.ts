@@ -1,5 +1,5 @@
 // GET /api/v1/pool/:slug/if-accepted?batch=&version= — the pool's figures with a version ready for review added, and drift.
-import { z } from "zod";
+import { ifAcceptedQuery } from "@/lib/http/queries";
 import { AppError } from "@/lib/errors";
 import { parseParams, parseQuery } from "@/lib/http/parse";
 import { poolParams } from "@/lib/http/params";
@@ -7,14 +7,9 @@ import { jsonData } from "@/lib/http/respond";
 import { apiRoute } from "@/lib/http/route";
 import { getIfAcceptedForUser, withoutState } from "@/lib/pool";
 
-const query = z.object({
-  batch: z.string().min(1, "batch is the batch's id.").max(32),
-  version: z.coerce.number().int().positive("version is a positive whole number."),
-});
-
 export const GET = apiRoute<{ slug: string }>({ action: "pool.read" }, async ({ req, actor, params }) => {
   const { slug } = parseParams(params, poolParams);
-  const q = parseQuery(req, query);
+  const q = parseQuery(req, ifAcceptedQuery);
   const r = await getIfAcceptedForUser(actor, q.batch, q.version);
   if (!r || r.studySlug !== slug) {
     throw new AppError(
