@@ -1,7 +1,7 @@
 import type { Config } from "tailwindcss";
 
 /**
- * The "estuary" palette (see DESIGN.md). Each colour that also carries meaning has a
+ * The "estuary" palette. Each colour that also carries meaning has a
  * `wash` (soft background) and, where the base fails WCAG AA as text on sand, an `ink`
  * shade that passes (contrast ratios checked against #F7F4EE and #FFFFFF).
  */

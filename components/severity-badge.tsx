@@ -31,7 +31,7 @@ export function SeverityShape({ severity, className }: { severity: Severity; cla
 }
 
 /**
- * A severity told three ways (DESIGN.md): shape (■ ◇ ○), word and colour.
+ * A severity told three ways: shape (■ ◇ ○), word and colour.
  * With `count` it reads "3 Blockers"; the word alone is what a screen reader hears.
  */
 export function SeverityBadge({ severity, count, className }: { severity: Severity; count?: number; className?: string }) {

@@ -1,5 +1,5 @@
 /**
- * The demo scenario of PRODUCT.md: organisations, sign-ins of every role, the two studies with
+ * The demo scenario (README.md "Using Tributary, role by role"): organisations, sign-ins of every role, the two studies with
  * version 1 of their data plans, and who reviews and supplies each study. Idempotent: rows are
  * matched by slug, e-mail or key, so running it again adds nothing; it restores the demo accounts
  * to the documented role, organisation, active flag and password.

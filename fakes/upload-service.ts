@@ -1,6 +1,6 @@
 /**
  * A local stand-in for the hosted upload service that the `uploadthing` SDK talks to
- * (protocol in /work/shared/UPLOADS.md). The real SDK runs unmodified against it; only
+ * (protocol in fakes/UPLOADS.md). The real SDK runs unmodified against it; only
  * UPLOADTHING_INGEST_URL / UPLOADTHING_API_URL point here. Files live on disk under
  * `dir` and survive a restart.
  */

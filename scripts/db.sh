@@ -108,18 +108,27 @@ GRANT ALL PRIVILEGES ON \`tributary%\`.* TO '$APP_USER'@'localhost';
 SQL
 }
 
+# How long start and stop wait for the server (half-second steps): minutes, so that a busy
+# machine makes them slower, not failed.
+WAIT_STEPS=600
+
+# Waits until the server answers. `pid` may still be the shell that is about to exec mariadbd
+# (its name is not mariadbd yet), so only its end counts as a failed start.
 wait_ready() {
-  local pid="$1" i
-  for ((i = 0; i < 120; i++)); do
+  local pid="$1" i stat
+  for ((i = 0; i < WAIT_STEPS; i++)); do
     ping && return 0
-    if ! pid_is "$pid" mariadbd; then
+    stat=""
+    { read -r stat < "/proc/$pid/stat"; } 2>/dev/null
+    stat="${stat##*) }"
+    if [[ -z "$stat" || "${stat:0:1}" == Z || "${stat:0:1}" == X ]]; then
       log_tail
       die "mariadbd exited during start-up (log above)."
     fi
     sleep 0.5
   done
   log_tail
-  die "mariadbd did not answer within 60 s (pid $pid; log above)."
+  die "mariadbd did not answer within $((WAIT_STEPS / 2)) s (pid $pid; log above)."
 }
 
 cmd_start() {
@@ -176,11 +185,11 @@ cmd_stop() {
   fi
   say "stopping MariaDB (pid $pid)"
   mariadb-admin "${client_args[@]}" --connect-timeout=5 shutdown >/dev/null 2>&1 || kill -TERM "$pid" 2>/dev/null || true
-  for ((i = 0; i < 120; i++)); do
+  for ((i = 0; i < WAIT_STEPS; i++)); do
     pid_is "$pid" mariadbd || { note "MariaDB stopped"; return 0; }
     sleep 0.5
   done
-  warn "mariadbd (pid $pid) did not stop within 60 s; sending SIGKILL"
+  warn "mariadbd (pid $pid) did not stop within $((WAIT_STEPS / 2)) s; sending SIGKILL"
   kill -KILL "$pid" 2>/dev/null || true
   sleep 0.5
   rm -f "$PIDFILE" "$SOCKET" "$SOCKET.lock"

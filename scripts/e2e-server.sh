@@ -50,9 +50,9 @@ else
   say "WARNING: fakes/run.ts not found; uploads and mail will not work in this run" >&2
 fi
 
-if [ -f lib/jobs/worker-main.ts ]; then
+if [ -f scripts/worker.ts ]; then
   # the check worker and e-mail sender, as in the product
-  node_modules/.bin/tsx lib/jobs/worker-main.ts &
+  node_modules/.bin/tsx scripts/worker.ts &
   pids+=($!)
 fi
 

@@ -102,7 +102,7 @@ done
 port_open "$APP_PORT" || fail "the app did not listen on port $APP_PORT within 2 minutes ($LOG_DIR/app.log)."
 
 # one worker, as npm start runs it
-start_part worker "$BIN/tsx" lib/jobs/worker-main.ts
+start_part worker "$BIN/tsx" scripts/worker.ts
 
 say "ready $APP_URL accounts=$ACCOUNTS"
 while :; do

@@ -146,11 +146,11 @@ done
 port_open "$app_port" || die "the app did not listen on port $app_port within 2 minutes ($LOG_DIR/app.log)."
 
 # ---- the worker (check queue and e-mail outbox)
-if [[ -f lib/jobs/worker-main.ts ]]; then
+if [[ -f scripts/worker.ts ]]; then
   say "starting the worker"
-  start_part worker "$LOG_DIR/worker.log" "$BIN/tsx" lib/jobs/worker-main.ts
+  start_part worker "$LOG_DIR/worker.log" "$BIN/tsx" scripts/worker.ts
 else
-  warn "lib/jobs/worker-main.ts is missing: uploaded batches will not be checked in this run."
+  warn "scripts/worker.ts is missing: uploaded batches will not be checked in this run."
 fi
 
 # ---- the demo batch files, sent through the upload service and the check queue (once; idempotent)

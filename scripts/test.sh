@@ -1,5 +1,7 @@
 #!/usr/bin/env bash
 # npm test: installs what is missing, then runs every suite and closes with `N passed, N failed`.
+#   0. lint (`npm run lint`: ESLint and `prettier --check`) and typecheck (`tsc --noEmit`), each
+#      counted as one failed suite when it fails; the tests run either way
 #   1. vitest, projects "unit" and "integration" (its own database on the project's MariaDB)
 #   2. next build (skipped when nothing the app is built from changed since the last build)
 #   3. Playwright end-to-end in Debian's Chromium (playwright.config.ts starts its own server)
@@ -14,7 +16,7 @@ totals_printed=0
 trap '(( totals_printed )) || { echo "the test run stopped before any suite finished (see above)"; echo "0 passed, 1 failed"; }' EXIT
 
 require_node
-ensure_apt_packages mariadb-server chromium r-base-core r-cran-car r-cran-data.table
+ensure_apt_packages mariadb-server chromium r-base-core r-cran-car r-cran-data.table r-cran-leaps
 ensure_node_modules
 bash scripts/db.sh start || die "MariaDB did not start (see above)."
 
@@ -27,6 +29,14 @@ export CI="${CI:-}"
 BIN="$TRIBUTARY_ROOT/node_modules/.bin"
 
 record() { printf '%s\t%s\t%s\t%s\n' "$1" "$2" "$3" "${4:-}" >> "$SUITES"; }
+
+# ---- 0. lint and typecheck: recorded steps, so that their failure shows in the totals
+say "lint: ESLint and Prettier (npm run lint)"
+npm run --silent lint </dev/null
+record step "lint (ESLint, prettier --check)" "$?"
+say "typecheck (tsc --noEmit)"
+"$BIN/tsc" --noEmit </dev/null
+record step "typecheck (tsc --noEmit)" "$?"
 
 # ---- 1. vitest (unit + integration)
 say "vitest: unit and integration"

@@ -1,7 +1,7 @@
 "use server";
 
 import type { Result } from "@/lib/result";
-import { requestPasswordReset, setPasswordWithLink } from "@/lib/services/user-links";
+import { requestPasswordReset, setPasswordWithLink } from "@/lib/people/commands-links";
 
 export async function requestResetAction(email: string): Promise<Result<null>> {
   return requestPasswordReset(email);

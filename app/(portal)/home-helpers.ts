@@ -2,7 +2,7 @@ import "server-only";
 import { redirect } from "next/navigation";
 import type { UserRole } from "@/db/schema";
 import { requireUser, type SessionUser } from "@/lib/auth/session";
-import type { BatchSummary } from "@/lib/dal/batches";
+import type { BatchSummary } from "@/lib/batches/queries";
 import type { BatchRow } from "@/components/home/batch-table";
 import { ROLE_HOME } from "@/components/portal/nav";
 

@@ -1,5 +1,5 @@
 /**
- * The intake flow (DESIGN.md): versions moving received → checking → ready / unreadable →
+ * The intake flow: versions moving received → checking → ready / unreadable →
  * accepted / bounced / superseded over a period, drawn as bands whose widths are the counts.
  * Every node is labelled with its word and count, so colour is never the only carrier.
  */

@@ -2,10 +2,10 @@
 /** Bounce rate and versions per batch by provider organisation: bars for the rate, the numbers as a table. */
 import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
-import type { ProviderStats } from "@/lib/board/queries";
+import type { ProviderStats } from "@/lib/pool/queries-board";
 import { formatDecimal } from "@/lib/format";
 
-/** A row of the board's provider figures (lib/board/queries.ts), keyed for the table. */
+/** A row of the board's provider figures (lib/pool/queries-board.ts), keyed for the table. */
 export type ProviderRow = Omit<ProviderStats, "studySlug"> & { id: string };
 
 const pct = (x: number | null) => (x === null ? "–" : `${Math.round(x * 100)} %`);

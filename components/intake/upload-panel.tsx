@@ -7,13 +7,13 @@ import { useMemo, useRef, useState } from "react";
 import { useRouter } from "next/navigation";
 import { toast } from "sonner";
 import { generateReactHelpers } from "@uploadthing/react";
-import type { BatchFileRouter } from "@/lib/uploads/file-router";
+import type { BatchFileRouter } from "@/lib/batches/intake/file-router";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
-import { batchFileProblem } from "@/lib/intake/file-rules";
+import { batchFileProblem } from "@/lib/batches/intake/file-rules";
 import { formatBytes } from "@/lib/format";
 import { usePrecheck } from "./use-precheck";
-import { uploadErrorMessage } from "@/lib/intake/upload-errors";
+import { uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
 

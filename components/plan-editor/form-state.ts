@@ -34,7 +34,10 @@ export type PlanDraft = {
   outcomeMean: string;
   outcomeSd: string;
   selectionPlanned: boolean;
+  /** a count of candidate parameters, or candidate term names separated by commas */
   selectionCandidates: string;
+  /** terms forced into every model of the selection, kept as the plan has them (null: none listed) */
+  selectionRequired: string[] | null;
 };
 
 let counter = 0;
@@ -81,7 +84,8 @@ export function draftFromPlan(input: PlanInput | null | undefined, keyPrefix = "
     outcomeMean: numText(p.outcome?.mean),
     outcomeSd: numText(p.outcome?.sd),
     selectionPlanned: p.selection !== undefined,
-    selectionCandidates: numText(p.selection?.candidates),
+    selectionCandidates: Array.isArray(p.selection?.candidates) ? p.selection.candidates.join(", ") : numText(p.selection?.candidates),
+    selectionRequired: p.selection?.required ? [...p.selection.required] : null,
   };
 }
 
@@ -143,9 +147,15 @@ export function planFromDraft(d: PlanDraft): { plan: PlanInput; errors: Record<s
     else plan.outcome = { mean, sd };
   }
   if (d.selectionPlanned) {
-    const n = num(d.selectionCandidates, "selection.candidates", errors, "The candidate count");
-    if (n === undefined && !errors["selection.candidates"]) (errors["selection.candidates"] ??= []).push("Give the number of candidate parameters the selection starts from.");
-    else if (n !== undefined) plan.selection = { candidates: n };
+    const text = d.selectionCandidates.trim();
+    const names = text.split(",").map((t) => t.trim()).filter((t) => t !== "");
+    const required = d.selectionRequired ? { required: d.selectionRequired } : {};
+    if (text !== "" && !/^[\d\s.,]+$/.test(text)) plan.selection = { candidates: names, ...required };
+    else {
+      const n = num(text, "selection.candidates", errors, "The candidate count");
+      if (n === undefined && !errors["selection.candidates"]) (errors["selection.candidates"] ??= []).push("Give the candidate terms by name (separated by commas), or the number of candidate parameters the selection starts from.");
+      else if (n !== undefined) plan.selection = { candidates: n, ...required };
+    }
   }
   return { plan, errors };
 }

@@ -9,7 +9,7 @@ const KIND_LABEL: Record<ModelSize["terms"][number]["kind"], string> = {
 
 /**
  * The planned model's size: its terms with the columns each adds, p, and the complete cases
- * the df target needs (df headroom = n − p − 1, PRODUCT.md). Used live by the editor and on
+ * the df target needs (df headroom = n − p − 1, lib/readiness/CHECKS.md "The model: p, n and residual df"). Used live by the editor and on
  * the study page.
  */
 export function ModelSummary({ size, compact = false }: { size: ModelSize; compact?: boolean }) {

@@ -1,6 +1,6 @@
 import type { DEFAULT_THRESHOLDS } from "@/lib/readiness/plan";
 
-/** What each threshold does, in the product's words (values and sources in CHECKS.md). */
+/** What each threshold does, in the product's words (values and sources in lib/readiness/CHECKS.md). */
 export const THRESHOLD_LABELS: Record<keyof typeof DEFAULT_THRESHOLDS, string> = {
   missingNote: "Missing share: note above",
   missingWarning: "Missing share: warning at",

@@ -9,7 +9,7 @@ import { Section } from "@/components/ui";
 import { DfLedger, ledgerOf } from "@/components/report/df-ledger";
 import { FindingsTable } from "@/components/report/report-tables";
 import type { SessionUser } from "@/lib/auth/session";
-import { getIfAcceptedForUser } from "@/lib/pool/access";
+import { getIfAcceptedForUser } from "@/lib/pool/queries";
 import type { IfAccepted } from "@/lib/pool/pool";
 import { PoolFigures } from "./pool-figures";
 

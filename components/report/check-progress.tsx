@@ -3,7 +3,7 @@
 import { useEffect } from "react";
 import { useRouter } from "next/navigation";
 import { formatCount } from "@/lib/format";
-import { useVersionStatus } from "@/lib/hooks/use-version-status";
+import { useVersionStatus } from "@/lib/client/use-version-status";
 
 export function CheckProgress({ batchId, version, state }: { batchId: string; version: number; state: string }) {
   const router = useRouter();

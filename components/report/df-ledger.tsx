@@ -1,5 +1,5 @@
 /**
- * The df ledger (DESIGN.md): one bar for a batch or a pool — the complete cases split into
+ * The df ledger: one bar for a batch or a pool — the complete cases split into
  * the intercept, the model's parameters (indicator columns shaded apart from numeric terms)
  * and the residual degrees of freedom, a tick at the plan's target, and the rows lost to
  * missing values drawn faded beyond the end.

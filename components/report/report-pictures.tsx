@@ -1,7 +1,7 @@
 /** The report's pictures: correlation heatmap, missingness map, condition indices. */
 import { formatCount, formatDecimal } from "@/lib/format";
 
-/** Diverging clay ↔ sand ↔ channel (DESIGN.md), r in [-1, 1]. */
+/** Diverging clay ↔ sand ↔ channel (the palette of tailwind.config.ts), r in [-1, 1]. */
 function corrColour(r: number): string {
   const t = Math.max(-1, Math.min(1, r));
   const mix = (a: number[], b: number[], k: number) => a.map((v, i) => Math.round(v + ((b[i] ?? v) - v) * k));

@@ -8,7 +8,7 @@ import { Field } from "@/components/ui/field";
 import { SeverityShape } from "@/components/severity-badge";
 import type { Finding } from "@/lib/readiness/report";
 import type { Result } from "@/lib/result";
-import type { DecisionDone, DecisionInput } from "@/lib/triage/decide";
+import type { DecisionDone, DecisionInput } from "@/lib/batches/commands-decide";
 
 type Props = {
   batchId: string;

@@ -7,7 +7,7 @@ import { SeverityBadge } from "@/components/severity-badge";
 import { StateBadge } from "@/components/state-badge";
 import { Select } from "@/components/ui/select";
 import { formatCount } from "@/lib/format";
-import { useQueue, type QueueRow } from "@/lib/hooks/use-queue";
+import { useQueue, type QueueRow } from "@/lib/client/use-queue";
 
 type Row = QueueRow & { id: string };
 

@@ -1,11 +1,11 @@
 /**
- * A stand-in app for tests of the upload path: the batch file router from lib/uploads with
+ * A stand-in app for tests of the upload path: the batch file router from lib/batches/intake/file-router.ts with
  * test hooks, the SDK's real route handler served on a random port, and the SDK's real
  * client (needs `installFetchXhr()` in Node).
  */
 import { genUploader } from "uploadthing/client";
 import { createRouteHandler } from "uploadthing/server";
-import { makeFileRouter, type BatchFileRouter, type UploadedBatchFile } from "@/lib/uploads/file-router";
+import { makeFileRouter, type BatchFileRouter, type UploadedBatchFile } from "@/lib/batches/intake/file-router";
 import { serveFetchHandler, type ServedHandler } from "./serve-fetch-handler";
 
 export type Completed = { meta: Record<string, unknown>; file: UploadedBatchFile };

@@ -2,7 +2,7 @@
  * The ingest side of the upload fake: the client's HEAD and PUT on a presigned URL,
  * the signed callback to the app (POST in production mode, a line on the open
  * /route-metadata stream in dev mode), and the held PUT answered once the app
- * posts /callback-result (UPLOADS.md, points 2–5).
+ * posts /callback-result (fakes/UPLOADS.md "One upload, step by step").
  */
 import type { IncomingMessage, ServerResponse } from "node:http";
 import { boundaryOf, MultipartError, receiveMultipartFile } from "./multipart";

@@ -1,6 +1,6 @@
 /**
  * HMAC-SHA256 signatures in the form the upload SDK uses: lowercase hex,
- * prefixed `hmac-sha256=`, keyed with the api key (UPLOADS.md).
+ * prefixed `hmac-sha256=`, keyed with the api key (fakes/UPLOADS.md "Trust").
  */
 import { createHmac, timingSafeEqual } from "node:crypto";
 

@@ -24,7 +24,7 @@ export const ACTIONS = [
 export type Action = (typeof ACTIONS)[number];
 
 export const PERMISSIONS: Record<UserRole, readonly Action[]> = {
-  // providers work on their own organisation's batches only (scoping is in lib/dal)
+  // providers work on their own organisation's batches only (scoping is in lib/studies/scope.ts)
   provider: ["study.read", "batch.upload", "batch.read", "token.manage", "mailbox.read"],
   // analysts work on the studies they are assigned to
   analyst: ["study.read", "batch.read", "batch.decide", "pool.read", "token.manage", "mailbox.read"],

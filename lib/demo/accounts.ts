@@ -1,5 +1,5 @@
 /**
- * The demo's organisations and sign-ins (invented). CONTRACTS.md lists the same accounts;
+ * The demo's organisations and sign-ins (invented). README.md "Using Tributary, role by role" lists the same accounts;
  * every password is DEMO_PASSWORD.
  */
 import type { UserRole } from "@/db/schema";

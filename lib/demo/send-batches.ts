@@ -8,9 +8,9 @@ import { UTFile } from "uploadthing/server";
 import type { Db } from "@/db/client";
 import { batchVersions, batches, organisations, studies, users } from "@/db/schema";
 import { sleep } from "@/lib/sleep";
-import { decideVersion } from "@/lib/triage/decide";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
-import { utapi } from "@/lib/uploads";
+import { decideVersion } from "@/lib/batches/commands-decide";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
+import { utapi } from "@/lib/batches/intake/file-store";
 import { demoBatches, type DemoBatch } from "./batches";
 
 export async function sendDemoBatches(db: Db, log: (line: string) => void = console.log, list: DemoBatch[] = demoBatches()): Promise<number> {

@@ -1,11 +1,11 @@
 import "server-only";
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseQuery } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
+import { apiRoute } from "@/lib/http/route";
+import { parseQuery } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
-import { attachmentDisposition } from "@/lib/intake/file-rules";
-import { getIfAcceptedForUser, getPoolForUser, listPoolStudiesForUser, recordPoolExport } from "./access";
+import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
+import { getIfAcceptedForUser, getPoolForUser, listPoolStudiesForUser, recordPoolExport } from "./queries";
 import { dataDictionary, dataDictionaryCsv, poolCsvStream, type OpenFile } from "./export";
 import { getStudyPool, withoutState } from "./pool";
 import { getDb } from "@/db/client";

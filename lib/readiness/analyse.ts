@@ -8,6 +8,7 @@ import { buildDesign, predictorsOf, type Design } from "./design";
 import { missingFindings, levelFindings, type Evidence } from "./findings-data";
 import { collinearityFindings, dfFindings } from "./findings-model";
 import type { Plan, Thresholds } from "./plan";
+import { selectionBudget } from "./pooling/terms";
 import type { ColumnReport, Finding, ReadinessReport } from "./report";
 import type { EngineState } from "./state";
 import { LeastSquares, PatternMoments, analyseDesign, greenRules, littleMcar, rileyContinuous } from "./stats";
@@ -108,7 +109,7 @@ export function analyse(
   const sampleSize: ReadinessReport["sampleSize"] = {};
   if (p > 0) sampleSize.green = greenRules(p);
   if (p > 0 && plan.anticipatedR2 !== undefined) sampleSize.riley = rileyContinuous(p, plan.anticipatedR2, plan.outcome);
-  if (plan.selection) sampleSize.selection = { candidates: plan.selection.candidates, subsets: Math.pow(2, plan.selection.candidates) };
+  if (plan.selection) sampleSize.selection = selectionBudget(plan, design.terms);
 
   // missingness
   let littleMCAR: { statistic: number; df: number; pValue: number } | undefined;

@@ -79,7 +79,7 @@ export function unreadableReport(plan: Plan, planHash: string, e: UnreadableErro
 
 /**
  * Check one batch file against a data plan: one pass over the bytes in bounded memory, then
- * every finding of CHECKS.md. Never throws for a bad file: it returns an "unreadable" report.
+ * every finding of lib/readiness/CHECKS.md. Never throws for a bad file: it returns an "unreadable" report.
  */
 export async function checkBatch(input: ByteInput, plan: Plan, opts: CheckOptions = {}): Promise<ReadinessReport> {
   const t0 = now();

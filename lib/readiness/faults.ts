@@ -45,7 +45,7 @@ export interface RowsAtFaultOptions {
   isUtf8?: (b: Uint8Array) => boolean;
 }
 
-/** Codes a row can be at fault with (the row-level findings of CHECKS.md). */
+/** Codes a row can be at fault with (the row-level findings of lib/readiness/CHECKS.md). */
 export const ROW_FAULT_CODES = [
   "row.ragged",
   "row.duplicate",

@@ -1,6 +1,6 @@
 /**
  * Findings about the planned model on the complete cases: collinearity and the sample-size /
- * degrees-of-freedom rules of CHECKS.md.
+ * degrees-of-freedom rules of lib/readiness/CHECKS.md.
  */
 import type { Design } from "./design";
 import { finding, list, quote } from "./findings";

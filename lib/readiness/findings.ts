@@ -1,8 +1,9 @@
 /** Building findings and counting them. */
+import type { FindingCode } from "./codes";
 import type { Finding, Severity } from "./report";
 
 export function finding(
-  code: string,
+  code: FindingCode,
   severity: Severity,
   columns: string[],
   message: string,

@@ -9,7 +9,7 @@ export const COLUMN_TYPES = ["number", "integer", "category", "date", "boolean",
 export type Role = (typeof ROLES)[number];
 export type ColumnType = (typeof COLUMN_TYPES)[number];
 
-/** Default thresholds of ../shared/CHECKS.md; a plan may override each. */
+/** Default thresholds of lib/readiness/CHECKS.md; a plan may override each. */
 export const DEFAULT_THRESHOLDS = {
   /** share missing per column: note above this */
   missingNote: 0,
@@ -112,8 +112,17 @@ export const planSchema = z
     anticipatedR2: z.number().gt(0).lt(1).optional(),
     /** the outcome's anticipated mean and SD (Riley criterion iv) */
     outcome: z.object({ mean: z.number(), sd: z.number().positive() }).optional(),
-    /** variable selection is planned over this many candidate parameters */
-    selection: z.object({ candidates: z.number().int().min(1) }).optional(),
+    /**
+     * variable selection: the candidate terms by name (predictors or "a:b" interactions; a
+     * category enters and leaves with all its indicator columns) and the terms forced in. A
+     * bare number (older plans) only counts candidate parameters for the df budget.
+     */
+    selection: z
+      .object({
+        candidates: z.union([z.number().int().min(1), z.array(name).min(1, "name at least one candidate term")]),
+        required: z.array(name).optional(),
+      })
+      .optional(),
     thresholds: thresholdsSchema.default({}),
   })
   .superRefine((plan, ctx) => {
@@ -165,6 +174,7 @@ export const planSchema = z
       }
       if (a === b) ctx.addIssue({ code: "custom", path: ["interactions", i], message: `an interaction needs two different predictors ("${a}:${b}")` });
     });
+    if (plan.selection) selectionIssues(plan, predictors).forEach((i) => ctx.addIssue({ code: "custom", ...i }));
     const t = { ...DEFAULT_THRESHOLDS, ...plan.thresholds };
     if (t.missingWarning > t.missingBlocker) {
       ctx.addIssue({ code: "custom", path: ["thresholds", "missingWarning"], message: "the missingness warning level is above the blocker level" });
@@ -173,6 +183,28 @@ export const planSchema = z
       ctx.addIssue({ code: "custom", path: ["thresholds", "vifWarning"], message: "the VIF warning level is above the strong-warning level" });
     }
   });
+
+/** Every selection term must be a planned predictor or interaction, named once, in one list. */
+function selectionIssues(
+  plan: { interactions: [string, string][]; selection?: { candidates: number | string[]; required?: string[] } },
+  predictors: Set<string>,
+): { path: (string | number)[]; message: string }[] {
+  const out: { path: (string | number)[]; message: string }[] = [];
+  const terms = new Set([...predictors, ...plan.interactions.map(([a, b]) => `${a}:${b}`)]);
+  const seen = new Map<string, string>();
+  const lists: ["candidates" | "required", string[]][] = [["required", plan.selection!.required ?? []]];
+  if (Array.isArray(plan.selection!.candidates)) lists.unshift(["candidates", plan.selection!.candidates]);
+  for (const [key, names] of lists) {
+    names.forEach((t, i) => {
+      const path = ["selection", key, i];
+      if (!terms.has(t)) out.push({ path, message: `selection term "${t}" is not a planned predictor or interaction (${[...terms].join(", ") || "none planned"})` });
+      const prior = seen.get(t);
+      if (prior) out.push({ path, message: prior === key ? `selection term "${t}" is listed twice` : `"${t}" is both a candidate and a required term; keep it in one list` });
+      seen.set(t, key);
+    });
+  }
+  return out;
+}
 
 export type PlanInput = z.input<typeof planSchema>;
 export type Plan = z.output<typeof planSchema>;

@@ -48,7 +48,7 @@ export async function poolReport(states: unknown[], plan: Plan): Promise<Readine
 }
 
 /**
- * Drift of a batch against the pool [CHECKS.md "Pool and drift"]: levels new to the pool,
+ * Drift of a batch against the pool [lib/readiness/CHECKS.md "Pool and drift"]: levels new to the pool,
  * standardized mean difference per numeric planned column, SMD = (x̄_b − x̄_p)/√((s_b² + s_p²)/2)
  * (|SMD| ≥ 0.25 warning [cp]), and missingness that moved by more than 10 points.
  */

@@ -5,13 +5,15 @@
  * only with a new REPORT_FORMAT version.
  */
 
+import type { FindingCode } from "./codes";
+
 export const REPORT_FORMAT = 1;
 
 export type Severity = "blocker" | "warning" | "note";
 
 export interface Finding {
-  /** stable code, e.g. "level.variant" (catalogue in ../shared/CHECKS.md) */
-  code: string;
+  /** stable code, e.g. "level.variant": FINDING_CODES in ./codes.ts, specified in lib/readiness/CHECKS.md */
+  code: FindingCode;
   severity: Severity;
   columns: string[];
   /** up to `sampleRows` 1-based line numbers as a spreadsheet shows them (header = 1) */

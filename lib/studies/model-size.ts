@@ -14,9 +14,9 @@ export type ModelSize = {
   intercept: boolean;
   /** residual df the study's pool should reach (thresholds.dfTarget, else dfFloor) */
   dfTarget: number;
-  /** complete cases for the target: n − p − 1 = dfTarget (PRODUCT.md "df headroom") */
+  /** complete cases for the target: n − p − 1 = dfTarget (df headroom: lib/readiness/CHECKS.md "The model: p, n and residual df") */
   casesForTarget: number;
-  /** complete cases by the events-per-parameter style rule: perParameter × p (CHECKS.md) */
+  /** complete cases by the events-per-parameter style rule: perParameter × p (lib/readiness/CHECKS.md df.per-parameter) */
   casesPerParameterRule: number;
 };
 

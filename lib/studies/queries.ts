@@ -4,13 +4,13 @@ import { getDb } from "@/db/client";
 import { dataPlans, organisations, studies, studyAnalysts, studyProviders, users } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
-import { getStudyForUser, listStudiesForUser, type StudySummary } from "@/lib/dal/studies";
-import { studyScope } from "@/lib/dal/scope";
+import { getStudyForUser, listStudiesForUser, type StudySummary } from "@/lib/studies/queries-detail";
+import { studyScope } from "@/lib/studies/scope";
 
 export type StudyListRow = StudySummary & { providers: string[]; analysts: string[] };
 
 /**
- * The user's studies (lib/dal/studies.ts scope) with the provider organisations and analysts
+ * The user's studies (lib/studies/queries-detail.ts scope) with the provider organisations and analysts
  * of each. A provider sees only its own organisation among the providers and no analysts.
  */
 export async function listStudyRowsForUser(user: SessionUser): Promise<StudyListRow[]> {
@@ -102,7 +102,7 @@ export type CurrentPlan = {
 
 /**
  * A study's current data plan by numeric id or slug: null when the study is outside the user's
- * scope (lib/dal/studies.ts getStudyForUser), or has no plan yet (`{ study }` without a plan).
+ * scope (lib/studies/queries-detail.ts getStudyForUser), or has no plan yet (`{ study }` without a plan).
  */
 export async function getCurrentPlanForUser(user: SessionUser, idOrSlug: string | number): Promise<{ found: false } | { found: true; plan: CurrentPlan | null }> {
   const study = await getStudyForUser(user, idOrSlug);

@@ -16,8 +16,8 @@ import { getDb, getPool } from "@/db/client";
 import { organisations, users } from "@/db/schema";
 import { DEMO_STUDIES } from "@/lib/demo";
 import type { Result } from "@/lib/result";
-import { createApiToken } from "@/lib/services/api-tokens";
-import { createUser } from "@/lib/services/users";
+import { createApiToken } from "@/lib/people/commands-tokens";
+import { createUser } from "@/lib/people/commands-users";
 import { admitProvider, assignAnalyst, createStudy, publishPlanVersion } from "@/lib/studies";
 import { LOAD_STUDY_SLUG, type LoadAccounts } from "./accounts";
 

@@ -4,7 +4,7 @@ import { BARLEY_HEADER, barleyBatches, barleyRows, toCsv } from "../../lib/demo/
 import { SignInPage } from "./pages/sign-in-page";
 import { BatchPage } from "./pages/batch-page";
 
-// The whole loop of PRODUCT.md "What done looks like", on invented demo data (lib/demo/batches.ts):
+// The whole loop of README.md "Using Tributary, role by role", on invented demo data (lib/demo/batches.ts):
 // a provider uploads a file with a misspelled level and an exact dependency, an analyst bounces it
 // with two comments, the provider reads the e-mail, sends version 2, the analyst accepts it.
 test.describe.configure({ mode: "serial" });

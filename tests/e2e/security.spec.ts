@@ -1,9 +1,9 @@
-import { spawn } from "node:child_process";
 import { readFile } from "node:fs/promises";
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { expect, test, type APIResponse, type Browser, type Page } from "@playwright/test";
 import { barleyBatches } from "../../lib/demo/batches";
+import { processTestTimeout, runProcess } from "../helpers/processes";
 import { BatchPage } from "./pages/batch-page";
 import { SignInPage } from "./pages/sign-in-page";
 
@@ -116,20 +116,9 @@ test("next start refuses to boot with the demo secrets when TRIBUTARY_DEMO is no
   }
   // "0", not absent: an .env file beside the build would otherwise fill in the demo flag
   Object.assign(env, { NODE_ENV: "production", TRIBUTARY_DEMO: "0" });
-  const child = spawn(path.join(ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", "3419"], { cwd: ROOT, env: env as NodeJS.ProcessEnv, stdio: ["ignore", "pipe", "pipe"] });
-  let output = "";
-  child.stdout.on("data", (d: Buffer) => (output += String(d)));
-  child.stderr.on("data", (d: Buffer) => (output += String(d)));
-  const code = await new Promise<number | null>((resolve) => {
-    const timer = setTimeout(() => {
-      child.kill("SIGTERM");
-      resolve(null);
-    }, 60_000);
-    child.on("exit", (c: number | null) => {
-      clearTimeout(timer);
-      resolve(c);
-    });
-  });
+  // the refusal ends the process: wait for its exit, however long a busy machine takes to boot next
+  test.setTimeout(processTestTimeout());
+  const { code, output } = await runProcess(path.join(ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", "3419"], { cwd: ROOT, env: env as NodeJS.ProcessEnv });
   expect(code, output).not.toBeNull();
   expect(code, output).not.toBe(0);
   expect(output).toContain("refusing to start");

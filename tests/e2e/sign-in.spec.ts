@@ -3,7 +3,7 @@ import { SignInPage } from "./pages/sign-in-page";
 import { PortalPage } from "./pages/portal-page";
 import { watchPageProblems } from "./pages/csp-watch";
 
-// Demo accounts and their data come from db/seed.ts (CONTRACTS.md "Demo accounts").
+// Demo accounts and their data come from db/seed.ts (README.md "Using Tributary, role by role").
 const WRONG = "E-mail or password is wrong, or the account is deactivated.";
 
 test.describe("each role lands on its own home, with its own data", () => {

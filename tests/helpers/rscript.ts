@@ -6,6 +6,7 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import { PROCESS_PATIENCE_MS } from "./processes";
 
 export const R_DIR = path.resolve(import.meta.dirname, "../r");
 
@@ -25,7 +26,7 @@ export function rscriptAvailable(packages: string[] = []): { ok: true; version: 
 }
 
 /** Run tests/r/<script> with arguments; returns stdout, throws with R's stderr on failure. */
-export function runRscript(script: string, args: string[] = [], timeoutMs = 120_000): string {
+export function runRscript(script: string, args: string[] = [], timeoutMs = PROCESS_PATIENCE_MS): string {
   const file = path.isAbsolute(script) ? script : path.join(R_DIR, script);
   const res = spawnSync("Rscript", ["--vanilla", file, ...args], { encoding: "utf8", timeout: timeoutMs, maxBuffer: 64 * 1024 * 1024 });
   if (res.error) throw new Error(`Rscript ${path.basename(file)} could not run: ${res.error.message}`);

@@ -9,7 +9,7 @@ import { auditEvents, users } from "@/db/schema";
 import { POST as createAdminUser } from "@/app/api/v1/admin/users/route";
 import { PATCH as patchAdminUser } from "@/app/api/v1/admin/users/[id]/route";
 import { authorizeCredentials } from "@/lib/auth/credentials";
-import { changeRole, createUser, setActive } from "@/lib/services/users";
+import { changeRole, createUser, setActive } from "@/lib/people/commands-users";
 import { call, expectSafeError } from "./helpers/api";
 import { sessionCookieFor } from "./helpers/session";
 import { createWorld, type World, type WorldUser } from "./helpers/world";

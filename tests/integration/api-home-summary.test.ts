@@ -6,9 +6,9 @@ vi.mock("server-only", () => ({}));
 
 import { getPool } from "@/db/client";
 import type { SessionUser } from "@/lib/auth/session";
-import { getHomeSummary } from "@/lib/dal/home";
-import { listOrganisations } from "@/lib/dal/organisations";
-import { listUsers } from "@/lib/dal/users";
+import { getHomeSummary } from "@/lib/batches/queries-home";
+import { listOrganisations } from "@/lib/people/queries-organisations";
+import { listUsers } from "@/lib/people/queries";
 import { createWorld, type World, type WorldUser } from "./helpers/world";
 
 let w: World;

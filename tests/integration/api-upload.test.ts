@@ -12,10 +12,10 @@ import { getDb, getPool } from "@/db/client";
 import { batchVersions, studies, users } from "@/db/schema";
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
 import { barleyBatches } from "@/lib/demo/batches";
-import { claimJob } from "@/lib/jobs/check-jobs";
-import { runJob } from "@/lib/jobs/worker";
-import { createApiToken, revokeApiToken } from "@/lib/services/api-tokens";
-import { openStoredFile } from "@/lib/uploads";
+import { claimJob } from "@/lib/batches/jobs/check-jobs";
+import { runJob } from "@/lib/batches/jobs/worker";
+import { createApiToken, revokeApiToken } from "@/lib/people/commands-tokens";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { POST } from "@/app/api/v1/batches/route";
 import { drainQueue, uploadAndCheck } from "./helpers/pipeline";
 
@@ -45,7 +45,7 @@ beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-api-upload-"));
   const { apiKey } = parseUploadToken(process.env.UPLOADTHING_TOKEN!);
   fake = await startUploadFake({ port: 0, apiKey, dir });
-  // the SDK reads these at first use (lib/uploads caches its UTApi, lib/env its parse)
+  // the SDK reads these at first use (lib/batches/intake/file-store.ts caches its UTApi, lib/env its parse)
   process.env.UPLOADTHING_API_URL = fake.url;
   process.env.UPLOADTHING_INGEST_URL = fake.url;
   // a small limit, so the over-limit case needs no large file

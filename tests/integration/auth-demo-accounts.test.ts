@@ -1,5 +1,5 @@
 /**
- * The demo sign-ins of CONTRACTS.md ("Demo accounts") against the seeded test database:
+ * The demo sign-ins of README.md "Using Tributary, role by role" against the seeded test database:
  * each signs in with the demo password as its role and sees the studies the table says.
  * Read-only: the demo accounts are shared with other test files.
  */
@@ -18,7 +18,7 @@ import { sessionCookieFor } from "./helpers/session";
 const ip = { ip: "198.51.100.77" };
 beforeAll(() => resetSignInLimiter());
 
-// CONTRACTS.md: e-mail → role and the demo studies (by slug) each account works on
+// README.md "Using Tributary, role by role": e-mail → role and the demo studies (by slug) each account works on
 const ACCOUNTS = [
   ["admin@tributary.test", "admin", ["barley-nitrogen", "heat-pump-savings"]],
   ["lead@lowmoor.test", "lead", ["barley-nitrogen", "heat-pump-savings"]],

@@ -1,9 +1,9 @@
-/** The permissions table: what PRODUCT.md's role table asks of each role, and nothing more. */
+/** The permissions table: what the roles of README.md "Using Tributary, role by role" ask of each, and nothing more. */
 import { describe, expect, test } from "vitest";
 import { ROLES } from "@/db/schema";
 import { ACTIONS, can, PERMISSIONS, type Action } from "@/lib/auth/permissions";
 
-// PRODUCT.md "Who uses it": provider uploads and reads its batches; analyst reviews (decides)
+// README.md "Using Tributary, role by role": provider uploads and reads its batches; analyst reviews (decides)
 // and reads the pool; lead tracks the board and invites; admin runs the installation.
 const MUST: Record<(typeof ROLES)[number], Action[]> = {
   provider: ["study.read", "batch.upload", "batch.read"],

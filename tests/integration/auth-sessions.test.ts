@@ -26,7 +26,7 @@ import { PATCH as patchAdminUser } from "@/app/api/v1/admin/users/[id]/route";
 import { authorizeCredentials } from "@/lib/auth/credentials";
 import { authOptions } from "@/lib/auth/options";
 import { getCurrentUser, requireUser } from "@/lib/auth/session";
-import { changeOwnPassword } from "@/lib/services/users";
+import { changeOwnPassword } from "@/lib/people/commands-users";
 import { call, expectSafeError } from "./helpers/api";
 import { jwtAtSignIn, sessionCookieFor } from "./helpers/session";
 import { createWorld, WORLD_PASSWORD, type World, type WorldUser } from "./helpers/world";

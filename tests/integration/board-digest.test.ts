@@ -9,10 +9,10 @@ import { auditEvents, dataPlans, emailOutbox, organisations, studies, studyAnaly
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
-import { composeDigest, digestData } from "@/lib/digest/compose";
-import { digestDue } from "@/lib/digest/schedule";
-import { sendDigest } from "@/lib/digest/send";
+import { decideVersion } from "@/lib/batches/commands-decide";
+import { composeDigest, digestData } from "@/lib/pool/digest-compose";
+import { digestDue } from "@/lib/pool/digest-schedule";
+import { sendDigest } from "@/lib/pool/digest-send";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
 
 vi.mock("server-only", () => ({}));

@@ -10,9 +10,9 @@ import { batchVersions, dataPlans, decisions, organisations, studies, studyAnaly
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
-import { getBoard, intakeFlow, listBoardBatches, poolHeadrooms, providerStats, silentProviders, turnaroundByWeek } from "@/lib/board/queries";
-import { quantile, weekStart } from "@/lib/board/stats";
+import { decideVersion } from "@/lib/batches/commands-decide";
+import { getBoard, intakeFlow, listBoardBatches, poolHeadrooms, providerStats, silentProviders, turnaroundByWeek } from "@/lib/pool/queries-board";
+import { quantile, weekStart } from "@/lib/pool/board-stats";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
 
 vi.mock("server-only", () => ({}));

@@ -7,9 +7,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { and, eq, sql } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
 import { auditEvents, batchVersions, checkJobs, reports, studies, users } from "@/db/schema";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
-import { claimJob, STALE_AFTER_MS } from "@/lib/jobs/check-jobs";
-import { runJob } from "@/lib/jobs/worker";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
+import { claimJob, STALE_AFTER_MS } from "@/lib/batches/jobs/check-jobs";
+import { runJob } from "@/lib/batches/jobs/worker";
 import { barleyBatches } from "@/lib/demo/batches";
 import { drainQueue, openMemoryFile, storeInMemory } from "./helpers/pipeline";
 

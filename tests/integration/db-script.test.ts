@@ -2,13 +2,17 @@
  * scripts/db.sh is idempotent: start twice, concurrent starts, start after `kill -9`, stop twice.
  * Runs against a scratch instance (own data dir and port), so the shared one is never killed.
  */
-import { spawn, spawnSync } from "node:child_process";
+import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import net from "node:net";
 import os from "node:os";
 import path from "node:path";
 import mysql from "mysql2/promise";
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
+import { PROCESS_PATIENCE_MS, processTestTimeout, runProcess } from "../helpers/processes";
+
+// every test runs db.sh (a start initialises MariaDB): on a busy machine slow, not wrong
+vi.setConfig({ testTimeout: processTestTimeout(3), hookTimeout: processTestTimeout(2) });
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const SCRIPT = path.join(ROOT, "scripts/db.sh");
@@ -22,18 +26,13 @@ interface Run {
 }
 
 function run(...args: string[]): Run {
-  const r = spawnSync("bash", [SCRIPT, ...args], { env, encoding: "utf8", timeout: 120_000 });
+  const r = spawnSync("bash", [SCRIPT, ...args], { env, encoding: "utf8", timeout: PROCESS_PATIENCE_MS });
   return { code: r.status, out: `${r.stdout}${r.stderr}` };
 }
 
-function runAsync(...args: string[]): Promise<Run> {
-  return new Promise((resolve) => {
-    const p = spawn("bash", [SCRIPT, ...args], { env, stdio: ["ignore", "pipe", "pipe"] });
-    let out = "";
-    p.stdout.on("data", (d) => (out += d));
-    p.stderr.on("data", (d) => (out += d));
-    p.on("close", (code) => resolve({ code, out }));
-  });
+async function runAsync(...args: string[]): Promise<Run> {
+  const r = await runProcess("bash", [SCRIPT, ...args], { env });
+  return { code: r.code, out: r.output };
 }
 
 function pid(): number {
@@ -60,8 +59,10 @@ async function freePort(): Promise<number> {
   });
 }
 
+/** Waits until process `p` is gone (a killed server may take a while to be reaped on a busy machine). */
 async function waitGone(p: number): Promise<void> {
-  for (let i = 0; i < 100 && alive(p); i++) await new Promise((r) => setTimeout(r, 100));
+  const until = Date.now() + PROCESS_PATIENCE_MS;
+  while (alive(p) && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
 }
 
 beforeAll(async () => {

@@ -6,9 +6,9 @@ import { afterAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
 import { auditEvents, batchVersions, decisions, emailOutbox, findingComments, users } from "@/db/schema";
-import { getVersionReportForUser } from "@/lib/dal/reports";
+import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { barleyBatches } from "@/lib/demo/batches";
-import { decideVersion } from "@/lib/triage/decide";
+import { decideVersion } from "@/lib/batches/commands-decide";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
 
 const db = getDb();

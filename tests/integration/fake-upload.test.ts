@@ -15,7 +15,7 @@ import { sign } from "@/fakes/upload/signing";
 import { startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { installFetchXhr } from "@/fakes/testing/fetch-xhr";
 import { startTestUploadApp, type TestUploadApp } from "@/fakes/testing/upload-app";
-import { createUtapi, openStoredFile } from "@/lib/uploads";
+import { createUtapi, openStoredFile } from "@/lib/batches/intake/file-store";
 
 const apiKey = "sk_test_fake_upload_" + randomBytes(8).toString("hex");
 const appId = "tributary-test";

@@ -18,10 +18,11 @@ import type { Db } from "@/db/client";
 import { batchVersions, checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
 import { isDbUnavailable } from "@/db/errors";
 import { killAllWorkers, loadTemplate, openDb, outcome, PRIVATE_DB, privateDb, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
+import { processTestTimeout } from "../helpers/processes";
 
 const NAME = "tributary_faults";
 const ROWS = 60_000;
@@ -61,7 +62,7 @@ afterAll(async () => {
 });
 
 describe("the database stopped and started during a check", () => {
-  it("the worker waits for the database and stores the report once, whole", { timeout: 240_000 }, async () => {
+  it("the worker waits for the database and stores the report once, whole", { timeout: processTestTimeout(4) }, async () => {
     const db = conn!.db;
     const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
     const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
@@ -127,14 +128,14 @@ describe("the database stopped and started during a check", () => {
     expect(o.jobs.map((j) => [j.status, j.attempts, j.lastError])).toEqual([["done", 1, null]]);
   });
 
-  it("an idle worker rides out an outage and takes new work once the database is back", { timeout: 120_000 }, async () => {
+  it("an idle worker rides out an outage and takes new work once the database is back", { timeout: processTestTimeout(4) }, async () => {
     const w = worker!;
     await conn!.pool.end();
     conn = null;
     privateDb("stop");
-    await w.waitForLine(/could not claim a job \(database unavailable; waiting for it\)/, 30_000);
+    await w.waitForLine(/could not claim a job \(database unavailable; waiting for it\)/);
     privateDb("start");
-    await w.waitForLine(/database back after \d+ failed claims?; claiming again/, 30_000);
+    await w.waitForLine(/database back after \d+ failed claims?; claiming again/);
     expect(w.alive()).toBe(true);
 
     conn = openDb(url);

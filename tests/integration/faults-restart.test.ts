@@ -16,10 +16,11 @@ import { batchVersions, batches, checkJobs, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { POST } from "@/app/api/v1/batches/route";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { createApiToken } from "@/lib/services/api-tokens";
+import { createApiToken } from "@/lib/people/commands-tokens";
 import { clearOutbox, killAllWorkers, outcome, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, type FileGate } from "./helpers/faults-net";
 import { drainQueue } from "./helpers/pipeline";
+import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
 
 const token = process.env.UPLOADTHING_TOKEN!;
 let dir = "";
@@ -85,7 +86,7 @@ async function upload(rows: number, seed: number): Promise<{ versionId: number; 
 const jobsOf = (versionIds: number[]) => getDb().select().from(checkJobs).where(inArray(checkJobs.batchVersionId, versionIds));
 
 describe("the worker restarted with jobs in flight", () => {
-  it("a SIGTERM hands the check in hand back uncounted; after the restart every job ends with one report", { timeout: 240_000 }, async () => {
+  it("a SIGTERM hands the check in hand back uncounted; after the restart every job ends with one report", { timeout: processTestTimeout(4) }, async () => {
     const inFlight = [await upload(40_000, 11), await upload(8_000, 12), await upload(8_000, 13)];
     const held = gate.holdNext(Math.floor(inFlight[0]!.size * 0.4));
     const first = startWorker(workerEnv(500));
@@ -97,8 +98,8 @@ describe("the worker restarted with jobs in flight", () => {
 
     first.kill("SIGTERM");
     expect(await first.exited).toEqual({ code: 0, signal: null });
-    await first.waitForLine(new RegExp(`check job ${running!.id} handed back to the queue \\(attempt not counted\\)`), 1_000);
-    await first.waitForLine(/\[worker\] stopped/, 1_000);
+    await first.waitForLine(new RegExp(`check job ${running!.id} handed back to the queue \\(attempt not counted\\)`));
+    await first.waitForLine(/\[worker\] stopped/);
     const [back] = await jobsOf([inFlight[0]!.versionId]);
     expect(back).toMatchObject({ status: "queued", attempts: 0, lockedBy: null });
     expect((await outcome(getDb(), [inFlight[0]!.versionId])).get(inFlight[0]!.versionId)).toMatchObject({ state: "received", reports: [] });
@@ -108,7 +109,7 @@ describe("the worker restarted with jobs in flight", () => {
     const all = [...inFlight, whileDown];
     second = startWorker(workerEnv(60_000));
     const ids = all.map((b) => b.versionId);
-    await waitFor("every job to be done after the restart", async () => (await jobsOf(ids)).every((j) => j.status === "done"), 150_000, 250);
+    await waitFor("every job to be done after the restart", async () => (await jobsOf(ids)).every((j) => j.status === "done"), PROCESS_PATIENCE_MS, 250);
 
     const o = await outcome(getDb(), ids);
     for (const b of all) {
@@ -122,7 +123,7 @@ describe("the worker restarted with jobs in flight", () => {
     }
   });
 
-  it("a check that ends within the grace period is finished before the worker stops", { timeout: 120_000 }, async () => {
+  it("a check that ends within the grace period is finished before the worker stops", { timeout: processTestTimeout(4) }, async () => {
     const w = second!;
     const b = await upload(20_000, 15);
     const held = gate.holdNext(Math.floor(b.size * 0.4));
@@ -130,10 +131,10 @@ describe("the worker restarted with jobs in flight", () => {
     const [job] = await jobsOf([b.versionId]);
     expect(job).toMatchObject({ status: "running", attempts: 1 });
     w.kill("SIGTERM");
-    await w.waitForLine(/SIGTERM: no new jobs/, 10_000);
+    await w.waitForLine(/SIGTERM: no new jobs/);
     gate.release();
     expect(await w.exited).toEqual({ code: 0, signal: null });
-    await w.waitForLine(new RegExp(`check job ${job!.id} done: report stored \\(20000 rows\\)`), 1_000);
+    await w.waitForLine(new RegExp(`check job ${job!.id} done: report stored \\(20000 rows\\)`));
     const r = (await outcome(getDb(), [b.versionId])).get(b.versionId)!;
     expect(r.reports).toHaveLength(1);
     expect(r.state).toBe("ready");

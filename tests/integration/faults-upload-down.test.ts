@@ -20,9 +20,9 @@ import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/uplo
 import { installFetchXhr } from "@/fakes/testing/fetch-xhr";
 import { serveFetchHandler, type ServedHandler } from "@/fakes/testing/serve-fetch-handler";
 import { loadSessionUser, type SessionUser } from "@/lib/auth/load-user";
-import { createApiToken } from "@/lib/services/api-tokens";
+import { createApiToken } from "@/lib/people/commands-tokens";
 import { startServiceSwitch, type ServiceSwitch } from "./helpers/faults-net";
-import { STORE_DOWN_MESSAGE, uploadErrorMessage } from "@/lib/intake/upload-errors";
+import { STORE_DOWN_MESSAGE, uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 
 // the browser route reads the signed-in user from next-auth; here it is the provider of the test
 const signedIn = vi.hoisted(() => ({ user: null as SessionUser | null }));
@@ -153,7 +153,7 @@ describe("the upload service down during an upload through the browser route", (
     // the SDK's client gives FetchError when the service is unreachable, UPLOAD_FAILED when cut
     expect(e).not.toBeNull();
     expect([e!.name, e!.code]).toSatisfy(([n, c]) => n === "FetchError" || c === "UPLOAD_FAILED");
-    // and the upload form turns either into the API's wording (lib/intake/upload-errors.ts)
+    // and the upload form turns either into the API's wording (lib/batches/intake/upload-errors.ts)
     expect(uploadErrorMessage(e!)).toBe(STORE_DOWN_MESSAGE);
     // the React hook reports a store it could not reach as this code and text (@uploadthing/react)
     expect(uploadErrorMessage({ code: "INTERNAL_CLIENT_ERROR", message: "Something went wrong. Please report this to UploadThing." })).toBe(STORE_DOWN_MESSAGE);

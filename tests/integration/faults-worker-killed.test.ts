@@ -15,10 +15,11 @@ import { getDb, getPool } from "@/db/client";
 import { checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
 import { clearOutbox, killAllWorkers, outcome, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
 import { drainQueue } from "./helpers/pipeline";
+import { processTestTimeout } from "../helpers/processes";
 
 const ROWS = 60_000;
 const STALE_MS = 2_000;
@@ -69,7 +70,7 @@ async function queueLarge(seed: number, name: string): Promise<{ versionId: numb
 }
 
 describe("a worker killed mid-file", () => {
-  it("the job is taken over by another worker after the stale timeout and ends with exactly one report", { timeout: 180_000 }, async () => {
+  it("the job is taken over by another worker after the stale timeout and ends with exactly one report", { timeout: processTestTimeout(4) }, async () => {
     const db = getDb();
     const { versionId, size } = await queueLarge(707, "harrowgate-large.csv");
 
@@ -121,14 +122,14 @@ describe("a worker killed mid-file", () => {
     await survivor!.waitForLine(new RegExp(`check job ${job.id} done: report stored \\(${ROWS} rows\\)`));
   });
 
-  it("a download that hangs mid-file fails that attempt; the next attempt checks the batch", { timeout: 120_000 }, async () => {
+  it("a download that hangs mid-file fails that attempt; the next attempt checks the batch", { timeout: processTestTimeout(4) }, async () => {
     const db = getDb();
     const w = survivor!;
     const { versionId, size } = await queueLarge(708, "harrowgate-hanging.csv");
     // the service stops sending mid-file and never resumes (the gate is not released)
     await gate.holdNext(Math.floor(size * 0.4));
     const [job] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
-    await w.waitForLine(new RegExp(`check job ${job!.id} attempt 1 failed: The upload service sent no data for 6 s`), 30_000);
+    await w.waitForLine(new RegExp(`check job ${job!.id} attempt 1 failed: The upload service sent no data for 6 s`));
     // the failure is recorded (the job goes back to the queue for 2 s, then is claimed again)
     const failed = await waitFor("the failed attempt to be recorded", async () => {
       const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));

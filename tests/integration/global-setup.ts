@@ -25,7 +25,7 @@ declare module "vitest" {
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const DB_SCRIPT = path.join(ROOT, "scripts/db.sh");
 
-/** Defaults for the variables of lib/env.ts; the test ports of CONTRACTS.md. */
+/** Defaults for the variables of lib/env.ts; the test ports of DEVELOPERS.md "Ports (loopback only)". */
 const TEST_ENV: Record<string, string> = {
   APP_URL: "http://127.0.0.1:3410",
   NEXTAUTH_URL: "http://127.0.0.1:3410",

@@ -2,7 +2,7 @@
  * The bad-input list (tests/fixtures/hostile-files.ts) through the whole server pipeline: each
  * file is sent to POST /api/v1/batches with a provider's API token, stored in the upload-service
  * fake (started in-process), and checked by ONE running worker loop (runWorker, as
- * lib/jobs/worker-main.ts runs it), so a case that crashed or hung the loop would stop the rest.
+ * scripts/worker.ts runs it), so a case that crashed or hung the loop would stop the rest.
  * Every case ends refused with a 4xx message before storage, `unreadable` with its message, or
  * `ready for review` with its findings; the batch and report API answer afterwards; memory
  * stays bounded around the largest files.
@@ -17,9 +17,9 @@ import { mkdtemp, readdir, rm } from "node:fs/promises";
 import { getDb, getPool } from "@/db/client";
 import { batchVersions, batches, checkJobs, users } from "@/db/schema";
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
-import { runWorker } from "@/lib/jobs/worker";
-import { createApiToken } from "@/lib/services/api-tokens";
-import { openStoredFile } from "@/lib/uploads";
+import { runWorker } from "@/lib/batches/jobs/worker";
+import { createApiToken } from "@/lib/people/commands-tokens";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { GET as getBatch, POST } from "@/app/api/v1/batches/route";
 import { GET as getOneBatch } from "@/app/api/v1/batches/[id]/route";
 import { GET as getReport } from "@/app/api/v1/batches/[id]/versions/[version]/report/route";
@@ -27,6 +27,7 @@ import { BARLEY_DATASET, hostileFiles, type HostileFile, type HostileOutcome } f
 import { call } from "./helpers/api";
 import { drainQueue } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
+import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
 
 v8.setFlagsFromString("--expose-gc");
 const gc = vm.runInNewContext("gc") as () => void;
@@ -83,7 +84,7 @@ beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-hostile-"));
   const { apiKey } = parseUploadToken(process.env.UPLOADTHING_TOKEN!);
   fake = await startUploadFake({ port: 0, apiKey, dir });
-  // the SDK reads these at first use (lib/uploads caches its UTApi)
+  // the SDK reads these at first use (lib/batches/intake/file-store.ts caches its UTApi)
   process.env.UPLOADTHING_API_URL = fake.url;
   process.env.UPLOADTHING_INGEST_URL = fake.url;
   const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@fennick.test"));
@@ -137,7 +138,7 @@ describe("hostile files through the API upload and the check worker", () => {
     expect(sent.length).toBe(CASES.filter((x) => x.expect.kind !== "refused").length);
   });
 
-  it("one worker loop checks every case to an end state and keeps running; no attempt fails", async () => {
+  it("one worker loop checks every case to an end state and keeps running; no attempt fails", { timeout: processTestTimeout() }, async () => {
     const ids = sent.map((s) => s.versionId);
     const byKey = new Map<string, string>();
     for (const s of sent) {
@@ -169,7 +170,7 @@ describe("hostile files through the API upload and the check worker", () => {
         });
         try {
           while (!(await done())) {
-            if (Date.now() - started > 90_000) throw new Error(`the worker did not finish in 90 s; log: ${log.join("\n")}`);
+            if (Date.now() - started > PROCESS_PATIENCE_MS) throw new Error(`the worker did not finish in ${PROCESS_PATIENCE_MS / 1000} s; log: ${log.join("\n")}`);
             await new Promise((r) => setTimeout(r, 100));
           }
         } finally {
@@ -248,7 +249,7 @@ describe("hostile files through the API upload and the check worker", () => {
       expect(check.heap, `${c.id} check heap`).toBeLessThan(32 * MB);
       expect(check.rss, `${c.id} check rss`).toBeLessThan(48 * MB);
       // Uploading through the API: the server streams the file part to a temporary file and hands
-      // the store a disk-backed Blob (lib/intake/multipart-upload.ts), so what grows is this test's
+      // the store a disk-backed Blob (lib/batches/intake/multipart-upload.ts), so what grows is this test's
       // own request body (1x the file) and the in-process upload fake's copy as it stores it (up to
       // 1x), plus stream chunks. Before streaming this measured 7-8x the file (136 MB for 20 MB).
       expect(uploadPeak.get(c.id)!.rss, `${c.id} upload rss`).toBeLessThan(2 * size + 32 * MB);

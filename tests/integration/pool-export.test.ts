@@ -12,7 +12,7 @@ import { auditEvents, dataPlans, organisations, studies, studyAnalysts, studyPro
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
+import { decideVersion } from "@/lib/batches/commands-decide";
 import { openMemoryFile, uploadAndCheck, userId } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
 

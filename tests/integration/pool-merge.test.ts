@@ -12,7 +12,7 @@ import { organisations, studies, studyAnalysts, studyProviders, dataPlans } from
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { checkBatch, hashPlan, parsePlan, type ReadinessReport } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
+import { decideVersion } from "@/lib/batches/commands-decide";
 import { getIfAccepted, getStudyPool, getStudyRef } from "@/lib/pool/pool";
 import { streamOf, uploadAndCheck, userId } from "./helpers/pipeline";
 
@@ -109,7 +109,7 @@ describe("the pool", () => {
     expect(ifB).not.toBeNull();
     expect(ifB!.poolMembers).toBe(1);
     expectSameFigures(ifB!.after, await checkBatch(streamOf(concat([harrowgate, coldwell])), plan));
-    // c lost a third of irrigation_mm: missingness moved by more than 10 points against the pool [CHECKS.md "Pool and drift"]
+    // c lost a third of irrigation_mm: missingness moved by more than 10 points against the pool [lib/readiness/CHECKS.md "Pool and drift"]
     const ifC = await getIfAccepted(db, c.batchPublicId, 1);
     expect(ifC!.drift.map((f) => `${f.code}:${f.columns.join()}`)).toContain("drift.missing:irrigation_mm");
 

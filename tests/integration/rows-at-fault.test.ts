@@ -9,7 +9,7 @@ import { and, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
 import { batchVersions, dataPlans, reports } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { rowsAtFaultCsv } from "@/lib/intake/rows-at-fault";
+import { rowsAtFaultCsv } from "@/lib/batches/intake/rows-at-fault";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { GET } from "@/app/api/v1/batches/[id]/versions/[version]/rows-at-fault/route";
 import { openMemoryFile, uploadAndCheck } from "./helpers/pipeline";

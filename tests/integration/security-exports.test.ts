@@ -13,7 +13,7 @@ import { dataPlans, organisations, studies, studyAnalysts, studyProviders } from
 import { heatPumpRows } from "@/lib/demo/batches";
 import { HEAT_PUMP_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
-import { decideVersion } from "@/lib/triage/decide";
+import { decideVersion } from "@/lib/batches/commands-decide";
 import { GET as rowsAtFaultRoute } from "@/app/api/v1/batches/[id]/versions/[version]/rows-at-fault/route";
 import { GET as poolRowsRoute } from "@/app/api/v1/pool/[slug]/rows/route";
 import { GET as dictionaryRoute } from "@/app/api/v1/pool/[slug]/dictionary/route";

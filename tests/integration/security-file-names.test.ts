@@ -1,7 +1,7 @@
 /**
  * Uploads whose file names carry path tricks, markup, control characters, a right-to-left
  * override or sheer length, through POST /api/v1/batches: the stored name is the cleaned
- * base name (lib/intake/file-rules.ts cleanFileName), the batch title made from it carries
+ * base name (lib/batches/intake/file-rules.ts cleanFileName), the batch title made from it carries
  * no control characters, the JSON shows the cleaned name, and the original-file download
  * names it in a Content-Disposition header with nothing that could break out of it.
  */
@@ -63,7 +63,7 @@ describe("hostile file names through the API", () => {
     expect(await res.text()).toBe(csv);
   });
 
-  // lib/intake/api-upload.ts cleans with upload-router.ts's own cleanFileName, which cuts at 255
+  // lib/batches/intake/api-upload.ts cleans with upload-router.ts's own cleanFileName, which cuts at 255
   // characters and so drops the extension: this case needs it to use file-rules' cleanFileName
   it("a 1000-character name keeps its extension and is stored at 200 characters", async () => {
     const up = await apiUpload("provider@fennick.test", { study: "barley-nitrogen", file: new File([csv], `${"a".repeat(1000)}.csv`, { type: "text/csv" }) });

@@ -9,6 +9,7 @@ import { spawnSync } from "node:child_process";
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
+import { PROCESS_PATIENCE_MS } from "../helpers/processes";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 
@@ -25,7 +26,7 @@ function boot(extra: Record<string, string | undefined>) {
   const env: Record<string, string> = { PATH: process.env.PATH ?? "", HOME: process.env.HOME ?? "/tmp" };
   for (const [k, v] of Object.entries({ ...envExample(), NODE_ENV: "production", NEXT_RUNTIME: "nodejs", ...extra })) if (v !== undefined) env[k] = v;
   const script = "import('./instrumentation.ts').then((m) => m.register()).then(() => console.log('started'))";
-  return spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), ["-e", script], { cwd: ROOT, env: env as NodeJS.ProcessEnv, encoding: "utf8", timeout: 60_000 });
+  return spawnSync(path.join(ROOT, "node_modules/.bin/tsx"), ["-e", script], { cwd: ROOT, env: env as NodeJS.ProcessEnv, encoding: "utf8", timeout: PROCESS_PATIENCE_MS });
 }
 
 describe("start-time check of the secrets", () => {

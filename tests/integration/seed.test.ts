@@ -1,4 +1,4 @@
-/** The demo seed: what CONTRACTS.md promises, and nothing twice when run again. */
+/** The demo seed: what README.md "Using Tributary, role by role" promises, and nothing twice when run again. */
 import { execFileSync } from "node:child_process";
 import { createHash } from "node:crypto";
 import path from "node:path";
@@ -46,10 +46,10 @@ afterAll(async () => {
 });
 
 describe("seedDemo", () => {
-  test("first run writes the scenario of CONTRACTS.md; a second run adds nothing", async () => {
+  test("first run writes the demo scenario; a second run adds nothing", async () => {
     await seedDemo(db);
     const first = await counts();
-    // CONTRACTS.md: 2 teams + 6 farms + 2 installers; 12 sign-ins (CONTRACTS.md's 8 and a provider for each of the other four farms); 2 studies with plan version 1;
+    // the demo (lib/demo/accounts.ts): 2 teams + 6 farms + 2 installers; 12 sign-ins (eight named accounts and a provider for each of the other four farms); 2 studies with plan version 1;
     // one analyst per study; six farms on barley, two installers on heat pumps
     expect(first).toEqual({ organisations: 10, users: 12, studies: 2, data_plans: 2, study_analysts: 2, study_providers: 8 });
     const again = await seedDemo(db);

@@ -2,7 +2,7 @@
  * GET /api/v1/studies/:id/plan — the current data plan with version and hash, scoped exactly
  * as the study pages: 401 anonymous, 404 for studies outside the caller's scope (a provider
  * organisation not admitted, an analyst not assigned), 404 for a study without a plan.
- * Demo accounts and studies as in CONTRACTS.md.
+ * Demo accounts and studies as in README.md "Using Tributary, role by role".
  */
 import { randomBytes } from "node:crypto";
 import { eq } from "drizzle-orm";

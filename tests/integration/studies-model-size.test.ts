@@ -61,10 +61,10 @@ describe.skipIf(!hasR())("modelSize against R model.matrix", () => {
     expect(size.terms.reduce((s, t) => s + t.df, 0)).toBe(size.p);
   });
 
-  test("barley by hand: 7 numeric terms + soil (4 levels) 3 + variety (4 levels) 3 = 13 (PRODUCT.md demo model)", () => {
+  test("barley by hand: 7 numeric terms + soil (4 levels) 3 + variety (4 levels) 3 = 13 (the demo model of lib/demo/)", () => {
     const size = modelSize(BARLEY_PLAN);
     expect(size.p).toBe(13);
-    // df headroom = n − p − 1 (PRODUCT.md): the target df needs dfTarget + 14 complete cases
+    // df headroom = n − p − 1 (lib/readiness/CHECKS.md "The model: p, n and residual df"): the target df needs dfTarget + 14 complete cases
     expect(size.casesForTarget).toBe(size.dfTarget + 14);
   });
 });

@@ -38,7 +38,7 @@ async function auditFor(studyId: number, action: string) {
 const barley = (): PlanInput => structuredClone(BARLEY_PLAN);
 
 beforeAll(async () => {
-  // accounts of CONTRACTS.md "Demo accounts"
+  // accounts of README.md "Using Tributary, role by role"
   for (const [k, email] of Object.entries({
     admin: "admin@tributary.test",
     lead: "lead@lowmoor.test",

@@ -4,8 +4,8 @@ import { desc, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
 import { emailOutbox, organisations, userTokens, users } from "@/db/schema";
 import { verifyPassword } from "@/lib/auth/password";
-import { createUser } from "@/lib/services/users";
-import { describeLink, requestPasswordReset, setPasswordWithLink } from "@/lib/services/user-links";
+import { createUser } from "@/lib/people/commands-users";
+import { describeLink, requestPasswordReset, setPasswordWithLink } from "@/lib/people/commands-links";
 import { userId } from "./helpers/pipeline";
 
 const db = getDb();

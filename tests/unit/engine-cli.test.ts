@@ -6,15 +6,19 @@ import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { beforeAll, describe, expect, test } from "vitest";
+import { beforeAll, describe, expect, test, vi } from "vitest";
 import { parsePlan } from "@/lib/readiness";
 import { HEADER, cleanRows, csvOf, planInput } from "../fixtures/engine/data";
+import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
+
+// each test runs the command line once: on a busy machine it is slow, not wrong
+vi.setConfig({ testTimeout: processTestTimeout() });
 
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tributary-cli-"));
 const f = (name: string) => path.join(dir, name);
 
 function cli(...args: string[]) {
-  const r = spawnSync(process.execPath, ["--import", "tsx", "scripts/check.ts", ...args], { encoding: "utf8", timeout: 60_000 });
+  const r = spawnSync(process.execPath, ["--import", "tsx", "scripts/check.ts", ...args], { encoding: "utf8", timeout: PROCESS_PATIENCE_MS });
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 

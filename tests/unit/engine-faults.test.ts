@@ -182,7 +182,7 @@ describe("missingness by role, variant targets, distinct sample rows", () => {
     const p = testPlan({ columns: planInput().columns.map((c) => (c.name === "sow_date" ? { ...c, role: "ignore" as const } : c)) });
     const r = await checkBatch(chunks(csvOf(HEADER, rows)), p);
     const m = (name: string) => r.findings.find((f) => f.code === "missing.column" && f.columns[0] === name);
-    // CHECKS.md: blocker at ≥ 40 % for the planned model's columns
+    // lib/readiness/CHECKS.md missing.column: blocker at ≥ 40 % for the planned model's columns
     expect(m("irrigation")!.severity).toBe("blocker");
     expect(m("farm")!.severity).toBe("note");
     expect(m("sow_date")).toBeUndefined();

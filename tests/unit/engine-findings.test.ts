@@ -1,6 +1,6 @@
 /**
- * The catalogue of CHECKS.md: each finding fires on a minimal invented file with its code and
- * severity (the defaults in CHECKS.md's tables), with row numbers as a spreadsheet shows them
+ * The catalogue of lib/readiness/CHECKS.md: each finding fires on a minimal invented file with its code and
+ * severity (the defaults in its tables), with row numbers as a spreadsheet shows them
  * (header = row 1, so data row i is line i + 1), and does not fire on the clean file.
  */
 import { describe, expect, test } from "vitest";

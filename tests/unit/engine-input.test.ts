@@ -3,7 +3,7 @@
  * provider what to do; memory stays bounded on the pathological ones.
  * The bad-input list itself, with each case's promised outcome, is tests/fixtures/hostile-files.ts
  * (shared with the API pipeline and browser tests); expected messages are this product's own
- * wording (CHECKS.md "Inputs"); byte offsets are counted by hand there.
+ * wording (lib/readiness/CHECKS.md "What the engine reads", file.unreadable); byte offsets are counted by hand there.
  */
 import { describe, expect, test } from "vitest";
 import { checkBatch } from "@/lib/readiness";

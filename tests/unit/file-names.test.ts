@@ -1,12 +1,12 @@
 /**
- * Upload names made safe (lib/intake/file-rules.ts): the stored name is the last path
+ * Upload names made safe (lib/batches/intake/file-rules.ts): the stored name is the last path
  * segment without control, bidi-override (Unicode TR #9 explicit formatting characters) or
  * zero-width characters, Windows-reserved characters replaced, at most 200 characters with
  * the extension kept; and the download header follows RFC 6266 §4.3 (an ASCII `filename`
  * and the UTF-8 `filename*` of RFC 8187, whose value uses attr-chars and %-escapes only).
  */
 import { describe, expect, test } from "vitest";
-import { attachmentDisposition, cleanFileName, cleanText, MAX_FILE_NAME_CHARS } from "@/lib/intake/file-rules";
+import { attachmentDisposition, cleanFileName, cleanText, MAX_FILE_NAME_CHARS } from "@/lib/batches/intake/file-rules";
 
 const CASES: [string, string][] = [
   ["../../etc/passwd.csv", "passwd.csv"],

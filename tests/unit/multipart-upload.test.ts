@@ -9,7 +9,7 @@ import { readdir } from "node:fs/promises";
 import os from "node:os";
 import { describe, expect, test } from "vitest";
 import { AppError } from "@/lib/errors";
-import { receiveMultipart } from "@/lib/intake/multipart-upload";
+import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
 
 const tempUploads = async () => (await readdir(os.tmpdir())).filter((n) => n.startsWith("tributary-upload-")).length;
 

@@ -52,7 +52,7 @@ describe("exact collinearity", () => {
     expect(res.rank).toBe(4);
     expect(res.aliased).toEqual([{ term: "total_water", combination: "irrigation + rainfall" }]);
     expect(res.collinearity?.aliased).toEqual(res.aliased);
-    expect(res.fit.dfModel).toBe(3); // rank − 1 (CHECKS.md, fit preview)
+    expect(res.fit.dfModel).toBe(3); // rank − 1 (lib/readiness/CHECKS.md "The fit preview")
     expect(res.fit.dfResidual).toBe(56);
     const tw = res.fit.coefficients.find((c) => c.term === "total_water");
     expect(tw).toMatchObject({ estimate: null, stdError: null, aliased: true });
@@ -256,7 +256,7 @@ describe("no intercept", () => {
     [1, 2, 3, 4].forEach((x) => ls.addRow([x], 2 * x + (x % 2 ? 0.1 : -0.1)));
     const res = analyseDesign(ls, numericSpec(["x"], false), OPTS);
     const sumY2 = [2.1, 3.9, 6.1, 7.9].reduce((s, y) => s + y * y, 0);
-    expect(res.fit.tss).toBeCloseTo(sumY2, 10); // NIST NoInt convention (SOURCES.md)
+    expect(res.fit.tss).toBeCloseTo(sumY2, 10); // NIST NoInt convention (tests/fixtures/reference/README.md)
     expect(res.fit.dfModel).toBe(1);
     expect(res.collinearity?.terms).toEqual([]);
   });

@@ -1,13 +1,13 @@
 /**
  * Least squares against the NIST StRD linear-regression datasets (certified values computed by
- * NIST in 500-digit arithmetic; files and provenance in ../shared/reference/SOURCES.md).
+ * NIST in 500-digit arithmetic; files and provenance in tests/fixtures/reference/README.md).
  */
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { LeastSquares, analyseDesign, conditionFlags, highCorrelationPairs, type DesignSpec } from "@/lib/readiness/stats";
 
-const REF = path.resolve(import.meta.dirname, "../../../shared/reference");
+const REF = path.resolve(import.meta.dirname, "../fixtures/reference");
 
 interface Certified {
   coefficients: { estimate: number; sd: number }[];
@@ -65,7 +65,7 @@ const MODELS: Model[] = [
   { name: "pontius", design: ([x]) => [1, x as number, (x as number) ** 2], columns: ["intercept", "x", "x2"], intercept: true, digits: 11 },
   // NIST "average": y = B1 x, no intercept (R² and regression SS about zero)
   { name: "noint1", design: ([x]) => [x as number], columns: ["x"], intercept: false, digits: 12 },
-  // NIST "higher": y = B0 + B1 x1 + … + B6 x6 (CHECKS.md asks ≥ 9 digits; we hold 11)
+  // NIST "higher": y = B0 + B1 x1 + … + B6 x6 (lib/readiness/CHECKS.md asks ≥ 9 digits; we hold 11)
   { name: "longley", design: (x) => [1, ...x], columns: ["intercept", "x1", "x2", "x3", "x4", "x5", "x6"], intercept: true, digits: 11 },
 ];
 

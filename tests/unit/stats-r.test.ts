@@ -135,7 +135,7 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
   const csv = path.join(R.ok ? tempDir() : "", "design.csv");
   if (R.ok) writeCsv(csv, ["x1", "x2", "x3", "f", "x4", "y"], raw.map((r) => [r.x1, r.x2, r.x3, r.f, r.x4, r.y]));
   const spec: DesignSpec = { columns: c.columns, intercept: true, terms: c.terms, numericColumns: ["x1", "x2", "x3", "x4"].filter((x) => c.columns.includes(x)) };
-  // Fox & Monette groups as CHECKS.md defines them: a predictor with the interaction columns containing it
+  // Fox & Monette groups as lib/readiness/CHECKS.md (Formulas, GVIF) defines them: a predictor with the interaction columns containing it
   const groups = c.terms
     .filter((t) => !t.term.includes(":"))
     .map((t) => {

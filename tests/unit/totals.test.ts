@@ -6,8 +6,12 @@
 import { spawnSync } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
-import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
 import { closingLine, tallyLine, tallyPlaywright, tallyVitest } from "@/scripts/totals";
+import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
+
+// two tests run the real vitest or Playwright: on a busy machine they are slow, not wrong
+vi.setConfig({ testTimeout: processTestTimeout() });
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 // inside the repo so the fixtures resolve "vitest" and "@playwright/test" from node_modules
@@ -42,7 +46,7 @@ describe("totals of real reports", () => {
     const out = path.join(DIR, "vitest.json");
     const r = spawnSync(path.join(ROOT, "node_modules/.bin/vitest"), ["run", "--root", path.join(DIR, "v"), "--reporter=json", `--outputFile.json=${out}`], {
       encoding: "utf8",
-      timeout: 120_000,
+      timeout: PROCESS_PATIENCE_MS,
     });
     expect(r.status).not.toBe(0);
     const t = tallyVitest("v", r.status ?? 1, out);
@@ -54,7 +58,7 @@ describe("totals of real reports", () => {
     const out = path.join(DIR, "playwright.json");
     const r = spawnSync(path.join(ROOT, "node_modules/.bin/playwright"), ["test", "--config", path.join(DIR, "p/playwright.config.mjs"), "--reporter=json"], {
       encoding: "utf8",
-      timeout: 120_000,
+      timeout: PROCESS_PATIENCE_MS,
       env: { ...process.env, PLAYWRIGHT_JSON_OUTPUT_NAME: out, CI: "" },
     });
     expect(r.status).toBe(1);

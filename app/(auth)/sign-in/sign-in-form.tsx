@@ -3,7 +3,7 @@
 import { useState, type FormEvent } from "react";
 import { signIn } from "next-auth/react";
 import { Button } from "@/components/ui/button";
-import { useHydrated } from "@/lib/hooks/use-hydrated";
+import { useHydrated } from "@/lib/client/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { SIGN_IN_ERROR, signInErrorMessage } from "@/lib/auth/sign-in-errors";

@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { getHomeSummary } from "@/lib/dal/home";
+import { getHomeSummary } from "@/lib/batches/queries-home";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { KeyFigures } from "@/components/key-figures";

@@ -14,7 +14,7 @@ import { BATCH_STATES, type BatchState } from "@/db/schema";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatDate } from "@/lib/format";
-import { getBoard } from "@/lib/board/queries";
+import { getBoard } from "@/lib/pool/queries-board";
 
 export const metadata = { title: "Status board" };
 export const dynamic = "force-dynamic";

@@ -2,7 +2,7 @@
 
 import { getCurrentUser } from "@/lib/auth/session";
 import { fail, type Result } from "@/lib/result";
-import { createUser, type UserRecord } from "@/lib/services/users";
+import { createUser, type UserRecord } from "@/lib/people/commands-users";
 
 /** Invites a provider or analyst: the account is created without a password and an e-mail link lets them choose one. */
 export async function inviteAction(input: { email: string; name: string; role: string; organisationId: string }): Promise<Result<UserRecord>> {

@@ -3,7 +3,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { InviteForm } from "@/components/settings/invite-form";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listOrganisations } from "@/lib/dal/organisations";
+import { listOrganisations } from "@/lib/people/queries-organisations";
 import { inviteAction } from "./actions";
 
 export const metadata = { title: "Invite" };

@@ -1,6 +1,6 @@
 import Link from "next/link";
-import { getHomeSummary } from "@/lib/dal/home";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { getHomeSummary } from "@/lib/batches/queries-home";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { EmptyState } from "@/components/ui/empty-state";

@@ -5,7 +5,7 @@ import { EmptyState } from "@/components/ui/empty-state";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatDateTime } from "@/lib/format";
-import { listMailFor, mailboxEnabled } from "@/lib/mailbox/demo-mailbox";
+import { listMailFor, mailboxEnabled } from "@/lib/mail/demo-mailbox";
 
 export const metadata = { title: "Demo mailbox" };
 export const dynamic = "force-dynamic";

@@ -5,7 +5,7 @@ import { getDb } from "@/db/client";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatCount } from "@/lib/format";
-import { listPoolStudiesForUser } from "@/lib/pool/access";
+import { listPoolStudiesForUser } from "@/lib/pool/queries";
 import { getStudyPool } from "@/lib/pool/pool";
 
 export const metadata = { title: "Pools" };

@@ -1,4 +1,4 @@
-import { getHomeSummary } from "@/lib/dal/home";
+import { getHomeSummary } from "@/lib/batches/queries-home";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { EmptyState } from "@/components/ui/empty-state";

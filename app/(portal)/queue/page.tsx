@@ -3,7 +3,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { QueueView } from "@/components/triage/queue-view";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listQueueForUser } from "@/lib/dal/queue";
+import { listQueueForUser } from "@/lib/batches/queries-queue";
 
 export const metadata = { title: "Review queue" };
 

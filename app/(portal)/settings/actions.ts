@@ -1,8 +1,8 @@
 "use server";
 
 import { getCurrentUser } from "@/lib/auth/session";
-import { changeOwnPassword } from "@/lib/services/users";
-import { changePasswordSchema } from "@/lib/validation/users";
+import { changeOwnPassword } from "@/lib/people/commands-users";
+import { changePasswordSchema } from "@/lib/people/schemas";
 import { fail, fieldErrorsOf, type Result } from "@/lib/result";
 
 export type ChangePasswordState = Result<null> | null;

@@ -4,7 +4,7 @@ import { startTransition, useActionState, useEffect, useRef } from "react";
 import { signOut } from "next-auth/react";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
-import { useHydrated } from "@/lib/hooks/use-hydrated";
+import { useHydrated } from "@/lib/client/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { changePasswordAction, type ChangePasswordState } from "./actions";

@@ -3,7 +3,7 @@
 import { revalidatePath } from "next/cache";
 import { getCurrentUser } from "@/lib/auth/session";
 import { fail, type Result } from "@/lib/result";
-import { createApiToken, revokeApiToken, type ApiTokenListItem } from "@/lib/services/api-tokens";
+import { createApiToken, revokeApiToken, type ApiTokenListItem } from "@/lib/people/commands-tokens";
 
 /** Creates a personal API token; the token is returned once, here. */
 export async function createTokenAction(name: string): Promise<Result<ApiTokenListItem & { token: string }>> {

@@ -4,7 +4,7 @@ import { EmptyState } from "@/components/ui/empty-state";
 import { UploadPanel } from "@/components/intake/upload-panel";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listUploadTargets } from "@/lib/dal/intake";
+import { listUploadTargets } from "@/lib/batches/queries-upload-targets";
 import { env } from "@/lib/env";
 
 export const metadata = { title: "Upload a batch" };

@@ -88,7 +88,7 @@ export function conditionDiagnostics(x: number[][], r: number): { indices: numbe
   return { indices, proportions };
 }
 
-/** Pairs of numeric predictors with |r| ≥ threshold (CHECKS.md collinear.pair, default 0.9). */
+/** Pairs of numeric predictors with |r| ≥ threshold (lib/readiness/CHECKS.md collinear.pair, default 0.9). */
 export function highCorrelationPairs(
   report: CollinearityReport | null,
   numericColumns: string[],

@@ -7,7 +7,7 @@
 import { createServer, request, type IncomingMessage, type Server, type ServerResponse } from "node:http";
 import type { AddressInfo, Socket } from "node:net";
 import { UTFile } from "uploadthing/server";
-import { createUtapi } from "@/lib/uploads";
+import { createUtapi } from "@/lib/batches/intake/file-store";
 
 type Served = { url: string; port: number; close(): Promise<void> };
 

@@ -1,5 +1,5 @@
 /**
- * Processes for the fault tests: real worker processes (lib/jobs/worker-main.ts) that can be
+ * Processes for the fault tests: real worker processes (scripts/worker.ts) that can be
  * stopped gracefully or killed, a private second MariaDB instance that can be stopped and
  * started without touching the shared one, and the database reads the assertions need.
  */
@@ -11,6 +11,7 @@ import { and, eq, inArray, sql } from "drizzle-orm";
 import * as schema from "@/db/schema";
 import type { Db } from "@/db/client";
 import { auditEvents, batchVersions, checkJobs, emailOutbox, reports } from "@/db/schema";
+import { PROCESS_PATIENCE_MS } from "../../helpers/processes";
 
 export const ROOT = path.resolve(import.meta.dirname, "../../..");
 
@@ -34,12 +35,12 @@ export type WorkerProcess = {
 const started = new Set<ChildProcess>();
 
 /**
- * Starts lib/jobs/worker-main.ts as its own Node process (node --import tsx, so the pid is
+ * Starts scripts/worker.ts as its own Node process (node --import tsx, so the pid is
  * the worker itself and SIGKILL kills the worker, not a launcher). `env` is added to the
  * test's environment; SMTP points at a closed port so no test mail reaches a shared fake.
  */
 export function startWorker(env: Record<string, string>): WorkerProcess {
-  const child = spawn(process.execPath, ["--import", "tsx", "lib/jobs/worker-main.ts"], {
+  const child = spawn(process.execPath, ["--import", "tsx", "scripts/worker.ts"], {
     cwd: ROOT,
     env: { ...process.env, SMTP_URL: "smtp://127.0.0.1:9", TRIBUTARY_WORKER_POLL_MS: "200", ...env },
     stdio: ["ignore", "pipe", "pipe"],
@@ -75,7 +76,7 @@ export function startWorker(env: Record<string, string>): WorkerProcess {
     exited,
     alive: () => !done,
     kill: (signal) => void child.kill(signal),
-    waitForLine(re, timeoutMs = 60_000) {
+    waitForLine(re, timeoutMs = PROCESS_PATIENCE_MS) {
       const seen = lines.find((l) => re.test(l));
       if (seen) return Promise.resolve(seen);
       return new Promise((resolve, reject) => {
@@ -94,7 +95,7 @@ export async function killAllWorkers(): Promise<void> {
 }
 
 /** Polls `fn` until it returns a truthy value; throws `what` after `timeoutMs`. */
-export async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = 60_000, everyMs = 100): Promise<T> {
+export async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = PROCESS_PATIENCE_MS, everyMs = 100): Promise<T> {
   const until = Date.now() + timeoutMs;
   for (;;) {
     const v = await fn();
@@ -116,7 +117,7 @@ export function privateDb(...args: string[]): string {
     cwd: ROOT,
     env: { ...process.env, TRIBUTARY_DB_HOME: PRIVATE_DB.home, TRIBUTARY_DB_PORT: String(PRIVATE_DB.port) },
     encoding: "utf8",
-    timeout: 170_000,
+    timeout: PROCESS_PATIENCE_MS,
   });
   if (r.status !== 0) throw new Error(`db.sh ${args.join(" ")} (private instance on ${PRIVATE_DB.port}) failed:\n${r.stdout}${r.stderr}`);
   return r.stdout;

@@ -2,9 +2,9 @@
 import { eq, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { checkJobs, studies, users } from "@/db/schema";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
-import { claimJob } from "@/lib/jobs/check-jobs";
-import { runJob } from "@/lib/jobs/worker";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
+import { claimJob } from "@/lib/batches/jobs/check-jobs";
+import { runJob } from "@/lib/batches/jobs/worker";
 
 const files = new Map<string, string>();
 let seq = 0;

@@ -9,7 +9,7 @@ import { desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
 import { emailOutbox } from "@/db/schema";
 import { DEMO_STUDIES } from "@/lib/demo";
-import { requestPasswordReset } from "@/lib/services/user-links";
+import { requestPasswordReset } from "@/lib/people/commands-links";
 import { actAs, redirectTarget } from "./security-walk-request";
 import type { Probe, ProbeCtx } from "./security-walk-routes";
 import { freshFarm, freshStudy, freshToken, freshUser, freshVersion } from "./security-walk-world";

@@ -16,11 +16,11 @@ import { batches, batchVersions, checkJobs, dataPlans, organisations, studies, s
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
 import { DEMO_STUDIES, planHash } from "@/lib/demo";
 import { barleyBatches } from "@/lib/demo/batches";
-import { recordBatchVersion } from "@/lib/intake/record-upload";
-import { claimJob } from "@/lib/jobs/check-jobs";
-import { runJob } from "@/lib/jobs/worker";
-import { decideVersion } from "@/lib/triage/decide";
-import { openStoredFile, utapi } from "@/lib/uploads";
+import { recordBatchVersion } from "@/lib/batches/commands-upload";
+import { claimJob } from "@/lib/batches/jobs/check-jobs";
+import { runJob } from "@/lib/batches/jobs/worker";
+import { decideVersion } from "@/lib/batches/commands-decide";
+import { openStoredFile, utapi } from "@/lib/batches/intake/file-store";
 import { drainQueue } from "./pipeline";
 import { sessionCookieFor } from "./session";
 import { addApiToken, createWorld, WORLD_PASSWORD, type World, type WorldUser } from "./world";

@@ -1,7 +1,7 @@
 import Link from "next/link";
 import { SetPasswordForm } from "@/components/settings/link-forms";
 import { PASSWORD_MIN_LENGTH } from "@/lib/auth/password-rules";
-import { describeLink } from "@/lib/services/user-links";
+import { describeLink } from "@/lib/people/commands-links";
 import { setPasswordAction } from "../../link-actions";
 
 export const metadata = { title: "Choose a password" };

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { getDb } from "@/db/client";
 import { can } from "@/lib/auth/permissions";
 import { getCurrentUser } from "@/lib/auth/session";
-import { retryFailedJob } from "@/lib/jobs/check-jobs";
+import { retryFailedJob } from "@/lib/batches/jobs/check-jobs";
 import { fail, ok, type Result } from "@/lib/result";
 
 export async function retryJobAction(jobId: number): Promise<Result<null>> {

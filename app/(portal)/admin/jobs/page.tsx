@@ -3,7 +3,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { JobsTable } from "@/components/settings/jobs-table";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listOpenCheckJobs } from "@/lib/dal/jobs";
+import { listOpenCheckJobs } from "@/lib/batches/queries-jobs";
 import { retryJobAction } from "./actions";
 
 export const metadata = { title: "Checks" };

@@ -3,8 +3,8 @@
 import { revalidatePath } from "next/cache";
 import { can } from "@/lib/auth/permissions";
 import { getCurrentUser } from "@/lib/auth/session";
-import { changeRole, createUser, setActive } from "@/lib/services/users";
-import { createUserSchema, roleSchema, userIdSchema } from "@/lib/validation/users";
+import { changeRole, createUser, setActive } from "@/lib/people/commands-users";
+import { createUserSchema, roleSchema, userIdSchema } from "@/lib/people/schemas";
 import { fail, fieldErrorsOf, type Result } from "@/lib/result";
 
 // Thin actions: check the input's shape for field errors, then let the service decide

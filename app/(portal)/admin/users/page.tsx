@@ -1,8 +1,8 @@
 import { redirect } from "next/navigation";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listUsers } from "@/lib/dal/users";
-import { listOrganisations } from "@/lib/dal/organisations";
+import { listUsers } from "@/lib/people/queries";
+import { listOrganisations } from "@/lib/people/queries-organisations";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { ROLE_HOME } from "@/components/portal/nav";

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { getDb } from "@/db/client";
 import { getCurrentUser } from "@/lib/auth/session";
 import { fail, type Result } from "@/lib/result";
-import { decideVersion, type DecisionDone, type DecisionInput } from "@/lib/triage/decide";
+import { decideVersion, type DecisionDone, type DecisionInput } from "@/lib/batches/commands-decide";
 
 /** Accept or bounce a version; the service re-reads the role and the state and does it all in one transaction. */
 export async function decideAction(batchId: string, version: number, input: DecisionInput): Promise<Result<DecisionDone>> {

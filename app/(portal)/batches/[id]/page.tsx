@@ -10,8 +10,8 @@ import { decideAction } from "./actions";
 import { ReportView, findingKey } from "@/components/report/report-view";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { getBatchForUser } from "@/lib/dal/batches";
-import { getVersionReportForUser } from "@/lib/dal/reports";
+import { getBatchForUser } from "@/lib/batches/queries";
+import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { formatBytes, formatDateTime } from "@/lib/format";
 
 export const metadata = { title: "Batch" };

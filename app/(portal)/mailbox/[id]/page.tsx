@@ -4,7 +4,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatDateTime } from "@/lib/format";
-import { getMailFor, mailboxEnabled } from "@/lib/mailbox/demo-mailbox";
+import { getMailFor, mailboxEnabled } from "@/lib/mail/demo-mailbox";
 
 export const metadata = { title: "E-mail" };
 export const dynamic = "force-dynamic";

@@ -9,7 +9,7 @@ import { PoolFigures } from "@/components/pool/pool-figures";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatCount, formatDecimal } from "@/lib/format";
-import { getPoolForUser } from "@/lib/pool/access";
+import { getPoolForUser } from "@/lib/pool/queries";
 import { thresholdsOf } from "@/lib/readiness/plan";
 
 export const metadata = { title: "Pool" };

@@ -10,7 +10,7 @@ import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { formatDateTime } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, type Plan } from "@/lib/readiness/plan";
 import { modelSize } from "@/lib/studies/model-size";
@@ -37,7 +37,7 @@ function ModelSettings({ plan }: { plan: Plan }) {
       <dt className="text-silt-ink">Outcome mean and SD</dt>
       <dd className="tabular">{plan.outcome ? `${plan.outcome.mean} ± ${plan.outcome.sd}` : <span className="text-silt-ink">not given</span>}</dd>
       <dt className="text-silt-ink">Planned selection</dt>
-      <dd className="tabular">{plan.selection ? `over ${plan.selection.candidates} candidate parameters` : <span className="text-silt-ink">none</span>}</dd>
+      <dd className="tabular">{plan.selection ? (Array.isArray(plan.selection.candidates) ? `over ${plan.selection.candidates.join(", ")}` : `over ${plan.selection.candidates} candidate parameters`) : <span className="text-silt-ink">none</span>}</dd>
       <dt className="text-silt-ink">File-wide missing tokens</dt>
       <dd className="font-mono text-sm">{tokens || <span className="font-sans text-silt-ink">none</span>}</dd>
       <dt className="text-silt-ink">Thresholds changed</dt>

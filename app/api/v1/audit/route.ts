@@ -1,9 +1,9 @@
 // GET /api/v1/audit[?objectType=&objectId=&batchId=&studyId=&beforeId=&limit=] — the audit trail, newest first. Leads and admins.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseQuery } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { listAuditEvents } from "@/lib/dal/audit";
+import { apiRoute } from "@/lib/http/route";
+import { parseQuery } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { listAuditEvents } from "@/lib/people/queries-audit";
 
 const id = (what: string) => z.coerce.number().int().positive(`${what} is a positive whole number.`).optional();
 

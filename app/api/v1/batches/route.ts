@@ -2,14 +2,14 @@
 // POST /api/v1/batches — upload a batch file (multipart: study, file, batch?, label?); the same pipeline as the browser.
 import { z } from "zod";
 import { BATCH_STATES } from "@/db/schema";
-import { apiRoute } from "@/lib/api/route";
-import { parseQuery } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { listBatchesForUser } from "@/lib/dal/batches";
+import { apiRoute } from "@/lib/http/route";
+import { parseQuery } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { listBatchesForUser } from "@/lib/batches/queries";
 import { AppError } from "@/lib/errors";
 import { env } from "@/lib/env";
-import { uploadBatchViaApi } from "@/lib/intake/api-upload";
-import { receiveMultipart } from "@/lib/intake/multipart-upload";
+import { uploadBatchViaApi } from "@/lib/batches/intake/api-upload";
+import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
 
 const querySchema = z.object({
   studyId: z.coerce.number().int().positive("studyId is a positive whole number.").optional(),

@@ -1,10 +1,10 @@
 // GET /api/v1/board[?weeks=] — the lead's status board: batches by state, turnaround, providers, silent providers, pools, intake flow.
 import { z } from "zod";
 import { getDb } from "@/db/client";
-import { apiRoute } from "@/lib/api/route";
-import { parseQuery } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { getBoard } from "@/lib/board/queries";
+import { apiRoute } from "@/lib/http/route";
+import { parseQuery } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { getBoard } from "@/lib/pool/queries-board";
 
 const querySchema = z.object({ weeks: z.coerce.number().int().min(1, "weeks is at least 1.").max(104, "weeks is at most 104.").default(12) });
 

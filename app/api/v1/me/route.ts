@@ -1,6 +1,6 @@
 // GET /api/v1/me — the caller, their organisation and what their role allows.
-import { apiRoute } from "@/lib/api/route";
-import { jsonData } from "@/lib/api/respond";
+import { apiRoute } from "@/lib/http/route";
+import { jsonData } from "@/lib/http/respond";
 import { PERMISSIONS } from "@/lib/auth/permissions";
 
 export const GET = apiRoute({}, async ({ actor }) =>

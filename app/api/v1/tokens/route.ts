@@ -1,10 +1,10 @@
 // GET /api/v1/tokens — the caller's API tokens; POST — create one (its value is shown once).
-import { apiRoute } from "@/lib/api/route";
-import { parseJsonBody } from "@/lib/api/parse";
-import { jsonData, resultResponse } from "@/lib/api/respond";
+import { apiRoute } from "@/lib/http/route";
+import { parseJsonBody } from "@/lib/http/parse";
+import { jsonData, resultResponse } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
-import { createApiToken, listApiTokens } from "@/lib/services/api-tokens";
-import { createApiTokenSchema } from "@/lib/validation/api-tokens";
+import { createApiToken, listApiTokens } from "@/lib/people/commands-tokens";
+import { createApiTokenSchema } from "@/lib/people/schemas-tokens";
 
 export const GET = apiRoute({ action: "token.manage" }, async ({ actor }) => jsonData(await listApiTokens(actor.id)));
 

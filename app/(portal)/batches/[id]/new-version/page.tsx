@@ -3,8 +3,8 @@ import { PageHeader } from "@/components/ui/page-header";
 import { UploadPanel } from "@/components/intake/upload-panel";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { getBatchForUser } from "@/lib/dal/batches";
-import { listUploadTargets } from "@/lib/dal/intake";
+import { getBatchForUser } from "@/lib/batches/queries";
+import { listUploadTargets } from "@/lib/batches/queries-upload-targets";
 import { env } from "@/lib/env";
 
 export const metadata = { title: "New version" };

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { PageHeader } from "@/components/ui/page-header";
 import { TrailTable } from "@/components/triage/trail-table";
 import { requireUser } from "@/lib/auth/session";
-import { getBatchTrailForUser } from "@/lib/dal/batch-trail";
+import { getBatchTrailForUser } from "@/lib/batches/queries-trail";
 
 export const metadata = { title: "Audit trail" };
 

@@ -2,7 +2,7 @@
 
 import { revalidatePath } from "next/cache";
 import { getCurrentUser } from "@/lib/auth/session";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { fail, type Result } from "@/lib/result";
 import { publishPlanVersion } from "@/lib/studies";
 

@@ -4,7 +4,7 @@ import { PlanEditor } from "@/components/plan-editor/plan-editor";
 import { PageHeader } from "@/components/ui/page-header";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import type { PlanInput } from "@/lib/readiness/plan";
 import { listPlanVersionsForUser } from "@/lib/studies/queries";
 import { publishPlanAction } from "./actions";

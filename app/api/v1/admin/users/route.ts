@@ -1,10 +1,10 @@
 // GET /api/v1/admin/users — every user; POST — create one. Admins only.
-import { apiRoute } from "@/lib/api/route";
-import { parseJsonBody } from "@/lib/api/parse";
-import { jsonData, resultResponse } from "@/lib/api/respond";
-import { listUsers } from "@/lib/dal/users";
-import { createUser } from "@/lib/services/users";
-import { createUserSchema } from "@/lib/validation/users";
+import { apiRoute } from "@/lib/http/route";
+import { parseJsonBody } from "@/lib/http/parse";
+import { jsonData, resultResponse } from "@/lib/http/respond";
+import { listUsers } from "@/lib/people/queries";
+import { createUser } from "@/lib/people/commands-users";
+import { createUserSchema } from "@/lib/people/schemas";
 
 export const GET = apiRoute({ action: "user.manage" }, async ({ actor }) => jsonData(await listUsers(actor)));
 

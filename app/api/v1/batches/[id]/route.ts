@@ -1,9 +1,9 @@
 // GET /api/v1/batches/:publicId — one batch with its versions; 404 (not 403) outside the caller's scope, so existence does not leak.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { getBatchForUser } from "@/lib/dal/batches";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { getBatchForUser } from "@/lib/batches/queries";
 import { AppError } from "@/lib/errors";
 
 const NOT_VISIBLE = "No batch with this id is visible to you.";

@@ -1,9 +1,9 @@
 // GET /api/v1/studies/:id — one study (by id or slug) with its current data plan; 404 outside the caller's scope.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { getStudyForUser } from "@/lib/dal/studies";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { AppError } from "@/lib/errors";
 
 const paramsSchema = z.object({

@@ -1,10 +1,10 @@
 // DELETE /api/v1/tokens/:id — revoke one of the caller's API tokens.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { resultResponse } from "@/lib/api/respond";
-import { revokeApiToken } from "@/lib/services/api-tokens";
-import { apiTokenIdSchema } from "@/lib/validation/api-tokens";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { resultResponse } from "@/lib/http/respond";
+import { revokeApiToken } from "@/lib/people/commands-tokens";
+import { apiTokenIdSchema } from "@/lib/people/schemas-tokens";
 
 const paramsSchema = z.object({ id: apiTokenIdSchema });
 

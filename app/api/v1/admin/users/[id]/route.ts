@@ -1,10 +1,10 @@
 // PATCH /api/v1/admin/users/:id — change a user's role and/or active flag. Admins only.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseJsonBody, parseParams } from "@/lib/api/parse";
-import { resultResponse } from "@/lib/api/respond";
-import { updateUser } from "@/lib/services/users";
-import { updateUserSchema, userIdSchema } from "@/lib/validation/users";
+import { apiRoute } from "@/lib/http/route";
+import { parseJsonBody, parseParams } from "@/lib/http/parse";
+import { resultResponse } from "@/lib/http/respond";
+import { updateUser } from "@/lib/people/commands-users";
+import { updateUserSchema, userIdSchema } from "@/lib/people/schemas";
 
 const paramsSchema = z.object({ id: userIdSchema });
 

@@ -1,8 +1,8 @@
 // GET /api/v1/studies/:id/plan — the study's current data plan (id = number or slug) with its version and hash; 404 outside the caller's scope.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
 import { getCurrentPlanForUser } from "@/lib/studies/queries";
 

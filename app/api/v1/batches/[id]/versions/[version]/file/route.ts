@@ -1,11 +1,11 @@
 // GET /api/v1/batches/:publicId/versions/:n/file — the original file as uploaded, streamed after the same scope check as the report; 404 outside it.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { getVersionFileKeyForUser } from "@/lib/dal/reports";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { getVersionFileKeyForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
-import { attachmentDisposition } from "@/lib/intake/file-rules";
-import { openStoredFile, StoredFileMissingError } from "@/lib/uploads";
+import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
+import { openStoredFile, StoredFileMissingError } from "@/lib/batches/intake/file-store";
 
 const paramsSchema = z.object({ id: z.string().min(1).max(64), version: z.coerce.number().int().positive("version is a whole number from 1.") });
 

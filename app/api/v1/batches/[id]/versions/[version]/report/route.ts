@@ -1,9 +1,9 @@
 // GET /api/v1/batches/:publicId/versions/:n/report — the version's readiness report (the engine's JSON format), or its progress while checking.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { jsonData } from "@/lib/api/respond";
-import { getVersionReportForUser } from "@/lib/dal/reports";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { jsonData } from "@/lib/http/respond";
+import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
 
 const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });

@@ -1,12 +1,12 @@
 // GET /api/v1/batches/:publicId/versions/:n/rows-at-fault — the original rows that carry findings, with their codes and messages, as formula-safe CSV.
 import { z } from "zod";
-import { apiRoute } from "@/lib/api/route";
-import { parseParams } from "@/lib/api/parse";
-import { getVersionFileKeyForUser } from "@/lib/dal/reports";
+import { apiRoute } from "@/lib/http/route";
+import { parseParams } from "@/lib/http/parse";
+import { getVersionFileKeyForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
-import { attachmentDisposition } from "@/lib/intake/file-rules";
-import { rowsAtFaultCsv } from "@/lib/intake/rows-at-fault";
-import { openStoredFile } from "@/lib/uploads";
+import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
+import { rowsAtFaultCsv } from "@/lib/batches/intake/rows-at-fault";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
 
 const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });
 

@@ -1,0 +1,86 @@
+import "server-only";
+/**
+ * Upload through the API (scripts, with a personal API token): the same rules and the same
+ * pipeline as the browser. Admission is checked before the file is stored; a file refused
+ * (or not recorded) after storing is deleted again. When the file store or the database is
+ * down the caller gets a 503 that says so, says nothing was recorded, and asks to try again.
+ */
+import pLimit from "p-limit";
+import { UTFile } from "uploadthing/server";
+import { getDb } from "@/db/client";
+import { env } from "@/lib/env";
+import { AppError } from "@/lib/errors";
+import type { SessionUser } from "@/lib/auth/session";
+import { isDbUnavailable } from "@/db/errors";
+import { utapi } from "@/lib/batches/intake/file-store";
+import { batchFileProblem, cleanFileName } from "./file-rules";
+import type { ReceivedFile } from "./multipart-upload";
+import { DB_DOWN_MESSAGE, STORE_DOWN_MESSAGE } from "./upload-errors";
+import { authoriseUpload, recordBatchVersion } from "../commands-upload";
+import { studyIdBySlug } from "./upload-router";
+
+
+export interface ApiUploadInput {
+  studySlug: string;
+  batchId?: string | null;
+  label?: string | null;
+  /** streamed to a temporary file by receiveMultipart (multipart-upload.ts) */
+  file: ReceivedFile;
+}
+
+/**
+ * At most this many API uploads are stored and recorded at once per app instance; the rest
+ * wait their turn (their bytes are already on disk). A burst of uploads otherwise shares the
+ * event loop with every page and API read, and the review queue slows while it lasts
+ * (measured with `npm run load`: README, Performance).
+ */
+export const API_UPLOAD_CONCURRENCY = 4;
+const uploadTurns = pLimit(API_UPLOAD_CONCURRENCY);
+
+/** Stores and records an API upload (admission checked first), in its turn. */
+export function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInput) {
+  return uploadTurns(() => storeAndRecord(actor, input));
+}
+
+async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
+  const db = getDb();
+  // judged on the name as sent (as the browser route does), stored cleaned
+  const problem = batchFileProblem({ name: input.file.name, size: input.file.size }, env().MAX_UPLOAD_MB);
+  const name = cleanFileName(input.file.name);
+  if (problem) throw new AppError("invalid", problem, { fieldErrors: { file: [problem] } });
+  const studyId = await studyIdBySlug(input.studySlug);
+  if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
+  const admitted = await authoriseUpload(db, actor.id, { studyId, batchPublicId: input.batchId ?? null });
+  // a study or batch outside the organisation answers like a missing one (404), not 403
+  if (!admitted.ok) throw new AppError(admitted.code ?? "forbidden", admitted.message);
+
+  // a disk-backed Blob: the SDK streams it to the store without reading it into memory
+  const bytes = await input.file.blob();
+  const stored = await utapi()
+    .uploadFiles(new UTFile([bytes], name, { type: input.file.type || "text/csv" }), { acl: "private", contentDisposition: "attachment" })
+    .catch((error: unknown) => ({ data: null, error }));
+  if (stored.error || !stored.data) {
+    throw new AppError("unavailable", STORE_DOWN_MESSAGE, { cause: stored.error });
+  }
+  const key = stored.data.key;
+  const forget = () => utapi().deleteFiles([key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
+  let recorded: Awaited<ReturnType<typeof recordBatchVersion>>;
+  try {
+    recorded = await recordBatchVersion(
+      db,
+      actor.id,
+      { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
+      { key, url: stored.data.ufsUrl, name, size: input.file.size, hash: input.file.hash },
+    );
+  } catch (error) {
+    // the version, its job and its audit rows are one transaction: none of them was written
+    await forget();
+    if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
+    throw error;
+  }
+  if (!recorded.ok) {
+    await forget();
+    throw new AppError(recorded.code ?? "forbidden", recorded.message);
+  }
+  return recorded.data;
+}

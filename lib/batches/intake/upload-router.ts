@@ -1,0 +1,63 @@
+import "server-only";
+/**
+ * The app's upload route: who may upload (checked before a byte is stored) and what an
+ * upload becomes (a batch version with its check job).
+ */
+import { eq } from "drizzle-orm";
+import { getDb } from "@/db/client";
+import { studies } from "@/db/schema";
+import { getCurrentUser } from "@/lib/auth/session";
+import { env } from "@/lib/env";
+import { AppError } from "@/lib/errors";
+import { makeFileRouter } from "@/lib/batches/intake/file-router";
+import { utapi } from "@/lib/batches/intake/file-store";
+import { isDbUnavailable } from "@/db/errors";
+import { batchFileProblem } from "./file-rules";
+import { DB_DOWN_MESSAGE } from "./upload-errors";
+import { authoriseUpload, recordBatchVersion } from "../commands-upload";
+
+export async function studyIdBySlug(slug: string): Promise<number | null> {
+  const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));
+  return s?.id ?? null;
+}
+
+export const batchFileRouter = makeFileRouter({
+  async authorise(_req, input, files) {
+    const user = await getCurrentUser();
+    if (!user) throw new AppError("unauthenticated", "Your session has ended. Sign in again to upload.");
+    for (const f of files) {
+      const problem = batchFileProblem(f, env().MAX_UPLOAD_MB);
+      if (problem) throw new AppError("invalid", problem);
+    }
+    const studyId = await studyIdBySlug(input.studySlug);
+    if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
+    const ok = await authoriseUpload(getDb(), user.id, { studyId, batchPublicId: input.batchId ?? null });
+    // a study or batch outside the organisation answers like a missing one (404), not 403
+    if (!ok.ok) throw new AppError(ok.code ?? "forbidden", ok.message);
+    return { userId: user.id, studyId, batchId: input.batchId ?? null, label: input.label ?? null };
+  },
+  async onComplete(meta, file) {
+    const forget = () => utapi().deleteFiles([file.key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
+    let recorded: Awaited<ReturnType<typeof recordBatchVersion>>;
+    try {
+      // recordBatchVersion cleans the file name (file-rules.ts cleanFileName)
+      recorded = await recordBatchVersion(
+        getDb(),
+        meta.userId,
+        { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
+        { key: file.key, url: file.ufsUrl, name: file.name, size: file.size, hash: file.fileHash },
+      );
+    } catch (error) {
+      // the version, its job and its audit rows are one transaction: none was written
+      await forget();
+      if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
+      throw error;
+    }
+    if (!recorded.ok) {
+      // refused between the start and the end of the upload (e.g. the study closed): keep nothing
+      await forget();
+      throw new AppError(recorded.code ?? "forbidden", recorded.message);
+    }
+    return { batchId: recorded.data.batchPublicId, version: recorded.data.version };
+  },
+});

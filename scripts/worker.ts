@@ -1,0 +1,49 @@
+/**
+ * The worker process: runs the check queue and the e-mail outbox until stopped.
+ * Start as many as you like, on as many machines as share the database.
+ *
+ * SIGTERM / SIGINT stop it gracefully: no new claims; the check in hand may finish within
+ * TRIBUTARY_WORKER_STOP_GRACE_MS (default 10 000), else it is handed back to the queue
+ * without using up an attempt; then the process exits 0. A second signal exits at once
+ * (the job in hand is then taken again after the stale timeout, TRIBUTARY_JOB_STALE_MS).
+ * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
+ * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
+ */
+import { exitUnlessEnvOk } from "@/lib/env";
+import { getDb, getPool } from "@/db/client";
+import { runDigestSchedule } from "@/lib/pool/digest-schedule";
+import { runMailSender } from "@/lib/mail";
+import { openStoredFile } from "@/lib/batches/intake/file-store";
+import { msFromEnv } from "@/lib/batches/jobs/check-jobs";
+import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
+
+// refuse the demo secrets in production, and say what is missing, before touching anything
+exitUnlessEnvOk("worker");
+
+const controller = new AbortController();
+const log = (line: string) => console.log(`[worker] ${line}`);
+const stopGraceMs = msFromEnv("TRIBUTARY_WORKER_STOP_GRACE_MS", 10_000);
+const pollMs = msFromEnv("TRIBUTARY_WORKER_POLL_MS", 1_000);
+const stallMs = msFromEnv("TRIBUTARY_JOB_STALL_MS", 120_000);
+for (const sig of ["SIGINT", "SIGTERM"] as const) {
+  process.on(sig, () => {
+    if (controller.signal.aborted) {
+      log(`${sig} again: stopping now`);
+      process.exit(1);
+    }
+    log(`${sig}: no new jobs; the current check may finish within ${stopGraceMs} ms, else it goes back to the queue`);
+    controller.abort();
+  });
+}
+// a stray rejection (e.g. a pool error event while the database restarts) is logged, not fatal
+process.on("unhandledRejection", (reason) => log(`unhandled rejection: ${reason instanceof Error ? reason.message : String(reason)}`));
+
+const workerId = defaultWorkerId();
+log(`started as ${workerId}`);
+await Promise.all([
+  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
+  runMailSender({ signal: controller.signal, intervalMs: 1000 }),
+  runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
+]);
+await getPool().end().catch(() => undefined);
+log("stopped");
