@@ -8,6 +8,7 @@
  * (the job in hand is then taken again after the stale timeout, TRIBUTARY_JOB_STALE_MS).
  * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
+ * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none).
  */
 import { exitUnlessEnvOk } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
@@ -25,6 +26,8 @@ const log = (line: string) => console.log(`[worker] ${line}`);
 const stopGraceMs = msFromEnv("TRIBUTARY_WORKER_STOP_GRACE_MS", 10_000);
 const pollMs = msFromEnv("TRIBUTARY_WORKER_POLL_MS", 1_000);
 const stallMs = msFromEnv("TRIBUTARY_JOB_STALL_MS", 120_000);
+const threads = Number(process.env.TRIBUTARY_CHECK_WORKERS);
+const checkWorkers = Number.isInteger(threads) && threads >= 1 && threads <= 16 ? threads : undefined;
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
     if (controller.signal.aborted) {
@@ -41,7 +44,7 @@ process.on("unhandledRejection", (reason) => log(`unhandled rejection: ${reason 
 const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
-  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, log }),
+  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, checkWorkers, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
 ]);

@@ -21,6 +21,8 @@ export interface LevelAcc {
   count: number;
   complete: number;
   rows: number[];
+  /** the level's position among its predictor's design levels, once looked up (−1: not a usable level) */
+  design?: number;
 }
 
 export interface InferCounts {

@@ -57,7 +57,10 @@ export class Scan implements CsvSink {
   ls: LeastSquares;
   response: ModelColumn | null = null;
   model: ModelColumn[] = [];
-  private predIdx: number[] = [];
+  /** the model's columns (response first) as scans, with each one's predictor index (−1: the response) and whether it is a category */
+  private modelCols: ColumnScan[] = [];
+  private modelPred = new Int32Array(0);
+  private modelCat = new Uint8Array(0);
   /** @internal (scan-merge.ts) */
   levelIndex: Map<string, number>[] = [];
   private vals: Float64Array;
@@ -68,8 +71,8 @@ export class Scan implements CsvSink {
   soleUnusable: number[] = [];
   responseMissing: RowSample;
   pm: PatternMoments | null = null;
-  pmCols: number[] = [];
-  private pmRow: (number | null)[] = [];
+  private pmScans: ColumnScan[] = [];
+  private pmVals = new Float64Array(0);
   unknownLevels: Map<string, RowSample>[] = [];
   /** size of the whole input in bytes when known: the hash tables are sized from it at the first lines */
   expectedBytes = 0;
@@ -122,7 +125,9 @@ export class Scan implements CsvSink {
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
     this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
-    this.predIdx = this.predictors.map((p) => this.index.get(p.name) ?? -1);
+    this.modelCols = this.model.map((m) => this.cols[m.index]!);
+    this.modelPred = Int32Array.from(this.model, (_, m) => (this.response ? m - 1 : m));
+    this.modelCat = Uint8Array.from(this.model, (_, m) => (this.predictors[this.modelPred[m]!]?.kind === "category" ? 1 : 0));
     this.levelIndex = this.predictors.map((p) => new Map(p.levels.map((l, j) => [l, j])));
     this.unknownLevels = this.predictors.map(() => new Map());
     this.soleUnusable = this.model.map(() => 0);
@@ -131,9 +136,9 @@ export class Scan implements CsvSink {
       return m.index >= 0 && (c.type === "number" || c.type === "integer");
     });
     if (numericModel.length >= 1) {
-      this.pmCols = numericModel.map((m) => m.index);
+      this.pmScans = numericModel.map((m) => this.cols[m.index]!);
       this.pm = new PatternMoments(numericModel.map((m) => m.name));
-      this.pmRow = numericModel.map(() => null);
+      this.pmVals = new Float64Array(numericModel.length);
     }
     this.ready = this.model.every((m) => m.index >= 0) && this.response !== null;
   }
@@ -227,8 +232,6 @@ export class Scan implements CsvSink {
   /** After the columns of one row were read and HASH holds the row's hash (keys' in keyHash). */
   private finishRow(line: number): void {
     const cols = this.cols;
-    const model = this.model;
-    const nModel = model.length;
     {
       const prev = this.rowSet.addOrGet(HASH.a, HASH.b, line);
       this.lastRepeatOf = prev;
@@ -250,65 +253,84 @@ export class Scan implements CsvSink {
         }
       }
       if (!this.ready) return;
-      // the planned model: complete cases, patterns, least squares
-      let unusable = 0;
-      let sole = -1;
-      let mask = "";
-      let bits = 0;
-      const useBits = nModel <= 30;
-      for (let m = 0; m < nModel; m++) {
-        const c = cols[model[m]!.index]!;
-        let ok = c.status === FieldStatus.Usable;
-        if (m > 0 || !this.response) {
-          const pi = this.response ? m - 1 : m;
-          const p = this.predictors[pi]!;
-          if (ok && p.kind === "category") {
-            const s = c.str;
-            let li = this.levelIndex[pi]!.get(s);
-            if (li === undefined) {
-              if (p.open) li = this.addLevel(pi, s);
-              if (li === undefined || li < 0) {
-                li = undefined;
-                ok = false;
-                let u = this.unknownLevels[pi]!.get(s);
-                if (!u && this.unknownLevels[pi]!.size < 1000) this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
-                u?.add(line);
-              }
-            }
-            this.vals[pi] = li ?? -1;
-          } else this.vals[pi] = c.value;
-        }
-        if (c.status === FieldStatus.Missing) {
-          if (useBits) bits |= 1 << m;
-          else mask += "1";
-        } else if (!useBits) mask += "0";
-        if (!ok) {
-          unusable++;
-          sole = m;
-        }
-      }
-      if (this.response && cols[this.response.index]!.status === FieldStatus.Missing) this.responseMissing.add(line);
-      if (useBits) {
-        if (bits !== 0) this.bitPatterns.set(bits, (this.bitPatterns.get(bits) ?? 0) + 1);
-      } else if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
-      if (this.pm) {
-        for (let q = 0; q < this.pmCols.length; q++) {
-          const c = cols[this.pmCols[q]!]!;
-          this.pmRow[q] = c.status === FieldStatus.Usable ? c.value : null;
-        }
-        this.pm.addRow(this.pmRow);
-      }
-      if (unusable === 1) this.soleUnusable[sole]!++;
-      if (unusable > 0) return;
-      this.rowsComplete++;
-      for (let pi = 0; pi < this.predictors.length; pi++) {
-        if (this.predictors[pi]!.kind === "category") {
-          const acc = cols[this.predIdx[pi]!]!.lastLevel;
-          if (acc) acc.complete++;
-        }
-      }
-      const y = this.response ? cols[this.response.index]!.value : 0;
-      this.ls.addRow(this.encoder.encode(this.vals), y);
+      this.modelRow(line);
     }
+  }
+
+  /** The planned model's share of a row: complete cases, missingness patterns, least squares. */
+  private modelRow(line: number): void {
+    const mc = this.modelCols;
+    const nModel = mc.length;
+    const vals = this.vals;
+    let unusable = 0;
+    let sole = -1;
+    let mask = "";
+    let bits = 0;
+    const useBits = nModel <= 30;
+    for (let m = 0; m < nModel; m++) {
+      const c = mc[m]!;
+      const status = c.status;
+      let ok = status === FieldStatus.Usable;
+      const pi = this.modelPred[m]!;
+      if (pi >= 0) {
+        if (ok && this.modelCat[m] === 1) {
+          const li = this.levelOf(pi, c, line);
+          if (li < 0) ok = false;
+          vals[pi] = li;
+        } else vals[pi] = c.value;
+      }
+      if (status === FieldStatus.Missing) {
+        if (useBits) bits |= 1 << m;
+        else mask += "1";
+      } else if (!useBits) mask += "0";
+      if (!ok) {
+        unusable++;
+        sole = m;
+      }
+    }
+    if (this.response && mc[0]!.status === FieldStatus.Missing) this.responseMissing.add(line);
+    if (useBits) {
+      if (bits !== 0) this.bitPatterns.set(bits, (this.bitPatterns.get(bits) ?? 0) + 1);
+    } else if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
+    if (this.pm) {
+      const pv = this.pmVals;
+      let observed = 0;
+      for (let q = 0; q < this.pmScans.length; q++) {
+        const c = this.pmScans[q]!;
+        if (c.status === FieldStatus.Usable) {
+          pv[q] = c.value;
+          observed |= 1 << q;
+        }
+      }
+      if (this.pmScans.length <= 30) this.pm.addMasked(pv, observed);
+      else this.pm.addRow(this.pmScans.map((c) => (c.status === FieldStatus.Usable ? c.value : null)));
+    }
+    if (unusable === 1) this.soleUnusable[sole]!++;
+    if (unusable > 0) return;
+    this.rowsComplete++;
+    for (let m = 0; m < nModel; m++) {
+      if (this.modelCat[m] === 1) {
+        const acc = mc[m]!.lastLevel;
+        if (acc) acc.complete++;
+      }
+    }
+    const y = this.response ? mc[0]!.value : 0;
+    this.ls.addRow(this.encoder.encode(vals), y);
+  }
+
+  /** The design index of the current level of category predictor pi (−1: not usable), noted on the level's entry. */
+  private levelOf(pi: number, c: ColumnScan, line: number): number {
+    const acc = c.lastLevel;
+    if (acc && acc.design !== undefined && acc.design >= 0) return acc.design;
+    const s = c.str;
+    let li = this.levelIndex[pi]!.get(s) ?? -1;
+    if (li < 0 && this.predictors[pi]!.open) li = this.addLevel(pi, s);
+    if (li < 0) {
+      let u = this.unknownLevels[pi]!.get(s);
+      if (!u && this.unknownLevels[pi]!.size < 1000) this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
+      u?.add(line);
+    }
+    if (acc) acc.design = li;
+    return li;
   }
 }

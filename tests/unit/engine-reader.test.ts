@@ -9,6 +9,7 @@ import path from "node:path";
 import { describe, expect, test } from "vitest";
 import { checkBatch, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
+import { checkStream } from "@/lib/readiness/node-stream";
 import { poolCsvLines } from "@/lib/pool/export";
 import type { StudyPool } from "@/lib/pool/pool";
 import { csvRecords } from "@/lib/readiness/records";
@@ -151,5 +152,21 @@ describe("parallel splitting keeps records whole", () => {
       expect(strip(par).rows).toEqual(strip(one).rows);
       expect(par.findings).toEqual(one.findings);
     }
+  });
+});
+
+describe("the server's check of a byte stream uses all cores", () => {
+  test("checkStream spools a large stream and checks it with worker threads: the one-pass report", async () => {
+    const rows = cleanRows(3000);
+    for (const r of rows.slice(0, 1000)) r[1] = '"two\nlines"';
+    rows[2500]![4] = "abc";
+    const text = csvOf(HEADER, rows);
+    const one = await checkBatch(chunks(text, 1 << 16), P);
+    const par = await checkStream(chunks(text, 5000), P, { workers: 2, minBytes: 10_000 });
+    expect(par.findings).toEqual(one.findings);
+    expect(par.rows).toEqual(one.rows);
+    expect(par.findings.find((f) => f.code === "type.mismatch")?.rows).toEqual([3502]);
+    const small = await checkStream(chunks(text, 5000), P, { workers: 2 });
+    expect(small.findings).toEqual(one.findings);
   });
 });

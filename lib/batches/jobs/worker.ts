@@ -9,7 +9,7 @@
  */
 import os from "node:os";
 import type { Db } from "@/db/client";
-import { checkBatch } from "@/lib/readiness";
+import { checkStream } from "@/lib/readiness/node-stream";
 import { parsePlan } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { sleep } from "@/lib/sleep";
@@ -34,6 +34,8 @@ export interface WorkerOptions {
   heartbeatEveryMs?: number;
   /** a file download that sends nothing for this long fails the attempt (default 120 s) */
   stallMs?: number;
+  /** threads per check of a large batch (default one per core; 1 checks in this thread) */
+  checkWorkers?: number;
   log?: (line: string) => void;
 }
 
@@ -159,7 +161,8 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
       const stallMs = opts.stallMs ?? 120_000;
       const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
       const stream = abortable(opened, stopJob.signal, stallMs);
-      report = await checkBatch(stream, parsed.plan, {
+      report = await checkStream(stream, parsed.plan, {
+        workers: opts.checkWorkers,
         fileName: job.fileName,
         onProgress: (p) => {
           progress = p;

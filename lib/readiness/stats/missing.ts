@@ -41,6 +41,7 @@ export class PatternMoments {
   private readonly patterns = new Map<number | string, Pattern>();
   private readonly keyBuf: string[];
   private readonly delta: Float64Array;
+  private readonly after: Float64Array;
   private cells = 0;
   private over = false;
   /**
@@ -53,6 +54,7 @@ export class PatternMoments {
     this.columns = [...columns];
     this.keyBuf = new Array<string>(columns.length).fill("0");
     this.delta = new Float64Array(columns.length);
+    this.after = new Float64Array(columns.length);
   }
 
   private keyOf(observed: number[]): number | string {
@@ -116,6 +118,29 @@ export class PatternMoments {
         return;
       }
     }
+    this.update(p, values as ArrayLike<number>);
+  }
+
+  /**
+   * One row whose observed columns are the bits of `observed` (bit j: column j observed; at
+   * most 30 columns): the same as addRow with the unobserved values null, without looking at them.
+   */
+  addMasked(values: ArrayLike<number>, observed: number): void {
+    if (this.over) return;
+    let p = this.patterns.get(observed);
+    if (!p) {
+      const obs: number[] = [];
+      for (let j = 0; j < this.columns.length; j++) if (observed & (1 << j)) obs.push(j);
+      p = this.pattern(obs, observed);
+      if (this.cells > PatternMoments.MAX_CELLS) {
+        this.overflow();
+        return;
+      }
+    }
+    this.update(p, values);
+  }
+
+  private update(p: Pattern, values: ArrayLike<number>): void {
     const obs = p.observed;
     const q = obs.length;
     p.count++;
@@ -129,12 +154,13 @@ export class PatternMoments {
       p.mean[a] = (p.mean[a] as number) + dv / n;
     }
     // M2 += δ_old · (x − mean_new)ᵀ, upper triangle only (mirrored when read)
+    const after = this.after;
+    for (let b = 0; b < q; b++) after[b] = (values[obs[b] as number] as number) - (p.mean[b] as number);
+    const cm = p.comoment;
     for (let a = 0; a < q; a++) {
       const da = d[a] as number;
-      for (let b = a; b < q; b++) {
-        const after = (values[obs[b] as number] as number) - (p.mean[b] as number);
-        p.comoment[a * q + b] = (p.comoment[a * q + b] as number) + da * after;
-      }
+      const row = a * q;
+      for (let b = a; b < q; b++) cm[row + b] = (cm[row + b] as number) + da * (after[b] as number);
     }
   }
 

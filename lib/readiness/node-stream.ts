@@ -1,0 +1,67 @@
+/**
+ * Node-only: check a batch that arrives as a byte stream (the server's check worker) on all
+ * cores. A small batch is read as it arrives; a larger one is written to a private temporary
+ * file while it downloads, then checked by worker threads (checkFile), and the file removed.
+ */
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { isUtf8 } from "node:buffer";
+import { checkBatch, type CheckOptions } from "./check";
+import { bytesOf, type ByteInput } from "./csv-reader";
+import { PARALLEL_MIN_BYTES, checkFile, defaultWorkers } from "./node";
+import type { Plan } from "./plan";
+import type { ReadinessReport } from "./report";
+
+const RANGE_WORKER = fileURLToPath(new URL("./range-worker.ts", import.meta.url));
+
+async function* replay(held: Uint8Array[]): AsyncGenerator<Uint8Array> {
+  for (const c of held) yield c;
+}
+
+/**
+ * Check a byte stream against a plan with `workers` threads (default: one per core; 1 reads
+ * the stream in this thread). Never throws for a bad file (an "unreadable" report); a failing
+ * download rejects, as checkBatch does.
+ */
+export async function checkStream(
+  input: ByteInput,
+  plan: Plan,
+  opts: CheckOptions & { workers?: number; minBytes?: number; workerScript?: string } = {},
+): Promise<ReadinessReport> {
+  const workers = opts.workers ?? defaultWorkers();
+  if (workers < 2) return checkBatch(input, plan, { isUtf8, ...opts });
+  const limit = opts.minBytes ?? PARALLEL_MIN_BYTES;
+  const it = bytesOf(input)[Symbol.asyncIterator]();
+  const held: Uint8Array[] = [];
+  let size = 0;
+  for (;;) {
+    const r = await it.next();
+    if (r.done) return checkBatch(replay(held), plan, { isUtf8, expectedBytes: size, ...opts });
+    held.push(r.value);
+    size += r.value.length;
+    if (size >= limit) break;
+  }
+  const dir = await fs.promises.mkdtemp(path.join(os.tmpdir(), "tributary-check-"));
+  const file = path.join(dir, "batch.csv");
+  try {
+    const out = await fs.promises.open(file, "wx", 0o600);
+    try {
+      for (const c of held) await out.write(c);
+      held.length = 0;
+      for (;;) {
+        const r = await it.next();
+        if (r.done) break;
+        await out.write(r.value);
+        size += r.value.length;
+        opts.onProgress?.({ rows: 0, bytes: size });
+      }
+    } finally {
+      await out.close();
+    }
+    return await checkFile(file, plan, { ...opts, workers, workerScript: opts.workerScript ?? RANGE_WORKER });
+  } finally {
+    await fs.promises.rm(dir, { recursive: true, force: true });
+  }
+}
