@@ -5,6 +5,7 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { getToken } from "next-auth/jwt";
 import { contentSecurityPolicy } from "@/lib/csp";
+import { rawSetting } from "@/lib/env";
 
 const PUBLIC_PAGES = ["/sign-in", "/forgot-password", "/set-password"];
 
@@ -22,7 +23,7 @@ export function isPublicPath(pathname: string): boolean {
 export async function proxy(request: NextRequest) {
   const { pathname, search } = request.nextUrl;
   const nonce = btoa(crypto.randomUUID());
-  const csp = contentSecurityPolicy({ nonce, dev: process.env.NODE_ENV !== "production" });
+  const csp = contentSecurityPolicy({ nonce, dev: rawSetting("NODE_ENV") !== "production" });
   const withCsp = (res: NextResponse) => {
     res.headers.set("Content-Security-Policy", csp);
     return res;
@@ -30,7 +31,7 @@ export async function proxy(request: NextRequest) {
   // static files and API answers render no page
   if (isPublicPath(pathname) && !isPublicPage(pathname)) return withCsp(NextResponse.next());
   if (!isPublicPage(pathname)) {
-    const secret = process.env.NEXTAUTH_SECRET;
+    const secret = rawSetting("NEXTAUTH_SECRET");
     const token = secret ? await getToken({ req: request, secret }) : null;
     if (!token) {
       const signIn = new URL("/sign-in", request.url);

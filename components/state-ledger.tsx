@@ -1,5 +1,6 @@
-import { BATCH_STATE_ORDER, batchStateLabel, formatCount } from "@/lib/format";
-import type { BatchState } from "@/db/schema";
+// BATCH_STATES lists the states in the flow from arrival to decision, then the side states
+import { BATCH_STATES, type BatchState } from "@/db/schema";
+import { batchStateLabel, formatCount } from "@/lib/format";
 
 /** Fill of each state in the ledger bar; the word beside each count carries the meaning too. */
 export const STATE_FILL: Record<BatchState, string> = {
@@ -17,12 +18,12 @@ export const STATE_FILL: Record<BatchState, string> = {
  * counts written out beneath it — a small picture of the intake flow.
  */
 export function StateLedger({ counts, label }: { counts: Record<BatchState, number>; label: string }) {
-  const total = BATCH_STATE_ORDER.reduce((a, s) => a + (counts[s] ?? 0), 0);
+  const total = BATCH_STATES.reduce((a, s) => a + (counts[s] ?? 0), 0);
   return (
     <figure className="max-w-4xl" aria-label={label}>
       {total > 0 ? (
         <div className="flex h-3 w-full overflow-hidden rounded-sm bg-sand-deep" aria-hidden="true">
-          {BATCH_STATE_ORDER.filter((s) => counts[s] > 0).map((s) => (
+          {BATCH_STATES.filter((s) => counts[s] > 0).map((s) => (
             <div
               key={s}
               title={`${batchStateLabel(s)}: ${counts[s]}`}
@@ -35,7 +36,7 @@ export function StateLedger({ counts, label }: { counts: Record<BatchState, numb
         <div className="h-3 w-full rounded-sm bg-sand-deep" aria-hidden="true" title="No batches yet" />
       )}
       <dl className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-sm">
-        {BATCH_STATE_ORDER.map((s) => (
+        {BATCH_STATES.map((s) => (
           <div key={s} className="flex items-center gap-1.5" data-state={s}>
             <span aria-hidden="true" className="inline-block h-2.5 w-2.5 rounded-[2px]" style={{ background: STATE_FILL[s] }} />
             <dt className="text-ink-soft">{batchStateLabel(s)}</dt>

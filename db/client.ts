@@ -23,6 +23,10 @@ function makeDb() {
 }
 
 export type Db = ReturnType<typeof makeDb>;
+/** The one transaction type: what `getDb().transaction(async (tx) => …)` hands its callback. */
+export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+/** A transaction or the client itself, for helpers that work inside or outside one. */
+export type DbOrTx = Db | Tx;
 let dbInstance: Db | undefined;
 
 export function getDb(): Db {

@@ -10,6 +10,7 @@ import { pathToFileURL } from "node:url";
 import mysql from "mysql2/promise";
 import { drizzle } from "drizzle-orm/mysql2";
 import { migrate } from "drizzle-orm/mysql2/migrator";
+import { rawSetting } from "../lib/env";
 
 export const MIGRATIONS_FOLDER = path.resolve(import.meta.dirname, "../drizzle");
 
@@ -22,7 +23,7 @@ export function loadDotEnv(): void {
 /** DATABASE_URL from the environment, or a message saying how to set it. */
 export function databaseUrlOrExit(): string {
   loadDotEnv();
-  const url = process.env.DATABASE_URL;
+  const url = rawSetting("DATABASE_URL");
   if (!url) {
     console.error(
       "DATABASE_URL is not set. Copy .env.example to .env (npm start does this), or set it, e.g.\n" +

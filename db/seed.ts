@@ -13,7 +13,8 @@ import { and, eq, isNull, sql } from "drizzle-orm";
 import { drizzle, type MySql2Database } from "drizzle-orm/mysql2";
 import mysql from "mysql2/promise";
 import * as schema from "./schema";
-import { DEMO_ORGANISATIONS, DEMO_PASSWORD, DEMO_STUDIES, DEMO_USERS, planHash } from "@/lib/demo";
+import { DEMO_ORGANISATIONS, DEMO_PASSWORD, DEMO_STUDIES, DEMO_USERS } from "@/lib/demo";
+import { hashPlan } from "@/lib/readiness";
 import { parsePlan, type Plan } from "@/lib/readiness/plan";
 import { databaseUrlOrExit, describeDbError, redact } from "./migrate";
 
@@ -107,7 +108,7 @@ export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
       if (!studyRow) throw new Error(`study "${s.slug}" is missing after the upsert`);
       const studyId = studyRow.id;
 
-      const hash = planHash(plan);
+      const hash = await hashPlan(plan);
       const [v1] = await tx
         .select({ id: dataPlans.id, planHash: dataPlans.planHash })
         .from(dataPlans)

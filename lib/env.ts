@@ -61,6 +61,8 @@ const base = z.object({
   /** the SMTP fake's HTTP side; when set, the demo mailbox page is shown */
   MAILBOX_URL: z.string().url().optional(),
   MAX_UPLOAD_MB: z.coerce.number().int().positive().default(200),
+  /** the host of the upload service's file URLs, when it is not the SDK's default (the fake: 127.0.0.1:3401) */
+  UPLOADTHING_UFS_HOST: z.string().optional(),
   /** "1" when running the demo: allows the demo secrets under NODE_ENV=production */
   TRIBUTARY_DEMO: z.string().optional(),
 });
@@ -132,4 +134,25 @@ export function exitUnlessEnvOk(who: string): void {
   if (r.ok) return;
   console.error(`[${who}] refusing to start.\n${r.message}`);
   process.exit(1);
+}
+
+/**
+ * A timing setting of the worker and the check queue (TRIBUTARY_JOB_STALE_MS, TRIBUTARY_WORKER_POLL_MS …):
+ * a positive whole number of milliseconds from the environment, else the default.
+ */
+export function msFromEnv(name: string, fallback: number): number {
+  const raw = process.env[name];
+  if (raw === undefined || raw.trim() === "") return fallback;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
+  return n;
+}
+
+/**
+ * One setting as the process has it, unchecked: for code that is loaded before the check can
+ * run (next-auth's options, the upload router, the proxy) — at `next build` none is set.
+ * Code that runs per request uses env().
+ */
+export function rawSetting(name: keyof Env): string | undefined {
+  return process.env[name];
 }

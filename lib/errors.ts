@@ -3,6 +3,7 @@
  * detail, stack) is logged and never sent to the browser or an API client.
  */
 import { isDbUnavailable } from "@/db/errors";
+import type { Result } from "./result";
 
 export const ERROR_STATUS = {
   unauthenticated: 401,
@@ -55,4 +56,10 @@ export function toAppError(e: unknown, context = "request"): AppError {
   }
   console.error(`[tributary] ${context} failed:`, e);
   return new AppError("internal", undefined, { cause: e });
+}
+
+/** The data of a successful Result; a failed one thrown as an AppError with its code (default "forbidden"). */
+export function unwrap<T>(result: Result<T>): T {
+  if (result.ok) return result.data;
+  throw new AppError(result.code ?? "forbidden", result.message, { fieldErrors: result.fieldErrors });
 }

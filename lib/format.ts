@@ -74,17 +74,6 @@ export const BATCH_STATE_LABELS: Record<BatchState, string> = {
   unreadable: "Unreadable",
 };
 
-/** Order in which batch states are listed: the flow from arrival to decision, then the side states. */
-export const BATCH_STATE_ORDER: readonly BatchState[] = [
-  "received",
-  "checking",
-  "ready",
-  "accepted",
-  "bounced",
-  "superseded",
-  "unreadable",
-];
-
 export function batchStateLabel(s: string): string {
   return (BATCH_STATE_LABELS as Record<string, string>)[s] ?? s;
 }

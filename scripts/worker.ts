@@ -10,12 +10,11 @@
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none).
  */
-import { exitUnlessEnvOk } from "@/lib/env";
+import { exitUnlessEnvOk, msFromEnv } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/pool/digest-schedule";
 import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
-import { msFromEnv } from "@/lib/batches/jobs/check-jobs";
 import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
 
 // refuse the demo secrets in production, and say what is missing, before touching anything
@@ -46,7 +45,7 @@ log(`started as ${workerId}`);
 await Promise.all([
   runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, checkWorkers, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
-  runDigestSchedule({ db: getDb(), signal: controller.signal, log }),
+  runDigestSchedule({ signal: controller.signal, log }),
 ]);
 await getPool().end().catch(() => undefined);
 log("stopped");

@@ -12,7 +12,7 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
 import { batchFileProblem } from "@/lib/batches/intake/file-rules";
 import { formatBytes } from "@/lib/format";
-import { usePrecheck } from "./use-precheck";
+import { usePrecheck } from "@/lib/client/use-precheck";
 import { uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();

@@ -4,7 +4,7 @@ import { useEffect, useId, useRef } from "react";
 import { toast } from "sonner";
 import type { PlanInput } from "@/lib/readiness/plan";
 import { formatBytes } from "@/lib/format";
-import { useDraft } from "./use-draft";
+import { useDraft } from "@/lib/client/use-draft";
 
 const MAX_SAMPLE_BYTES = 50 * 1024 * 1024;
 

@@ -27,3 +27,13 @@ export function SegmentError({ error, reset, what }: { error: Error & { digest?:
     </div>
   );
 }
+
+type SegmentErrorProps = { error: Error & { digest?: string }; reset: () => void };
+
+/** A segment's error.tsx in one line: `export default errorPage("The board");`. */
+export function errorPage(what: string) {
+  function ErrorPage({ error, reset }: SegmentErrorProps) {
+    return <SegmentError error={error} reset={reset} what={what} />;
+  }
+  return ErrorPage;
+}

@@ -1,6 +1,7 @@
 import Link from "next/link";
 import type { SessionUser } from "@/lib/auth/session";
 import { roleLabel } from "@/lib/format";
+import { mailboxEnabled } from "@/lib/mail/demo-mailbox";
 import { LogoMark } from "@/components/logo";
 import { NavLinks } from "./nav-links";
 import { navFor, ROLE_HOME } from "./nav";
@@ -15,7 +16,7 @@ export function TopBar({ user }: { user: SessionUser }) {
           <span className="text-lg font-semibold tracking-tight text-ink">Tributary</span>
         </Link>
         <nav aria-label="Main">
-          <NavLinks items={navFor(user.role, { mailbox: Boolean(process.env.MAILBOX_URL) })} />
+          <NavLinks items={navFor(user.role, { mailbox: mailboxEnabled() })} />
         </nav>
         <div className="ml-auto flex items-center gap-3 text-right">
           <div className="leading-tight" data-testid="signed-in-user">

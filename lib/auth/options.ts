@@ -1,6 +1,7 @@
 import "server-only";
 import type { NextAuthOptions } from "next-auth";
 import CredentialsProvider from "next-auth/providers/credentials";
+import { rawSetting } from "@/lib/env";
 import { authorizeCredentials, clientIpOf } from "./credentials";
 
 /** Sessions last a working day; deactivation and password changes end them sooner. */
@@ -12,7 +13,7 @@ export const SESSION_MAX_AGE_SECONDS = 12 * 60 * 60;
  * also reads to pick the cookie name back — and lib/env.ts makes sure it is https whenever
  * APP_URL is. The cookies are httpOnly and SameSite=Lax (next-auth's defaults, kept).
  */
-export function secureCookiesFor(source: Record<string, string | undefined> = process.env): boolean {
+export function secureCookiesFor(source: Record<string, string | undefined> = { NEXTAUTH_URL: rawSetting("NEXTAUTH_URL") }): boolean {
   return (source.NEXTAUTH_URL ?? "").startsWith("https://");
 }
 
@@ -22,7 +23,7 @@ export function secureCookiesFor(source: Record<string, string | undefined> = pr
  * role here is for display and a bumped session_version ends the session.
  */
 export const authOptions: NextAuthOptions = {
-  secret: process.env.NEXTAUTH_SECRET,
+  secret: rawSetting("NEXTAUTH_SECRET"),
   useSecureCookies: secureCookiesFor(),
   session: { strategy: "jwt", maxAge: SESSION_MAX_AGE_SECONDS },
   jwt: { maxAge: SESSION_MAX_AGE_SECONDS },

@@ -1,5 +1,6 @@
 import "server-only";
 import { getToken } from "next-auth/jwt";
+import { rawSetting } from "@/lib/env";
 import { loadSessionUser, type SessionUser } from "./load-user";
 
 /** Cookies of a fetch Request as a plain object. */
@@ -24,7 +25,7 @@ export function cookiesOf(req: Request): Record<string, string> {
  * from the database like getCurrentUser(): inactive or an old session_version → null.
  */
 export async function getSessionUserFromRequest(req: Request): Promise<SessionUser | null> {
-  const secret = process.env.NEXTAUTH_SECRET;
+  const secret = rawSetting("NEXTAUTH_SECRET");
   if (!secret) return null;
   // headers left empty on purpose: getToken would otherwise read a Bearer header as a JWT
   const token = await getToken({ req: { cookies: cookiesOf(req), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"], secret });

@@ -5,62 +5,56 @@
  * the other is told who decided first.
  */
 import { and, eq } from "drizzle-orm";
-import { z } from "zod";
-import type { Db } from "@/db/client";
-import { isDuplicateKey } from "@/db/errors";
+import type { z } from "zod";
+import { getDb, type DbOrTx, type Tx } from "@/db/client";
 import { batches, batchVersions, decisions, findingComments, organisations, reports, studies, studyAnalysts, users } from "@/db/schema";
-import { can } from "@/lib/auth/permissions";
+import type { Actor } from "@/lib/core/actor";
+import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
-import { enqueueEmail } from "@/lib/mail/outbox";
-import { fail, ok, type Result } from "@/lib/result";
-import { recordAudit } from "@/lib/core/audit";
+import { enqueueEmail } from "@/lib/mail";
+import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { decisionEmail } from "./decision-email";
+import { decisionInput } from "./schemas";
 
-export const decisionInput = z.object({
-  decision: z.enum(["accept", "bounce"], { error: "Choose accept or bounce." }),
-  comment: z.string().trim().max(5000, "Keep the comment under 5,000 characters.").default(""),
-  findingComments: z
-    .array(
-      z.object({
-        code: z.string().min(1).max(80),
-        columns: z.array(z.string().max(200)).max(50).default([]),
-        comment: z.string().trim().min(1, "A finding comment cannot be empty.").max(2000, "Keep each finding comment under 2,000 characters."),
-      }),
-    )
-    .max(200)
-    .default([]),
-}).superRefine((v, ctx) => {
-  if (v.decision === "bounce" && !v.comment && v.findingComments.length === 0) {
-    ctx.addIssue({ code: "custom", path: ["comment"], message: "Say what the provider must fix: add a comment, overall or on a finding." });
-  }
-});
-export type DecisionInput = z.input<typeof decisionInput>;
+export type { DecisionInput } from "./schemas";
+import type { DecisionInput } from "./schemas";
 
 export type DecisionDone = { decisionId: number; state: "accepted" | "bounced"; emailsQueued: number };
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
-
-export async function decideVersion(db: Db, actorId: number, batchPublicId: string, versionNo: number, raw: DecisionInput): Promise<Result<DecisionDone>> {
-  const parsed = decisionInput.safeParse(raw);
-  if (!parsed.success) {
-    const fieldErrors: Record<string, string[]> = {};
-    for (const i of parsed.error.issues) (fieldErrors[String(i.path[0] ?? "_form")] ??= []).push(i.message);
-    return fail(parsed.error.issues[0]?.message ?? "The decision is not valid.", fieldErrors);
-  }
-  const input = parsed.data;
-  try {
-    return await db.transaction(async (tx) => decideInTx(tx, actorId, batchPublicId, versionNo, input));
-  } catch (e) {
-    if (isDuplicateKey(e)) return await alreadyDecided(db, batchPublicId, versionNo);
-    throw e;
-  }
+/**
+ * Accepts or bounces version `versionNo` of a batch (batch.decide: analysts on their assigned
+ * studies, admins). Everything happens in one transaction; of two deciders the second is told
+ * who decided first.
+ */
+export function decideVersion(
+  actorId: number,
+  batchPublicId: string,
+  versionNo: number,
+  raw: DecisionInput,
+): Promise<Result<DecisionDone>> {
+  return write({
+    name: "decideVersion",
+    actorId,
+    may: "batch.decide",
+    forbidden: "Your role does not allow accepting or bouncing batches.",
+    schema: decisionInput,
+    input: raw,
+    invalid: (issues) => fail(issues[0]?.message ?? "The decision is not valid.", fieldErrorsOf(issues)),
+    // the unique key on decisions: someone decided between our read and our insert
+    onDuplicate: () => alreadyDecided(getDb(), batchPublicId, versionNo),
+    run: ({ tx, actor, input, audit }) => decideInTx(tx, actor, audit, batchPublicId, versionNo, input),
+  });
 }
 
-async function decideInTx(tx: Tx, actorId: number, batchPublicId: string, versionNo: number, input: z.output<typeof decisionInput>): Promise<Result<DecisionDone>> {
-  const [actor] = await tx.select({ id: users.id, role: users.role, active: users.active, name: users.name }).from(users).where(eq(users.id, actorId));
-  if (!actor || !actor.active) return fail("Your account is not active. Sign in again.", undefined, "unauthenticated");
-  if (!can(actor.role, "batch.decide")) return fail("Your role does not allow accepting or bouncing batches.", undefined, "forbidden");
+async function decideInTx(
+  tx: Tx,
+  actor: Actor,
+  audit: Audit,
+  batchPublicId: string,
+  versionNo: number,
+  input: z.output<typeof decisionInput>,
+): Promise<Result<DecisionDone>> {
 
   const [batch] = await tx
     .select({ id: batches.id, publicId: batches.publicId, title: batches.title, latestVersion: batches.latestVersion, studyId: batches.studyId, studyTitle: studies.title, organisationId: batches.organisationId, organisationName: organisations.name })
@@ -115,8 +109,7 @@ async function decideInTx(tx: Tx, actorId: number, batchPublicId: string, versio
     );
   }
   await tx.update(batchVersions).set({ state, stateChangedAt: new Date() }).where(eq(batchVersions.id, version.id));
-  await recordAudit(tx, {
-    actorId: actor.id,
+  await audit({
     action: `batch.${input.decision}`,
     objectType: "batch_version",
     objectId: version.id,
@@ -155,7 +148,7 @@ function sameColumns(a: string[], b: string[]): boolean {
   return a.length === b.length && a.every((c) => b.includes(c));
 }
 
-async function describeDecided(tx: Tx | Db, versionId: number, state: string): Promise<Result<DecisionDone>> {
+async function describeDecided(tx: DbOrTx, versionId: number, state: string): Promise<Result<DecisionDone>> {
   const [d] = await tx
     .select({ name: users.name, at: decisions.decidedAt })
     .from(decisions)
@@ -167,7 +160,7 @@ async function describeDecided(tx: Tx | Db, versionId: number, state: string): P
   return fail(`This version was already ${state}${who}. Reload to see the decision.`, undefined, "conflict");
 }
 
-async function alreadyDecided(db: Db, batchPublicId: string, versionNo: number): Promise<Result<DecisionDone>> {
+async function alreadyDecided(db: DbOrTx, batchPublicId: string, versionNo: number): Promise<Result<DecisionDone>> {
   const [v] = await db
     .select({ id: batchVersions.id, state: batchVersions.state })
     .from(batchVersions)

@@ -5,9 +5,11 @@
  */
 import { randomBytes } from "node:crypto";
 import { and, eq, sql } from "drizzle-orm";
-import type { Db } from "@/db/client";
-import { recordAudit } from "@/lib/core/audit";
-import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, users } from "@/db/schema";
+import { z } from "zod";
+import type { DbOrTx } from "@/db/client";
+import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders } from "@/db/schema";
+import { loadActor, type Actor } from "@/lib/core/actor";
+import { write } from "@/lib/core/write";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 
@@ -32,18 +34,15 @@ interface Admitted {
   batch: { id: number; publicId: string; latestVersion: number } | null;
 }
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
-
 /**
- * May this user send this file to this study (and batch)? Reads the role from the
- * database, so a demotion or deactivation bites at once. Writes nothing.
+ * May this user send this file to this study (and batch)? The role is read from the database
+ * (lib/core/actor.ts), so a demotion or deactivation bites at once. Writes nothing.
  */
-export async function authoriseUpload(db: Db | Tx, actorId: number, target: UploadTarget): Promise<Result<Admitted>> {
-  const [actor] = await db
-    .select({ id: users.id, role: users.role, active: users.active, organisationId: users.organisationId })
-    .from(users)
-    .where(eq(users.id, actorId));
-  if (!actor || !actor.active) return { ok: false, message: "Your account is not active. Sign in again." };
+export async function authoriseUpload(db: DbOrTx, actorId: number, target: UploadTarget): Promise<Result<Admitted>> {
+  return admit(db, await loadActor(db, actorId), target);
+}
+
+async function admit(db: DbOrTx, actor: Actor, target: UploadTarget): Promise<Result<Admitted>> {
   if (actor.role !== "provider" || actor.organisationId === null) {
     return { ok: false, message: "Only a provider organisation's users can send batches." };
   }
@@ -89,20 +88,32 @@ export function newPublicId(): string {
   return randomBytes(12).toString("base64url");
 }
 
+const uploadTargetSchema = z.object({
+  studyId: z.number().int().positive(),
+  batchPublicId: z.string().max(64).nullish(),
+  title: z.string().nullish(),
+});
+
 /**
  * Record a stored file as the next version of a batch (a new batch when none is named),
  * supersede the previous version, queue its check and write the audit rows.
  */
-export async function recordBatchVersion(
-  db: Db,
+export function recordBatchVersion(
   actorId: number,
   target: UploadTarget,
   file: StoredFile,
 ): Promise<Result<{ batchPublicId: string; batchId: number; version: number; batchVersionId: number }>> {
   // every path that records a file comes through here: its name is made safe once, for all
   const fileName = cleanFileName(file.name);
-  return db.transaction(async (tx) => {
-    const admitted = await authoriseUpload(tx, actorId, target);
+  return write({
+    name: "recordBatchVersion",
+    actorId,
+    may: "batch.upload",
+    forbidden: "Only a provider organisation's users can send batches.",
+    schema: uploadTargetSchema,
+    input: target,
+    run: async ({ tx, actor: who, audit }) => {
+    const admitted = await admit(tx, who, target);
     if (!admitted.ok) return admitted;
     const { actor, study } = admitted.data;
     let batch = admitted.data.batch;
@@ -119,8 +130,8 @@ export async function recordBatchVersion(
         .$returningId();
       if (!ins) throw new Error("inserting the batch returned no id");
       batch = { id: ins.id, publicId, latestVersion: 0 };
-      await recordAudit(tx, {
-        actorId: actor.id, action: "batch.created", objectType: "batch", objectId: publicId, studyId: study.id, batchId: batch.id, after: { title },
+      await audit({
+        action: "batch.created", objectType: "batch", objectId: publicId, studyId: study.id, batchId: batch.id, after: { title },
       });
     }
     const version = batch.latestVersion + 1;
@@ -131,8 +142,8 @@ export async function recordBatchVersion(
         .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
       if (prev && prev.state !== "superseded") {
         await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: sql`CURRENT_TIMESTAMP(3)` }).where(eq(batchVersions.id, prev.id));
-        await recordAudit(tx, {
-          actorId: actor.id, action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
+        await audit({
+          action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
           before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },
         });
       }
@@ -155,10 +166,11 @@ export async function recordBatchVersion(
     if (!bv) throw new Error("inserting the batch version returned no id");
     await tx.update(batches).set({ latestVersion: version }).where(eq(batches.id, batch.id));
     await tx.insert(checkJobs).values({ batchVersionId: bv.id });
-    await recordAudit(tx, {
-      actorId: actor.id, action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
+    await audit({
+      action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
       after: { state: "received", version, fileName, fileSize: file.size },
     });
     return { ok: true, data: { batchPublicId: batch.publicId, batchId: batch.id, version, batchVersionId: bv.id } };
+    },
   });
 }

@@ -1,4 +1,5 @@
 /** The decision e-mail to a provider: plain text and HTML, with every comment and the link. */
+import { escapeHtml } from "@/lib/mail";
 
 export type DecisionEmailInput = {
   decision: "accept" | "bounce";
@@ -13,7 +14,7 @@ export type DecisionEmailInput = {
   link: string;
 };
 
-const esc = (s: string) => s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c] as string);
+const esc = escapeHtml;
 
 export function decisionEmail(m: DecisionEmailInput): { subject: string; text: string; html: string } {
   const verb = m.decision === "accept" ? "accepted" : "bounced";

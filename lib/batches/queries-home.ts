@@ -4,8 +4,8 @@ import { getDb } from "@/db/client";
 import { BATCH_STATES, batches, batchVersions, organisations, ROLES, studies, studyProviders, users, type BatchState, type UserRole } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import { listBatchesForUser, type BatchSummary } from "./queries";
-import { batchScope } from "@/lib/studies/scope";
-import { listStudiesForUser, type StudySummary } from "@/lib/studies/queries-detail";
+import { batchScope } from "@/lib/studies";
+import { listStudiesForUser, type StudySummary } from "@/lib/studies";
 
 export type StateCounts = Record<BatchState, number>;
 

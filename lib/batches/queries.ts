@@ -4,7 +4,7 @@ import { alias } from "drizzle-orm/mysql-core";
 import { getDb } from "@/db/client";
 import { batches, batchVersions, organisations, studies, users, type BatchState } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
-import { batchScope } from "@/lib/studies/scope";
+import { batchScope } from "@/lib/studies";
 
 export type BatchSummary = {
   id: number;

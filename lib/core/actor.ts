@@ -1,25 +1,29 @@
-import "server-only";
-import { eq } from "drizzle-orm";
-import { users, type UserRole } from "@/db/schema";
-import { can, type Action } from "@/lib/auth/permissions";
-import { AppError } from "@/lib/errors";
-import type { DbOrTx } from "./audit";
-
-export type Actor = { id: number; role: UserRole; organisationId: number | null };
-
 /**
- * The acting user as the database has it now (not as the session remembers it), so a
- * demotion or deactivation bites at the next mutation. Throws AppError when the actor is
- * gone or inactive ("unauthenticated") or lacks `action` ("forbidden").
+ * The one actor loader: the acting user as the database has it now (not as the session
+ * remembers it), so a demotion or deactivation bites at the next change. No "server-only":
+ * the worker and the scripts load actors too.
  */
-export async function loadActor(db: DbOrTx, actorId: number, action?: Action): Promise<Actor> {
+import { eq } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
+import { users, type UserRole } from "@/db/schema";
+import { AppError } from "@/lib/errors";
+
+export type Actor = { id: number; name: string; role: UserRole; organisationId: number | null };
+
+/** The active user `actorId`; AppError("unauthenticated") when the account is gone or inactive. */
+export async function loadActor(db: DbOrTx, actorId: number): Promise<Actor> {
   const rows = await db
-    .select({ id: users.id, role: users.role, organisationId: users.organisationId, active: users.active })
+    .select({
+      id: users.id,
+      name: users.name,
+      role: users.role,
+      organisationId: users.organisationId,
+      active: users.active,
+    })
     .from(users)
     .where(eq(users.id, actorId))
     .limit(1);
   const row = rows[0];
   if (!row || !row.active) throw new AppError("unauthenticated", "Your account is not active. Sign in again.");
-  if (action && !can(row.role, action)) throw new AppError("forbidden");
-  return { id: row.id, role: row.role, organisationId: row.organisationId };
+  return { id: row.id, name: row.name, role: row.role, organisationId: row.organisationId };
 }

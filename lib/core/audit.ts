@@ -1,10 +1,6 @@
 /** Audit rows; no `server-only` here: the worker (plain Node) writes audit rows too. */
-import type { Db } from "@/db/client";
+import type { DbOrTx } from "@/db/client";
 import { auditEvents } from "@/db/schema";
-
-/** A transaction handle or the client itself. */
-export type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
-export type DbOrTx = Db | Tx;
 
 export type AuditEntry = {
   actorId: number | null;

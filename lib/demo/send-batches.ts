@@ -41,7 +41,6 @@ export async function sendDemoBatches(db: Db, log: (line: string) => void = cons
     if (stored.error || !stored.data) throw new Error(`the upload service refused ${b.fileName}: ${stored.error?.message ?? "no answer"}`);
     const digest = await crypto.subtle.digest("SHA-256", bytes);
     const r = await recordBatchVersion(
-      db,
       uploader.id,
       { studyId: study.id, title: b.title },
       { key: stored.data.key, url: stored.data.ufsUrl, name: b.fileName, size: bytes.length, hash: Buffer.from(digest).toString("hex") },
@@ -83,7 +82,7 @@ export async function decideDemoBatches(db: Db, log: (line: string) => void = co
     }
     const [u] = await db.select({ id: users.id }).from(users).where(eq(users.email, b.decision.by));
     if (!u) continue;
-    const r = await decideVersion(db, u.id, row.publicId, 1, { decision: b.decision.decision, comment: b.decision.comment ?? "", findingComments: b.decision.findingComments ?? [] });
+    const r = await decideVersion(u.id, row.publicId, 1, { decision: b.decision.decision, comment: b.decision.comment ?? "", findingComments: b.decision.findingComments ?? [] });
     if (r.ok) {
       decided++;
       log(`${b.decision.decision === "accept" ? "accepted" : "bounced"} ${b.fileName}`);

@@ -1,6 +1,7 @@
 /** JSON answers of the v1 API: `{ data }` on success, `{ error: { code, message, fieldErrors? } }` on failure. */
 import { AppError, ERROR_STATUS, toAppError, type ErrorCode } from "@/lib/errors";
 import type { Result } from "@/lib/result";
+import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
 
 const NO_STORE = { "cache-control": "no-store" };
 
@@ -26,4 +27,17 @@ export function errorResponse(e: unknown, context: string): Response {
 export function resultResponse<T>(result: Result<T>, successStatus = 200): Response {
   if (result.ok) return jsonData(result.data, successStatus);
   return jsonError(result.code ?? "invalid", result.message, result.fieldErrors);
+}
+
+/** A CSV download: streamed or whole, never cached, never sniffed; `fileName` through one RFC 6266 header. */
+export function csvResponse(body: BodyInit, fileName: string, extraHeaders?: Record<string, string>): Response {
+  return new Response(body, {
+    headers: {
+      "content-type": "text/csv; charset=utf-8",
+      "content-disposition": attachmentDisposition(fileName),
+      "cache-control": "no-store",
+      "x-content-type-options": "nosniff",
+      ...extraHeaders,
+    },
+  });
 }

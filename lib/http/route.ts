@@ -3,6 +3,7 @@ import { lookupApiToken } from "@/lib/auth/api-tokens";
 import { can, type Action } from "@/lib/auth/permissions";
 import { getSessionUserFromRequest } from "@/lib/auth/request-session";
 import type { SessionUser } from "@/lib/auth/session";
+import { rawSetting } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { errorResponse } from "./respond";
 
@@ -46,7 +47,7 @@ function assertSameOrigin(req: Request): void {
   const origin = req.headers.get("origin");
   if (!origin || SAFE_METHODS.has(req.method)) return;
   const allowed = new Set([new URL(req.url).origin]);
-  for (const url of [process.env.APP_URL, process.env.NEXTAUTH_URL]) {
+  for (const url of [rawSetting("APP_URL"), rawSetting("NEXTAUTH_URL")]) {
     if (url) allowed.add(new URL(url).origin);
   }
   if (!allowed.has(origin)) throw new AppError("forbidden", "Requests from other sites are refused; use an API token for scripts.");

@@ -10,3 +10,4 @@ export {
   type DeliverResult,
   type EmailInput,
 } from "./outbox";
+export { escapeHtml } from "./html";

@@ -10,14 +10,13 @@
  */
 import { and, eq, inArray, lte, sql } from "drizzle-orm";
 import type { Transporter } from "nodemailer";
-import { getDb, type Db } from "@/db/client";
+import { getDb, type Db, type DbOrTx } from "@/db/client";
 import { isDuplicateKey } from "@/db/errors";
 import { emailOutbox } from "@/db/schema";
 import { env } from "@/lib/env";
 import { transport as defaultTransport } from "./transport";
 import { sleep } from "@/lib/sleep";
 
-type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 
 export type EmailInput = {
   /** what the message is about, e.g. `decision:123:provider@x.test`; queued at most once */
@@ -37,7 +36,7 @@ const EMAIL_RE = /^[^\s@<>]+@[^\s@<>]+\.[^\s@<>]+$/;
  * Queues a message in the caller's transaction. Returns `queued: false` when a message
  * with the same dedupe key was queued before (nothing changes then).
  */
-export async function enqueueEmail(tx: Db | Tx, input: EmailInput): Promise<{ queued: boolean }> {
+export async function enqueueEmail(tx: DbOrTx, input: EmailInput): Promise<{ queued: boolean }> {
   const problems: string[] = [];
   if (!input.dedupeKey || input.dedupeKey.length > 200) problems.push("dedupeKey must be 1–200 characters");
   if (!input.kind || input.kind.length > 40) problems.push("kind must be 1–40 characters");

@@ -6,6 +6,7 @@ import { and, asc, eq, gte, lt } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, decisions, organisations, studies } from "@/db/schema";
 import { env } from "@/lib/env";
+import { escapeHtml } from "@/lib/mail";
 import { loadAccepted, loadCurrentPlan, poolOf } from "@/lib/pool/pool";
 
 const DAY = 86_400_000;
@@ -68,7 +69,7 @@ export async function digestData(db: Db, now = new Date()): Promise<DigestData> 
   };
 }
 
-const esc = (s: string) => s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
+const esc = escapeHtml;
 const day = (d: Date) => d.toISOString().slice(0, 10);
 const days = (from: Date, to: Date) => Math.max(0, Math.floor((to.getTime() - from.getTime()) / DAY));
 

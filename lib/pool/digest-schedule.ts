@@ -3,7 +3,6 @@
  * digest is due (Monday from 07:00 UTC on) and queues it; the week's dedupe key makes
  * every further attempt that week, by any worker, a no-op.
  */
-import type { Db } from "@/db/client";
 import { sendDigest } from "./digest-send";
 import { sleep } from "@/lib/sleep";
 
@@ -13,14 +12,14 @@ export function digestDue(now: Date): boolean {
   return day !== 1 || now.getUTCHours() >= 7;
 }
 
-export async function runDigestSchedule(opts: { db: Db; signal: AbortSignal; intervalMs?: number; log?: (line: string) => void }): Promise<void> {
+export async function runDigestSchedule(opts: { signal: AbortSignal; intervalMs?: number; log?: (line: string) => void }): Promise<void> {
   const interval = opts.intervalMs ?? 15 * 60_000;
   const log = opts.log ?? (() => {});
   while (!opts.signal.aborted) {
     const now = new Date();
     if (digestDue(now)) {
       try {
-        const r = await sendDigest(opts.db, { actorId: null, now, reason: "weekly" });
+        const r = await sendDigest({ actorId: null, now, reason: "weekly" });
         if (r.ok && r.data.queued > 0) log(`weekly digest queued for ${r.data.queued} lead(s)`);
       } catch (e) {
         log(`weekly digest failed: ${e instanceof Error ? e.message : String(e)}`);

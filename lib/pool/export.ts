@@ -172,3 +172,8 @@ export function dataDictionaryCsv(d: DataDictionary): string {
   ];
   return [header, ...rows].map(line).join("") + "\r\n" + figures.map(line).join("");
 }
+
+/** The name of an export file: `<slug>-pool-<what>-<yyyy-mm-dd>.<ext>`. */
+export function exportFileName(slug: string, what: "rows" | "dictionary", ext: "csv" | "json", now = new Date()): string {
+  return `${slug}-pool-${what}-${now.toISOString().slice(0, 10)}.${ext}`;
+}

@@ -4,9 +4,13 @@ import { getDb } from "@/db/client";
 import { studies } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
-import { studyScope } from "@/lib/studies/scope";
-import { recordAudit } from "@/lib/core/audit";
+import { studyScope } from "@/lib/studies";
+import { z } from "zod";
+import { write } from "@/lib/core/write";
+import { unwrap } from "@/lib/errors";
+import { ok } from "@/lib/result";
 import { getIfAccepted, getStudyPool, type IfAccepted, type StudyPool, type StudyRef } from "./pool";
+import { getBoard, type Board } from "./queries-board";
 
 /** A study the user may see the pool of (analysts: assigned studies; leads and admins: all), or null. */
 export async function getPoolStudyForUser(user: SessionUser, slug: string): Promise<StudyRef | null> {
@@ -47,19 +51,49 @@ export async function getIfAcceptedForUser(user: SessionUser, batchPublicId: str
   return (await getPoolStudyForUser(user, r.studySlug)) ? r : null;
 }
 
-/** Audit row for a pool export: who took which versions' rows or the dictionary. */
-export async function recordPoolExport(user: SessionUser, pool: StudyPool, what: "rows" | "dictionary", format: "csv" | "json"): Promise<void> {
-  await recordAudit(getDb(), {
-    actorId: user.id,
-    action: `pool.export_${what}`,
-    objectType: "study",
-    objectId: pool.studyId,
-    studyId: pool.studyId,
-    after: {
-      format,
-      planVersion: pool.planVersion,
-      rows: pool.report.rows.total,
-      versions: pool.members.map((m) => ({ batch: m.batchPublicId, version: m.version })),
+const exportRequest = z.object({ what: z.enum(["rows", "dictionary"]), format: z.enum(["csv", "json"]) });
+
+/** Audit row for a pool export: who took which versions' rows or the dictionary. Throws when refused. */
+export async function recordPoolExport(
+  actorId: number,
+  pool: StudyPool,
+  what: "rows" | "dictionary",
+  format: "csv" | "json",
+): Promise<void> {
+  const done = await write({
+    name: "recordPoolExport",
+    actorId,
+    may: "pool.read",
+    schema: exportRequest,
+    input: { what, format },
+    run: async ({ input, audit }) => {
+      await audit({
+        action: `pool.export_${input.what}`,
+        objectType: "study",
+        objectId: pool.studyId,
+        studyId: pool.studyId,
+        after: {
+          format: input.format,
+          planVersion: pool.planVersion,
+          rows: pool.report.rows.total,
+          versions: pool.members.map((m) => ({ batch: m.batchPublicId, version: m.version })),
+        },
+      });
+      return ok(null);
     },
   });
+  unwrap(done);
+}
+
+/** The answer when a pool is not there or not the user's to see (the same words, so existence does not leak). */
+export const NO_VISIBLE_POOL = "No study with this name has a pool you can see.";
+
+/** The pool of a study already found in the user's scope (listPoolStudiesForUser). */
+export function loadPool(study: StudyRef): Promise<StudyPool> {
+  return getStudyPool(getDb(), study);
+}
+
+/** The lead's board over the last `weeks` weeks; the caller has checked board.read. */
+export function loadBoard(weeks: number, now = new Date()): Promise<Board> {
+  return getBoard(getDb(), now, weeks);
 }

@@ -1,142 +1,146 @@
 import "server-only";
+/**
+ * A study's members: analysts assigned to it and provider organisations admitted to it
+ * (study.manage). The four changes share one shape: parse the chosen id, lock the study,
+ * look the member up, check, change the link table, write the audit row.
+ */
 import { and, eq } from "drizzle-orm";
-import { getDb } from "@/db/client";
+import { z } from "zod";
+import type { Tx } from "@/db/client";
 import { organisations, studyAnalysts, studyProviders, users } from "@/db/schema";
+import { write } from "@/lib/core/write";
 import { fail, ok, type Result } from "@/lib/result";
-import { loadActor } from "@/lib/core/actor";
-import { recordAudit, type Tx } from "@/lib/core/audit";
-import { isDuplicateKey, runService } from "@/lib/core/write";
 import { lockStudy } from "./commands-studies";
 import { memberIdSchema } from "./schemas";
 
 export type Membership = { studyId: number; memberId: number; name: string };
 
-function parseId(value: unknown, field: "userId" | "organisationId"): Result<number> {
-  const r = memberIdSchema.safeParse(value);
-  if (r.success) return ok(r.data);
-  return fail(field === "userId" ? "Choose an analyst from the list." : "Choose a provider organisation from the list.", {
-    [field]: [field === "userId" ? "Choose an analyst from the list." : "Choose a provider organisation from the list."],
+type Member = { id: number; name: string };
+
+/** One kind of membership: its field, its table, and what may be linked. */
+type Kind = {
+  field: "userId" | "organisationId";
+  choose: string;
+  /** the member, or a message saying why it cannot be linked */
+  find: (tx: Tx, id: number) => Promise<Member | string | null>;
+  linked: (tx: Tx, studyId: number, id: number) => Promise<boolean>;
+  link: (tx: Tx, studyId: number, id: number) => Promise<unknown>;
+  unlink: (tx: Tx, studyId: number, id: number) => Promise<unknown>;
+  audit: { add: string; remove: string; key: "userId" | "organisationId" };
+  already: (m: Member) => string;
+  gone: string;
+  race: string;
+};
+
+const analystLink = (studyId: number, id: number) =>
+  and(eq(studyAnalysts.studyId, studyId), eq(studyAnalysts.userId, id));
+const providerLink = (studyId: number, id: number) =>
+  and(eq(studyProviders.studyId, studyId), eq(studyProviders.organisationId, id));
+
+const ANALYST: Kind = {
+  field: "userId",
+  choose: "Choose an analyst from the list.",
+  find: async (tx, id) => {
+    const [u] = await tx
+      .select({ id: users.id, name: users.name, role: users.role, active: users.active })
+      .from(users)
+      .where(eq(users.id, id));
+    if (!u) return null;
+    if (u.role !== "analyst") return `${u.name} is not an analyst; only analysts are assigned to studies.`;
+    if (!u.active) return `${u.name}'s account is deactivated; reactivate it first.`;
+    return u;
+  },
+  linked: async (tx, s, id) => (await tx.select({ u: studyAnalysts.userId }).from(studyAnalysts).where(analystLink(s, id))).length > 0,
+  link: (tx, studyId, userId) => tx.insert(studyAnalysts).values({ studyId, userId }),
+  unlink: (tx, s, id) => tx.delete(studyAnalysts).where(analystLink(s, id)),
+  audit: { add: "study.analyst_assign", remove: "study.analyst_unassign", key: "userId" },
+  already: (m) => `${m.name} is already assigned to this study.`,
+  gone: "This analyst is not assigned to the study (any more); reload the page.",
+  race: "This analyst was assigned at the same moment by someone else.",
+};
+
+const PROVIDER: Kind = {
+  field: "organisationId",
+  choose: "Choose a provider organisation from the list.",
+  find: async (tx, id) => {
+    const [o] = await tx
+      .select({ id: organisations.id, name: organisations.name, kind: organisations.kind })
+      .from(organisations)
+      .where(eq(organisations.id, id));
+    if (!o) return null;
+    if (o.kind !== "provider") return `${o.name} is a team, not a provider organisation; only providers send batches.`;
+    return o;
+  },
+  linked: async (tx, s, id) =>
+    (await tx.select({ o: studyProviders.organisationId }).from(studyProviders).where(providerLink(s, id))).length > 0,
+  link: (tx, studyId, organisationId) => tx.insert(studyProviders).values({ studyId, organisationId }),
+  unlink: (tx, s, id) => tx.delete(studyProviders).where(providerLink(s, id)),
+  audit: { add: "study.provider_admit", remove: "study.provider_remove", key: "organisationId" },
+  already: (m) => `${m.name} is already admitted to this study.`,
+  gone: "This organisation is not admitted to the study (any more); reload the page.",
+  race: "This organisation was admitted at the same moment by someone else.",
+};
+
+const NO_SUCH = { userId: "There is no such user.", organisationId: "There is no such organisation." };
+const ALREADY = { userId: "Already assigned.", organisationId: "Already admitted." };
+
+function change(kind: Kind, add: boolean, name: string, actorId: number, studyId: number, input: unknown) {
+  const field = kind.field;
+  return write({
+    name,
+    actorId,
+    may: "study.manage",
+    schema: z.object({ [field]: memberIdSchema }),
+    input: { [field]: input },
+    invalid: () => fail(kind.choose, { [field]: [kind.choose] }),
+    onDuplicate: () => fail(kind.race, undefined, "conflict"),
+    run: async ({ tx, input: parsed, audit }): Promise<Result<Membership>> => {
+      const id = parsed[field] as number;
+      await lockStudy(tx, studyId);
+      const key = kind.audit.key;
+      if (!add) {
+        // removing needs only that the link exists: a deactivated analyst can be unassigned
+        const member = await anyMember(tx, kind, id);
+        if (!member || !(await kind.linked(tx, studyId, member.id))) return fail(kind.gone, undefined, "not_found");
+        await kind.unlink(tx, studyId, member.id);
+        const before = { [key]: member.id, name: member.name };
+        await audit({ action: kind.audit.remove, objectType: "study", objectId: studyId, studyId, before, after: null });
+        return ok({ studyId, memberId: member.id, name: member.name });
+      }
+      const found = await kind.find(tx, id);
+      if (found === null || typeof found === "string") {
+        return fail("Check the marked field.", { [field]: [found ?? NO_SUCH[field]] });
+      }
+      if (await kind.linked(tx, studyId, found.id)) {
+        return fail(kind.already(found), { [field]: [ALREADY[field]] }, "conflict");
+      }
+      await kind.link(tx, studyId, found.id);
+      const after = { [key]: found.id, name: found.name };
+      await audit({ action: kind.audit.add, objectType: "study", objectId: studyId, studyId, before: null, after });
+      return ok({ studyId, memberId: found.id, name: found.name });
+    },
   });
 }
 
-async function analystRow(tx: Tx, userId: number) {
-  const rows = await tx.select({ id: users.id, name: users.name, role: users.role, active: users.active }).from(users).where(eq(users.id, userId)).limit(1);
-  return rows[0] ?? null;
-}
-
-async function providerOrg(tx: Tx, organisationId: number) {
-  const rows = await tx
-    .select({ id: organisations.id, name: organisations.name, kind: organisations.kind })
-    .from(organisations)
-    .where(eq(organisations.id, organisationId))
-    .limit(1);
-  return rows[0] ?? null;
-}
-
-async function assigned(tx: Tx, studyId: number, userId: number): Promise<boolean> {
-  const rows = await tx
-    .select({ u: studyAnalysts.userId })
-    .from(studyAnalysts)
-    .where(and(eq(studyAnalysts.studyId, studyId), eq(studyAnalysts.userId, userId)))
-    .limit(1);
-  return rows.length > 0;
-}
-
-async function admitted(tx: Tx, studyId: number, organisationId: number): Promise<boolean> {
-  const rows = await tx
-    .select({ o: studyProviders.organisationId })
-    .from(studyProviders)
-    .where(and(eq(studyProviders.studyId, studyId), eq(studyProviders.organisationId, organisationId)))
-    .limit(1);
-  return rows.length > 0;
+/** The user or organisation by id whatever its role or kind (for removing a link). */
+async function anyMember(tx: Tx, kind: Kind, id: number): Promise<Member | null> {
+  const table = kind.field === "userId" ? users : organisations;
+  const [row] = await tx.select({ id: table.id, name: table.name }).from(table).where(eq(table.id, id));
+  return row ?? null;
 }
 
 /** Assigns an active analyst to a study (study.manage). The analyst then sees its batches and pool. */
-export async function assignAnalyst(actorId: number, studyId: number, userIdInput: unknown): Promise<Result<Membership>> {
-  return runService("assignAnalyst", async () => {
-    const id = parseId(userIdInput, "userId");
-    if (!id.ok) return id;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    try {
-      return await db.transaction(async (tx) => {
-        await lockStudy(tx, studyId);
-        const u = await analystRow(tx, id.data);
-        if (!u) return fail<Membership>("Check the marked field.", { userId: ["There is no such user."] });
-        if (u.role !== "analyst") return fail<Membership>("Check the marked field.", { userId: [`${u.name} is not an analyst; only analysts are assigned to studies.`] });
-        if (!u.active) return fail<Membership>("Check the marked field.", { userId: [`${u.name}'s account is deactivated; reactivate it first.`] });
-        if (await assigned(tx, studyId, u.id)) return fail<Membership>(`${u.name} is already assigned to this study.`, { userId: ["Already assigned."] }, "conflict");
-        await tx.insert(studyAnalysts).values({ studyId, userId: u.id });
-        await recordAudit(tx, { actorId: actor.id, action: "study.analyst_assign", objectType: "study", objectId: studyId, studyId, before: null, after: { userId: u.id, name: u.name } });
-        return ok({ studyId, memberId: u.id, name: u.name });
-      });
-    } catch (e) {
-      if (isDuplicateKey(e)) return fail("This analyst was assigned at the same moment by someone else.", undefined, "conflict");
-      throw e;
-    }
-  });
-}
+export const assignAnalyst = (actorId: number, studyId: number, userId: unknown) =>
+  change(ANALYST, true, "assignAnalyst", actorId, studyId, userId);
 
 /** Ends an analyst's assignment to a study (study.manage); their past decisions stay. */
-export async function unassignAnalyst(actorId: number, studyId: number, userIdInput: unknown): Promise<Result<Membership>> {
-  return runService("unassignAnalyst", async () => {
-    const id = parseId(userIdInput, "userId");
-    if (!id.ok) return id;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    return db.transaction(async (tx) => {
-      await lockStudy(tx, studyId);
-      const u = await analystRow(tx, id.data);
-      if (!u || !(await assigned(tx, studyId, u.id))) return fail<Membership>("This analyst is not assigned to the study (any more); reload the page.", undefined, "not_found");
-      await tx.delete(studyAnalysts).where(and(eq(studyAnalysts.studyId, studyId), eq(studyAnalysts.userId, u.id)));
-      await recordAudit(tx, { actorId: actor.id, action: "study.analyst_unassign", objectType: "study", objectId: studyId, studyId, before: { userId: u.id, name: u.name }, after: null });
-      return ok({ studyId, memberId: u.id, name: u.name });
-    });
-  });
-}
+export const unassignAnalyst = (actorId: number, studyId: number, userId: unknown) =>
+  change(ANALYST, false, "unassignAnalyst", actorId, studyId, userId);
 
 /** Admits a provider organisation to a study (study.manage): its providers may then upload batches. */
-export async function admitProvider(actorId: number, studyId: number, organisationIdInput: unknown): Promise<Result<Membership>> {
-  return runService("admitProvider", async () => {
-    const id = parseId(organisationIdInput, "organisationId");
-    if (!id.ok) return id;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    try {
-      return await db.transaction(async (tx) => {
-        await lockStudy(tx, studyId);
-        const org = await providerOrg(tx, id.data);
-        if (!org) return fail<Membership>("Check the marked field.", { organisationId: ["There is no such organisation."] });
-        if (org.kind !== "provider")
-          return fail<Membership>("Check the marked field.", { organisationId: [`${org.name} is a team, not a provider organisation; only providers send batches.`] });
-        if (await admitted(tx, studyId, org.id))
-          return fail<Membership>(`${org.name} is already admitted to this study.`, { organisationId: ["Already admitted."] }, "conflict");
-        await tx.insert(studyProviders).values({ studyId, organisationId: org.id });
-        await recordAudit(tx, { actorId: actor.id, action: "study.provider_admit", objectType: "study", objectId: studyId, studyId, before: null, after: { organisationId: org.id, name: org.name } });
-        return ok({ studyId, memberId: org.id, name: org.name });
-      });
-    } catch (e) {
-      if (isDuplicateKey(e)) return fail("This organisation was admitted at the same moment by someone else.", undefined, "conflict");
-      throw e;
-    }
-  });
-}
+export const admitProvider = (actorId: number, studyId: number, organisationId: unknown) =>
+  change(PROVIDER, true, "admitProvider", actorId, studyId, organisationId);
 
 /** Removes a provider organisation from a study (study.manage): no new uploads; its batches stay. */
-export async function removeProvider(actorId: number, studyId: number, organisationIdInput: unknown): Promise<Result<Membership>> {
-  return runService("removeProvider", async () => {
-    const id = parseId(organisationIdInput, "organisationId");
-    if (!id.ok) return id;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    return db.transaction(async (tx) => {
-      await lockStudy(tx, studyId);
-      const org = await providerOrg(tx, id.data);
-      if (!org || !(await admitted(tx, studyId, org.id)))
-        return fail<Membership>("This organisation is not admitted to the study (any more); reload the page.", undefined, "not_found");
-      await tx.delete(studyProviders).where(and(eq(studyProviders.studyId, studyId), eq(studyProviders.organisationId, org.id)));
-      await recordAudit(tx, { actorId: actor.id, action: "study.provider_remove", objectType: "study", objectId: studyId, studyId, before: { organisationId: org.id, name: org.name }, after: null });
-      return ok({ studyId, memberId: org.id, name: org.name });
-    });
-  });
-}
+export const removeProvider = (actorId: number, studyId: number, organisationId: unknown) =>
+  change(PROVIDER, false, "removeProvider", actorId, studyId, organisationId);

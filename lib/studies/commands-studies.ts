@@ -1,12 +1,10 @@
 import "server-only";
 import { eq } from "drizzle-orm";
-import { getDb } from "@/db/client";
+import type { Tx } from "@/db/client";
 import { organisations, studies } from "@/db/schema";
+import { write } from "@/lib/core/write";
 import { AppError } from "@/lib/errors";
-import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
-import { loadActor } from "@/lib/core/actor";
-import { recordAudit, type Tx } from "@/lib/core/audit";
-import { isDuplicateKey, runService } from "@/lib/core/write";
+import { fail, ok, type Result } from "@/lib/result";
 import { createStudySchema, updateStudySchema } from "./schemas";
 
 export type StudyRecord = {
@@ -20,7 +18,7 @@ export type StudyRecord = {
 };
 
 const SLUG_TAKEN = "Another study already uses this address; choose another.";
-const CHECK_FIELDS = "Check the marked fields.";
+export const CHECK_MARKED = "Check the marked fields.";
 
 /** The study row, locked for the rest of the transaction; AppError("not_found") when there is none. */
 export async function lockStudy(tx: Tx, studyId: number): Promise<StudyRecord> {
@@ -43,68 +41,65 @@ export async function lockStudy(tx: Tx, studyId: number): Promise<StudyRecord> {
   return row;
 }
 
+async function organisationKind(tx: Tx, id: number) {
+  const rows = await tx.select({ kind: organisations.kind }).from(organisations).where(eq(organisations.id, id)).limit(1);
+  return rows[0]?.kind ?? null;
+}
+
 /**
  * Creates a study without a data plan (publish version 1 from the plan editor). Admins and
  * leads (study.manage). The slug is the study's address and must be unique; the team is a
  * team organisation, by default the actor's own.
  */
-export async function createStudy(actorId: number, input: unknown): Promise<Result<StudyRecord>> {
-  return runService("createStudy", async () => {
-    const parsed = createStudySchema.safeParse(input);
-    if (!parsed.success) return fail(CHECK_FIELDS, fieldErrorsOf(parsed.error.issues));
-    const data = parsed.data;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    try {
-      return await db.transaction(async (tx) => {
-        const taken = await tx.select({ id: studies.id }).from(studies).where(eq(studies.slug, data.slug)).limit(1);
-        if (taken.length > 0) return fail<StudyRecord>(CHECK_FIELDS, { slug: [SLUG_TAKEN] }, "conflict");
+export function createStudy(actorId: number, input: unknown): Promise<Result<StudyRecord>> {
+  const taken = () => fail<StudyRecord>(CHECK_MARKED, { slug: [SLUG_TAKEN] }, "conflict");
+  return write({
+    name: "createStudy",
+    actorId,
+    may: "study.manage",
+    schema: createStudySchema,
+    input,
+    invalid: CHECK_MARKED,
+    // two people creating the same address at once: the unique key decides
+    onDuplicate: taken,
+    run: async ({ tx, actor, input: data, audit }) => {
+      const existing = await tx.select({ id: studies.id }).from(studies).where(eq(studies.slug, data.slug)).limit(1);
+      if (existing.length > 0) return taken();
 
-        let teamId = data.teamOrganisationId;
-        if (teamId == null && actor.organisationId != null) {
-          const own = await tx.select({ kind: organisations.kind }).from(organisations).where(eq(organisations.id, actor.organisationId)).limit(1);
-          if (own[0]?.kind === "team") teamId = actor.organisationId;
+      let teamId = data.teamOrganisationId;
+      if (teamId == null && actor.organisationId != null) {
+        if ((await organisationKind(tx, actor.organisationId)) === "team") teamId = actor.organisationId;
+      }
+      if (teamId != null) {
+        const kind = await organisationKind(tx, teamId);
+        if (!kind) return fail(CHECK_MARKED, { teamOrganisationId: ["There is no such organisation."] });
+        if (kind !== "team") {
+          return fail(CHECK_MARKED, { teamOrganisationId: ["A study is run by a team organisation, not by a provider."] });
         }
-        if (teamId != null) {
-          const org = await tx.select({ kind: organisations.kind }).from(organisations).where(eq(organisations.id, teamId)).limit(1);
-          if (!org[0]) return fail<StudyRecord>(CHECK_FIELDS, { teamOrganisationId: ["There is no such organisation."] });
-          if (org[0].kind !== "team")
-            return fail<StudyRecord>(CHECK_FIELDS, { teamOrganisationId: ["A study is run by a team organisation, not by a provider."] });
-        }
-        const [created] = await tx
-          .insert(studies)
-          .values({ slug: data.slug, title: data.title, description: data.description, teamOrganisationId: teamId, status: "open", createdById: actor.id })
-          .$returningId();
-        if (!created) throw new Error("insert into studies returned no id");
-        const rec: StudyRecord = {
-          id: created.id,
-          slug: data.slug,
-          title: data.title,
-          description: data.description,
-          status: "open",
-          teamOrganisationId: teamId,
-          currentPlanVersion: null,
-        };
-        await recordAudit(tx, { actorId: actor.id, action: "study.create", objectType: "study", objectId: rec.id, studyId: rec.id, before: null, after: rec });
-        return ok(rec);
-      });
-    } catch (e) {
-      // two people creating the same address at once: the unique key decides
-      if (isDuplicateKey(e)) return fail(CHECK_FIELDS, { slug: [SLUG_TAKEN] }, "conflict");
-      throw e;
-    }
+      }
+      const values = { slug: data.slug, title: data.title, description: data.description, teamOrganisationId: teamId };
+      const [created] = await tx
+        .insert(studies)
+        .values({ ...values, status: "open", createdById: actor.id })
+        .$returningId();
+      if (!created) throw new Error("insert into studies returned no id");
+      const rec: StudyRecord = { id: created.id, ...values, status: "open", currentPlanVersion: null };
+      await audit({ action: "study.create", objectType: "study", objectId: rec.id, studyId: rec.id, before: null, after: rec });
+      return ok(rec);
+    },
   });
 }
 
 /** Changes a study's title, description or status (open | closed). Admins and leads. */
-export async function updateStudy(actorId: number, studyId: number, input: unknown): Promise<Result<StudyRecord>> {
-  return runService("updateStudy", async () => {
-    const parsed = updateStudySchema.safeParse(input);
-    if (!parsed.success) return fail(CHECK_FIELDS, fieldErrorsOf(parsed.error.issues));
-    const change = parsed.data;
-    const db = getDb();
-    const actor = await loadActor(db, actorId, "study.manage");
-    return db.transaction(async (tx) => {
+export function updateStudy(actorId: number, studyId: number, input: unknown): Promise<Result<StudyRecord>> {
+  return write({
+    name: "updateStudy",
+    actorId,
+    may: "study.manage",
+    schema: updateStudySchema,
+    input,
+    invalid: CHECK_MARKED,
+    run: async ({ tx, input: change, audit }) => {
       const before = await lockStudy(tx, studyId);
       const after: StudyRecord = {
         ...before,
@@ -112,18 +107,19 @@ export async function updateStudy(actorId: number, studyId: number, input: unkno
         ...(change.description !== undefined ? { description: change.description } : {}),
         ...(change.status !== undefined ? { status: change.status } : {}),
       };
-      if (after.title === before.title && after.description === before.description && after.status === before.status) return ok(before);
-      await tx.update(studies).set({ title: after.title, description: after.description, status: after.status }).where(eq(studies.id, studyId));
-      await recordAudit(tx, {
-        actorId: actor.id,
-        action: after.status !== before.status ? `study.${after.status === "closed" ? "close" : "reopen"}` : "study.update",
+      const fields = (s: StudyRecord) => ({ title: s.title, description: s.description, status: s.status });
+      if (JSON.stringify(fields(after)) === JSON.stringify(fields(before))) return ok(before);
+      await tx.update(studies).set(fields(after)).where(eq(studies.id, studyId));
+      const statusAction = after.status === "closed" ? "study.close" : "study.reopen";
+      await audit({
+        action: after.status !== before.status ? statusAction : "study.update",
         objectType: "study",
         objectId: studyId,
         studyId,
-        before: { title: before.title, description: before.description, status: before.status },
-        after: { title: after.title, description: after.description, status: after.status },
+        before: fields(before),
+        after: fields(after),
       });
       return ok(after);
-    });
+    },
   });
 }

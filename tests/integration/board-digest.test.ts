@@ -38,9 +38,9 @@ beforeAll(async () => {
   const demo = barleyBatches();
   // 180 clean plots: the pool goes from empty to past its target of 150 residual df
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, demo[0]!.csv);
-  expect((await decideVersion(db, analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+  expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
   const b = await uploadAndCheck("provider@fennick.test", SLUG, demo[1]!.csv);
-  expect((await decideVersion(db, analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
+  expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
   bouncedId = b.batchPublicId;
   const c = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv);
   waitingId = c.batchPublicId;
@@ -78,11 +78,11 @@ describe("weekly digest", () => {
     const leads = await db.select({ email: users.email }).from(users).where(and(eq(users.role, "lead"), eq(users.active, true)));
     const lead = await userId("lead@lowmoor.test");
     const now = new Date(Date.now() + 2000);
-    const first = await sendDigest(db, { actorId: null, now, reason: "weekly" });
+    const first = await sendDigest({ actorId: null, now, reason: "weekly" });
     expect(first).toMatchObject({ ok: true, data: { recipients: leads.length, queued: leads.length } });
-    const again = await sendDigest(db, { actorId: null, now: new Date(now.getTime() + 60_000), reason: "weekly" });
+    const again = await sendDigest({ actorId: null, now: new Date(now.getTime() + 60_000), reason: "weekly" });
     expect(again).toMatchObject({ ok: true, data: { queued: 0 } });
-    const manual = await sendDigest(db, { actorId: lead, now: new Date(now.getTime() + 120_000), reason: "now" });
+    const manual = await sendDigest({ actorId: lead, now: new Date(now.getTime() + 120_000), reason: "now" });
     expect(manual).toMatchObject({ ok: true, data: { queued: leads.length } });
     const rows = await db.select().from(emailOutbox).where(and(eq(emailOutbox.kind, "digest"), eq(emailOutbox.toAddress, "lead@lowmoor.test"), like(emailOutbox.dedupeKey, "digest:%")));
     expect(rows.length).toBeGreaterThanOrEqual(2);
@@ -92,8 +92,8 @@ describe("weekly digest", () => {
   });
 
   it("refuses providers and analysts, and is due from Monday 07:00 UTC", async () => {
-    expect(await sendDigest(db, { actorId: await userId("provider@harrowgate.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
-    expect(await sendDigest(db, { actorId: await userId("analyst@lowmoor.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
+    expect(await sendDigest({ actorId: await userId("provider@harrowgate.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
+    expect(await sendDigest({ actorId: await userId("analyst@lowmoor.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
     expect(digestDue(new Date("2026-11-30T06:59:00Z"))).toBe(false);
     expect(digestDue(new Date("2026-11-30T07:00:00Z"))).toBe(true);
     expect(digestDue(new Date("2026-12-02T01:00:00Z"))).toBe(true);

@@ -38,9 +38,9 @@ beforeAll(async () => {
   const analyst = await userId("analyst@lowmoor.test");
   const demo = barleyBatches();
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, demo[0]!.csv);
-  expect((await decideVersion(db, analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+  expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
   const b = await uploadAndCheck("provider@fennick.test", SLUG, demo[1]!.csv);
-  expect((await decideVersion(db, analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
+  expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
   const b2 = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv, { batchPublicId: b.batchPublicId });
   // known times: a decided 10 h after upload, b v1 30 h after; b v2 waiting for 5 h
   const set = async (versionId: number, uploaded: Date, changed: Date, decided?: Date) => {

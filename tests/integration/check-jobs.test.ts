@@ -39,7 +39,7 @@ afterAll(async () => {
 
 describe("recording an upload", () => {
   it("creates version 1 with a queued job and audit rows, in one go", async () => {
-    const r = await recordBatchVersion(db, providerId, { studyId }, store(barleyBatches()[0]!.csv));
+    const r = await recordBatchVersion(providerId, { studyId }, store(barleyBatches()[0]!.csv));
     expect(r.ok).toBe(true);
     if (!r.ok) return;
     expect(r.data.version).toBe(1);
@@ -55,7 +55,7 @@ describe("recording an upload", () => {
 
   it("refuses a provider not admitted to the study, and stores nothing", async () => {
     const before = await db.select({ n: sql<number>`count(*)` }).from(batchVersions);
-    const r = await recordBatchVersion(db, providerId, { studyId: heatStudyId }, store("a,b\n1,2\n"));
+    const r = await recordBatchVersion(providerId, { studyId: heatStudyId }, store("a,b\n1,2\n"));
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.message).toMatch(/not admitted/);
     const after = await db.select({ n: sql<number>`count(*)` }).from(batchVersions);
@@ -63,19 +63,19 @@ describe("recording an upload", () => {
   });
 
   it("refuses another organisation's batch as if it did not exist", async () => {
-    const mine = await recordBatchVersion(db, providerId, { studyId }, store("a\n1\n"));
+    const mine = await recordBatchVersion(providerId, { studyId }, store("a\n1\n"));
     expect(mine.ok).toBe(true);
     if (!mine.ok) return;
-    const theirs = await recordBatchVersion(db, otherProviderId, { studyId, batchPublicId: mine.data.batchPublicId }, store("a\n1\n"));
+    const theirs = await recordBatchVersion(otherProviderId, { studyId, batchPublicId: mine.data.batchPublicId }, store("a\n1\n"));
     expect(theirs.ok).toBe(false);
     if (!theirs.ok) expect(theirs.message).toMatch(/not found/);
     await drainQueue();
   });
 
   it("a resubmission is version 2 and supersedes version 1", async () => {
-    const v1 = await recordBatchVersion(db, providerId, { studyId }, store("a\n1\n"));
+    const v1 = await recordBatchVersion(providerId, { studyId }, store("a\n1\n"));
     if (!v1.ok) throw new Error(v1.message);
-    const v2 = await recordBatchVersion(db, providerId, { studyId, batchPublicId: v1.data.batchPublicId }, store("a\n2\n"));
+    const v2 = await recordBatchVersion(providerId, { studyId, batchPublicId: v1.data.batchPublicId }, store("a\n2\n"));
     if (!v2.ok) throw new Error(v2.message);
     expect(v2.data.version).toBe(2);
     const [old] = await db.select({ state: batchVersions.state }).from(batchVersions).where(eq(batchVersions.id, v1.data.batchVersionId));
@@ -88,7 +88,7 @@ describe("workers", () => {
   it("two workers claiming at once never take the same job", async () => {
     const ids: number[] = [];
     for (let i = 0; i < 6; i++) {
-      const r = await recordBatchVersion(db, providerId, { studyId }, store("a\n1\n"));
+      const r = await recordBatchVersion(providerId, { studyId }, store("a\n1\n"));
       if (!r.ok) throw new Error(r.message);
       ids.push(r.data.batchVersionId);
     }
@@ -109,7 +109,7 @@ describe("workers", () => {
   });
 
   it("a job left running by a dead worker is taken again and ends with one report", async () => {
-    const r = await recordBatchVersion(db, providerId, { studyId }, store(barleyBatches()[1]!.csv, "fennick.csv"));
+    const r = await recordBatchVersion(providerId, { studyId }, store(barleyBatches()[1]!.csv, "fennick.csv"));
     if (!r.ok) throw new Error(r.message);
     const first = await claimJob(db, "doomed-worker");
     expect(first?.batchVersionId).toBe(r.data.batchVersionId);
@@ -135,7 +135,7 @@ describe("workers", () => {
   });
 
   it("an unreadable file ends as unreadable with its reason, not as a failed job", async () => {
-    const r = await recordBatchVersion(db, providerId, { studyId }, store("PK\u0003\u0004 not really a workbook", "plots.xlsx.csv"));
+    const r = await recordBatchVersion(providerId, { studyId }, store("PK\u0003\u0004 not really a workbook", "plots.xlsx.csv"));
     if (!r.ok) throw new Error(r.message);
     const job = await claimJob(db, "w");
     const report = await runJob({ db, openFile }, job!);
@@ -145,7 +145,7 @@ describe("workers", () => {
   });
 
   it("a file that cannot be fetched fails the attempt and is retried later, then marked failed", async () => {
-    const r = await recordBatchVersion(db, providerId, { studyId }, { key: "missing-key", url: "http://127.0.0.1/none", name: "x.csv", size: 1 });
+    const r = await recordBatchVersion(providerId, { studyId }, { key: "missing-key", url: "http://127.0.0.1/none", name: "x.csv", size: 1 });
     if (!r.ok) throw new Error(r.message);
     let now = Date.now();
     for (let attempt = 1; attempt <= 3; attempt++) {

@@ -23,7 +23,7 @@ describe("decisions", () => {
     const up = await uploadAndCheck("provider@fennick.test", "barley-nitrogen", fennick());
     expect(up.report?.status).toBe("checked");
     const analyst = await userId("analyst@lowmoor.test");
-    const r = await decideVersion(db, analyst, up.batchPublicId, 1, {
+    const r = await decideVersion(analyst, up.batchPublicId, 1, {
       decision: "bounce",
       comment: "Please send the soil levels as in the plan and drop the computed water column.",
       findingComments: [
@@ -62,8 +62,8 @@ describe("decisions", () => {
     const a = await userId("analyst@lowmoor.test");
     const admin = await userId("admin@tributary.test");
     const results = await Promise.all([
-      decideVersion(db, a, up.batchPublicId, 1, { decision: "accept" }),
-      decideVersion(db, admin, up.batchPublicId, 1, { decision: "bounce", comment: "Too few rows from the headland plots." }),
+      decideVersion(a, up.batchPublicId, 1, { decision: "accept" }),
+      decideVersion(admin, up.batchPublicId, 1, { decision: "bounce", comment: "Too few rows from the headland plots." }),
     ]);
     const wins = results.filter((r) => r.ok);
     const losses = results.filter((r) => !r.ok);
@@ -78,16 +78,16 @@ describe("decisions", () => {
     const v1 = await uploadAndCheck("provider@harrowgate.test", "barley-nitrogen", barleyBatches()[0]!.csv);
     await uploadAndCheck("provider@harrowgate.test", "barley-nitrogen", barleyBatches()[0]!.csv, { batchPublicId: v1.batchPublicId });
     const analyst = await userId("analyst@lowmoor.test");
-    const superseded = await decideVersion(db, analyst, v1.batchPublicId, 1, { decision: "accept" });
+    const superseded = await decideVersion(analyst, v1.batchPublicId, 1, { decision: "accept" });
     expect(superseded).toMatchObject({ ok: false, code: "conflict" });
     if (!superseded.ok) expect(superseded.message).toMatch(/superseded by version 2/);
 
-    const provider = await decideVersion(db, await userId("provider@harrowgate.test"), v1.batchPublicId, 2, { decision: "accept" });
+    const provider = await decideVersion(await userId("provider@harrowgate.test"), v1.batchPublicId, 2, { decision: "accept" });
     expect(provider).toMatchObject({ ok: false, code: "forbidden" });
     // analyst2 reviews the heat-pump study only: the barley batch answers as not found
-    const other = await decideVersion(db, await userId("analyst2@lowmoor.test"), v1.batchPublicId, 2, { decision: "accept" });
+    const other = await decideVersion(await userId("analyst2@lowmoor.test"), v1.batchPublicId, 2, { decision: "accept" });
     expect(other).toMatchObject({ ok: false, code: "not_found" });
-    const silent = await decideVersion(db, analyst, v1.batchPublicId, 2, { decision: "bounce" });
+    const silent = await decideVersion(analyst, v1.batchPublicId, 2, { decision: "bounce" });
     expect(silent.ok).toBe(false);
     if (!silent.ok) expect(silent.fieldErrors?.comment?.[0]).toMatch(/what the provider must fix/);
     const [v2] = await db.select({ state: batchVersions.state }).from(batchVersions).where(and(eq(batchVersions.batchId, v1.batchId), eq(batchVersions.version, 2)));

@@ -67,7 +67,7 @@ describe("the database stopped and started during a check", () => {
     const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
     const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
     const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("DB", ROWS, 808)), "harrowgate-outage.csv");
-    const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id }, file);
+    const recorded = await recordBatchVersion(provider!.id, { studyId: study!.id }, file);
     if (!recorded.ok) throw new Error(recorded.message);
     const versionId = recorded.data.batchVersionId;
 
@@ -143,7 +143,7 @@ describe("the database stopped and started during a check", () => {
     const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
     const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
     const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("DC", 500, 809)), "after-outage.csv");
-    const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id }, file);
+    const recorded = await recordBatchVersion(provider!.id, { studyId: study!.id }, file);
     if (!recorded.ok) throw new Error(recorded.message);
     const versionId = recorded.data.batchVersionId;
     await waitFor("the new batch to be checked", async () => (await outcome(db, [versionId])).get(versionId)!.state === "ready");

@@ -64,7 +64,7 @@ async function queueLarge(seed: number, name: string): Promise<{ versionId: numb
   const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
   const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
   const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("KL", ROWS, seed)), name);
-  const recorded = await recordBatchVersion(db, provider!.id, { studyId: study!.id, title: "Large season file" }, file);
+  const recorded = await recordBatchVersion(provider!.id, { studyId: study!.id, title: "Large season file" }, file);
   if (!recorded.ok) throw new Error(recorded.message);
   return { versionId: recorded.data.batchVersionId, size: file.size };
 }

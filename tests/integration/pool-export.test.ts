@@ -13,12 +13,19 @@ import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
-import { openMemoryFile, uploadAndCheck, userId } from "./helpers/pipeline";
+import { uploadAndCheck, userId } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
 
 vi.mock("server-only", () => ({}));
+// the routes read stored files through the file store; here the files live in this process's memory
+vi.mock("@/lib/batches/intake/file-store", async (orig) => ({
+  ...(await orig<typeof import("@/lib/batches/intake/file-store")>()),
+  openStoredFile: async (key: string) => (await import("./helpers/pipeline")).openMemoryFile(key),
+}));
 
-const { dictionaryHandler, poolHandler, poolRowsHandler } = await import("@/lib/pool/handlers");
+const { GET: dictionaryHandler } = await import("@/app/api/v1/pool/[slug]/dictionary/route");
+const { GET: poolHandler } = await import("@/app/api/v1/pool/[slug]/route");
+const { GET: poolRowsHandler } = await import("@/app/api/v1/pool/[slug]/rows/route");
 
 const db = getDb();
 const SLUG = `pool-export-${process.pid}`;
@@ -55,9 +62,9 @@ beforeAll(async () => {
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, harrow, { name: "harrowgate.csv" });
   const b = await uploadAndCheck("provider@fennick.test", SLUG, demo[4]!.csv, { name: "saltmarsh.csv" });
   const c = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv, { name: "coldwell.csv" });
-  expect((await decideVersion(db, analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
-  expect((await decideVersion(db, analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
-  expect((await decideVersion(db, analyst, c.batchPublicId, 1, { decision: "bounce", comment: "Plot ids repeat." })).ok).toBe(true);
+  expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+  expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+  expect((await decideVersion(analyst, c.batchPublicId, 1, { decision: "bounce", comment: "Plot ids repeat." })).ok).toBe(true);
 });
 
 afterAll(async () => {
@@ -72,7 +79,7 @@ afterAll(async () => {
 
 describe("pool export", () => {
   it("streams every accepted row with provenance; re-read, it has the pool's row count", async () => {
-    const res = await get(poolRowsHandler(openMemoryFile), `/api/v1/pool/${SLUG}/rows`, "lead@lowmoor.test");
+    const res = await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "lead@lowmoor.test");
     expect(res.status).toBe(200);
     expect(res.headers.get("content-type")).toContain("text/csv");
     expect(res.headers.get("content-disposition")).toMatch(/attachment; filename=".*\.csv"/);
@@ -116,9 +123,9 @@ describe("pool export", () => {
   });
 
   it("refuses anonymous callers (401), providers (403) and analysts of other studies (404)", async () => {
-    expect((await get(poolRowsHandler(openMemoryFile), `/api/v1/pool/${SLUG}/rows`)).status).toBe(401);
-    expect((await get(poolRowsHandler(openMemoryFile), `/api/v1/pool/${SLUG}/rows`, "provider@harrowgate.test")).status).toBe(403);
-    const other = await get(poolRowsHandler(openMemoryFile), `/api/v1/pool/${SLUG}/rows`, "analyst2@lowmoor.test");
+    expect((await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`)).status).toBe(401);
+    expect((await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "provider@harrowgate.test")).status).toBe(403);
+    const other = await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "analyst2@lowmoor.test");
     expect(other.status).toBe(404);
     expect((await other.json()).error.code).toBe("not_found");
     expect((await get(poolHandler, `/api/v1/pool/${SLUG}`, "analyst2@lowmoor.test")).status).toBe(404);

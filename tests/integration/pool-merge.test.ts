@@ -85,7 +85,7 @@ describe("the pool", () => {
   it("is empty before anything is accepted, and a bounced version never enters it", async () => {
     const analyst = await userId("analyst@lowmoor.test");
     const up = await uploadAndCheck("provider@fennick.test", SLUG, fennick);
-    const r = await decideVersion(db, analyst, up.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan, please." });
+    const r = await decideVersion(analyst, up.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan, please." });
     expect(r.ok).toBe(true);
     const pool = await getStudyPool(db, (await getStudyRef(db, { slug: SLUG }))!);
     expect(pool.members).toHaveLength(0);
@@ -97,7 +97,7 @@ describe("the pool", () => {
     const analyst = await userId("analyst@lowmoor.test");
     const study = (await getStudyRef(db, { slug: SLUG }))!;
     const a = await uploadAndCheck("provider@harrowgate.test", SLUG, harrowgate, { name: "harrowgate.csv" });
-    expect((await decideVersion(db, analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
     const one = await getStudyPool(db, study);
     expect(one.members.map((m) => m.batchPublicId)).toEqual([a.batchPublicId]);
     expectSameFigures(one.report, await checkBatch(streamOf(harrowgate), plan));
@@ -113,8 +113,8 @@ describe("the pool", () => {
     const ifC = await getIfAccepted(db, c.batchPublicId, 1);
     expect(ifC!.drift.map((f) => `${f.code}:${f.columns.join()}`)).toContain("drift.missing:irrigation_mm");
 
-    expect((await decideVersion(db, analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
-    expect((await decideVersion(db, analyst, c.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
+    expect((await decideVersion(analyst, c.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
     const three = await getStudyPool(db, study);
     expect(three.members).toHaveLength(3);
     const ref = await checkBatch(streamOf(concat([harrowgate, coldwell, bracken])), plan);
@@ -135,12 +135,12 @@ describe("the pool", () => {
     const v2csv = concat([otter, demo[0]!.csv.split("\n").slice(0, 41).join("\n") + "\n"]);
     await uploadAndCheck("provider@harrowgate.test", SLUG, v2csv, { batchPublicId: v1.batchPublicId, name: "otter-v2.csv" });
     // version 1 is superseded: it can neither be decided nor enter the pool
-    expect((await decideVersion(db, analyst, v1.batchPublicId, 1, { decision: "accept" })).ok).toBe(false);
+    expect((await decideVersion(analyst, v1.batchPublicId, 1, { decision: "accept" })).ok).toBe(false);
     expect(await getIfAccepted(db, v1.batchPublicId, 1)).toBeNull();
     const during = await getStudyPool(db, study);
     expect(during.members.map((m) => m.fileName).sort()).toEqual(["bracken.csv", "coldwell.csv", "harrowgate.csv"]);
 
-    expect((await decideVersion(db, analyst, v1.batchPublicId, 2, { decision: "accept" })).ok).toBe(true);
+    expect((await decideVersion(analyst, v1.batchPublicId, 2, { decision: "accept" })).ok).toBe(true);
     const after = await getStudyPool(db, study);
     expect(after.members.map((m) => `${m.fileName}@${m.version}`).sort()).toEqual(["bracken.csv@1", "coldwell.csv@1", "harrowgate.csv@1", "otter-v2.csv@2"]);
     expectSameFigures(after.report, await checkBatch(streamOf(concat([harrowgate, coldwell, bracken, v2csv])), plan));

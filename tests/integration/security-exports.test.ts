@@ -67,7 +67,7 @@ beforeAll(async () => {
   rowsA[11]!.annual_kwh_saved = -999;
   const a = await uploadChecked("installer@greenhearth.test", { study: SLUG, file: new File([csvOf(HEADER, rowsA)], "notes.csv", { type: "text/csv" }) });
   expect(a.report?.status).not.toBe("unreadable");
-  const decided = await decideVersion(db, await userId("analyst2@lowmoor.test"), a.batchId, 1, { decision: "accept" });
+  const decided = await decideVersion(await userId("analyst2@lowmoor.test"), a.batchId, 1, { decision: "accept" });
   expect(decided.ok, JSON.stringify(decided)).toBe(true);
 
   // batch B: formula-looking levels, so the rows carry findings and are listed at fault

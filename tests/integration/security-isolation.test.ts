@@ -45,7 +45,7 @@ beforeAll(async () => {
   const r = await uploadChecked("provider@fennick.test", { study: STUDY, label: LABEL, file: new File([csv], "fennick.csv", { type: "text/csv" }) });
   ready = { batchId: r.batchId, version: r.version };
   const a = await uploadChecked("provider@harrowgate.test", { study: STUDY, file: new File([csv], "harrowgate.csv", { type: "text/csv" }) });
-  expect((await decideVersion(getDb(), await userId("analyst@lowmoor.test"), a.batchId, 1, { decision: "accept" })).ok).toBe(true);
+  expect((await decideVersion(await userId("analyst@lowmoor.test"), a.batchId, 1, { decision: "accept" })).ok).toBe(true);
   accepted = { batchId: a.batchId, version: 1 };
 });
 
@@ -134,7 +134,7 @@ describe("e-mails go to the right people, with user-typed text escaped", () => {
 
   it("a decision reaches the batch's organisation's active providers and nobody else", async () => {
     const analyst = await userId("analyst@lowmoor.test");
-    const r = await decideVersion(getDb(), analyst, ready.batchId, 1, { decision: "bounce", comment: "<script>alert(1)</script> fix the plots" });
+    const r = await decideVersion(analyst, ready.batchId, 1, { decision: "bounce", comment: "<script>alert(1)</script> fix the plots" });
     expect(r.ok, JSON.stringify(r)).toBe(true);
     const [b] = await getDb().select({ id: batches.id }).from(batches).where(eq(batches.publicId, ready.batchId));
     const mails = await getDb().select({ to: emailOutbox.toAddress, html: emailOutbox.htmlBody, subject: emailOutbox.subject }).from(emailOutbox).where(and(eq(emailOutbox.kind, "decision"), eq(emailOutbox.batchId, b!.id)));
@@ -152,7 +152,7 @@ describe("e-mails go to the right people, with user-typed text escaped", () => {
   it("the digest reaches the active leads only, with batch titles escaped", async () => {
     await uploadChecked("provider@fennick.test", { study: STUDY, label: LABEL, file: new File([csv], "waiting.csv", { type: "text/csv" }) });
     const lead = await userId("lead@lowmoor.test");
-    const sent = await sendDigest(getDb(), { actorId: lead, reason: "now" });
+    const sent = await sendDigest({ actorId: lead, reason: "now" });
     expect(sent.ok, JSON.stringify(sent)).toBe(true);
     const mails = await getDb().select({ to: emailOutbox.toAddress, html: emailOutbox.htmlBody }).from(emailOutbox).where(eq(emailOutbox.kind, "digest"));
     const leads = (await getDb().select({ email: users.email }).from(users).where(and(eq(users.role, "lead"), eq(users.active, true)))).map((l) => l.email).sort();

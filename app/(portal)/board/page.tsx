@@ -9,12 +9,11 @@ import { IntakeFlow } from "@/components/board/intake-flow";
 import { PoolHeadroom } from "@/components/board/pool-headroom";
 import { ProviderChart } from "@/components/board/provider-chart";
 import { TurnaroundChart } from "@/components/board/turnaround-chart";
-import { getDb } from "@/db/client";
 import { BATCH_STATES, type BatchState } from "@/db/schema";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatDate } from "@/lib/format";
-import { getBoard } from "@/lib/pool/queries-board";
+import { loadBoard } from "@/lib/pool";
 
 export const metadata = { title: "Status board" };
 export const dynamic = "force-dynamic";
@@ -24,7 +23,7 @@ const WEEKS = 12;
 export default async function BoardPage() {
   const user = await requireUser();
   if (!can(user.role, "board.read")) notFound();
-  const board = await getBoard(getDb(), new Date(), WEEKS);
+  const board = await loadBoard(WEEKS);
 
   const studies = [...new Map(board.pools.map((p) => [p.studySlug, p.studyTitle]))];
   const countsOf = (slug: string) => {

@@ -1,12 +1,10 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader, Section, EmptyState } from "@/components/ui";
-import { getDb } from "@/db/client";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { formatCount } from "@/lib/format";
-import { listPoolStudiesForUser } from "@/lib/pool/queries";
-import { getStudyPool } from "@/lib/pool/pool";
+import { listPoolStudiesForUser, loadPool } from "@/lib/pool";
 
 export const metadata = { title: "Pools" };
 
@@ -14,7 +12,7 @@ export default async function PoolsPage() {
   const user = await requireUser();
   if (!can(user.role, "pool.read")) notFound();
   const studies = (await listPoolStudiesForUser(user)).filter((s) => s.currentPlanVersion != null);
-  const pools = await Promise.all(studies.map((s) => getStudyPool(getDb(), s)));
+  const pools = await Promise.all(studies.map((s) => loadPool(s)));
   return (
     <>
       <PageHeader eyebrow="Pools" title="Accepted data by study" description="Each study's accepted batch versions combined, and whether they can carry the planned model yet." />

@@ -1,7 +1,5 @@
 "use client";
 
-import { SegmentError } from "@/components/portal/segment-states";
+import { errorPage } from "@/components/portal/segment-states";
 
-export default function ErrorPage({ error, reset }: { error: Error & { digest?: string }; reset: () => void }) {
-  return <SegmentError error={error} reset={reset} what="Your settings" />;
-}
+export default errorPage("Your settings");

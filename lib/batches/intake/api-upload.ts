@@ -11,12 +11,12 @@ import { getDb } from "@/db/client";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import type { SessionUser } from "@/lib/auth/session";
-import { isDbUnavailable } from "@/db/errors";
 import { utapi } from "@/lib/batches/intake/file-store";
 import { batchFileProblem, cleanFileName } from "./file-rules";
 import type { ReceivedFile } from "./multipart-upload";
-import { DB_DOWN_MESSAGE, STORE_DOWN_MESSAGE } from "./upload-errors";
-import { authoriseUpload, recordBatchVersion } from "../commands-upload";
+import { STORE_DOWN_MESSAGE } from "./upload-errors";
+import { authoriseUpload } from "../commands-upload";
+import { recordStoredFile } from "./record-stored-file";
 import { studyIdBySlug } from "./upload-router";
 
 
@@ -62,25 +62,9 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   if (stored.error || !stored.data) {
     throw new AppError("unavailable", STORE_DOWN_MESSAGE, { cause: stored.error });
   }
-  const key = stored.data.key;
-  const forget = () => utapi().deleteFiles([key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
-  let recorded: Awaited<ReturnType<typeof recordBatchVersion>>;
-  try {
-    recorded = await recordBatchVersion(
-      db,
-      actor.id,
-      { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
-      { key, url: stored.data.ufsUrl, name, size: input.file.size, hash: input.file.hash },
-    );
-  } catch (error) {
-    // the version, its job and its audit rows are one transaction: none of them was written
-    await forget();
-    if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
-    throw error;
-  }
-  if (!recorded.ok) {
-    await forget();
-    throw new AppError(recorded.code ?? "forbidden", recorded.message);
-  }
-  return recorded.data;
+  return recordStoredFile(
+    actor.id,
+    { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
+    { key: stored.data.key, url: stored.data.ufsUrl, name, size: input.file.size, hash: input.file.hash },
+  );
 }

@@ -6,6 +6,7 @@
 import { createUploadthing, type FileRouter } from "uploadthing/server";
 import { UploadThingError } from "uploadthing/server";
 import { z } from "zod";
+import { rawSetting } from "@/lib/env";
 
 /** What the client sends with a batch upload. */
 export const batchUploadInput = z.object({
@@ -46,7 +47,7 @@ export type FileRouterHooks<M extends BatchUploadMeta> = {
 export const BATCH_FILE_TYPES = ["text/csv", "text/tab-separated-values", "text/plain", "application/vnd.ms-excel"] as const;
 
 function maxSize(mb: number | undefined): `${number}MB` {
-  const n = mb ?? Number(process.env.MAX_UPLOAD_MB ?? 200);
+  const n = mb ?? Number(rawSetting("MAX_UPLOAD_MB") ?? 200);
   if (!Number.isFinite(n) || n <= 0) throw new Error("MAX_UPLOAD_MB must be a positive number.");
   return `${Math.floor(n)}MB`;
 }

@@ -54,7 +54,7 @@ export function utapi(): UTApi {
     token: e.UPLOADTHING_TOKEN,
     apiUrl: e.UPLOADTHING_API_URL,
     ingestUrl: e.UPLOADTHING_INGEST_URL,
-    ufsHost: process.env.UPLOADTHING_UFS_HOST,
+    ufsHost: e.UPLOADTHING_UFS_HOST,
   });
   return cached;
 }

@@ -10,11 +10,9 @@ import { getCurrentUser } from "@/lib/auth/session";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import { makeFileRouter } from "@/lib/batches/intake/file-router";
-import { utapi } from "@/lib/batches/intake/file-store";
-import { isDbUnavailable } from "@/db/errors";
 import { batchFileProblem } from "./file-rules";
-import { DB_DOWN_MESSAGE } from "./upload-errors";
-import { authoriseUpload, recordBatchVersion } from "../commands-upload";
+import { authoriseUpload } from "../commands-upload";
+import { recordStoredFile } from "./record-stored-file";
 
 export async function studyIdBySlug(slug: string): Promise<number | null> {
   const [s] = await getDb().select({ id: studies.id }).from(studies).where(eq(studies.slug, slug));
@@ -37,27 +35,11 @@ export const batchFileRouter = makeFileRouter({
     return { userId: user.id, studyId, batchId: input.batchId ?? null, label: input.label ?? null };
   },
   async onComplete(meta, file) {
-    const forget = () => utapi().deleteFiles([file.key]).catch((e) => console.error("could not delete an upload that was not recorded", e));
-    let recorded: Awaited<ReturnType<typeof recordBatchVersion>>;
-    try {
-      // recordBatchVersion cleans the file name (file-rules.ts cleanFileName)
-      recorded = await recordBatchVersion(
-        getDb(),
-        meta.userId,
-        { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
-        { key: file.key, url: file.ufsUrl, name: file.name, size: file.size, hash: file.fileHash },
-      );
-    } catch (error) {
-      // the version, its job and its audit rows are one transaction: none was written
-      await forget();
-      if (isDbUnavailable(error)) throw new AppError("unavailable", DB_DOWN_MESSAGE, { cause: error });
-      throw error;
-    }
-    if (!recorded.ok) {
-      // refused between the start and the end of the upload (e.g. the study closed): keep nothing
-      await forget();
-      throw new AppError(recorded.code ?? "forbidden", recorded.message);
-    }
-    return { batchId: recorded.data.batchPublicId, version: recorded.data.version };
+    const recorded = await recordStoredFile(
+      meta.userId,
+      { studyId: meta.studyId, batchPublicId: meta.batchId, title: meta.label },
+      { key: file.key, url: file.ufsUrl, name: file.name, size: file.size, hash: file.fileHash },
+    );
+    return { batchId: recorded.batchPublicId, version: recorded.version };
   },
 });

@@ -52,7 +52,7 @@ export async function drainQueue() {
 export async function uploadAndCheck(email: string, slug: string, csv: string, opts: { batchPublicId?: string; name?: string } = {}) {
   const db = getDb();
   await drainQueue();
-  const r = await recordBatchVersion(db, await userId(email), { studyId: await studyId(slug), batchPublicId: opts.batchPublicId ?? null }, storeInMemory(csv, opts.name));
+  const r = await recordBatchVersion(await userId(email), { studyId: await studyId(slug), batchPublicId: opts.batchPublicId ?? null }, storeInMemory(csv, opts.name));
   if (!r.ok) throw new Error(r.message);
   const job = await claimJob(db, "test-worker");
   if (!job || job.batchVersionId !== r.data.batchVersionId) throw new Error("the new version's job was not claimed");

@@ -59,13 +59,13 @@ async function realBatch(provider: WorldUser, studyId: number, csv: string, acce
   const stored = await utapi().uploadFiles(new UTFile([csv], name, { type: "text/csv" }), { acl: "private", contentDisposition: "attachment" });
   if (stored.error || !stored.data) throw new Error(`file fake refused the file: ${stored.error?.message}`);
   await drainQueue();
-  const r = await recordBatchVersion(db, provider.id, { studyId, batchPublicId: null, title: name }, { key: stored.data.key, url: stored.data.ufsUrl, name, size: csv.length });
+  const r = await recordBatchVersion(provider.id, { studyId, batchPublicId: null, title: name }, { key: stored.data.key, url: stored.data.ufsUrl, name, size: csv.length });
   if (!r.ok) throw new Error(r.message);
   const job = await claimJob(db, "security-walk");
   if (job?.batchVersionId !== r.data.batchVersionId) throw new Error("the new version's check was not claimed");
   await runJob({ db, openFile: (k) => openStoredFile(k) }, job);
   if (accept) {
-    const d = await decideVersion(db, accept.id, r.data.batchPublicId, r.data.version, { decision: "accept" });
+    const d = await decideVersion(accept.id, r.data.batchPublicId, r.data.version, { decision: "accept" });
     if (!d.ok) throw new Error(d.message);
   }
   return { publicId: r.data.batchPublicId, version: r.data.version };

@@ -1,7 +1,6 @@
 "use server";
 
 import { revalidatePath } from "next/cache";
-import { getDb } from "@/db/client";
 import { getCurrentUser } from "@/lib/auth/session";
 import { fail, type Result } from "@/lib/result";
 import { decideVersion, type DecisionDone, type DecisionInput } from "@/lib/batches/commands-decide";
@@ -10,7 +9,7 @@ import { decideVersion, type DecisionDone, type DecisionInput } from "@/lib/batc
 export async function decideAction(batchId: string, version: number, input: DecisionInput): Promise<Result<DecisionDone>> {
   const actor = await getCurrentUser();
   if (!actor) return fail("Your session has ended. Sign in again.", undefined, "unauthenticated");
-  const r = await decideVersion(getDb(), actor.id, batchId, version, input);
+  const r = await decideVersion(actor.id, batchId, version, input);
   revalidatePath(`/batches/${batchId}`);
   return r;
 }

@@ -4,7 +4,7 @@ import { parseJsonBody } from "@/lib/http/parse";
 import { jsonData, resultResponse } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
 import { createApiToken, listApiTokens } from "@/lib/people/commands-tokens";
-import { createApiTokenSchema } from "@/lib/people/schemas-tokens";
+import { createApiTokenSchema } from "@/lib/people/schemas";
 
 export const GET = apiRoute({ action: "token.manage" }, async ({ actor }) => jsonData(await listApiTokens(actor.id)));
 

@@ -1,17 +1,13 @@
 // GET /api/v1/studies/:id — one study (by id or slug) with its current data plan; 404 outside the caller's scope.
-import { z } from "zod";
 import { apiRoute } from "@/lib/http/route";
 import { parseParams } from "@/lib/http/parse";
+import { studyParams } from "@/lib/http/params";
 import { jsonData } from "@/lib/http/respond";
 import { getStudyForUser } from "@/lib/studies/queries-detail";
 import { AppError } from "@/lib/errors";
 
-const paramsSchema = z.object({
-  id: z.string().regex(/^[a-z0-9][a-z0-9-]{0,99}$/i, "A study is addressed by its number or its slug (letters, digits, dashes)."),
-});
-
 export const GET = apiRoute<{ id: string }>({ action: "study.read" }, async ({ actor, params }) => {
-  const { id } = parseParams(params, paramsSchema);
+  const { id } = parseParams(params, studyParams);
   const study = await getStudyForUser(actor, id);
   if (!study) throw new AppError("not_found", "No study with this id is visible to you.");
   return jsonData(study);

@@ -1,18 +1,17 @@
 // GET /api/v1/batches/:publicId/versions/:n/file — the original file as uploaded, streamed after the same scope check as the report; 404 outside it.
-import { z } from "zod";
 import { apiRoute } from "@/lib/http/route";
 import { parseParams } from "@/lib/http/parse";
+import { batchVersionParams } from "@/lib/http/params";
 import { getVersionFileKeyForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
 import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
 import { openStoredFile, StoredFileMissingError } from "@/lib/batches/intake/file-store";
 
-const paramsSchema = z.object({ id: z.string().min(1).max(64), version: z.coerce.number().int().positive("version is a whole number from 1.") });
 
 const TYPES: Record<string, string> = { csv: "text/csv", tsv: "text/tab-separated-values", txt: "text/plain" };
 
 export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
-  const { id, version } = parseParams(params, paramsSchema);
+  const { id, version } = parseParams(params, batchVersionParams);
   const got = await getVersionFileKeyForUser(actor, id, version);
   if (!got) throw new AppError("not_found", "No batch version with this id is visible to you.");
   const { found, fileKey } = got;

@@ -1,15 +1,14 @@
 // GET /api/v1/batches/:publicId/versions/:n/report — the version's readiness report (the engine's JSON format), or its progress while checking.
-import { z } from "zod";
 import { apiRoute } from "@/lib/http/route";
 import { parseParams } from "@/lib/http/parse";
+import { batchVersionParams } from "@/lib/http/params";
 import { jsonData } from "@/lib/http/respond";
 import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
 
-const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });
 
 export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
-  const { id, version } = parseParams(params, paramsSchema);
+  const { id, version } = parseParams(params, batchVersionParams);
   const found = await getVersionReportForUser(actor, id, version);
   if (!found) throw new AppError("not_found", "No batch version with this id is visible to you.");
   const v = found.version;

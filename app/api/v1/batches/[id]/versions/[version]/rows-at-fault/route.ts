@@ -1,17 +1,16 @@
 // GET /api/v1/batches/:publicId/versions/:n/rows-at-fault — the original rows that carry findings, with their codes and messages, as formula-safe CSV.
-import { z } from "zod";
 import { apiRoute } from "@/lib/http/route";
 import { parseParams } from "@/lib/http/parse";
+import { batchVersionParams } from "@/lib/http/params";
 import { getVersionFileKeyForUser } from "@/lib/batches/queries-reports";
 import { AppError } from "@/lib/errors";
-import { attachmentDisposition } from "@/lib/batches/intake/file-rules";
+import { csvResponse } from "@/lib/http/respond";
 import { rowsAtFaultCsv } from "@/lib/batches/intake/rows-at-fault";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
 
-const paramsSchema = z.object({ id: z.string(), version: z.coerce.number().int().positive("version is a whole number from 1.") });
 
 export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.read" }, async ({ actor, params }) => {
-  const { id, version } = parseParams(params, paramsSchema);
+  const { id, version } = parseParams(params, batchVersionParams);
   const got = await getVersionFileKeyForUser(actor, id, version);
   if (!got) throw new AppError("not_found", "No batch version with this id is visible to you.");
   const { found, fileKey } = got;
@@ -19,12 +18,5 @@ export const GET = apiRoute<{ id: string; version: string }>({ action: "batch.re
   if (found.report.status === "unreadable") throw new AppError("conflict", "This file could not be read, so it has no rows to list; see the report's finding for what to fix.");
   const body = rowsAtFaultCsv({ fileKey, plan: found.plan.plan, report: found.report, openFile: (k) => openStoredFile(k) });
   const base = found.version.fileName.replace(/\.[^.]+$/, "") || "batch";
-  return new Response(body, {
-    headers: {
-      "content-type": "text/csv; charset=utf-8",
-      "content-disposition": attachmentDisposition(`${base}-v${found.version.version}-rows-at-fault.csv`),
-      "cache-control": "no-store",
-      "x-content-type-options": "nosniff",
-    },
-  });
+  return csvResponse(body, `${base}-v${found.version.version}-rows-at-fault.csv`);
 });

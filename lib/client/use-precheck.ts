@@ -1,7 +1,7 @@
 "use client";
 /** Runs the readiness engine on a chosen file in a Web Worker, with progress. */
 import { useCallback, useEffect, useRef, useState } from "react";
-import type { PrecheckMessage } from "@/lib/batches/intake/precheck.worker";
+import type { PrecheckMessage } from "./precheck.worker";
 
 export type PrecheckState =
   | { phase: "idle" }
@@ -23,7 +23,7 @@ export function usePrecheck() {
   const run = useCallback(
     (file: File, plan: unknown) => {
       stop();
-      const w = new Worker(new URL("../../lib/batches/intake/precheck.worker.ts", import.meta.url), { type: "module" });
+      const w = new Worker(new URL("./precheck.worker.ts", import.meta.url), { type: "module" });
       worker.current = w;
       setState({ phase: "running", rows: 0, bytes: 0, total: file.size });
       w.onmessage = (e: MessageEvent<PrecheckMessage>) => {
