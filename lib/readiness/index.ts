@@ -13,3 +13,4 @@ export { FINDING_CODES, isFindingCode, type FindingCode } from "./codes";
 export type { ByteInput } from "./csv-reader";
 export { rowsAtFault, ROW_FAULT_CODES, type Fault, type FaultLine, type RowsAtFaultOptions } from "./faults";
 export { UnreadableError } from "./decode";
+export * from "./fixes";
