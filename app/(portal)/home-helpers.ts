@@ -2,7 +2,8 @@ import "server-only";
 import { redirect } from "next/navigation";
 import type { UserRole } from "@/db/schema";
 import { requireUser, type SessionUser } from "@/lib/auth/session";
-import type { BatchSummary } from "@/lib/batches/queries";
+import type { BatchSummary, StateCounts } from "@/lib/batches";
+import type { StudySummary } from "@/lib/studies";
 import type { BatchRow } from "@/components/home/batch-table";
 import { ROLE_HOME } from "@/components/portal/nav";
 
@@ -27,4 +28,17 @@ export function toBatchRows(list: BatchSummary[]): BatchRow[] {
     uploadedAt: b.uploadedAt,
     stateChangedAt: b.stateChangedAt,
   }));
+}
+
+/** The columns every home page's study table shows. */
+export function toStudyRow(s: StudySummary & { batchesByState: StateCounts }) {
+  return {
+    id: s.id,
+    title: s.title,
+    slug: s.slug,
+    team: s.teamOrganisationName,
+    status: s.status,
+    planVersion: s.currentPlanVersion,
+    counts: s.batchesByState,
+  };
 }

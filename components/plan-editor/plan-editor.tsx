@@ -13,7 +13,7 @@ import { modelSize } from "@/lib/studies/model-size";
 import { ColumnRow } from "./column-row";
 import { DraftFromFile } from "./draft-from-file";
 import { draftFromPlan, emptyColumn, errorsByRow, planFromDraft, type ColumnDraft, type PlanDraft } from "./form-state";
-import { InteractionsField } from "./interactions-field";
+import { ModelFields } from "./model-fields";
 import { ModelSummary } from "./model-summary";
 import { ThresholdsFields } from "./thresholds-fields";
 import { TokenList } from "./token-list";
@@ -131,40 +131,7 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
         </Section>
 
         <Section id="model" title="The model">
-          <div className="flex flex-col gap-4">
-            <label className="flex items-center gap-2 text-base">
-              <input type="checkbox" checked={draft.intercept} onChange={(e) => update({ intercept: e.target.checked })} className="size-4 accent-channel" />
-              The model has an intercept
-            </label>
-            <InteractionsField predictors={predictors} value={draft.interactions} errors={errors} onChange={(interactions) => update({ interactions })} />
-            <div className="flex flex-wrap gap-4">
-              <Field id="anticipatedR2" label="Anticipated R²" hint="Adjusted R² expected (Riley et al. 2019), between 0 and 1." errors={errors.anticipatedR2} className="w-56">
-                <Input value={draft.anticipatedR2} onChange={(e) => update({ anticipatedR2: e.target.value })} inputMode="decimal" className="h-8 text-sm tabular" placeholder="none" />
-              </Field>
-              <Field id="outcome-mean" label="Outcome mean" hint="The response's anticipated mean." errors={errors["outcome.mean"] ?? errors.outcome} className="w-44">
-                <Input value={draft.outcomeMean} onChange={(e) => update({ outcomeMean: e.target.value })} inputMode="decimal" className="h-8 text-sm tabular" placeholder="none" />
-              </Field>
-              <Field id="outcome-sd" label="Outcome SD" hint="Its anticipated standard deviation." errors={errors["outcome.sd"]} className="w-44">
-                <Input value={draft.outcomeSd} onChange={(e) => update({ outcomeSd: e.target.value })} inputMode="decimal" className="h-8 text-sm tabular" placeholder="none" />
-              </Field>
-            </div>
-            <div className="flex flex-wrap items-start gap-4">
-              <label className="flex items-center gap-2 pt-6 text-base">
-                <input
-                  type="checkbox"
-                  checked={draft.selectionPlanned}
-                  onChange={(e) => update({ selectionPlanned: e.target.checked })}
-                  className="size-4 accent-channel"
-                />
-                Variable selection is planned
-              </label>
-              {draft.selectionPlanned ? (
-                <Field id="selection-candidates" label="Candidate parameters" hint={`All candidate columns before selection (this plan's model has ${size.p}).`} errors={errors["selection.candidates"] ?? errors.selection} className="w-56">
-                  <Input value={draft.selectionCandidates} onChange={(e) => update({ selectionCandidates: e.target.value })} inputMode="numeric" className="h-8 text-sm tabular" placeholder={String(size.p)} />
-                </Field>
-              ) : null}
-            </div>
-          </div>
+          <ModelFields draft={draft} errors={errors} predictors={predictors} parameters={size.p} update={update} />
         </Section>
 
         <Section id="missing" title="Missing-value tokens for the whole file" note="Cells equal to one of these count as missing in every column.">

@@ -1,9 +1,11 @@
 "use client";
-/** The report's tables: findings, columns, coefficients and collinearity by term. */
+/** The report's tables: findings and columns (the model's tables are model-tables.tsx). */
 import { DataTable, type Column } from "@/components/data-table";
 import { SeverityBadge } from "@/components/severity-badge";
 import { formatCount, formatDecimal } from "@/lib/format";
-import type { ColumnReport, Coefficient, Finding } from "@/lib/readiness/report";
+import type { ColumnReport, Finding } from "@/lib/readiness/report";
+
+export { CoefficientsTable, CollinearityTable } from "./model-tables";
 
 const SEVERITY_ORDER = { blocker: 0, warning: 1, note: 2 } as const;
 
@@ -94,44 +96,4 @@ export function LevelBars({ levels, sparse = 10 }: { levels: { level: string; co
       {levels.length > shown.length ? <li className="text-silt-ink">… and {levels.length - shown.length} more levels</li> : null}
     </ul>
   );
-}
-
-type CoefRow = Coefficient & { id: string };
-
-export function CoefficientsTable({ coefficients, csvName }: { coefficients: Coefficient[]; csvName?: string }) {
-  const rows: CoefRow[] = coefficients.map((c) => ({ ...c, id: c.term }));
-  const num = (v: number | null, d = 4) => (v === null ? "–" : Math.abs(v) >= 1e5 || (v !== 0 && Math.abs(v) < 1e-3) ? v.toExponential(3) : formatDecimal(v, d));
-  const columns: Column<CoefRow>[] = [
-    { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (c) => c.term, render: (c) => <span className="font-mono text-xs">{c.term}{c.aliased ? " (aliased)" : ""}</span> },
-    { key: "estimate", header: "Estimate", numeric: true, value: (c) => c.estimate, render: (c) => num(c.estimate) },
-    { key: "se", header: "Std. error", numeric: true, value: (c) => c.stdError, render: (c) => num(c.stdError) },
-    { key: "t", header: "t", numeric: true, value: (c) => c.t, render: (c) => num(c.t, 2) },
-    { key: "p", header: "p", numeric: true, value: (c) => c.pValue, render: (c) => (c.pValue === null ? "–" : c.pValue < 1e-4 ? c.pValue.toExponential(1) : formatDecimal(c.pValue, 4)) },
-  ];
-  return <DataTable rows={rows} columns={columns} caption="Coefficients" csvName={csvName} filterPlaceholder="Filter terms" />;
-}
-
-type TermRow = { id: string; term: string; df: number; vif?: number; gvif: number; gvifScaled: number };
-
-export function CollinearityTable({ terms, vifWarning, vifStrong, csvName }: { terms: Omit<TermRow, "id">[]; vifWarning: number; vifStrong: number; csvName?: string }) {
-  const rows: TermRow[] = terms.map((t) => ({ ...t, id: t.term }));
-  const flag = (scaled: number) => (scaled * scaled >= vifStrong ? "strong" : scaled * scaled >= vifWarning ? "warning" : "");
-  const columns: Column<TermRow>[] = [
-    { key: "term", header: "Term", width: "minmax(10rem, 2fr)", value: (t) => t.term, render: (t) => <span className="font-mono text-xs">{t.term}</span> },
-    { key: "df", header: "df", numeric: true, width: "4rem", value: (t) => t.df },
-    { key: "vif", header: "VIF", numeric: true, value: (t) => t.vif ?? null, render: (t) => (t.vif === undefined ? "–" : formatDecimal(t.vif, 2)) },
-    { key: "gvif", header: "GVIF", numeric: true, value: (t) => t.gvif, render: (t) => formatDecimal(t.gvif, 2) },
-    { key: "gvifScaled", header: "GVIF^(1/(2·df))", numeric: true, value: (t) => t.gvifScaled, render: (t) => formatDecimal(t.gvifScaled, 3) },
-    {
-      key: "flag",
-      header: "Reading",
-      width: "9rem",
-      value: (t) => flag(t.gvifScaled),
-      render: (t) => {
-        const f = flag(t.gvifScaled);
-        return f === "strong" ? <SeverityBadge severity="warning" /> : f === "warning" ? <span className="text-ochre-ink">◇ above {vifWarning}</span> : <span className="text-silt-ink">—</span>;
-      },
-    },
-  ];
-  return <DataTable rows={rows} columns={columns} caption="Collinearity by term" csvName={csvName} filterPlaceholder="Filter terms" />;
 }

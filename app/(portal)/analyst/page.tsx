@@ -5,7 +5,7 @@ import { EmptyState } from "@/components/ui/empty-state";
 import { KeyFigures } from "@/components/key-figures";
 import { StudyTable } from "@/components/home/study-table";
 import { BatchTable } from "@/components/home/batch-table";
-import { requireRole, toBatchRows } from "../home-helpers";
+import { requireRole, toBatchRows, toStudyRow } from "../home-helpers";
 
 export const metadata = { title: "Home" };
 
@@ -43,15 +43,7 @@ export default async function AnalystHome() {
           <StudyTable
             variant="analyst"
             caption="Assigned studies"
-            rows={home.studies.map((s) => ({
-              id: s.id,
-              title: s.title,
-              slug: s.slug,
-              team: s.teamOrganisationName,
-              status: s.status,
-              planVersion: s.currentPlanVersion,
-              counts: s.batchesByState,
-            }))}
+            rows={home.studies.map(toStudyRow)}
           />
         ) : (
           <EmptyState title="No studies assigned">A study lead or an administrator assigns analysts to studies.</EmptyState>

@@ -6,7 +6,7 @@ import { Section } from "@/components/ui/section";
 import { EmptyState } from "@/components/ui/empty-state";
 import { StateLedger } from "@/components/state-ledger";
 import { StudyTable } from "@/components/home/study-table";
-import { requireRole } from "../home-helpers";
+import { requireRole, toStudyRow } from "../home-helpers";
 
 export const metadata = { title: "Home" };
 
@@ -43,13 +43,7 @@ export default async function LeadHome() {
             variant="lead"
             caption="Studies"
             rows={home.studies.map((s) => ({
-              id: s.id,
-              title: s.title,
-              slug: s.slug,
-              team: s.teamOrganisationName,
-              status: s.status,
-              planVersion: s.currentPlanVersion,
-              counts: s.batchesByState,
+              ...toStudyRow(s),
               providersAdmitted: s.providersAdmitted,
               providers: providersOf.get(s.id) ?? [],
             }))}

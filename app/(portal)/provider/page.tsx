@@ -5,7 +5,7 @@ import { EmptyState } from "@/components/ui/empty-state";
 import { StateLedger } from "@/components/state-ledger";
 import { StudyTable } from "@/components/home/study-table";
 import { BatchTable } from "@/components/home/batch-table";
-import { requireRole, toBatchRows } from "../home-helpers";
+import { requireRole, toBatchRows, toStudyRow } from "../home-helpers";
 
 export const metadata = { title: "Home" };
 
@@ -33,15 +33,7 @@ export default async function ProviderHome() {
           <StudyTable
             variant="provider"
             caption="Studies you are admitted to"
-            rows={home.studies.map((s) => ({
-              id: s.id,
-              title: s.title,
-              slug: s.slug,
-              team: s.teamOrganisationName,
-              status: s.status,
-              planVersion: s.currentPlanVersion,
-              counts: s.batchesByState,
-            }))}
+            rows={home.studies.map(toStudyRow)}
           />
         ) : (
           <EmptyState title="Not admitted to any study yet">
