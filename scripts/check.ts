@@ -2,13 +2,15 @@
  * Command line: check a batch file against a data plan before uploading it.
  *   npm run check -- FILE --plan PLAN.json [--json]
  *   npm run check -- FILE --draft-plan
+ *   npm run check -- FILE --plan PLAN.json --apply-fixes OUT.csv [--only CODE,…]
  * Exit code: 0 no blockers, 1 blockers, 2 unreadable file or bad usage.
  */
 import { createReadStream, readFileSync, statSync } from "node:fs";
 import { draftPlan, parsePlan, type ReadinessReport } from "../lib/readiness";
 import { checkFile, isRangeWorker, runRangeWorker } from "../lib/readiness/node";
+import { applyFixesToFile } from "../lib/readiness/fixes/node";
 
-const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json] [--workers N]
+const USAGE = `usage: npm run check -- FILE --plan PLAN.json [--json] [--workers N] [--apply-fixes OUT.csv [--only CODE,…]]
        npm run check -- FILE --draft-plan [--response COLUMN]`;
 
 function fail(msg: string): never {
@@ -17,12 +19,14 @@ function fail(msg: string): never {
 }
 
 function parseArgs(argv: string[]) {
-  const out: { file?: string; plan?: string; json: boolean; draft: boolean; response?: string; workers?: number } = { json: false, draft: false };
+  const out: { file?: string; plan?: string; json: boolean; draft: boolean; response?: string; workers?: number; applyFixes?: string; only?: string[] } = { json: false, draft: false };
   for (let i = 0; i < argv.length; i++) {
     const a = argv[i]!;
     if (a === "--json") out.json = true;
     else if (a === "--draft-plan") out.draft = true;
     else if (a === "--plan") out.plan = argv[++i] ?? fail("--plan needs a file name");
+    else if (a === "--apply-fixes") out.applyFixes = argv[++i] ?? fail("--apply-fixes needs the name of the corrected file to write");
+    else if (a === "--only") out.only = (argv[++i] ?? fail("--only needs proposal codes, e.g. level.variant,number.decimal-comma")).split(",").map((x) => x.trim()).filter(Boolean);
     else if (a === "--response") out.response = argv[++i] ?? fail("--response needs a column name");
     else if (a === "--workers") {
       const n = Number(argv[++i]);
@@ -123,6 +127,20 @@ async function main() {
   if (args.json) process.stdout.write(`${JSON.stringify(report)}\n`);
   else process.stdout.write(`${summary(report, args.file)}\n`);
   process.exitCode = report.status === "unreadable" ? 2 : report.counts.blocker > 0 ? 1 : 0;
+  if (args.only && !args.applyFixes) fail("--only goes with --apply-fixes OUT.csv");
+  if (args.applyFixes && report.status === "checked") {
+    try {
+      const done = await applyFixesToFile(args.file, args.applyFixes, parsed.plan, report, args.only);
+      const used = done.chosen.map((p) => `${p.id} (${p.cells.toLocaleString("en")} cell${p.cells === 1 ? "" : "s"})`);
+      process.stderr.write(
+        `${done.chosen.length ? `applied ${used.join(", ")}` : "no fix proposal applies to this file"}: wrote ${args.applyFixes} ` +
+          `(${done.changes.length.toLocaleString("en")} cell${done.changes.length === 1 ? "" : "s"} changed) and the change log ${done.logPath}; ${args.file} is untouched. Check the corrected file before sending it.\n`,
+      );
+    } catch (e) {
+      process.stderr.write(`${(e as Error).message}\n`);
+      process.exitCode = 2;
+    }
+  }
 }
 
 if (isRangeWorker()) {

@@ -10,6 +10,7 @@
 import os from "node:os";
 import type { Db } from "@/db/client";
 import { checkStream } from "@/lib/readiness/node-stream";
+import { withProposals } from "@/lib/readiness";
 import { parsePlan } from "@/lib/readiness/plan";
 import type { ReadinessReport } from "@/lib/readiness/report";
 import { sleep } from "@/lib/sleep";
@@ -172,6 +173,16 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
           beat();
         },
       });
+      if (report.status === "checked") {
+        // the fix proposals read the file once more (REPORT-FORMAT.md "proposals"); without them the report still stands
+        try {
+          const again = abortable(await within(openFile(job.fileKey), stallMs, "The upload service did not answer."), stopJob.signal, stallMs);
+          report = await withProposals(report, again, parsed.plan);
+        } catch (e) {
+          if (stopJob.signal.aborted) throw e;
+          log(`check job ${job.jobId}: the fix proposals could not be computed (${e instanceof Error ? e.message : String(e)}); the report is stored without them`);
+        }
+      }
     } catch (error) {
       await finish();
       if (stopJob.signal.aborted) {
