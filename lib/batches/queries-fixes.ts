@@ -14,6 +14,8 @@ export type VersionFixView = {
   changeCount: number;
   approvedBy: string;
   at: Date;
+  /** the first changed cells (the CSV route has them all) */
+  preview: FixChange[];
 };
 
 async function fixRow(
@@ -49,11 +51,19 @@ export async function getVersionFixForUser(
   versionNo: number,
   loaded?: BatchDetail,
 ): Promise<VersionFixView | null | undefined> {
-  const got = await fixRow(user, publicId, versionNo, loaded);
+  const got = await fixRow(user, publicId, versionNo, loaded, true);
   if (!got) return undefined;
   if (!got.row) return null;
   const { fromVersion, proposals, changeCount, approvedBy, at } = got.row;
-  return { fromVersion, proposals: proposals as AppliedProposal[], changeCount, approvedBy, at };
+  const changes = ((got.row as { changes?: unknown }).changes ?? []) as FixChange[];
+  return {
+    fromVersion,
+    proposals: proposals as AppliedProposal[],
+    changeCount,
+    approvedBy,
+    at,
+    preview: changes.slice(0, 50),
+  };
 }
 
 /** The change log of a visible machine-corrected version (null: none; undefined: not visible). */
