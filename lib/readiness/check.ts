@@ -4,17 +4,16 @@
 import { analyse, type Summary } from "./analyse";
 import { readCsv, type ByteInput, type CsvLimits } from "./csv-reader";
 import { UnreadableError } from "./decode";
-import { buildDesign, predictorsOf } from "./design";
-import { countFindings, finding, sortFindings } from "./findings";
+import { finding, sortFindings } from "./findings";
 import type { Evidence } from "./findings-data";
 import { rowFindings } from "./findings-rows";
 import { thresholdsOf, type Plan } from "./plan";
-import { REPORT_FORMAT, type ReadinessReport } from "./report";
+import type { ReadinessReport } from "./report";
+import { ENGINE_VERSION, buildReport } from "./report-build";
 import { Scan } from "./scan";
 import { stateOf } from "./state";
 
-/** Version of the engine's checks; part of every report and state. */
-export const ENGINE_VERSION = "1.1.0";
+export { ENGINE_VERSION };
 
 export interface CheckOptions {
   onProgress?: (p: { rows: number; bytes: number }) => void;
@@ -50,31 +49,10 @@ export async function hashPlan(plan: Plan): Promise<string> {
 
 export const now = () => (typeof performance !== "undefined" ? performance.now() : Date.now());
 
-function emptyModel(plan: Plan): ReadinessReport["model"] {
-  const t = thresholdsOf(plan);
-  const d = buildDesign(plan, predictorsOf(plan));
-  return { parameters: d.columns.length - (plan.intercept ? 1 : 0), residualDf: 0, perParameter: null, terms: d.terms, dfTarget: t.dfTarget ?? t.dfFloor };
-}
-
 /** The report of a file that cannot be read: status "unreadable" and one blocker saying why. */
 export function unreadableReport(plan: Plan, planHash: string, e: UnreadableError, bytes: number | null, ms: number): ReadinessReport {
   const findings = [finding("file.unreadable", "blocker", [], e.message, e.fix, { detail: e.detail })];
-  return {
-    format: REPORT_FORMAT,
-    status: "unreadable",
-    engineVersion: ENGINE_VERSION,
-    planHash,
-    ...(bytes !== null ? { file: { bytes, encoding: "unknown", delimiter: "", decimal: "." as const } } : {}),
-    rows: { total: 0, complete: 0 },
-    model: emptyModel(plan),
-    columns: [],
-    missingness: { patterns: [] },
-    collinearity: null,
-    fit: null,
-    findings,
-    counts: countFindings(findings),
-    timings: { ms },
-  };
+  return buildReport({ status: "unreadable", plan, planHash, findings, ms, file: bytes !== null ? { bytes, encoding: "unknown", delimiter: "", decimal: "." } : undefined });
 }
 
 /**
@@ -126,7 +104,7 @@ export function reportFromScan(scan: Scan, plan: Plan, planHash: string, read: {
   });
 }
 
-/** A "checked" report from an analysis and its findings: the one place the report is put together. */
+/** A "checked" report from an analysis and its findings (batches and pools). */
 export function checkedReport(
   a: Pick<ReadinessReport, "rows" | "model" | "columns" | "missingness" | "collinearity" | "fit" | "sampleSize">,
   findings: ReadinessReport["findings"],
@@ -135,22 +113,5 @@ export function checkedReport(
   ms: number,
   file?: ReadinessReport["file"],
 ): ReadinessReport {
-  return {
-    format: REPORT_FORMAT,
-    status: "checked",
-    engineVersion: ENGINE_VERSION,
-    planHash,
-    ...(file ? { file } : {}),
-    rows: a.rows,
-    model: a.model,
-    columns: a.columns,
-    missingness: a.missingness,
-    collinearity: a.collinearity,
-    fit: a.fit,
-    sampleSize: a.sampleSize,
-    findings,
-    counts: countFindings(findings),
-    state,
-    timings: { ms },
-  };
+  return buildReport({ status: "checked", planHash, analysis: a, findings, state, ms, file });
 }

@@ -5,7 +5,8 @@
  * strings; row numbers come from here only.
  */
 import { UnreadableError, Utf8Check, checkBinary, sniffBytes } from "./decode";
-import { Tokenizer, recordText, type FieldBatch } from "./tokenizer";
+import { recordText, type FieldBatch } from "./fields";
+import { Tokenizer } from "./tokenizer";
 
 export type ByteInput = ReadableStream<Uint8Array> | AsyncIterable<Uint8Array>;
 

@@ -15,7 +15,7 @@ import type { Plan } from "./plan";
 import type { Finding, ReadinessReport } from "./report";
 import { pulled } from "./records";
 import { Scan } from "./scan";
-import { recordText, type FieldBatch } from "./tokenizer";
+import { recordText, type FieldBatch } from "./fields";
 
 /** One thing wrong with a row: the finding's code, the column (null for the whole row), in plain words. */
 export interface Fault {

@@ -90,11 +90,14 @@ export class HashSet64 {
   }
 }
 
-/** Two independent 32-bit string hashes (FNV-1a and a multiplicative one), fed field by field. */
-/** Output of hashFields (two 32-bit halves), reused to avoid an allocation per row. */
-export const HASH = { a: 0, b: 0 };
+/** Two 32-bit hash halves: the output of hashFields / hashByteFields (one per reader, reused per row). */
+export class Hash64 {
+  a = 0;
+  b = 0;
+}
 
-export function hashFields(fields: string[], from = 0, to = fields.length): void {
+/** Two independent 32-bit string hashes (FNV-1a and a multiplicative one) of fields[from, to), into `out`. */
+export function hashFields(out: Hash64, fields: string[], from = 0, to = fields.length): void {
   let a = 0x811c9dc5;
   let b = 0x12345678;
   for (let j = from; j < to; j++) {
@@ -107,15 +110,15 @@ export function hashFields(fields: string[], from = 0, to = fields.length): void
     a = Math.imul(a ^ 0x1f, 0x01000193);
     b = Math.imul(b + 0x1f, 0x5bd1e995) ^ (b >>> 13);
   }
-  HASH.a = a >>> 0;
-  HASH.b = b >>> 0;
+  out.a = a >>> 0;
+  out.b = b >>> 0;
 }
 
 /**
  * hashFields over the UTF-8 bytes of the fields from … to − 1 of a block (the same two hashes
  * as hashFields for ASCII text).
  */
-export function hashByteFields(buf: Uint8Array, starts: Int32Array, ends: Int32Array, from: number, to: number): void {
+export function hashByteFields(out: Hash64, buf: Uint8Array, starts: Int32Array, ends: Int32Array, from: number, to: number): void {
   let h1 = 0x811c9dc5;
   let h2 = 0x12345678;
   for (let f = from; f < to; f++) {
@@ -128,6 +131,6 @@ export function hashByteFields(buf: Uint8Array, starts: Int32Array, ends: Int32A
     h1 = Math.imul(h1 ^ 0x1f, 0x01000193);
     h2 = Math.imul(h2 + 0x1f, 0x5bd1e995) ^ (h2 >>> 13);
   }
-  HASH.a = h1 >>> 0;
-  HASH.b = h2 >>> 0;
+  out.a = h1 >>> 0;
+  out.b = h2 >>> 0;
 }

@@ -43,7 +43,7 @@ type RangeResult = RangeDone | { ok: false; message: string; fix: string; detail
 
 /**
  * Check a file on disk. Files of PARALLEL_MIN_BYTES and more are split into one byte range per
- * worker thread (default: one per core), each read by the same reader; the gatherings are
+ * thread (default: one per core; this thread reads the first), each read by the same reader; the gatherings are
  * merged in file order into what one pass gives. A range whose guessed start turns out to lie
  * inside a record (a quoted line break) is read again from the true record boundary, which the
  * range before it reports. `workerScript` is a module that calls runRangeWorker() when it is
@@ -72,17 +72,20 @@ export async function checkFile(
   const script = path.resolve(opts.workerScript ?? process.argv[1]!);
   const progress = s.starts.map(() => 0);
   const ends = s.starts.map((_, i) => s.starts[i + 1]?.start ?? size);
+  const report = (i: number, rows: number) => {
+    progress[i] = rows;
+    const all = progress.reduce((a, b) => a + b, 0);
+    opts.onProgress?.({ rows: all, bytes: Math.min(size, Math.round((size * all) / Math.max(1, s.rowsGuess))) });
+  };
   const run = (i: number, start: number, firstLine: number) =>
     new Promise<RangeResult>((resolve, reject) => {
       const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
-      if (opts.inThread) return resolve(readRange(job));
+      // this thread reads the first range itself while the workers read the others
+      if (opts.inThread || i === 0) return resolve(readRange(job, (rows) => report(i, rows)));
       const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
       w.on("message", (m: RangeResult) => {
-        if ("progress" in m) {
-          progress[i] = m.progress;
-          const rows = progress.reduce((a, b) => a + b, 0);
-          opts.onProgress?.({ rows, bytes: Math.min(size, Math.round((size * (i + 1)) / s.starts.length)) });
-        } else resolve(m);
+        if ("progress" in m) report(i, m.progress);
+        else resolve(m);
       });
       w.on("error", reject);
       w.on("exit", (code) => (code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined));

@@ -4,10 +4,11 @@
  */
 import { Moments } from "./accumulators";
 import { analyse, designOf } from "./analyse";
-import { ENGINE_VERSION, checkedReport, hashPlan } from "./check";
-import { countFindings, finding, pct, quote, rowsOf, sortFindings } from "./findings";
+import { checkedReport, hashPlan } from "./check";
+import { finding, pct, quote, rowsOf, sortFindings } from "./findings";
 import { thresholdsOf, type Plan } from "./plan";
-import { REPORT_FORMAT, type Finding, type ReadinessReport } from "./report";
+import type { Finding, ReadinessReport } from "./report";
+import { buildReport } from "./report-build";
 import { isEngineState, mergeStates, type EngineState } from "./state";
 
 /**
@@ -27,20 +28,7 @@ export async function poolReport(states: unknown[], plan: Plan): Promise<Readine
     : null;
   if (!merged) {
     const findings = [finding("pool.empty", "note", [], "The pool has no accepted batches yet.", "Accept a batch to start the pool.")];
-    return {
-      format: REPORT_FORMAT,
-      status: "checked",
-      engineVersion: ENGINE_VERSION,
-      planHash,
-      rows: { total: 0, complete: 0 },
-      model: { parameters: 0, residualDf: 0, perParameter: null, terms: designOf(plan, {}).terms, dfTarget: t.dfTarget ?? t.dfFloor },
-      columns: [],
-      missingness: { patterns: [] },
-      collinearity: null,
-      fit: null,
-      findings,
-      counts: countFindings(findings),
-    };
+    return buildReport({ status: "checked", plan, planHash, findings, ms: Date.now() - t0 });
   }
   const a = analyse(merged, plan, t);
   const findings = sortFindings(a.findings);

@@ -5,7 +5,8 @@
 import fs from "node:fs";
 import { DEFAULT_LIMITS, sniffText, type CsvMeta } from "./csv-reader";
 import { sniffBytes } from "./decode";
-import { Tokenizer, recordText } from "./tokenizer";
+import { recordText } from "./fields";
+import { Tokenizer } from "./tokenizer";
 
 export /** Line breaks (LF, CR, CRLF once each) in the file's bytes [from, to). */
 function countLines(fd: number, from: number, to: number): number {
@@ -29,7 +30,7 @@ function countLines(fd: number, from: number, to: number): number {
  * each worker's range starts: the line start after an even share of the bytes. A guess may
  * fall inside a quoted field; checkFile finds that out and reads that range again.
  */
-export function survey(file: string, size: number, parts: number): { meta: CsvMeta; header: string[]; starts: { start: number; firstLine: number }[] } | null {
+export function survey(file: string, size: number, parts: number): { meta: CsvMeta; header: string[]; starts: { start: number; firstLine: number }[]; rowsGuess: number } | null {
   const fd = fs.openSync(file, "r");
   try {
     const head = Buffer.alloc(Math.min(size, 1 << 20));
@@ -59,7 +60,10 @@ export function survey(file: string, size: number, parts: number): { meta: CsvMe
       const start = target + nl + 1;
       starts.push({ start, firstLine: prev.firstLine + countLines(fd, prev.start, start) });
     }
-    return { meta, header, starts };
+    // about as many rows as the file's bytes over the bytes per line before the last guess
+    const last = starts[starts.length - 1]!;
+    const rowsGuess = last.firstLine > 2 ? Math.round(((last.firstLine - 2) * size) / last.start) : 0;
+    return { meta, header, starts, rowsGuess };
   } finally {
     fs.closeSync(fd);
   }

@@ -8,26 +8,10 @@
  * bytes, quoted ones included: they are the lines a spreadsheet or a text editor shows.
  * Memory: the unfinished record and the current block; a record is refused beyond a cap.
  */
-import { UnreadableError } from "./decode";
+import type { FieldBatch } from "./fields";
+import { fieldTooLong, recordTooLong, unclosedQuote } from "./reader-errors";
 
-/** A block of complete records. Spans index `buf` and are valid only until the next push. */
-export interface FieldBatch {
-  buf: Uint8Array;
-  /** field f of the block is buf[starts[f], ends[f]) */
-  starts: Int32Array;
-  ends: Int32Array;
-  /** record r has the fields recs[r] … recs[r + 1] − 1 */
-  recs: Int32Array;
-  /** the line on which record r starts (the file's first line is 1) */
-  lines: Int32Array;
-  /** records in the block: first … count − 1 */
-  first: number;
-  count: number;
-  /** with `raw` tracking only: the file offset where record r starts, and where field f's raw
-   * text (quotes included) ends; field f + 1 starts one byte (the delimiter) after it */
-  recOffsets?: Float64Array;
-  rawEnds?: Float64Array;
-}
+export type { FieldBatch };
 
 export interface TokenizerLimits {
   /** longest field, in bytes */
@@ -128,7 +112,7 @@ export class Tokenizer {
     this.nf = open;
     this.count = 0;
     this.recs[0] = 0;
-    if (this.len - this.recStart > this.limits.maxRecordBytes) throw this.tooLong();
+    if (this.len - this.recStart > this.limits.maxRecordBytes) throw recordTooLong(this.recLine, this.at === At.Quoted || this.at === At.QuoteSeen, this.limits.maxRecordBytes);
   }
 
   private append(chunk: Uint8Array): void {
@@ -159,14 +143,7 @@ export class Tokenizer {
 
   /** `raw`: the buffer index just past the field's raw text (its closing quote and anything after it) */
   private endField(s: number, e: number, raw: number): void {
-    if (e - s > this.limits.maxFieldBytes) {
-      const field = this.nf - this.recs[this.count]! + 1;
-      throw new UnreadableError(
-        `Line ${this.recLine}, field ${field} holds ${(e - s).toLocaleString("en")} bytes; the engine reads fields of at most ${this.limits.maxFieldBytes.toLocaleString("en")}.`,
-        `Check line ${this.recLine}: a quote may be left open, or the cell holds something other than data (a picture, a document). Remove it and export again.`,
-        { kind: "field-too-long", line: this.recLine },
-      );
-    }
+    if (e - s > this.limits.maxFieldBytes) throw fieldTooLong(this.recLine, this.nf - this.recs[this.count]! + 1, e - s, this.limits.maxFieldBytes);
     if (this.nf >= this.starts.length) {
       this.starts = grow(this.starts, this.nf + 1);
       this.ends = grow(this.ends, this.nf + 1);
@@ -319,7 +296,7 @@ export class Tokenizer {
     this.at = at;
     if (!last || this.stoppedAt >= 0) return;
     // the input ends: finish the open record
-    if (at === At.Quoted) throw this.unclosed();
+    if (at === At.Quoted) throw unclosedQuote(this.recLine);
     if (at === At.Unquoted) this.endField(this.fieldStart, n, n);
     else if (at === At.QuoteSeen || at === At.AfterClosingQuote) this.endField(this.fieldStart, this.wp, n);
     else if (this.nf > this.recs[this.count]!) this.endField(n, n, n);
@@ -330,52 +307,4 @@ export class Tokenizer {
     this.at = At.FieldStart;
     this.stoppedAt = this.base + n;
   }
-
-  private unclosed(): UnreadableError {
-    const l = this.recLine;
-    return new UnreadableError(
-      `A quoted field that starts on line ${l} is never closed: the rest of the file was read as one value.`,
-      `Check line ${l}: every opening " needs a closing " (write a quote inside a quoted value as "").`,
-      { kind: "unclosed-quote", line: l },
-    );
-  }
-
-  /** The refusal of a record that outgrew the cap: an open quote, or a line without a break. */
-  private tooLong(): UnreadableError {
-    const l = this.recLine;
-    const open = this.at === At.Quoted || this.at === At.QuoteSeen;
-    const mb = Math.max(1, Math.round(this.limits.maxRecordBytes / (1 << 20)));
-    return new UnreadableError(
-      open
-        ? `A quoted field that starts on line ${l} is never closed: more than ${mb} MB of text follows without the closing quote.`
-        : `Line ${l} runs on for more than ${mb} MB without a line break; this is not a line-based CSV file.`,
-      open
-        ? `Check line ${l}: every opening " needs a closing " (write a quote inside a quoted value as "").`
-        : "Export the data again as CSV with one row per line; check that the file is not a single long line of data or a different format.",
-      { kind: open ? "unclosed-quote" : "line-too-long", line: l },
-    );
-  }
-}
-
-const utf8 = new TextDecoder("utf-8");
-
-/** The text of buf[s, e) (valid UTF-8). */
-export function fieldText(buf: Uint8Array, s: number, e: number): string {
-  if (e - s <= 32) {
-    let out = "";
-    for (let i = s; i < e; i++) {
-      const c = buf[i]!;
-      if (c >= 0x80) return utf8.decode(buf.subarray(s, e));
-      out += String.fromCharCode(c);
-    }
-    return out;
-  }
-  return utf8.decode(buf.subarray(s, e));
-}
-
-/** The fields of record r of a block, as strings. */
-export function recordText(b: FieldBatch, r: number): string[] {
-  const out: string[] = [];
-  for (let f = b.recs[r]!; f < b.recs[r + 1]!; f++) out.push(fieldText(b.buf, b.starts[f]!, b.ends[f]!));
-  return out;
 }

@@ -7,7 +7,7 @@
  */
 import { readCsv, type ByteInput, type CsvMeta } from "../csv-reader";
 import { pulled } from "../records";
-import { fieldText, type FieldBatch } from "../tokenizer";
+import { fieldText, type FieldBatch } from "../fields";
 import { fixersByColumn, type CellFix } from "./cells";
 import type { FixChange, FixProposal } from "./types";
 

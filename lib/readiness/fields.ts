@@ -1,0 +1,83 @@
+/** Records as byte spans, from the tokenizer (./tokenizer.ts), and their text when a reader needs it. */
+
+/** A block of complete records. Spans index `buf` and are valid only until the next push. */
+export interface FieldBatch {
+  buf: Uint8Array;
+  /** field f of the block is buf[starts[f], ends[f]) */
+  starts: Int32Array;
+  ends: Int32Array;
+  /** record r has the fields recs[r] … recs[r + 1] − 1 */
+  recs: Int32Array;
+  /** the line on which record r starts (the file's first line is 1) */
+  lines: Int32Array;
+  /** records in the block: first … count − 1 */
+  first: number;
+  count: number;
+  /** with `raw` tracking only: the file offset where record r starts, and where field f's raw
+   * text (quotes included) ends; field f + 1 starts one byte (the delimiter) after it */
+  recOffsets?: Float64Array;
+  rawEnds?: Float64Array;
+}
+
+const utf8 = new TextDecoder("utf-8");
+
+/** The text of buf[s, e) (valid UTF-8). */
+export function fieldText(buf: Uint8Array, s: number, e: number): string {
+  if (e - s <= 32) {
+    let out = "";
+    for (let i = s; i < e; i++) {
+      const c = buf[i]!;
+      if (c >= 0x80) return utf8.decode(buf.subarray(s, e));
+      out += String.fromCharCode(c);
+    }
+    return out;
+  }
+  return utf8.decode(buf.subarray(s, e));
+}
+
+/** The fields of record r of a block, as strings. */
+export function recordText(b: FieldBatch, r: number): string[] {
+  const out: string[] = [];
+  for (let f = b.recs[r]!; f < b.recs[r + 1]!; f++) out.push(fieldText(b.buf, b.starts[f]!, b.ends[f]!));
+  return out;
+}
+
+const latin1 = new TextDecoder("latin1");
+
+/**
+ * The text of a block's fields, decoded once per block when the block is ASCII (a field's
+ * text is then a slice of one string, as cheap as a substring); otherwise field by field.
+ */
+export class BlockText {
+  private buf: Uint8Array | null = null;
+  private from = 0;
+  private text: string | null = null;
+
+  /** Start a block: its bytes buf[from, to) hold every field. */
+  reset(buf: Uint8Array, from: number, to: number): void {
+    this.buf = buf;
+    this.from = from;
+    this.to = to;
+    this.text = null;
+    this.ascii = null;
+  }
+  private to = 0;
+  private ascii: boolean | null = null;
+
+  /** The text of buf[s, e) of the current block. */
+  get(s: number, e: number): string {
+    const buf = this.buf!;
+    if (this.ascii === null) {
+      let ascii = true;
+      for (let i = this.from; i < this.to; i++) {
+        if (buf[i]! >= 0x80) {
+          ascii = false;
+          break;
+        }
+      }
+      this.ascii = ascii;
+      if (ascii) this.text = latin1.decode(buf.subarray(this.from, this.to));
+    }
+    return this.text !== null ? this.text.substring(s - this.from, e - this.from) : fieldText(buf, s, e);
+  }
+}
