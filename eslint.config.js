@@ -6,20 +6,36 @@ import tseslint from "typescript-eslint";
 // It must not reach into the framework, the database or any other part of the app.
 const engineBoundary = {
   patterns: [
-    { group: ["next", "next/*", "react", "react/*", "react-dom", "react-dom/*"], message: "lib/readiness is framework-free." },
-    { group: ["drizzle-orm", "drizzle-orm/*", "mysql2", "mysql2/*", "next-auth", "next-auth/*"], message: "lib/readiness never touches the database or auth." },
-    { group: ["server-only", "**/db/*", "**/app/*", "**/components/*"], message: "lib/readiness imports only itself and pure libraries." },
-    { regex: "^@/(?!lib/readiness(/|$))", message: "lib/readiness imports only itself and pure libraries, nothing of the app." },
+    {
+      group: ["next", "next/*", "react", "react/*", "react-dom", "react-dom/*"],
+      message: "lib/readiness is framework-free.",
+    },
+    {
+      group: ["drizzle-orm", "drizzle-orm/*", "mysql2", "mysql2/*", "next-auth", "next-auth/*"],
+      message: "lib/readiness never touches the database or auth.",
+    },
+    {
+      group: ["server-only", "**/db/*", "**/app/*", "**/components/*"],
+      message: "lib/readiness imports only itself and pure libraries.",
+    },
+    {
+      regex: "^@/(?!lib/readiness(/|$))",
+      message: "lib/readiness imports only itself and pure libraries, nothing of the app.",
+    },
   ],
 };
 
 // The demo scenario seeds the demo and feeds tests and scripts; the product never depends on it.
-const noDemo = { regex: "^@/lib/demo(/|$)", message: "Production code never imports lib/demo (it is the invented demo scenario)." };
+const noDemo = {
+  regex: "^@/lib/demo(/|$)",
+  message: "Production code never imports lib/demo (it is the invented demo scenario).",
+};
 
 // Pages and components show data; they read it through a feature's queries, never from the database.
 const noDatabase = {
   group: ["@/db/client", "@/db/migrate", "@/db/seed", "drizzle-orm", "drizzle-orm/*", "mysql2", "mysql2/*"],
-  message: "Pages and components never touch the database: call a feature's read (lib/<feature>/queries*.ts) instead.",
+  message:
+    "Pages and components never touch the database: call a feature's read (lib/<feature>/queries*.ts) instead.",
 };
 
 // Feature folders: each imports another only through its public index.ts.
@@ -31,7 +47,10 @@ const featureBoundary = (self) => {
       regex: `^@/lib/(${others})/`,
       message: `lib/${self} imports another feature only through its index: @/lib/<feature>, not a file inside it.`,
     },
-    { regex: `^(\\.\\./)+(${others})(/|$)`, message: `lib/${self} imports another feature as @/lib/<feature> (its index).` },
+    {
+      regex: `^(\\.\\./)+(${others})(/|$)`,
+      message: `lib/${self} imports another feature as @/lib/<feature> (its index).`,
+    },
     noDemo,
   ];
 };
@@ -50,7 +69,14 @@ export default tseslint.config(
   },
   // production code outside the features: the app, components, the shared lib folders, the proxy
   {
-    files: ["app/**/*.{ts,tsx}", "components/**/*.{ts,tsx}", "lib/**/*.{ts,tsx}", "proxy.ts", "instrumentation.ts", "db/client.ts"],
+    files: [
+      "app/**/*.{ts,tsx}",
+      "components/**/*.{ts,tsx}",
+      "lib/**/*.{ts,tsx}",
+      "proxy.ts",
+      "instrumentation.ts",
+      "db/client.ts",
+    ],
     ignores: ["lib/readiness/**", "lib/demo/**", ...FEATURES.map((f) => `lib/${f}/**`)],
     rules: { "no-restricted-imports": ["error", { patterns: [noDemo] }] },
   },

@@ -15,6 +15,34 @@ type Props = {
   update: (patch: Partial<PlanDraft>) => void;
 };
 
+/** The model's numbers: which draft field, and which server field errors show under it. */
+const NUMBER_FIELDS = [
+  {
+    id: "anticipatedR2",
+    key: "anticipatedR2",
+    label: "Anticipated R²",
+    hint: "Adjusted R² expected (Riley et al. 2019), between 0 and 1.",
+    errors: ["anticipatedR2"],
+    width: "w-56",
+  },
+  {
+    id: "outcome-mean",
+    key: "outcomeMean",
+    label: "Outcome mean",
+    hint: "The response's anticipated mean.",
+    errors: ["outcome.mean", "outcome"],
+    width: "w-44",
+  },
+  {
+    id: "outcome-sd",
+    key: "outcomeSd",
+    label: "Outcome SD",
+    hint: "Its anticipated standard deviation.",
+    errors: ["outcome.sd"],
+    width: "w-44",
+  },
+] as const;
+
 export function ModelFields({ draft, errors, predictors, parameters, update }: Props) {
   return (
     <div className="flex flex-col gap-4">
@@ -34,51 +62,24 @@ export function ModelFields({ draft, errors, predictors, parameters, update }: P
         onChange={(interactions) => update({ interactions })}
       />
       <div className="flex flex-wrap gap-4">
-        <Field
-          id="anticipatedR2"
-          label="Anticipated R²"
-          hint="Adjusted R² expected (Riley et al. 2019), between 0 and 1."
-          errors={errors.anticipatedR2}
-          className="w-56"
-        >
-          <Input
-            value={draft.anticipatedR2}
-            onChange={(e) => update({ anticipatedR2: e.target.value })}
-            inputMode="decimal"
-            className="h-8 text-sm tabular"
-            placeholder="none"
-          />
-        </Field>
-        <Field
-          id="outcome-mean"
-          label="Outcome mean"
-          hint="The response's anticipated mean."
-          errors={errors["outcome.mean"] ?? errors.outcome}
-          className="w-44"
-        >
-          <Input
-            value={draft.outcomeMean}
-            onChange={(e) => update({ outcomeMean: e.target.value })}
-            inputMode="decimal"
-            className="h-8 text-sm tabular"
-            placeholder="none"
-          />
-        </Field>
-        <Field
-          id="outcome-sd"
-          label="Outcome SD"
-          hint="Its anticipated standard deviation."
-          errors={errors["outcome.sd"]}
-          className="w-44"
-        >
-          <Input
-            value={draft.outcomeSd}
-            onChange={(e) => update({ outcomeSd: e.target.value })}
-            inputMode="decimal"
-            className="h-8 text-sm tabular"
-            placeholder="none"
-          />
-        </Field>
+        {NUMBER_FIELDS.map((f) => (
+          <Field
+            key={f.id}
+            id={f.id}
+            label={f.label}
+            hint={f.hint}
+            errors={f.errors.map((k) => errors[k]).find(Boolean)}
+            className={f.width}
+          >
+            <Input
+              value={draft[f.key]}
+              onChange={(e) => update({ [f.key]: e.target.value })}
+              inputMode="decimal"
+              className="h-8 text-sm tabular"
+              placeholder="none"
+            />
+          </Field>
+        ))}
       </div>
       <div className="flex flex-wrap items-start gap-4">
         <label className="flex items-center gap-2 pt-6 text-base">

@@ -1,11 +1,28 @@
 "use client";
 /** Forms of the one-time links: ask for a reset link; choose a password through a link. */
-import { useState, useTransition } from "react";
+import { useState, useTransition, type FormEvent, type TransitionStartFunction } from "react";
 import Link from "next/link";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import type { Result } from "@/lib/result";
+
+/** What a link form says once it is done. */
+function Done({ children }: { children: React.ReactNode }) {
+  return (
+    <p role="status" className="rounded border border-reed/40 bg-reed-wash px-3 py-2 text-base text-reed-ink">
+      {children}
+    </p>
+  );
+}
+
+/** An onSubmit that runs `send` in a transition, so the button shows it is busy. */
+function inTransition(start: TransitionStartFunction, send: () => Promise<void>) {
+  return (e: FormEvent<HTMLFormElement>) => {
+    e.preventDefault();
+    start(send);
+  };
+}
 
 export function ForgotPasswordForm({ request }: { request: (email: string) => Promise<Result<null>> }) {
   const [email, setEmail] = useState("");
@@ -14,23 +31,18 @@ export function ForgotPasswordForm({ request }: { request: (email: string) => Pr
   const [pending, start] = useTransition();
   if (sent) {
     return (
-      <p role="status" className="rounded border border-reed/40 bg-reed-wash px-3 py-2 text-base text-reed-ink">
-        If {email} has an active account, a link to choose a new password is on its way. It works once, for one hour.
-      </p>
+      <Done>If {email} has an active account, a link to choose a new password is on its way. It works once, for one hour.</Done>
     );
   }
   return (
     <form
       className="grid gap-4"
       noValidate
-      onSubmit={(e) => {
-        e.preventDefault();
-        start(async () => {
-          const r = await request(email);
-          if (r.ok) setSent(true);
-          else setErrors(r.fieldErrors ?? { email: [r.message] });
-        });
-      }}
+      onSubmit={inTransition(start, async () => {
+        const r = await request(email);
+        if (r.ok) setSent(true);
+        else setErrors(r.fieldErrors ?? { email: [r.message] });
+      })}
     >
       <Field id="email" label="E-mail" errors={errors.email}>
         <Input type="email" autoComplete="email" value={email} onChange={(e) => setEmail(e.target.value)} required />
@@ -50,26 +62,23 @@ export function SetPasswordForm({ token, minLength, save }: { token: string; min
   const [pending, start] = useTransition();
   if (done) {
     return (
-      <p role="status" className="rounded border border-reed/40 bg-reed-wash px-3 py-2 text-base text-reed-ink">
+      <Done>
         Your password is set. <Link href="/sign-in" className="underline">Sign in</Link>.
-      </p>
+      </Done>
     );
   }
   return (
     <form
       className="grid gap-4"
       noValidate
-      onSubmit={(e) => {
-        e.preventDefault();
-        start(async () => {
-          const r = await save(token, password, confirm);
-          if (r.ok) setDone(true);
-          else {
-            setErrors(r.fieldErrors ?? {});
-            setMessage(r.fieldErrors ? null : r.message);
-          }
-        });
-      }}
+      onSubmit={inTransition(start, async () => {
+        const r = await save(token, password, confirm);
+        if (r.ok) setDone(true);
+        else {
+          setErrors(r.fieldErrors ?? {});
+          setMessage(r.fieldErrors ? null : r.message);
+        }
+      })}
     >
       <Field id="password" label="New password" hint={`At least ${minLength} characters.`} errors={errors.password}>
         <Input type="password" autoComplete="new-password" value={password} onChange={(e) => setPassword(e.target.value)} required minLength={minLength} />

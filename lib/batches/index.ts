@@ -28,5 +28,5 @@ export { getVersionFileKeyForUser, getVersionReportForUser, type VersionReport }
 export { getBatchTrailForUser, type TrailEntry } from "./queries-trail";
 export { getVersionChangesForUser, getVersionFixForUser, type VersionFixView } from "./queries-fixes";
 export { listUploadTargets } from "./queries-upload-targets";
-export { retryFailedJob } from "./jobs/check-jobs";
+export { retryFailedJob } from "./commands-jobs";
 export { openStoredFile, StoredFileMissingError, utapi } from "./intake/file-store";

@@ -1,5 +1,6 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
+import { AppError } from "@/lib/errors";
 import { getDb } from "@/db/client";
 import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
@@ -82,4 +83,14 @@ export async function getVersionFileKeyForUser(user: SessionUser, publicId: stri
   if (!found) return null;
   const [row] = await getDb().select({ fileKey: batchVersions.fileKey }).from(batchVersions).where(eq(batchVersions.id, found.version.id));
   return row ? { found, fileKey: row.fileKey } : null;
+}
+
+/** The answer for a version that does not exist or is not the user's to see (the same words, so existence does not leak). */
+export const NO_VISIBLE_VERSION = "No batch version with this id is visible to you.";
+
+/** getVersionFileKeyForUser for a route: the version and its file key, or AppError("not_found"). */
+export async function requireVersionFileForUser(user: SessionUser, publicId: string, versionNo: number) {
+  const got = await getVersionFileKeyForUser(user, publicId, versionNo);
+  if (!got) throw new AppError("not_found", NO_VISIBLE_VERSION);
+  return got;
 }

@@ -7,5 +7,9 @@ import type { QueueItem } from "@/lib/batches/queries-queue";
 export type QueueRow = Omit<QueueItem, "uploadedAt" | "since"> & { uploadedAt: string; since: string };
 
 export function useQueue(initial: QueueRow[]) {
-  return useSWR<QueueRow[]>("/api/v1/queue", fetchApiData<QueueRow[]>, { fallbackData: initial, refreshInterval: 5000, revalidateOnFocus: true });
+  return useSWR<QueueRow[]>("/api/v1/queue", fetchApiData<QueueRow[]>, {
+    fallbackData: initial,
+    refreshInterval: 5000,
+    revalidateOnFocus: true,
+  });
 }

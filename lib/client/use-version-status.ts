@@ -15,8 +15,12 @@ const RUNNING = new Set(["received", "checking"]);
 
 export function useVersionStatus(batchId: string, version: number, initialState: string) {
   const running = RUNNING.has(initialState);
-  return useSWR<VersionStatus>(running ? `/api/v1/batches/${encodeURIComponent(batchId)}/versions/${version}/report` : null, fetchApiData<VersionStatus>, {
-    refreshInterval: (data) => (data && !RUNNING.has(data.state) ? 0 : 1000),
-    revalidateOnFocus: false,
-  });
+  return useSWR<VersionStatus>(
+    running ? `/api/v1/batches/${encodeURIComponent(batchId)}/versions/${version}/report` : null,
+    fetchApiData<VersionStatus>,
+    {
+      refreshInterval: (data) => (data && !RUNNING.has(data.state) ? 0 : 1000),
+      revalidateOnFocus: false,
+    },
+  );
 }

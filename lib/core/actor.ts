@@ -24,6 +24,7 @@ export async function loadActor(db: DbOrTx, actorId: number): Promise<Actor> {
     .where(eq(users.id, actorId))
     .limit(1);
   const row = rows[0];
-  if (!row || !row.active) throw new AppError("unauthenticated", "Your account is not active. Sign in again.");
+  if (!row || !row.active)
+    throw new AppError("unauthenticated", "Your account is not active. Sign in again.");
   return { id: row.id, name: row.name, role: row.role, organisationId: row.organisationId };
 }

@@ -68,7 +68,9 @@ function allowed(actor: Actor, may: UserWrite<z.ZodType, unknown>["may"]): boole
 
 export function write<S extends z.ZodType, T>(w: UserWrite<S, T>): Promise<Result<T>>;
 export function write<S extends z.ZodType, T>(w: AnonymousWrite<S, T>): Promise<Result<T>>;
-export async function write<S extends z.ZodType, T>(w: UserWrite<S, T> | AnonymousWrite<S, T>): Promise<Result<T>> {
+export async function write<S extends z.ZodType, T>(
+  w: UserWrite<S, T> | AnonymousWrite<S, T>,
+): Promise<Result<T>> {
   try {
     const db = getDb();
     // the house order: who is acting (401), may their role do this (403), then the input (422).

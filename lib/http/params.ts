@@ -26,7 +26,10 @@ export const batchVersionParams = z.object({ id: batchIdParam, version: versionP
 export const studyParams = z.object({
   id: z
     .string()
-    .regex(/^[a-z0-9][a-z0-9-]{0,99}$/i, "A study is addressed by its number or its slug (letters, digits, dashes)."),
+    .regex(
+      /^[a-z0-9][a-z0-9-]{0,99}$/i,
+      "A study is addressed by its number or its slug (letters, digits, dashes).",
+    ),
 });
 
 /** A pool, by its study's slug. */

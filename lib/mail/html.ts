@@ -1,5 +1,11 @@
 /** Text made safe inside the HTML of an e-mail. */
-const ENTITIES: Record<string, string> = { "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" };
+const ENTITIES: Record<string, string> = {
+  "&": "&amp;",
+  "<": "&lt;",
+  ">": "&gt;",
+  '"': "&quot;",
+  "'": "&#39;",
+};
 
 export function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ENTITIES[c] ?? c);

@@ -41,7 +41,13 @@ function linkEmail(invite: boolean, name: string, link: string) {
   };
 }
 
-type LinkFor = { userId: number; kind: "invite" | "reset"; email: string; name: string; actorId: number | null };
+type LinkFor = {
+  userId: number;
+  kind: "invite" | "reset";
+  email: string;
+  name: string;
+  actorId: number | null;
+};
 
 /** Creates a link for the user and queues its e-mail, in the caller's transaction. */
 export async function issueUserLink(tx: DbOrTx, p: LinkFor): Promise<void> {
@@ -91,7 +97,8 @@ export function requestPasswordReset(emailInput: unknown): Promise<Result<null>>
         .select({ id: users.id, name: users.name, active: users.active })
         .from(users)
         .where(eq(users.email, email));
-      if (u?.active) await issueUserLink(tx, { userId: u.id, kind: "reset", email, name: u.name, actorId: null });
+      if (u?.active)
+        await issueUserLink(tx, { userId: u.id, kind: "reset", email, name: u.name, actorId: null });
       return ok(null);
     },
   });

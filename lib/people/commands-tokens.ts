@@ -1,42 +1,23 @@
 import "server-only";
-import { and, desc, eq, isNull } from "drizzle-orm";
-import { getDb } from "@/db/client";
+import { and, eq, isNull } from "drizzle-orm";
 import { apiTokens } from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-tokens";
 import { write } from "@/lib/core/write";
 import { fail, ok, type Result } from "@/lib/result";
 import { apiTokenIdSchema, createApiTokenSchema } from "./schemas";
 
-export type ApiTokenListItem = {
-  id: number;
-  name: string;
-  prefix: string;
-  createdAt: Date;
-  lastUsedAt: Date | null;
-  revokedAt: Date | null;
-};
+import type { ApiTokenListItem } from "./queries";
+
+export type { ApiTokenListItem };
 
 const MAX_ACTIVE_TOKENS = 20;
 const NO_SUCH_TOKEN = "There is no such token.";
 
-/** The actor's own API tokens (never the token or its hash). */
-export async function listApiTokens(actorId: number): Promise<ApiTokenListItem[]> {
-  return getDb()
-    .select({
-      id: apiTokens.id,
-      name: apiTokens.name,
-      prefix: apiTokens.prefix,
-      createdAt: apiTokens.createdAt,
-      lastUsedAt: apiTokens.lastUsedAt,
-      revokedAt: apiTokens.revokedAt,
-    })
-    .from(apiTokens)
-    .where(eq(apiTokens.userId, actorId))
-    .orderBy(desc(apiTokens.createdAt));
-}
-
 /** Creates an API token for the actor (token.manage). The token is returned here once and never again. */
-export function createApiToken(actorId: number, input: unknown): Promise<Result<ApiTokenListItem & { token: string }>> {
+export function createApiToken(
+  actorId: number,
+  input: unknown,
+): Promise<Result<ApiTokenListItem & { token: string }>> {
   return write({
     name: "createApiToken",
     actorId,
@@ -49,7 +30,11 @@ export function createApiToken(actorId: number, input: unknown): Promise<Result<
         .from(apiTokens)
         .where(and(eq(apiTokens.userId, actor.id), isNull(apiTokens.revokedAt)));
       if (active.length >= MAX_ACTIVE_TOKENS) {
-        return fail(`You have ${MAX_ACTIVE_TOKENS} active tokens; revoke one you no longer use first.`, undefined, "conflict");
+        return fail(
+          `You have ${MAX_ACTIVE_TOKENS} active tokens; revoke one you no longer use first.`,
+          undefined,
+          "conflict",
+        );
       }
       const { token, hash, prefix } = generateApiToken();
       const createdAt = new Date();
@@ -58,14 +43,22 @@ export function createApiToken(actorId: number, input: unknown): Promise<Result<
         .values({ userId: actor.id, name, tokenHash: hash, prefix, createdAt })
         .$returningId();
       if (!row) throw new Error("insert into api_tokens returned no id");
-      await audit({ action: "token.create", objectType: "api_token", objectId: row.id, after: { name, prefix } });
+      await audit({
+        action: "token.create",
+        objectType: "api_token",
+        objectId: row.id,
+        after: { name, prefix },
+      });
       return ok({ id: row.id, name, prefix, createdAt, lastUsedAt: null, revokedAt: null, token });
     },
   });
 }
 
 /** Revokes one of the actor's own tokens; someone else's token is "not found". */
-export function revokeApiToken(actorId: number, tokenId: unknown): Promise<Result<{ id: number; revokedAt: Date }>> {
+export function revokeApiToken(
+  actorId: number,
+  tokenId: unknown,
+): Promise<Result<{ id: number; revokedAt: Date }>> {
   return write({
     name: "revokeApiToken",
     actorId,

@@ -62,7 +62,11 @@ function record(row: UserRecord): UserRecord {
 }
 
 /** Why the organisation does not fit the role, or null when it does. */
-async function organisationProblem(tx: Tx, role: UserRole, organisationId: number | null): Promise<string | null> {
+async function organisationProblem(
+  tx: Tx,
+  role: UserRole,
+  organisationId: number | null,
+): Promise<string | null> {
   if (organisationId == null) {
     return role === "provider" ? "Choose the provider organisation this user sends batches for." : null;
   }
@@ -99,15 +103,28 @@ export function createUser(actorId: number, input: unknown): Promise<Result<User
     onDuplicate: taken,
     run: async ({ tx, actor, input: data, audit }) => {
       if (!can(actor.role, "user.manage") && !INVITABLE_ROLES.includes(data.role)) {
-        return fail("You can invite providers and analysts only.", { role: ["Choose provider or analyst."] }, "forbidden");
+        return fail(
+          "You can invite providers and analysts only.",
+          { role: ["Choose provider or analyst."] },
+          "forbidden",
+        );
       }
-      const existing = await tx.select({ id: users.id }).from(users).where(eq(users.email, data.email)).limit(1);
+      const existing = await tx
+        .select({ id: users.id })
+        .from(users)
+        .where(eq(users.email, data.email))
+        .limit(1);
       if (existing.length > 0) return taken();
       const problem = await organisationProblem(tx, data.role, data.organisationId);
       if (problem) return fail(CHECK_FIELDS, { organisationId: [problem] });
 
       const passwordHash = data.password ? await hashPassword(data.password) : null;
-      const values = { email: data.email, name: data.name, role: data.role, organisationId: data.organisationId };
+      const values = {
+        email: data.email,
+        name: data.name,
+        role: data.role,
+        organisationId: data.organisationId,
+      };
       const [created] = await tx
         .insert(users)
         .values({ ...values, passwordHash, active: true })
@@ -117,7 +134,13 @@ export function createUser(actorId: number, input: unknown): Promise<Result<User
       const action = data.password ? "user.create" : "user.invite";
       await audit({ action, objectType: "user", objectId: rec.id, before: null, after: rec });
       if (!data.password) {
-        await issueUserLink(tx, { userId: rec.id, kind: "invite", email: rec.email, name: rec.name, actorId: actor.id });
+        await issueUserLink(tx, {
+          userId: rec.id,
+          kind: "invite",
+          email: rec.email,
+          name: rec.name,
+          actorId: actor.id,
+        });
       }
       return ok(rec);
     },
@@ -126,7 +149,8 @@ export function createUser(actorId: number, input: unknown): Promise<Result<User
 
 async function applyRoleChange(tx: Tx, audit: Audit, actorId: number, target: LockedUser, role: UserRole) {
   if (target.role === role) return target;
-  if (actorId === target.id) refuse(fail("You cannot change your own role; ask another admin.", undefined, "conflict"));
+  if (actorId === target.id)
+    refuse(fail("You cannot change your own role; ask another admin.", undefined, "conflict"));
   if ((target.role === "provider") !== (role === "provider")) {
     const message =
       target.role === "provider"
@@ -148,11 +172,15 @@ async function applyRoleChange(tx: Tx, audit: Audit, actorId: number, target: Lo
 
 async function applyActiveChange(tx: Tx, audit: Audit, actorId: number, target: LockedUser, active: boolean) {
   if (target.active === active) return target;
-  if (actorId === target.id && !active) refuse(fail("You cannot deactivate your own account.", undefined, "conflict"));
+  if (actorId === target.id && !active)
+    refuse(fail("You cannot deactivate your own account.", undefined, "conflict"));
   if (!active && target.role === "admin") await assertAnotherActiveAdmin(tx, target.id);
   // deactivation bumps session_version: open sessions end at their next request
   const sessionVersion = active ? target.sessionVersion : target.sessionVersion + 1;
-  await tx.update(users).set({ active, sessionVersion, updatedAt: new Date() }).where(eq(users.id, target.id));
+  await tx
+    .update(users)
+    .set({ active, sessionVersion, updatedAt: new Date() })
+    .where(eq(users.id, target.id));
   await audit({
     action: active ? "user.reactivate" : "user.deactivate",
     objectType: "user",
@@ -185,7 +213,8 @@ export function updateUser(actorId: number, userId: number, input: unknown): Pro
       let target = await lockUser(tx, change.id);
       // a refusal of the second change rolls back the first
       if (change.role !== undefined) target = await applyRoleChange(tx, audit, actor.id, target, change.role);
-      if (change.active !== undefined) target = await applyActiveChange(tx, audit, actor.id, target, change.active);
+      if (change.active !== undefined)
+        target = await applyActiveChange(tx, audit, actor.id, target, change.active);
       return ok(record(target));
     },
   });
@@ -227,7 +256,11 @@ export function changeOwnPassword(
       const gate = checkSignInAllowed(throttleKey, "password-change");
       if (!gate.allowed) {
         const minutes = Math.ceil(gate.retryAfterSeconds / 60);
-        return fail(`Too many wrong current passwords. Try again in ${minutes} minutes.`, undefined, "conflict");
+        return fail(
+          `Too many wrong current passwords. Try again in ${minutes} minutes.`,
+          undefined,
+          "conflict",
+        );
       }
       const target = await lockUser(tx, actor.id);
       const [row] = await tx.select({ hash: users.passwordHash }).from(users).where(eq(users.id, actor.id));

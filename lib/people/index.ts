@@ -4,8 +4,14 @@
  * lib/core/write.ts), zod schemas in schemas.ts (also used by the browser's forms). Sign-in,
  * sessions and the role → actions table are lib/auth/, which every feature uses.
  */
-export { describeLink, issueUserLink, requestPasswordReset, setPasswordWithLink, type LinkInfo } from "./commands-links";
-export { createApiToken, listApiTokens, revokeApiToken, type ApiTokenListItem } from "./commands-tokens";
+export {
+  describeLink,
+  issueUserLink,
+  requestPasswordReset,
+  setPasswordWithLink,
+  type LinkInfo,
+} from "./commands-links";
+export { createApiToken, revokeApiToken } from "./commands-tokens";
 export {
   changeOwnPassword,
   changeRole,
@@ -14,6 +20,12 @@ export {
   updateUser,
   type UserRecord,
 } from "./commands-users";
-export { getUserForAdmin, listUsers, type UserListItem } from "./queries";
+export {
+  getUserForAdmin,
+  listApiTokens,
+  listUsers,
+  type ApiTokenListItem,
+  type UserListItem,
+} from "./queries";
 export { listAuditEvents, type AuditEventItem, type AuditFilter } from "./queries-audit";
 export { listOrganisations, type OrganisationListItem } from "./queries-organisations";

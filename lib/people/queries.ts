@@ -1,23 +1,13 @@
 import "server-only";
-import { asc, eq } from "drizzle-orm";
+import { asc, desc, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { organisations, users, type UserRole } from "@/db/schema";
+import { apiTokens, organisations, users } from "@/db/schema";
 import { userIdentityColumns } from "@/lib/auth/load-user";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 
-export type UserListItem = {
-  id: number;
-  email: string;
-  name: string;
-  role: UserRole;
-  organisationId: number | null;
-  organisationName: string | null;
-  active: boolean;
-  createdAt: Date;
-  updatedAt: Date;
-};
+export type UserListItem = SessionUser & { active: boolean; createdAt: Date; updatedAt: Date };
 
 export const userListColumns = {
   ...userIdentityColumns,
@@ -45,4 +35,29 @@ export async function getUserForAdmin(actor: SessionUser, userId: number): Promi
     .where(eq(users.id, userId))
     .limit(1);
   return rows[0] ?? null;
+}
+
+export type ApiTokenListItem = {
+  id: number;
+  name: string;
+  prefix: string;
+  createdAt: Date;
+  lastUsedAt: Date | null;
+  revokedAt: Date | null;
+};
+
+/** The actor's own API tokens (never the token or its hash). */
+export async function listApiTokens(actorId: number): Promise<ApiTokenListItem[]> {
+  return getDb()
+    .select({
+      id: apiTokens.id,
+      name: apiTokens.name,
+      prefix: apiTokens.prefix,
+      createdAt: apiTokens.createdAt,
+      lastUsedAt: apiTokens.lastUsedAt,
+      revokedAt: apiTokens.revokedAt,
+    })
+    .from(apiTokens)
+    .where(eq(apiTokens.userId, actorId))
+    .orderBy(desc(apiTokens.createdAt));
 }

@@ -17,7 +17,11 @@ export type DigestSent = { recipients: number; queued: number; subject: string }
 
 type DigestRequest = { now: Date; reason: "weekly" | "now" };
 
-async function queueDigest({ tx, input, audit }: WriteContext<DigestRequest, unknown>): Promise<Result<DigestSent>> {
+async function queueDigest({
+  tx,
+  input,
+  audit,
+}: WriteContext<DigestRequest, unknown>): Promise<Result<DigestSent>> {
   const { now, reason } = input;
   const leads = await tx
     .select({ email: users.email })
@@ -25,7 +29,8 @@ async function queueDigest({ tx, input, audit }: WriteContext<DigestRequest, unk
     .where(and(eq(users.role, "lead"), eq(users.active, true)));
   if (!leads.length) return fail("There is no active lead to send the digest to.", undefined, "conflict");
   const mail = composeDigest(await digestData(getDb(), now));
-  const key = reason === "weekly" ? `week-${weekStart(now).toISOString().slice(0, 10)}` : `now-${now.toISOString()}`;
+  const key =
+    reason === "weekly" ? `week-${weekStart(now).toISOString().slice(0, 10)}` : `now-${now.toISOString()}`;
   let queued = 0;
   for (const l of leads) {
     const r = await enqueueEmail(tx, {
@@ -48,8 +53,16 @@ async function queueDigest({ tx, input, audit }: WriteContext<DigestRequest, unk
 const digestRequest = z.object({ now: z.date(), reason: z.enum(["weekly", "now"]) });
 
 /** Queues the digest: asked for by a lead or admin (board.read), or by the worker's schedule (no actor). */
-export function sendDigest(opts: { actorId: number | null; now?: Date; reason: "weekly" | "now" }): Promise<Result<DigestSent>> {
-  const common = { name: "sendDigest", schema: digestRequest, input: { now: opts.now ?? new Date(), reason: opts.reason } };
+export function sendDigest(opts: {
+  actorId: number | null;
+  now?: Date;
+  reason: "weekly" | "now";
+}): Promise<Result<DigestSent>> {
+  const common = {
+    name: "sendDigest",
+    schema: digestRequest,
+    input: { now: opts.now ?? new Date(), reason: opts.reason },
+  };
   if (opts.actorId === null) return write({ ...common, actorId: null, may: "anyone", run: queueDigest });
   return write({
     ...common,

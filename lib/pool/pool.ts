@@ -6,7 +6,10 @@
 import { and, desc, eq, inArray } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, dataPlans, decisions, organisations, reports, studies } from "@/db/schema";
-import { driftFindings, isEngineState, parsePlan, poolReport, type Finding, type Plan, type ReadinessReport } from "@/lib/readiness";
+import { isEngineState, parsePlan, poolReport, type Plan, type ReadinessReport } from "@/lib/readiness";
+
+// "if accepted" lives in its own file; importers of the pool find it here too
+export { getIfAccepted, type IfAccepted } from "./if-accepted";
 
 export type PoolMember = {
   batchVersionId: number;
@@ -111,7 +114,7 @@ type VersionRow = {
   organisationId: number; organisationName: string; fileKey: string; fileName: string;
 };
 
-const versionColumns = {
+export const versionColumns = {
   batchVersionId: batchVersions.id,
   batchId: batches.id,
   batchPublicId: batches.publicId,
@@ -123,7 +126,7 @@ const versionColumns = {
   fileName: batchVersions.fileName,
 };
 
-async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
+export async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
   const reps = await newestReports(db, rows.map((r) => r.batchVersionId));
   const out: Loaded[] = [];
   for (const r of rows) {
@@ -179,44 +182,6 @@ export async function getStudyPool(db: Db, study: StudyRef): Promise<StudyPool> 
   const loaded = await loadAccepted(db, study.id, planHash);
   const report = await poolOf(loaded, plan);
   return { studyId: study.id, slug: study.slug, title: study.title, planVersion: version, plan, report, members: loaded.map((l) => l.member) };
-}
-
-export type IfAccepted = {
-  batchPublicId: string;
-  version: number;
-  studySlug: string;
-  /** the pool as it is */
-  before: ReadinessReport;
-  /** the pool with this version added */
-  after: ReadinessReport;
-  /** drift of this version against the pool as it is (empty while the pool is empty) */
-  drift: Finding[];
-  poolMembers: number;
-};
-
-/**
- * "If accepted" for a version ready for review: the pool's figures with it added and the
- * drift findings of it against the current pool. Null when the version is not ready for
- * review or has no stored engine state.
- */
-export async function getIfAccepted(db: Db, batchPublicId: string, versionNo: number): Promise<IfAccepted | null> {
-  const [v] = await db
-    .select({ ...versionColumns, studyId: batches.studyId, state: batchVersions.state })
-    .from(batchVersions)
-    .innerJoin(batches, eq(batches.id, batchVersions.batchId))
-    .innerJoin(organisations, eq(organisations.id, batches.organisationId))
-    .where(and(eq(batches.publicId, batchPublicId), eq(batchVersions.version, versionNo)));
-  if (!v || v.state !== "ready") return null;
-  const study = await getStudyRef(db, { id: v.studyId });
-  if (!study) return null;
-  const { plan, planHash } = await loadCurrentPlan(db, study);
-  const [mine] = await withStates(db, [{ ...v, decidedAt: null }], planHash);
-  if (!mine) return null;
-  const loaded = await loadAccepted(db, study.id, planHash);
-  const before = await poolOf(loaded, plan);
-  const after = await poolOf([...loaded, mine], plan);
-  const drift = before.state ? driftFindings(before.state, mine.state, plan) : [];
-  return { batchPublicId, version: versionNo, studySlug: study.slug, before, after, drift, poolMembers: loaded.length };
 }
 
 /** The report without its merged engine state (for JSON answers and pages). */

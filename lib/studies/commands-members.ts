@@ -50,7 +50,8 @@ const ANALYST: Kind = {
     if (!u.active) return `${u.name}'s account is deactivated; reactivate it first.`;
     return u;
   },
-  linked: async (tx, s, id) => (await tx.select({ u: studyAnalysts.userId }).from(studyAnalysts).where(analystLink(s, id))).length > 0,
+  linked: async (tx, s, id) =>
+    (await tx.select({ u: studyAnalysts.userId }).from(studyAnalysts).where(analystLink(s, id))).length > 0,
   link: (tx, studyId, userId) => tx.insert(studyAnalysts).values({ studyId, userId }),
   unlink: (tx, s, id) => tx.delete(studyAnalysts).where(analystLink(s, id)),
   audit: { add: "study.analyst_assign", remove: "study.analyst_unassign", key: "userId" },
@@ -68,11 +69,13 @@ const PROVIDER: Kind = {
       .from(organisations)
       .where(eq(organisations.id, id));
     if (!o) return null;
-    if (o.kind !== "provider") return `${o.name} is a team, not a provider organisation; only providers send batches.`;
+    if (o.kind !== "provider")
+      return `${o.name} is a team, not a provider organisation; only providers send batches.`;
     return o;
   },
   linked: async (tx, s, id) =>
-    (await tx.select({ o: studyProviders.organisationId }).from(studyProviders).where(providerLink(s, id))).length > 0,
+    (await tx.select({ o: studyProviders.organisationId }).from(studyProviders).where(providerLink(s, id)))
+      .length > 0,
   link: (tx, studyId, organisationId) => tx.insert(studyProviders).values({ studyId, organisationId }),
   unlink: (tx, s, id) => tx.delete(studyProviders).where(providerLink(s, id)),
   audit: { add: "study.provider_admit", remove: "study.provider_remove", key: "organisationId" },
@@ -101,10 +104,18 @@ function change(kind: Kind, add: boolean, name: string, actorId: number, studyId
       if (!add) {
         // removing needs only that the link exists: a deactivated analyst can be unassigned
         const member = await anyMember(tx, kind, id);
-        if (!member || !(await kind.linked(tx, studyId, member.id))) return fail(kind.gone, undefined, "not_found");
+        if (!member || !(await kind.linked(tx, studyId, member.id)))
+          return fail(kind.gone, undefined, "not_found");
         await kind.unlink(tx, studyId, member.id);
         const before = { [key]: member.id, name: member.name };
-        await audit({ action: kind.audit.remove, objectType: "study", objectId: studyId, studyId, before, after: null });
+        await audit({
+          action: kind.audit.remove,
+          objectType: "study",
+          objectId: studyId,
+          studyId,
+          before,
+          after: null,
+        });
         return ok({ studyId, memberId: member.id, name: member.name });
       }
       const found = await kind.find(tx, id);
@@ -116,7 +127,14 @@ function change(kind: Kind, add: boolean, name: string, actorId: number, studyId
       }
       await kind.link(tx, studyId, found.id);
       const after = { [key]: found.id, name: found.name };
-      await audit({ action: kind.audit.add, objectType: "study", objectId: studyId, studyId, before: null, after });
+      await audit({
+        action: kind.audit.add,
+        objectType: "study",
+        objectId: studyId,
+        studyId,
+        before: null,
+        after,
+      });
       return ok({ studyId, memberId: found.id, name: found.name });
     },
   });

@@ -9,7 +9,13 @@ import { fail, ok, type Result } from "@/lib/result";
 import { lockStudy } from "./commands-studies";
 import { planNoteSchema } from "./schemas";
 
-export type PublishedPlan = { studyId: number; planId: number; version: number; planHash: string; note: string | null };
+export type PublishedPlan = {
+  studyId: number;
+  planId: number;
+  version: number;
+  planHash: string;
+  note: string | null;
+};
 
 /**
  * The engine's plan issues as field errors keyed by their dotted path (`columns.3.baseline`,
@@ -44,7 +50,11 @@ export function publishPlanVersion(
     input: { plan: planInput, note },
     invalid: (issues) => fail("Check the note.", { note: issues.map((i) => i.message) }),
     onDuplicate: () =>
-      fail("Someone published a plan version at the same moment; reload the page and try again.", undefined, "conflict"),
+      fail(
+        "Someone published a plan version at the same moment; reload the page and try again.",
+        undefined,
+        "conflict",
+      ),
     run: async ({ tx, actor, input, audit }) => {
       const parsed = parsePlan(input.plan);
       if (!parsed.ok) {
@@ -71,7 +81,10 @@ export function publishPlanVersion(
           "Edit the plan before publishing a new version.";
         return fail(message, undefined, "conflict");
       }
-      const [top] = await tx.select({ v: max(dataPlans.version) }).from(dataPlans).where(eq(dataPlans.studyId, studyId));
+      const [top] = await tx
+        .select({ v: max(dataPlans.version) })
+        .from(dataPlans)
+        .where(eq(dataPlans.studyId, studyId));
       const version = Number(top?.v ?? 0) + 1;
       const [created] = await tx
         .insert(dataPlans)

@@ -5,17 +5,11 @@ import { organisations, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
 import { AppError } from "@/lib/errors";
 import { fail, ok, type Result } from "@/lib/result";
+import { studyRecordColumns, type StudySummary } from "./queries-detail";
 import { createStudySchema, updateStudySchema } from "./schemas";
 
-export type StudyRecord = {
-  id: number;
-  slug: string;
-  title: string;
-  description: string | null;
-  status: "open" | "closed";
-  teamOrganisationId: number | null;
-  currentPlanVersion: number | null;
-};
+/** A study's own row (a StudySummary without the joined team name and the creation time). */
+export type StudyRecord = Omit<StudySummary, "teamOrganisationName" | "createdAt">;
 
 const SLUG_TAKEN = "Another study already uses this address; choose another.";
 export const CHECK_MARKED = "Check the marked fields.";
@@ -23,15 +17,7 @@ export const CHECK_MARKED = "Check the marked fields.";
 /** The study row, locked for the rest of the transaction; AppError("not_found") when there is none. */
 export async function lockStudy(tx: Tx, studyId: number): Promise<StudyRecord> {
   const rows = await tx
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      description: studies.description,
-      status: studies.status,
-      teamOrganisationId: studies.teamOrganisationId,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
+    .select(studyRecordColumns)
     .from(studies)
     .where(eq(studies.id, studyId))
     .for("update")
@@ -42,7 +28,11 @@ export async function lockStudy(tx: Tx, studyId: number): Promise<StudyRecord> {
 }
 
 async function organisationKind(tx: Tx, id: number) {
-  const rows = await tx.select({ kind: organisations.kind }).from(organisations).where(eq(organisations.id, id)).limit(1);
+  const rows = await tx
+    .select({ kind: organisations.kind })
+    .from(organisations)
+    .where(eq(organisations.id, id))
+    .limit(1);
   return rows[0]?.kind ?? null;
 }
 
@@ -63,7 +53,11 @@ export function createStudy(actorId: number, input: unknown): Promise<Result<Stu
     // two people creating the same address at once: the unique key decides
     onDuplicate: taken,
     run: async ({ tx, actor, input: data, audit }) => {
-      const existing = await tx.select({ id: studies.id }).from(studies).where(eq(studies.slug, data.slug)).limit(1);
+      const existing = await tx
+        .select({ id: studies.id })
+        .from(studies)
+        .where(eq(studies.slug, data.slug))
+        .limit(1);
       if (existing.length > 0) return taken();
 
       let teamId = data.teamOrganisationId;
@@ -74,17 +68,31 @@ export function createStudy(actorId: number, input: unknown): Promise<Result<Stu
         const kind = await organisationKind(tx, teamId);
         if (!kind) return fail(CHECK_MARKED, { teamOrganisationId: ["There is no such organisation."] });
         if (kind !== "team") {
-          return fail(CHECK_MARKED, { teamOrganisationId: ["A study is run by a team organisation, not by a provider."] });
+          return fail(CHECK_MARKED, {
+            teamOrganisationId: ["A study is run by a team organisation, not by a provider."],
+          });
         }
       }
-      const values = { slug: data.slug, title: data.title, description: data.description, teamOrganisationId: teamId };
+      const values = {
+        slug: data.slug,
+        title: data.title,
+        description: data.description,
+        teamOrganisationId: teamId,
+      };
       const [created] = await tx
         .insert(studies)
         .values({ ...values, status: "open", createdById: actor.id })
         .$returningId();
       if (!created) throw new Error("insert into studies returned no id");
       const rec: StudyRecord = { id: created.id, ...values, status: "open", currentPlanVersion: null };
-      await audit({ action: "study.create", objectType: "study", objectId: rec.id, studyId: rec.id, before: null, after: rec });
+      await audit({
+        action: "study.create",
+        objectType: "study",
+        objectId: rec.id,
+        studyId: rec.id,
+        before: null,
+        after: rec,
+      });
       return ok(rec);
     },
   });

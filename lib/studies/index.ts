@@ -6,7 +6,13 @@
  */
 export { createStudy, updateStudy, type StudyRecord } from "./commands-studies";
 export { publishPlanVersion, planFieldErrors, type PublishedPlan } from "./commands-plans";
-export { assignAnalyst, unassignAnalyst, admitProvider, removeProvider, type Membership } from "./commands-members";
+export {
+  assignAnalyst,
+  unassignAnalyst,
+  admitProvider,
+  removeProvider,
+  type Membership,
+} from "./commands-members";
 export { getStudyForUser, listStudiesForUser, type StudyDetail, type StudySummary } from "./queries-detail";
 export {
   getCurrentPlanForUser,

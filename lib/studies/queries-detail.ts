@@ -26,15 +26,20 @@ export type StudyDetail = StudySummary & {
   analysts: { id: number; name: string; email: string }[];
 };
 
-const studyColumns = {
+/** A study's own columns (StudyRecord); the writes lock rows with these. */
+export const studyRecordColumns = {
   id: studies.id,
   slug: studies.slug,
   title: studies.title,
   description: studies.description,
   status: studies.status,
   teamOrganisationId: studies.teamOrganisationId,
-  teamOrganisationName: organisations.name,
   currentPlanVersion: studies.currentPlanVersion,
+};
+
+const studyColumns = {
+  ...studyRecordColumns,
+  teamOrganisationName: organisations.name,
   createdAt: studies.createdAt,
 };
 

@@ -17,14 +17,17 @@ function parsed(input: unknown): Plan {
 }
 
 describe("the plan hash", () => {
-  it.each(DEMO_STUDIES.map((s) => [s.slug, s.plan] as const))("the engine and the demo hash %s alike", async (_slug, input) => {
-    const plan = parsed(input);
-    const engine = await hashPlan(plan);
-    expect(engine).toMatch(/^[0-9a-f]{64}$/);
-    expect(engine).toBe(planHash(plan));
-    // and both are sha-256 of the key-sorted JSON text (FIPS 180-4 through Node's crypto)
-    expect(engine).toBe(createHash("sha256").update(canonicalJson(plan)).digest("hex"));
-  });
+  it.each(DEMO_STUDIES.map((s) => [s.slug, s.plan] as const))(
+    "the engine and the demo hash %s alike",
+    async (_slug, input) => {
+      const plan = parsed(input);
+      const engine = await hashPlan(plan);
+      expect(engine).toMatch(/^[0-9a-f]{64}$/);
+      expect(engine).toBe(planHash(plan));
+      // and both are sha-256 of the key-sorted JSON text (FIPS 180-4 through Node's crypto)
+      expect(engine).toBe(createHash("sha256").update(canonicalJson(plan)).digest("hex"));
+    },
+  );
 
   it("does not depend on key order, and changes with any value", async () => {
     const plan = parsed(DEMO_STUDIES[0]!.plan);

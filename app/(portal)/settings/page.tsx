@@ -5,7 +5,7 @@ import { PASSWORD_MIN_LENGTH } from "@/lib/auth/password-rules";
 import { roleLabel } from "@/lib/format";
 import { ApiTokens } from "@/components/settings/api-tokens";
 import { can } from "@/lib/auth/permissions";
-import { listApiTokens } from "@/lib/people/commands-tokens";
+import { listApiTokens } from "@/lib/people";
 import { PasswordForm } from "./password-form";
 import { createTokenAction, revokeTokenAction } from "./token-actions";
 

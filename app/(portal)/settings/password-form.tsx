@@ -1,9 +1,10 @@
 "use client";
 
-import { startTransition, useActionState, useEffect, useRef } from "react";
+import { useActionState, useEffect, useRef } from "react";
 import { signOut } from "next-auth/react";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
+import { submitFormData } from "@/lib/client/submit-form-data";
 import { useHydrated } from "@/lib/client/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
@@ -34,11 +35,7 @@ export function PasswordForm({ minLength }: { minLength: number }) {
     <form
       method="post"
       ref={formRef}
-      onSubmit={(e) => {
-        e.preventDefault();
-        const data = new FormData(e.currentTarget);
-        startTransition(() => action(data));
-      }}
+      onSubmit={submitFormData(action)}
       noValidate
       className="flex max-w-sm flex-col gap-4"
       aria-label="Change your password"

@@ -1,8 +1,9 @@
 "use client";
 
-import { startTransition, useActionState, useEffect, useRef, useState } from "react";
+import { useActionState, useEffect, useRef, useState } from "react";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
+import { submitFormData } from "@/lib/client/submit-form-data";
 import { useHydrated } from "@/lib/client/use-hydrated";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
@@ -38,12 +39,7 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
     <form
       method="post"
       ref={formRef}
-      // submitted by hand so React does not clear the fields when the server sends errors back
-      onSubmit={(e) => {
-        e.preventDefault();
-        const data = new FormData(e.currentTarget);
-        startTransition(() => action(data));
-      }}
+      onSubmit={submitFormData(action)}
       noValidate className="grid max-w-4xl gap-4 sm:grid-cols-2 lg:grid-cols-3" aria-label="Create a user">
       <Field id="new-name" label="Name" errors={errors.name}>
         <Input name="name" autoComplete="off" required maxLength={200} />

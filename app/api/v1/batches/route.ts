@@ -7,6 +7,7 @@ import { parseQuery } from "@/lib/http/parse";
 import { jsonData } from "@/lib/http/respond";
 import { listBatchesForUser } from "@/lib/batches/queries";
 import { AppError } from "@/lib/errors";
+import { fieldErrorsOf } from "@/lib/result";
 import { env } from "@/lib/env";
 import { uploadBatchViaApi } from "@/lib/batches/intake/api-upload";
 import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
@@ -49,7 +50,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
     });
     if (!fields.success) {
       const first = fields.error.issues[0];
-      throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: { [String(first?.path[0] ?? "_form")]: [first?.message ?? "invalid"] } });
+      throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: fieldErrorsOf(fields.error.issues) });
     }
     done = await uploadBatchViaApi(actor, { studySlug: fields.data.study, batchId: fields.data.batch, label: fields.data.label, file: upload.file });
   } finally {

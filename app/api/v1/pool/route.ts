@@ -7,8 +7,20 @@ export const GET = apiRoute({ action: "pool.read" }, async ({ actor }) => {
   const out = [];
   for (const s of await listPoolStudiesForUser(actor)) {
     if (s.currentPlanVersion == null) continue;
-    const { batches, rows, completeCases, parameters, residualDf, dfTarget, headroom } = poolFigures(await loadPool(s));
-    out.push({ slug: s.slug, title: s.title, batches, rows, completeCases, parameters, residualDf, dfTarget, headroom });
+    const { batches, rows, completeCases, parameters, residualDf, dfTarget, headroom } = poolFigures(
+      await loadPool(s),
+    );
+    out.push({
+      slug: s.slug,
+      title: s.title,
+      batches,
+      rows,
+      completeCases,
+      parameters,
+      residualDf,
+      dfTarget,
+      headroom,
+    });
   }
   return jsonData(out);
 });

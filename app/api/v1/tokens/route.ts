@@ -3,7 +3,7 @@ import { apiRoute } from "@/lib/http/route";
 import { parseJsonBody } from "@/lib/http/parse";
 import { jsonData, resultResponse } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
-import { createApiToken, listApiTokens } from "@/lib/people/commands-tokens";
+import { createApiToken, listApiTokens } from "@/lib/people";
 import { createApiTokenSchema } from "@/lib/people/schemas";
 
 export const GET = apiRoute({ action: "token.manage" }, async ({ actor }) => jsonData(await listApiTokens(actor.id)));

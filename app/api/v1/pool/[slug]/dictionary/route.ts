@@ -14,7 +14,9 @@ import {
   recordPoolExport,
 } from "@/lib/pool";
 
-const query = z.object({ format: z.enum(["json", "csv"], { error: "format is json or csv." }).default("json") });
+const query = z.object({
+  format: z.enum(["json", "csv"], { error: "format is json or csv." }).default("json"),
+});
 
 export const GET = apiRoute<{ slug: string }>({ action: "pool.read" }, async ({ req, actor, params }) => {
   const pool = await getPoolForUser(actor, parseParams(params, poolParams).slug);

@@ -17,7 +17,10 @@ export const GET = apiRoute<{ slug: string }>({ action: "pool.read" }, async ({ 
   const q = parseQuery(req, query);
   const r = await getIfAcceptedForUser(actor, q.batch, q.version);
   if (!r || r.studySlug !== slug) {
-    throw new AppError("not_found", "No version ready for review with this id is visible to you in this study.");
+    throw new AppError(
+      "not_found",
+      "No version ready for review with this id is visible to you in this study.",
+    );
   }
   return jsonData({ ...r, before: withoutState(r.before), after: withoutState(r.after) });
 });

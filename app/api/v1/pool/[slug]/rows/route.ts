@@ -11,7 +11,11 @@ export const GET = apiRoute<{ slug: string }>({ action: "pool.read" }, async ({ 
   const pool = await getPoolForUser(actor, parseParams(params, poolParams).slug);
   if (!pool) throw new AppError("not_found", NO_VISIBLE_POOL);
   await recordPoolExport(actor.id, pool, "rows", "csv");
-  return csvResponse(poolCsvStream(pool, (key) => openStoredFile(key)), exportFileName(pool.slug, "rows", "csv"), {
-    "x-pool-rows": String(pool.report.rows.total),
-  });
+  return csvResponse(
+    poolCsvStream(pool, (key) => openStoredFile(key)),
+    exportFileName(pool.slug, "rows", "csv"),
+    {
+      "x-pool-rows": String(pool.report.rows.total),
+    },
+  );
 });

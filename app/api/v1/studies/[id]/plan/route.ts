@@ -10,6 +10,10 @@ export const GET = apiRoute<{ id: string }>({ action: "study.read" }, async ({ a
   const { id } = parseParams(params, studyParams);
   const r = await getCurrentPlanForUser(actor, id);
   if (!r.found) throw new AppError("not_found", "No study with this id is visible to you.");
-  if (!r.plan) throw new AppError("not_found", "This study has no data plan yet; an admin or lead publishes version 1 on the study's plan page.");
+  if (!r.plan)
+    throw new AppError(
+      "not_found",
+      "This study has no data plan yet; an admin or lead publishes version 1 on the study's plan page.",
+    );
   return jsonData(r.plan);
 });
