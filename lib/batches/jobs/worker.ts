@@ -9,10 +9,8 @@
  */
 import os from "node:os";
 import type { Db } from "@/db/client";
-import { checkStream } from "@/lib/readiness/node-stream";
-import { withProposals } from "@/lib/readiness";
-import { parsePlan } from "@/lib/readiness/plan";
-import type { ReadinessReport } from "@/lib/readiness/report";
+import { checkAndPropose } from "./proposals";
+import { parsePlan, type ReadinessReport } from "@/lib/readiness";
 import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";
@@ -162,7 +160,9 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
       const stallMs = opts.stallMs ?? 120_000;
       const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
       const stream = abortable(opened, stopJob.signal, stallMs);
-      report = await checkStream(stream, parsed.plan, {
+      const reopen = () => openFile(job.fileKey).then((s) => abortable(s, stopJob.signal, stallMs));
+      report = await checkAndPropose(stream, reopen, parsed.plan, {
+        job: { signal: stopJob.signal, log, jobId: job.jobId },
         workers: opts.checkWorkers,
         fileName: job.fileName,
         onProgress: (p) => {
@@ -173,16 +173,6 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
           beat();
         },
       });
-      if (report.status === "checked") {
-        // the fix proposals read the file once more (REPORT-FORMAT.md "proposals"); without them the report still stands
-        try {
-          const again = abortable(await within(openFile(job.fileKey), stallMs, "The upload service did not answer."), stopJob.signal, stallMs);
-          report = await withProposals(report, again, parsed.plan);
-        } catch (e) {
-          if (stopJob.signal.aborted) throw e;
-          log(`check job ${job.jobId}: the fix proposals could not be computed (${e instanceof Error ? e.message : String(e)}); the report is stored without them`);
-        }
-      }
     } catch (error) {
       await finish();
       if (stopJob.signal.aborted) {
