@@ -251,3 +251,6 @@ export * from "./schema-pool";
 
 // the rate limits' counters
 export * from "./schema-limits";
+
+// machine-corrected versions: what was applied, and the change log
+export * from "./schema-fixes";

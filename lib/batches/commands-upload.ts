@@ -7,13 +7,14 @@ import { randomBytes } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { DbOrTx } from "@/db/client";
-import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders } from "@/db/schema";
+import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, versionFixes } from "@/db/schema";
 import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import type { Result } from "@/lib/result";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 import { now } from "@/lib/core/clock";
+import type { MachineCorrection } from "./fixes";
 
 export interface UploadTarget {
   studyId: number;
@@ -98,12 +99,15 @@ const uploadTargetSchema = z.object({
 
 /**
  * Record a stored file as the next version of a batch (a new batch when none is named),
- * supersede the previous version, queue its check and write the audit rows.
+ * supersede the previous version, queue its check and write the audit rows. `fix`: the file is
+ * the machine correction of the batch's latest version (./fixes.ts), recorded with its
+ * proposals, change log and approver.
  */
 export function recordBatchVersion(
   actorId: number,
   target: UploadTarget,
   file: StoredFile,
+  fix?: MachineCorrection,
 ): Promise<Result<{ batchPublicId: string; batchId: number; version: number; batchVersionId: number }>> {
   // every path that records a file comes through here: its name is made safe once, for all
   const fileName = cleanFileName(file.name);
@@ -137,6 +141,9 @@ export function recordBatchVersion(
       });
     }
     const version = batch.latestVersion + 1;
+    if (fix && fix.fromVersion !== batch.latestVersion) {
+      return { ok: false, code: "conflict", message: `Version ${batch.latestVersion} is now the latest; apply the fixes to it instead of version ${fix.fromVersion}.` };
+    }
     if (batch.latestVersion > 0) {
       const [prev] = await tx
         .select({ id: batchVersions.id, state: batchVersions.state })
@@ -174,6 +181,15 @@ export function recordBatchVersion(
       action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
       after: { state: "received", version, fileName, fileSize: file.size },
     });
+    if (fix) {
+      await tx.insert(versionFixes).values({
+        batchVersionId: bv.id, fromVersionId: fix.fromVersionId, proposals: fix.proposals, changes: fix.changes, changeCount: fix.changes.length, approvedById: actor.id,
+      });
+      await audit({
+        action: "batch.machine-corrected", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
+        after: { version, fromVersion: fix.fromVersion, proposals: fix.proposals.map((p) => p.id), changes: fix.changes.length },
+      });
+    }
     return { ok: true, data: { batchPublicId: batch.publicId, batchId: batch.id, version, batchVersionId: bv.id } };
     },
   });

@@ -26,6 +26,7 @@ export { listOpenCheckJobs, type CheckJobItem } from "./queries-jobs";
 export { listQueueForUser, QUEUE_STATES, type QueueItem } from "./queries-queue";
 export { getVersionFileKeyForUser, getVersionReportForUser, type VersionReport } from "./queries-reports";
 export { getBatchTrailForUser, type TrailEntry } from "./queries-trail";
+export { getVersionChangesForUser, getVersionFixForUser, type VersionFixView } from "./queries-fixes";
 export { listUploadTargets } from "./queries-upload-targets";
 export { retryFailedJob } from "./commands-jobs";
 export { openStoredFile, StoredFileMissingError, utapi } from "./intake/file-store";

@@ -17,6 +17,7 @@ const ACTIONS: Record<string, string> = {
   "batch.created": "Batch created",
   "batch.received": "Version received",
   "batch.superseded": "Version superseded",
+  "batch.machine-corrected": "Machine-corrected version approved",
   "batch.checked": "Checks finished",
   "batch.recheck": "Re-check requested",
   "batch.accept": "Accepted",
@@ -30,6 +31,8 @@ function describe(action: string, after: unknown): string {
       return `version ${a.version ?? "?"}: ${a.fileName ?? ""}`;
     case "batch.superseded":
       return `by version ${a.by ?? "?"}`;
+    case "batch.machine-corrected":
+      return `version ${a.version ?? "?"} made from version ${a.fromVersion ?? "?"} by applying ${Array.isArray(a.proposals) ? a.proposals.join(", ") : "?"} (${a.changes ?? 0} cells changed)`;
     case "batch.checked":
       return `${a.state ?? ""}: ${a.blockers ?? 0} blockers, ${a.warnings ?? 0} warnings, ${a.notes ?? 0} notes (engine ${a.engineVersion ?? "?"})`;
     case "batch.recheck":

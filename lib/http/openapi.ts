@@ -137,6 +137,14 @@ const ROUTES: Record<string, Partial<Record<"get" | "post" | "patch" | "delete",
       raw: "application/octet-stream",
     },
   },
+  "/api/v1/batches/{id}/versions/{version}/changes": {
+    get: {
+      summary: "The change log of a machine-corrected version (row, column, before, after, proposal), as CSV.",
+      tag: "batches",
+      path: batchVersionParams,
+      raw: "text/csv",
+    },
+  },
   "/api/v1/queue": { get: { summary: "The review queue (analysts).", tag: "batches" } },
   "/api/v1/pool": { get: { summary: "Each visible study's pool in brief.", tag: "pool" } },
   "/api/v1/pool/{slug}": {
@@ -164,6 +172,22 @@ const ROUTES: Record<string, Partial<Record<"get" | "post" | "patch" | "delete",
       tag: "pool",
       path: poolParams,
       query: ifAcceptedQuery,
+    },
+  },
+  "/api/v1/pool/{slug}/poolability": {
+    get: {
+      summary:
+        "The pool's questions as the worker last stored them: Chow tests per batch and provider, the whole-pool test, batch influence, the overall F test.",
+      tag: "pool",
+      path: poolParams,
+    },
+  },
+  "/api/v1/pool/{slug}/selection": {
+    get: {
+      summary:
+        "The selection preview the worker last stored: best subsets by size, forward and backward paths, Cp, AIC, BIC, adjusted R², leave-one-batch-out cross-validation and stability, with the caution.",
+      tag: "pool",
+      path: poolParams,
     },
   },
   "/api/v1/board": { get: { summary: "The leads' status board.", tag: "board", query: boardQuery } },

@@ -114,6 +114,8 @@ export interface ReadOptions {
   isUtf8?: (b: Uint8Array) => boolean;
   /** the delimiter when known (a report's `file.delimiter`); otherwise sniffed from the start */
   delimiter?: string;
+  /** batches carry raw file offsets (FieldBatch.recOffsets, rawEnds): the fixes' rewriter */
+  raw?: boolean;
 }
 
 export interface ReadResult {
@@ -165,7 +167,11 @@ export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions
       }
       sink.onHeader(f, meta!);
     }
-    if (b.count <= first) return;
+    // the rewriter needs the header record's raw offsets even when no data record came with it
+    if (b.count <= first) {
+      if (opts.raw && first === 1) sink.onBatch?.({ ...b, first });
+      return;
+    }
     records += b.count - first;
     if (sink.onBatch) sink.onBatch({ ...b, first });
     else {
@@ -191,7 +197,7 @@ export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions
       meta = { ...s, ...(opts.delimiter ? { delimiter: opts.delimiter } : {}), encoding: "utf-8", bom: skip > 0 };
     }
     const tokLimits = { maxFieldBytes: limits.maxFieldChars, maxRecordBytes: limits.maxRecordChars };
-    tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, { offset: bytes + skip, firstLine: range?.firstLine ?? 1, endOffset: range?.endOffset });
+    tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, { offset: bytes + skip, firstLine: range?.firstLine ?? 1, endOffset: range?.endOffset, raw: opts.raw });
     return skip;
   };
 

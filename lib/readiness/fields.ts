@@ -13,6 +13,10 @@ export interface FieldBatch {
   /** records in the block: first … count − 1 */
   first: number;
   count: number;
+  /** with `raw` tracking only: the file offset where record r starts, and where field f's raw
+   * text (quotes included) ends; field f + 1 starts one byte (the delimiter) after it */
+  recOffsets?: Float64Array;
+  rawEnds?: Float64Array;
 }
 
 const utf8 = new TextDecoder("utf-8");

@@ -34,3 +34,4 @@ export { UnreadableError } from "./decode";
 /** the seeded generator the demo data and tests draw from (Tommy Ettinger's Mulberry32) */
 export { mulberry32 } from "./accumulators";
 export { countOf, detectableR2, formatNumber, niceTicks, pEquals, plainNumber, type NumberPurpose } from "./format-number";
+export * from "./fixes";

@@ -6,6 +6,7 @@
  */
 
 import type { FindingCode } from "./codes";
+import type { FixProposal } from "./fixes/types";
 
 export const REPORT_FORMAT = 1;
 
@@ -113,6 +114,8 @@ export interface ReadinessReport {
   };
   findings: Finding[];
   counts: { blocker: number; warning: number; note: number };
+  /** mechanical fixes the provider can apply (REPORT-FORMAT.md "proposals"); absent when not computed */
+  proposals?: FixProposal[];
   /** serialisable engine state: merges with others into the pool's figures */
   state?: unknown;
   timings?: { ms: number };

@@ -65,14 +65,21 @@ export class Tokenizer {
   private lines: Int32Array<ArrayBuffer> = new Int32Array(1024);
   private count = 0;
   blankLines = 0;
+  /** raw offsets (opt-in: the byte-faithful rewriter needs them, the check does not) */
+  private rawEnds: Float64Array<ArrayBuffer> | null = null;
+  private recOffsets: Float64Array<ArrayBuffer> | null = null;
   /** set once a record would start at or beyond `endOffset` (or the input ended) */
   stoppedAt = -1;
 
   constructor(
     private readonly delimiter: number,
     private readonly limits: TokenizerLimits,
-    opts: { offset?: number; firstLine?: number; endOffset?: number } = {},
+    opts: { offset?: number; firstLine?: number; endOffset?: number; raw?: boolean } = {},
   ) {
+    if (opts.raw) {
+      this.rawEnds = new Float64Array(4096);
+      this.recOffsets = new Float64Array(1024);
+    }
     this.base = opts.offset ?? 0;
     this.line = opts.firstLine ?? 1;
     this.recLine = this.line;
@@ -91,11 +98,17 @@ export class Tokenizer {
     this.append(chunk);
     this.run(last);
     if (this.count > 0) {
-      emit({ buf: this.buf, starts: this.starts, ends: this.ends, recs: this.recs, lines: this.lines, first: 0, count: this.count });
+      const b: FieldBatch = { buf: this.buf, starts: this.starts, ends: this.ends, recs: this.recs, lines: this.lines, first: 0, count: this.count };
+      if (this.rawEnds) {
+        b.rawEnds = this.rawEnds;
+        b.recOffsets = this.recOffsets!;
+      }
+      emit(b);
     }
     const open = this.nf - this.recs[this.count]!;
     this.starts.copyWithin(0, this.recs[this.count]!, this.nf);
     this.ends.copyWithin(0, this.recs[this.count]!, this.nf);
+    this.rawEnds?.copyWithin(0, this.recs[this.count]!, this.nf);
     this.nf = open;
     this.count = 0;
     this.recs[0] = 0;
@@ -128,7 +141,8 @@ export class Tokenizer {
     this.len += chunk.length;
   }
 
-  private endField(s: number, e: number): void {
+  /** `raw`: the buffer index just past the field's raw text (its closing quote and anything after it) */
+  private endField(s: number, e: number, raw: number): void {
     if (e - s > this.limits.maxFieldBytes) throw fieldTooLong(this.recLine, this.nf - this.recs[this.count]! + 1, e - s, this.limits.maxFieldBytes);
     if (this.nf >= this.starts.length) {
       this.starts = grow(this.starts, this.nf + 1);
@@ -136,6 +150,14 @@ export class Tokenizer {
     }
     this.starts[this.nf] = s;
     this.ends[this.nf] = e;
+    if (this.rawEnds) {
+      if (this.nf >= this.rawEnds.length) {
+        const g = new Float64Array(this.starts.length);
+        g.set(this.rawEnds);
+        this.rawEnds = g;
+      }
+      this.rawEnds[this.nf] = this.base + raw;
+    }
     this.nf++;
   }
 
@@ -150,6 +172,14 @@ export class Tokenizer {
       if (this.count + 2 > this.recs.length) this.recs = grow(this.recs, this.count + 2);
       if (this.count + 1 > this.lines.length) this.lines = grow(this.lines, this.count + 1);
       this.lines[this.count] = this.recLine;
+      if (this.recOffsets) {
+        if (this.count >= this.recOffsets.length) {
+          const g = new Float64Array(this.lines.length);
+          g.set(this.recOffsets);
+          this.recOffsets = g;
+        }
+        this.recOffsets[this.count] = this.base + this.recStart;
+      }
       this.count++;
       this.recs[this.count] = this.nf;
     }
@@ -215,7 +245,7 @@ export class Tokenizer {
           i = n;
           break;
         }
-        this.endField(this.fieldStart, j);
+        this.endField(this.fieldStart, j, j);
         i = j + 1;
         at = At.FieldStart;
         if (c !== d) {
@@ -250,7 +280,7 @@ export class Tokenizer {
       // after the closing quote: a delimiter, a line end, or text kept as it is
       const c = b[i]!;
       if (c === d || c === LF || c === CR) {
-        this.endField(this.fieldStart, this.wp);
+        this.endField(this.fieldStart, this.wp, i);
         i++;
         at = At.FieldStart;
         if (c !== d) {
@@ -267,9 +297,9 @@ export class Tokenizer {
     if (!last || this.stoppedAt >= 0) return;
     // the input ends: finish the open record
     if (at === At.Quoted) throw unclosedQuote(this.recLine);
-    if (at === At.Unquoted) this.endField(this.fieldStart, n);
-    else if (at === At.QuoteSeen || at === At.AfterClosingQuote) this.endField(this.fieldStart, this.wp);
-    else if (this.nf > this.recs[this.count]!) this.endField(n, n);
+    if (at === At.Unquoted) this.endField(this.fieldStart, n, n);
+    else if (at === At.QuoteSeen || at === At.AfterClosingQuote) this.endField(this.fieldStart, this.wp, n);
+    else if (this.nf > this.recs[this.count]!) this.endField(n, n, n);
     if (this.nf > this.recs[this.count]!) {
       this.endRecord(n);
       this.line--; // no line break ended it

@@ -11,6 +11,7 @@ import path from "node:path";
 import { beforeAll, describe, expect, test } from "vitest";
 import { ENGINE_VERSION, checkBatch, parsePlan, poolQuestions, type PoolMember } from "@/lib/readiness";
 import { HEADER, chunks, cleanRows, csvOf, plan as planOf, planInput } from "../fixtures/engine/data";
+import { PROCESS_PATIENCE_MS } from "../helpers/processes";
 
 const BIN = path.resolve("lib/readiness/bin/tributary-check.mjs");
 const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tributary-cli-"));
@@ -21,7 +22,7 @@ function cli(...args: string[]) {
 }
 
 function cliWith(opts: { input?: string }, ...args: string[]) {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", timeout: 60_000, input: opts.input });
+  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", timeout: PROCESS_PATIENCE_MS, input: opts.input });
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 

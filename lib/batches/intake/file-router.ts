@@ -16,6 +16,10 @@ export const batchUploadInput = z.object({
   batchId: z.string().min(1).optional(),
   /** a label the provider gives the batch (first version only) */
   label: z.string().max(200).optional(),
+  /** the file is the batch's latest version with these fix proposals applied (issue 12) */
+  fixes: z
+    .object({ fromVersion: z.number().int().positive(), proposals: z.array(z.string().min(1).max(200)).min(1).max(50) })
+    .optional(),
 });
 export type BatchUploadInput = z.infer<typeof batchUploadInput>;
 

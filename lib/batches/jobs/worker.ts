@@ -8,8 +8,8 @@
  * abandoned and the job handed back to the queue with its attempt returned.
  */
 import type { Db } from "@/db/client";
+import { checkAndPropose } from "./proposals";
 import { parsePlan, type ReadinessReport } from "@/lib/readiness";
-import { checkStream } from "@/lib/readiness/node-stream";
 import { sleep } from "@/lib/sleep";
 import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";
@@ -158,7 +158,9 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
       const stallMs = opts.stallMs ?? 120_000;
       const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
       const stream = abortable(opened, stopJob.signal, stallMs);
-      report = await checkStream(stream, parsed.plan, {
+      const reopen = () => openFile(job.fileKey).then((s) => abortable(s, stopJob.signal, stallMs));
+      report = await checkAndPropose(stream, reopen, parsed.plan, {
+        job: { signal: stopJob.signal, log, jobId: job.jobId },
         workers: opts.checkWorkers,
         fileName: job.fileName,
         onProgress: (p) => {

@@ -5,6 +5,7 @@
 import { parseArgs } from "node:util";
 
 export const USAGE = `usage: tributary-check FILE --plan PLAN.json [--json] [--workers N]
+       tributary-check FILE --plan PLAN.json --apply-fixes OUT.csv [--only CODE,…]
        tributary-check FILE --draft-plan [--response COLUMN]
        tributary-check FILE FILE… --pool --plan PLAN.json [--json]
        tributary-check --version
@@ -21,6 +22,10 @@ export interface CliOptions {
   pool: boolean;
   version: boolean;
   help: boolean;
+  /** write the file with the report's fix proposals applied (and OUT.changes.csv beside it) */
+  applyFixes?: string;
+  /** only these proposals (codes or ids) */
+  only?: string[];
 }
 
 /** A mistake in the arguments: the message says what to change (exit code 2). */
@@ -33,6 +38,8 @@ const OPTIONS = {
   response: { type: "string" },
   workers: { type: "string" },
   pool: { type: "boolean" },
+  "apply-fixes": { type: "string" },
+  only: { type: "string" },
   version: { type: "boolean" },
   help: { type: "boolean", short: "h" },
 } as const;
@@ -41,6 +48,8 @@ const NEEDS: Record<string, string> = {
   plan: "--plan needs a file name",
   response: "--response needs a column name",
   workers: "--workers needs a whole number from 1 to 16",
+  "apply-fixes": "--apply-fixes needs the name of the corrected file to write",
+  only: "--only needs proposal codes, e.g. level.variant,number.decimal-comma",
 };
 
 /** parseArgs' own errors in the command's words. */
@@ -73,6 +82,11 @@ export function parseCliArgs(argv: string[], env: Record<string, string | undefi
     pool: v.pool ?? false,
     version: v.version ?? false,
     help: v.help ?? false,
+    applyFixes: v["apply-fixes"],
+    only: v.only
+      ?.split(",")
+      .map((x) => x.trim())
+      .filter(Boolean),
   };
   const workers = v.workers ?? env.TRIBUTARY_WORKERS;
   if (workers !== undefined) {
@@ -96,5 +110,8 @@ export function parseCliArgs(argv: string[], env: Record<string, string | undefi
   if (out.draft && (out.pool || out.files.length > 1))
     throw new UsageError("--draft-plan reads one sample file; leave out --pool");
   if (!out.draft && !out.plan) throw new UsageError("--plan PLAN.json is required (or use --draft-plan)");
+  if (out.only && !out.applyFixes) throw new UsageError("--only goes with --apply-fixes OUT.csv");
+  if (out.applyFixes && (out.pool || out.draft || out.files[0] === "-"))
+    throw new UsageError("--apply-fixes rewrites one named file: give its path (not -) and leave out --pool and --draft-plan");
   return out;
 }

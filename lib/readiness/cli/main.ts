@@ -12,6 +12,7 @@ import { USAGE, UsageError, parseCliArgs, type CliOptions } from "./args";
 import { checkInput, exitCodeOf, inputOf, loadPlan } from "./io";
 import { checkPool, poolExitCode, poolJson, poolSummary } from "./pool";
 import { summary } from "./summary";
+import { applyFixes } from "./fixes";
 
 async function draft(opts: CliOptions): Promise<number> {
   const input = inputOf(opts.files[0]!);
@@ -46,6 +47,10 @@ async function run(opts: CliOptions): Promise<number> {
   }
   const report = await checkInput(inputs[0]!, plan, opts.workers);
   process.stdout.write(opts.json ? `${JSON.stringify(report)}\n` : `${summary(report, inputs[0]!.label)}\n`);
+  if (opts.applyFixes && report.status === "checked") {
+    const failed = await applyFixes(opts.files[0]!, opts.applyFixes, plan, report, opts.only);
+    if (failed) return 2;
+  }
   return exitCodeOf(report);
 }
 

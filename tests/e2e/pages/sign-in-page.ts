@@ -1,4 +1,4 @@
-import { expect, type Locator, type Page } from "@playwright/test";
+import { expect, type Browser, type Locator, type Page } from "@playwright/test";
 
 export const DEMO_PASSWORD = "tributary-demo";
 export const ROLE_HOME = /\/(provider|analyst|lead|admin)$/;
@@ -35,4 +35,12 @@ export class SignInPage {
     // "/" redirects on the server, so the first settled page is the home itself
     await this.page.waitForURL(ROLE_HOME, { waitUntil: "load" });
   }
+}
+
+/** A page in a fresh browser context, signed in as `email` (the specs' usual first step). */
+export async function signedIn(browser: Browser, email: string): Promise<Page> {
+  const context = await browser.newContext();
+  const page = await context.newPage();
+  await new SignInPage(page).signInAs(email);
+  return page;
 }

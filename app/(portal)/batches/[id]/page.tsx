@@ -12,6 +12,9 @@ import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { getBatchForUser } from "@/lib/batches/queries";
 import { getVersionReportForUser } from "@/lib/batches/queries-reports";
+import { getVersionFixForUser } from "@/lib/batches/queries-fixes";
+import { FixPanel } from "@/components/fixes/fix-panel";
+import { MachineCorrected } from "@/components/fixes/machine-corrected";
 import { formatBytes, formatDateTime } from "@/lib/format";
 
 export const metadata = { title: "Batch" };
@@ -40,6 +43,7 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
       };
     }
   }
+  const fix = await getVersionFixForUser(user, id, version.version, batchInfo);
   const isProvider = user.role === "provider" && can(user.role, "batch.upload");
   const canDecide =
     can(user.role, "batch.decide") && version.version === batch.latestVersion && (version.state === "ready" || version.state === "unreadable");
@@ -149,6 +153,12 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
             ) : null}
           </div>
         </Section>
+      ) : null}
+
+      {fix ? <MachineCorrected batchId={batch.publicId} version={version.version} fix={fix} preview={fix.preview} /> : null}
+
+      {canResubmit && report?.status === "checked" ? (
+        <FixPanel batchId={batch.publicId} studySlug={batch.studySlug} version={version.version} fileName={version.fileName} plan={found.plan.plan} report={{ ...report, state: undefined }} />
       ) : null}
 
       {report ? (
