@@ -30,7 +30,9 @@ const engineBoundary = {
 // lib/readiness/package.json exports: "@/lib/readiness" and its subpaths (e.g. "@/lib/readiness/node",
 // Node only). To make a module public, add it to those "exports". Unit tests of the engine's own
 // modules (tests/unit, tests/helpers) may reach inside.
-const enginePackage = JSON.parse(readFileSync(new URL("./lib/readiness/package.json", import.meta.url), "utf8"));
+const enginePackage = JSON.parse(
+  readFileSync(new URL("./lib/readiness/package.json", import.meta.url), "utf8"),
+);
 const publicSubpaths = Object.keys(enginePackage.exports)
   .filter((k) => k !== "." && k !== "./package.json")
   .map((k) => k.slice(2));
@@ -39,7 +41,11 @@ const enginePublic = {
     "@/lib/readiness/*",
     "**/lib/readiness/*",
     "@tributary/readiness/*",
-    ...publicSubpaths.flatMap((p) => [`!@/lib/readiness/${p}`, `!**/lib/readiness/${p}`, `!@tributary/readiness/${p}`]),
+    ...publicSubpaths.flatMap((p) => [
+      `!@/lib/readiness/${p}`,
+      `!**/lib/readiness/${p}`,
+      `!@tributary/readiness/${p}`,
+    ]),
   ],
   message: `Import the engine through its public entries (@/lib/readiness${publicSubpaths.map((p) => `, @/lib/readiness/${p}`).join("")}): export what you need from lib/readiness/index.ts, or list the module in lib/readiness/package.json "exports".`,
 };

@@ -14,7 +14,8 @@ const sans = localFont({
 
 export const metadata: Metadata = {
   title: { default: "Tributary", template: "%s · Tributary" },
-  description: "The intake desk between data providers and analysts: batches checked against a study's data plan.",
+  description:
+    "The intake desk between data providers and analysts: batches checked against a study's data plan.",
 };
 
 export const viewport: Viewport = { themeColor: "#12262E" };

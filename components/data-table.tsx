@@ -1,7 +1,15 @@
 "use client";
 
 import { useId, useMemo, useState, type ReactNode } from "react";
-import { Table, Header, HeaderRow, Body, Row, Cell, HeaderCell } from "@table-library/react-table-library/table";
+import {
+  Table,
+  Header,
+  HeaderRow,
+  Body,
+  Row,
+  Cell,
+  HeaderCell,
+} from "@table-library/react-table-library/table";
 import { useSort, HeaderCellSort } from "@table-library/react-table-library/sort";
 import { useTheme } from "@table-library/react-table-library/theme";
 import type { TableNode } from "@table-library/react-table-library/types/table";
@@ -115,7 +123,9 @@ export function DataTable<T extends TableNode>({
     },
   );
 
-  const template = columns.map((c) => c.width ?? (c.numeric ? "minmax(6rem, 1fr)" : "minmax(9rem, 2fr)")).join(" ");
+  const template = columns
+    .map((c) => c.width ?? (c.numeric ? "minmax(6rem, 1fr)" : "minmax(9rem, 2fr)"))
+    .join(" ");
   const theme = useTheme({
     Table: `--data-table-library_grid-template-columns: ${template}; font-size: 0.8125rem; line-height: 1.25rem;`,
     HeaderRow: `background: #EFEADF; color: #12262E;`,
@@ -148,7 +158,13 @@ export function DataTable<T extends TableNode>({
     const url = URL.createObjectURL(blob);
     const a = document.createElement("a");
     a.href = url;
-    a.download = `${csvName ?? caption.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "")}.csv`;
+    a.download = `${
+      csvName ??
+      caption
+        .toLowerCase()
+        .replace(/[^a-z0-9]+/g, "-")
+        .replace(/^-|-$/g, "")
+    }.csv`;
     document.body.appendChild(a);
     a.click();
     a.remove();
@@ -185,7 +201,13 @@ export function DataTable<T extends TableNode>({
         empty
       ) : (
         <div className="overflow-x-auto rounded border border-silt-line">
-          <Table data={data} sort={sort} theme={theme} layout={{ custom: true, horizontalScroll: true }} aria-label={caption}>
+          <Table
+            data={data}
+            sort={sort}
+            theme={theme}
+            layout={{ custom: true, horizontalScroll: true }}
+            aria-label={caption}
+          >
             {(tableList: T[]) => (
               <>
                 <Header>
@@ -201,7 +223,11 @@ export function DataTable<T extends TableNode>({
                           sortKey={c.key}
                           className={c.numeric ? "th-num" : undefined}
                           aria-sort={
-                            sortState.sortKey === c.key ? (sortState.reverse ? "descending" : "ascending") : "none"
+                            sortState.sortKey === c.key
+                              ? sortState.reverse
+                                ? "descending"
+                                : "ascending"
+                              : "none"
                           }
                         >
                           {c.header}
@@ -222,7 +248,10 @@ export function DataTable<T extends TableNode>({
                   ))}
                   {tableList.length === 0 ? (
                     <tr className="col-span-full">
-                      <td className="px-3 py-4 text-center text-sm text-silt-ink" style={{ gridColumn: "1 / -1" }}>
+                      <td
+                        className="px-3 py-4 text-center text-sm text-silt-ink"
+                        style={{ gridColumn: "1 / -1" }}
+                      >
                         No rows match “{query}”.
                       </td>
                     </tr>

@@ -8,7 +8,14 @@ import { cx } from "@/components/ui/cx";
 export function LogoMark({ size = 28, className }: { size?: number; className?: string }) {
   const clip = `logo-clip-${useId().replace(/:/g, "")}`;
   return (
-    <svg width={size} height={size} viewBox="0 0 32 32" role="img" aria-label="Tributary" className={className}>
+    <svg
+      width={size}
+      height={size}
+      viewBox="0 0 32 32"
+      role="img"
+      aria-label="Tributary"
+      className={className}
+    >
       <defs>
         <clipPath id={clip}>
           <rect width="32" height="32" rx="7" />

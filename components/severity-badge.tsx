@@ -34,7 +34,15 @@ export function SeverityShape({ severity, className }: { severity: Severity; cla
  * A severity told three ways: shape (■ ◇ ○), word and colour.
  * With `count` it reads "3 Blockers"; the word alone is what a screen reader hears.
  */
-export function SeverityBadge({ severity, count, className }: { severity: Severity; count?: number; className?: string }) {
+export function SeverityBadge({
+  severity,
+  count,
+  className,
+}: {
+  severity: Severity;
+  count?: number;
+  className?: string;
+}) {
   const { word, box } = meta[severity];
   const label = count === undefined ? word : `${count} ${count === 1 ? word : `${word}s`}`;
   return (

@@ -38,9 +38,15 @@ export function StateLedger({ counts, label }: { counts: Record<BatchState, numb
       <dl className="mt-2 flex flex-wrap gap-x-5 gap-y-1 text-sm">
         {BATCH_STATES.map((s) => (
           <div key={s} className="flex items-center gap-1.5" data-state={s}>
-            <span aria-hidden="true" className="inline-block h-2.5 w-2.5 rounded-[2px]" style={{ background: STATE_FILL[s] }} />
+            <span
+              aria-hidden="true"
+              className="inline-block h-2.5 w-2.5 rounded-[2px]"
+              style={{ background: STATE_FILL[s] }}
+            />
             <dt className="text-ink-soft">{batchStateLabel(s)}</dt>
-            <dd className={`tabular font-semibold ${counts[s] ? "text-ink" : "text-silt-ink"}`}>{formatCount(counts[s] ?? 0)}</dd>
+            <dd className={`tabular font-semibold ${counts[s] ? "text-ink" : "text-silt-ink"}`}>
+              {formatCount(counts[s] ?? 0)}
+            </dd>
           </div>
         ))}
         <div className="flex items-center gap-1.5 border-l border-silt-line pl-5">

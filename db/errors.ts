@@ -2,7 +2,11 @@
 
 /** A unique index refused the row (ER_DUP_ENTRY), anywhere in the cause chain. */
 export function isDuplicateKey(e: unknown): boolean {
-  for (let c = e as { code?: string; cause?: unknown } | undefined, i = 0; c && i < 4; c = c.cause as typeof c, i++) {
+  for (
+    let c = e as { code?: string; cause?: unknown } | undefined, i = 0;
+    c && i < 4;
+    c = c.cause as typeof c, i++
+  ) {
     if (c.code === "ER_DUP_ENTRY") return true;
   }
   return false;
@@ -31,7 +35,8 @@ const UNAVAILABLE_CODES = new Set([
 /** MariaDB error numbers with the same meaning (server shutting down, connection killed, deadlock, lock wait). */
 const UNAVAILABLE_ERRNOS = new Set([1040, 1053, 1205, 1213, 1927, 2002, 2003, 2006, 2013]);
 
-const UNAVAILABLE_MESSAGES = /connection is in closed state|connection lost|server has gone away|pool is closed|socket hang up/i;
+const UNAVAILABLE_MESSAGES =
+  /connection is in closed state|connection lost|server has gone away|pool is closed|socket hang up/i;
 
 /**
  * True when `error` (or any error in its `cause` chain, as Drizzle wraps driver errors)

@@ -100,7 +100,9 @@ export async function runMigrations(databaseUrl: string): Promise<number> {
 async function appliedCount(connection: mysql.Connection): Promise<number> {
   const [tables] = await connection.query<mysql.RowDataPacket[]>("SHOW TABLES LIKE '__drizzle_migrations'");
   if (tables.length === 0) return 0;
-  const [rows] = await connection.query<mysql.RowDataPacket[]>("SELECT COUNT(*) AS n FROM `__drizzle_migrations`");
+  const [rows] = await connection.query<mysql.RowDataPacket[]>(
+    "SELECT COUNT(*) AS n FROM `__drizzle_migrations`",
+  );
   return Number(rows[0]?.n ?? 0);
 }
 
@@ -109,7 +111,9 @@ async function main(): Promise<void> {
   const started = Date.now();
   try {
     const n = await runMigrations(url);
-    console.log(`migrations: ${n === 0 ? "up to date" : `${n} applied`} (${redact(url)}, ${Date.now() - started} ms)`);
+    console.log(
+      `migrations: ${n === 0 ? "up to date" : `${n} applied`} (${redact(url)}, ${Date.now() - started} ms)`,
+    );
   } catch (err) {
     console.error(`migrations failed: ${describeDbError(err, url)}`);
     process.exit(1);

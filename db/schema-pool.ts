@@ -15,7 +15,9 @@ export const poolQuestions = mysqlTable(
   "pool_questions",
   {
     id: id(),
-    studyId: ref("study_id").notNull().references(() => studies.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
     /** the plan version the figures were computed under */
     planVersion: int("plan_version", { unsigned: true }).notNull(),
     /** the accepted batch version ids the figures cover, ascending */
@@ -36,8 +38,12 @@ export const ifAcceptedQuestions = mysqlTable(
   "if_accepted_questions",
   {
     id: id(),
-    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
-    studyId: ref("study_id").notNull().references(() => studies.id),
+    batchVersionId: ref("batch_version_id")
+      .notNull()
+      .references(() => batchVersions.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
     planVersion: int("plan_version", { unsigned: true }).notNull(),
     /** the accepted version ids of the pool it was added to, ascending */
     versionIds: json("version_ids").$type<number[]>().notNull(),
@@ -46,5 +52,8 @@ export const ifAcceptedQuestions = mysqlTable(
     result: json("result"),
     error: text("error"),
   },
-  (t) => [uniqueIndex("if_accepted_questions_version_uq").on(t.batchVersionId), index("if_accepted_questions_study_idx").on(t.studyId)],
+  (t) => [
+    uniqueIndex("if_accepted_questions_version_uq").on(t.batchVersionId),
+    index("if_accepted_questions_study_idx").on(t.studyId),
+  ],
 );

@@ -18,11 +18,18 @@ import {
 } from "drizzle-orm/mysql-core";
 import { created, id, ref, stamped } from "./columns";
 
-
 export const ROLES = ["provider", "analyst", "lead", "admin"] as const;
 export type UserRole = (typeof ROLES)[number];
 
-export const BATCH_STATES = ["received", "checking", "ready", "accepted", "bounced", "superseded", "unreadable"] as const;
+export const BATCH_STATES = [
+  "received",
+  "checking",
+  "ready",
+  "accepted",
+  "bounced",
+  "superseded",
+  "unreadable",
+] as const;
 export type BatchState = (typeof BATCH_STATES)[number];
 
 export const organisations = mysqlTable(
@@ -80,7 +87,9 @@ export const dataPlans = mysqlTable(
   "data_plans",
   {
     id: id(),
-    studyId: ref("study_id").notNull().references(() => studies.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
     version: int("version", { unsigned: true }).notNull(),
     /** the plan JSON, validated by lib/readiness/plan.ts */
     plan: json("plan").notNull(),
@@ -96,8 +105,12 @@ export type DataPlan = typeof dataPlans.$inferSelect;
 export const studyAnalysts = mysqlTable(
   "study_analysts",
   {
-    studyId: ref("study_id").notNull().references(() => studies.id),
-    userId: ref("user_id").notNull().references(() => users.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
+    userId: ref("user_id")
+      .notNull()
+      .references(() => users.id),
     createdAt: created(),
   },
   (t) => [primaryKey({ columns: [t.studyId, t.userId] }), index("study_analysts_user_idx").on(t.userId)],
@@ -106,11 +119,18 @@ export const studyAnalysts = mysqlTable(
 export const studyProviders = mysqlTable(
   "study_providers",
   {
-    studyId: ref("study_id").notNull().references(() => studies.id),
-    organisationId: ref("organisation_id").notNull().references(() => organisations.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
+    organisationId: ref("organisation_id")
+      .notNull()
+      .references(() => organisations.id),
     createdAt: created(),
   },
-  (t) => [primaryKey({ columns: [t.studyId, t.organisationId] }), index("study_providers_org_idx").on(t.organisationId)],
+  (t) => [
+    primaryKey({ columns: [t.studyId, t.organisationId] }),
+    index("study_providers_org_idx").on(t.organisationId),
+  ],
 );
 
 export const batches = mysqlTable(
@@ -119,8 +139,12 @@ export const batches = mysqlTable(
     id: id(),
     /** random public id used in URLs and the API (not guessable, not sequential) */
     publicId: varchar("public_id", { length: 32 }).notNull(),
-    studyId: ref("study_id").notNull().references(() => studies.id),
-    organisationId: ref("organisation_id").notNull().references(() => organisations.id),
+    studyId: ref("study_id")
+      .notNull()
+      .references(() => studies.id),
+    organisationId: ref("organisation_id")
+      .notNull()
+      .references(() => organisations.id),
     title: varchar("title", { length: 300 }).notNull(),
     latestVersion: int("latest_version", { unsigned: true }).notNull().default(0),
     createdById: ref("created_by_id").references(() => users.id),
@@ -138,10 +162,14 @@ export const batchVersions = mysqlTable(
   "batch_versions",
   {
     id: id(),
-    batchId: ref("batch_id").notNull().references(() => batches.id),
+    batchId: ref("batch_id")
+      .notNull()
+      .references(() => batches.id),
     version: int("version", { unsigned: true }).notNull(),
     /** the plan version this version is checked against */
-    planId: ref("plan_id").notNull().references(() => dataPlans.id),
+    planId: ref("plan_id")
+      .notNull()
+      .references(() => dataPlans.id),
     fileKey: varchar("file_key", { length: 200 }).notNull(),
     fileUrl: varchar("file_url", { length: 1000 }).notNull(),
     fileName: varchar("file_name", { length: 300 }).notNull(),
@@ -197,8 +225,12 @@ export const reports = mysqlTable(
   "reports",
   {
     id: id(),
-    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
-    planId: ref("plan_id").notNull().references(() => dataPlans.id),
+    batchVersionId: ref("batch_version_id")
+      .notNull()
+      .references(() => batchVersions.id),
+    planId: ref("plan_id")
+      .notNull()
+      .references(() => dataPlans.id),
     status: mysqlEnum("status", ["checked", "unreadable"]).notNull(),
     /** the engine's report JSON (lib/readiness/report.ts) */
     report: json("report").notNull(),
@@ -219,10 +251,14 @@ export const decisions = mysqlTable(
   "decisions",
   {
     id: id(),
-    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    batchVersionId: ref("batch_version_id")
+      .notNull()
+      .references(() => batchVersions.id),
     decision: mysqlEnum("decision", ["accept", "bounce"]).notNull(),
     comment: text("comment"),
-    decidedById: ref("decided_by_id").notNull().references(() => users.id),
+    decidedById: ref("decided_by_id")
+      .notNull()
+      .references(() => users.id),
     decidedAt: created(),
   },
   // one decision per version: the second of two concurrent decisions fails on this key
@@ -234,11 +270,15 @@ export const findingComments = mysqlTable(
   {
     id: id(),
     decisionId: ref("decision_id").references(() => decisions.id),
-    batchVersionId: ref("batch_version_id").notNull().references(() => batchVersions.id),
+    batchVersionId: ref("batch_version_id")
+      .notNull()
+      .references(() => batchVersions.id),
     findingCode: varchar("finding_code", { length: 80 }).notNull(),
     columns: varchar("columns", { length: 1000 }).notNull().default(""),
     comment: text("comment").notNull(),
-    authorId: ref("author_id").notNull().references(() => users.id),
+    authorId: ref("author_id")
+      .notNull()
+      .references(() => users.id),
     createdAt: created(),
   },
   (t) => [index("finding_comments_version_idx").on(t.batchVersionId)],

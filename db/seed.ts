@@ -46,13 +46,25 @@ function parsedPlanOrThrow(slug: string, input: unknown): Plan {
 /** Writes the demo scenario into `db` (schema already migrated). Safe to run any number of times. */
 export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
   const plans = DEMO_STUDIES.map((s) => ({ study: s, plan: parsedPlanOrThrow(s.slug, s.plan) }));
-  const summary: SeedSummary = { organisations: 0, users: 0, studies: 0, plansAdded: 0, usersAdded: 0, passwordsReset: 0 };
+  const summary: SeedSummary = {
+    organisations: 0,
+    users: 0,
+    studies: 0,
+    plansAdded: 0,
+    usersAdded: 0,
+    passwordsReset: 0,
+  };
 
   // bcrypt is slow on purpose: hash before the transaction, and only what needs it
   const existing = await db
     .select({ email: users.email, passwordHash: users.passwordHash })
     .from(users)
-    .where(sql`${users.email} in (${sql.join(DEMO_USERS.map((u) => sql`${u.email}`), sql`, `)})`);
+    .where(
+      sql`${users.email} in (${sql.join(
+        DEMO_USERS.map((u) => sql`${u.email}`),
+        sql`, `,
+      )})`,
+    );
   const hashes = new Map<string, string | null>();
   for (const u of DEMO_USERS) {
     const row = existing.find((e) => e.email === u.email);
@@ -63,7 +75,10 @@ export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
 
   await db.transaction(async (tx) => {
     for (const o of DEMO_ORGANISATIONS) {
-      await tx.insert(organisations).values(o).onDuplicateKeyUpdate({ set: { name: o.name, kind: o.kind } });
+      await tx
+        .insert(organisations)
+        .values(o)
+        .onDuplicateKeyUpdate({ set: { name: o.name, kind: o.kind } });
     }
     const orgRows = await tx.select({ id: organisations.id, slug: organisations.slug }).from(organisations);
     const orgId = (slug: string): number => {
@@ -76,15 +91,29 @@ export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
     for (const u of DEMO_USERS) {
       const newHash = hashes.get(u.email) ?? null;
       const [row] = await tx.select({ id: users.id }).from(users).where(eq(users.email, u.email));
-      const identity = { name: u.name, role: u.role, organisationId: orgId(u.organisationSlug), active: u.active };
+      const identity = {
+        name: u.name,
+        role: u.role,
+        organisationId: orgId(u.organisationSlug),
+        active: u.active,
+      };
       if (!row) {
-        await tx.insert(users).values({ email: u.email, ...identity, passwordHash: newHash ?? (await bcrypt.hash(DEMO_PASSWORD, BCRYPT_COST)) });
+        await tx.insert(users).values({
+          email: u.email,
+          ...identity,
+          passwordHash: newHash ?? (await bcrypt.hash(DEMO_PASSWORD, BCRYPT_COST)),
+        });
         summary.usersAdded++;
       } else if (newHash) {
         // a changed password is put back; older sessions of the account stop working
         await tx
           .update(users)
-          .set({ ...identity, passwordHash: newHash, sessionVersion: sql`${users.sessionVersion} + 1`, updatedAt: new Date() })
+          .set({
+            ...identity,
+            passwordHash: newHash,
+            sessionVersion: sql`${users.sessionVersion} + 1`,
+            updatedAt: new Date(),
+          })
           .where(eq(users.id, row.id));
         summary.passwordsReset++;
       } else {
@@ -102,8 +131,16 @@ export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
     for (const { study: s, plan } of plans) {
       await tx
         .insert(studies)
-        .values({ slug: s.slug, title: s.title, description: s.description, teamOrganisationId: orgId(s.teamSlug), createdById: userId(s.createdByEmail) })
-        .onDuplicateKeyUpdate({ set: { title: s.title, description: s.description, teamOrganisationId: orgId(s.teamSlug) } });
+        .values({
+          slug: s.slug,
+          title: s.title,
+          description: s.description,
+          teamOrganisationId: orgId(s.teamSlug),
+          createdById: userId(s.createdByEmail),
+        })
+        .onDuplicateKeyUpdate({
+          set: { title: s.title, description: s.description, teamOrganisationId: orgId(s.teamSlug) },
+        });
       const [studyRow] = await tx.select({ id: studies.id }).from(studies).where(eq(studies.slug, s.slug));
       if (!studyRow) throw new Error(`study "${s.slug}" is missing after the upsert`);
       const studyId = studyRow.id;
@@ -114,20 +151,40 @@ export async function seedDemo(db: SeedDb): Promise<SeedSummary> {
         .from(dataPlans)
         .where(and(eq(dataPlans.studyId, studyId), eq(dataPlans.version, 1)));
       if (!v1) {
-        await tx.insert(dataPlans).values({ studyId, version: 1, plan, planHash: hash, note: s.planNote, createdById: userId(s.createdByEmail) });
+        await tx.insert(dataPlans).values({
+          studyId,
+          version: 1,
+          plan,
+          planHash: hash,
+          note: s.planNote,
+          createdById: userId(s.createdByEmail),
+        });
         summary.plansAdded++;
       } else if (v1.planHash !== hash) {
         // the seed's plan changed: update version 1 only while no batch was checked against it
-        const [used] = await tx.select({ id: batchVersions.id }).from(batchVersions).where(eq(batchVersions.planId, v1.id)).limit(1);
+        const [used] = await tx
+          .select({ id: batchVersions.id })
+          .from(batchVersions)
+          .where(eq(batchVersions.planId, v1.id))
+          .limit(1);
         if (!used) await tx.update(dataPlans).set({ plan, planHash: hash }).where(eq(dataPlans.id, v1.id));
       }
-      await tx.update(studies).set({ currentPlanVersion: 1 }).where(and(eq(studies.id, studyId), isNull(studies.currentPlanVersion)));
+      await tx
+        .update(studies)
+        .set({ currentPlanVersion: 1 })
+        .where(and(eq(studies.id, studyId), isNull(studies.currentPlanVersion)));
 
       for (const email of s.analystEmails) {
-        await tx.insert(studyAnalysts).ignore().values({ studyId, userId: userId(email) });
+        await tx
+          .insert(studyAnalysts)
+          .ignore()
+          .values({ studyId, userId: userId(email) });
       }
       for (const slug of s.providerSlugs) {
-        await tx.insert(studyProviders).ignore().values({ studyId, organisationId: orgId(slug) });
+        await tx
+          .insert(studyProviders)
+          .ignore()
+          .values({ studyId, organisationId: orgId(slug) });
       }
     }
     summary.studies = DEMO_STUDIES.length;
@@ -146,7 +203,9 @@ async function main(): Promise<void> {
         `${s.studies} studies (${s.plansAdded} new plans) in ${redact(url)} (${Date.now() - started} ms)`,
     );
   } catch (err) {
-    console.error(`seed failed: ${err instanceof Error && !("code" in err) ? err.message : describeDbError(err, url)}`);
+    console.error(
+      `seed failed: ${err instanceof Error && !("code" in err) ? err.message : describeDbError(err, url)}`,
+    );
     process.exitCode = 1;
   } finally {
     await pool.end();

@@ -9,14 +9,19 @@ import { parseUploadToken, startUploadFake } from "./upload-service";
 import { startSmtpFake } from "./smtp";
 
 const DEV_TOKEN = Buffer.from(
-  JSON.stringify({ apiKey: "sk_dev_tributary_local_0000000000", appId: "tributary-dev", regions: ["local1"] }),
+  JSON.stringify({
+    apiKey: "sk_dev_tributary_local_0000000000",
+    appId: "tributary-dev",
+    regions: ["local1"],
+  }),
 ).toString("base64");
 
 function port(name: string, fallback: number): number {
   const raw = process.env[name];
   if (raw === undefined || raw === "") return fallback;
   const n = Number(raw);
-  if (!Number.isInteger(n) || n < 0 || n > 65535) throw new Error(`${name} must be a port number, not "${raw}".`);
+  if (!Number.isInteger(n) || n < 0 || n > 65535)
+    throw new Error(`${name} must be a port number, not "${raw}".`);
   return n;
 }
 
@@ -54,7 +59,8 @@ async function main(): Promise<void> {
 
 main().catch((e: unknown) => {
   const err = e as NodeJS.ErrnoException;
-  if (err.code === "EADDRINUSE") console.error(`fakes: a port is already in use (${err.message}). Is another instance running?`);
+  if (err.code === "EADDRINUSE")
+    console.error(`fakes: a port is already in use (${err.message}). Is another instance running?`);
   else console.error(`fakes: ${err.stack ?? err}`);
   process.exit(1);
 });

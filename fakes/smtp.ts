@@ -34,11 +34,26 @@ export type StoredMessage = {
   size: number;
 };
 
-export type MessageSummary = Pick<StoredMessage, "id" | "receivedAt" | "from" | "to" | "subject" | "messageId">;
+export type MessageSummary = Pick<
+  StoredMessage,
+  "id" | "receivedAt" | "from" | "to" | "subject" | "messageId"
+>;
 
-export type SmtpFakeOptions = { smtpPort: number; httpPort: number; dir: string; host?: string; maxMessageBytes?: number };
+export type SmtpFakeOptions = {
+  smtpPort: number;
+  httpPort: number;
+  dir: string;
+  host?: string;
+  maxMessageBytes?: number;
+};
 
-export type SmtpFake = { smtpPort: number; httpPort: number; mailboxUrl: string; smtpUrl: string; close(): Promise<void> };
+export type SmtpFake = {
+  smtpPort: number;
+  httpPort: number;
+  mailboxUrl: string;
+  smtpUrl: string;
+  close(): Promise<void>;
+};
 
 function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
   const list = Array.isArray(a) ? a : a ? [a] : [];
@@ -46,7 +61,14 @@ function addresses(a: AddressObject | AddressObject[] | undefined): string[] {
 }
 
 function summary(m: StoredMessage): MessageSummary {
-  return { id: m.id, receivedAt: m.receivedAt, from: m.from, to: m.to, subject: m.subject, messageId: m.messageId };
+  return {
+    id: m.id,
+    receivedAt: m.receivedAt,
+    from: m.from,
+    to: m.to,
+    subject: m.subject,
+    messageId: m.messageId,
+  };
 }
 
 class Mailbox {
@@ -108,7 +130,10 @@ class Mailbox {
 
 function json(res: import("node:http").ServerResponse, status: number, body: unknown): void {
   const text = JSON.stringify(body);
-  res.writeHead(status, { "content-type": "application/json; charset=utf-8", "content-length": Buffer.byteLength(text) });
+  res.writeHead(status, {
+    "content-type": "application/json; charset=utf-8",
+    "content-length": Buffer.byteLength(text),
+  });
   res.end(text);
 }
 
@@ -119,11 +144,14 @@ function mailboxServer(box: Mailbox): Server {
       const parts = url.pathname.split("/").filter(Boolean);
       if (req.method === "GET" && url.pathname === "/health") return json(res, 200, { ok: true });
       if (parts[0] !== "messages") return json(res, 404, { error: `Nothing at ${url.pathname}.` });
-      if (req.method === "DELETE" && parts.length === 1) return json(res, 200, { deleted: await box.clear() });
+      if (req.method === "DELETE" && parts.length === 1)
+        return json(res, 200, { deleted: await box.clear() });
       if (req.method !== "GET") return json(res, 405, { error: "Use GET, or DELETE /messages." });
       if (parts.length === 1) {
         const to = url.searchParams.get("to")?.toLowerCase();
-        const list = to ? box.messages.filter((m) => m.to.includes(to) || m.cc.includes(to) || m.envelope.to.includes(to)) : box.messages;
+        const list = to
+          ? box.messages.filter((m) => m.to.includes(to) || m.cc.includes(to) || m.envelope.to.includes(to))
+          : box.messages;
         return json(res, 200, { messages: list.map(summary) });
       }
       const msg = box.messages.find((m) => m.id === parts[1]);
@@ -142,7 +170,14 @@ function mailboxServer(box: Mailbox): Server {
   });
 }
 
-function listen(server: { listen: (port: number, host: string, cb: () => void) => unknown; once: (ev: "error", cb: (e: Error) => void) => unknown }, port: number, host: string) {
+function listen(
+  server: {
+    listen: (port: number, host: string, cb: () => void) => unknown;
+    once: (ev: "error", cb: (e: Error) => void) => unknown;
+  },
+  port: number,
+  host: string,
+) {
   return new Promise<void>((resolve, reject) => {
     server.once("error", reject);
     server.listen(port, host, () => resolve());
@@ -168,7 +203,9 @@ export async function startSmtpFake(opts: SmtpFakeOptions): Promise<SmtpFake> {
       stream.on("data", (c: Buffer) => chunks.push(c));
       stream.on("end", () => {
         if ((stream as unknown as { sizeExceeded?: boolean }).sizeExceeded) {
-          return callback(Object.assign(new Error(`Message exceeds ${maxBytes} bytes`), { responseCode: 552 }));
+          return callback(
+            Object.assign(new Error(`Message exceeds ${maxBytes} bytes`), { responseCode: 552 }),
+          );
         }
         const envelope = {
           from: session.envelope.mailFrom ? session.envelope.mailFrom.address.toLowerCase() : null,
@@ -176,7 +213,10 @@ export async function startSmtpFake(opts: SmtpFakeOptions): Promise<SmtpFake> {
         };
         box.add(Buffer.concat(chunks), envelope).then(
           (m) => callback(null, `Queued as ${m.id}`),
-          (e: Error) => callback(Object.assign(new Error(`Could not store the message: ${e.message}`), { responseCode: 451 })),
+          (e: Error) =>
+            callback(
+              Object.assign(new Error(`Could not store the message: ${e.message}`), { responseCode: 451 }),
+            ),
         );
       });
     },

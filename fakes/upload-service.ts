@@ -53,9 +53,11 @@ export function parseUploadToken(token: string): UploadToken {
     throw new Error("UPLOADTHING_TOKEN is not base64-encoded JSON.");
   }
   const t = v as Partial<UploadToken>;
-  if (typeof t.apiKey !== "string" || !t.apiKey.startsWith("sk_")) throw new Error("UPLOADTHING_TOKEN: apiKey must start with sk_.");
+  if (typeof t.apiKey !== "string" || !t.apiKey.startsWith("sk_"))
+    throw new Error("UPLOADTHING_TOKEN: apiKey must start with sk_.");
   if (typeof t.appId !== "string" || t.appId === "") throw new Error("UPLOADTHING_TOKEN: appId is missing.");
-  if (!Array.isArray(t.regions) || t.regions.length === 0) throw new Error("UPLOADTHING_TOKEN: regions must be a non-empty list.");
+  if (!Array.isArray(t.regions) || t.regions.length === 0)
+    throw new Error("UPLOADTHING_TOKEN: regions must be a non-empty list.");
   return { apiKey: t.apiKey, appId: t.appId, regions: t.regions.map(String) };
 }
 
@@ -71,7 +73,11 @@ type Ctx = IngestContext & { devStreamTimeoutMs: number };
 async function handleRouteMetadata(req: IncomingMessage, res: ServerResponse, ctx: Ctx): Promise<void> {
   const body = await readJsonObject(req);
   const keys = body.fileKeys;
-  if (!Array.isArray(keys) || keys.length === 0 || !keys.every((k) => typeof k === "string" && isValidKey(k))) {
+  if (
+    !Array.isArray(keys) ||
+    keys.length === 0 ||
+    !keys.every((k) => typeof k === "string" && isValidKey(k))
+  ) {
     return sendJson(res, 400, { error: "`fileKeys` must be a non-empty list of file keys." });
   }
   if (typeof body.callbackUrl !== "string" || !URL.canParse(body.callbackUrl)) {
@@ -80,7 +86,8 @@ async function handleRouteMetadata(req: IncomingMessage, res: ServerResponse, ct
   if (typeof body.callbackSlug !== "string" || body.callbackSlug === "") {
     return sendJson(res, 400, { error: "`callbackSlug` is missing." });
   }
-  const metadata = body.metadata && typeof body.metadata === "object" ? (body.metadata as Record<string, unknown>) : {};
+  const metadata =
+    body.metadata && typeof body.metadata === "object" ? (body.metadata as Record<string, unknown>) : {};
   const isDev = body.isDev === true;
   let stream: DevStream | null = null;
   if (isDev) {
@@ -126,7 +133,12 @@ function contentDisposition(kind: string, name: string): string {
   return `${kind}; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(name)}`;
 }
 
-async function handleDownload(req: IncomingMessage, res: ServerResponse, key: string, ctx: Ctx): Promise<void> {
+async function handleDownload(
+  req: IncomingMessage,
+  res: ServerResponse,
+  key: string,
+  ctx: Ctx,
+): Promise<void> {
   const f = await ctx.store.get(key);
   if (!f) return sendJson(res, 404, { error: "No such file." });
   if (f.acl === "private") {
@@ -170,7 +182,11 @@ async function route(req: IncomingMessage, res: ServerResponse, ctx: Ctx): Promi
     if (pathname === "/route-metadata") return handleRouteMetadata(req, res, ctx);
     if (pathname === "/callback-result") return handleCallbackResult(req, res, ctx);
     if (pathname.startsWith("/v6/")) {
-      const r = await handleApi(pathname, await readJsonObject(req), { store: ctx.store, apiKey: ctx.apiKey, base: ctx.base });
+      const r = await handleApi(pathname, await readJsonObject(req), {
+        store: ctx.store,
+        apiKey: ctx.apiKey,
+        base: ctx.base,
+      });
       return sendJson(res, r.status, r.json);
     }
   }

@@ -75,7 +75,10 @@ const schema = base.superRefine((e, ctx) => {
   if (e.NODE_ENV !== "production" || e.TRIBUTARY_DEMO === "1") return;
   const refuse = (path: string, message: string) => ctx.addIssue({ code: "custom", path: [path], message });
   if ((PUBLIC_SECRETS.NEXTAUTH_SECRET as readonly string[]).includes(e.NEXTAUTH_SECRET)) {
-    refuse("NEXTAUTH_SECRET", `is a demo value published in this repository; set NEXTAUTH_SECRET to a secret of your own (${GENERATE})`);
+    refuse(
+      "NEXTAUTH_SECRET",
+      `is a demo value published in this repository; set NEXTAUTH_SECRET to a secret of your own (${GENERATE})`,
+    );
   } else if (e.NEXTAUTH_SECRET.length < 32) {
     refuse("NEXTAUTH_SECRET", `must be at least 32 characters in production (${GENERATE})`);
   }
@@ -84,17 +87,26 @@ const schema = base.superRefine((e, ctx) => {
   } else {
     const key = uploadTokenApiKey(e.UPLOADTHING_TOKEN);
     if (key !== null && (PUBLIC_SECRETS.UPLOADTHING_API_KEY as readonly string[]).includes(key)) {
-      refuse("UPLOADTHING_TOKEN", "carries the demo api key published in this repository; set UPLOADTHING_TOKEN to the token of your upload-service app");
+      refuse(
+        "UPLOADTHING_TOKEN",
+        "carries the demo api key published in this repository; set UPLOADTHING_TOKEN to the token of your upload-service app",
+      );
     }
   }
   const creds = databaseCredentials(e.DATABASE_URL);
   if (creds !== null && (PUBLIC_SECRETS.DATABASE_CREDENTIALS as readonly string[]).includes(creds)) {
-    refuse("DATABASE_URL", "uses the demo database user and password published in this repository; create a database user with a password of your own and put it in DATABASE_URL");
+    refuse(
+      "DATABASE_URL",
+      "uses the demo database user and password published in this repository; create a database user with a password of your own and put it in DATABASE_URL",
+    );
   }
   // session cookies are Secure only over https; plain http is for loopback
   const appHttps = e.APP_URL.startsWith("https://");
   if (!appHttps && !isLoopback(e.APP_URL)) {
-    refuse("APP_URL", "must be the app's https:// address in production, so session cookies are sent over TLS only");
+    refuse(
+      "APP_URL",
+      "must be the app's https:// address in production, so session cookies are sent over TLS only",
+    );
   }
   // next-auth names its cookies (__Secure-…) from NEXTAUTH_URL, also where a token is read back
   if (appHttps !== (e.NEXTAUTH_URL ?? "").startsWith("https://")) {
@@ -105,7 +117,9 @@ const schema = base.superRefine((e, ctx) => {
 export type Env = z.infer<typeof schema>;
 
 /** The check without caching, for start-up checks and tests: the parsed settings or a message saying what to set. */
-export function checkEnv(source: Record<string, string | undefined> = process.env): { ok: true; env: Env } | { ok: false; message: string } {
+export function checkEnv(
+  source: Record<string, string | undefined> = process.env,
+): { ok: true; env: Env } | { ok: false; message: string } {
   const r = schema.safeParse(source);
   if (r.success) return { ok: true, env: r.data };
   const lines = r.error.issues.map((i) => `  ${i.path.join(".")}: ${i.message}`).join("\n");
@@ -113,7 +127,10 @@ export function checkEnv(source: Record<string, string | undefined> = process.en
     source.NODE_ENV === "production" && source.TRIBUTARY_DEMO !== "1"
       ? "\nNODE_ENV=production without TRIBUTARY_DEMO=1 refuses the demo secrets of .env.example. For the local demo only, set TRIBUTARY_DEMO=1."
       : "";
-  return { ok: false, message: `The environment is not set up correctly:\n${lines}${demo}\nSee .env.example.` };
+  return {
+    ok: false,
+    message: `The environment is not set up correctly:\n${lines}${demo}\nSee .env.example.`,
+  };
 }
 
 let cached: Env | undefined;
@@ -146,7 +163,8 @@ export function msFromEnv(name: string, fallback: number): number {
   const raw = process.env[name];
   if (raw === undefined || raw.trim() === "") return fallback;
   const n = Number(raw);
-  if (!Number.isInteger(n) || n <= 0) throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
+  if (!Number.isInteger(n) || n <= 0)
+    throw new Error(`${name} must be a positive whole number of milliseconds; it is "${raw}".`);
   return n;
 }
 
@@ -167,6 +185,7 @@ export function checkWorkersFromEnv(): number | undefined {
   const raw = process.env.TRIBUTARY_CHECK_WORKERS;
   if (raw === undefined || raw.trim() === "") return undefined;
   const n = Number(raw);
-  if (!Number.isInteger(n) || n < 1 || n > 16) throw new Error(`TRIBUTARY_CHECK_WORKERS must be a whole number from 1 to 16; it is "${raw}".`);
+  if (!Number.isInteger(n) || n < 1 || n > 16)
+    throw new Error(`TRIBUTARY_CHECK_WORKERS must be a whole number from 1 to 16; it is "${raw}".`);
   return n;
 }

@@ -61,7 +61,9 @@ export function toAppError(e: unknown, context = "request"): AppError {
   if (e instanceof AppError) return e;
   if (isDbUnavailable(e)) {
     console.error(`[tributary] ${context}: the database is unavailable:`, e instanceof Error ? e.message : e);
-    return new AppError("unavailable", "The database is not reachable right now. Try again in a moment.", { cause: e });
+    return new AppError("unavailable", "The database is not reachable right now. Try again in a moment.", {
+      cause: e,
+    });
   }
   console.error(`[tributary] ${context} failed:`, e);
   return new AppError("internal", undefined, { cause: e });

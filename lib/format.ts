@@ -6,7 +6,15 @@
 import type { BatchState, UserRole } from "@/db/schema";
 import { csvCell, formatNumber } from "@/lib/readiness";
 
-export { countOf, detectableR2, formatNumber, niceTicks, pEquals, plainNumber, type NumberPurpose } from "@/lib/readiness";
+export {
+  countOf,
+  detectableR2,
+  formatNumber,
+  niceTicks,
+  pEquals,
+  plainNumber,
+  type NumberPurpose,
+} from "@/lib/readiness";
 
 /** 12345 → "12,345"; null/undefined → "–" (formatNumber's "count"). */
 export function formatCount(n: number | null | undefined): string {
@@ -20,7 +28,8 @@ export function formatCount(n: number | null | undefined): string {
 export function formatHours(h: number | null | undefined): string {
   if (h === null || h === undefined || !Number.isFinite(h)) return "–";
   if (h < 1) return `${formatNumber(h * 60, "count")} min`;
-  if (h < 48) return `${h < 10 ? formatNumber(Math.round(h * 10) / 10, "measure") : formatNumber(h, "count")} h`;
+  if (h < 48)
+    return `${h < 10 ? formatNumber(Math.round(h * 10) / 10, "measure") : formatNumber(h, "count")} h`;
   const d = Math.floor(h / 24);
   return `${d} d ${Math.round(h - d * 24)} h`;
 }
@@ -35,7 +44,9 @@ export function formatBytes(n: number | null | undefined): string {
     v /= 1024;
     u++;
   }
-  return u === 0 ? `${formatNumber(v, "count")} B` : `${formatNumber(Math.round(v * 10) / 10, "measure")} ${units[u]}`;
+  return u === 0
+    ? `${formatNumber(v, "count")} B`
+    : `${formatNumber(Math.round(v * 10) / 10, "measure")} ${units[u]}`;
 }
 
 const dateTimeFmt = new Intl.DateTimeFormat("en-GB", {
@@ -46,7 +57,12 @@ const dateTimeFmt = new Intl.DateTimeFormat("en-GB", {
   minute: "2-digit",
   timeZone: "UTC",
 });
-const dateFmt = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "short", year: "numeric", timeZone: "UTC" });
+const dateFmt = new Intl.DateTimeFormat("en-GB", {
+  day: "numeric",
+  month: "short",
+  year: "numeric",
+  timeZone: "UTC",
+});
 
 function toDate(d: Date | string | number | null | undefined): Date | null {
   if (d === null || d === undefined) return null;

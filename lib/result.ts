@@ -13,7 +13,11 @@ export function ok<T>(data: T): Result<T> {
   return { ok: true, data };
 }
 
-export function fail<T = never>(message: string, fieldErrors?: Record<string, string[]>, code?: ErrorCode): Result<T> {
+export function fail<T = never>(
+  message: string,
+  fieldErrors?: Record<string, string[]>,
+  code?: ErrorCode,
+): Result<T> {
   return {
     ok: false,
     message,
@@ -23,7 +27,9 @@ export function fail<T = never>(message: string, fieldErrors?: Record<string, st
 }
 
 /** Field errors from a zod error, keyed by the top-level field name. */
-export function fieldErrorsOf(issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>): Record<string, string[]> {
+export function fieldErrorsOf(
+  issues: ReadonlyArray<{ path: ReadonlyArray<PropertyKey>; message: string }>,
+): Record<string, string[]> {
   const out: Record<string, string[]> = {};
   for (const issue of issues) {
     const key = issue.path.length > 0 ? String(issue.path[0]) : "_form";

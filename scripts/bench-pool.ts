@@ -5,7 +5,14 @@
  * and leave-one-batch-out cross-validation from the 100 stored states. Prints the time.
  *   npx tsx scripts/bench-pool.ts [--batches N] [--rows N] [--candidates M] [--null]
  */
-import { checkBatch, isEngineState, mulberry32, parsePlan, poolQuestions, type PoolMember } from "@/lib/readiness";
+import {
+  checkBatch,
+  isEngineState,
+  mulberry32,
+  parsePlan,
+  poolQuestions,
+  type PoolMember,
+} from "@/lib/readiness";
 
 const arg = (name: string, fallback: number) => {
   const i = process.argv.indexOf(`--${name}`);

@@ -48,7 +48,9 @@ function numberArg(name: string, fallback: number, min: number, max: number): nu
 }
 
 function usage(message: string): never {
-  console.error(`load: ${message}\nusage: npm run load [-- --providers N --rows N --analysts N --rate REQ_PER_S --check-limit S --timeout S]`);
+  console.error(
+    `load: ${message}\nusage: npm run load [-- --providers N --rows N --analysts N --rate REQ_PER_S --check-limit S --timeout S]`,
+  );
   process.exit(2);
 }
 
@@ -96,18 +98,32 @@ async function warmUp(origin: string, token: string): Promise<void> {
   // one unmeasured request per route, so the figures are of a warm server, not of Next loading route modules
   const auth = { authorization: `Bearer ${token}` };
   await fetch(`${origin}/api/v1/queue`, { headers: auth }).then((r) => r.arrayBuffer());
-  await fetch(`${origin}/api/v1/batches/warm-up/versions/1/report`, { headers: auth }).then((r) => r.arrayBuffer());
-  await fetch(`${origin}/api/v1/batches`, { method: "POST", headers: auth, body: "warm-up" }).then((r) => r.arrayBuffer());
+  await fetch(`${origin}/api/v1/batches/warm-up/versions/1/report`, { headers: auth }).then((r) =>
+    r.arrayBuffer(),
+  );
+  await fetch(`${origin}/api/v1/batches`, { method: "POST", headers: auth, body: "warm-up" }).then((r) =>
+    r.arrayBuffer(),
+  );
 }
 
 async function main(): Promise<number> {
-  const loadAtStart = os.loadavg().map((x) => x.toFixed(2)).join(" ");
-  log(`starting the private stack (database tributary_load, app on 127.0.0.1:3420); log: .data/load/server.log`);
-  stack = await startStack(ROOT, ["--providers", String(settings.providers), "--analysts", String(settings.analysts)], STACK_START_LIMIT_S * 1000, (l) =>
-    console.log(l),
+  const loadAtStart = os
+    .loadavg()
+    .map((x) => x.toFixed(2))
+    .join(" ");
+  log(
+    `starting the private stack (database tributary_load, app on 127.0.0.1:3420); log: .data/load/server.log`,
+  );
+  stack = await startStack(
+    ROOT,
+    ["--providers", String(settings.providers), "--analysts", String(settings.analysts)],
+    STACK_START_LIMIT_S * 1000,
+    (l) => console.log(l),
   );
   const accounts = JSON.parse(readFileSync(stack.accountsFile, "utf8")) as LoadAccounts;
-  log(`generating ${settings.providers} batches of ${settings.rows.toLocaleString("en")} rows (in the upload sender's own process)`);
+  log(
+    `generating ${settings.providers} batches of ${settings.rows.toLocaleString("en")} rows (in the upload sender's own process)`,
+  );
   burst = prepareBurst(ROOT, stack.accountsFile, stack.origin, settings.rows, UPLOAD_TIMEOUT_S);
   log(`each batch file ≈ ${((await burst.ready) / 1e6).toFixed(2)} MB`);
   const firstAnalyst = accounts.analysts[0];
@@ -118,23 +134,33 @@ async function main(): Promise<number> {
   const progress = progressReader(DB_URL, accounts.studySlug);
   let p: CheckProgress;
   try {
-    analysts = startAnalysts(stack.origin, accounts.analysts.map((a) => a.token), rec, {
-      rate: settings.analystRate,
-      maxSeconds: UPLOAD_TIMEOUT_S + checkLimitS + 30,
-    });
+    analysts = startAnalysts(
+      stack.origin,
+      accounts.analysts.map((a) => a.token),
+      rec,
+      {
+        rate: settings.analystRate,
+        maxSeconds: UPLOAD_TIMEOUT_S + checkLimitS + 30,
+      },
+    );
     await new Promise((r) => setTimeout(r, 1000));
     log(`${settings.analysts} analysts polling; ${settings.providers} uploads at once`);
     const ownLoop = watchOwnLoop();
     const sentAt = Date.now();
     rec.measureFrom(sentAt);
     const sent = await burst.go();
-    for (const [at, latency, status] of sent.samples) rec.response("upload", status, latency, Math.round(sent.bytes / sent.samples.length), "", at);
-    for (let i = 0; i < sent.socketErrors; i++) rec.socketError("upload", new Error(sent.errorSamples[i] ?? "socket error"));
+    for (const [at, latency, status] of sent.samples)
+      rec.response("upload", status, latency, Math.round(sent.bytes / sent.samples.length), "", at);
+    for (let i = 0; i < sent.socketErrors; i++)
+      rec.socketError("upload", new Error(sent.errorSamples[i] ?? "socket error"));
     const uploads = sent.outcomes;
     const accepted = uploads.filter((u) => u.status === 201);
     const lastAccepted = Math.max(...accepted.map((u) => u.acceptedAt ?? 0));
-    log(`${accepted.length}/${uploads.length} uploads accepted in ${((lastAccepted - sentAt) / 1000).toFixed(1)} s; waiting for the checks (limit ${checkLimitS} s)`);
-    for (const u of uploads.filter((x) => x.status !== 201)) log(`upload ${u.fileName} refused: ${u.status ?? "no answer"} ${u.error ?? ""}`);
+    log(
+      `${accepted.length}/${uploads.length} uploads accepted in ${((lastAccepted - sentAt) / 1000).toFixed(1)} s; waiting for the checks (limit ${checkLimitS} s)`,
+    );
+    for (const u of uploads.filter((x) => x.status !== 201))
+      log(`upload ${u.fileName} refused: ${u.status ?? "no answer"} ${u.error ?? ""}`);
 
     const until = Date.now() + checkLimitS * 1000;
     let lastSaid = 0;
@@ -153,19 +179,43 @@ async function main(): Promise<number> {
     await analysts.stop();
     p = await progress.read();
     if (!stack.alive()) log("the load stack stopped during the run: see .data/load/logs/");
-    else if (p.reported < p.versions) log(`FAILED: only ${p.reported}/${p.versions} batches were reported within ${checkLimitS} s`);
+    else if (p.reported < p.versions)
+      log(`FAILED: only ${p.reported}/${p.versions} batches were reported within ${checkLimitS} s`);
 
     const figs = (["upload", "queue", "report"] as const).map((e) => rec.figures(e));
     const uploadsEnd = accepted.length ? lastAccepted : doneAt;
-    const phase = (name: string, from: number, to: number) => ({ name, seconds: (to - from) / 1000, queue: rec.window("queue", from, to), report: rec.window("report", from, to) });
+    const phase = (name: string, from: number, to: number) => ({
+      name,
+      seconds: (to - from) / 1000,
+      queue: rec.window("queue", from, to),
+      report: rec.window("report", from, to),
+    });
     const app = appLoopStalls(path.join(OUT_DIR, "logs", "app.log"), sentAt, doneAt);
-    const loop: LoopFigures = { generatorMaxMs, appMaxMs: app.maxMs, appSecondsOver100Ms: app.secondsOver100Ms };
-    const phases = [phase("while the uploads are received", sentAt, uploadsEnd), phase("then, while the checks run", uploadsEnd, doneAt + 1)];
+    const loop: LoopFigures = {
+      generatorMaxMs,
+      appMaxMs: app.maxMs,
+      appSecondsOver100Ms: app.secondsOver100Ms,
+    };
+    const phases = [
+      phase("while the uploads are received", sentAt, uploadsEnd),
+      phase("then, while the checks run", uploadsEnd, doneAt + 1),
+    ];
     const targets = evaluate(settings, figs, uploads, p);
-    const checksWindowMs = p.firstUploadAt && p.lastReportAt ? p.lastReportAt.getTime() - p.firstUploadAt.getTime() : null;
-    const loadAtEnd = os.loadavg().map((x) => x.toFixed(2)).join(" ");
+    const checksWindowMs =
+      p.firstUploadAt && p.lastReportAt ? p.lastReportAt.getTime() - p.firstUploadAt.getTime() : null;
+    const loadAtEnd = os
+      .loadavg()
+      .map((x) => x.toFixed(2))
+      .join(" ");
     const loadAvg = `${os.cpus().length} cores; load average (1/5/15 min) ${loadAtStart} before, ${loadAtEnd} after`;
-    const text = render(settings, figs, uploads, p, targets, { checksWindowMs, uploadBurstMs: accepted.length ? lastAccepted - sentAt : null, loadAvg, reportsOpened: analysts.reportsOpened(), phases, loop });
+    const text = render(settings, figs, uploads, p, targets, {
+      checksWindowMs,
+      uploadBurstMs: accepted.length ? lastAccepted - sentAt : null,
+      loadAvg,
+      reportsOpened: analysts.reportsOpened(),
+      phases,
+      loop,
+    });
     console.log(`\n${text}\n`);
     for (const f of figs) for (const e of f.errorSamples) log(`${f.endpoint} error: ${e}`);
 
@@ -176,7 +226,13 @@ async function main(): Promise<number> {
       figures: figs,
       phases,
       eventLoop: loop,
-      uploads: uploads.map(({ fileName, status, batchId, version, error }) => ({ fileName, status, batchId, version, error })),
+      uploads: uploads.map(({ fileName, status, batchId, version, error }) => ({
+        fileName,
+        status,
+        batchId,
+        version,
+        error,
+      })),
       checks: { ...p, lastUploadToLastReportMs: lastUploadToLastReport(p), checksWindowMs },
       reportsOpened: analysts.reportsOpened(),
       machine: loadAvg,
@@ -184,8 +240,18 @@ async function main(): Promise<number> {
       passed: targets.every((t) => t.met),
     };
     writeFileSync(path.join(OUT_DIR, "last.json"), JSON.stringify(json, null, 2));
-    const timeline = Object.fromEntries((["upload", "queue", "report"] as const).map((e) => [e, rec.samples(e, sentAt)]));
-    writeFileSync(path.join(OUT_DIR, "last-samples.json"), JSON.stringify({ origin: "ms after the uploads were sent", uploadsAcceptedAt: uploadsEnd - sentAt, checksDoneAt: doneAt - sentAt, ...timeline }));
+    const timeline = Object.fromEntries(
+      (["upload", "queue", "report"] as const).map((e) => [e, rec.samples(e, sentAt)]),
+    );
+    writeFileSync(
+      path.join(OUT_DIR, "last-samples.json"),
+      JSON.stringify({
+        origin: "ms after the uploads were sent",
+        uploadsAcceptedAt: uploadsEnd - sentAt,
+        checksDoneAt: doneAt - sentAt,
+        ...timeline,
+      }),
+    );
     log("figures written to .data/load/last.json (every answer's latency: last-samples.json)");
     const missed = targets.filter((t) => !t.met);
     if (missed.length > 0) {

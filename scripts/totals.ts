@@ -63,7 +63,9 @@ export function tallyVitest(label: string, exitCode: number, file: string): Tall
   }
   if (exitCode !== 0 && t.failed === 0) {
     t.failed = 1;
-    t.problems.push(`${label}: exited with code ${exitCode} although no test failed (an unhandled error, see above)`);
+    t.problems.push(
+      `${label}: exited with code ${exitCode} although no test failed (an unhandled error, see above)`,
+    );
   }
   return t;
 }
@@ -121,7 +123,12 @@ function main(): void {
     process.exit(2);
   }
   const total: Tally = { passed: 0, failed: 0, skipped: 0, problems: [] };
-  const lines = fs.existsSync(file) ? fs.readFileSync(file, "utf8").split("\n").filter((l) => l.trim()) : [];
+  const lines = fs.existsSync(file)
+    ? fs
+        .readFileSync(file, "utf8")
+        .split("\n")
+        .filter((l) => l.trim())
+    : [];
   if (lines.length === 0) {
     total.failed = 1;
     total.problems.push("no suite ran");

@@ -33,20 +33,36 @@ for (const sig of ["SIGINT", "SIGTERM"] as const) {
       log(`${sig} again: stopping now`);
       process.exit(1);
     }
-    log(`${sig}: no new jobs; the current check may finish within ${stopGraceMs} ms, else it goes back to the queue`);
+    log(
+      `${sig}: no new jobs; the current check may finish within ${stopGraceMs} ms, else it goes back to the queue`,
+    );
     controller.abort();
   });
 }
 // a stray rejection (e.g. a pool error event while the database restarts) is logged, not fatal
-process.on("unhandledRejection", (reason) => log(`unhandled rejection: ${reason instanceof Error ? reason.message : String(reason)}`));
+process.on("unhandledRejection", (reason) =>
+  log(`unhandled rejection: ${reason instanceof Error ? reason.message : String(reason)}`),
+);
 
 const workerId = defaultWorkerId();
 log(`started as ${workerId}`);
 await Promise.all([
-  runWorker({ db: getDb(), openFile: openStoredFile, workerId, signal: controller.signal, stopGraceMs, pollMs, stallMs, checkWorkers, log }),
+  runWorker({
+    db: getDb(),
+    openFile: openStoredFile,
+    workerId,
+    signal: controller.signal,
+    stopGraceMs,
+    pollMs,
+    stallMs,
+    checkWorkers,
+    log,
+  }),
   runPoolQuestionsWorker({ db: getDb(), workerId, signal: controller.signal, pollMs, log }),
   runMailSender({ signal: controller.signal, intervalMs: 1000 }),
   runDigestSchedule({ signal: controller.signal, log }),
 ]);
-await getPool().end().catch(() => undefined);
+await getPool()
+  .end()
+  .catch(() => undefined);
 log("stopped");

@@ -5,7 +5,10 @@ import type { DefaultSession } from "next-auth";
 
 declare module "next-auth" {
   interface Session {
-    user: { id: number; email: string; name: string; role: UserRole } & Omit<NonNullable<DefaultSession["user"]>, "email" | "name">;
+    user: { id: number; email: string; name: string; role: UserRole } & Omit<
+      NonNullable<DefaultSession["user"]>,
+      "email" | "name"
+    >;
     sv: number;
   }
   interface User {

@@ -8,6 +8,10 @@ export async function requestResetAction(email: string): Promise<Result<null>> {
   return requestPasswordReset(email, { ip: await requestAddress() });
 }
 
-export async function setPasswordAction(token: string, password: string, confirmPassword: string): Promise<Result<{ email: string }>> {
+export async function setPasswordAction(
+  token: string,
+  password: string,
+  confirmPassword: string,
+): Promise<Result<{ email: string }>> {
   return setPasswordWithLink(token, { password, confirmPassword });
 }

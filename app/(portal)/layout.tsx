@@ -6,7 +6,10 @@ export default async function PortalLayout({ children }: { children: React.React
   const user = await requireUser();
   return (
     <div className="flex min-h-screen flex-col">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:bg-white focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-10 focus:bg-white focus:p-2"
+      >
         Skip to content
       </a>
       <TopBar user={user} />

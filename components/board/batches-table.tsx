@@ -22,13 +22,51 @@ export type BoardBatchRow = {
 const columns: Column<BoardBatchRow>[] = [
   { key: "study", header: "Study", value: (r) => r.studyTitle, width: "minmax(10rem, 1.3fr)" },
   { key: "org", header: "Provider", value: (r) => r.organisationName, width: "minmax(9rem, 1.1fr)" },
-  { key: "title", header: "Batch", value: (r) => r.title, render: (r) => <Link className="text-channel underline" href={`/batches/${r.batchPublicId}?v=${r.version}`}>{r.title}</Link>, width: "minmax(12rem, 2fr)" },
+  {
+    key: "title",
+    header: "Batch",
+    value: (r) => r.title,
+    render: (r) => (
+      <Link className="text-channel underline" href={`/batches/${r.batchPublicId}?v=${r.version}`}>
+        {r.title}
+      </Link>
+    ),
+    width: "minmax(12rem, 2fr)",
+  },
   { key: "version", header: "Version", value: (r) => r.version, numeric: true, width: "5rem" },
-  { key: "state", header: "State", value: (r) => batchStateLabel(r.state), render: (r) => <StateBadge state={r.state} />, width: "9rem" },
-  { key: "since", header: "In state since", value: (r) => r.stateChangedAt, render: (r) => formatDateTime(r.stateChangedAt), width: "10rem" },
-  { key: "hours", header: "Time in state (hours)", value: (r) => Number(r.hoursInState.toFixed(2)), render: (r) => formatHours(r.hoursInState), numeric: true, width: "9rem" },
+  {
+    key: "state",
+    header: "State",
+    value: (r) => batchStateLabel(r.state),
+    render: (r) => <StateBadge state={r.state} />,
+    width: "9rem",
+  },
+  {
+    key: "since",
+    header: "In state since",
+    value: (r) => r.stateChangedAt,
+    render: (r) => formatDateTime(r.stateChangedAt),
+    width: "10rem",
+  },
+  {
+    key: "hours",
+    header: "Time in state (hours)",
+    value: (r) => Number(r.hoursInState.toFixed(2)),
+    render: (r) => formatHours(r.hoursInState),
+    numeric: true,
+    width: "9rem",
+  },
 ];
 
 export function BoardBatchesTable({ rows }: { rows: BoardBatchRow[] }) {
-  return <DataTable rows={rows} columns={columns} caption="Batches by state" csvName="board-batches" filterPlaceholder="Filter by study, provider, batch or state" empty="No batch has arrived yet." />;
+  return (
+    <DataTable
+      rows={rows}
+      columns={columns}
+      caption="Batches by state"
+      csvName="board-batches"
+      filterPlaceholder="Filter by study, provider, batch or state"
+      empty="No batch has arrived yet."
+    />
+  );
 }

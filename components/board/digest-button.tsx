@@ -11,8 +11,14 @@ export function DigestButton() {
     setMessage(null);
     try {
       const res = await fetch("/api/v1/board/digest", { method: "POST" });
-      const body = (await res.json().catch(() => null)) as { data?: { queued: number; recipients: number }; error?: { message: string } } | null;
-      if (res.ok && body?.data) setMessage(`Digest queued for ${body.data.queued} of ${body.data.recipients} ${body.data.recipients === 1 ? "lead" : "leads"}; it goes out within a minute.`);
+      const body = (await res.json().catch(() => null)) as {
+        data?: { queued: number; recipients: number };
+        error?: { message: string };
+      } | null;
+      if (res.ok && body?.data)
+        setMessage(
+          `Digest queued for ${body.data.queued} of ${body.data.recipients} ${body.data.recipients === 1 ? "lead" : "leads"}; it goes out within a minute.`,
+        );
       else setMessage(body?.error?.message ?? "The digest could not be queued. Try again in a minute.");
     } catch {
       setMessage("The server did not answer. Check your connection and try again.");
@@ -22,7 +28,9 @@ export function DigestButton() {
   }
   return (
     <div className="flex items-center gap-3">
-      <span role="status" aria-live="polite" className="text-sm text-ink-soft">{message}</span>
+      <span role="status" aria-live="polite" className="text-sm text-ink-soft">
+        {message}
+      </span>
       <Button variant="secondary" size="sm" busy={busy} onClick={send} data-testid="send-digest">
         Send digest now
       </Button>

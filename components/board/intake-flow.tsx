@@ -9,9 +9,22 @@ import { batchStateLabel, formatCount } from "@/lib/format";
 
 type Flow = { from: string; to: string; versions: number }[];
 
-const COLUMNS: BatchState[][] = [["received"], ["checking"], ["ready", "unreadable"], ["accepted", "bounced", "superseded"]];
+const COLUMNS: BatchState[][] = [
+  ["received"],
+  ["checking"],
+  ["ready", "unreadable"],
+  ["accepted", "bounced", "superseded"],
+];
 
-export function IntakeFlow({ flow, received, sinceLabel }: { flow: Flow; received: number; sinceLabel: string }) {
+export function IntakeFlow({
+  flow,
+  received,
+  sinceLabel,
+}: {
+  flow: Flow;
+  received: number;
+  sinceLabel: string;
+}) {
   const W = 760;
   const H = 220;
   const nodeW = 12;
@@ -39,8 +52,15 @@ export function IntakeFlow({ flow, received, sinceLabel }: { flow: Flow; receive
     }
   });
   const links: { from: string; to: string; v: number }[] = [
-    ["received", "checking"], ["checking", "ready"], ["checking", "unreadable"], ["ready", "accepted"], ["ready", "bounced"], ["ready", "superseded"],
-  ].map(([a, b]) => ({ from: a!, to: b!, v: get(a!, b!) })).filter((l) => l.v > 0);
+    ["received", "checking"],
+    ["checking", "ready"],
+    ["checking", "unreadable"],
+    ["ready", "accepted"],
+    ["ready", "bounced"],
+    ["ready", "superseded"],
+  ]
+    .map(([a, b]) => ({ from: a!, to: b!, v: get(a!, b!) }))
+    .filter((l) => l.v > 0);
   const waitingInReady = value.ready! - value.accepted! - value.bounced! - value.superseded!;
   const stillReceived = received - value.checking!;
   const summary = `Since ${sinceLabel}: ${received} versions received, ${value.checking} checked, ${value.ready} awaiting review, ${value.unreadable} unreadable, ${value.accepted} accepted, ${value.bounced} bounced, ${value.superseded} superseded before a decision, ${waitingInReady} still waiting for a decision.`;
@@ -69,7 +89,12 @@ export function IntakeFlow({ flow, received, sinceLabel }: { flow: Flow; receive
           p.h > 0 ? (
             <g key={s}>
               <rect x={p.x} y={p.y} width={nodeW} height={p.h} fill={STATE_FILL[s as BatchState]} />
-              <text x={p.x + nodeW + 4} y={p.y + Math.min(p.h / 2 + 4, p.h + 10)} fontSize="11" fill="#12262E">
+              <text
+                x={p.x + nodeW + 4}
+                y={p.y + Math.min(p.h / 2 + 4, p.h + 10)}
+                fontSize="11"
+                fill="#12262E"
+              >
                 {batchStateLabel(s)} {formatCount(value[s])}
               </text>
             </g>

@@ -2,7 +2,17 @@
 import Link from "next/link";
 import { formatCount } from "@/lib/format";
 
-export type HeadroomRow = { studySlug: string; studyTitle: string; batches: number; completeCases: number; parameters: number; residualDf: number; dfTarget: number; headroom: number; error?: string };
+export type HeadroomRow = {
+  studySlug: string;
+  studyTitle: string;
+  batches: number;
+  completeCases: number;
+  parameters: number;
+  residualDf: number;
+  dfTarget: number;
+  headroom: number;
+  error?: string;
+};
 
 export function PoolHeadroom({ rows }: { rows: HeadroomRow[] }) {
   const scale = Math.max(1, ...rows.map((r) => Math.max(r.residualDf, r.dfTarget))) * 1.1;
@@ -24,9 +34,15 @@ export function PoolHeadroom({ rows }: { rows: HeadroomRow[] }) {
       <tbody>
         {rows.map((r) => (
           <tr key={r.studySlug} className="border-b border-silt-line/50">
-            <td className="py-1 pr-4"><Link className="text-channel underline" href={`/pool/${r.studySlug}`}>{r.studyTitle}</Link></td>
+            <td className="py-1 pr-4">
+              <Link className="text-channel underline" href={`/pool/${r.studySlug}`}>
+                {r.studyTitle}
+              </Link>
+            </td>
             {r.error ? (
-              <td colSpan={7} className="py-1 text-clay-ink">{r.error}</td>
+              <td colSpan={7} className="py-1 text-clay-ink">
+                {r.error}
+              </td>
             ) : (
               <>
                 <td className="py-1 pr-4 text-right">{r.batches}</td>
@@ -34,12 +50,29 @@ export function PoolHeadroom({ rows }: { rows: HeadroomRow[] }) {
                 <td className="py-1 pr-4 text-right">{r.parameters}</td>
                 <td className="py-1 pr-4 text-right">{formatCount(r.residualDf)}</td>
                 <td className="py-1 pr-4 text-right">{formatCount(r.dfTarget)}</td>
-                <td className={`py-1 pr-4 text-right ${r.headroom >= 0 ? "text-reed-ink" : "text-ochre-ink"}`}>{r.headroom >= 0 ? `+${formatCount(r.headroom)}` : `${formatCount(-r.headroom)} short`}</td>
+                <td
+                  className={`py-1 pr-4 text-right ${r.headroom >= 0 ? "text-reed-ink" : "text-ochre-ink"}`}
+                >
+                  {r.headroom >= 0 ? `+${formatCount(r.headroom)}` : `${formatCount(-r.headroom)} short`}
+                </td>
                 <td className="py-1">
                   <svg viewBox="0 0 200 14" className="h-3.5 w-full" aria-hidden="true">
                     <rect x="0" y="3" width="200" height="8" fill="#EFEADF" />
-                    <rect x="0" y="3" width={(Math.max(0, r.residualDf) / scale) * 200} height="8" fill={r.headroom >= 0 ? "#4F7A32" : "#A8660B"} />
-                    <line x1={(r.dfTarget / scale) * 200} x2={(r.dfTarget / scale) * 200} y1="0" y2="14" stroke="#12262E" strokeWidth="2" />
+                    <rect
+                      x="0"
+                      y="3"
+                      width={(Math.max(0, r.residualDf) / scale) * 200}
+                      height="8"
+                      fill={r.headroom >= 0 ? "#4F7A32" : "#A8660B"}
+                    />
+                    <line
+                      x1={(r.dfTarget / scale) * 200}
+                      x2={(r.dfTarget / scale) * 200}
+                      y1="0"
+                      y2="14"
+                      stroke="#12262E"
+                      strokeWidth="2"
+                    />
                   </svg>
                 </td>
               </>

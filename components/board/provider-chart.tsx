@@ -15,22 +15,53 @@ const columns: Column<ProviderRow>[] = [
   { key: "org", header: "Provider", value: (r) => r.organisationName, width: "minmax(9rem, 1.2fr)" },
   { key: "batches", header: "Batches", value: (r) => r.batches, numeric: true, width: "6rem" },
   { key: "versions", header: "Versions", value: (r) => r.versions, numeric: true, width: "6rem" },
-  { key: "vpb", header: "Versions per batch", value: (r) => (r.versionsPerBatch === null ? null : Number(r.versionsPerBatch.toFixed(2))), render: (r) => formatNumber(r.versionsPerBatch, "estimate"), numeric: true, width: "9rem" },
+  {
+    key: "vpb",
+    header: "Versions per batch",
+    value: (r) => (r.versionsPerBatch === null ? null : Number(r.versionsPerBatch.toFixed(2))),
+    render: (r) => formatNumber(r.versionsPerBatch, "estimate"),
+    numeric: true,
+    width: "9rem",
+  },
   { key: "accepted", header: "Accepted", value: (r) => r.accepted, numeric: true, width: "6.5rem" },
   { key: "bounced", header: "Bounced", value: (r) => r.bounced, numeric: true, width: "6.5rem" },
-  { key: "rate", header: "Bounce rate", value: (r) => (r.bounceRate === null ? null : Number(r.bounceRate.toFixed(4))), render: (r) => pct(r.bounceRate), numeric: true, width: "7rem" },
+  {
+    key: "rate",
+    header: "Bounce rate",
+    value: (r) => (r.bounceRate === null ? null : Number(r.bounceRate.toFixed(4))),
+    render: (r) => pct(r.bounceRate),
+    numeric: true,
+    width: "7rem",
+  },
 ];
 
 export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
-  const decided = rows.filter((r) => r.bounceRate !== null).map((r) => ({ name: `${r.organisationName} · ${r.studyTitle}`, rate: Math.round((r.bounceRate ?? 0) * 100), vpb: r.versionsPerBatch }));
+  const decided = rows
+    .filter((r) => r.bounceRate !== null)
+    .map((r) => ({
+      name: `${r.organisationName} · ${r.studyTitle}`,
+      rate: Math.round((r.bounceRate ?? 0) * 100),
+      vpb: r.versionsPerBatch,
+    }));
   return (
     <div className="grid gap-4">
       {decided.length ? (
-        <figure className="w-full max-w-4xl" style={{ height: 40 + 30 * decided.length }} aria-label="Bounce rate by provider organisation, per cent of decisions" data-testid="provider-chart">
+        <figure
+          className="w-full max-w-4xl"
+          style={{ height: 40 + 30 * decided.length }}
+          aria-label="Bounce rate by provider organisation, per cent of decisions"
+          data-testid="provider-chart"
+        >
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={decided} layout="vertical" margin={{ top: 4, right: 24, bottom: 4, left: 8 }}>
               <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" horizontal={false} />
-              <XAxis type="number" domain={[0, 100]} ticks={[0, 25, 50, 75, 100]} unit=" %" tick={{ fontSize: 12, fill: "#6B6354" }} />
+              <XAxis
+                type="number"
+                domain={[0, 100]}
+                ticks={[0, 25, 50, 75, 100]}
+                unit=" %"
+                tick={{ fontSize: 12, fill: "#6B6354" }}
+              />
               <YAxis type="category" dataKey="name" width={260} tick={{ fontSize: 12, fill: "#12262E" }} />
               <Tooltip formatter={(v) => `${v} % bounced`} />
               <Bar dataKey="rate" name="bounce rate" fill="#A63D24" isAnimationActive={false} />
@@ -38,7 +69,9 @@ export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
           </ResponsiveContainer>
         </figure>
       ) : (
-        <p className="text-sm text-silt-ink">No decision yet: bounce rates appear after the first accept or bounce.</p>
+        <p className="text-sm text-silt-ink">
+          No decision yet: bounce rates appear after the first accept or bounce.
+        </p>
       )}
       <DataTable rows={rows} columns={columns} caption="Providers" csvName="board-providers" />
     </div>

@@ -5,13 +5,32 @@ import { DataTable, type Column } from "@/components/data-table";
 import { formatCount, niceTicks } from "@/lib/format";
 import { formatHours } from "./format";
 
-export type TurnaroundRow = { week: string; decisions: number; medianHours: number | null; p90Hours: number | null };
+export type TurnaroundRow = {
+  week: string;
+  decisions: number;
+  medianHours: number | null;
+  p90Hours: number | null;
+};
 
 const columns: Column<TurnaroundRow & { id: string }>[] = [
   { key: "week", header: "Week from (Monday)", value: (r) => r.week, width: "10rem" },
   { key: "n", header: "Decisions", value: (r) => r.decisions, numeric: true, width: "7rem" },
-  { key: "median", header: "Median (hours)", value: (r) => (r.medianHours === null ? null : Number(r.medianHours.toFixed(2))), render: (r) => formatHours(r.medianHours), numeric: true, width: "9rem" },
-  { key: "p90", header: "90th percentile (hours)", value: (r) => (r.p90Hours === null ? null : Number(r.p90Hours.toFixed(2))), render: (r) => formatHours(r.p90Hours), numeric: true, width: "11rem" },
+  {
+    key: "median",
+    header: "Median (hours)",
+    value: (r) => (r.medianHours === null ? null : Number(r.medianHours.toFixed(2))),
+    render: (r) => formatHours(r.medianHours),
+    numeric: true,
+    width: "9rem",
+  },
+  {
+    key: "p90",
+    header: "90th percentile (hours)",
+    value: (r) => (r.p90Hours === null ? null : Number(r.p90Hours.toFixed(2))),
+    render: (r) => formatHours(r.p90Hours),
+    numeric: true,
+    width: "11rem",
+  },
 ];
 
 export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
@@ -22,16 +41,45 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
   return (
     <div className="grid gap-4">
       {any ? (
-        <figure className="h-64 w-full max-w-4xl" aria-label="Turnaround from upload to decision by week, median and 90th percentile in hours" data-testid="turnaround-chart">
+        <figure
+          className="h-64 w-full max-w-4xl"
+          aria-label="Turnaround from upload to decision by week, median and 90th percentile in hours"
+          data-testid="turnaround-chart"
+        >
           <ResponsiveContainer width="100%" height="100%">
             <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
               <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
               <XAxis dataKey="label" tick={{ fontSize: 12, fill: "#6B6354" }} />
-              <YAxis domain={[0, ticks[ticks.length - 1] ?? 1]} ticks={ticks} tick={{ fontSize: 12, fill: "#6B6354" }} tickFormatter={(v: number) => `${formatCount(v)} h`} width={64} />
+              <YAxis
+                domain={[0, ticks[ticks.length - 1] ?? 1]}
+                ticks={ticks}
+                tick={{ fontSize: 12, fill: "#6B6354" }}
+                tickFormatter={(v: number) => `${formatCount(v)} h`}
+                width={64}
+              />
               <Tooltip formatter={(v) => formatHours(typeof v === "number" ? v : null)} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
-              <Line type="monotone" dataKey="medianHours" name="median" stroke="#1F6F78" strokeWidth={2} connectNulls dot={{ r: 3 }} isAnimationActive={false} />
-              <Line type="monotone" dataKey="p90Hours" name="90th percentile" stroke="#A8660B" strokeWidth={2} strokeDasharray="5 3" connectNulls dot={{ r: 3, strokeDasharray: "" }} isAnimationActive={false} />
+              <Line
+                type="monotone"
+                dataKey="medianHours"
+                name="median"
+                stroke="#1F6F78"
+                strokeWidth={2}
+                connectNulls
+                dot={{ r: 3 }}
+                isAnimationActive={false}
+              />
+              <Line
+                type="monotone"
+                dataKey="p90Hours"
+                name="90th percentile"
+                stroke="#A8660B"
+                strokeWidth={2}
+                strokeDasharray="5 3"
+                connectNulls
+                dot={{ r: 3, strokeDasharray: "" }}
+                isAnimationActive={false}
+              />
             </LineChart>
           </ResponsiveContainer>
         </figure>

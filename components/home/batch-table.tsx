@@ -40,14 +40,23 @@ export function BatchTable({
       width: "minmax(12rem, 3fr)",
       value: (r) => r.title,
       render: (r) => (
-        <Link href={`/batches/${r.publicId}`} className="font-semibold text-channel underline-offset-2 hover:underline">
+        <Link
+          href={`/batches/${r.publicId}`}
+          className="font-semibold text-channel underline-offset-2 hover:underline"
+        >
           {r.title}
         </Link>
       ),
     },
     { key: "study", header: "Study", width: "minmax(12rem, 3fr)", value: (r) => r.studyTitle },
   ];
-  if (showProvider) columns.push({ key: "provider", header: "Provider", width: "minmax(10rem, 2fr)", value: (r) => r.organisationName });
+  if (showProvider)
+    columns.push({
+      key: "provider",
+      header: "Provider",
+      width: "minmax(10rem, 2fr)",
+      value: (r) => r.organisationName,
+    });
   columns.push(
     { key: "version", header: "Version", numeric: true, width: "5rem", value: (r) => r.latestVersion },
     {
@@ -55,7 +64,8 @@ export function BatchTable({
       header: "State",
       width: "9rem",
       value: (r) => r.state,
-      render: (r) => (r.state ? <StateBadge state={r.state} /> : <span className="text-silt-ink">no file yet</span>),
+      render: (r) =>
+        r.state ? <StateBadge state={r.state} /> : <span className="text-silt-ink">no file yet</span>,
     },
     {
       key: "file",

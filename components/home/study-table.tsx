@@ -25,7 +25,15 @@ function count(key: BatchState, header: string): Column<StudyRow> {
 }
 
 /** Studies with their batches by state; the provider, analyst and lead homes show different columns. */
-export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; variant: "provider" | "analyst" | "lead"; caption: string }) {
+export function StudyTable({
+  rows,
+  variant,
+  caption,
+}: {
+  rows: StudyRow[];
+  variant: "provider" | "analyst" | "lead";
+  caption: string;
+}) {
   const columns: Column<StudyRow>[] = [
     {
       key: "title",
@@ -34,7 +42,10 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
       value: (r) => r.title,
       render: (r) => (
         <span className="block">
-          <Link href={`/studies/${r.slug}`} className="block font-semibold text-channel underline-offset-2 hover:underline">
+          <Link
+            href={`/studies/${r.slug}`}
+            className="block font-semibold text-channel underline-offset-2 hover:underline"
+          >
             {r.title}
           </Link>
           <span className="block font-mono text-xs text-silt-ink">{r.slug}</span>
@@ -47,7 +58,11 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
       header: "Status",
       width: "5.5rem",
       value: (r) => r.status,
-      render: (r) => <Badge tone={r.status === "open" ? "channel" : "neutral"}>{r.status === "open" ? "Open" : "Closed"}</Badge>,
+      render: (r) => (
+        <Badge tone={r.status === "open" ? "channel" : "neutral"}>
+          {r.status === "open" ? "Open" : "Closed"}
+        </Badge>
+      ),
     },
     {
       key: "plan",
@@ -74,6 +89,12 @@ export function StudyTable({ rows, variant, caption }: { rows: StudyRow[]; varia
   }
   columns.push(count("ready", "Awaiting review"), count("accepted", "Accepted"), count("bounced", "Bounced"));
   if (variant !== "analyst") columns.push(count("checking", "Checking"));
-  columns.push({ key: "total", header: variant === "provider" ? "Your batches" : "All batches", numeric: true, width: "minmax(5rem, 1fr)", value: total });
+  columns.push({
+    key: "total",
+    header: variant === "provider" ? "Your batches" : "All batches",
+    numeric: true,
+    width: "minmax(5rem, 1fr)",
+    value: total,
+  });
   return <DataTable rows={rows} columns={columns} caption={caption} filterPlaceholder="Filter studies" />;
 }

@@ -78,7 +78,8 @@ export function UploadPanel({
   }
 
   const s = precheck.state;
-  const pct = s.phase === "running" && s.total > 0 ? Math.min(100, Math.round((s.bytes / s.total) * 100)) : null;
+  const pct =
+    s.phase === "running" && s.total > 0 ? Math.min(100, Math.round((s.bytes / s.total) * 100)) : null;
 
   return (
     <div className="grid gap-5">
@@ -89,9 +90,21 @@ export function UploadPanel({
       ) : (
         <div className="grid gap-4 sm:grid-cols-2">
           <Field id="study" label="Study">
-            <Select id="study" value={studySlug} onChange={(e) => { setStudySlug(e.target.value); if (file) { const st = studies.find((x) => x.slug === e.target.value); if (st) precheck.run(file, st.plan); } }}>
+            <Select
+              id="study"
+              value={studySlug}
+              onChange={(e) => {
+                setStudySlug(e.target.value);
+                if (file) {
+                  const st = studies.find((x) => x.slug === e.target.value);
+                  if (st) precheck.run(file, st.plan);
+                }
+              }}
+            >
               {studies.map((st) => (
-                <option key={st.slug} value={st.slug}>{st.title}</option>
+                <option key={st.slug} value={st.slug}>
+                  {st.title}
+                </option>
               ))}
             </Select>
           </Field>
@@ -110,7 +123,9 @@ export function UploadPanel({
         }}
       >
         <p className="mb-3 text-ink">Drop a CSV file here, or</p>
-        <Button variant="secondary" onClick={() => input.current?.click()}>Choose a file</Button>
+        <Button variant="secondary" onClick={() => input.current?.click()}>
+          Choose a file
+        </Button>
         <input
           ref={input}
           type="file"
@@ -121,9 +136,15 @@ export function UploadPanel({
           onChange={(e) => choose(e.target.files?.[0] ?? null)}
         />
         <p className="mt-3 text-sm text-silt-ink">CSV or TSV, UTF-8, up to {maxUploadMb} MB.</p>
-        {file ? <p className="mt-2 font-mono text-sm">{file.name} · {formatBytes(file.size)}</p> : null}
+        {file ? (
+          <p className="mt-2 font-mono text-sm">
+            {file.name} · {formatBytes(file.size)}
+          </p>
+        ) : null}
       </div>
-      <p aria-live="polite" className="text-sm text-clay" role={fileError ? "alert" : undefined}>{fileError}</p>
+      <p aria-live="polite" className="text-sm text-clay" role={fileError ? "alert" : undefined}>
+        {fileError}
+      </p>
 
       <section aria-live="polite" aria-label="Check before upload" data-testid="precheck">
         {s.phase === "running" ? (
@@ -152,7 +173,8 @@ export function UploadPanel({
                     <li key={`${f.code}-${i}`} className="flex gap-2">
                       <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
                       <span>
-                        <code className="text-xs text-silt-ink">{f.code}</code> {f.message} <span className="text-silt-ink">— {f.fix}</span>
+                        <code className="text-xs text-silt-ink">{f.code}</code> {f.message}{" "}
+                        <span className="text-silt-ink">— {f.fix}</span>
                       </span>
                     </li>
                   ))}
@@ -161,14 +183,20 @@ export function UploadPanel({
               <p className="text-sm text-reed">No blockers or warnings found in the browser.</p>
             )}
             <p className="text-xs text-silt-ink">
-              You can fix the file and choose it again, or upload it as it is: the server checks it again either way.
+              You can fix the file and choose it again, or upload it as it is: the server checks it again
+              either way.
             </p>
           </div>
         ) : null}
       </section>
 
       <div className="flex items-center gap-4">
-        <Button onClick={upload} disabled={!file || !study || isUploading} busy={isUploading} data-testid="upload-button">
+        <Button
+          onClick={upload}
+          disabled={!file || !study || isUploading}
+          busy={isUploading}
+          data-testid="upload-button"
+        >
           {batch ? "Upload new version" : "Upload batch"}
         </Button>
         {progress !== null ? (

@@ -44,16 +44,32 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
   const levelErrors = errors("levels");
   const tokenErrors = errors("missingTokens");
   return (
-    <fieldset className="relative rounded border border-silt-line bg-white px-3 pb-2 pt-1" data-column-row={index}>
+    <fieldset
+      className="relative rounded border border-silt-line bg-white px-3 pb-2 pt-1"
+      data-column-row={index}
+    >
       <legend className="px-1 text-sm font-semibold">
-        <span className="tabular text-silt-ink">{index + 1}.</span> <span className="font-mono">{c.name || "(unnamed)"}</span>
+        <span className="tabular text-silt-ink">{index + 1}.</span>{" "}
+        <span className="font-mono">{c.name || "(unnamed)"}</span>
         <span className="ml-2 font-normal text-silt-ink">{ROLE_HINT[c.role]}</span>
       </legend>
       <div className="absolute right-2 top-1 flex items-center gap-1">
-        <Button variant="quiet" size="sm" disabled={index === 0} onClick={() => onMove(-1)} aria-label={`Move ${label} up`}>
+        <Button
+          variant="quiet"
+          size="sm"
+          disabled={index === 0}
+          onClick={() => onMove(-1)}
+          aria-label={`Move ${label} up`}
+        >
           ↑
         </Button>
-        <Button variant="quiet" size="sm" disabled={index === count - 1} onClick={() => onMove(1)} aria-label={`Move ${label} down`}>
+        <Button
+          variant="quiet"
+          size="sm"
+          disabled={index === count - 1}
+          onClick={() => onMove(1)}
+          aria-label={`Move ${label} down`}
+        >
           ↓
         </Button>
         <Button variant="danger" size="sm" onClick={onRemove} aria-label={`Remove ${label}`}>
@@ -62,10 +78,19 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
       </div>
       <div className="flex flex-wrap items-start gap-x-3 gap-y-1 pr-44">
         <Field id={id("name")} label="Name" errors={errors("name")} className="w-56">
-          <Input value={c.name} onChange={(e) => onChange({ name: e.target.value })} className="h-8 w-full font-mono text-sm" autoComplete="off" />
+          <Input
+            value={c.name}
+            onChange={(e) => onChange({ name: e.target.value })}
+            className="h-8 w-full font-mono text-sm"
+            autoComplete="off"
+          />
         </Field>
         <Field id={id("role")} label="Role" errors={errors("role")} className="w-32">
-          <Select value={c.role} onChange={(e) => onChange({ role: e.target.value as ColumnDraft["role"] })} className="h-8 w-full text-sm">
+          <Select
+            value={c.role}
+            onChange={(e) => onChange({ role: e.target.value as ColumnDraft["role"] })}
+            className="h-8 w-full text-sm"
+          >
             {ROLES.map((r) => (
               <option key={r} value={r}>
                 {r}
@@ -74,7 +99,11 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
           </Select>
         </Field>
         <Field id={id("type")} label="Type" errors={errors("type")} className="w-32">
-          <Select value={c.type} onChange={(e) => onChange({ type: e.target.value as ColumnDraft["type"] })} className="h-8 w-full text-sm">
+          <Select
+            value={c.type}
+            onChange={(e) => onChange({ type: e.target.value as ColumnDraft["type"] })}
+            className="h-8 w-full text-sm"
+          >
             {COLUMN_TYPES.map((t) => (
               <option key={t} value={t}>
                 {t}
@@ -85,10 +114,22 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
         {numeric ? (
           <>
             <Field id={id("min")} label="Minimum" errors={errors("min")} className="w-28">
-              <Input value={c.min} onChange={(e) => onChange({ min: e.target.value })} inputMode="decimal" className="h-8 w-full text-sm tabular" placeholder="none" />
+              <Input
+                value={c.min}
+                onChange={(e) => onChange({ min: e.target.value })}
+                inputMode="decimal"
+                className="h-8 w-full text-sm tabular"
+                placeholder="none"
+              />
             </Field>
             <Field id={id("max")} label="Maximum" errors={errors("max")} className="w-28">
-              <Input value={c.max} onChange={(e) => onChange({ max: e.target.value })} inputMode="decimal" className="h-8 w-full text-sm tabular" placeholder="none" />
+              <Input
+                value={c.max}
+                onChange={(e) => onChange({ max: e.target.value })}
+                inputMode="decimal"
+                className="h-8 w-full text-sm tabular"
+                placeholder="none"
+              />
             </Field>
           </>
         ) : null}
@@ -96,7 +137,13 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
           <details className="pt-6 text-sm" open={!!tokenErrors || undefined}>
             <summary className="cursor-pointer text-channel">
               Missing tokens:{" "}
-              {c.missingTokens.length ? <span className="font-mono text-ink">{c.missingTokens.map((t) => (t === "" ? "(empty)" : t)).join(", ")}</span> : "file-wide only"}
+              {c.missingTokens.length ? (
+                <span className="font-mono text-ink">
+                  {c.missingTokens.map((t) => (t === "" ? "(empty)" : t)).join(", ")}
+                </span>
+              ) : (
+                "file-wide only"
+              )}
             </summary>
             <div className="mt-1 flex flex-col gap-1">
               <label htmlFor={id("missingTokens")} className="text-xs text-silt-ink">
@@ -120,39 +167,58 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
 
       {c.type === "category" ? (
         <div className="mt-1 flex flex-wrap items-start gap-x-6 gap-y-2">
-            <div className="flex min-w-64 flex-col gap-1">
-              <label htmlFor={id("levels")} className="text-sm font-semibold">
-                Allowed levels <span className="font-normal text-silt-ink">(in this order)</span>
-              </label>
-              <TokenList
-                id={id("levels")}
-                noun="level"
-                values={c.levels}
-                reorderable
-                invalid={!!levelErrors}
-                describedBy={id("levels-error")}
-                tagOf={(v) => ((c.baseline || c.levels[0]) === v ? <Badge tone="channel">baseline</Badge> : null)}
-                onChange={(levels) => onChange({ levels, baseline: c.baseline && !levels.includes(c.baseline) ? "" : c.baseline })}
+          <div className="flex min-w-64 flex-col gap-1">
+            <label htmlFor={id("levels")} className="text-sm font-semibold">
+              Allowed levels <span className="font-normal text-silt-ink">(in this order)</span>
+            </label>
+            <TokenList
+              id={id("levels")}
+              noun="level"
+              values={c.levels}
+              reorderable
+              invalid={!!levelErrors}
+              describedBy={id("levels-error")}
+              tagOf={(v) =>
+                (c.baseline || c.levels[0]) === v ? <Badge tone="channel">baseline</Badge> : null
+              }
+              onChange={(levels) =>
+                onChange({ levels, baseline: c.baseline && !levels.includes(c.baseline) ? "" : c.baseline })
+              }
+            />
+            <Errors id={id("levels-error")} list={levelErrors} />
+          </div>
+          <div className="flex flex-col gap-2">
+            <Field
+              id={id("baseline")}
+              label="Baseline level"
+              hint="The reference level of the indicator columns."
+              errors={errors("baseline")}
+              className="w-56"
+            >
+              <Select
+                value={c.baseline}
+                onChange={(e) => onChange({ baseline: e.target.value })}
+                className="h-8 w-full text-sm"
+              >
+                <option value="">{c.levels[0] ? `first level (${c.levels[0]})` : "first level"}</option>
+                {c.levels.map((l) => (
+                  <option key={l} value={l}>
+                    {l}
+                  </option>
+                ))}
+              </Select>
+            </Field>
+            <label className="flex items-center gap-2 text-sm">
+              <input
+                type="checkbox"
+                checked={c.openLevels}
+                onChange={(e) => onChange({ openLevels: e.target.checked })}
+                className="size-4 accent-channel"
               />
-              <Errors id={id("levels-error")} list={levelErrors} />
-            </div>
-            <div className="flex flex-col gap-2">
-              <Field id={id("baseline")} label="Baseline level" hint="The reference level of the indicator columns." errors={errors("baseline")} className="w-56">
-                <Select value={c.baseline} onChange={(e) => onChange({ baseline: e.target.value })} className="h-8 w-full text-sm">
-                  <option value="">{c.levels[0] ? `first level (${c.levels[0]})` : "first level"}</option>
-                  {c.levels.map((l) => (
-                    <option key={l} value={l}>
-                      {l}
-                    </option>
-                  ))}
-                </Select>
-              </Field>
-              <label className="flex items-center gap-2 text-sm">
-                <input type="checkbox" checked={c.openLevels} onChange={(e) => onChange({ openLevels: e.target.checked })} className="size-4 accent-channel" />
-                Open list: other levels are allowed
-              </label>
-              <Errors id={id("openLevels-error")} list={errors("openLevels")} />
-            </div>
+              Open list: other levels are allowed
+            </label>
+            <Errors id={id("openLevels-error")} list={errors("openLevels")} />
+          </div>
         </div>
       ) : null}
       {rowErrors ? <Errors id={id("row-error")} list={rowErrors} /> : null}

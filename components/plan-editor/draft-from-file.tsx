@@ -9,7 +9,13 @@ import { useDraft } from "@/lib/client/use-draft";
 const MAX_SAMPLE_BYTES = 50 * 1024 * 1024;
 
 /** Chooses a sample CSV, drafts a plan from it in the browser, and hands the plan to the form. */
-export function DraftFromFile({ hasColumns, onDraft }: { hasColumns: boolean; onDraft: (plan: PlanInput) => void }) {
+export function DraftFromFile({
+  hasColumns,
+  onDraft,
+}: {
+  hasColumns: boolean;
+  onDraft: (plan: PlanInput) => void;
+}) {
   const id = useId();
   const input = useRef<HTMLInputElement>(null);
   const { state, run } = useDraft();
@@ -20,7 +26,9 @@ export function DraftFromFile({ hasColumns, onDraft }: { hasColumns: boolean; on
     applied.current = state.result;
     if (state.result.plan) {
       onDraft(state.result.plan);
-      toast.success(`Drafted ${state.result.plan.columns.length} columns from ${state.fileName}. Check each before publishing.`);
+      toast.success(
+        `Drafted ${state.result.plan.columns.length} columns from ${state.fileName}. Check each before publishing.`,
+      );
     }
   }, [state, onDraft]);
 
@@ -31,10 +39,17 @@ export function DraftFromFile({ hasColumns, onDraft }: { hasColumns: boolean; on
       return;
     }
     if (file.size > MAX_SAMPLE_BYTES) {
-      toast.error(`${file.name} is ${formatBytes(file.size)}; a sample of up to ${formatBytes(MAX_SAMPLE_BYTES)} is enough to draft a plan. Cut it to its first rows.`);
+      toast.error(
+        `${file.name} is ${formatBytes(file.size)}; a sample of up to ${formatBytes(MAX_SAMPLE_BYTES)} is enough to draft a plan. Cut it to its first rows.`,
+      );
       return;
     }
-    if (hasColumns && !window.confirm("Replace the columns in the form with the ones drafted from this file? The model settings and thresholds stay.")) {
+    if (
+      hasColumns &&
+      !window.confirm(
+        "Replace the columns in the form with the ones drafted from this file? The model settings and thresholds stay.",
+      )
+    ) {
       if (input.current) input.current.value = "";
       return;
     }
@@ -62,7 +77,11 @@ export function DraftFromFile({ hasColumns, onDraft }: { hasColumns: boolean; on
             Reading {state.fileName} ({formatBytes(state.size)})…
           </p>
         ) : null}
-        {state.phase === "error" ? <p className="text-clay">The sample {state.fileName} could not be read: {state.message}</p> : null}
+        {state.phase === "error" ? (
+          <p className="text-clay">
+            The sample {state.fileName} could not be read: {state.message}
+          </p>
+        ) : null}
         {state.phase === "done" && state.result.error ? (
           <p className="text-clay">
             {state.fileName} could not be read: {state.result.error.message} {state.result.error.fix}

@@ -3,7 +3,13 @@
  * Numbers are kept as the text typed, so a half-typed value is never lost; converting
  * back reports what is not a number, by the plan path the server would use.
  */
-import { DEFAULT_THRESHOLDS, type ColumnType, type PlanColumn, type PlanInput, type Role } from "@/lib/readiness";
+import {
+  DEFAULT_THRESHOLDS,
+  type ColumnType,
+  type PlanColumn,
+  type PlanInput,
+  type Role,
+} from "@/lib/readiness";
 
 export type ThresholdKey = keyof typeof DEFAULT_THRESHOLDS;
 export const THRESHOLD_KEYS = Object.keys(DEFAULT_THRESHOLDS) as ThresholdKey[];
@@ -46,7 +52,19 @@ export const newKey = () => `c${++counter}-${Math.random().toString(36).slice(2,
 const numText = (n: number | null | undefined) => (n === undefined || n === null ? "" : String(n));
 
 export function emptyColumn(): ColumnDraft {
-  return { key: newKey(), name: "", role: "predictor", type: "number", levels: [], baseline: "", openLevels: false, min: "", max: "", missingTokens: [], rest: {} };
+  return {
+    key: newKey(),
+    name: "",
+    role: "predictor",
+    type: "number",
+    levels: [],
+    baseline: "",
+    openLevels: false,
+    min: "",
+    max: "",
+    missingTokens: [],
+    rest: {},
+  };
 }
 
 /** Form state from a stored or drafted plan; `keyPrefix` must differ between plans loaded into one form. */
@@ -84,17 +102,26 @@ export function draftFromPlan(input: PlanInput | null | undefined, keyPrefix = "
     outcomeMean: numText(p.outcome?.mean),
     outcomeSd: numText(p.outcome?.sd),
     selectionPlanned: p.selection !== undefined,
-    selectionCandidates: Array.isArray(p.selection?.candidates) ? p.selection.candidates.join(", ") : numText(p.selection?.candidates),
+    selectionCandidates: Array.isArray(p.selection?.candidates)
+      ? p.selection.candidates.join(", ")
+      : numText(p.selection?.candidates),
     selectionRequired: p.selection?.required ? [...p.selection.required] : null,
   };
 }
 
-function num(text: string, path: string, errors: Record<string, string[]>, label: string): number | undefined {
+function num(
+  text: string,
+  path: string,
+  errors: Record<string, string[]>,
+  label: string,
+): number | undefined {
   const t = text.trim().replace(/\s/g, "");
   if (t === "") return undefined;
   const n = Number(t);
   if (!Number.isFinite(n)) {
-    (errors[path] ??= []).push(`${label} must be a number (with a decimal point), e.g. 0.25; “${text}” is not.`);
+    (errors[path] ??= []).push(
+      `${label} must be a number (with a decimal point), e.g. 0.25; “${text}” is not.`,
+    );
     return undefined;
   }
   return n;
@@ -142,18 +169,26 @@ export function planFromDraft(d: PlanDraft): { plan: PlanInput; errors: Record<s
   const mean = num(d.outcomeMean, "outcome.mean", errors, "The outcome mean");
   const sd = num(d.outcomeSd, "outcome.sd", errors, "The outcome SD");
   if (mean !== undefined || sd !== undefined) {
-    if (mean === undefined) (errors["outcome.mean"] ??= []).push("Give the outcome's anticipated mean too, or clear the SD.");
-    else if (sd === undefined) (errors["outcome.sd"] ??= []).push("Give the outcome's anticipated SD too, or clear the mean.");
+    if (mean === undefined)
+      (errors["outcome.mean"] ??= []).push("Give the outcome's anticipated mean too, or clear the SD.");
+    else if (sd === undefined)
+      (errors["outcome.sd"] ??= []).push("Give the outcome's anticipated SD too, or clear the mean.");
     else plan.outcome = { mean, sd };
   }
   if (d.selectionPlanned) {
     const text = d.selectionCandidates.trim();
-    const names = text.split(",").map((t) => t.trim()).filter((t) => t !== "");
+    const names = text
+      .split(",")
+      .map((t) => t.trim())
+      .filter((t) => t !== "");
     const required = d.selectionRequired ? { required: d.selectionRequired } : {};
     if (text !== "" && !/^[\d\s.,]+$/.test(text)) plan.selection = { candidates: names, ...required };
     else {
       const n = num(text, "selection.candidates", errors, "The candidate count");
-      if (n === undefined && !errors["selection.candidates"]) (errors["selection.candidates"] ??= []).push("Give the candidate terms by name (separated by commas), or the number of candidate parameters the selection starts from.");
+      if (n === undefined && !errors["selection.candidates"])
+        (errors["selection.candidates"] ??= []).push(
+          "Give the candidate terms by name (separated by commas), or the number of candidate parameters the selection starts from.",
+        );
       else if (n !== undefined) plan.selection = { candidates: n, ...required };
     }
   }
@@ -165,7 +200,10 @@ export function planFromDraft(d: PlanDraft): { plan: PlanInput; errors: Record<s
  * (`col:<key>.baseline`), so they stay beside their row when rows move. A path deeper than
  * the field (`columns.3.levels.2`) goes to the field; everything else keeps its path.
  */
-export function errorsByRow(errors: Record<string, string[]>, columns: readonly ColumnDraft[]): Record<string, string[]> {
+export function errorsByRow(
+  errors: Record<string, string[]>,
+  columns: readonly ColumnDraft[],
+): Record<string, string[]> {
   const out: Record<string, string[]> = {};
   for (const [path, messages] of Object.entries(errors)) {
     const m = /^columns\.(\d+)(?:\.([A-Za-z]+))?/.exec(path);

@@ -16,7 +16,8 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
   const [a, setA] = useState("");
   const [b, setB] = useState("");
   const [note, setNote] = useState("");
-  const exists = (x: string, y: string) => value.some(([p, q]) => (p === x && q === y) || (p === y && q === x));
+  const exists = (x: string, y: string) =>
+    value.some(([p, q]) => (p === x && q === y) || (p === y && q === x));
 
   function add() {
     if (!a || !b) return setNote("Choose two predictors.");
@@ -36,7 +37,9 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
   return (
     <fieldset className="flex flex-col gap-1.5">
       <legend className="text-sm font-semibold">Interactions</legend>
-      {value.length === 0 ? <p className="text-sm text-silt-ink">None: the model has main effects only.</p> : null}
+      {value.length === 0 ? (
+        <p className="text-sm text-silt-ink">None: the model has main effects only.</p>
+      ) : null}
       <ul className="flex flex-col gap-1">
         {value.map(([p, q], i) => {
           const errs = pairErrors(i);
@@ -46,11 +49,20 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
               <span className="font-mono">
                 {p} × {q}
               </span>
-              <Button variant="quiet" size="sm" className="h-6 px-1.5 text-clay" onClick={() => onChange(value.filter((_, k) => k !== i))} aria-label={`Remove interaction ${p} × ${q}`}>
+              <Button
+                variant="quiet"
+                size="sm"
+                className="h-6 px-1.5 text-clay"
+                onClick={() => onChange(value.filter((_, k) => k !== i))}
+                aria-label={`Remove interaction ${p} × ${q}`}
+              >
                 ✕
               </Button>
               <span aria-live="polite" className="text-clay">
-                {errs.join(" ") || (stale.length ? `${stale.join(" and ")} ${stale.length === 1 ? "is" : "are"} no longer a predictor.` : "")}
+                {errs.join(" ") ||
+                  (stale.length
+                    ? `${stale.join(" and ")} ${stale.length === 1 ? "is" : "are"} no longer a predictor.`
+                    : "")}
               </span>
             </li>
           );
@@ -60,7 +72,12 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
         <label htmlFor="interaction-a" className="sr-only">
           First predictor
         </label>
-        <Select id="interaction-a" value={a} onChange={(e) => setA(e.target.value)} className="h-8 w-52 text-sm">
+        <Select
+          id="interaction-a"
+          value={a}
+          onChange={(e) => setA(e.target.value)}
+          className="h-8 w-52 text-sm"
+        >
           <option value="">first predictor</option>
           {predictors.map((p) => (
             <option key={p} value={p}>
@@ -72,7 +89,12 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
         <label htmlFor="interaction-b" className="sr-only">
           Second predictor
         </label>
-        <Select id="interaction-b" value={b} onChange={(e) => setB(e.target.value)} className="h-8 w-52 text-sm">
+        <Select
+          id="interaction-b"
+          value={b}
+          onChange={(e) => setB(e.target.value)}
+          className="h-8 w-52 text-sm"
+        >
           <option value="">second predictor</option>
           {predictors.map((p) => (
             <option key={p} value={p}>

@@ -13,7 +13,9 @@ const KIND_LABEL: Record<ModelSize["terms"][number]["kind"], string> = {
  * the study page.
  */
 export function ModelSummary({ size, compact = false }: { size: ModelSize; compact?: boolean }) {
-  const numeric = size.terms.filter((t) => t.kind === "numeric" || t.kind === "boolean").reduce((s, t) => s + t.df, 0);
+  const numeric = size.terms
+    .filter((t) => t.kind === "numeric" || t.kind === "boolean")
+    .reduce((s, t) => s + t.df, 0);
   const indicators = size.terms.filter((t) => t.kind === "category").reduce((s, t) => s + t.df, 0);
   const interactions = size.terms.filter((t) => t.kind === "interaction").reduce((s, t) => s + t.df, 0);
   return (
@@ -64,8 +66,8 @@ export function ModelSummary({ size, compact = false }: { size: ModelSize; compa
         </table>
       ) : null}
       <p className="text-xs text-silt-ink">
-        df headroom = complete cases − <span className="italic">p</span> − 1. Categories use treatment coding: k levels give k − 1 indicator columns against the
-        baseline.
+        df headroom = complete cases − <span className="italic">p</span> − 1. Categories use treatment coding:
+        k levels give k − 1 indicator columns against the baseline.
       </p>
     </div>
   );

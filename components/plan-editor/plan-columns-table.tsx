@@ -6,8 +6,10 @@ import type { PlanColumn } from "@/lib/readiness";
 
 type Row = PlanColumn & { id: number; position: number };
 
-const range = (c: PlanColumn) => (c.min === undefined && c.max === undefined ? "" : `${c.min ?? "−∞"} to ${c.max ?? "∞"}`);
-const tokens = (list: string[] | undefined) => (list ?? []).map((t) => (t === "" ? "(empty cell)" : t)).join(", ");
+const range = (c: PlanColumn) =>
+  c.min === undefined && c.max === undefined ? "" : `${c.min ?? "−∞"} to ${c.max ?? "∞"}`;
+const tokens = (list: string[] | undefined) =>
+  (list ?? []).map((t) => (t === "" ? "(empty cell)" : t)).join(", ");
 
 /** A data plan's columns as a readable table: role, type, levels with the baseline marked, range, missing tokens. */
 export function PlanColumnsTable({ columns, version }: { columns: PlanColumn[]; version: number }) {
@@ -31,7 +33,11 @@ export function PlanColumnsTable({ columns, version }: { columns: PlanColumn[]; 
       header: "Role",
       width: "6.5rem",
       value: (r) => r.role,
-      render: (r) => <Badge tone={r.role === "response" ? "channel" : r.role === "predictor" ? "slate" : "neutral"}>{r.role}</Badge>,
+      render: (r) => (
+        <Badge tone={r.role === "response" ? "channel" : r.role === "predictor" ? "slate" : "neutral"}>
+          {r.role}
+        </Badge>
+      ),
     },
     { key: "type", header: "Type", width: "6rem", value: (r) => r.type },
     {
@@ -40,16 +46,23 @@ export function PlanColumnsTable({ columns, version }: { columns: PlanColumn[]; 
       width: "minmax(12rem, 3fr)",
       value: (r) => {
         const base = r.baseline ?? r.levels?.[0];
-        return (r.levels ?? []).map((l) => (l === base ? `${l} (baseline)` : l)).join(", ") + (r.openLevels ? "; open list" : "");
+        return (
+          (r.levels ?? []).map((l) => (l === base ? `${l} (baseline)` : l)).join(", ") +
+          (r.openLevels ? "; open list" : "")
+        );
       },
       render: (r) => {
         if (r.type !== "category") return null;
         const base = r.baseline ?? r.levels?.[0];
-        if (!r.levels?.length) return <span className="text-silt-ink">open list{base ? `, baseline ${base}` : ""}</span>;
+        if (!r.levels?.length)
+          return <span className="text-silt-ink">open list{base ? `, baseline ${base}` : ""}</span>;
         return (
           <span className="flex flex-wrap items-center gap-1">
             {r.levels.map((l) => (
-              <span key={l} className={l === base ? "rounded-sm border border-channel px-1 font-semibold" : "px-1"}>
+              <span
+                key={l}
+                className={l === base ? "rounded-sm border border-channel px-1 font-semibold" : "px-1"}
+              >
                 {l}
                 {l === base ? <span className="sr-only"> (baseline)</span> : null}
               </span>
@@ -59,7 +72,13 @@ export function PlanColumnsTable({ columns, version }: { columns: PlanColumn[]; 
         );
       },
     },
-    { key: "range", header: "Range", width: "8rem", value: range, render: (r) => <span className="tabular">{range(r)}</span> },
+    {
+      key: "range",
+      header: "Range",
+      width: "8rem",
+      value: range,
+      render: (r) => <span className="tabular">{range(r)}</span>,
+    },
     {
       key: "missing",
       header: "Missing tokens",
@@ -67,5 +86,12 @@ export function PlanColumnsTable({ columns, version }: { columns: PlanColumn[]; 
       value: (r) => [tokens(r.missingTokens), ...(r.sentinels ?? []).map(String)].filter(Boolean).join(", "),
     },
   ];
-  return <DataTable rows={rows} columns={cols} caption={`Data plan version ${version} columns`} filterPlaceholder="Filter columns" />;
+  return (
+    <DataTable
+      rows={rows}
+      columns={cols}
+      caption={`Data plan version ${version} columns`}
+      filterPlaceholder="Filter columns"
+    />
+  );
 }

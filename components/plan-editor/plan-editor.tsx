@@ -12,7 +12,14 @@ import type { Result } from "@/lib/result";
 import { modelSize } from "@/lib/studies/model-size";
 import { ColumnRow } from "./column-row";
 import { DraftFromFile } from "./draft-from-file";
-import { draftFromPlan, emptyColumn, errorsByRow, planFromDraft, type ColumnDraft, type PlanDraft } from "./form-state";
+import {
+  draftFromPlan,
+  emptyColumn,
+  errorsByRow,
+  planFromDraft,
+  type ColumnDraft,
+  type PlanDraft,
+} from "./form-state";
 import { ModelFields } from "./model-fields";
 import { ModelSummary } from "./model-summary";
 import { ThresholdsFields } from "./thresholds-fields";
@@ -44,7 +51,11 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
   const [pending, startTransition] = useTransition();
 
   const size = useMemo(() => modelSize(planFromDraft(draft).plan), [draft]);
-  const predictors = [...new Set(draft.columns.filter((c) => c.role === "predictor" && c.name.trim()).map((c) => c.name.trim()))];
+  const predictors = [
+    ...new Set(
+      draft.columns.filter((c) => c.role === "predictor" && c.name.trim()).map((c) => c.name.trim()),
+    ),
+  ];
 
   const update = (patch: Partial<PlanDraft>) => setDraft((d) => ({ ...d, ...patch }));
   const updateColumn = (key: string, patch: Partial<ColumnDraft>) =>
@@ -57,7 +68,8 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
       [cols[i], cols[j]] = [cols[j]!, cols[i]!];
       return { ...d, columns: cols };
     });
-  const removeColumn = (key: string) => setDraft((d) => ({ ...d, columns: d.columns.filter((c) => c.key !== key) }));
+  const removeColumn = (key: string) =>
+    setDraft((d) => ({ ...d, columns: d.columns.filter((c) => c.key !== key) }));
 
   function submit() {
     const { plan, errors: local } = planFromDraft(draft);
@@ -88,7 +100,11 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
   return (
     <div className="grid grid-cols-1 gap-8 xl:grid-cols-[minmax(0,1fr)_20rem]">
       <div className="min-w-0">
-        <Section id="draft" title="Draft from a sample file" note="Reads a CSV in your browser (nothing is uploaded) and fills the form with its columns, types, levels and ranges for you to correct.">
+        <Section
+          id="draft"
+          title="Draft from a sample file"
+          note="Reads a CSV in your browser (nothing is uploaded) and fills the form with its columns, types, levels and ranges for you to correct."
+        >
           <DraftFromFile
             hasColumns={draft.columns.length > 0}
             onDraft={(plan) => {
@@ -125,17 +141,39 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
               />
             ))}
           </div>
-          <Button variant="secondary" size="sm" className="mt-2" onClick={() => update({ columns: [...draft.columns, emptyColumn()] })}>
+          <Button
+            variant="secondary"
+            size="sm"
+            className="mt-2"
+            onClick={() => update({ columns: [...draft.columns, emptyColumn()] })}
+          >
             Add a column
           </Button>
         </Section>
 
         <Section id="model" title="The model">
-          <ModelFields draft={draft} errors={errors} predictors={predictors} parameters={size.p} update={update} />
+          <ModelFields
+            draft={draft}
+            errors={errors}
+            predictors={predictors}
+            parameters={size.p}
+            update={update}
+          />
         </Section>
 
-        <Section id="missing" title="Missing-value tokens for the whole file" note="Cells equal to one of these count as missing in every column.">
-          <TokenList id="missing-tokens" noun="token" values={draft.missingTokens} allowEmpty onChange={(missingTokens) => update({ missingTokens })} placeholder="e.g. NA" />
+        <Section
+          id="missing"
+          title="Missing-value tokens for the whole file"
+          note="Cells equal to one of these count as missing in every column."
+        >
+          <TokenList
+            id="missing-tokens"
+            noun="token"
+            values={draft.missingTokens}
+            allowEmpty
+            onChange={(missingTokens) => update({ missingTokens })}
+            placeholder="e.g. NA"
+          />
           <p aria-live="polite" className="mt-1 text-sm text-clay">
             {Object.entries(errors)
               .filter(([k]) => k === "missingTokens" || k.startsWith("missingTokens."))
@@ -144,13 +182,27 @@ export function PlanEditor({ studySlug, initialPlan, currentVersion, nextVersion
           </p>
         </Section>
 
-        <Section id="thresholds" title="Thresholds of the checks" note="Leave a field empty to use the default shown in it.">
-          <ThresholdsFields values={draft.thresholds} errors={errors} onChange={(k, v) => update({ thresholds: { ...draft.thresholds, [k]: v } })} />
+        <Section
+          id="thresholds"
+          title="Thresholds of the checks"
+          note="Leave a field empty to use the default shown in it."
+        >
+          <ThresholdsFields
+            values={draft.thresholds}
+            errors={errors}
+            onChange={(k, v) => update({ thresholds: { ...draft.thresholds, [k]: v } })}
+          />
         </Section>
 
         <Section id="publish" title="Publish">
           <div className="flex flex-wrap items-end gap-3">
-            <Field id="plan-note" label="Note (optional)" hint="What changed and why; shown in the plan's version history." errors={errors.note} className="w-[28rem] max-w-full">
+            <Field
+              id="plan-note"
+              label="Note (optional)"
+              hint="What changed and why; shown in the plan's version history."
+              errors={errors.note}
+              className="w-[28rem] max-w-full"
+            >
               <Input value={note} onChange={(e) => setNote(e.target.value)} maxLength={500} className="h-9" />
             </Field>
             <Button onClick={submit} busy={pending} className="mb-6">

@@ -6,9 +6,16 @@ import { DEFAULT_THRESHOLDS } from "@/lib/readiness";
 import { THRESHOLD_KEYS, type PlanDraft, type ThresholdKey } from "./form-state";
 import { THRESHOLD_LABELS } from "./threshold-labels";
 
-
 /** Every threshold with its default as placeholder; an empty field keeps the default. */
-export function ThresholdsFields({ values, errors, onChange }: { values: PlanDraft["thresholds"]; errors: Record<string, string[]>; onChange: (k: ThresholdKey, v: string) => void }) {
+export function ThresholdsFields({
+  values,
+  errors,
+  onChange,
+}: {
+  values: PlanDraft["thresholds"];
+  errors: Record<string, string[]>;
+  onChange: (k: ThresholdKey, v: string) => void;
+}) {
   return (
     <div className="grid grid-cols-1 gap-x-4 gap-y-1 sm:grid-cols-2 lg:grid-cols-3">
       {THRESHOLD_KEYS.map((k) => {
@@ -19,7 +26,9 @@ export function ThresholdsFields({ values, errors, onChange }: { values: PlanDra
               value={values[k] ?? ""}
               onChange={(e) => onChange(k, e.target.value)}
               inputMode="decimal"
-              placeholder={def === null ? `default: the df floor (${DEFAULT_THRESHOLDS.dfFloor})` : `default ${def}`}
+              placeholder={
+                def === null ? `default: the df floor (${DEFAULT_THRESHOLDS.dfFloor})` : `default ${def}`
+              }
               className="h-8 text-sm tabular"
               autoComplete="off"
             />

@@ -22,14 +22,26 @@ type Props = {
   describedBy?: string;
 };
 
-const shown = (v: string) => (v === "" ? <em className="text-silt-ink">empty cell</em> : <span className="font-mono">{v}</span>);
+const shown = (v: string) =>
+  v === "" ? <em className="text-silt-ink">empty cell</em> : <span className="font-mono">{v}</span>;
 const spoken = (v: string) => (v === "" ? "empty cell" : v);
 
 /**
  * An editable list of short strings: add, remove and (optionally) reorder with buttons, so the
  * order can be set from the keyboard; focus follows a moved item.
  */
-export function TokenList({ id, noun, values, onChange, reorderable, allowEmpty, tagOf, placeholder, invalid, describedBy }: Props) {
+export function TokenList({
+  id,
+  noun,
+  values,
+  onChange,
+  reorderable,
+  allowEmpty,
+  tagOf,
+  placeholder,
+  invalid,
+  describedBy,
+}: Props) {
   const [text, setText] = useState("");
   const [note, setNote] = useState("");
   const focusAfter = useRef<{ index: number; dir: "up" | "down" } | null>(null);
@@ -40,7 +52,9 @@ export function TokenList({ id, noun, values, onChange, reorderable, allowEmpty,
     if (!f || !listRef.current) return;
     focusAfter.current = null;
     const item = listRef.current.children[f.index];
-    const btn = item?.querySelector<HTMLButtonElement>(`button[data-dir="${f.dir}"]:not(:disabled)`) ?? item?.querySelector<HTMLButtonElement>("button:not(:disabled)");
+    const btn =
+      item?.querySelector<HTMLButtonElement>(`button[data-dir="${f.dir}"]:not(:disabled)`) ??
+      item?.querySelector<HTMLButtonElement>("button:not(:disabled)");
     btn?.focus();
   }, [values]);
 
@@ -77,13 +91,26 @@ export function TokenList({ id, noun, values, onChange, reorderable, allowEmpty,
       {values.length > 0 ? (
         <ol ref={listRef} className="flex max-w-sm flex-col gap-1" aria-label={`${noun}s`}>
           {values.map((v, i) => (
-            <li key={`${v}\u0000${i}`} className="flex items-center gap-1.5 rounded border border-silt-line bg-white px-2 py-0.5 text-sm">
-              {reorderable ? <span className="w-5 text-right text-xs text-silt-ink tabular">{i + 1}.</span> : null}
+            <li
+              key={`${v}\u0000${i}`}
+              className="flex items-center gap-1.5 rounded border border-silt-line bg-white px-2 py-0.5 text-sm"
+            >
+              {reorderable ? (
+                <span className="w-5 text-right text-xs text-silt-ink tabular">{i + 1}.</span>
+              ) : null}
               <span className="min-w-0 flex-1 truncate">{shown(v)}</span>
               {tagOf?.(v)}
               {reorderable ? (
                 <>
-                  <Button variant="quiet" size="sm" className="h-6 px-1.5" data-dir="up" disabled={i === 0} onClick={() => move(i, "up")} aria-label={`Move ${noun} ${spoken(v)} up`}>
+                  <Button
+                    variant="quiet"
+                    size="sm"
+                    className="h-6 px-1.5"
+                    data-dir="up"
+                    disabled={i === 0}
+                    onClick={() => move(i, "up")}
+                    aria-label={`Move ${noun} ${spoken(v)} up`}
+                  >
                     ↑
                   </Button>
                   <Button
@@ -99,7 +126,13 @@ export function TokenList({ id, noun, values, onChange, reorderable, allowEmpty,
                   </Button>
                 </>
               ) : null}
-              <Button variant="quiet" size="sm" className="h-6 px-1.5 text-clay" onClick={() => remove(i)} aria-label={`Remove ${noun} ${spoken(v)}`}>
+              <Button
+                variant="quiet"
+                size="sm"
+                className="h-6 px-1.5 text-clay"
+                onClick={() => remove(i)}
+                aria-label={`Remove ${noun} ${spoken(v)}`}
+              >
                 ✕
               </Button>
             </li>

@@ -14,34 +14,64 @@ import type { IfAccepted } from "@/lib/pool/pool";
 import { IfAcceptedQuestions } from "./if-accepted-questions";
 import { PoolFigures } from "./pool-figures";
 
-export async function IfAcceptedPanel({ batchPublicId, version, user, data }: { batchPublicId: string; version: number; user: SessionUser; data?: IfAccepted | null }) {
+export async function IfAcceptedPanel({
+  batchPublicId,
+  version,
+  user,
+  data,
+}: {
+  batchPublicId: string;
+  version: number;
+  user: SessionUser;
+  data?: IfAccepted | null;
+}) {
   const r = data === undefined ? await getIfAcceptedForUser(user, batchPublicId, version) : data;
   if (!r) return null;
-  const crosses = r.before.model.residualDf < r.before.model.dfTarget && r.after.model.residualDf >= r.after.model.dfTarget;
+  const crosses =
+    r.before.model.residualDf < r.before.model.dfTarget && r.after.model.residualDf >= r.after.model.dfTarget;
   return (
     <Section
       title="If accepted"
       id="if-accepted"
       note={
         <>
-          The pool of <Link className="text-channel underline" href={`/pool/${r.studySlug}`}>this study</Link> ({r.poolMembers} accepted{" "}
-          {r.poolMembers === 1 ? "version" : "versions"}) as it stands and with version {r.version} added, merged from the stored engine states.
+          The pool of{" "}
+          <Link className="text-channel underline" href={`/pool/${r.studySlug}`}>
+            this study
+          </Link>{" "}
+          ({r.poolMembers} accepted {r.poolMembers === 1 ? "version" : "versions"}) as it stands and with
+          version {r.version} added, merged from the stored engine states.
           {crosses ? " Accepting it brings the pool to its df target." : ""}
         </>
       }
     >
       <div className="grid gap-4" data-testid="if-accepted">
-        <PoolFigures caption="Pool figures now and if this version is accepted" columns={[{ heading: "Pool now", report: r.before }, { heading: "With this version", report: r.after }]} />
-        {r.after.status === "checked" && r.after.rows.total > 0 ? <DfLedger data={ledgerOf(r.after)} label="Pool with this version" /> : null}
+        <PoolFigures
+          caption="Pool figures now and if this version is accepted"
+          columns={[
+            { heading: "Pool now", report: r.before },
+            { heading: "With this version", report: r.after },
+          ]}
+        />
+        {r.after.status === "checked" && r.after.rows.total > 0 ? (
+          <DfLedger data={ledgerOf(r.after)} label="Pool with this version" />
+        ) : null}
         <IfAcceptedQuestions user={user} batchPublicId={batchPublicId} version={version} />
         <div>
           <h3 className="mb-1 text-md font-semibold">Drift against the pool</h3>
           {r.poolMembers === 0 ? (
             <p className="text-sm text-silt-ink">The pool is empty: there is nothing to compare with yet.</p>
           ) : r.drift.length === 0 ? (
-            <p className="text-sm text-silt-ink">No drift: no new levels, no standardized mean difference of 0.25 or more, no missingness moved by more than 10 points.</p>
+            <p className="text-sm text-silt-ink">
+              No drift: no new levels, no standardized mean difference of 0.25 or more, no missingness moved
+              by more than 10 points.
+            </p>
           ) : (
-            <FindingsTable findings={r.drift.map((f, i) => ({ ...f, id: `drift-${i}` }))} caption="Drift against the pool" csvName={`${batchPublicId}-v${version}-drift`} />
+            <FindingsTable
+              findings={r.drift.map((f, i) => ({ ...f, id: `drift-${i}` }))}
+              caption="Drift against the pool"
+              csvName={`${batchPublicId}-v${version}-drift`}
+            />
           )}
         </div>
       </div>

@@ -9,7 +9,13 @@ export const ROLE_HOME: Record<UserRole, string> = {
   admin: "/admin",
 };
 
-type NavItem = { href: string; label: string; action?: Action; roles?: readonly UserRole[]; demoOnly?: boolean };
+type NavItem = {
+  href: string;
+  label: string;
+  action?: Action;
+  roles?: readonly UserRole[];
+  demoOnly?: boolean;
+};
 
 // Pages that exist; each later page adds itself here with the action that opens it.
 const NAV: readonly NavItem[] = [
@@ -27,6 +33,15 @@ const NAV: readonly NavItem[] = [
 /** The top-bar links a role may follow (read from the permissions table). */
 export function navFor(role: UserRole, opts: { mailbox?: boolean } = {}): { href: string; label: string }[] {
   const home = { href: ROLE_HOME[role], label: "Home" };
-  const rest = NAV.filter((n) => (!n.action || can(role, n.action)) && (!n.roles || n.roles.includes(role)) && (!n.demoOnly || opts.mailbox));
-  return [home, ...rest.map(({ href, label }) => ({ href, label })), { href: "/settings", label: "Settings" }];
+  const rest = NAV.filter(
+    (n) =>
+      (!n.action || can(role, n.action)) &&
+      (!n.roles || n.roles.includes(role)) &&
+      (!n.demoOnly || opts.mailbox),
+  );
+  return [
+    home,
+    ...rest.map(({ href, label }) => ({ href, label })),
+    { href: "/settings", label: "Settings" },
+  ];
 }

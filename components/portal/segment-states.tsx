@@ -4,7 +4,15 @@ import { useEffect } from "react";
 import { Button } from "@/components/ui/button";
 
 /** Shown by a segment's error.tsx: what happened, and what to do; never a stack trace. */
-export function SegmentError({ error, reset, what }: { error: Error & { digest?: string }; reset: () => void; what: string }) {
+export function SegmentError({
+  error,
+  reset,
+  what,
+}: {
+  error: Error & { digest?: string };
+  reset: () => void;
+  what: string;
+}) {
   useEffect(() => {
     console.error(error);
   }, [error]);

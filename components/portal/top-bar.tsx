@@ -11,7 +11,11 @@ export function TopBar({ user }: { user: SessionUser }) {
   return (
     <header className="border-b border-silt-line bg-white">
       <div className="mx-auto flex h-14 max-w-page items-center gap-6 px-6">
-        <Link href={ROLE_HOME[user.role]} className="flex items-center gap-2 no-underline" aria-label="Tributary home">
+        <Link
+          href={ROLE_HOME[user.role]}
+          className="flex items-center gap-2 no-underline"
+          aria-label="Tributary home"
+        >
           <LogoMark size={26} />
           <span className="text-lg font-semibold tracking-tight text-ink">Tributary</span>
         </Link>

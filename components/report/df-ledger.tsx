@@ -16,12 +16,23 @@ export type LedgerInput = {
   target: number;
 };
 
-export function ledgerOf(report: {
-  rows: { total: number; complete: number };
-  model: { parameters: number; residualDf: number; dfTarget: number; terms: { term: string; columns: string[]; df: number }[] };
-  fit?: { dfModel: number } | null;
-}, intercept = true): LedgerInput {
-  const indicator = report.model.terms.reduce((s, t) => s + t.columns.filter((c) => c.includes("[")).length, 0);
+export function ledgerOf(
+  report: {
+    rows: { total: number; complete: number };
+    model: {
+      parameters: number;
+      residualDf: number;
+      dfTarget: number;
+      terms: { term: string; columns: string[]; df: number }[];
+    };
+    fit?: { dfModel: number } | null;
+  },
+  intercept = true,
+): LedgerInput {
+  const indicator = report.model.terms.reduce(
+    (s, t) => s + t.columns.filter((c) => c.includes("[")).length,
+    0,
+  );
   return {
     total: report.rows.total,
     complete: report.rows.complete,
@@ -45,7 +56,12 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
     { key: "intercept", w: data.intercept ? 1 : 0, fill: "#12262E", label: "intercept" },
     { key: "numeric", w: data.numericParameters, fill: "#1F6F78", label: "numeric terms" },
     { key: "indicator", w: data.indicatorParameters, fill: "url(#ledger-hatch)", label: "indicator columns" },
-    { key: "residual", w: Math.min(residual, Math.max(0, data.complete - used)), fill: data.residualDf >= data.target ? "#4F7A32" : "#A8660B", label: "residual df" },
+    {
+      key: "residual",
+      w: Math.min(residual, Math.max(0, data.complete - used)),
+      fill: data.residualDf >= data.target ? "#4F7A32" : "#A8660B",
+      label: "residual df",
+    },
   ];
   let at = 0;
   const headroom = data.residualDf - data.target;
@@ -54,14 +70,24 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
     <figure className="grid gap-1" data-testid="df-ledger">
       <svg viewBox={`0 0 ${W} 34`} className="h-9 w-full max-w-[640px]" role="img" aria-label={summary}>
         <defs>
-          <pattern id="ledger-hatch" width="5" height="5" patternUnits="userSpaceOnUse" patternTransform="rotate(45)">
+          <pattern
+            id="ledger-hatch"
+            width="5"
+            height="5"
+            patternUnits="userSpaceOnUse"
+            patternTransform="rotate(45)"
+          >
             <rect width="5" height="5" fill="#D8ECEB" />
             <line x1="0" y1="0" x2="0" y2="5" stroke="#1F6F78" strokeWidth="2" />
           </pattern>
         </defs>
         <rect x="0" y="6" width={W} height="20" fill="#EFEADF" />
         {segs.map((s) => {
-          const rect = <rect key={s.key} x={x(at)} y="6" width={Math.max(0, x(s.w))} height="20" fill={s.fill}><title>{`${s.label}: ${formatCount(s.w)}`}</title></rect>;
+          const rect = (
+            <rect key={s.key} x={x(at)} y="6" width={Math.max(0, x(s.w))} height="20" fill={s.fill}>
+              <title>{`${s.label}: ${formatCount(s.w)}`}</title>
+            </rect>
+          );
           at += s.w;
           return rect;
         })}
@@ -71,14 +97,27 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
           </rect>
         ) : null}
         <line x1={x(targetEnd)} x2={x(targetEnd)} y1="1" y2="31" stroke="#12262E" strokeWidth="2" />
-        <text x={Math.min(x(targetEnd) + 4, W - 60)} y="33" fontSize="8" fill="#12262E">target</text>
+        <text x={Math.min(x(targetEnd) + 4, W - 60)} y="33" fontSize="8" fill="#12262E">
+          target
+        </text>
       </svg>
       <figcaption className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-silt-ink tabular-nums">
-        <span><Swatch fill="#1F6F78" /> numeric terms {data.numericParameters}</span>
-        <span><Swatch hatch /> indicator columns {data.indicatorParameters}</span>
-        <span><Swatch fill={data.residualDf >= data.target ? "#4F7A32" : "#A8660B"} /> residual df {formatCount(data.residualDf)}</span>
+        <span>
+          <Swatch fill="#1F6F78" /> numeric terms {data.numericParameters}
+        </span>
+        <span>
+          <Swatch hatch /> indicator columns {data.indicatorParameters}
+        </span>
+        <span>
+          <Swatch fill={data.residualDf >= data.target ? "#4F7A32" : "#A8660B"} /> residual df{" "}
+          {formatCount(data.residualDf)}
+        </span>
         <span>┃ target {formatCount(data.target)}</span>
-        {lost > 0 ? <span><Swatch fill="#8A8170" faded /> lost to missing values {formatCount(lost)}</span> : null}
+        {lost > 0 ? (
+          <span>
+            <Swatch fill="#8A8170" faded /> lost to missing values {formatCount(lost)}
+          </span>
+        ) : null}
       </figcaption>
     </figure>
   );

@@ -13,28 +13,68 @@ function corrColour(r: number): string {
 
 export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; matrix: number[][] }) {
   const n = columns.length;
-  if (n < 2) return <p className="text-sm text-silt-ink">Fewer than two predictor columns: no correlations to show.</p>;
+  if (n < 2)
+    return (
+      <p className="text-sm text-silt-ink">Fewer than two predictor columns: no correlations to show.</p>
+    );
   const cell = n <= 12 ? 44 : n <= 24 ? 26 : 14;
   const label = 130;
   const size = label + n * cell;
   const showValues = cell >= 40;
   return (
     <div className="overflow-x-auto">
-      <svg width={size} height={size} role="img" aria-label={`Correlation matrix of ${n} design columns`} className="font-sans">
+      <svg
+        width={size}
+        height={size}
+        role="img"
+        aria-label={`Correlation matrix of ${n} design columns`}
+        className="font-sans"
+      >
         {columns.map((c, i) => (
-          <text key={`r${c}`} x={label - 6} y={label + i * cell + cell / 2 + 3} fontSize="10" textAnchor="end" fill="#12262E">{c.length > 22 ? `${c.slice(0, 21)}…` : c}</text>
+          <text
+            key={`r${c}`}
+            x={label - 6}
+            y={label + i * cell + cell / 2 + 3}
+            fontSize="10"
+            textAnchor="end"
+            fill="#12262E"
+          >
+            {c.length > 22 ? `${c.slice(0, 21)}…` : c}
+          </text>
         ))}
         {columns.map((c, j) => (
-          <text key={`c${c}`} x={0} y={0} fontSize="10" fill="#12262E" transform={`translate(${label + j * cell + cell / 2 + 3}, ${label - 6}) rotate(-60)`}>{c.length > 22 ? `${c.slice(0, 21)}…` : c}</text>
+          <text
+            key={`c${c}`}
+            x={0}
+            y={0}
+            fontSize="10"
+            fill="#12262E"
+            transform={`translate(${label + j * cell + cell / 2 + 3}, ${label - 6}) rotate(-60)`}
+          >
+            {c.length > 22 ? `${c.slice(0, 21)}…` : c}
+          </text>
         ))}
         {matrix.map((row, i) =>
           row.map((r, j) => (
             <g key={`${i}-${j}`}>
-              <rect x={label + j * cell} y={label + i * cell} width={cell - 1} height={cell - 1} fill={corrColour(r)}>
+              <rect
+                x={label + j * cell}
+                y={label + i * cell}
+                width={cell - 1}
+                height={cell - 1}
+                fill={corrColour(r)}
+              >
                 <title>{`${columns[i]} × ${columns[j]}: r = ${formatNumber(r, "statistic")}`}</title>
               </rect>
               {showValues && i !== j ? (
-                <text x={label + j * cell + cell / 2} y={label + i * cell + cell / 2 + 3} fontSize="10" textAnchor="middle" fill={Math.abs(r) > 0.55 ? "#FFFFFF" : "#12262E"} className="tabular-nums">
+                <text
+                  x={label + j * cell + cell / 2}
+                  y={label + i * cell + cell / 2 + 3}
+                  fontSize="10"
+                  textAnchor="middle"
+                  fill={Math.abs(r) > 0.55 ? "#FFFFFF" : "#12262E"}
+                  className="tabular-nums"
+                >
                   {formatNumber(Math.round(r * 100) / 100, "measure")}
                 </text>
               ) : null}
@@ -43,7 +83,11 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
         )}
       </svg>
       <p className="mt-1 text-xs text-silt-ink">
-        <span className="mr-1 inline-block h-2.5 w-6 align-middle" style={{ background: "linear-gradient(90deg, rgb(166,61,36), rgb(247,244,238), rgb(31,111,120))" }} aria-hidden="true" />
+        <span
+          className="mr-1 inline-block h-2.5 w-6 align-middle"
+          style={{ background: "linear-gradient(90deg, rgb(166,61,36), rgb(247,244,238), rgb(31,111,120))" }}
+          aria-hidden="true"
+        />
         r from −1 (clay) through 0 (sand) to +1 (channel), on the complete cases.
       </p>
     </div>
@@ -51,8 +95,17 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
 }
 
 /** Rows of patterns (not raw rows): one row per missingness pattern, its count as a bar. */
-export function MissingnessMap({ patterns, columns, total }: { patterns: { columns: string[]; count: number }[]; columns: string[]; total: number }) {
-  if (patterns.length === 0) return <p className="text-sm text-reed-ink">No missing values in the planned columns.</p>;
+export function MissingnessMap({
+  patterns,
+  columns,
+  total,
+}: {
+  patterns: { columns: string[]; count: number }[];
+  columns: string[];
+  total: number;
+}) {
+  if (patterns.length === 0)
+    return <p className="text-sm text-reed-ink">No missing values in the planned columns.</p>;
   const max = Math.max(1, ...patterns.map((p) => p.count));
   return (
     <div className="overflow-x-auto">
@@ -61,10 +114,14 @@ export function MissingnessMap({ patterns, columns, total }: { patterns: { colum
           <tr>
             {columns.map((c) => (
               <th key={c} scope="col" className="h-28 w-6 align-bottom font-normal">
-                <span className="inline-block origin-bottom-left translate-x-3 -rotate-60 whitespace-nowrap font-mono">{c}</span>
+                <span className="inline-block origin-bottom-left translate-x-3 -rotate-60 whitespace-nowrap font-mono">
+                  {c}
+                </span>
               </th>
             ))}
-            <th scope="col" className="pl-3 text-left align-bottom font-semibold">Rows</th>
+            <th scope="col" className="pl-3 text-left align-bottom font-semibold">
+              Rows
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -74,7 +131,10 @@ export function MissingnessMap({ patterns, columns, total }: { patterns: { colum
                 const missing = p.columns.includes(c);
                 return (
                   <td key={c} className="p-px">
-                    <span className={`block h-4 w-5 ${missing ? "bg-clay" : "bg-shallows"}`} title={`${c}: ${missing ? "missing" : "present"}`}>
+                    <span
+                      className={`block h-4 w-5 ${missing ? "bg-clay" : "bg-shallows"}`}
+                      title={`${c}: ${missing ? "missing" : "present"}`}
+                    >
                       <span className="sr-only">{missing ? `${c} missing` : ""}</span>
                     </span>
                   </td>
@@ -82,7 +142,11 @@ export function MissingnessMap({ patterns, columns, total }: { patterns: { colum
               })}
               <td className="pl-3">
                 <span className="flex items-center gap-2 tabular-nums">
-                  <span className="inline-block h-3 bg-slate" style={{ width: `${Math.max(2, (p.count / max) * 160)}px` }} aria-hidden="true" />
+                  <span
+                    className="inline-block h-3 bg-slate"
+                    style={{ width: `${Math.max(2, (p.count / max) * 160)}px` }}
+                    aria-hidden="true"
+                  />
                   {formatCount(p.count)} ({formatNumber(p.count / Math.max(1, total), "percent")})
                 </span>
               </td>
@@ -90,7 +154,9 @@ export function MissingnessMap({ patterns, columns, total }: { patterns: { colum
           ))}
         </tbody>
       </table>
-      <p className="mt-1 text-xs text-silt-ink">Filled cells are missing. Rows with no missing value in these columns are not drawn.</p>
+      <p className="mt-1 text-xs text-silt-ink">
+        Filled cells are missing. Rows with no missing value in these columns are not drawn.
+      </p>
     </div>
   );
 }
@@ -119,7 +185,9 @@ export function ConditionIndices({
       </thead>
       <tbody>
         {indices.map((eta, k) => {
-          const cols = (proportions.matrix[k] ?? []).map((v, j) => (v > share ? proportions.columns[j] : null)).filter(Boolean);
+          const cols = (proportions.matrix[k] ?? [])
+            .map((v, j) => (v > share ? proportions.columns[j] : null))
+            .filter(Boolean);
           const high = eta >= threshold && cols.length >= 2;
           return (
             <tr key={k} className={high ? "text-ochre-ink" : undefined}>

@@ -4,16 +4,29 @@ import { SeverityBadge } from "@/components/severity-badge";
 import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
 import { DfLedger, ledgerOf } from "./df-ledger";
-import { CoefficientsTable, CollinearityTable, ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
+import {
+  CoefficientsTable,
+  CollinearityTable,
+  ColumnsTable,
+  FindingsTable,
+  type FindingRow,
+} from "./report-tables";
 import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "./report-pictures";
 
 export function verdictOf(report: ReadinessReport): { tone: "clay" | "ochre" | "reed"; text: string } {
-  if (report.status === "unreadable") return { tone: "clay", text: "This file could not be read. The finding below says why and what to do." };
+  if (report.status === "unreadable")
+    return { tone: "clay", text: "This file could not be read. The finding below says why and what to do." };
   if (report.counts.blocker > 0) {
-    return { tone: "clay", text: `Needs fixes: ${countOf(report.counts.blocker, "blocker")} must be fixed before this batch can feed the model.` };
+    return {
+      tone: "clay",
+      text: `Needs fixes: ${countOf(report.counts.blocker, "blocker")} must be fixed before this batch can feed the model.`,
+    };
   }
   if (report.counts.warning > 0) {
-    return { tone: "ochre", text: `Usable with care: no blockers, ${countOf(report.counts.warning, "warning")} for the analyst to weigh.` };
+    return {
+      tone: "ochre",
+      text: `Usable with care: no blockers, ${countOf(report.counts.warning, "warning")} for the analyst to weigh.`,
+    };
   }
   return { tone: "reed", text: "Passes the checks: no blockers or warnings for the analyst to weigh." };
 }
@@ -21,9 +34,9 @@ export function verdictOf(report: ReadinessReport): { tone: "clay" | "ochre" | "
 export function Caution() {
   return (
     <p className="rounded border border-silt-line bg-white px-3 py-2 text-sm text-ink-soft" role="note">
-      These checks support the analyst&apos;s judgement; they do not replace it. A batch with no findings can still be wrong in
-      ways no check can see — units, mislabelled plots, a sample that is not what it claims — and the fit preview is a sanity
-      check on this batch alone, not the analysis.
+      These checks support the analyst&apos;s judgement; they do not replace it. A batch with no findings can
+      still be wrong in ways no check can see — units, mislabelled plots, a sample that is not what it claims
+      — and the fit preview is a sanity check on this batch alone, not the analysis.
     </p>
   );
 }
@@ -49,8 +62,14 @@ export function ReportView({
     id: `${i}`,
     ...(findingStatus ? { status: findingStatus.get(findingKey(f)) ?? "remains" } : {}),
   }));
-  const toneClass = { clay: "border-clay bg-clay-wash text-clay-ink", ochre: "border-ochre bg-ochre-wash text-ochre-ink", reed: "border-reed bg-reed-wash text-reed-ink" }[verdict.tone];
-  const planned = report.columns.filter((c) => c.role === "response" || c.role === "predictor").map((c) => c.name);
+  const toneClass = {
+    clay: "border-clay bg-clay-wash text-clay-ink",
+    ochre: "border-ochre bg-ochre-wash text-ochre-ink",
+    reed: "border-reed bg-reed-wash text-reed-ink",
+  }[verdict.tone];
+  const planned = report.columns
+    .filter((c) => c.role === "response" || c.role === "predictor")
+    .map((c) => c.name);
   const coll = report.collinearity;
 
   return (
@@ -62,71 +81,131 @@ export function ReportView({
           <SeverityBadge severity="warning" count={report.counts.warning} />
           <SeverityBadge severity="note" count={report.counts.note} />
           <span className="text-sm text-ink tabular-nums">
-            n = {formatCount(report.rows.complete)} complete of {formatCount(report.rows.total)} rows · p = {report.model.parameters} · residual df{" "}
-            {formatCount(report.model.residualDf)} · {formatNumber(report.model.perParameter, "estimate")} rows per parameter
+            n = {formatCount(report.rows.complete)} complete of {formatCount(report.rows.total)} rows · p ={" "}
+            {report.model.parameters} · residual df {formatCount(report.model.residualDf)} ·{" "}
+            {formatNumber(report.model.perParameter, "estimate")} rows per parameter
           </span>
         </div>
       </div>
 
       {report.status === "checked" ? (
-        <Section title="Degrees of freedom" note="Can this batch carry the planned model on its own? The bar splits the complete cases into what the model uses and what is left as residual df." id="ledger">
+        <Section
+          title="Degrees of freedom"
+          note="Can this batch carry the planned model on its own? The bar splits the complete cases into what the model uses and what is left as residual df."
+          id="ledger"
+        >
           <DfLedger data={ledgerOf(report, intercept)} label="This batch" />
         </Section>
       ) : null}
 
-      <Section title="Findings" id="findings" note="Row numbers count the header as row 1, as a spreadsheet shows them.">
+      <Section
+        title="Findings"
+        id="findings"
+        note="Row numbers count the header as row 1, as a spreadsheet shows them."
+      >
         <FindingsTable findings={rows} csvName={`${csvPrefix}-findings`} />
       </Section>
 
       {report.status === "checked" ? (
         <>
           <Section title="Columns" id="columns">
-            <ColumnsTable columns={report.columns} findings={report.findings} csvName={`${csvPrefix}-columns`} />
+            <ColumnsTable
+              columns={report.columns}
+              findings={report.findings}
+              csvName={`${csvPrefix}-columns`}
+            />
           </Section>
 
-          <Section title="Collinearity" id="collinearity" note="On the complete cases of the planned design. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992), comparable to √VIF.">
+          <Section
+            title="Collinearity"
+            id="collinearity"
+            note="On the complete cases of the planned design. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992), comparable to √VIF."
+          >
             {coll ? (
               <div className="grid gap-6">
                 {coll.aliased.length > 0 ? (
                   <ul className="text-sm">
                     {coll.aliased.map((a) => (
                       <li key={a.term} className="text-clay-ink">
-                        ■ <span className="font-mono">{a.term} = {a.combination}</span>
+                        ■{" "}
+                        <span className="font-mono">
+                          {a.term} = {a.combination}
+                        </span>
                       </li>
                     ))}
                   </ul>
                 ) : null}
-                <CollinearityTable terms={coll.terms} vifWarning={t.vifWarning} vifStrong={t.vifStrong} csvName={`${csvPrefix}-collinearity`} />
+                <CollinearityTable
+                  terms={coll.terms}
+                  vifWarning={t.vifWarning}
+                  vifStrong={t.vifStrong}
+                  csvName={`${csvPrefix}-collinearity`}
+                />
                 <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
                 <div>
                   <h3 className="mb-1 text-md font-semibold">Condition indices</h3>
-                  <p className="mb-2 text-xs text-silt-ink">Columns scaled to unit length, intercept included, not centred (Belsley, Kuh &amp; Welsch 1980). Flagged at η ≥ {t.conditionIndex} with two or more columns above {t.varianceProportion}.</p>
-                  <ConditionIndices indices={coll.conditionIndices} proportions={coll.varianceProportions} threshold={t.conditionIndex} share={t.varianceProportion} />
+                  <p className="mb-2 text-xs text-silt-ink">
+                    Columns scaled to unit length, intercept included, not centred (Belsley, Kuh &amp; Welsch
+                    1980). Flagged at η ≥ {t.conditionIndex} with two or more columns above{" "}
+                    {t.varianceProportion}.
+                  </p>
+                  <ConditionIndices
+                    indices={coll.conditionIndices}
+                    proportions={coll.varianceProportions}
+                    threshold={t.conditionIndex}
+                    share={t.varianceProportion}
+                  />
                 </div>
               </div>
             ) : (
-              <p className="text-sm text-silt-ink">Not computed: too few complete rows for the planned design.</p>
+              <p className="text-sm text-silt-ink">
+                Not computed: too few complete rows for the planned design.
+              </p>
             )}
           </Section>
 
-          <Section title="Missingness" id="missingness" note={report.missingness.littleMCAR ? `Little's MCAR test: χ² = ${formatNumber(report.missingness.littleMCAR.statistic, "statistic")} on ${report.missingness.littleMCAR.df} df, p ${pEquals(report.missingness.littleMCAR.pValue)}. A small p says the values are not missing completely at random.` : undefined}>
-            <MissingnessMap patterns={report.missingness.patterns} columns={planned} total={report.rows.total} />
+          <Section
+            title="Missingness"
+            id="missingness"
+            note={
+              report.missingness.littleMCAR
+                ? `Little's MCAR test: χ² = ${formatNumber(report.missingness.littleMCAR.statistic, "statistic")} on ${report.missingness.littleMCAR.df} df, p ${pEquals(report.missingness.littleMCAR.pValue)}. A small p says the values are not missing completely at random.`
+                : undefined
+            }
+          >
+            <MissingnessMap
+              patterns={report.missingness.patterns}
+              columns={planned}
+              total={report.rows.total}
+            />
           </Section>
 
-          <Section title="Fit preview" id="fit" note="Least squares on this batch's complete cases — a sanity check, not the analysis.">
+          <Section
+            title="Fit preview"
+            id="fit"
+            note="Least squares on this batch's complete cases — a sanity check, not the analysis."
+          >
             {report.fit ? (
               <div className="grid gap-3">
                 <p className="text-sm tabular-nums">
-                  R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² = {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}
-                  {formatNumber(report.fit.residualStdError, "estimate")} on {report.fit.dfResidual} df · overall F ={" "}
-                  {formatNumber(report.fit.F, "statistic")} on ({report.fit.dfModel}, {report.fit.dfResidual}) df, p{" "}
-                  {pEquals(report.fit.pValue)}
-                  {report.fit.power?.detectableR2 != null ? ` · detects ${detectable(report.fit.power.detectableR2)} with power ${formatNumber(report.fit.power.power, "estimate")} at α = ${formatNumber(report.fit.power.alpha, "estimate")}` : ""}
+                  R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² ={" "}
+                  {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}
+                  {formatNumber(report.fit.residualStdError, "estimate")} on {report.fit.dfResidual} df ·
+                  overall F = {formatNumber(report.fit.F, "statistic")} on ({report.fit.dfModel},{" "}
+                  {report.fit.dfResidual}) df, p {pEquals(report.fit.pValue)}
+                  {report.fit.power?.detectableR2 != null
+                    ? ` · detects ${detectable(report.fit.power.detectableR2)} with power ${formatNumber(report.fit.power.power, "estimate")} at α = ${formatNumber(report.fit.power.alpha, "estimate")}`
+                    : ""}
                 </p>
-                <CoefficientsTable coefficients={report.fit.coefficients} csvName={`${csvPrefix}-coefficients`} />
+                <CoefficientsTable
+                  coefficients={report.fit.coefficients}
+                  csvName={`${csvPrefix}-coefficients`}
+                />
               </div>
             ) : (
-              <p className="text-sm text-silt-ink">No fit: the model has no residual degrees of freedom on this batch.</p>
+              <p className="text-sm text-silt-ink">
+                No fit: the model has no residual degrees of freedom on this batch.
+              </p>
             )}
           </Section>
         </>

@@ -9,7 +9,14 @@ import { Input } from "@/components/ui/input";
 import { formatDateTime } from "@/lib/format";
 import type { Result } from "@/lib/result";
 
-type Token = { id: number; name: string; prefix: string; createdAt: string; lastUsedAt: string | null; revokedAt: string | null };
+type Token = {
+  id: number;
+  name: string;
+  prefix: string;
+  createdAt: string;
+  lastUsedAt: string | null;
+  revokedAt: string | null;
+};
 
 export function ApiTokens({
   tokens,
@@ -46,7 +53,12 @@ export function ApiTokens({
           });
         }}
       >
-        <Field id="token-name" label="New token's name" hint="What will use it, e.g. “nightly export script”." errors={errors.name}>
+        <Field
+          id="token-name"
+          label="New token's name"
+          hint="What will use it, e.g. “nightly export script”."
+          errors={errors.name}
+        >
           <Input value={name} onChange={(e) => setName(e.target.value)} maxLength={100} className="w-72" />
         </Field>
         <Button type="submit" busy={pending} className="mb-6">
@@ -54,10 +66,21 @@ export function ApiTokens({
         </Button>
       </form>
       {shown ? (
-        <div className="rounded border border-channel bg-channel-wash px-4 py-3" role="status" data-testid="new-token">
-          <p className="font-semibold">Copy the token “{shown.name}” now: it is shown this once and never again.</p>
-          <code className="mt-2 block break-all rounded bg-white px-2 py-1 font-mono text-sm">{shown.token}</code>
-          <p className="mt-2 text-sm">Send it as <code className="font-mono">Authorization: Bearer &lt;token&gt;</code>; it acts with your role and scope.</p>
+        <div
+          className="rounded border border-channel bg-channel-wash px-4 py-3"
+          role="status"
+          data-testid="new-token"
+        >
+          <p className="font-semibold">
+            Copy the token “{shown.name}” now: it is shown this once and never again.
+          </p>
+          <code className="mt-2 block break-all rounded bg-white px-2 py-1 font-mono text-sm">
+            {shown.token}
+          </code>
+          <p className="mt-2 text-sm">
+            Send it as <code className="font-mono">Authorization: Bearer &lt;token&gt;</code>; it acts with
+            your role and scope.
+          </p>
         </div>
       ) : null}
       {tokens.length ? (

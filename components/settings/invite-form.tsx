@@ -9,11 +9,24 @@ import type { Result } from "@/lib/result";
 
 type Org = { id: number; name: string; kind: string };
 
-export function InviteForm({ organisations, invite }: { organisations: Org[]; invite: (i: { email: string; name: string; role: string; organisationId: string }) => Promise<Result<{ email: string }>> }) {
+export function InviteForm({
+  organisations,
+  invite,
+}: {
+  organisations: Org[];
+  invite: (i: {
+    email: string;
+    name: string;
+    role: string;
+    organisationId: string;
+  }) => Promise<Result<{ email: string }>>;
+}) {
   const [v, setV] = useState({ email: "", name: "", role: "provider", organisationId: "" });
   const [errors, setErrors] = useState<Record<string, string[]>>({});
   const [pending, start] = useTransition();
-  const orgs = organisations.filter((o) => (v.role === "provider" ? o.kind === "provider" : o.kind === "team"));
+  const orgs = organisations.filter((o) =>
+    v.role === "provider" ? o.kind === "provider" : o.kind === "team",
+  );
   return (
     <form
       className="grid max-w-xl gap-4"
@@ -34,7 +47,12 @@ export function InviteForm({ organisations, invite }: { organisations: Org[]; in
       }}
     >
       <Field id="invite-email" label="E-mail" errors={errors.email}>
-        <Input type="email" value={v.email} onChange={(e) => setV({ ...v, email: e.target.value })} required />
+        <Input
+          type="email"
+          value={v.email}
+          onChange={(e) => setV({ ...v, email: e.target.value })}
+          required
+        />
       </Field>
       <Field id="invite-name" label="Name" errors={errors.name}>
         <Input value={v.name} onChange={(e) => setV({ ...v, name: e.target.value })} required />
@@ -47,12 +65,20 @@ export function InviteForm({ organisations, invite }: { organisations: Org[]; in
       </Field>
       <Field id="invite-org" label="Organisation" errors={errors.organisationId}>
         <Select value={v.organisationId} onChange={(e) => setV({ ...v, organisationId: e.target.value })}>
-          <option value="">{v.role === "provider" ? "Choose the provider organisation" : "No organisation"}</option>
-          {orgs.map((o) => <option key={o.id} value={o.id}>{o.name}</option>)}
+          <option value="">
+            {v.role === "provider" ? "Choose the provider organisation" : "No organisation"}
+          </option>
+          {orgs.map((o) => (
+            <option key={o.id} value={o.id}>
+              {o.name}
+            </option>
+          ))}
         </Select>
       </Field>
       <div>
-        <Button type="submit" busy={pending}>Send invitation</Button>
+        <Button type="submit" busy={pending}>
+          Send invitation
+        </Button>
       </div>
     </form>
   );

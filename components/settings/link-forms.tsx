@@ -31,7 +31,10 @@ export function ForgotPasswordForm({ request }: { request: (email: string) => Pr
   const [pending, start] = useTransition();
   if (sent) {
     return (
-      <Done>If {email} has an active account, a link to choose a new password is on its way. It works once, for one hour.</Done>
+      <Done>
+        If {email} has an active account, a link to choose a new password is on its way. It works once, for
+        one hour.
+      </Done>
     );
   }
   return (
@@ -45,15 +48,33 @@ export function ForgotPasswordForm({ request }: { request: (email: string) => Pr
       })}
     >
       <Field id="email" label="E-mail" errors={errors.email}>
-        <Input type="email" autoComplete="email" value={email} onChange={(e) => setEmail(e.target.value)} required />
+        <Input
+          type="email"
+          autoComplete="email"
+          value={email}
+          onChange={(e) => setEmail(e.target.value)}
+          required
+        />
       </Field>
-      <Button type="submit" busy={pending}>Send me a link</Button>
-      <Link href="/sign-in" className="text-sm text-channel underline">Back to sign-in</Link>
+      <Button type="submit" busy={pending}>
+        Send me a link
+      </Button>
+      <Link href="/sign-in" className="text-sm text-channel underline">
+        Back to sign-in
+      </Link>
     </form>
   );
 }
 
-export function SetPasswordForm({ token, minLength, save }: { token: string; minLength: number; save: (token: string, p: string, c: string) => Promise<Result<{ email: string }>> }) {
+export function SetPasswordForm({
+  token,
+  minLength,
+  save,
+}: {
+  token: string;
+  minLength: number;
+  save: (token: string, p: string, c: string) => Promise<Result<{ email: string }>>;
+}) {
   const [password, setPassword] = useState("");
   const [confirm, setConfirm] = useState("");
   const [errors, setErrors] = useState<Record<string, string[]>>({});
@@ -63,7 +84,11 @@ export function SetPasswordForm({ token, minLength, save }: { token: string; min
   if (done) {
     return (
       <Done>
-        Your password is set. <Link href="/sign-in" className="underline">Sign in</Link>.
+        Your password is set.{" "}
+        <Link href="/sign-in" className="underline">
+          Sign in
+        </Link>
+        .
       </Done>
     );
   }
@@ -80,14 +105,36 @@ export function SetPasswordForm({ token, minLength, save }: { token: string; min
         }
       })}
     >
-      <Field id="password" label="New password" hint={`At least ${minLength} characters.`} errors={errors.password}>
-        <Input type="password" autoComplete="new-password" value={password} onChange={(e) => setPassword(e.target.value)} required minLength={minLength} />
+      <Field
+        id="password"
+        label="New password"
+        hint={`At least ${minLength} characters.`}
+        errors={errors.password}
+      >
+        <Input
+          type="password"
+          autoComplete="new-password"
+          value={password}
+          onChange={(e) => setPassword(e.target.value)}
+          required
+          minLength={minLength}
+        />
       </Field>
       <Field id="confirm" label="New password again" errors={errors.confirmPassword}>
-        <Input type="password" autoComplete="new-password" value={confirm} onChange={(e) => setConfirm(e.target.value)} required />
+        <Input
+          type="password"
+          autoComplete="new-password"
+          value={confirm}
+          onChange={(e) => setConfirm(e.target.value)}
+          required
+        />
       </Field>
-      <p aria-live="polite" className="text-sm text-clay">{message}</p>
-      <Button type="submit" busy={pending}>Set password</Button>
+      <p aria-live="polite" className="text-sm text-clay">
+        {message}
+      </p>
+      <Button type="submit" busy={pending}>
+        Set password
+      </Button>
     </form>
   );
 }

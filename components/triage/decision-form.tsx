@@ -18,7 +18,8 @@ type Props = {
   decide: (batchId: string, version: number, input: DecisionInput) => Promise<Result<DecisionDone>>;
 };
 
-const textareaClass = "w-full rounded border border-silt bg-white px-2.5 py-1.5 text-base focus:outline-2 focus:outline-channel";
+const textareaClass =
+  "w-full rounded border border-silt bg-white px-2.5 py-1.5 text-base focus:outline-2 focus:outline-channel";
 
 export function DecisionForm({ batchId, version, findings, canAccept, decide }: Props) {
   const router = useRouter();
@@ -37,7 +38,11 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
     start(async () => {
       const r = await decide(batchId, version, { decision, comment, findingComments });
       if (r.ok) {
-        toast.success(r.data.state === "accepted" ? `Accepted. ${r.data.emailsQueued} e-mail(s) to the provider queued.` : `Bounced. ${r.data.emailsQueued} e-mail(s) with your comments queued.`);
+        toast.success(
+          r.data.state === "accepted"
+            ? `Accepted. ${r.data.emailsQueued} e-mail(s) to the provider queued.`
+            : `Bounced. ${r.data.emailsQueued} e-mail(s) with your comments queued.`,
+        );
         setErrors({});
         router.refresh();
       } else {
@@ -49,13 +54,34 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
   }
 
   return (
-    <form className="grid gap-4" onSubmit={(e) => e.preventDefault()} aria-label="Decision" data-testid="decision-form">
-      <Field id="decision-comment" label="Comment to the provider" hint="Sent by e-mail with the decision. Required to bounce unless you comment on a finding." errors={errors.comment}>
-        <textarea className={textareaClass} rows={3} value={comment} onChange={(e) => setComment(e.target.value)} maxLength={5000} />
+    <form
+      className="grid gap-4"
+      onSubmit={(e) => e.preventDefault()}
+      aria-label="Decision"
+      data-testid="decision-form"
+    >
+      <Field
+        id="decision-comment"
+        label="Comment to the provider"
+        hint="Sent by e-mail with the decision. Required to bounce unless you comment on a finding."
+        errors={errors.comment}
+      >
+        <textarea
+          className={textareaClass}
+          rows={3}
+          value={comment}
+          onChange={(e) => setComment(e.target.value)}
+          maxLength={5000}
+        />
       </Field>
       {findings.length ? (
-        <details className="rounded border border-silt-line bg-white px-3 py-2" open={findings.some((f) => f.severity === "blocker")}>
-          <summary className="cursor-pointer text-sm font-semibold">Comment on findings ({findings.length})</summary>
+        <details
+          className="rounded border border-silt-line bg-white px-3 py-2"
+          open={findings.some((f) => f.severity === "blocker")}
+        >
+          <summary className="cursor-pointer text-sm font-semibold">
+            Comment on findings ({findings.length})
+          </summary>
           <ul className="mt-2 grid gap-3">
             {findings.map((f, i) => (
               <li key={i} className="grid gap-1">
@@ -63,14 +89,29 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
                   <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
                   <span>
                     <code className="text-xs">{f.code}</code>
-                    {f.columns.length ? <span className="font-mono text-xs"> ({f.columns.join(", ")})</span> : null} — {f.message}
+                    {f.columns.length ? (
+                      <span className="font-mono text-xs"> ({f.columns.join(", ")})</span>
+                    ) : null}{" "}
+                    — {f.message}
                   </span>
                 </label>
-                <textarea id={`fc-${i}`} data-finding-code={f.code} className={textareaClass} rows={1} value={perFinding[i] ?? ""} maxLength={2000} onChange={(e) => setPerFinding({ ...perFinding, [i]: e.target.value })} />
+                <textarea
+                  id={`fc-${i}`}
+                  data-finding-code={f.code}
+                  className={textareaClass}
+                  rows={1}
+                  value={perFinding[i] ?? ""}
+                  maxLength={2000}
+                  onChange={(e) => setPerFinding({ ...perFinding, [i]: e.target.value })}
+                />
               </li>
             ))}
           </ul>
-          {errors.findingComments ? <p className="text-sm text-clay" aria-live="polite">{errors.findingComments.join(" ")}</p> : null}
+          {errors.findingComments ? (
+            <p className="text-sm text-clay" aria-live="polite">
+              {errors.findingComments.join(" ")}
+            </p>
+          ) : null}
         </details>
       ) : null}
       <div className="flex flex-wrap items-center gap-3">
@@ -82,7 +123,9 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
             Accept into the pool
           </Button>
         ) : null}
-        <p className="text-xs text-silt-ink">The decision is final for this version and recorded in the audit trail with your name.</p>
+        <p className="text-xs text-silt-ink">
+          The decision is final for this version and recorded in the audit trail with your name.
+        </p>
       </div>
     </form>
   );

@@ -14,11 +14,21 @@ type Row = QueueRow & { id: string };
 function waited(since: string, now: number): { ms: number; text: string } {
   const ms = Math.max(0, now - new Date(since).getTime());
   const h = ms / 3_600_000;
-  const text = h < 1 ? `${Math.max(1, Math.round(ms / 60_000))} min` : h < 48 ? formatHours(h) : countOf(Math.round(h / 24), "day");
+  const text =
+    h < 1
+      ? `${Math.max(1, Math.round(ms / 60_000))} min`
+      : h < 48
+        ? formatHours(h)
+        : countOf(Math.round(h / 24), "day");
   return { ms, text };
 }
 
-const SEVERITIES = { any: "Any severity", blocker: "With blockers", warning: "Warnings, no blockers", clean: "No blockers or warnings" } as const;
+const SEVERITIES = {
+  any: "Any severity",
+  blocker: "With blockers",
+  warning: "Warnings, no blockers",
+  clean: "No blockers or warnings",
+} as const;
 
 export function QueueView({ initial }: { initial: QueueRow[] }) {
   const { data = initial, error } = useQueue(initial);
@@ -33,7 +43,12 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
   const rows: Row[] = useMemo(
     () =>
       data
-        .filter((r) => (!study || r.studyTitle === study) && (!org || r.organisationName === org) && (!state || r.state === state))
+        .filter(
+          (r) =>
+            (!study || r.studyTitle === study) &&
+            (!org || r.organisationName === org) &&
+            (!state || r.state === state),
+        )
         .filter((r) => {
           if (severity === "any") return true;
           if (severity === "blocker") return (r.blockers ?? 0) > 0;
@@ -51,14 +66,23 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
       width: "minmax(14rem, 2.5fr)",
       value: (r) => r.title,
       render: (r) => (
-        <Link href={`/batches/${r.batchId}?v=${r.version}`} className="font-semibold text-channel underline-offset-2 hover:underline">
+        <Link
+          href={`/batches/${r.batchId}?v=${r.version}`}
+          className="font-semibold text-channel underline-offset-2 hover:underline"
+        >
           {r.title} <span className="font-normal text-silt-ink">v{r.version}</span>
         </Link>
       ),
     },
     { key: "study", header: "Study", value: (r) => r.studyTitle },
     { key: "org", header: "Provider", value: (r) => r.organisationName },
-    { key: "state", header: "State", width: "9rem", value: (r) => r.state, render: (r) => <StateBadge state={r.state} /> },
+    {
+      key: "state",
+      header: "State",
+      width: "9rem",
+      value: (r) => r.state,
+      render: (r) => <StateBadge state={r.state} />,
+    },
     {
       key: "findings",
       header: "Findings",
@@ -74,8 +98,21 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
           </span>
         ),
     },
-    { key: "df", header: "Residual df", numeric: true, value: (r) => r.residualDf, render: (r) => formatCount(r.residualDf) },
-    { key: "waited", header: "Waiting", numeric: true, width: "7rem", value: (r) => waited(r.since, now).ms, render: (r) => waited(r.since, now).text },
+    {
+      key: "df",
+      header: "Residual df",
+      numeric: true,
+      value: (r) => r.residualDf,
+      render: (r) => formatCount(r.residualDf),
+    },
+    {
+      key: "waited",
+      header: "Waiting",
+      numeric: true,
+      width: "7rem",
+      value: (r) => waited(r.since, now).ms,
+      render: (r) => waited(r.since, now).text,
+    },
   ];
 
   return (
@@ -85,14 +122,18 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
           Study
           <Select value={study} onChange={(e) => setStudy(e.target.value)}>
             <option value="">All studies</option>
-            {studies.map((s) => <option key={s}>{s}</option>)}
+            {studies.map((s) => (
+              <option key={s}>{s}</option>
+            ))}
           </Select>
         </label>
         <label className="grid gap-1 text-sm font-semibold">
           Provider
           <Select value={org} onChange={(e) => setOrg(e.target.value)}>
             <option value="">All providers</option>
-            {orgs.map((o) => <option key={o}>{o}</option>)}
+            {orgs.map((o) => (
+              <option key={o}>{o}</option>
+            ))}
           </Select>
         </label>
         <label className="grid gap-1 text-sm font-semibold">
@@ -108,12 +149,27 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
         <label className="grid gap-1 text-sm font-semibold">
           Severity
           <Select value={severity} onChange={(e) => setSeverity(e.target.value as keyof typeof SEVERITIES)}>
-            {Object.entries(SEVERITIES).map(([k, v]) => <option key={k} value={k}>{v}</option>)}
+            {Object.entries(SEVERITIES).map(([k, v]) => (
+              <option key={k} value={k}>
+                {v}
+              </option>
+            ))}
           </Select>
         </label>
       </div>
-      {error ? <p className="text-sm text-clay" role="alert">The queue could not be refreshed: {error.message} It will be tried again.</p> : null}
-      <DataTable rows={rows} columns={columns} caption="Review queue" csvName="review-queue" filterPlaceholder="Filter batches" empty={<p className="text-base text-silt-ink">Nothing waits in these filters.</p>} />
+      {error ? (
+        <p className="text-sm text-clay" role="alert">
+          The queue could not be refreshed: {error.message} It will be tried again.
+        </p>
+      ) : null}
+      <DataTable
+        rows={rows}
+        columns={columns}
+        caption="Review queue"
+        csvName="review-queue"
+        filterPlaceholder="Filter batches"
+        empty={<p className="text-base text-silt-ink">Nothing waits in these filters.</p>}
+      />
     </div>
   );
 }

@@ -13,7 +13,15 @@ const tones: Record<BadgeTone, string> = {
 };
 
 /** A small label. Colour is never the only signal: the text always says it. */
-export function Badge({ tone = "neutral", className, children }: { tone?: BadgeTone; className?: string; children: ReactNode }) {
+export function Badge({
+  tone = "neutral",
+  className,
+  children,
+}: {
+  tone?: BadgeTone;
+  className?: string;
+  children: ReactNode;
+}) {
   return (
     <span
       className={cx(

@@ -20,7 +20,8 @@ export function Field({ id, label, hint, errors, className, children }: FieldPro
   const list = errors == null ? [] : typeof errors === "string" ? [errors] : errors;
   const errorId = `${id}-error`;
   const hintId = `${id}-hint`;
-  const describedBy = [hint ? hintId : null, list.length ? errorId : null].filter(Boolean).join(" ") || undefined;
+  const describedBy =
+    [hint ? hintId : null, list.length ? errorId : null].filter(Boolean).join(" ") || undefined;
   const control = isValidElement(children)
     ? cloneElement(children, {
         id,

@@ -43,8 +43,16 @@ export class FetchXmlHttpRequest {
   }
 
   send(body?: BodyInit | null): void {
-    const size = body instanceof FormData ? [...body.values()].reduce((s, v) => s + (typeof v === "string" ? v.length : v.size), 0) : 0;
-    fetch(this.url, { method: this.method, headers: this.headers, body: body ?? null, signal: this.ac.signal })
+    const size =
+      body instanceof FormData
+        ? [...body.values()].reduce((s, v) => s + (typeof v === "string" ? v.length : v.size), 0)
+        : 0;
+    fetch(this.url, {
+      method: this.method,
+      headers: this.headers,
+      body: body ?? null,
+      signal: this.ac.signal,
+    })
       .then(async (r) => {
         for (const fn of this.uploadListeners) fn({ loaded: size, total: size });
         this.status = r.status;

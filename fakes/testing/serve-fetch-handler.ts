@@ -20,7 +20,10 @@ function toRequest(req: IncomingMessage, base: string): Request {
   } as RequestInit);
 }
 
-export async function serveFetchHandler(handler: (req: Request) => Promise<Response>, port = 0): Promise<ServedHandler> {
+export async function serveFetchHandler(
+  handler: (req: Request) => Promise<Response>,
+  port = 0,
+): Promise<ServedHandler> {
   let base = "";
   const server = createServer((req, res) => {
     handler(toRequest(req, base))

@@ -5,7 +5,11 @@
  */
 import { genUploader } from "uploadthing/client";
 import { createRouteHandler } from "uploadthing/server";
-import { makeFileRouter, type BatchFileRouter, type UploadedBatchFile } from "@/lib/batches/intake/file-router";
+import {
+  makeFileRouter,
+  type BatchFileRouter,
+  type UploadedBatchFile,
+} from "@/lib/batches/intake/file-router";
 import { serveFetchHandler, type ServedHandler } from "./serve-fetch-handler";
 
 export type Completed = { meta: Record<string, unknown>; file: UploadedBatchFile };
@@ -17,7 +21,10 @@ export type TestUploadApp = {
   completed: Completed[];
   /** bodies of error hooks the upload service sent */
   uploadErrors: string[];
-  upload(file: File, opts?: { user?: string; input?: { studySlug: string; label?: string } }): Promise<UploadResult[]>;
+  upload(
+    file: File,
+    opts?: { user?: string; input?: { studySlug: string; label?: string } },
+  ): Promise<UploadResult[]>;
 };
 
 /**
@@ -36,7 +43,8 @@ export async function startTestUploadApp(opts: {
     maxUploadMb: 8,
     authorise(req, input) {
       const user = req.headers.get("x-test-user");
-      if (user !== "provider-1") throw Object.assign(new Error("Only provider-1 may upload here."), { code: "forbidden" });
+      if (user !== "provider-1")
+        throw Object.assign(new Error("Only provider-1 may upload here."), { code: "forbidden" });
       return { uploader: user, study: input.studySlug };
     },
     async onComplete(meta, file) {

@@ -42,7 +42,11 @@ async function one(store: FileStore, u: Record<string, unknown>): Promise<Stored
 }
 
 /** Dispatches one `/v6/*` call. Unknown paths answer 404. */
-export async function handleApi(pathname: string, body: Record<string, unknown>, ctx: ApiContext): Promise<ApiResult> {
+export async function handleApi(
+  pathname: string,
+  body: Record<string, unknown>,
+  ctx: ApiContext,
+): Promise<ApiResult> {
   const { store } = ctx;
   switch (pathname) {
     case "/v6/deleteFiles": {
@@ -55,7 +59,9 @@ export async function handleApi(pathname: string, body: Record<string, unknown>,
     case "/v6/getFileUrl": {
       const r = await resolveKeys(store, body);
       if (typeof r === "string") return bad(r);
-      const data = r.files.filter((f): f is StoredFile => f !== null).map((f) => ({ key: f.key, url: fileUrl(ctx.base, f.key) }));
+      const data = r.files
+        .filter((f): f is StoredFile => f !== null)
+        .map((f) => ({ key: f.key, url: fileUrl(ctx.base, f.key) }));
       return { status: 200, json: { data } };
     }
     case "/v6/listFiles": {
@@ -88,10 +94,12 @@ export async function handleApi(pathname: string, body: Record<string, unknown>,
         const f = await one(store, raw ?? {});
         if (!f) return { status: 404, json: { error: "No such file." } };
         if (pathname === "/v6/renameFiles") {
-          if (typeof raw.newName !== "string" || raw.newName === "") return bad("Each update needs a `newName`.");
+          if (typeof raw.newName !== "string" || raw.newName === "")
+            return bad("Each update needs a `newName`.");
           await store.writeMeta({ ...f, name: raw.newName });
         } else {
-          if (raw.acl !== "public-read" && raw.acl !== "private") return bad("`acl` must be public-read or private.");
+          if (raw.acl !== "public-read" && raw.acl !== "private")
+            return bad("`acl` must be public-read or private.");
           await store.writeMeta({ ...f, acl: raw.acl });
         }
       }
@@ -102,7 +110,12 @@ export async function handleApi(pathname: string, body: Record<string, unknown>,
       const totalBytes = all.reduce((s, f) => s + f.size, 0);
       return {
         status: 200,
-        json: { totalBytes, appTotalBytes: totalBytes, filesUploaded: all.length, limitBytes: 100 * 1024 ** 3 },
+        json: {
+          totalBytes,
+          appTotalBytes: totalBytes,
+          filesUploaded: all.length,
+          limitBytes: 100 * 1024 ** 3,
+        },
       };
     }
     default:

@@ -11,7 +11,12 @@ export const CORS_HEADERS: Record<string, string> = {
   "access-control-allow-private-network": "true",
 };
 
-export function sendJson(res: ServerResponse, status: number, body: unknown, extra: Record<string, string> = {}): void {
+export function sendJson(
+  res: ServerResponse,
+  status: number,
+  body: unknown,
+  extra: Record<string, string> = {},
+): void {
   if (res.headersSent || res.destroyed) return;
   const text = JSON.stringify(body);
   res.writeHead(status, {
@@ -53,7 +58,8 @@ export async function readJsonObject(req: IncomingMessage): Promise<Record<strin
   } catch {
     throw new BodyError("The request body is not valid JSON.");
   }
-  if (v === null || typeof v !== "object" || Array.isArray(v)) throw new BodyError("The request body must be a JSON object.");
+  if (v === null || typeof v !== "object" || Array.isArray(v))
+    throw new BodyError("The request body must be a JSON object.");
   return v as Record<string, unknown>;
 }
 

@@ -50,7 +50,12 @@ function urls(ctx: IngestContext, key: string, appId: string) {
   return { url: u, appUrl: `${ctx.base}/a/${appId}/${key}`, ufsUrl: u };
 }
 
-async function postHook(ctx: IngestContext, reg: Registration, hook: "callback" | "error", payload: string): Promise<string | null> {
+async function postHook(
+  ctx: IngestContext,
+  reg: Registration,
+  hook: "callback" | "error",
+  payload: string,
+): Promise<string | null> {
   const url = new URL(reg.callbackUrl);
   url.searchParams.set("slug", reg.callbackSlug);
   try {
@@ -73,7 +78,12 @@ async function postHook(ctx: IngestContext, reg: Registration, hook: "callback" 
 }
 
 /** Sends a hook to the app: on the dev stream, or as a POST. Returns an error text or null. */
-async function deliver(ctx: IngestContext, reg: Registration, hook: "callback" | "error", payload: string): Promise<string | null> {
+async function deliver(
+  ctx: IngestContext,
+  reg: Registration,
+  hook: "callback" | "error",
+  payload: string,
+): Promise<string | null> {
   if (!reg.isDev) return postHook(ctx, reg, hook, payload);
   const s = reg.stream;
   if (!s || s.closed || s.res.destroyed) return "The app's dev stream for this upload is no longer open.";
@@ -81,22 +91,34 @@ async function deliver(ctx: IngestContext, reg: Registration, hook: "callback" |
   return null;
 }
 
-async function reportError(ctx: IngestContext, key: string, reg: Registration | null, message: string): Promise<void> {
+async function reportError(
+  ctx: IngestContext,
+  key: string,
+  reg: Registration | null,
+  message: string,
+): Promise<void> {
   if (!reg) return;
   const err = await deliver(ctx, reg, "error", JSON.stringify({ fileKey: key, error: message }));
   if (err) ctx.log(`upload fake: ${err}`);
   ctx.state.finish(key);
 }
 
-export async function handlePut(req: IncomingMessage, res: ServerResponse, key: string, ctx: IngestContext): Promise<void> {
+export async function handlePut(
+  req: IncomingMessage,
+  res: ServerResponse,
+  key: string,
+  ctx: IngestContext,
+): Promise<void> {
   if (!isValidKey(key)) return reject(req, res, 404, "That is not a file key.");
   const check = checkSignedUrl(requestUrl(req), ctx.apiKey);
   if (!check.ok) return reject(req, res, check.status, check.message);
   const p = check.params;
   const identifier = utParam(p, "x-ut-identifier") ?? "";
-  if (ctx.appId && identifier !== ctx.appId) return reject(req, res, 403, "The URL was signed for another app.");
+  if (ctx.appId && identifier !== ctx.appId)
+    return reject(req, res, 403, "The URL was signed for another app.");
   const range = /^bytes=(\d+)-$/.exec(String(req.headers.range ?? "bytes=0-"));
-  if (!range || range[1] !== "0") return reject(req, res, 416, "Only whole uploads are accepted (Range: bytes=0-).");
+  if (!range || range[1] !== "0")
+    return reject(req, res, 416, "Only whole uploads are accepted (Range: bytes=0-).");
   const boundary = boundaryOf(req.headers["content-type"]);
   if (!boundary) return reject(req, res, 400, "The upload must be multipart/form-data with a `file` part.");
   if (ctx.state.uploading.has(key)) return reject(req, res, 409, "This file key is being uploaded already.");
@@ -109,7 +131,13 @@ export async function handlePut(req: IncomingMessage, res: ServerResponse, key: 
     if (await ctx.store.get(key)) return reject(req, res, 409, "This file key has already been uploaded.");
     if (slug) {
       reg = await ctx.state.waitForRegistration(key, ctx.registrationWaitMs);
-      if (!reg) return reject(req, res, 400, "The app did not register this upload (no /route-metadata for its key).");
+      if (!reg)
+        return reject(
+          req,
+          res,
+          400,
+          "The app did not register this upload (no /route-metadata for its key).",
+        );
     }
     const declared = Number(utParam(p, "x-ut-file-size"));
     const hasSize = Number.isInteger(declared) && declared >= 0;
@@ -175,7 +203,11 @@ export async function handlePut(req: IncomingMessage, res: ServerResponse, key: 
         // In production mode the SDK answers the callback only after onUploadComplete and its
         // /callback-result post; no result shortly after means onUploadComplete failed.
         setTimeout(
-          () => ctx.state.settle(key, { ok: false, error: "The app could not record the upload (onUploadComplete failed). Try again." }),
+          () =>
+            ctx.state.settle(key, {
+              ok: false,
+              error: "The app could not record the upload (onUploadComplete failed). Try again.",
+            }),
           ctx.callbackGraceMs,
         ).unref();
       }

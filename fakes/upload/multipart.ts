@@ -25,7 +25,11 @@ export function boundaryOf(contentType: string | undefined): string | null {
   return m ? (m[1] ?? m[2] ?? null) : null;
 }
 
-function parsePartHeaders(raw: string): { name: string | null; filename: string | null; contentType: string | null } {
+function parsePartHeaders(raw: string): {
+  name: string | null;
+  filename: string | null;
+  contentType: string | null;
+} {
   let name: string | null = null;
   let filename: string | null = null;
   let contentType: string | null = null;
@@ -68,7 +72,8 @@ export async function receiveMultipartFile(
   const emit = async (chunk: Buffer) => {
     if (!toFile || chunk.length === 0) return;
     size += chunk.length;
-    if (size > maxBytes) throw new MultipartError(`The file is larger than the ${maxBytes} bytes announced for it.`, 413);
+    if (size > maxBytes)
+      throw new MultipartError(`The file is larger than the ${maxBytes} bytes announced for it.`, 413);
     md5.update(chunk);
     await fh.write(chunk);
   };

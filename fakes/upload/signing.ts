@@ -20,8 +20,7 @@ export function verify(payload: string, signature: string | null | undefined, ap
 }
 
 export type SignedUrlCheck =
-  | { ok: true; params: URLSearchParams }
-  | { ok: false; status: 403; message: string };
+  { ok: true; params: URLSearchParams } | { ok: false; status: 403; message: string };
 
 /**
  * Checks a URL signed the SDK's way: the signature covers the full URL text up to
@@ -36,7 +35,8 @@ export function checkSignedUrl(fullUrl: string, apiKey: string, now = Date.now()
   if (!verify(signed, signature, apiKey)) return { ok: false, status: 403, message: "Invalid signature." };
   const params = new URL(fullUrl).searchParams;
   const expires = Number(params.get("expires"));
-  if (!Number.isFinite(expires) || expires <= 0) return { ok: false, status: 403, message: "The URL carries no expiry." };
+  if (!Number.isFinite(expires) || expires <= 0)
+    return { ok: false, status: 403, message: "The URL carries no expiry." };
   if (expires < now) return { ok: false, status: 403, message: "The signed URL has expired." };
   return { ok: true, params };
 }

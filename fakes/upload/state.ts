@@ -86,7 +86,10 @@ export class IngestState {
     return new Promise<HeldResult>((resolve) => {
       const t = setTimeout(() => {
         this.held.delete(key);
-        resolve({ ok: false, error: `The app did not confirm recording the upload within ${Math.round(ms / 1000)} s. Try again.` });
+        resolve({
+          ok: false,
+          error: `The app did not confirm recording the upload within ${Math.round(ms / 1000)} s. Try again.`,
+        });
       }, ms);
       this.held.set(key, (r) => {
         clearTimeout(t);
@@ -105,7 +108,8 @@ export class IngestState {
   }
 
   shutdown(): void {
-    for (const key of [...this.held.keys()]) this.settle(key, { ok: false, error: "The upload service is shutting down." });
+    for (const key of [...this.held.keys()])
+      this.settle(key, { ok: false, error: "The upload service is shutting down." });
     for (const s of [...this.streams]) this.endStream(s);
   }
 }

@@ -33,7 +33,12 @@ export async function lookupApiToken(token: string): Promise<TokenLookup> {
   const db = getDb();
   // one round trip: the token with its user (every API call with a token starts here)
   const rows = await db
-    .select({ tokenId: apiTokens.id, revokedAt: apiTokens.revokedAt, lastUsedAt: apiTokens.lastUsedAt, user: sessionUserColumns })
+    .select({
+      tokenId: apiTokens.id,
+      revokedAt: apiTokens.revokedAt,
+      lastUsedAt: apiTokens.lastUsedAt,
+      user: sessionUserColumns,
+    })
     .from(apiTokens)
     .leftJoin(users, eq(users.id, apiTokens.userId))
     .leftJoin(organisations, eq(organisations.id, users.organisationId))
@@ -50,7 +55,13 @@ export async function lookupApiToken(token: string): Promise<TokenLookup> {
       .update(apiTokens)
       .set({ lastUsedAt: now })
       .where(
-        and(eq(apiTokens.id, row.tokenId), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now.getTime() - LAST_USED_RESOLUTION_MS)))),
+        and(
+          eq(apiTokens.id, row.tokenId),
+          or(
+            isNull(apiTokens.lastUsedAt),
+            lt(apiTokens.lastUsedAt, new Date(now.getTime() - LAST_USED_RESOLUTION_MS)),
+          ),
+        ),
       );
   }
   return { ok: true, user, tokenId: row.tokenId };

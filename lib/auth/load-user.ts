@@ -27,7 +27,9 @@ export const userIdentityColumns = {
 /** The columns a SessionUser is read from. */
 export const sessionUserColumns = { ...userIdentityColumns, sessionVersion: users.sessionVersion };
 
-type SessionUserRow = { [K in keyof typeof sessionUserColumns]: (typeof sessionUserColumns)[K]["_"]["data"] | null };
+type SessionUserRow = {
+  [K in keyof typeof sessionUserColumns]: (typeof sessionUserColumns)[K]["_"]["data"] | null;
+};
 
 /** The SessionUser of a row read with sessionUserColumns, or null when the account is not active. */
 export function toSessionUser(row: SessionUserRow | undefined, sessionVersion?: number): SessionUser | null {

@@ -13,7 +13,9 @@ export const SESSION_MAX_AGE_SECONDS = 12 * 60 * 60;
  * also reads to pick the cookie name back — and lib/env.ts makes sure it is https whenever
  * APP_URL is. The cookies are httpOnly and SameSite=Lax (next-auth's defaults, kept).
  */
-export function secureCookiesFor(source: Record<string, string | undefined> = { NEXTAUTH_URL: rawSetting("NEXTAUTH_URL") }): boolean {
+export function secureCookiesFor(
+  source: Record<string, string | undefined> = { NEXTAUTH_URL: rawSetting("NEXTAUTH_URL") },
+): boolean {
   return (source.NEXTAUTH_URL ?? "").startsWith("https://");
 }
 

@@ -29,7 +29,18 @@ export const PERMISSIONS: Record<UserRole, readonly Action[]> = {
   // analysts work on the studies they are assigned to
   analyst: ["study.read", "batch.read", "batch.decide", "pool.read", "token.manage", "mailbox.read"],
   // leads track every study and invite providers and analysts
-  lead: ["study.read", "study.manage", "plan.edit", "batch.read", "pool.read", "board.read", "user.invite", "audit.read", "token.manage", "mailbox.read"],
+  lead: [
+    "study.read",
+    "study.manage",
+    "plan.edit",
+    "batch.read",
+    "pool.read",
+    "board.read",
+    "user.invite",
+    "audit.read",
+    "token.manage",
+    "mailbox.read",
+  ],
   admin: ACTIONS,
 };
 

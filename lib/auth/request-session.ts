@@ -28,7 +28,10 @@ export async function getSessionUserFromRequest(req: Request): Promise<SessionUs
   const secret = rawSetting("NEXTAUTH_SECRET");
   if (!secret) return null;
   // headers left empty on purpose: getToken would otherwise read a Bearer header as a JWT
-  const token = await getToken({ req: { cookies: cookiesOf(req), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"], secret });
+  const token = await getToken({
+    req: { cookies: cookiesOf(req), headers: {} } as unknown as Parameters<typeof getToken>[0]["req"],
+    secret,
+  });
   if (!token || typeof token.uid !== "number" || typeof token.sv !== "number") return null;
   return loadSessionUser(token.uid, token.sv);
 }

@@ -11,7 +11,8 @@ export const SIGN_IN_ERROR = {
 } as const;
 
 const MESSAGES: Record<string, string> = {
-  [SIGN_IN_ERROR.wrongCredentials]: "That e-mail and password do not match an account. Check both and try again.",
+  [SIGN_IN_ERROR.wrongCredentials]:
+    "That e-mail and password do not match an account. Check both and try again.",
   [SIGN_IN_ERROR.tooManyAttempts]:
     "Too many failed sign-ins for this e-mail. Wait 15 minutes and try again, or ask an administrator to reset your password.",
   [SIGN_IN_ERROR.deactivated]: "This account has been deactivated. Ask an administrator to reactivate it.",

@@ -7,7 +7,17 @@
 import { and, eq } from "drizzle-orm";
 import type { z } from "zod";
 import { getDb, type DbOrTx, type Tx } from "@/db/client";
-import { batches, batchVersions, decisions, findingComments, organisations, reports, studies, studyAnalysts, users } from "@/db/schema";
+import {
+  batches,
+  batchVersions,
+  decisions,
+  findingComments,
+  organisations,
+  reports,
+  studies,
+  studyAnalysts,
+  users,
+} from "@/db/schema";
 import type { Actor } from "@/lib/core/actor";
 import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
@@ -57,9 +67,17 @@ async function decideInTx(
   versionNo: number,
   input: z.output<typeof decisionInput>,
 ): Promise<Result<DecisionDone>> {
-
   const [batch] = await tx
-    .select({ id: batches.id, publicId: batches.publicId, title: batches.title, latestVersion: batches.latestVersion, studyId: batches.studyId, studyTitle: studies.title, organisationId: batches.organisationId, organisationName: organisations.name })
+    .select({
+      id: batches.id,
+      publicId: batches.publicId,
+      title: batches.title,
+      latestVersion: batches.latestVersion,
+      studyId: batches.studyId,
+      studyTitle: studies.title,
+      organisationId: batches.organisationId,
+      organisationName: organisations.name,
+    })
     .from(batches)
     .innerJoin(studies, eq(studies.id, batches.studyId))
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
@@ -67,7 +85,10 @@ async function decideInTx(
   const notFound = fail<DecisionDone>("No batch with this id is visible to you.", undefined, "not_found");
   if (!batch) return notFound;
   if (actor.role === "analyst") {
-    const [assigned] = await tx.select({ s: studyAnalysts.studyId }).from(studyAnalysts).where(and(eq(studyAnalysts.studyId, batch.studyId), eq(studyAnalysts.userId, actor.id)));
+    const [assigned] = await tx
+      .select({ s: studyAnalysts.studyId })
+      .from(studyAnalysts)
+      .where(and(eq(studyAnalysts.studyId, batch.studyId), eq(studyAnalysts.userId, actor.id)));
     if (!assigned) return notFound;
   }
 
@@ -78,11 +99,17 @@ async function decideInTx(
     .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, versionNo)))
     .for("update");
   if (!version) return notFound;
-  if (version.state === "accepted" || version.state === "bounced") return describeDecided(tx, version.id, version.state);
+  if (version.state === "accepted" || version.state === "bounced")
+    return describeDecided(tx, version.id, version.state);
   if (version.state === "superseded" || version.version !== batch.latestVersion) {
-    return fail(`Version ${versionNo} has been superseded by version ${batch.latestVersion}; decide on the newest version.`, undefined, "conflict");
+    return fail(
+      `Version ${versionNo} has been superseded by version ${batch.latestVersion}; decide on the newest version.`,
+      undefined,
+      "conflict",
+    );
   }
-  const decidable = version.state === "ready" || (version.state === "unreadable" && input.decision === "bounce");
+  const decidable =
+    version.state === "ready" || (version.state === "unreadable" && input.decision === "bounce");
   if (!decidable) {
     return fail(
       version.state === "unreadable"
@@ -93,24 +120,46 @@ async function decideInTx(
     );
   }
 
-  const [report] = await tx.select({ report: reports.report }).from(reports).where(eq(reports.batchVersionId, version.id)).limit(1);
-  const findings = ((report?.report as ReadinessReport | undefined)?.findings ?? []);
+  const [report] = await tx
+    .select({ report: reports.report })
+    .from(reports)
+    .where(eq(reports.batchVersionId, version.id))
+    .limit(1);
+  const findings = (report?.report as ReadinessReport | undefined)?.findings ?? [];
   for (const fc of input.findingComments) {
-    if (!findings.some((f) => f.code === fc.code)) return fail(`The report has no finding "${fc.code}" to comment on.`, { findingComments: [`unknown finding ${fc.code}`] });
+    if (!findings.some((f) => f.code === fc.code))
+      return fail(`The report has no finding "${fc.code}" to comment on.`, {
+        findingComments: [`unknown finding ${fc.code}`],
+      });
   }
 
   const state = input.decision === "accept" ? "accepted" : "bounced";
   const [ins] = await tx
     .insert(decisions)
-    .values({ batchVersionId: version.id, decision: input.decision, comment: input.comment || null, decidedById: actor.id })
+    .values({
+      batchVersionId: version.id,
+      decision: input.decision,
+      comment: input.comment || null,
+      decidedById: actor.id,
+    })
     .$returningId();
   if (!ins) throw new Error("inserting the decision returned no id");
   if (input.findingComments.length) {
     await tx.insert(findingComments).values(
-      input.findingComments.map((fc) => ({ decisionId: ins.id, batchVersionId: version.id, findingCode: fc.code, columns: fc.columns.join(",").slice(0, 1000), comment: fc.comment, authorId: actor.id })),
+      input.findingComments.map((fc) => ({
+        decisionId: ins.id,
+        batchVersionId: version.id,
+        findingCode: fc.code,
+        columns: fc.columns.join(",").slice(0, 1000),
+        comment: fc.comment,
+        authorId: actor.id,
+      })),
     );
   }
-  await tx.update(batchVersions).set({ state, stateChangedAt: now() }).where(eq(batchVersions.id, version.id));
+  await tx
+    .update(batchVersions)
+    .set({ state, stateChangedAt: now() })
+    .where(eq(batchVersions.id, version.id));
   if (state === "accepted") await enqueuePoolQuestions(tx, batch.studyId);
   await audit({
     action: `batch.${input.decision}`,
@@ -119,13 +168,20 @@ async function decideInTx(
     studyId: batch.studyId,
     batchId: batch.id,
     before: { state: version.state },
-    after: { state, decisionId: ins.id, comment: input.comment || null, findingComments: input.findingComments.length },
+    after: {
+      state,
+      decisionId: ins.id,
+      comment: input.comment || null,
+      findingComments: input.findingComments.length,
+    },
   });
 
   const recipients = await tx
     .select({ email: users.email, name: users.name })
     .from(users)
-    .where(and(eq(users.organisationId, batch.organisationId), eq(users.role, "provider"), eq(users.active, true)));
+    .where(
+      and(eq(users.organisationId, batch.organisationId), eq(users.role, "provider"), eq(users.active, true)),
+    );
   const link = `${env().APP_URL.replace(/\/$/, "")}/batches/${batch.publicId}?v=${version.version}`;
   let queued = 0;
   for (const r of recipients) {
@@ -138,10 +194,24 @@ async function decideInTx(
       version: version.version,
       decidedBy: actor.name,
       comment: input.comment,
-      findingComments: input.findingComments.map((fc) => ({ ...fc, message: findings.find((f) => f.code === fc.code && sameColumns(f.columns, fc.columns))?.message ?? findings.find((f) => f.code === fc.code)?.message ?? "" })),
+      findingComments: input.findingComments.map((fc) => ({
+        ...fc,
+        message:
+          findings.find((f) => f.code === fc.code && sameColumns(f.columns, fc.columns))?.message ??
+          findings.find((f) => f.code === fc.code)?.message ??
+          "",
+      })),
       link,
     });
-    const q = await enqueueEmail(tx, { dedupeKey: `decision:${ins.id}:${r.email}`, kind: "decision", to: r.email, subject: mail.subject, text: mail.text, html: mail.html, batchId: batch.id });
+    const q = await enqueueEmail(tx, {
+      dedupeKey: `decision:${ins.id}:${r.email}`,
+      kind: "decision",
+      to: r.email,
+      subject: mail.subject,
+      text: mail.text,
+      html: mail.html,
+      batchId: batch.id,
+    });
     if (q.queued) queued++;
   }
   return ok({ decisionId: ins.id, state, emailsQueued: queued });
@@ -163,11 +233,21 @@ async function describeDecided(tx: DbOrTx, versionId: number, state: string): Pr
   return fail(`This version was already ${state}${who}. Reload to see the decision.`, undefined, "conflict");
 }
 
-async function alreadyDecided(db: DbOrTx, batchPublicId: string, versionNo: number): Promise<Result<DecisionDone>> {
+async function alreadyDecided(
+  db: DbOrTx,
+  batchPublicId: string,
+  versionNo: number,
+): Promise<Result<DecisionDone>> {
   const [v] = await db
     .select({ id: batchVersions.id, state: batchVersions.state })
     .from(batchVersions)
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
     .where(and(eq(batches.publicId, batchPublicId), eq(batchVersions.version, versionNo)));
-  return v ? describeDecided(db, v.id, v.state) : fail("This version was decided by someone else a moment ago. Reload to see the decision.", undefined, "conflict");
+  return v
+    ? describeDecided(db, v.id, v.state)
+    : fail(
+        "This version was decided by someone else a moment ago. Reload to see the decision.",
+        undefined,
+        "conflict",
+      );
 }

@@ -7,7 +7,15 @@ import { randomBytes } from "node:crypto";
 import { and, eq } from "drizzle-orm";
 import { z } from "zod";
 import type { DbOrTx } from "@/db/client";
-import { batchVersions, batches, checkJobs, dataPlans, studies, studyProviders, versionFixes } from "@/db/schema";
+import {
+  batchVersions,
+  batches,
+  checkJobs,
+  dataPlans,
+  studies,
+  studyProviders,
+  versionFixes,
+} from "@/db/schema";
 import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
@@ -41,7 +49,11 @@ interface Admitted {
  * May this user send this file to this study (and batch)? The role is read from the database
  * (lib/core/actor.ts), so a demotion or deactivation bites at once. Writes nothing.
  */
-export async function authoriseUpload(db: DbOrTx, actorId: number, target: UploadTarget): Promise<Result<Admitted>> {
+export async function authoriseUpload(
+  db: DbOrTx,
+  actorId: number,
+  target: UploadTarget,
+): Promise<Result<Admitted>> {
   return admit(db, await loadActor(db, actorId), target);
 }
 
@@ -50,15 +62,34 @@ async function admit(db: DbOrTx, actor: Actor, target: UploadTarget): Promise<Re
     return { ok: false, message: "Only a provider organisation's users can send batches." };
   }
   const [study] = await db
-    .select({ id: studies.id, title: studies.title, status: studies.status, planVersion: studies.currentPlanVersion, admitted: studyProviders.organisationId })
+    .select({
+      id: studies.id,
+      title: studies.title,
+      status: studies.status,
+      planVersion: studies.currentPlanVersion,
+      admitted: studyProviders.organisationId,
+    })
     .from(studies)
-    .leftJoin(studyProviders, and(eq(studyProviders.studyId, studies.id), eq(studyProviders.organisationId, actor.organisationId)))
+    .leftJoin(
+      studyProviders,
+      and(eq(studyProviders.studyId, studies.id), eq(studyProviders.organisationId, actor.organisationId)),
+    )
     .where(eq(studies.id, target.studyId));
   if (!study || study.admitted === null) {
-    return { ok: false, code: "not_found", message: "This study does not exist or your organisation is not admitted to it. Ask the study's lead to admit your organisation." };
+    return {
+      ok: false,
+      code: "not_found",
+      message:
+        "This study does not exist or your organisation is not admitted to it. Ask the study's lead to admit your organisation.",
+    };
   }
-  if (study.status !== "open") return { ok: false, message: `"${study.title}" is closed and takes no more batches.` };
-  if (study.planVersion === null) return { ok: false, message: `"${study.title}" has no data plan yet; batches can be sent once the lead publishes one.` };
+  if (study.status !== "open")
+    return { ok: false, message: `"${study.title}" is closed and takes no more batches.` };
+  if (study.planVersion === null)
+    return {
+      ok: false,
+      message: `"${study.title}" has no data plan yet; batches can be sent once the lead publishes one.`,
+    };
   const [plan] = await db
     .select({ id: dataPlans.id })
     .from(dataPlans)
@@ -68,12 +99,22 @@ async function admit(db: DbOrTx, actor: Actor, target: UploadTarget): Promise<Re
   let batch: Admitted["batch"] = null;
   if (target.batchPublicId) {
     const [b] = await db
-      .select({ id: batches.id, publicId: batches.publicId, latestVersion: batches.latestVersion, studyId: batches.studyId, organisationId: batches.organisationId })
+      .select({
+        id: batches.id,
+        publicId: batches.publicId,
+        latestVersion: batches.latestVersion,
+        studyId: batches.studyId,
+        organisationId: batches.organisationId,
+      })
       .from(batches)
       .where(eq(batches.publicId, target.batchPublicId));
     // Another organisation's batch answers exactly like a missing one.
     if (!b || b.organisationId !== actor.organisationId || b.studyId !== study.id) {
-      return { ok: false, code: "not_found", message: "That batch was not found in this study for your organisation." };
+      return {
+        ok: false,
+        code: "not_found",
+        message: "That batch was not found in this study for your organisation.",
+      };
     }
     const [latest] = await db
       .select({ state: batchVersions.state })
@@ -84,7 +125,14 @@ async function admit(db: DbOrTx, actor: Actor, target: UploadTarget): Promise<Re
     }
     batch = { id: b.id, publicId: b.publicId, latestVersion: b.latestVersion };
   }
-  return { ok: true, data: { actor: { id: actor.id, organisationId: actor.organisationId }, study: { id: study.id, title: study.title, planId: plan.id }, batch } };
+  return {
+    ok: true,
+    data: {
+      actor: { id: actor.id, organisationId: actor.organisationId },
+      study: { id: study.id, title: study.title, planId: plan.id },
+      batch,
+    },
+  };
 }
 
 export function newPublicId(): string {
@@ -119,78 +167,127 @@ export function recordBatchVersion(
     schema: uploadTargetSchema,
     input: target,
     run: async ({ tx, actor: who, audit }) => {
-    const admitted = await admit(tx, who, target);
-    if (!admitted.ok) return admitted;
-    const { actor, study } = admitted.data;
-    let batch = admitted.data.batch;
-    if (batch) {
-      // lock the batch row: two simultaneous resubmissions get versions n+1 and n+2
-      const [locked] = await tx.select({ latestVersion: batches.latestVersion }).from(batches).where(eq(batches.id, batch.id)).for("update");
-      batch = { ...batch, latestVersion: locked?.latestVersion ?? batch.latestVersion };
-    } else {
-      const publicId = newPublicId();
-      const title = cleanText(target.title ?? "", 300) || fileName.replace(/\.[^.]+$/, "") || "Untitled batch";
-      const [ins] = await tx
-        .insert(batches)
-        .values({ publicId, studyId: study.id, organisationId: actor.organisationId, title: title.slice(0, 300), createdById: actor.id })
-        .$returningId();
-      if (!ins) throw new Error("inserting the batch returned no id");
-      batch = { id: ins.id, publicId, latestVersion: 0 };
-      await audit({
-        action: "batch.created", objectType: "batch", objectId: publicId, studyId: study.id, batchId: batch.id, after: { title },
-      });
-    }
-    const version = batch.latestVersion + 1;
-    if (fix && fix.fromVersion !== batch.latestVersion) {
-      return { ok: false, code: "conflict", message: `Version ${batch.latestVersion} is now the latest; apply the fixes to it instead of version ${fix.fromVersion}.` };
-    }
-    if (batch.latestVersion > 0) {
-      const [prev] = await tx
-        .select({ id: batchVersions.id, state: batchVersions.state })
-        .from(batchVersions)
-        .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
-      if (prev && prev.state !== "superseded") {
-        await tx.update(batchVersions).set({ state: "superseded", stateChangedAt: now() }).where(eq(batchVersions.id, prev.id));
-        // an accepted version leaves the pool
-        if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
+      const admitted = await admit(tx, who, target);
+      if (!admitted.ok) return admitted;
+      const { actor, study } = admitted.data;
+      let batch = admitted.data.batch;
+      if (batch) {
+        // lock the batch row: two simultaneous resubmissions get versions n+1 and n+2
+        const [locked] = await tx
+          .select({ latestVersion: batches.latestVersion })
+          .from(batches)
+          .where(eq(batches.id, batch.id))
+          .for("update");
+        batch = { ...batch, latestVersion: locked?.latestVersion ?? batch.latestVersion };
+      } else {
+        const publicId = newPublicId();
+        const title =
+          cleanText(target.title ?? "", 300) || fileName.replace(/\.[^.]+$/, "") || "Untitled batch";
+        const [ins] = await tx
+          .insert(batches)
+          .values({
+            publicId,
+            studyId: study.id,
+            organisationId: actor.organisationId,
+            title: title.slice(0, 300),
+            createdById: actor.id,
+          })
+          .$returningId();
+        if (!ins) throw new Error("inserting the batch returned no id");
+        batch = { id: ins.id, publicId, latestVersion: 0 };
         await audit({
-          action: "batch.superseded", objectType: "batch_version", objectId: String(prev.id), studyId: study.id, batchId: batch.id,
-          before: { state: prev.state, version: batch.latestVersion }, after: { state: "superseded", by: version },
+          action: "batch.created",
+          objectType: "batch",
+          objectId: publicId,
+          studyId: study.id,
+          batchId: batch.id,
+          after: { title },
         });
       }
-    }
-    const [bv] = await tx
-      .insert(batchVersions)
-      .values({
-        batchId: batch.id,
-        version,
-        planId: study.planId,
-        fileKey: file.key,
-        fileUrl: file.url,
-        fileName,
-        fileSize: file.size,
-        contentHash: file.hash ?? null,
-        state: "received",
-        uploadedById: actor.id,
-      })
-      .$returningId();
-    if (!bv) throw new Error("inserting the batch version returned no id");
-    await tx.update(batches).set({ latestVersion: version }).where(eq(batches.id, batch.id));
-    await tx.insert(checkJobs).values({ batchVersionId: bv.id });
-    await audit({
-      action: "batch.received", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
-      after: { state: "received", version, fileName, fileSize: file.size },
-    });
-    if (fix) {
-      await tx.insert(versionFixes).values({
-        batchVersionId: bv.id, fromVersionId: fix.fromVersionId, proposals: fix.proposals, changes: fix.changes, changeCount: fix.changes.length, approvedById: actor.id,
-      });
+      const version = batch.latestVersion + 1;
+      if (fix && fix.fromVersion !== batch.latestVersion) {
+        return {
+          ok: false,
+          code: "conflict",
+          message: `Version ${batch.latestVersion} is now the latest; apply the fixes to it instead of version ${fix.fromVersion}.`,
+        };
+      }
+      if (batch.latestVersion > 0) {
+        const [prev] = await tx
+          .select({ id: batchVersions.id, state: batchVersions.state })
+          .from(batchVersions)
+          .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, batch.latestVersion)));
+        if (prev && prev.state !== "superseded") {
+          await tx
+            .update(batchVersions)
+            .set({ state: "superseded", stateChangedAt: now() })
+            .where(eq(batchVersions.id, prev.id));
+          // an accepted version leaves the pool
+          if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
+          await audit({
+            action: "batch.superseded",
+            objectType: "batch_version",
+            objectId: String(prev.id),
+            studyId: study.id,
+            batchId: batch.id,
+            before: { state: prev.state, version: batch.latestVersion },
+            after: { state: "superseded", by: version },
+          });
+        }
+      }
+      const [bv] = await tx
+        .insert(batchVersions)
+        .values({
+          batchId: batch.id,
+          version,
+          planId: study.planId,
+          fileKey: file.key,
+          fileUrl: file.url,
+          fileName,
+          fileSize: file.size,
+          contentHash: file.hash ?? null,
+          state: "received",
+          uploadedById: actor.id,
+        })
+        .$returningId();
+      if (!bv) throw new Error("inserting the batch version returned no id");
+      await tx.update(batches).set({ latestVersion: version }).where(eq(batches.id, batch.id));
+      await tx.insert(checkJobs).values({ batchVersionId: bv.id });
       await audit({
-        action: "batch.machine-corrected", objectType: "batch_version", objectId: String(bv.id), studyId: study.id, batchId: batch.id,
-        after: { version, fromVersion: fix.fromVersion, proposals: fix.proposals.map((p) => p.id), changes: fix.changes.length },
+        action: "batch.received",
+        objectType: "batch_version",
+        objectId: String(bv.id),
+        studyId: study.id,
+        batchId: batch.id,
+        after: { state: "received", version, fileName, fileSize: file.size },
       });
-    }
-    return { ok: true, data: { batchPublicId: batch.publicId, batchId: batch.id, version, batchVersionId: bv.id } };
+      if (fix) {
+        await tx.insert(versionFixes).values({
+          batchVersionId: bv.id,
+          fromVersionId: fix.fromVersionId,
+          proposals: fix.proposals,
+          changes: fix.changes,
+          changeCount: fix.changes.length,
+          approvedById: actor.id,
+        });
+        await audit({
+          action: "batch.machine-corrected",
+          objectType: "batch_version",
+          objectId: String(bv.id),
+          studyId: study.id,
+          batchId: batch.id,
+          after: {
+            version,
+            fromVersion: fix.fromVersion,
+            proposals: fix.proposals.map((p) => p.id),
+            changes: fix.changes.length,
+          },
+        });
+      }
+      return {
+        ok: true,
+        data: { batchPublicId: batch.publicId, batchId: batch.id, version, batchVersionId: bv.id },
+      };
     },
   });
 }

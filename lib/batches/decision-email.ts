@@ -30,10 +30,19 @@ export function decisionEmail(m: DecisionEmailInput): { subject: string; text: s
     "",
     ...(m.comment ? ["Comment:", m.comment, ""] : []),
     ...(m.findingComments.length
-      ? ["Comments on findings:", ...m.findingComments.map((f) => `- ${f.code}${f.columns.length ? ` (${f.columns.join(", ")})` : ""}: ${f.comment}${f.message ? `\n  Finding: ${f.message}` : ""}`), ""]
+      ? [
+          "Comments on findings:",
+          ...m.findingComments.map(
+            (f) =>
+              `- ${f.code}${f.columns.length ? ` (${f.columns.join(", ")})` : ""}: ${f.comment}${f.message ? `\n  Finding: ${f.message}` : ""}`,
+          ),
+          "",
+        ]
       : []),
     `The report: ${m.link}`,
-    ...(m.decision === "bounce" ? ["From the report you can download the rows at fault and upload the corrected file as a new version."] : []),
+    ...(m.decision === "bounce"
+      ? ["From the report you can download the rows at fault and upload the corrected file as a new version."]
+      : []),
     "",
     "— Tributary",
   ].join("\n");

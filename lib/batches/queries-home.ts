@@ -1,7 +1,18 @@
 import "server-only";
 import { and, count, eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { BATCH_STATES, batches, batchVersions, organisations, ROLES, studies, studyProviders, users, type BatchState, type UserRole } from "@/db/schema";
+import {
+  BATCH_STATES,
+  batches,
+  batchVersions,
+  organisations,
+  ROLES,
+  studies,
+  studyProviders,
+  users,
+  type BatchState,
+  type UserRole,
+} from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import { listBatchesForUser, type BatchSummary } from "./queries";
 import { batchScope } from "@/lib/studies";
@@ -46,7 +57,10 @@ async function stateCountsByStudy(user: SessionUser): Promise<Map<number, StateC
   const rows = await getDb()
     .select({ studyId: batches.studyId, state: batchVersions.state, n: count() })
     .from(batches)
-    .innerJoin(batchVersions, and(eq(batchVersions.batchId, batches.id), eq(batchVersions.version, batches.latestVersion)))
+    .innerJoin(
+      batchVersions,
+      and(eq(batchVersions.batchId, batches.id), eq(batchVersions.version, batches.latestVersion)),
+    )
     .where(batchScope(user))
     .groupBy(batches.studyId, batchVersions.state);
   const out = new Map<number, StateCounts>();
@@ -76,7 +90,8 @@ export async function getHomeSummary(user: SessionUser): Promise<HomeSummary> {
       ]);
       return {
         role: "provider",
-        organisation: user.organisationId != null ? { id: user.organisationId, name: user.organisationName ?? "" } : null,
+        organisation:
+          user.organisationId != null ? { id: user.organisationId, name: user.organisationName ?? "" } : null,
         studies: studyList.map((s) => ({ ...s, batchesByState: counts.get(s.id) ?? emptyCounts() })),
         batchesByState: sumCounts(counts.values()),
         recentBatches,
@@ -92,24 +107,39 @@ export async function getHomeSummary(user: SessionUser): Promise<HomeSummary> {
         const c = counts.get(s.id) ?? emptyCounts();
         return { ...s, batchesByState: c, readyForReview: c.ready };
       });
-      return { role: "analyst", studies: withCounts, readyForReview: withCounts.reduce((a, s) => a + s.readyForReview, 0), queue };
+      return {
+        role: "analyst",
+        studies: withCounts,
+        readyForReview: withCounts.reduce((a, s) => a + s.readyForReview, 0),
+        queue,
+      };
     }
     case "lead": {
       const [studyList, counts, admitted] = await Promise.all([
         listStudiesForUser(user),
         stateCountsByStudy(user),
-        db.select({ studyId: studyProviders.studyId, n: count() }).from(studyProviders).groupBy(studyProviders.studyId),
+        db
+          .select({ studyId: studyProviders.studyId, n: count() })
+          .from(studyProviders)
+          .groupBy(studyProviders.studyId),
       ]);
       const admittedBy = new Map(admitted.map((a) => [a.studyId, Number(a.n)]));
       return {
         role: "lead",
-        studies: studyList.map((s) => ({ ...s, batchesByState: counts.get(s.id) ?? emptyCounts(), providersAdmitted: admittedBy.get(s.id) ?? 0 })),
+        studies: studyList.map((s) => ({
+          ...s,
+          batchesByState: counts.get(s.id) ?? emptyCounts(),
+          providersAdmitted: admittedBy.get(s.id) ?? 0,
+        })),
         batchesByState: sumCounts(counts.values()),
       };
     }
     case "admin": {
       const [byRole, orgKinds, studyCount] = await Promise.all([
-        db.select({ role: users.role, active: users.active, n: count() }).from(users).groupBy(users.role, users.active),
+        db
+          .select({ role: users.role, active: users.active, n: count() })
+          .from(users)
+          .groupBy(users.role, users.active),
         db.select({ kind: organisations.kind, n: count() }).from(organisations).groupBy(organisations.kind),
         db.select({ n: count() }).from(studies),
       ]);
@@ -123,8 +153,14 @@ export async function getHomeSummary(user: SessionUser): Promise<HomeSummary> {
       }
       const orgCounts = { provider: 0, team: 0 };
       for (const o of orgKinds) orgCounts[o.kind] += Number(o.n);
-      return { role: "admin", usersByRole, activeUsers, inactiveUsers, organisations: orgCounts, studies: Number(studyCount[0]?.n ?? 0) };
+      return {
+        role: "admin",
+        usersByRole,
+        activeUsers,
+        inactiveUsers,
+        organisations: orgCounts,
+        studies: Number(studyCount[0]?.n ?? 0),
+      };
     }
   }
 }
-

@@ -25,7 +25,12 @@ export type QueueItem = {
   residualDf: number | null;
 };
 
-export const QUEUE_STATES = ["ready", "unreadable", "checking", "received"] as const satisfies readonly BatchState[];
+export const QUEUE_STATES = [
+  "ready",
+  "unreadable",
+  "checking",
+  "received",
+] as const satisfies readonly BatchState[];
 
 /**
  * The review queue: the latest version of every batch in the user's scope that waits on

@@ -42,13 +42,23 @@ export async function getVersionReportForUser(
   // busy event loop, so the report's own reads take 3 round trips in a row instead of 5
   const decisionWithComments = async () => {
     const [d] = await db
-      .select({ id: decisions.id, decision: decisions.decision, comment: decisions.comment, decidedBy: users.name, decidedAt: decisions.decidedAt })
+      .select({
+        id: decisions.id,
+        decision: decisions.decision,
+        comment: decisions.comment,
+        decidedBy: users.name,
+        decidedAt: decisions.decidedAt,
+      })
       .from(decisions)
       .innerJoin(users, eq(users.id, decisions.decidedById))
       .where(eq(decisions.batchVersionId, version.id));
     const comments = d
       ? await db
-          .select({ code: findingComments.findingCode, columns: findingComments.columns, comment: findingComments.comment })
+          .select({
+            code: findingComments.findingCode,
+            columns: findingComments.columns,
+            comment: findingComments.comment,
+          })
           .from(findingComments)
           .where(eq(findingComments.decisionId, d.id))
           .orderBy(findingComments.id)
@@ -56,7 +66,10 @@ export async function getVersionReportForUser(
     return { d, comments };
   };
   const [[plan], [row], { d, comments }] = await Promise.all([
-    db.select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan }).from(dataPlans).where(eq(dataPlans.id, version.planId)),
+    db
+      .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan })
+      .from(dataPlans)
+      .where(eq(dataPlans.id, version.planId)),
     db
       .select({ report: reports.report, createdAt: reports.createdAt })
       .from(reports)
@@ -67,7 +80,13 @@ export async function getVersionReportForUser(
   ]);
   return {
     decision: d
-      ? { decision: d.decision, comment: d.comment, decidedBy: d.decidedBy, decidedAt: d.decidedAt, findingComments: comments.map((c) => ({ ...c, columns: c.columns ? c.columns.split(",") : [] })) }
+      ? {
+          decision: d.decision,
+          comment: d.comment,
+          decidedBy: d.decidedBy,
+          decidedAt: d.decidedAt,
+          findingComments: comments.map((c) => ({ ...c, columns: c.columns ? c.columns.split(",") : [] })),
+        }
       : null,
     batch,
     version,
@@ -78,10 +97,17 @@ export async function getVersionReportForUser(
 }
 
 /** Where a visible version's file is stored (for re-reading it on the server only). */
-export async function getVersionFileKeyForUser(user: SessionUser, publicId: string, versionNo: number): Promise<{ found: VersionReport; fileKey: string } | null> {
+export async function getVersionFileKeyForUser(
+  user: SessionUser,
+  publicId: string,
+  versionNo: number,
+): Promise<{ found: VersionReport; fileKey: string } | null> {
   const found = await getVersionReportForUser(user, publicId, versionNo);
   if (!found) return null;
-  const [row] = await getDb().select({ fileKey: batchVersions.fileKey }).from(batchVersions).where(eq(batchVersions.id, found.version.id));
+  const [row] = await getDb()
+    .select({ fileKey: batchVersions.fileKey })
+    .from(batchVersions)
+    .where(eq(batchVersions.id, found.version.id));
   return row ? { found, fileKey: row.fileKey } : null;
 }
 

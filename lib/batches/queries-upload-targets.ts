@@ -10,10 +10,21 @@ export type UploadTarget = { slug: string; title: string; planVersion: number; p
 export async function listUploadTargets(user: SessionUser): Promise<UploadTarget[]> {
   if (user.role !== "provider" || user.organisationId == null) return [];
   const rows = await getDb()
-    .select({ slug: studies.slug, title: studies.title, planVersion: dataPlans.version, plan: dataPlans.plan })
+    .select({
+      slug: studies.slug,
+      title: studies.title,
+      planVersion: dataPlans.version,
+      plan: dataPlans.plan,
+    })
     .from(studies)
-    .innerJoin(studyProviders, and(eq(studyProviders.studyId, studies.id), eq(studyProviders.organisationId, user.organisationId)))
-    .innerJoin(dataPlans, and(eq(dataPlans.studyId, studies.id), eq(dataPlans.version, studies.currentPlanVersion)))
+    .innerJoin(
+      studyProviders,
+      and(eq(studyProviders.studyId, studies.id), eq(studyProviders.organisationId, user.organisationId)),
+    )
+    .innerJoin(
+      dataPlans,
+      and(eq(dataPlans.studyId, studies.id), eq(dataPlans.version, studies.currentPlanVersion)),
+    )
     .where(eq(studies.status, "open"))
     .orderBy(studies.title);
   return rows;

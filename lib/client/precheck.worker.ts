@@ -16,7 +16,10 @@ self.onmessage = async (event: MessageEvent<PrecheckRequest>) => {
   const { file, plan } = event.data;
   const parsed = parsePlan(plan);
   if (!parsed.ok) {
-    post({ type: "error", message: "The study's data plan could not be read; the server will still check the file." });
+    post({
+      type: "error",
+      message: "The study's data plan could not be read; the server will still check the file.",
+    });
     return;
   }
   try {

@@ -24,7 +24,11 @@ export function useDraft() {
     try {
       setState({ phase: "done", fileName: file.name, result: await draftPlan(file.stream()) });
     } catch (e) {
-      setState({ phase: "error", fileName: file.name, message: e instanceof Error ? e.message : "The sample could not be read." });
+      setState({
+        phase: "error",
+        fileName: file.name,
+        message: e instanceof Error ? e.message : "The sample could not be read.",
+      });
     }
   }, []);
 
@@ -42,7 +46,11 @@ export function useDraft() {
       worker.current = w;
       w.onmessage = (e: MessageEvent<DraftMessage>) => {
         const m = e.data;
-        setState(m.type === "done" ? { phase: "done", fileName: file.name, result: m.result } : { phase: "error", fileName: file.name, message: m.message });
+        setState(
+          m.type === "done"
+            ? { phase: "done", fileName: file.name, result: m.result }
+            : { phase: "error", fileName: file.name, message: m.message },
+        );
         stop();
       };
       w.onerror = () => {

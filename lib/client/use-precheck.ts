@@ -28,7 +28,8 @@ export function usePrecheck() {
       setState({ phase: "running", rows: 0, bytes: 0, total: file.size });
       w.onmessage = (e: MessageEvent<PrecheckMessage>) => {
         const m = e.data;
-        if (m.type === "progress") setState({ phase: "running", rows: m.rows, bytes: m.bytes, total: m.total });
+        if (m.type === "progress")
+          setState({ phase: "running", rows: m.rows, bytes: m.bytes, total: m.total });
         else if (m.type === "done") {
           setState({ phase: "done", report: m.report });
           stop();
@@ -38,7 +39,11 @@ export function usePrecheck() {
         }
       };
       w.onerror = () => {
-        setState({ phase: "error", message: "The check in the browser could not run; the server will still check the file after upload." });
+        setState({
+          phase: "error",
+          message:
+            "The check in the browser could not run; the server will still check the file after upload.",
+        });
         stop();
       };
       w.postMessage({ file, plan });

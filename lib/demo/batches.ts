@@ -11,8 +11,19 @@ export { rng, toCsv, type DemoBatch } from "./generate";
 export { HEAT_HEADER, heatPumpBatches, heatPumpRows } from "./heat-pump-batches";
 
 export const BARLEY_HEADER = [
-  "plot_id", "harvest_date", "farm_plot_note", "yield_t_ha", "nitrogen_kg_ha", "irrigation_mm", "rainfall_mm",
-  "total_water_mm", "soil", "variety", "sowing_doy", "plant_density", "organic_matter_pct",
+  "plot_id",
+  "harvest_date",
+  "farm_plot_note",
+  "yield_t_ha",
+  "nitrogen_kg_ha",
+  "irrigation_mm",
+  "rainfall_mm",
+  "total_water_mm",
+  "soil",
+  "variety",
+  "sowing_doy",
+  "plant_density",
+  "organic_matter_pct",
 ] as const;
 type BarleyRow = Record<(typeof BARLEY_HEADER)[number], string | number>;
 
@@ -34,15 +45,25 @@ export function barleyRows(farmCode: string, n: number, seed: number, nitrogenRe
     const irrigation = round(Math.max(0, 60 + r.normal() * 35), 1);
     const rainfall = round(Math.min(690, Math.max(80, 260 + r.normal() * 70)), 1);
     // the plot gauge: what reached the root zone after run-off and drift, which varies from plot to plot
-    const totalWater = round(Math.max(40, 0.8 * irrigation + rainfall * (0.45 + 0.5 * r.next()) + r.normal() * 30), 1);
+    const totalWater = round(
+      Math.max(40, 0.8 * irrigation + rainfall * (0.45 + 0.5 * r.next()) + r.normal() * 30),
+      1,
+    );
     const soil = r.pick(SOIL_TYPES);
     const vi = Math.floor(r.next() * BARLEY_VARIETIES.length);
     const sowing = Math.round(55 + r.next() * 80);
     const density = round(Math.min(420, Math.max(160, 220 + r.normal() * 40)), 0);
     const om = round(Math.max(0.8, 3.2 + r.normal() * 1.1), 2);
     const y =
-      2.2 + nitrogenResponse * (0.016 * nitrogen - 0.00003 * nitrogen * nitrogen) + 0.004 * irrigation + 0.0035 * rainfall +
-      (SOIL_EFFECT[soil] ?? 0) + (VARIETY_EFFECT[vi] ?? 0) - 0.012 * (sowing - 90) + 0.002 * (density - 220) + 0.12 * om +
+      2.2 +
+      nitrogenResponse * (0.016 * nitrogen - 0.00003 * nitrogen * nitrogen) +
+      0.004 * irrigation +
+      0.0035 * rainfall +
+      (SOIL_EFFECT[soil] ?? 0) +
+      (VARIETY_EFFECT[vi] ?? 0) -
+      0.012 * (sowing - 90) +
+      0.002 * (density - 220) +
+      0.12 * om +
       r.normal() * 0.45;
     const day = 200 + Math.floor(r.next() * 30);
     const date = new Date(Date.UTC(2026, 0, day)).toISOString().slice(0, 10);
@@ -79,7 +100,9 @@ export function barleyBatches(): DemoBatch[] {
 
   // a third of irrigation missing, and plots after a clover ley whose yield hardly rises with nitrogen:
   // the pool's questions flag this batch (its nitrogen response differs from the other farms')
-  const bracken = barleyRows("BR", 150, 303, BRACKENRIDGE_NITROGEN_RESPONSE).map((row, i) => (i % 3 === 1 ? { ...row, irrigation_mm: "" } : row));
+  const bracken = barleyRows("BR", 150, 303, BRACKENRIDGE_NITROGEN_RESPONSE).map((row, i) =>
+    i % 3 === 1 ? { ...row, irrigation_mm: "" } : row,
+  );
 
   // too small for the model
   const otter = barleyRows("OM", 14, 404);
@@ -98,24 +121,97 @@ export function barleyBatches(): DemoBatch[] {
 
   const study = "barley-nitrogen";
   return [
-    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, spring 2026", fileName: "harrowgate-2026.csv", shows: "a clean batch", csv: toCsv(h, clean1), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
-    { organisationSlug: "fennick-hill", studySlug: study, title: "Fennick Hill plots, spring 2026", fileName: "fennick-hill-2026.csv", shows: "level spelling variants (Clay, clay ) and total_water_mm = irrigation_mm + rainfall_mm", csv: toCsv(h, fennick),
+    {
+      organisationSlug: "harrowgate",
+      studySlug: study,
+      title: "Harrowgate plots, spring 2026",
+      fileName: "harrowgate-2026.csv",
+      shows: "a clean batch",
+      csv: toCsv(h, clean1),
+      decision: { by: "analyst@lowmoor.test", decision: "accept" },
+    },
+    {
+      organisationSlug: "fennick-hill",
+      studySlug: study,
+      title: "Fennick Hill plots, spring 2026",
+      fileName: "fennick-hill-2026.csv",
+      shows: "level spelling variants (Clay, clay ) and total_water_mm = irrigation_mm + rainfall_mm",
+      csv: toCsv(h, fennick),
       decision: {
         by: "analyst@lowmoor.test",
         decision: "bounce",
         comment: "Two fixes before this batch can join the pool; the rest looks good.",
         findingComments: [
-          { code: "level.variant", columns: ["soil"], comment: "Write the soil level as clay: lower case, no trailing space." },
-          { code: "collinear.exact", columns: ["total_water_mm"], comment: "Send the plot gauge reading here, not irrigation plus rainfall." },
+          {
+            code: "level.variant",
+            columns: ["soil"],
+            comment: "Write the soil level as clay: lower case, no trailing space.",
+          },
+          {
+            code: "collinear.exact",
+            columns: ["total_water_mm"],
+            comment: "Send the plot gauge reading here, not irrigation plus rainfall.",
+          },
         ],
-      } },
-    { organisationSlug: "brackenridge", studySlug: study, title: "Brackenridge plots, spring 2026", fileName: "brackenridge-2026.csv", shows: "a third of irrigation_mm missing, and a nitrogen response unlike the other farms' (after a clover ley)", csv: toCsv(h, bracken),
-      decision: { by: "analyst@lowmoor.test", decision: "accept", comment: "Accepted: the plots without an irrigation figure stay out of the complete cases." } },
-    { organisationSlug: "hollinsfold", studySlug: study, title: "Hollinsfold plots, spring 2026", fileName: "hollinsfold-2026.csv", shows: "too few plots for the model", csv: toCsv(h, otter) },
-    { organisationSlug: "saltmarsh-end", studySlug: study, title: "Saltmarsh End plots, spring 2026", fileName: "saltmarsh-end-2026.csv", shows: "decimal commas and -999 sentinels", csv: saltCsv },
-    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, spring 2026", fileName: "coldwell-2026.csv", shows: "a clean batch", csv: toCsv(h, coldwell), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
-    { organisationSlug: "harrowgate", studySlug: study, title: "Harrowgate plots, Long Meadow trial 2026", fileName: "harrowgate-long-meadow-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, harrowgateLong), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
-    { organisationSlug: "coldwell", studySlug: study, title: "Coldwell plots, Top Field trial 2026", fileName: "coldwell-top-field-2026.csv", shows: "a clean second batch of the same farm", csv: toCsv(h, coldwellTop), decision: { by: "analyst@lowmoor.test", decision: "accept" } },
+      },
+    },
+    {
+      organisationSlug: "brackenridge",
+      studySlug: study,
+      title: "Brackenridge plots, spring 2026",
+      fileName: "brackenridge-2026.csv",
+      shows:
+        "a third of irrigation_mm missing, and a nitrogen response unlike the other farms' (after a clover ley)",
+      csv: toCsv(h, bracken),
+      decision: {
+        by: "analyst@lowmoor.test",
+        decision: "accept",
+        comment: "Accepted: the plots without an irrigation figure stay out of the complete cases.",
+      },
+    },
+    {
+      organisationSlug: "hollinsfold",
+      studySlug: study,
+      title: "Hollinsfold plots, spring 2026",
+      fileName: "hollinsfold-2026.csv",
+      shows: "too few plots for the model",
+      csv: toCsv(h, otter),
+    },
+    {
+      organisationSlug: "saltmarsh-end",
+      studySlug: study,
+      title: "Saltmarsh End plots, spring 2026",
+      fileName: "saltmarsh-end-2026.csv",
+      shows: "decimal commas and -999 sentinels",
+      csv: saltCsv,
+    },
+    {
+      organisationSlug: "coldwell",
+      studySlug: study,
+      title: "Coldwell plots, spring 2026",
+      fileName: "coldwell-2026.csv",
+      shows: "a clean batch",
+      csv: toCsv(h, coldwell),
+      decision: { by: "analyst@lowmoor.test", decision: "accept" },
+    },
+    {
+      organisationSlug: "harrowgate",
+      studySlug: study,
+      title: "Harrowgate plots, Long Meadow trial 2026",
+      fileName: "harrowgate-long-meadow-2026.csv",
+      shows: "a clean second batch of the same farm",
+      csv: toCsv(h, harrowgateLong),
+      decision: { by: "analyst@lowmoor.test", decision: "accept" },
+    },
+    {
+      organisationSlug: "coldwell",
+      studySlug: study,
+      title: "Coldwell plots, Top Field trial 2026",
+      fileName: "coldwell-top-field-2026.csv",
+      shows: "a clean second batch of the same farm",
+      csv: toCsv(h, coldwellTop),
+      decision: { by: "analyst@lowmoor.test", decision: "accept" },
+    },
   ];
 }
 

@@ -9,7 +9,12 @@ export interface DemoBatch {
   /** what this file is meant to show in the demo */
   shows: string;
   /** the analysts' decision the demo starts with, once the checks are done (none: left ready for review) */
-  decision?: { by: string; decision: "accept" | "bounce"; comment?: string; findingComments?: { code: string; columns: string[]; comment: string }[] };
+  decision?: {
+    by: string;
+    decision: "accept" | "bounce";
+    comment?: string;
+    findingComments?: { code: string; columns: string[]; comment: string }[];
+  };
   csv: string;
 }
 
@@ -31,7 +36,11 @@ function quote(v: string | number, delimiter: string): string {
   return s.includes(delimiter) || s.includes('"') || s.includes("\n") ? `"${s.replace(/"/g, '""')}"` : s;
 }
 
-export function toCsv<T extends Record<string, string | number>>(header: readonly (keyof T & string)[], rows: T[], delimiter = ","): string {
+export function toCsv<T extends Record<string, string | number>>(
+  header: readonly (keyof T & string)[],
+  rows: T[],
+  delimiter = ",",
+): string {
   const lines = [header.join(delimiter)];
   for (const row of rows) lines.push(header.map((h) => quote(row[h] ?? "", delimiter)).join(delimiter));
   return lines.join("\n") + "\n";

@@ -3,8 +3,17 @@ import { INSULATION_BANDS, BUILDING_AGE_BANDS, HEAT_PUMP_TYPES } from "./plans";
 import { rng, round, toCsv, type DemoBatch } from "./generate";
 
 export const HEAT_HEADER = [
-  "property_ref", "install_date", "installer_note", "annual_kwh_saved", "floor_area_m2", "pre_retrofit_kwh",
-  "heat_pump_type", "insulation_band", "building_age_band", "household_size", "occupancy_hours",
+  "property_ref",
+  "install_date",
+  "installer_note",
+  "annual_kwh_saved",
+  "floor_area_m2",
+  "pre_retrofit_kwh",
+  "heat_pump_type",
+  "insulation_band",
+  "building_age_band",
+  "household_size",
+  "occupancy_hours",
 ] as const;
 type HeatRow = Record<(typeof HEAT_HEADER)[number], string | number>;
 
@@ -19,7 +28,12 @@ export function heatPumpRows(prefix: string, n: number, seed: number): HeatRow[]
     const age = r.pick(BUILDING_AGE_BANDS);
     const hh = Math.max(1, Math.min(7, Math.round(2.4 + r.normal() * 1.2)));
     const occ = round(Math.min(24, Math.max(4, 14 + r.normal() * 4)), 1);
-    const saved = 0.35 * pre + (type === "ground" ? 900 : type === "hybrid" ? -400 : 0) - 60 * INSULATION_BANDS.indexOf(band) + 35 * (occ - 14) + r.normal() * 1100;
+    const saved =
+      0.35 * pre +
+      (type === "ground" ? 900 : type === "hybrid" ? -400 : 0) -
+      60 * INSULATION_BANDS.indexOf(band) +
+      35 * (occ - 14) +
+      r.normal() * 1100;
     rows.push({
       property_ref: `${prefix}${String(10000 + i)}`,
       install_date: new Date(Date.UTC(2025, 3, 1 + Math.floor(r.next() * 200))).toISOString().slice(0, 10),

@@ -3,7 +3,14 @@
  * providers really send — level spellings, a computed column, gaps, too few rows, -999 for
  * "not counted", floor areas in square feet — or clean.
  */
-import { BARLEY_HEADER, BRACKENRIDGE_NITROGEN_RESPONSE, HEAT_HEADER, barleyRows, heatPumpRows, toCsv } from "./batches";
+import {
+  BARLEY_HEADER,
+  BRACKENRIDGE_NITROGEN_RESPONSE,
+  HEAT_HEADER,
+  barleyRows,
+  heatPumpRows,
+  toCsv,
+} from "./batches";
 
 export type Defect = "clean" | "commas" | "variants" | "collinear" | "missing" | "few" | "sentinel" | "range";
 

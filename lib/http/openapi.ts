@@ -139,7 +139,8 @@ const ROUTES: Record<string, Partial<Record<"get" | "post" | "patch" | "delete",
   },
   "/api/v1/batches/{id}/versions/{version}/changes": {
     get: {
-      summary: "The change log of a machine-corrected version (row, column, before, after, proposal), as CSV.",
+      summary:
+        "The change log of a machine-corrected version (row, column, before, after, proposal), as CSV.",
       tag: "batches",
       path: batchVersionParams,
       raw: "text/csv",

@@ -7,7 +7,9 @@ function check<S extends z.ZodType>(schema: S, value: unknown, what: string): z.
   if (!r.success) {
     const fieldErrors = fieldErrorsOf(r.error.issues);
     const first = r.error.issues[0];
-    throw new AppError("invalid", `The ${what} is not valid${first ? `: ${first.message}` : "."}`, { fieldErrors });
+    throw new AppError("invalid", `The ${what} is not valid${first ? `: ${first.message}` : "."}`, {
+      fieldErrors,
+    });
   }
   return r.data;
 }
@@ -15,7 +17,8 @@ function check<S extends z.ZodType>(schema: S, value: unknown, what: string): z.
 /** The JSON body checked against `schema`; bad JSON or a bad shape → AppError("invalid"). */
 export async function parseJsonBody<S extends z.ZodType>(req: Request, schema: S): Promise<z.infer<S>> {
   const type = req.headers.get("content-type") ?? "";
-  if (!type.includes("application/json")) throw new AppError("invalid", "Send the request body as JSON (Content-Type: application/json).");
+  if (!type.includes("application/json"))
+    throw new AppError("invalid", "Send the request body as JSON (Content-Type: application/json).");
   let body: unknown;
   try {
     body = await req.json();

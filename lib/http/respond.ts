@@ -10,7 +10,12 @@ export function jsonData(data: unknown, status = 200, location?: string): Respon
   return Response.json({ data }, { status, headers: { ...NO_STORE, ...(location ? { location } : {}) } });
 }
 
-export function jsonError(code: ErrorCode, message: string, fieldErrors?: Record<string, string[]>, extraHeaders?: Record<string, string>): Response {
+export function jsonError(
+  code: ErrorCode,
+  message: string,
+  fieldErrors?: Record<string, string[]>,
+  extraHeaders?: Record<string, string>,
+): Response {
   return Response.json(
     { error: { code, message, ...(fieldErrors ? { fieldErrors } : {}) } },
     { status: ERROR_STATUS[code], headers: { ...NO_STORE, ...extraHeaders } },
@@ -33,7 +38,11 @@ export function resultResponse<T>(result: Result<T>, successStatus = 200): Respo
 }
 
 /** A CSV download: streamed or whole, never cached, never sniffed; `fileName` through one RFC 6266 header. */
-export function csvResponse(body: BodyInit, fileName: string, extraHeaders?: Record<string, string>): Response {
+export function csvResponse(
+  body: BodyInit,
+  fileName: string,
+  extraHeaders?: Record<string, string>,
+): Response {
   return new Response(body, {
     headers: {
       "content-type": "text/csv; charset=utf-8",

@@ -18,7 +18,8 @@ export async function getApiActor(req: Request): Promise<ApiActor> {
   const auth = req.headers.get("authorization");
   if (auth) {
     const [scheme, token] = auth.split(/\s+/, 2);
-    if (scheme?.toLowerCase() !== "bearer" || !token) throw new AppError("unauthenticated", "Send an API token as 'Authorization: Bearer <token>'.");
+    if (scheme?.toLowerCase() !== "bearer" || !token)
+      throw new AppError("unauthenticated", "Send an API token as 'Authorization: Bearer <token>'.");
     const found = await lookupApiToken(token);
     if (!found.ok) {
       const message =
@@ -30,11 +31,18 @@ export async function getApiActor(req: Request): Promise<ApiActor> {
       throw new AppError("unauthenticated", message);
     }
     // counted in the database, so a token's calls to every instance count together (429 past it)
-    await requireWithinLimits([{ name: "apiPerToken", subject: `token:${found.tokenId}` }], "API calls with this token");
+    await requireWithinLimits(
+      [{ name: "apiPerToken", subject: `token:${found.tokenId}` }],
+      "API calls with this token",
+    );
     return { ...found.user, via: "token" };
   }
   const user = await getSessionUserFromRequest(req);
-  if (!user) throw new AppError("unauthenticated", "Sign in, or send an API token as 'Authorization: Bearer <token>'.");
+  if (!user)
+    throw new AppError(
+      "unauthenticated",
+      "Sign in, or send an API token as 'Authorization: Bearer <token>'.",
+    );
   return { ...user, via: "session" };
 }
 
@@ -53,7 +61,8 @@ function assertSameOrigin(req: Request): void {
   for (const url of [rawSetting("APP_URL"), rawSetting("NEXTAUTH_URL")]) {
     if (url) allowed.add(new URL(url).origin);
   }
-  if (!allowed.has(origin)) throw new AppError("forbidden", "Requests from other sites are refused; use an API token for scripts.");
+  if (!allowed.has(origin))
+    throw new AppError("forbidden", "Requests from other sites are refused; use an API token for scripts.");
 }
 
 /**

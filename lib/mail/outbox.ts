@@ -17,7 +17,6 @@ import { env } from "@/lib/env";
 import { transport as defaultTransport } from "./transport";
 import { sleep } from "@/lib/sleep";
 
-
 export type EmailInput = {
   /** what the message is about, e.g. `decision:123:provider@x.test`; queued at most once */
   dedupeKey: string;
@@ -40,7 +39,8 @@ export async function enqueueEmail(tx: DbOrTx, input: EmailInput): Promise<{ que
   const problems: string[] = [];
   if (!input.dedupeKey || input.dedupeKey.length > 200) problems.push("dedupeKey must be 1–200 characters");
   if (!input.kind || input.kind.length > 40) problems.push("kind must be 1–40 characters");
-  if (!EMAIL_RE.test(input.to) || input.to.length > 320) problems.push(`"${input.to}" is not an e-mail address`);
+  if (!EMAIL_RE.test(input.to) || input.to.length > 320)
+    problems.push(`"${input.to}" is not an e-mail address`);
   if (!input.subject || input.subject.length > 500) problems.push("subject must be 1–500 characters");
   if (!input.text) problems.push("a plain-text body is required");
   if (problems.length) throw new Error(`Cannot queue e-mail: ${problems.join("; ")}.`);
@@ -61,7 +61,6 @@ export async function enqueueEmail(tx: DbOrTx, input: EmailInput): Promise<{ que
     throw e;
   }
 }
-
 
 export type DeliverOptions = {
   db?: Db;
@@ -101,7 +100,8 @@ function isPermanent(e: unknown): boolean {
   return typeof code === "number" && code >= 500 && code < 600;
 }
 
-const interval = (ms: number) => sql`DATE_ADD(NOW(3), INTERVAL ${Math.max(0, Math.round(ms)) * 1000} MICROSECOND)`;
+const interval = (ms: number) =>
+  sql`DATE_ADD(NOW(3), INTERVAL ${Math.max(0, Math.round(ms)) * 1000} MICROSECOND)`;
 
 /**
  * Claims due rows (pending and due, or 'sending' with an expired lease), sends each, and
@@ -122,15 +122,26 @@ export async function deliverOutbox(opts: DeliverOptions = {}): Promise<DeliverR
     const rows = await tx
       .select()
       .from(emailOutbox)
-      .where(and(inArray(emailOutbox.status, ["pending", "sending"]), lte(emailOutbox.nextAttemptAt, sql`NOW(3)`)))
+      .where(
+        and(inArray(emailOutbox.status, ["pending", "sending"]), lte(emailOutbox.nextAttemptAt, sql`NOW(3)`)),
+      )
       .orderBy(emailOutbox.nextAttemptAt, emailOutbox.id)
       .limit(limit)
       .for("update", { skipLocked: true });
     if (rows.length === 0) return [];
     await tx
       .update(emailOutbox)
-      .set({ status: "sending", attempts: sql`${emailOutbox.attempts} + 1`, nextAttemptAt: interval(leaseMs) })
-      .where(inArray(emailOutbox.id, rows.map((r) => r.id)));
+      .set({
+        status: "sending",
+        attempts: sql`${emailOutbox.attempts} + 1`,
+        nextAttemptAt: interval(leaseMs),
+      })
+      .where(
+        inArray(
+          emailOutbox.id,
+          rows.map((r) => r.id),
+        ),
+      );
     return rows.map((r) => ({ ...r, attempts: r.attempts + 1 }));
   });
 
@@ -138,7 +149,11 @@ export async function deliverOutbox(opts: DeliverOptions = {}): Promise<DeliverR
   for (const row of claimed) {
     const messageId = messageIdFor(row, from);
     // only the holder of this claim (same attempt count, still 'sending') records the outcome
-    const mine = and(eq(emailOutbox.id, row.id), eq(emailOutbox.status, "sending"), eq(emailOutbox.attempts, row.attempts));
+    const mine = and(
+      eq(emailOutbox.id, row.id),
+      eq(emailOutbox.status, "sending"),
+      eq(emailOutbox.attempts, row.attempts),
+    );
     try {
       await smtp.sendMail({
         from,
@@ -162,7 +177,12 @@ export async function deliverOutbox(opts: DeliverOptions = {}): Promise<DeliverR
         .set(
           give_up
             ? { status: "failed", lastError: error, messageId }
-            : { status: "pending", lastError: error, messageId, nextAttemptAt: interval(retryDelayMs(row.attempts, base, cap)) },
+            : {
+                status: "pending",
+                lastError: error,
+                messageId,
+                nextAttemptAt: interval(retryDelayMs(row.attempts, base, cap)),
+              },
         )
         .where(mine);
       if (give_up) result.failed++;

@@ -87,7 +87,10 @@ const resetEmailSchema = z
  * address and per e-mail (counted whether or not it has an account, so the limit tells nothing
  * either), so nobody can flood an inbox with reset mails.
  */
-export function requestPasswordReset(emailInput: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<null>> {
+export function requestPasswordReset(
+  emailInput: unknown,
+  meta: { ip: string } = { ip: "local" },
+): Promise<Result<null>> {
   return write({
     name: "requestPasswordReset",
     actorId: null,

@@ -92,7 +92,11 @@ async function organisationProblem(
  * e-mail is a field error. Invitations are rate-limited (lib/auth/rate-limit.ts) per `meta.ip`,
  * the client address, and per invited e-mail.
  */
-export function createUser(actorId: number, input: unknown, meta: { ip: string } = { ip: "local" }): Promise<Result<UserRecord>> {
+export function createUser(
+  actorId: number,
+  input: unknown,
+  meta: { ip: string } = { ip: "local" },
+): Promise<Result<UserRecord>> {
   const taken = () => fail<UserRecord>(CHECK_FIELDS, { email: [EMAIL_TAKEN] }, "conflict");
   return write({
     name: "createUser",

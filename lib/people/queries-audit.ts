@@ -20,13 +20,23 @@ export type AuditEventItem = {
   createdAt: Date;
 };
 
-export type AuditFilter = { objectType?: string; objectId?: string; batchId?: number; studyId?: number; beforeId?: number; limit?: number };
+export type AuditFilter = {
+  objectType?: string;
+  objectId?: string;
+  batchId?: number;
+  studyId?: number;
+  beforeId?: number;
+  limit?: number;
+};
 
 /**
  * The audit trail, newest first, for roles with audit.read (leads, admins); others get
  * AppError("forbidden"). Page with `beforeId` (the last id of the previous page).
  */
-export async function listAuditEvents(user: SessionUser, filter: AuditFilter = {}): Promise<AuditEventItem[]> {
+export async function listAuditEvents(
+  user: SessionUser,
+  filter: AuditFilter = {},
+): Promise<AuditEventItem[]> {
   if (!can(user.role, "audit.read")) throw new AppError("forbidden");
   return getDb()
     .select({

@@ -21,7 +21,13 @@ export async function listOrganisations(user: SessionUser): Promise<Organisation
   const all = can(user.role, "user.manage") || can(user.role, "user.invite") || can(user.role, "board.read");
   if (!all && user.organisationId == null) return [];
   return getDb()
-    .select({ id: organisations.id, name: organisations.name, slug: organisations.slug, kind: organisations.kind, userCount: count(users.id) })
+    .select({
+      id: organisations.id,
+      name: organisations.name,
+      slug: organisations.slug,
+      kind: organisations.kind,
+      userCount: count(users.id),
+    })
     .from(organisations)
     .leftJoin(users, eq(users.organisationId, organisations.id))
     .where(all ? undefined : eq(organisations.id, user.organisationId ?? 0))

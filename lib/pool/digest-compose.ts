@@ -15,17 +15,38 @@ const DAY = 86_400_000;
 export type DigestData = {
   from: Date;
   to: Date;
-  waiting: { study: string; organisation: string; title: string; batchPublicId: string; version: number; since: Date }[];
+  waiting: {
+    study: string;
+    organisation: string;
+    title: string;
+    batchPublicId: string;
+    version: number;
+    since: Date;
+  }[];
   accepted: number;
   bounced: { study: string; organisation: string; title: string; batchPublicId: string; version: number }[];
-  pools: { slug: string; title: string; before: number; after: number; target: number; change: "crossed" | "fell" | "above" | "below" }[];
+  pools: {
+    slug: string;
+    title: string;
+    before: number;
+    after: number;
+    target: number;
+    change: "crossed" | "fell" | "above" | "below";
+  }[];
 };
 
 /** What happened in the 7 days up to `now`. */
 export async function digestData(db: Db, now = new Date()): Promise<DigestData> {
   const from = new Date(now.getTime() - 7 * DAY);
   const waiting = await db
-    .select({ study: studies.title, organisation: organisations.name, title: batches.title, batchPublicId: batches.publicId, version: batchVersions.version, since: batchVersions.stateChangedAt })
+    .select({
+      study: studies.title,
+      organisation: organisations.name,
+      title: batches.title,
+      batchPublicId: batches.publicId,
+      version: batchVersions.version,
+      since: batchVersions.stateChangedAt,
+    })
     .from(batchVersions)
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
     .innerJoin(studies, eq(studies.id, batches.studyId))
@@ -33,7 +54,14 @@ export async function digestData(db: Db, now = new Date()): Promise<DigestData> 
     .where(eq(batchVersions.state, "ready"))
     .orderBy(asc(batchVersions.stateChangedAt));
   const decided = await db
-    .select({ decision: decisions.decision, study: studies.title, organisation: organisations.name, title: batches.title, batchPublicId: batches.publicId, version: batchVersions.version })
+    .select({
+      decision: decisions.decision,
+      study: studies.title,
+      organisation: organisations.name,
+      title: batches.title,
+      batchPublicId: batches.publicId,
+      version: batchVersions.version,
+    })
     .from(decisions)
     .innerJoin(batchVersions, eq(batchVersions.id, decisions.batchVersionId))
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
@@ -42,7 +70,15 @@ export async function digestData(db: Db, now = new Date()): Promise<DigestData> 
     .where(and(gte(decisions.decidedAt, from), lt(decisions.decidedAt, now)))
     .orderBy(asc(decisions.decidedAt));
   const pools: DigestData["pools"] = [];
-  const list = await db.select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion }).from(studies).orderBy(asc(studies.title));
+  const list = await db
+    .select({
+      id: studies.id,
+      slug: studies.slug,
+      title: studies.title,
+      currentPlanVersion: studies.currentPlanVersion,
+    })
+    .from(studies)
+    .orderBy(asc(studies.title));
   for (const s of list) {
     if (s.currentPlanVersion == null) continue;
     try {
@@ -54,7 +90,14 @@ export async function digestData(db: Db, now = new Date()): Promise<DigestData> 
       const target = nowPool.model.dfTarget;
       const before = then.model.residualDf;
       const after = nowPool.model.residualDf;
-      const change = before < target && after >= target ? "crossed" : before >= target && after < target ? "fell" : after >= target ? "above" : "below";
+      const change =
+        before < target && after >= target
+          ? "crossed"
+          : before >= target && after < target
+            ? "fell"
+            : after >= target
+              ? "above"
+              : "below";
       pools.push({ slug: s.slug, title: s.title, before, after, target, change });
     } catch {
       // a study without a valid plan has no pool to report
@@ -82,20 +125,31 @@ const POOL_WORDS = {
 } as const;
 
 /** Subject, plain text and HTML of the digest. */
-export function composeDigest(d: DigestData, appUrl = env().APP_URL): { subject: string; text: string; html: string } {
+export function composeDigest(
+  d: DigestData,
+  appUrl = env().APP_URL,
+): { subject: string; text: string; html: string } {
   const base = appUrl.replace(/\/$/, "");
   const subject = `Tributary weekly digest ${day(d.from)} to ${day(d.to)}: ${d.waiting.length} waiting, ${d.accepted} accepted, ${d.bounced.length} bounced`;
   const lines: string[] = [
     `Intake from ${day(d.from)} to ${day(d.to)}.`,
     "",
     `Waiting for a decision: ${d.waiting.length}`,
-    ...d.waiting.map((w) => `  - ${w.study} · ${w.organisation} · ${w.title} (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}: ${base}/batches/${w.batchPublicId}?v=${w.version}`),
+    ...d.waiting.map(
+      (w) =>
+        `  - ${w.study} · ${w.organisation} · ${w.title} (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}: ${base}/batches/${w.batchPublicId}?v=${w.version}`,
+    ),
     "",
     `Decided this week: ${d.accepted} accepted, ${d.bounced.length} bounced`,
-    ...d.bounced.map((b) => `  - bounced: ${b.study} · ${b.organisation} · ${b.title} (version ${b.version})`),
+    ...d.bounced.map(
+      (b) => `  - bounced: ${b.study} · ${b.organisation} · ${b.title} (version ${b.version})`,
+    ),
     "",
     "Pools against their df targets:",
-    ...d.pools.map((p) => `  - ${p.title} ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}. ${base}/pool/${p.slug}`),
+    ...d.pools.map(
+      (p) =>
+        `  - ${p.title} ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}. ${base}/pool/${p.slug}`,
+    ),
     "",
     `The board: ${base}/board`,
   ];
@@ -103,11 +157,25 @@ export function composeDigest(d: DigestData, appUrl = env().APP_URL): { subject:
   const html = [
     `<p>Intake from ${day(d.from)} to ${day(d.to)}.</p>`,
     `<h2>Waiting for a decision: ${d.waiting.length}</h2>`,
-    li(d.waiting.map((w) => `<a href="${esc(`${base}/batches/${w.batchPublicId}?v=${w.version}`)}">${esc(w.study)} · ${esc(w.organisation)} · ${esc(w.title)}</a> (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}`)),
+    li(
+      d.waiting.map(
+        (w) =>
+          `<a href="${esc(`${base}/batches/${w.batchPublicId}?v=${w.version}`)}">${esc(w.study)} · ${esc(w.organisation)} · ${esc(w.title)}</a> (version ${w.version}), waiting ${countOf(days(w.since, d.to), "day")}`,
+      ),
+    ),
     `<h2>Decided this week: ${d.accepted} accepted, ${d.bounced.length} bounced</h2>`,
-    li(d.bounced.map((b) => `bounced: ${esc(b.study)} · ${esc(b.organisation)} · ${esc(b.title)} (version ${b.version})`)),
+    li(
+      d.bounced.map(
+        (b) => `bounced: ${esc(b.study)} · ${esc(b.organisation)} · ${esc(b.title)} (version ${b.version})`,
+      ),
+    ),
     `<h2>Pools against their df targets</h2>`,
-    li(d.pools.map((p) => `<a href="${esc(`${base}/pool/${p.slug}`)}">${esc(p.title)}</a> ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}`)),
+    li(
+      d.pools.map(
+        (p) =>
+          `<a href="${esc(`${base}/pool/${p.slug}`)}">${esc(p.title)}</a> ${POOL_WORDS[p.change]}: residual df ${formatCount(p.before)} → ${formatCount(p.after)}, target ${formatCount(p.target)}`,
+      ),
+    ),
     `<p><a href="${esc(`${base}/board`)}">Open the board</a></p>`,
   ].join("\n");
   return { subject, text: lines.join("\n") + "\n", html };

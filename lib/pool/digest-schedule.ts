@@ -12,7 +12,11 @@ export function digestDue(now: Date): boolean {
   return day !== 1 || now.getUTCHours() >= 7;
 }
 
-export async function runDigestSchedule(opts: { signal: AbortSignal; intervalMs?: number; log?: (line: string) => void }): Promise<void> {
+export async function runDigestSchedule(opts: {
+  signal: AbortSignal;
+  intervalMs?: number;
+  log?: (line: string) => void;
+}): Promise<void> {
   const interval = opts.intervalMs ?? 15 * 60_000;
   const log = opts.log ?? (() => {});
   while (!opts.signal.aborted) {

@@ -25,13 +25,20 @@ function isNumeric(c: PlanColumn) {
  * columns in plan order. Values are as sent, except numeric columns of a file written with
  * decimal commas, whose commas become points so every row reads the same way.
  */
-export async function* poolCsvLines(pool: StudyPool, openFile: OpenFile, counter?: { rows: number }): AsyncGenerator<string> {
+export async function* poolCsvLines(
+  pool: StudyPool,
+  openFile: OpenFile,
+  counter?: { rows: number },
+): AsyncGenerator<string> {
   const cols = pool.plan.columns;
   yield line([...PROVENANCE_COLUMNS, ...cols.map((c) => c.name)]);
   for (const m of pool.members) {
     let index: (number | undefined)[] | null = null;
     // the engine's reader (UTF-8 only, lib/readiness/decode.ts): an accepted file reads as it was checked
-    for await (const { kind, line: lineNo, fields: rec } of csvRecords(await openFile(m.fileKey), m.delimiter ? { delimiter: m.delimiter } : {})) {
+    for await (const { kind, line: lineNo, fields: rec } of csvRecords(
+      await openFile(m.fileKey),
+      m.delimiter ? { delimiter: m.delimiter } : {},
+    )) {
       if (kind === "header" || !index) {
         const header = rec.map((h) => h.trim());
         index = cols.map((c) => {
@@ -52,7 +59,11 @@ export async function* poolCsvLines(pool: StudyPool, openFile: OpenFile, counter
 }
 
 /** The pool's CSV as a byte stream pulled line by line (back-pressure from the client). */
-export function poolCsvStream(pool: StudyPool, openFile: OpenFile, counter?: { rows: number }): ReadableStream<Uint8Array> {
+export function poolCsvStream(
+  pool: StudyPool,
+  openFile: OpenFile,
+  counter?: { rows: number },
+): ReadableStream<Uint8Array> {
   const it = poolCsvLines(pool, openFile, counter);
   const enc = new TextEncoder();
   return new ReadableStream<Uint8Array>({
@@ -96,13 +107,25 @@ export type DictionaryEntry = {
   poolMissing: number | null;
   poolMissingFraction: number | null;
   poolLevels: { level: string; count: number }[] | null;
-  poolSummary: { min: number; q1: number; median: number; q3: number; max: number; mean: number; sd: number } | null;
+  poolSummary: {
+    min: number;
+    q1: number;
+    median: number;
+    q3: number;
+    max: number;
+    mean: number;
+    sd: number;
+  } | null;
 };
 
 export type DataDictionary = {
   study: { slug: string; title: string; planVersion: number };
   generatedAt: string;
-  model: { intercept: boolean; terms: { term: string; columns: string[]; df: number }[]; interactions: [string, string][] };
+  model: {
+    intercept: boolean;
+    terms: { term: string; columns: string[]; df: number }[];
+    interactions: [string, string][];
+  };
   pool: PoolFigures & {
     perParameter: number | null;
     rSquared: number | null;
@@ -110,7 +133,14 @@ export type DataDictionary = {
   };
   provenanceColumns: readonly string[];
   columns: DictionaryEntry[];
-  members: { organisation: string; batch: string; title: string; version: number; file: string; rows: number }[];
+  members: {
+    organisation: string;
+    batch: string;
+    title: string;
+    version: number;
+    file: string;
+    rows: number;
+  }[];
 };
 
 /** The data dictionary: the plan's columns (roles, types, levels with baseline, ranges, missing tokens) and the pool's figures. */
@@ -148,31 +178,87 @@ export function dataDictionary(pool: StudyPool, now = new Date()): DataDictionar
         poolSummary: col?.summary ?? null,
       };
     }),
-    members: pool.members.map((m) => ({ organisation: m.organisationName, batch: m.batchPublicId, title: m.batchTitle, version: m.version, file: m.fileName, rows: m.rowsTotal })),
+    members: pool.members.map((m) => ({
+      organisation: m.organisationName,
+      batch: m.batchPublicId,
+      title: m.batchTitle,
+      version: m.version,
+      file: m.fileName,
+      rows: m.rowsTotal,
+    })),
   };
 }
 
-const list = (xs: readonly (string | number)[] | null) => (xs ? xs.map((x) => (x === "" ? "(empty)" : String(x))).join(" | ") : "");
+const list = (xs: readonly (string | number)[] | null) =>
+  xs ? xs.map((x) => (x === "" ? "(empty)" : String(x))).join(" | ") : "";
 
 /** The dictionary's columns as CSV, one row per plan column; the pool figures as leading comment-free summary rows. */
 export function dataDictionaryCsv(d: DataDictionary): string {
-  const header = ["column", "role", "type", "description", "levels", "baseline", "open_levels", "min", "max", "missing_tokens", "sentinels", "pool_missing", "pool_missing_fraction", "pool_level_counts", "pool_mean", "pool_sd", "pool_min", "pool_max"];
+  const header = [
+    "column",
+    "role",
+    "type",
+    "description",
+    "levels",
+    "baseline",
+    "open_levels",
+    "min",
+    "max",
+    "missing_tokens",
+    "sentinels",
+    "pool_missing",
+    "pool_missing_fraction",
+    "pool_level_counts",
+    "pool_mean",
+    "pool_sd",
+    "pool_min",
+    "pool_max",
+  ];
   const rows = d.columns.map((c) => [
-    c.name, c.role, c.type, c.description, list(c.levels), c.baseline, c.openLevels, c.min, c.max, list(c.missingTokens), list(c.sentinels),
-    c.poolMissing, c.poolMissingFraction, c.poolLevels ? c.poolLevels.map((l) => `${l.level}=${l.count}`).join(" | ") : "",
-    c.poolSummary?.mean, c.poolSummary?.sd, c.poolSummary?.min, c.poolSummary?.max,
+    c.name,
+    c.role,
+    c.type,
+    c.description,
+    list(c.levels),
+    c.baseline,
+    c.openLevels,
+    c.min,
+    c.max,
+    list(c.missingTokens),
+    list(c.sentinels),
+    c.poolMissing,
+    c.poolMissingFraction,
+    c.poolLevels ? c.poolLevels.map((l) => `${l.level}=${l.count}`).join(" | ") : "",
+    c.poolSummary?.mean,
+    c.poolSummary?.sd,
+    c.poolSummary?.min,
+    c.poolSummary?.max,
   ]);
   const p = d.pool;
   const figures = [
     ["pool_figure", "value"],
-    ["study", d.study.slug], ["plan_version", d.study.planVersion], ["batches", p.batches], ["rows", p.rows], ["complete_cases", p.completeCases],
-    ["parameters", p.parameters], ["residual_df", p.residualDf], ["df_target", p.dfTarget], ["df_headroom", p.headroom],
-    ["rows_per_parameter", p.perParameter], ["r_squared", p.rSquared], ["adj_r_squared", p.adjRSquared],
+    ["study", d.study.slug],
+    ["plan_version", d.study.planVersion],
+    ["batches", p.batches],
+    ["rows", p.rows],
+    ["complete_cases", p.completeCases],
+    ["parameters", p.parameters],
+    ["residual_df", p.residualDf],
+    ["df_target", p.dfTarget],
+    ["df_headroom", p.headroom],
+    ["rows_per_parameter", p.perParameter],
+    ["r_squared", p.rSquared],
+    ["adj_r_squared", p.adjRSquared],
   ];
   return [header, ...rows].map(line).join("") + "\r\n" + figures.map(line).join("");
 }
 
 /** The name of an export file: `<slug>-pool-<what>-<yyyy-mm-dd>.<ext>`. */
-export function exportFileName(slug: string, what: "rows" | "dictionary", ext: "csv" | "json", now = new Date()): string {
+export function exportFileName(
+  slug: string,
+  what: "rows" | "dictionary",
+  ext: "csv" | "json",
+  now = new Date(),
+): string {
   return `${slug}-pool-${what}-${now.toISOString().slice(0, 10)}.${ext}`;
 }

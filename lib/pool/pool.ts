@@ -75,21 +75,33 @@ export type StudyRef = { id: number; slug: string; title: string; currentPlanVer
 type Loaded = { member: PoolMember; state: unknown };
 
 /** The study's current data plan, parsed. Throws when the study has none or it is invalid. */
-export async function loadCurrentPlan(db: Db, study: StudyRef): Promise<{ plan: Plan; version: number; planHash: string }> {
+export async function loadCurrentPlan(
+  db: Db,
+  study: StudyRef,
+): Promise<{ plan: Plan; version: number; planHash: string }> {
   if (study.currentPlanVersion == null) throw new Error(`Study "${study.slug}" has no data plan yet.`);
   const [row] = await db
     .select({ plan: dataPlans.plan, version: dataPlans.version, planHash: dataPlans.planHash })
     .from(dataPlans)
     .where(and(eq(dataPlans.studyId, study.id), eq(dataPlans.version, study.currentPlanVersion)));
-  if (!row) throw new Error(`Study "${study.slug}" points at plan version ${study.currentPlanVersion}, which does not exist.`);
+  if (!row)
+    throw new Error(
+      `Study "${study.slug}" points at plan version ${study.currentPlanVersion}, which does not exist.`,
+    );
   const parsed = parsePlan(row.plan);
-  if (!parsed.ok) throw new Error(`The data plan of study "${study.slug}" is not valid; fix it in the plan editor.`);
+  if (!parsed.ok)
+    throw new Error(`The data plan of study "${study.slug}" is not valid; fix it in the plan editor.`);
   return { plan: parsed.plan, version: row.version, planHash: row.planHash };
 }
 
 export async function getStudyRef(db: Db, by: { id: number } | { slug: string }): Promise<StudyRef | null> {
   const [s] = await db
-    .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
+    .select({
+      id: studies.id,
+      slug: studies.slug,
+      title: studies.title,
+      currentPlanVersion: studies.currentPlanVersion,
+    })
     .from(studies)
     .where("id" in by ? eq(studies.id, by.id) : eq(studies.slug, by.slug));
   return s ?? null;
@@ -100,18 +112,32 @@ async function newestReports(db: Db, versionIds: number[]) {
   const out = new Map<number, { report: unknown; engineState: unknown; planHash: string }>();
   if (!versionIds.length) return out;
   const rows = await db
-    .select({ versionId: reports.batchVersionId, report: reports.report, engineState: reports.engineState, planHash: dataPlans.planHash })
+    .select({
+      versionId: reports.batchVersionId,
+      report: reports.report,
+      engineState: reports.engineState,
+      planHash: dataPlans.planHash,
+    })
     .from(reports)
     .innerJoin(dataPlans, eq(dataPlans.id, reports.planId))
     .where(inArray(reports.batchVersionId, versionIds))
     .orderBy(desc(reports.id));
-  for (const r of rows) if (!out.has(r.versionId)) out.set(r.versionId, { report: r.report, engineState: r.engineState, planHash: r.planHash });
+  for (const r of rows)
+    if (!out.has(r.versionId))
+      out.set(r.versionId, { report: r.report, engineState: r.engineState, planHash: r.planHash });
   return out;
 }
 
 type VersionRow = {
-  batchVersionId: number; batchId: number; batchPublicId: string; batchTitle: string; version: number;
-  organisationId: number; organisationName: string; fileKey: string; fileName: string;
+  batchVersionId: number;
+  batchId: number;
+  batchPublicId: string;
+  batchTitle: string;
+  version: number;
+  organisationId: number;
+  organisationName: string;
+  fileKey: string;
+  fileName: string;
 };
 
 export const versionColumns = {
@@ -126,8 +152,15 @@ export const versionColumns = {
   fileName: batchVersions.fileName,
 };
 
-export async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date | null })[], planHash: string): Promise<Loaded[]> {
-  const reps = await newestReports(db, rows.map((r) => r.batchVersionId));
+export async function withStates(
+  db: Db,
+  rows: (VersionRow & { decidedAt: Date | null })[],
+  planHash: string,
+): Promise<Loaded[]> {
+  const reps = await newestReports(
+    db,
+    rows.map((r) => r.batchVersionId),
+  );
   const out: Loaded[] = [];
   for (const r of rows) {
     const rep = reps.get(r.batchVersionId);
@@ -156,14 +189,32 @@ export async function withStates(db: Db, rows: (VersionRow & { decidedAt: Date |
  * `asOf` rebuilds the pool as it stood at that moment: versions accepted before it and not
  * yet superseded then (used by the weekly digest to see whether a pool crossed its target).
  */
-export async function loadAccepted(db: Db, studyId: number, planHash: string, asOf?: Date): Promise<Loaded[]> {
+export async function loadAccepted(
+  db: Db,
+  studyId: number,
+  planHash: string,
+  asOf?: Date,
+): Promise<Loaded[]> {
   const rows = await db
-    .select({ ...versionColumns, decidedAt: decisions.decidedAt, state: batchVersions.state, stateChangedAt: batchVersions.stateChangedAt })
+    .select({
+      ...versionColumns,
+      decidedAt: decisions.decidedAt,
+      state: batchVersions.state,
+      stateChangedAt: batchVersions.stateChangedAt,
+    })
     .from(batchVersions)
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
-    .innerJoin(decisions, and(eq(decisions.batchVersionId, batchVersions.id), eq(decisions.decision, "accept")))
-    .where(and(eq(batches.studyId, studyId), asOf ? inArray(batchVersions.state, ["accepted", "superseded"]) : eq(batchVersions.state, "accepted")))
+    .innerJoin(
+      decisions,
+      and(eq(decisions.batchVersionId, batchVersions.id), eq(decisions.decision, "accept")),
+    )
+    .where(
+      and(
+        eq(batches.studyId, studyId),
+        asOf ? inArray(batchVersions.state, ["accepted", "superseded"]) : eq(batchVersions.state, "accepted"),
+      ),
+    )
     .orderBy(decisions.decidedAt, batchVersions.id);
   const kept = asOf
     ? rows.filter((r) => r.decidedAt < asOf && (r.state === "accepted" || r.stateChangedAt >= asOf))
@@ -173,7 +224,10 @@ export async function loadAccepted(db: Db, studyId: number, planHash: string, as
 
 /** Merges loaded states into the pool's report with the plan (engine's poolReport). */
 export async function poolOf(loaded: Loaded[], plan: Plan): Promise<ReadinessReport> {
-  return poolReport(loaded.map((l) => l.state), plan);
+  return poolReport(
+    loaded.map((l) => l.state),
+    plan,
+  );
 }
 
 /** A study's pool: the merged report of its accepted versions under the current plan. */
@@ -181,7 +235,15 @@ export async function getStudyPool(db: Db, study: StudyRef): Promise<StudyPool> 
   const { plan, version, planHash } = await loadCurrentPlan(db, study);
   const loaded = await loadAccepted(db, study.id, planHash);
   const report = await poolOf(loaded, plan);
-  return { studyId: study.id, slug: study.slug, title: study.title, planVersion: version, plan, report, members: loaded.map((l) => l.member) };
+  return {
+    studyId: study.id,
+    slug: study.slug,
+    title: study.title,
+    planVersion: version,
+    plan,
+    report,
+    members: loaded.map((l) => l.member),
+  };
 }
 
 /** The report without its merged engine state (for JSON answers and pages). */

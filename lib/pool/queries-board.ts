@@ -43,20 +43,37 @@ export async function listBoardBatches(db: Db, now = new Date()): Promise<BoardB
       stateChangedAt: batchVersions.stateChangedAt,
     })
     .from(batches)
-    .innerJoin(batchVersions, and(eq(batchVersions.batchId, batches.id), eq(batchVersions.version, batches.latestVersion)))
+    .innerJoin(
+      batchVersions,
+      and(eq(batchVersions.batchId, batches.id), eq(batchVersions.version, batches.latestVersion)),
+    )
     .innerJoin(studies, eq(studies.id, batches.studyId))
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
     .orderBy(studies.title, batchVersions.stateChangedAt);
-  return rows.map((r) => ({ ...r, hoursInState: Math.max(0, (now.getTime() - r.stateChangedAt.getTime()) / HOUR_MS) }));
+  return rows.map((r) => ({
+    ...r,
+    hoursInState: Math.max(0, (now.getTime() - r.stateChangedAt.getTime()) / HOUR_MS),
+  }));
 }
 
-export type TurnaroundWeek = { week: string; decisions: number; medianHours: number | null; p90Hours: number | null };
+export type TurnaroundWeek = {
+  week: string;
+  decisions: number;
+  medianHours: number | null;
+  p90Hours: number | null;
+};
 
 /**
  * Turnaround from a version's upload to its decision, by ISO week of the decision (UTC),
  * median and 90th percentile in hours (quantile type 7), over the last `weeks` weeks.
  */
-export async function turnaroundByWeek(db: Db, opts: { weeks?: number; now?: Date; studySlug?: string } = {}): Promise<{ weeks: TurnaroundWeek[]; overall: { decisions: number; medianHours: number | null; p90Hours: number | null } }> {
+export async function turnaroundByWeek(
+  db: Db,
+  opts: { weeks?: number; now?: Date; studySlug?: string } = {},
+): Promise<{
+  weeks: TurnaroundWeek[];
+  overall: { decisions: number; medianHours: number | null; p90Hours: number | null };
+}> {
   const now = opts.now ?? new Date();
   const weeks = opts.weeks ?? 12;
   const from = new Date(weekStart(now).getTime() - (weeks - 1) * 7 * 24 * HOUR_MS);
@@ -66,9 +83,16 @@ export async function turnaroundByWeek(db: Db, opts: { weeks?: number; now?: Dat
     .innerJoin(batchVersions, eq(batchVersions.id, decisions.batchVersionId))
     .innerJoin(batches, eq(batches.id, batchVersions.batchId))
     .innerJoin(studies, eq(studies.id, batches.studyId))
-    .where(and(gte(decisions.decidedAt, from), lte(decisions.decidedAt, now), opts.studySlug ? eq(studies.slug, opts.studySlug) : undefined));
+    .where(
+      and(
+        gte(decisions.decidedAt, from),
+        lte(decisions.decidedAt, now),
+        opts.studySlug ? eq(studies.slug, opts.studySlug) : undefined,
+      ),
+    );
   const byWeek = new Map<string, number[]>();
-  for (let i = 0; i < weeks; i++) byWeek.set(new Date(from.getTime() + i * 7 * 24 * HOUR_MS).toISOString().slice(0, 10), []);
+  for (let i = 0; i < weeks; i++)
+    byWeek.set(new Date(from.getTime() + i * 7 * 24 * HOUR_MS).toISOString().slice(0, 10), []);
   const all: number[] = [];
   for (const r of rows) {
     const h = Math.max(0, (r.decidedAt.getTime() - r.uploadedAt.getTime()) / HOUR_MS);
@@ -76,22 +100,40 @@ export async function turnaroundByWeek(db: Db, opts: { weeks?: number; now?: Dat
     byWeek.get(weekStart(r.decidedAt).toISOString().slice(0, 10))?.push(h);
   }
   return {
-    weeks: [...byWeek].map(([week, hs]) => ({ week, decisions: hs.length, medianHours: quantile(hs, 0.5), p90Hours: quantile(hs, 0.9) })),
+    weeks: [...byWeek].map(([week, hs]) => ({
+      week,
+      decisions: hs.length,
+      medianHours: quantile(hs, 0.5),
+      p90Hours: quantile(hs, 0.9),
+    })),
     overall: { decisions: all.length, medianHours: quantile(all, 0.5), p90Hours: quantile(all, 0.9) },
   };
 }
 
-export type PoolHeadroom = PoolFigures & { studySlug: string; studyTitle: string; error?: string; history: HeadroomWeek[] };
+export type PoolHeadroom = PoolFigures & {
+  studySlug: string;
+  studyTitle: string;
+  error?: string;
+  history: HeadroomWeek[];
+};
 
 /**
  * Each study's pool against its df target (studies without a valid plan say why), with its
  * residual df at the end of each of the last `weeks` weeks.
  */
-export async function poolHeadrooms(db: Db, opts: { weeks?: number; now?: Date } = {}): Promise<PoolHeadroom[]> {
+export async function poolHeadrooms(
+  db: Db,
+  opts: { weeks?: number; now?: Date } = {},
+): Promise<PoolHeadroom[]> {
   const weeks = opts.weeks ?? 12;
   const now = opts.now ?? new Date();
   const list = await db
-    .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
+    .select({
+      id: studies.id,
+      slug: studies.slug,
+      title: studies.title,
+      currentPlanVersion: studies.currentPlanVersion,
+    })
     .from(studies)
     .orderBy(studies.title);
   const out: PoolHeadroom[] = [];
@@ -102,7 +144,19 @@ export async function poolHeadrooms(db: Db, opts: { weeks?: number; now?: Date }
       const history = await headroomByWeek(db, s.id, fitted, { weeks, now });
       out.push({ studySlug: s.slug, studyTitle: s.title, ...poolFigures(pool), history });
     } catch (e) {
-      out.push({ studySlug: s.slug, studyTitle: s.title, batches: 0, rows: 0, completeCases: 0, parameters: 0, residualDf: 0, dfTarget: 0, headroom: 0, history: [], error: e instanceof Error ? e.message : "The pool could not be computed." });
+      out.push({
+        studySlug: s.slug,
+        studyTitle: s.title,
+        batches: 0,
+        rows: 0,
+        completeCases: 0,
+        parameters: 0,
+        residualDf: 0,
+        dfTarget: 0,
+        headroom: 0,
+        history: [],
+        error: e instanceof Error ? e.message : "The pool could not be computed.",
+      });
     }
   }
   return out;
@@ -166,7 +220,20 @@ export async function getBoard(db: Db, now = new Date(), weeks = 12): Promise<Bo
     silentProviders(db),
     poolHeadrooms(db, { weeks, now }),
     intakeFlow(db, flowSince, now),
-    db.select({ n: sql<number>`count(*)` }).from(batchVersions).where(and(gte(batchVersions.uploadedAt, flowSince), lte(batchVersions.uploadedAt, now))),
+    db
+      .select({ n: sql<number>`count(*)` })
+      .from(batchVersions)
+      .where(and(gte(batchVersions.uploadedAt, flowSince), lte(batchVersions.uploadedAt, now))),
   ]);
-  return { generatedAt: now, batches: list, turnaround, providers, silent, pools, flow, flowSince, flowReceived: Number(received[0]?.n ?? 0) };
+  return {
+    generatedAt: now,
+    batches: list,
+    turnaround,
+    providers,
+    silent,
+    pools,
+    flow,
+    flowSince,
+    flowReceived: Number(received[0]?.n ?? 0),
+  };
 }

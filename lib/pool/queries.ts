@@ -17,7 +17,12 @@ export async function getPoolStudyForUser(user: SessionUser, slug: string): Prom
   if (!can(user.role, "pool.read")) return null;
   const scope = studyScope(user);
   const [s] = await getDb()
-    .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
+    .select({
+      id: studies.id,
+      slug: studies.slug,
+      title: studies.title,
+      currentPlanVersion: studies.currentPlanVersion,
+    })
     .from(studies)
     .where(scope ? and(eq(studies.slug, slug), scope) : eq(studies.slug, slug));
   return s ?? null;
@@ -28,7 +33,12 @@ export async function listPoolStudiesForUser(user: SessionUser): Promise<StudyRe
   if (!can(user.role, "pool.read")) return [];
   const scope = studyScope(user);
   return getDb()
-    .select({ id: studies.id, slug: studies.slug, title: studies.title, currentPlanVersion: studies.currentPlanVersion })
+    .select({
+      id: studies.id,
+      slug: studies.slug,
+      title: studies.title,
+      currentPlanVersion: studies.currentPlanVersion,
+    })
     .from(studies)
     .where(scope)
     .orderBy(asc(studies.title));
@@ -44,7 +54,11 @@ export async function getPoolForUser(user: SessionUser, slug: string): Promise<S
  * "If accepted" for a version, when the user may see the study's pool. The batch page already
  * checked the batch is visible; this checks the pool is too (providers never see a pool).
  */
-export async function getIfAcceptedForUser(user: SessionUser, batchPublicId: string, version: number): Promise<IfAccepted | null> {
+export async function getIfAcceptedForUser(
+  user: SessionUser,
+  batchPublicId: string,
+  version: number,
+): Promise<IfAccepted | null> {
   if (!can(user.role, "pool.read")) return null;
   const r = await getIfAccepted(getDb(), batchPublicId, version);
   if (!r) return null;

@@ -138,7 +138,10 @@ export class QuantileStore {
   private skip(): void {
     const k = this.cap;
     this.w *= Math.exp(Math.log(Math.max(this.rnd(), 1e-300)) / k);
-    this.nextIn = (this.nextIn === 0 ? this.cap : this.nextIn) + Math.floor(Math.log(Math.max(this.rnd(), 1e-300)) / Math.log(1 - this.w)) + 1;
+    this.nextIn =
+      (this.nextIn === 0 ? this.cap : this.nextIn) +
+      Math.floor(Math.log(Math.max(this.rnd(), 1e-300)) / Math.log(1 - this.w)) +
+      1;
   }
   get exact(): boolean {
     return this.seen <= this.cap;

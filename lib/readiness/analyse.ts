@@ -11,7 +11,14 @@ import type { Plan, Thresholds } from "./plan";
 import { selectionBudget } from "./pooling/terms";
 import type { ColumnReport, Finding, ReadinessReport } from "./report";
 import type { EngineState } from "./state";
-import { LeastSquares, PatternMoments, analyseDesign, greenRules, littleMcar, rileyContinuous } from "./stats";
+import {
+  LeastSquares,
+  PatternMoments,
+  analyseDesign,
+  greenRules,
+  littleMcar,
+  rileyContinuous,
+} from "./stats";
 
 export type Summary = NonNullable<ColumnReport["summary"]>;
 
@@ -34,14 +41,23 @@ export function designOf(plan: Plan, levels: Record<string, string[]>, full = fa
     if (p.kind !== "category") continue;
     for (const l of levels[p.name] ?? []) if (!p.levels.includes(l)) p.levels.push(l);
     // an open list without a planned baseline: the first level seen is the baseline
-    if (p.col.baseline === undefined && (p.col.levels ?? []).length === 0) p.levels = [...(levels[p.name] ?? [])];
+    if (p.col.baseline === undefined && (p.col.levels ?? []).length === 0)
+      p.levels = [...(levels[p.name] ?? [])];
   }
   return buildDesign(plan, preds, full);
 }
 
 function summaryFromSample(m: Moments, values: number[]): Summary {
   const s = Float64Array.from(values).sort();
-  return { min: m.min, q1: quantile(s, 0.25), median: quantile(s, 0.5), q3: quantile(s, 0.75), max: m.max, mean: m.mean, sd: m.sd };
+  return {
+    min: m.min,
+    q1: quantile(s, 0.25),
+    median: quantile(s, 0.5),
+    q3: quantile(s, 0.75),
+    max: m.max,
+    mean: m.mean,
+    sd: m.sd,
+  };
 }
 
 export function analyse(
@@ -64,7 +80,9 @@ export function analyse(
       role: pc?.role ?? null,
       missing: { count: c.missing, fraction: c.total > 0 ? c.missing / c.total : 0 },
     };
-    const showLevels = pc ? pc.type === "category" : c.inferredType === "category" || c.inferredType === "boolean";
+    const showLevels = pc
+      ? pc.type === "category"
+      : c.inferredType === "category" || c.inferredType === "boolean";
     if (c.levels && showLevels) {
       r.levels = [...c.levels]
         .filter((l) => l[1] > 0)
@@ -72,7 +90,9 @@ export function analyse(
         .slice(0, 100)
         .map(([level, count]) => ({ level, count }));
     }
-    const numeric = pc ? pc.type === "number" || pc.type === "integer" : c.inferredType === "number" || c.inferredType === "integer";
+    const numeric = pc
+      ? pc.type === "number" || pc.type === "integer"
+      : c.inferredType === "number" || c.inferredType === "integer";
     if (numeric && c.moments && c.moments.n > 0) {
       const live = opts.summaries?.get(c.name);
       if (live) {
@@ -89,9 +109,12 @@ export function analyse(
   // model
   const design = designOf(plan, state.design.levels);
   const present = new Set(state.header);
-  const ready = plan.columns.filter((c) => c.role === "response" || c.role === "predictor").every((c) => present.has(c.name));
+  const ready = plan.columns
+    .filter((c) => c.role === "response" || c.role === "predictor")
+    .every((c) => present.has(c.name));
   let ls = LeastSquares.fromJSON(state.ls);
-  if (state.design.columns.join("\u0000") !== design.columns.join("\u0000")) ls = ls.expandColumns(state.design.columns, design.columns);
+  if (state.design.columns.join("\u0000") !== design.columns.join("\u0000"))
+    ls = ls.expandColumns(state.design.columns, design.columns);
   const n = ls.n;
   let fit: ReadinessReport["fit"] = null;
   let collinearity: ReadinessReport["collinearity"] = null;
@@ -108,7 +131,8 @@ export function analyse(
   const residualDf = n - p - (plan.intercept ? 1 : 0);
   const sampleSize: ReadinessReport["sampleSize"] = {};
   if (p > 0) sampleSize.green = greenRules(p);
-  if (p > 0 && plan.anticipatedR2 !== undefined) sampleSize.riley = rileyContinuous(p, plan.anticipatedR2, plan.outcome);
+  if (p > 0 && plan.anticipatedR2 !== undefined)
+    sampleSize.riley = rileyContinuous(p, plan.anticipatedR2, plan.outcome);
   if (plan.selection) sampleSize.selection = selectionBudget(plan, design.terms);
 
   // missingness

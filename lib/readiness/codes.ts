@@ -40,14 +40,26 @@ export const FINDING_CODES = {
     severities: ["blocker"],
     meaning: "a planned response, predictor or key column is not in the file",
   },
-  "plan.column-unexpected": { group: "structure", severities: ["note"], meaning: "columns the plan does not know" },
+  "plan.column-unexpected": {
+    group: "structure",
+    severities: ["note"],
+    meaning: "columns the plan does not know",
+  },
   "row.ragged": {
     group: "structure",
     severities: ["blocker"],
     meaning: "rows with more or fewer fields than the header",
   },
-  "row.duplicate": { group: "structure", severities: ["warning"], meaning: "rows that repeat an earlier row exactly" },
-  "key.duplicate": { group: "structure", severities: ["blocker"], meaning: "a value of a key column used twice" },
+  "row.duplicate": {
+    group: "structure",
+    severities: ["warning"],
+    meaning: "rows that repeat an earlier row exactly",
+  },
+  "key.duplicate": {
+    group: "structure",
+    severities: ["blocker"],
+    meaning: "a value of a key column used twice",
+  },
   // types and values
   "type.mismatch": {
     group: "types and values",
@@ -75,7 +87,11 @@ export const FINDING_CODES = {
     meaning: "dates whose day/month order nothing settles",
   },
   // categories
-  "level.unknown": { group: "categories", severities: ["blocker"], meaning: "levels outside a closed level list" },
+  "level.unknown": {
+    group: "categories",
+    severities: ["blocker"],
+    meaning: "levels outside a closed level list",
+  },
   "level.variant": {
     group: "categories",
     severities: ["warning"],
@@ -174,7 +190,11 @@ export const FINDING_CODES = {
     meaning: "the smallest R² the overall F test detects at this n",
   },
   // pool and drift
-  "pool.empty": { group: "pool and drift", severities: ["note"], meaning: "the pool has no accepted batch yet" },
+  "pool.empty": {
+    group: "pool and drift",
+    severities: ["note"],
+    meaning: "the pool has no accepted batch yet",
+  },
   "drift.new-level": {
     group: "pool and drift",
     severities: ["warning", "note"],

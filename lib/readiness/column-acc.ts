@@ -5,7 +5,18 @@
  */
 import { Moments, QuantileStore, RowSample } from "./accumulators";
 import type { PlanColumn } from "./plan";
-import { FieldStatus, KNOWN_BYTES_CAP, LEVEL_CAP, OFFENDER_CAP, OFFENDER_CHARS, addExtreme, inferValue, type Extreme, type InferCounts, type LevelAcc } from "./column-types";
+import {
+  FieldStatus,
+  KNOWN_BYTES_CAP,
+  LEVEL_CAP,
+  OFFENDER_CAP,
+  OFFENDER_CHARS,
+  addExtreme,
+  inferValue,
+  type Extreme,
+  type InferCounts,
+  type LevelAcc,
+} from "./column-types";
 import { readNumber } from "./values";
 
 const encoder = new TextEncoder();
@@ -85,7 +96,10 @@ export class ColumnAccumulators {
   protected offend(value: string, line: number): void {
     this.mismatch.add(line);
     // a long value is kept by its start and length (the report quotes it)
-    const s = value.length > OFFENDER_CHARS ? `${value.slice(0, 60)}… (${value.length.toLocaleString("en")} characters)` : value;
+    const s =
+      value.length > OFFENDER_CHARS
+        ? `${value.slice(0, 60)}… (${value.length.toLocaleString("en")} characters)`
+        : value;
     const c = this.offenders.get(s);
     if (c !== undefined) this.offenders.set(s, c + 1);
     else if (this.offenders.size < OFFENDER_CAP) this.offenders.set(s, 1);
@@ -104,8 +118,7 @@ export class ColumnAccumulators {
         if (m.size <= KNOWN_BYTES_CAP) this.levelBytes.push({ bytes: encoder.encode(s), text: s, acc });
         else this.levelBytes = [];
       }
-    }
-    else this.levelOverflow++;
+    } else this.levelOverflow++;
     this.lastLevel = acc;
   }
 
@@ -134,5 +147,4 @@ export class ColumnAccumulators {
     this.quant?.add(v);
     addExtreme(this.lo, this.hi, v, line, this.sampleCap);
   }
-
 }

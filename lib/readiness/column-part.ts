@@ -22,10 +22,17 @@ export function columnPart(c: ColumnScan): ColumnPart {
     commaExamples: c.commaExamples,
     range: rs(c.range),
     rangeExamples: c.rangeExamples,
-    sentinels: [...c.sentinels.entries()].map(([v, r]) => [v, rs(r)] as [number, { count: number; rows: number[] }]),
+    sentinels: [...c.sentinels.entries()].map(
+      ([v, r]) => [v, rs(r)] as [number, { count: number; rows: number[] }],
+    ),
     lo: c.lo,
     hi: c.hi,
-    date: { a13: c.date.a13, b13: c.date.b13, pairs: c.date.pairs, ambiguous: c.date.ambiguous ? rs(c.date.ambiguous) : null },
+    date: {
+      a13: c.date.a13,
+      b13: c.date.b13,
+      pairs: c.date.pairs,
+      ambiguous: c.date.ambiguous ? rs(c.date.ambiguous) : null,
+    },
   };
 }
 
@@ -41,7 +48,8 @@ export function absorbColumn(c: ColumnScan, p: ColumnPart): void {
         mine.count += a.count;
         mine.complete += a.complete;
         for (const r of a.rows) if (mine.rows.length < c.sampleCap) mine.rows.push(r);
-      } else if (c.levels.size < LEVEL_CAP) c.levels.set(l, { count: a.count, complete: a.complete, rows: a.rows.slice(0, c.sampleCap) });
+      } else if (c.levels.size < LEVEL_CAP)
+        c.levels.set(l, { count: a.count, complete: a.complete, rows: a.rows.slice(0, c.sampleCap) });
       else c.levelOverflow += a.count;
     }
   }
@@ -55,9 +63,11 @@ export function absorbColumn(c: ColumnScan, p: ColumnPart): void {
     else if (c.offenders.size < OFFENDER_CAP) c.offenders.set(v, n);
   }
   c.comma.absorb(p.comma);
-  for (const e of p.commaExamples) if (c.commaExamples.length < 5 && !c.commaExamples.includes(e)) c.commaExamples.push(e);
+  for (const e of p.commaExamples)
+    if (c.commaExamples.length < 5 && !c.commaExamples.includes(e)) c.commaExamples.push(e);
   c.range.absorb(p.range);
-  for (const e of p.rangeExamples) if (c.rangeExamples.length < 5 && !c.rangeExamples.includes(e)) c.rangeExamples.push(e);
+  for (const e of p.rangeExamples)
+    if (c.rangeExamples.length < 5 && !c.rangeExamples.includes(e)) c.rangeExamples.push(e);
   for (const [v, r] of p.sentinels) {
     let mine = c.sentinels.get(v);
     if (!mine) c.sentinels.set(v, (mine = new RowSample(c.sampleCap)));
@@ -71,7 +81,6 @@ export function absorbColumn(c: ColumnScan, p: ColumnPart): void {
   if (c.date.ambiguous && p.date.ambiguous) c.date.ambiguous.absorb(p.date.ambiguous);
 }
 
-
 type Extreme = { v: number; count: number; rows: number[]; next: number };
 
 /** Merge the smallest (dir 1) or largest (dir −1) value trackers of two parts. */
@@ -80,7 +89,13 @@ function mergeExtreme(a: Extreme, b: Extreme, dir: 1 | -1, cap: number): Extreme
   const pick = (...xs: number[]) => xs.reduce((m, x) => (better(x, m) ? x : m));
   if (a.count === 0) return { ...b, rows: [...b.rows] };
   if (b.count === 0) return a;
-  if (a.v === b.v) return { v: a.v, count: a.count + b.count, rows: [...a.rows, ...b.rows].slice(0, cap), next: pick(a.next, b.next) };
+  if (a.v === b.v)
+    return {
+      v: a.v,
+      count: a.count + b.count,
+      rows: [...a.rows, ...b.rows].slice(0, cap),
+      next: pick(a.next, b.next),
+    };
   if (better(a.v, b.v)) return { ...a, next: pick(a.next, b.v) };
   return { ...b, rows: [...b.rows], next: pick(b.next, a.v) };
 }
@@ -104,4 +119,3 @@ export interface ColumnPart {
   hi: Extreme;
   date: { a13: number; b13: number; pairs: number; ambiguous: { count: number; rows: number[] } | null };
 }
-

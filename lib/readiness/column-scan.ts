@@ -7,7 +7,15 @@ import { FieldStatus, INFER_LIMIT, inferredTypeOf } from "./column-types";
 import type { BlockText } from "./fields";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
-export { FieldStatus, INFER_LIMIT, LEVEL_CAP, OFFENDER_CAP, OFFENDER_CHARS, type InferCounts, type LevelAcc } from "./column-types";
+export {
+  FieldStatus,
+  INFER_LIMIT,
+  LEVEL_CAP,
+  OFFENDER_CAP,
+  OFFENDER_CHARS,
+  type InferCounts,
+  type LevelAcc,
+} from "./column-types";
 
 export class ColumnScan extends ColumnAccumulators {
   /**
@@ -55,7 +63,13 @@ export class ColumnScan extends ColumnAccumulators {
         }
       }
     }
-    if (kind === "category" && n > this.maxToken && this.levelBytes.length > 0 && buf[a]! > 32 && buf[b - 1]! > 32) {
+    if (
+      kind === "category" &&
+      n > this.maxToken &&
+      this.levelBytes.length > 0 &&
+      buf[a]! > 32 &&
+      buf[b - 1]! > 32
+    ) {
       // a few levels: find the bytes among the known levels' bytes without making a string
       const known = this.levelBytes;
       for (let k = 0; k < known.length; k++) {

@@ -66,7 +66,10 @@ export function inferValue(f: InferCounts, s: string): void {
 }
 
 /** The type the values look like, from the first INFER_LIMIT non-missing values and the number of distinct ones. */
-export function inferredTypeOf(f: InferCounts, distinct: number): "number" | "integer" | "category" | "date" | "boolean" | "text" | "empty" {
+export function inferredTypeOf(
+  f: InferCounts,
+  distinct: number,
+): "number" | "integer" | "category" | "date" | "boolean" | "text" | "empty" {
   if (f.seen === 0) return "empty";
   const most = (k: number) => k >= f.seen * 0.95;
   if (f.number === f.seen) return f.integer === f.seen ? "integer" : "number";

@@ -19,7 +19,11 @@ export interface CsvLimits {
   maxColumns: number;
 }
 
-export const DEFAULT_LIMITS: CsvLimits = { maxFieldChars: 1 << 20, maxRecordChars: 4 << 20, maxColumns: 2000 };
+export const DEFAULT_LIMITS: CsvLimits = {
+  maxFieldChars: 1 << 20,
+  maxRecordChars: 4 << 20,
+  maxColumns: 2000,
+};
 
 export interface CsvMeta {
   delimiter: string;
@@ -130,8 +134,17 @@ export interface ReadResult {
 }
 
 const EMPTY = () =>
-  new UnreadableError("The file is empty (0 bytes).", "Upload the exported CSV file itself; check that the export finished and the file has a header row and data.", { kind: "empty" });
-const NO_TEXT = () => new UnreadableError("The file holds no text (only blank lines or a byte-order mark).", "Upload the exported CSV file itself, with a header row and data.", { kind: "empty" });
+  new UnreadableError(
+    "The file is empty (0 bytes).",
+    "Upload the exported CSV file itself; check that the export finished and the file has a header row and data.",
+    { kind: "empty" },
+  );
+const NO_TEXT = () =>
+  new UnreadableError(
+    "The file holds no text (only blank lines or a byte-order mark).",
+    "Upload the exported CSV file itself, with a header row and data.",
+    { kind: "empty" },
+  );
 
 /**
  * Read a CSV byte stream into `sink`. Throws UnreadableError when the file cannot be read;
@@ -194,10 +207,20 @@ export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions
     if (!range) {
       skip = sniffBytes(all).bom;
       const s = sniffText(new TextDecoder().decode(all.subarray(skip, skip + SNIFF_BYTES)), last);
-      meta = { ...s, ...(opts.delimiter ? { delimiter: opts.delimiter } : {}), encoding: "utf-8", bom: skip > 0 };
+      meta = {
+        ...s,
+        ...(opts.delimiter ? { delimiter: opts.delimiter } : {}),
+        encoding: "utf-8",
+        bom: skip > 0,
+      };
     }
     const tokLimits = { maxFieldBytes: limits.maxFieldChars, maxRecordBytes: limits.maxRecordChars };
-    tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, { offset: bytes + skip, firstLine: range?.firstLine ?? 1, endOffset: range?.endOffset, raw: opts.raw });
+    tok = new Tokenizer(meta!.delimiter.charCodeAt(0), tokLimits, {
+      offset: bytes + skip,
+      firstLine: range?.firstLine ?? 1,
+      endOffset: range?.endOffset,
+      raw: opts.raw,
+    });
     return skip;
   };
 
@@ -240,5 +263,12 @@ export async function readCsv(input: ByteInput, sink: CsvSink, opts: ReadOptions
   const done = tok as unknown as Tokenizer;
   if (!headerSeen) throw NO_TEXT();
   if (opts.onProgress) opts.onProgress({ rows: records, bytes });
-  return { bytes, records, meta, blankLines: done.blankLines, stoppedAt: done.stoppedAt, lineAfter: done.currentLine };
+  return {
+    bytes,
+    records,
+    meta,
+    blankLines: done.blankLines,
+    stoppedAt: done.stoppedAt,
+    lineAfter: done.currentLine,
+  };
 }

@@ -15,7 +15,8 @@ export class UnreadableError extends Error {
   }
 }
 
-const EXPORT_FIX = "Open the file in your spreadsheet program and use File → Save As → CSV UTF-8 (comma delimited), then upload that file.";
+const EXPORT_FIX =
+  "Open the file in your spreadsheet program and use File → Save As → CSV UTF-8 (comma delimited), then upload that file.";
 
 function startsWith(b: Uint8Array, sig: number[]): boolean {
   if (b.length < sig.length) return false;
@@ -28,19 +29,37 @@ function startsWith(b: Uint8Array, sig: number[]): boolean {
  */
 export function sniffBytes(first: Uint8Array): { bom: number } {
   if (startsWith(first, [0x50, 0x4b, 0x03, 0x04]) || startsWith(first, [0x50, 0x4b, 0x05, 0x06])) {
-    throw new UnreadableError("This is an Excel workbook (or another zip archive), not a CSV file.", EXPORT_FIX, { kind: "zip" });
+    throw new UnreadableError(
+      "This is an Excel workbook (or another zip archive), not a CSV file.",
+      EXPORT_FIX,
+      { kind: "zip" },
+    );
   }
   if (startsWith(first, [0xd0, 0xcf, 0x11, 0xe0, 0xa1, 0xb1, 0x1a, 0xe1])) {
-    throw new UnreadableError("This is an old-style Excel workbook (.xls), not a CSV file.", EXPORT_FIX, { kind: "ole2" });
+    throw new UnreadableError("This is an old-style Excel workbook (.xls), not a CSV file.", EXPORT_FIX, {
+      kind: "ole2",
+    });
   }
   if (startsWith(first, [0x1f, 0x8b])) {
-    throw new UnreadableError("This is a compressed (gzip) file, not a CSV file.", "Unpack the file and upload the CSV inside it.", { kind: "gzip" });
+    throw new UnreadableError(
+      "This is a compressed (gzip) file, not a CSV file.",
+      "Unpack the file and upload the CSV inside it.",
+      { kind: "gzip" },
+    );
   }
   if (startsWith(first, [0x25, 0x50, 0x44, 0x46])) {
-    throw new UnreadableError("This is a PDF document, not a CSV file.", "Export the data from its source program as CSV (UTF-8) and upload that.", { kind: "pdf" });
+    throw new UnreadableError(
+      "This is a PDF document, not a CSV file.",
+      "Export the data from its source program as CSV (UTF-8) and upload that.",
+      { kind: "pdf" },
+    );
   }
   if (startsWith(first, [0xff, 0xfe]) || startsWith(first, [0xfe, 0xff])) {
-    throw new UnreadableError("The file is UTF-16 text; the engine reads UTF-8.", "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8).", { kind: "utf-16", bom: true });
+    throw new UnreadableError(
+      "The file is UTF-16 text; the engine reads UTF-8.",
+      "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8).",
+      { kind: "utf-16", bom: true },
+    );
   }
   const n = Math.min(first.length, 4096);
   let evenNul = 0;
@@ -52,8 +71,16 @@ export function sniffBytes(first: Uint8Array): { bom: number } {
     }
   }
   // UTF-16 without BOM: ASCII text leaves every other byte zero.
-  if (n >= 4 && (evenNul > n / 4 || oddNul > n / 4) && Math.min(evenNul, oddNul) < Math.max(evenNul, oddNul) / 8) {
-    throw new UnreadableError("The file looks like UTF-16 text (every other byte is zero); the engine reads UTF-8.", "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8).", { kind: "utf-16", bom: false });
+  if (
+    n >= 4 &&
+    (evenNul > n / 4 || oddNul > n / 4) &&
+    Math.min(evenNul, oddNul) < Math.max(evenNul, oddNul) / 8
+  ) {
+    throw new UnreadableError(
+      "The file looks like UTF-16 text (every other byte is zero); the engine reads UTF-8.",
+      "Save the file again choosing the encoding “UTF-8” (in Excel: Save As → CSV UTF-8).",
+      { kind: "utf-16", bom: false },
+    );
   }
   return { bom: startsWith(first, [0xef, 0xbb, 0xbf]) ? 3 : 0 };
 }
@@ -62,7 +89,11 @@ export function sniffBytes(first: Uint8Array): { bom: number } {
 export function checkBinary(chunk: Uint8Array, offset: number): void {
   const nul = chunk.indexOf(0);
   if (nul >= 0) {
-    throw new UnreadableError(`The file holds binary content at byte ${offset + nul} (a NUL byte); it is not a text CSV file.`, EXPORT_FIX, { kind: "binary", byte: offset + nul });
+    throw new UnreadableError(
+      `The file holds binary content at byte ${offset + nul} (a NUL byte); it is not a text CSV file.`,
+      EXPORT_FIX,
+      { kind: "binary", byte: offset + nul },
+    );
   }
 }
 
@@ -72,7 +103,12 @@ export function checkBinary(chunk: Uint8Array, offset: number): void {
  * above U+10FFFF (`F4 90 80 80`); −1 when all is valid. A sequence cut off by the end of `b`
  * counts as invalid only when `complete`; otherwise `incompleteAt` receives where it starts.
  */
-export function firstInvalidUtf8(b: Uint8Array, from = 0, complete = true, incompleteAt?: { at: number }): number {
+export function firstInvalidUtf8(
+  b: Uint8Array,
+  from = 0,
+  complete = true,
+  incompleteAt?: { at: number },
+): number {
   let i = from;
   const n = b.length;
   while (i < n) {

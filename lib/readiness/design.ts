@@ -35,13 +35,26 @@ export function predictorsOf(plan: Plan, extraLevels: Record<string, string[]> =
   return plan.columns
     .filter((c) => c.role === "predictor")
     .map((c) => {
-      if (c.type !== "category") return { name: c.name, col: c, kind: c.type === "boolean" ? "boolean" : "numeric", levels: [], open: false } as Predictor;
+      if (c.type !== "category")
+        return {
+          name: c.name,
+          col: c,
+          kind: c.type === "boolean" ? "boolean" : "numeric",
+          levels: [],
+          open: false,
+        } as Predictor;
       const listed = c.levels ?? [];
       const all = [...listed];
       for (const l of extraLevels[c.name] ?? []) if (!all.includes(l)) all.push(l);
       const base = c.baseline ?? all[0];
       const levels = base === undefined ? all : [base, ...all.filter((l) => l !== base)];
-      return { name: c.name, col: c, kind: "category", levels, open: c.openLevels === true || listed.length === 0 } as Predictor;
+      return {
+        name: c.name,
+        col: c,
+        kind: "category",
+        levels,
+        open: c.openLevels === true || listed.length === 0,
+      } as Predictor;
     });
 }
 
@@ -130,7 +143,8 @@ export class RowEncoder {
       const nb = it.nb;
       const oa = this.offsets[it.a]!;
       const ob = this.offsets[it.b]!;
-      for (let i = 0; i < wa; i++) for (let j = 0; j < nb; j++) x[it.offset + i * nb + j] = x[oa + i]! * x[ob + j]!;
+      for (let i = 0; i < wa; i++)
+        for (let j = 0; j < nb; j++) x[it.offset + i * nb + j] = x[oa + i]! * x[ob + j]!;
     }
     return x;
   }

@@ -25,12 +25,19 @@ const KEY_NAMES = /(^id$|_id$|^id_|^key$|^plot$|^plot_?id|^sample_?id|^record)/i
  * single column named like `yield`/`response`/`y`).
  */
 export async function draftPlan(input: ByteInput, opts: { response?: string } = {}): Promise<DraftResult> {
-  const base: Plan = { columns: [], intercept: true, interactions: [], missingTokens: ["", "NA"], thresholds: {} };
+  const base: Plan = {
+    columns: [],
+    intercept: true,
+    interactions: [],
+    missingTokens: ["", "NA"],
+    thresholds: {},
+  };
   const scan = new Scan(base);
   try {
     await readCsv(input, scan);
   } catch (e) {
-    if (e instanceof UnreadableError) return { ok: false, plan: null, notes: [], error: { message: e.message, fix: e.fix } };
+    if (e instanceof UnreadableError)
+      return { ok: false, plan: null, notes: [], error: { message: e.message, fix: e.fix } };
     throw e;
   }
   const notes: string[] = [];
@@ -39,14 +46,21 @@ export async function draftPlan(input: ByteInput, opts: { response?: string } = 
   const numericNames: string[] = [];
   for (const c of scan.cols) {
     if (c.name === "" || seen.has(c.name)) {
-      notes.push(c.name === "" ? "A column without a name was left out; give it a name in the file." : `The repeated column name “${c.name}” was drafted once.`);
+      notes.push(
+        c.name === ""
+          ? "A column without a name was left out; give it a name in the file."
+          : `The repeated column name “${c.name}” was drafted once.`,
+      );
       continue;
     }
     seen.add(c.name);
     const inferred = c.inferredType();
     const nonMissing = c.total - c.missing.count;
-    const levels = c.levels ? [...c.levels.entries()].sort((a, b) => b[1].count - a[1].count).map(([l]) => l) : [];
-    const looksKey = KEY_NAMES.test(c.name) && c.levelOverflow === 0 && levels.length === nonMissing && nonMissing > 0;
+    const levels = c.levels
+      ? [...c.levels.entries()].sort((a, b) => b[1].count - a[1].count).map(([l]) => l)
+      : [];
+    const looksKey =
+      KEY_NAMES.test(c.name) && c.levelOverflow === 0 && levels.length === nonMissing && nonMissing > 0;
     if (looksKey) {
       columns.push({ name: c.name, role: "key", type: inferred === "integer" ? "integer" : "text" });
       continue;
@@ -55,9 +69,15 @@ export async function draftPlan(input: ByteInput, opts: { response?: string } = 
       case "number":
       case "integer": {
         const m = c.moments;
-        columns.push({ name: c.name, role: "predictor", type: inferred, ...(m.n > 0 ? { min: m.min, max: m.max } : {}) });
+        columns.push({
+          name: c.name,
+          role: "predictor",
+          type: inferred,
+          ...(m.n > 0 ? { min: m.min, max: m.max } : {}),
+        });
         numericNames.push(c.name);
-        if (c.infer.comma > 0) notes.push(`“${c.name}” has numbers with decimal commas; export the file with decimal points.`);
+        if (c.infer.comma > 0)
+          notes.push(`“${c.name}” has numbers with decimal commas; export the file with decimal points.`);
         break;
       }
       case "boolean":
@@ -92,8 +112,16 @@ export async function draftPlan(input: ByteInput, opts: { response?: string } = 
     rc.role = "response";
     notes.push(`“${rc.name}” was taken as the response; check that this is the outcome to model.`);
   } else {
-    notes.push(`Choose the response: mark one numeric column (${numericNames.join(", ") || "none found"}) with role "response".`);
+    notes.push(
+      `Choose the response: mark one numeric column (${numericNames.join(", ") || "none found"}) with role "response".`,
+    );
   }
-  notes.push("Levels are listed by frequency, the most frequent as baseline; ranges are the sample's minimum and maximum: widen them to what is plausible.");
-  return { ok: rc !== undefined, plan: { columns, intercept: true, interactions: [], missingTokens: ["", "NA"] }, notes };
+  notes.push(
+    "Levels are listed by frequency, the most frequent as baseline; ranges are the sample's minimum and maximum: widen them to what is plausible.",
+  );
+  return {
+    ok: rc !== undefined,
+    plan: { columns, intercept: true, interactions: [], missingTokens: ["", "NA"] },
+    notes,
+  };
 }

@@ -71,15 +71,30 @@ interface Decisions {
 }
 
 function decisionsOf(report: ReadinessReport): Decisions {
-  const d: Decisions = { suspected: new Map(), ambiguousDates: new Set(), unknown: new Map(), variants: new Map(), header: [] };
+  const d: Decisions = {
+    suspected: new Map(),
+    ambiguousDates: new Set(),
+    unknown: new Map(),
+    variants: new Map(),
+    header: [],
+  };
   for (const f of report.findings as Finding[]) {
     const col = f.columns[0];
     const detail = (f.detail ?? {}) as Record<string, unknown>;
-    if (f.code === "number.sentinel" && col && detail.declared === false) d.suspected.set(col, detail.value as number);
+    if (f.code === "number.sentinel" && col && detail.declared === false)
+      d.suspected.set(col, detail.value as number);
     else if (f.code === "date.ambiguous" && col) d.ambiguousDates.add(col);
-    else if (f.code === "level.unknown" && col) d.unknown.set(col, new Set((detail.levels as { level: string }[]).map((l) => l.level)));
-    else if (f.code === "level.variant" && col) d.variants.set(col, new Map((detail.merges as { from: string; to: string }[]).map((m) => [m.from, m.to])));
-    else if ((f.code === "header.duplicate" || f.code === "header.blank" || f.code === "plan.column-missing") && f.rows.includes(1)) {
+    else if (f.code === "level.unknown" && col)
+      d.unknown.set(col, new Set((detail.levels as { level: string }[]).map((l) => l.level)));
+    else if (f.code === "level.variant" && col)
+      d.variants.set(
+        col,
+        new Map((detail.merges as { from: string; to: string }[]).map((m) => [m.from, m.to])),
+      );
+    else if (
+      (f.code === "header.duplicate" || f.code === "header.blank" || f.code === "plan.column-missing") &&
+      f.rows.includes(1)
+    ) {
       d.header.push({ code: f.code, column: col ?? null, message: f.message });
     }
   }
@@ -136,12 +151,26 @@ class FaultScan extends Scan {
       super.onRecords([f], [line]);
       const faults: Fault[] = [];
       if (this.ragged.count > ragged) {
-        faults.push({ code: "row.ragged", column: null, message: `This row has ${f.length} fields; the header has ${this.header.length}. A value may hold an unquoted delimiter, or cells are missing or extra.` });
+        faults.push({
+          code: "row.ragged",
+          column: null,
+          message: `This row has ${f.length} fields; the header has ${this.header.length}. A value may hold an unquoted delimiter, or cells are missing or extra.`,
+        });
       } else {
-        if (this.duplicateRows.count > dups) faults.push({ code: "row.duplicate", column: null, message: `This row repeats row ${this.lastRepeatOf} exactly.` });
+        if (this.duplicateRows.count > dups)
+          faults.push({
+            code: "row.duplicate",
+            column: null,
+            message: `This row repeats row ${this.lastRepeatOf} exactly.`,
+          });
         let q = 0;
         for (const [k, key] of this.keys) {
-          if (key.dup.count > keyDups[q++]!) faults.push({ code: "key.duplicate", column: cols[k]!.name, message: `The key ${quote(f[k]!)} is already used on row ${key.lastRepeatOf}.` });
+          if (key.dup.count > keyDups[q++]!)
+            faults.push({
+              code: "key.duplicate",
+              column: cols[k]!.name,
+              message: `The key ${quote(f[k]!)} is already used on row ${key.lastRepeatOf}.`,
+            });
         }
         for (let j = 0; j < cols.length; j++) this.columnFaults(cols[j]!, f[j]!, j, faults);
       }
@@ -154,29 +183,77 @@ class FaultScan extends Scan {
     if (!pc || c.kind === "ignore") return;
     const b = this.before;
     const name = c.name;
-    if (c.mismatch.count > b[6 * j + 1]!) faults.push({ code: "type.mismatch", column: name, message: `${quote(v)} is not ${article(pc.type)}.` });
-    if (c.comma.count > b[6 * j + 2]!) faults.push({ code: "number.decimal-comma", column: name, message: `${quote(v)} is written with a decimal comma; write it with a point.` });
-    if (sentinelCount(c) > b[6 * j + 4]!) faults.push({ code: "number.sentinel", column: name, message: `${quote(v)} is the plan's missing-value code; leave the cell empty instead.` });
+    if (c.mismatch.count > b[6 * j + 1]!)
+      faults.push({
+        code: "type.mismatch",
+        column: name,
+        message: `${quote(v)} is not ${article(pc.type)}.`,
+      });
+    if (c.comma.count > b[6 * j + 2]!)
+      faults.push({
+        code: "number.decimal-comma",
+        column: name,
+        message: `${quote(v)} is written with a decimal comma; write it with a point.`,
+      });
+    if (sentinelCount(c) > b[6 * j + 4]!)
+      faults.push({
+        code: "number.sentinel",
+        column: name,
+        message: `${quote(v)} is the plan's missing-value code; leave the cell empty instead.`,
+      });
     else if (c.status === FieldStatus.Usable && this.d.suspected.get(name) === c.value) {
-      faults.push({ code: "number.sentinel", column: name, message: `${quote(v)} lies far outside the column's other values: probably a code for “missing”; leave the cell empty if it was not measured.` });
+      faults.push({
+        code: "number.sentinel",
+        column: name,
+        message: `${quote(v)} lies far outside the column's other values: probably a code for “missing”; leave the cell empty if it was not measured.`,
+      });
     }
     if (c.range.count > b[6 * j + 3]!) {
-      const bounds = [pc.min !== undefined ? `min ${pc.min}` : null, pc.max !== undefined ? `max ${pc.max}` : null].filter(Boolean).join(", ");
-      faults.push({ code: "value.out-of-range", column: name, message: `${quote(v)} is outside the plan's range (${bounds}).` });
+      const bounds = [
+        pc.min !== undefined ? `min ${pc.min}` : null,
+        pc.max !== undefined ? `max ${pc.max}` : null,
+      ]
+        .filter(Boolean)
+        .join(", ");
+      faults.push({
+        code: "value.out-of-range",
+        column: name,
+        message: `${quote(v)} is outside the plan's range (${bounds}).`,
+      });
     }
     if ((c.date.ambiguous?.count ?? 0) > b[6 * j + 5]! && this.d.ambiguousDates.has(name)) {
-      faults.push({ code: "date.ambiguous", column: name, message: `${quote(v)} could be day/month or month/day; write it as YYYY-MM-DD.` });
+      faults.push({
+        code: "date.ambiguous",
+        column: name,
+        message: `${quote(v)} could be day/month or month/day; write it as YYYY-MM-DD.`,
+      });
     }
     if (c.status === FieldStatus.Usable && c.kind === "category") {
       const to = this.d.variants.get(name)?.get(v);
-      if (to !== undefined) faults.push({ code: "level.variant", column: name, message: `${quote(v)} is a spelling variant: write ${quote(to)}.` });
-      if (this.d.unknown.get(name)?.has(v)) faults.push({ code: "level.unknown", column: name, message: `${quote(v)} is not a level of the plan${pc.levels?.length ? ` (${pc.levels.join(", ")})` : ""}.` });
+      if (to !== undefined)
+        faults.push({
+          code: "level.variant",
+          column: name,
+          message: `${quote(v)} is a spelling variant: write ${quote(to)}.`,
+        });
+      if (this.d.unknown.get(name)?.has(v))
+        faults.push({
+          code: "level.unknown",
+          column: name,
+          message: `${quote(v)} is not a level of the plan${pc.levels?.length ? ` (${pc.levels.join(", ")})` : ""}.`,
+        });
     }
-    if (c.missing.count > b[6 * j]! && (pc.role === "response" || pc.role === "predictor" || pc.role === "key")) {
+    if (
+      c.missing.count > b[6 * j]! &&
+      (pc.role === "response" || pc.role === "predictor" || pc.role === "key")
+    ) {
       faults.push({
         code: pc.role === "response" ? "missing.response" : "missing.column",
         column: name,
-        message: pc.role === "key" ? `The key ${quote(name)} is empty.` : `${quote(name)} has no value: the row cannot enter the planned model.`,
+        message:
+          pc.role === "key"
+            ? `The key ${quote(name)} is empty.`
+            : `${quote(name)} has no value: the row cannot enter the planned model.`,
       });
     }
   }
@@ -194,20 +271,39 @@ const HIGH_WATER = 2000;
  * pass). Throws UnreadableError (from ./decode) for a file checkBatch calls unreadable, and an
  * Error when the report belongs to another plan.
  */
-export async function* rowsAtFault(input: ByteInput | (() => ByteInput), plan: Plan, opts: RowsAtFaultOptions = {}): AsyncGenerator<FaultLine, void, undefined> {
+export async function* rowsAtFault(
+  input: ByteInput | (() => ByteInput),
+  plan: Plan,
+  opts: RowsAtFaultOptions = {},
+): AsyncGenerator<FaultLine, void, undefined> {
   let report = opts.report;
   if (!report) {
-    if (typeof input !== "function") throw new Error("rowsAtFault needs the file's readiness report (opts.report) or a function that opens the file again.");
+    if (typeof input !== "function")
+      throw new Error(
+        "rowsAtFault needs the file's readiness report (opts.report) or a function that opens the file again.",
+      );
     report = await checkBatch(input(), plan, { limits: opts.limits, isUtf8: opts.isUtf8 });
   } else if (report.planHash !== (await hashPlan(plan))) {
-    throw new Error("The readiness report was checked against a different data plan; check the file against this plan first.");
+    throw new Error(
+      "The readiness report was checked against a different data plan; check the file against this plan first.",
+    );
   }
   const source = typeof input === "function" ? input() : input;
   const decisions = decisionsOf(report);
   const scan = new FaultScan(plan, decisions);
-  const header = (): FaultLine => ({ kind: "header", line: 1, fields: scan.header, faults: decisions.header });
+  const header = (): FaultLine => ({
+    kind: "header",
+    line: 1,
+    fields: scan.header,
+    faults: decisions.header,
+  });
   let headerSent = false;
-  for await (const item of pulled(source, scan, (bytes) => readCsv(bytes, scan, { limits: opts.limits, isUtf8: opts.isUtf8 }), HIGH_WATER)) {
+  for await (const item of pulled(
+    source,
+    scan,
+    (bytes) => readCsv(bytes, scan, { limits: opts.limits, isUtf8: opts.isUtf8 }),
+    HIGH_WATER,
+  )) {
     if (!headerSent) {
       headerSent = true;
       yield header();

@@ -17,7 +17,13 @@ export interface Evidence {
   levelRows: Map<string, Map<string, number[]>>;
 }
 
-export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, ev: Evidence | null, mcar: { statistic: number; df: number; pValue: number } | null): Finding[] {
+export function missingFindings(
+  state: EngineState,
+  plan: Plan,
+  t: Thresholds,
+  ev: Evidence | null,
+  mcar: { statistic: number; df: number; pValue: number } | null,
+): Finding[] {
   const out: Finding[] = [];
   const byName = new Map(state.columns.map((c) => [c.name, c]));
   for (const pc of plan.columns) {
@@ -27,7 +33,17 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
     const frac = c.missing / c.total;
     // the thresholds guard the planned model and the keys; a carried column's gaps cost the model nothing
     const graded = pc.role === "response" || pc.role === "predictor" || pc.role === "key";
-    const severity = !graded ? (frac > t.missingNote ? "note" : null) : frac >= t.missingBlocker ? "blocker" : frac >= t.missingWarning ? "warning" : frac > t.missingNote ? "note" : null;
+    const severity = !graded
+      ? frac > t.missingNote
+        ? "note"
+        : null
+      : frac >= t.missingBlocker
+        ? "blocker"
+        : frac >= t.missingWarning
+          ? "warning"
+          : frac > t.missingNote
+            ? "note"
+            : null;
     if (!severity) continue;
     out.push(
       finding(
@@ -38,8 +54,8 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
         !graded
           ? `Nothing to do if ${quote(pc.name)} is often left blank on purpose; fill it in where the value is known.`
           : severity === "note"
-          ? `Fill in the missing values of ${quote(pc.name)} where they are known; leave the cell empty only where the value was not recorded.`
-          : `Recover the missing values of ${quote(pc.name)} from the field records before sending the batch; at ${pct(frac)} missing the rows are lost to the model.`,
+            ? `Fill in the missing values of ${quote(pc.name)} where they are known; leave the cell empty only where the value was not recorded.`
+            : `Recover the missing values of ${quote(pc.name)} from the field records before sending the batch; at ${pct(frac)} missing the rows are lost to the model.`,
         { rows: ev?.missingRows.get(pc.name) ?? [], rowCount: c.missing, detail: { fraction: frac } },
       ),
     );
@@ -47,16 +63,25 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
   const resp = plan.columns.find((c) => c.role === "response");
   if (resp && state.responseMissing > 0) {
     out.push(
-      finding("missing.response", "warning", [resp.name], `${state.responseMissing.toLocaleString("en")} rows have no value for the response ${quote(resp.name)}; they cannot enter the model.`, `Add the measured ${quote(resp.name)} to these rows, or remove rows that were never measured.`, {
-        rows: ev?.responseMissingRows ?? [],
-        rowCount: state.responseMissing,
-      }),
+      finding(
+        "missing.response",
+        "warning",
+        [resp.name],
+        `${state.responseMissing.toLocaleString("en")} rows have no value for the response ${quote(resp.name)}; they cannot enter the model.`,
+        `Add the measured ${quote(resp.name)} to these rows, or remove rows that were never measured.`,
+        {
+          rows: ev?.responseMissingRows ?? [],
+          rowCount: state.responseMissing,
+        },
+      ),
     );
   }
   const { total, complete } = state.rows;
   const cols = state.patterns.columns;
   if (total > 0 && complete < total) {
-    const costs = cols.map((name, i) => ({ column: name, rows: state.soleUnusable[i] ?? 0 })).sort((a, b) => b.rows - a.rows);
+    const costs = cols
+      .map((name, i) => ({ column: name, rows: state.soleUnusable[i] ?? 0 }))
+      .sort((a, b) => b.rows - a.rows);
     const top = costs[0];
     out.push(
       finding(
@@ -64,8 +89,12 @@ export function missingFindings(state: EngineState, plan: Plan, t: Thresholds, e
         "note",
         top && top.rows > 0 ? [top.column] : [],
         `${complete.toLocaleString("en")} of ${total.toLocaleString("en")} rows (${pct(complete / total)}) are complete for the planned model.` +
-          (top && top.rows > 0 ? ` ${quote(top.column)} costs most: ${nRows(top.rows)} ${top.rows === 1 ? "is" : "are"} incomplete only because of it.` : ""),
-        top && top.rows > 0 ? `Completing ${quote(top.column)} would recover the most rows for the model.` : "Complete the missing or unusable values of the model columns.",
+          (top && top.rows > 0
+            ? ` ${quote(top.column)} costs most: ${nRows(top.rows)} ${top.rows === 1 ? "is" : "are"} incomplete only because of it.`
+            : ""),
+        top && top.rows > 0
+          ? `Completing ${quote(top.column)} would recover the most rows for the model.`
+          : "Complete the missing or unusable values of the model columns.",
         { rowCount: total - complete, detail: { complete, total, costs } },
       ),
     );
@@ -123,7 +152,14 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
             [pc.name],
             `${quote(pc.name)} has ${unknown.length} level${unknown.length > 1 ? "s" : ""} not in the plan: ${list(unknown.map((l) => `${quote(l[0])} (${nRows(l[1])})`))}. Allowed: ${list(planned.map(quote), 20)}.`,
             `Correct these values to one of the plan's levels (${list(planned, 20)}), or ask the analyst to add the level to the data plan.`,
-            { rows: sampleOf(unknown.map((l) => rowsOf(l[0])), t.sampleRows), rowCount: count, detail: { levels: unknown.map((l) => ({ level: l[0], count: l[1] })) } },
+            {
+              rows: sampleOf(
+                unknown.map((l) => rowsOf(l[0])),
+                t.sampleRows,
+              ),
+              rowCount: count,
+              detail: { levels: unknown.map((l) => ({ level: l[0], count: l[1] })) },
+            },
           ),
         );
       }
@@ -147,11 +183,14 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
         const folded = foldLevel(from);
         let to = planned.find((l) => foldLevel(l) === folded) ?? planned.find((l) => near(from, l));
         const cf = countOf.get(from) ?? 0;
-        const commoner = (l: string) => (countOf.get(l) ?? 0) > cf || ((countOf.get(l) ?? 0) === cf && l > from);
+        const commoner = (l: string) =>
+          (countOf.get(l) ?? 0) > cf || ((countOf.get(l) ?? 0) === cf && l > from);
         // a closed list merges only onto its own levels; an open (or absent) list onto the most frequent near spelling
         if (to === undefined && !closed) {
           const ok = (l: string) => l !== from && !planned.includes(l) && commoner(l);
-          to = byCount.find((l) => ok(l) && foldLevel(l) === folded) ?? byCount.find((l) => ok(l) && near(from, l));
+          to =
+            byCount.find((l) => ok(l) && foldLevel(l) === folded) ??
+            byCount.find((l) => ok(l) && near(from, l));
         }
         if (to !== undefined) merges.push({ from, to, count: countOf.get(from) ?? 0 });
       }
@@ -164,7 +203,14 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
           [pc.name],
           `${quote(pc.name)} has spelling variants of the same level: ${list(merges.map((m) => `${quote(m.from)} → ${quote(m.to)} (${nRows(m.count)})`))}.`,
           `Merge the variants: ${merges.map((m) => `write ${quote(m.to)} instead of ${quote(m.from)}`).join("; ")}.`,
-          { rows: sampleOf(merges.map((m) => rowsOf(m.from)), t.sampleRows), rowCount: merges.reduce((s, m) => s + m.count, 0), detail: { merges } },
+          {
+            rows: sampleOf(
+              merges.map((m) => rowsOf(m.from)),
+              t.sampleRows,
+            ),
+            rowCount: merges.reduce((s, m) => s + m.count, 0),
+            detail: { merges },
+          },
         ),
       );
     }
@@ -213,7 +259,9 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
           ),
         );
       }
-      const sparse = design.filter((l, i) => (i > 0 || (complete.get(l) ?? 0) > 0) && (complete.get(l) ?? 0) < t.sparseLevel);
+      const sparse = design.filter(
+        (l, i) => (i > 0 || (complete.get(l) ?? 0) > 0) && (complete.get(l) ?? 0) < t.sparseLevel,
+      );
       if (sparse.length) {
         out.push(
           finding(
@@ -222,7 +270,13 @@ export function levelFindings(state: EngineState, plan: Plan, t: Thresholds, ev:
             [pc.name],
             `${quote(pc.name)} has level${sparse.length > 1 ? "s" : ""} with fewer than ${t.sparseLevel} complete rows: ${list(sparse.map((l) => `${quote(l)} (${complete.get(l) ?? 0})`))}; ${sparse.length > 1 ? "their coefficients are" : "its coefficient is"} poorly determined${sparse.some((l) => (complete.get(l) ?? 0) === 0) ? " (a level with no rows cannot be estimated at all)" : ""}.`,
             `Collect more rows for these levels, or ask the analyst to merge them with a related level.`,
-            { rows: sampleOf(sparse.map((l) => rowsOf(l)), t.sampleRows), detail: { levels: sparse.map((l) => ({ level: l, complete: complete.get(l) ?? 0 })) } },
+            {
+              rows: sampleOf(
+                sparse.map((l) => rowsOf(l)),
+                t.sampleRows,
+              ),
+              detail: { levels: sparse.map((l) => ({ level: l, complete: complete.get(l) ?? 0 })) },
+            },
           ),
         );
       }

@@ -8,7 +8,14 @@ import { finding, list, quote } from "./findings";
 import type { Plan, Thresholds } from "./plan";
 import type { CollinearityReport, Finding, FitReport, ReadinessReport } from "./report";
 
-export function collinearityFindings(col: CollinearityReport | null, aliased: { term: string; combination: string }[], design: Design, plan: Plan, t: Thresholds, emptyColumns: Set<string>): Finding[] {
+export function collinearityFindings(
+  col: CollinearityReport | null,
+  aliased: { term: string; combination: string }[],
+  design: Design,
+  plan: Plan,
+  t: Thresholds,
+  emptyColumns: Set<string>,
+): Finding[] {
   const out: Finding[] = [];
   const termOf = new Map(design.terms.flatMap((tm) => tm.columns.map((c) => [c, tm.term] as const)));
   for (const a of aliased) {
@@ -49,7 +56,9 @@ export function collinearityFindings(col: CollinearityReport | null, aliased: { 
       }
     }
   }
-  const caveat = interactions ? " With interactions in the plan, the figure covers each predictor with the interaction columns that contain it; term-wise VIFs mean little there." : "";
+  const caveat = interactions
+    ? " With interactions in the plan, the figure covers each predictor with the interaction columns that contain it; term-wise VIFs mean little there."
+    : "";
   for (const tm of col.terms) {
     const single = tm.df === 1 && tm.vif !== undefined;
     const value = single ? tm.vif! : tm.gvifScaled;
@@ -105,22 +114,43 @@ export function dfFindings(
   const model = "the planned model";
   if (residualDf <= 0) {
     out.push(
-      finding("df.none", "blocker", [], `${n} complete rows for ${p} parameters${plan.intercept ? " and the intercept" : ""}: residual df = ${residualDf}, ${model} cannot be fitted.`, `Send at least ${p + (plan.intercept ? 1 : 0) + t.dfFloor} complete rows (more for a useful fit), or complete the missing values.`, {
-        detail: { n, p, residualDf },
-      }),
+      finding(
+        "df.none",
+        "blocker",
+        [],
+        `${n} complete rows for ${p} parameters${plan.intercept ? " and the intercept" : ""}: residual df = ${residualDf}, ${model} cannot be fitted.`,
+        `Send at least ${p + (plan.intercept ? 1 : 0) + t.dfFloor} complete rows (more for a useful fit), or complete the missing values.`,
+        {
+          detail: { n, p, residualDf },
+        },
+      ),
     );
   } else if (residualDf < t.dfFloor) {
     out.push(
-      finding("df.low", "blocker", [], `Residual df = ${residualDf}, below the plan's floor of ${t.dfFloor} (${n} complete rows, ${p} parameters).`, `Add at least ${t.dfFloor - residualDf} complete rows, or complete the missing values of the model columns.`, {
-        detail: { n, p, residualDf, floor: t.dfFloor },
-      }),
+      finding(
+        "df.low",
+        "blocker",
+        [],
+        `Residual df = ${residualDf}, below the plan's floor of ${t.dfFloor} (${n} complete rows, ${p} parameters).`,
+        `Add at least ${t.dfFloor - residualDf} complete rows, or complete the missing values of the model columns.`,
+        {
+          detail: { n, p, residualDf, floor: t.dfFloor },
+        },
+      ),
     );
   }
   if (p > 0 && n / p < t.perParameter) {
     out.push(
-      finding("df.per-parameter", "warning", [], `${(n / p).toFixed(1)} complete rows per parameter, below the plan's target of ${t.perParameter}.`, `About ${Math.ceil(t.perParameter * p)} complete rows would meet the target; ${Math.max(0, Math.ceil(t.perParameter * p) - n)} more are needed.`, {
-        detail: { n, p, ratio: n / p, target: t.perParameter },
-      }),
+      finding(
+        "df.per-parameter",
+        "warning",
+        [],
+        `${(n / p).toFixed(1)} complete rows per parameter, below the plan's target of ${t.perParameter}.`,
+        `About ${Math.ceil(t.perParameter * p)} complete rows would meet the target; ${Math.max(0, Math.ceil(t.perParameter * p) - n)} more are needed.`,
+        {
+          detail: { n, p, ratio: n / p, target: t.perParameter },
+        },
+      ),
     );
   }
   const g = sampleSize?.green;
@@ -170,9 +200,16 @@ export function dfFindings(
   const pw = fit?.power;
   if (pw && pw.detectableR2 !== null) {
     out.push(
-      finding("df.power", "note", [], `With ${countOf(n, "complete row")} and ${countOf(p, "parameter")}, the overall F test detects ${detectableR2(pw.detectableR2)} with power ${formatNumber(pw.power, "estimate")} at α = ${formatNumber(pw.alpha, "estimate")}.`, "A smaller true R² would likely go unnoticed; more complete rows lower this threshold.", {
-        detail: { ...pw, n, p },
-      }),
+      finding(
+        "df.power",
+        "note",
+        [],
+        `With ${countOf(n, "complete row")} and ${countOf(p, "parameter")}, the overall F test detects ${detectableR2(pw.detectableR2)} with power ${formatNumber(pw.power, "estimate")} at α = ${formatNumber(pw.alpha, "estimate")}.`,
+        "A smaller true R² would likely go unnoticed; more complete rows lower this threshold.",
+        {
+          detail: { ...pw, n, p },
+        },
+      ),
     );
   }
   return out;

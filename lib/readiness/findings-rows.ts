@@ -10,7 +10,9 @@ import type { Scan } from "./scan";
 const fmt = (n: number) => n.toLocaleString("en");
 
 /** A suspected sentinel: one repeated extreme value far outside the rest of the column. */
-export function suspectedSentinel(c: ColumnScan): { value: number; count: number; rows: number[]; z: number } | null {
+export function suspectedSentinel(
+  c: ColumnScan,
+): { value: number; count: number; rows: number[]; z: number } | null {
   const m = c.moments;
   for (const e of [c.lo, c.hi]) {
     if (e.count < 2 || !Number.isFinite(e.v) || m.n - e.count < 5) continue;
@@ -33,29 +35,54 @@ export function rowFindings(scan: Scan): Finding[] {
   const plan = scan.plan;
   for (const d of scan.duplicateHeaders) {
     out.push(
-      finding("header.duplicate", "blocker", [d.name], `The column name ${quote(d.name)} appears ${d.positions.length} times (columns ${d.positions.map((p) => p + 1).join(", ")}); only the first is read.`, `Rename or remove the repeated ${quote(d.name)} columns so that every column name is unique.`, {
-        rows: [1],
-        detail: { positions: d.positions.map((p) => p + 1) },
-      }),
+      finding(
+        "header.duplicate",
+        "blocker",
+        [d.name],
+        `The column name ${quote(d.name)} appears ${d.positions.length} times (columns ${d.positions.map((p) => p + 1).join(", ")}); only the first is read.`,
+        `Rename or remove the repeated ${quote(d.name)} columns so that every column name is unique.`,
+        {
+          rows: [1],
+          detail: { positions: d.positions.map((p) => p + 1) },
+        },
+      ),
     );
   }
   if (scan.blankHeaders.length) {
     out.push(
-      finding("header.blank", "blocker", [], `Column${scan.blankHeaders.length > 1 ? "s" : ""} ${scan.blankHeaders.map((p) => p + 1).join(", ")} ha${scan.blankHeaders.length > 1 ? "ve" : "s"} no name in the header row.`, "Give every column a name in row 1, or delete empty columns (check for stray delimiters at the end of the header).", {
-        rows: [1],
-        detail: { positions: scan.blankHeaders.map((p) => p + 1) },
-      }),
+      finding(
+        "header.blank",
+        "blocker",
+        [],
+        `Column${scan.blankHeaders.length > 1 ? "s" : ""} ${scan.blankHeaders.map((p) => p + 1).join(", ")} ha${scan.blankHeaders.length > 1 ? "ve" : "s"} no name in the header row.`,
+        "Give every column a name in row 1, or delete empty columns (check for stray delimiters at the end of the header).",
+        {
+          rows: [1],
+          detail: { positions: scan.blankHeaders.map((p) => p + 1) },
+        },
+      ),
     );
   }
   const names = new Set(scan.header.map((h) => h.trim()));
   for (const pc of plan.columns) {
     if (names.has(pc.name)) continue;
     if (pc.role === "response" || pc.role === "predictor" || pc.role === "key") {
-      const near = [...names].find((h) => h.toLowerCase().replace(/[\s_-]/g, "") === pc.name.toLowerCase().replace(/[\s_-]/g, ""));
+      const near = [...names].find(
+        (h) => h.toLowerCase().replace(/[\s_-]/g, "") === pc.name.toLowerCase().replace(/[\s_-]/g, ""),
+      );
       out.push(
-        finding("plan.column-missing", "blocker", [pc.name], `The planned ${pc.role} column ${quote(pc.name)} is not in the file${near ? ` (there is a column ${quote(near)})` : ""}.`, near ? `Rename the column ${quote(near)} to ${quote(pc.name)} in the header row.` : `Add the column ${quote(pc.name)} with the header spelled exactly so.`, {
-          rows: [1],
-        }),
+        finding(
+          "plan.column-missing",
+          "blocker",
+          [pc.name],
+          `The planned ${pc.role} column ${quote(pc.name)} is not in the file${near ? ` (there is a column ${quote(near)})` : ""}.`,
+          near
+            ? `Rename the column ${quote(near)} to ${quote(pc.name)} in the header row.`
+            : `Add the column ${quote(pc.name)} with the header spelled exactly so.`,
+          {
+            rows: [1],
+          },
+        ),
       );
     }
   }
@@ -63,9 +90,16 @@ export function rowFindings(scan: Scan): Finding[] {
   const unexpected = [...names].filter((h) => h !== "" && !known.has(h));
   if (unexpected.length) {
     out.push(
-      finding("plan.column-unexpected", "note", unexpected, `The file has column${unexpected.length > 1 ? "s" : ""} the plan does not know: ${list(unexpected.map(quote))}; ${unexpected.length > 1 ? "they are" : "it is"} kept but not checked.`, "Nothing to do if the extra columns are intended; otherwise remove them or ask the analyst to add them to the plan.", {
-        rows: [1],
-      }),
+      finding(
+        "plan.column-unexpected",
+        "note",
+        unexpected,
+        `The file has column${unexpected.length > 1 ? "s" : ""} the plan does not know: ${list(unexpected.map(quote))}; ${unexpected.length > 1 ? "they are" : "it is"} kept but not checked.`,
+        "Nothing to do if the extra columns are intended; otherwise remove them or ask the analyst to add them to the plan.",
+        {
+          rows: [1],
+        },
+      ),
     );
   }
   if (scan.ragged.count) {
@@ -75,9 +109,16 @@ export function rowFindings(scan: Scan): Finding[] {
         "row.ragged",
         "blocker",
         [],
-        `${fmt(scan.ragged.count)} row${scan.ragged.count > 1 ? "s have" : " has"} a different number of fields than the header's ${scan.header.length} (${widths.slice(0, 3).map(([w, c]) => `${fmt(c)} with ${w}`).join(", ")}); ${scan.ragged.count > 1 ? "they were" : "it was"} left out.`,
+        `${fmt(scan.ragged.count)} row${scan.ragged.count > 1 ? "s have" : " has"} a different number of fields than the header's ${scan.header.length} (${widths
+          .slice(0, 3)
+          .map(([w, c]) => `${fmt(c)} with ${w}`)
+          .join(", ")}); ${scan.ragged.count > 1 ? "they were" : "it was"} left out.`,
         "Check these rows for an unquoted delimiter inside a value (put such values in double quotes) or for missing/extra cells.",
-        { rows: scan.ragged.rows, rowCount: scan.ragged.count, detail: { widths: Object.fromEntries(widths) } },
+        {
+          rows: scan.ragged.rows,
+          rowCount: scan.ragged.count,
+          detail: { widths: Object.fromEntries(widths) },
+        },
       ),
     );
   }
@@ -87,9 +128,16 @@ export function rowFindings(scan: Scan): Finding[] {
         "row.duplicate",
         "warning",
         [],
-        `${fmt(scan.duplicateRows.count)} row${scan.duplicateRows.count > 1 ? "s repeat" : " repeats"} an earlier row exactly (e.g. ${scan.duplicateOf.slice(0, 3).map(([a, b]) => `row ${a} = row ${b}`).join(", ")}).`,
+        `${fmt(scan.duplicateRows.count)} row${scan.duplicateRows.count > 1 ? "s repeat" : " repeats"} an earlier row exactly (e.g. ${scan.duplicateOf
+          .slice(0, 3)
+          .map(([a, b]) => `row ${a} = row ${b}`)
+          .join(", ")}).`,
         "Remove the repeated rows if they were copied twice; if they are genuine repeat measurements, add a column that tells them apart.",
-        { rows: scan.duplicateRows.rows, rowCount: scan.duplicateRows.count, detail: { pairs: scan.duplicateOf } },
+        {
+          rows: scan.duplicateRows.rows,
+          rowCount: scan.duplicateRows.count,
+          detail: { pairs: scan.duplicateOf },
+        },
       ),
     );
   }
@@ -97,11 +145,18 @@ export function rowFindings(scan: Scan): Finding[] {
     if (!key.dup.count) continue;
     const name = scan.cols[k]!.name;
     out.push(
-      finding("key.duplicate", "blocker", [name], `The key ${quote(name)} repeats in ${rowsOf(key.dup.count)}${key.examples.size ? ` (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))})` : ""}.`, `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`, {
-        rows: key.dup.rows,
-        rowCount: key.dup.count,
-        detail: { examples: Object.fromEntries(key.examples) },
-      }),
+      finding(
+        "key.duplicate",
+        "blocker",
+        [name],
+        `The key ${quote(name)} repeats in ${rowsOf(key.dup.count)}${key.examples.size ? ` (e.g. ${list([...key.examples.keys()].slice(0, 5).map(quote))})` : ""}.`,
+        `Every row needs its own value of ${quote(name)}; correct the repeated keys or remove duplicated rows.`,
+        {
+          rows: key.dup.rows,
+          rowCount: key.dup.count,
+          detail: { examples: Object.fromEntries(key.examples) },
+        },
+      ),
     );
   }
   for (const c of scan.cols) {
@@ -115,9 +170,26 @@ export function rowFindings(scan: Scan): Finding[] {
           "type.mismatch",
           modelRole ? "blocker" : "warning",
           [c.name],
-          `${fmt(c.mismatch.count)} value${c.mismatch.count > 1 ? "s" : ""} of ${quote(c.name)} ${c.mismatch.count > 1 ? "are" : "is"} not ${article(pc.type)}: ${list(offenders.map(([v, n]) => `${quote(v)} × ${fmt(n)}`), 10)}.`,
-          `Correct these cells to ${article(pc.type)}${pc.type === "integer" ? " (whole numbers)" : ""}; write a missing value as an empty cell${plan.missingTokens.filter((x) => x !== "").length ? ` or ${plan.missingTokens.filter((x) => x !== "").map(quote).join(", ")}` : ""}.`,
-          { rows: c.mismatch.rows, rowCount: c.mismatch.count, detail: { offenders: offenders.map(([value, count]) => ({ value, count })), distinctCapped: c.offenders.size >= 50 } },
+          `${fmt(c.mismatch.count)} value${c.mismatch.count > 1 ? "s" : ""} of ${quote(c.name)} ${c.mismatch.count > 1 ? "are" : "is"} not ${article(pc.type)}: ${list(
+            offenders.map(([v, n]) => `${quote(v)} × ${fmt(n)}`),
+            10,
+          )}.`,
+          `Correct these cells to ${article(pc.type)}${pc.type === "integer" ? " (whole numbers)" : ""}; write a missing value as an empty cell${
+            plan.missingTokens.filter((x) => x !== "").length
+              ? ` or ${plan.missingTokens
+                  .filter((x) => x !== "")
+                  .map(quote)
+                  .join(", ")}`
+              : ""
+          }.`,
+          {
+            rows: c.mismatch.rows,
+            rowCount: c.mismatch.count,
+            detail: {
+              offenders: offenders.map(([value, count]) => ({ value, count })),
+              distinctCapped: c.offenders.size >= 50,
+            },
+          },
         ),
       );
     }
@@ -135,11 +207,18 @@ export function rowFindings(scan: Scan): Finding[] {
     }
     for (const [v, r] of c.sentinels) {
       out.push(
-        finding("number.sentinel", "warning", [c.name], `${quote(c.name)} holds the declared missing-value code ${v} in ${rowsOf(r.count)}; they are read as missing.`, `Leave the cells empty instead of writing ${v}, so that nobody mistakes it for a measurement.`, {
-          rows: r.rows,
-          rowCount: r.count,
-          detail: { value: v, declared: true },
-        }),
+        finding(
+          "number.sentinel",
+          "warning",
+          [c.name],
+          `${quote(c.name)} holds the declared missing-value code ${v} in ${rowsOf(r.count)}; they are read as missing.`,
+          `Leave the cells empty instead of writing ${v}, so that nobody mistakes it for a measurement.`,
+          {
+            rows: r.rows,
+            rowCount: r.count,
+            detail: { value: v, declared: true },
+          },
+        ),
       );
     }
     if (c.kind === "number" || c.kind === "integer") {
@@ -158,7 +237,12 @@ export function rowFindings(scan: Scan): Finding[] {
       }
     }
     if (c.range.count) {
-      const bounds = [pc.min !== undefined ? `min ${pc.min}` : null, pc.max !== undefined ? `max ${pc.max}` : null].filter(Boolean).join(", ");
+      const bounds = [
+        pc.min !== undefined ? `min ${pc.min}` : null,
+        pc.max !== undefined ? `max ${pc.max}` : null,
+      ]
+        .filter(Boolean)
+        .join(", ");
       out.push(
         finding(
           "value.out-of-range",
@@ -166,11 +250,22 @@ export function rowFindings(scan: Scan): Finding[] {
           [c.name],
           `${fmt(c.range.count)} value${c.range.count > 1 ? "s" : ""} of ${quote(c.name)} lie outside the plan's range (${bounds}), e.g. ${c.rangeExamples.join(", ")}.`,
           `Check the units and typing of these cells; correct them or leave them empty if the true value is unknown.`,
-          { rows: c.range.rows, rowCount: c.range.count, detail: { min: pc.min, max: pc.max, examples: c.rangeExamples } },
+          {
+            rows: c.range.rows,
+            rowCount: c.range.count,
+            detail: { min: pc.min, max: pc.max, examples: c.rangeExamples },
+          },
         ),
       );
     }
-    if (c.kind === "date" && c.date.ambiguous && c.date.ambiguous.count && !pc.dateFormat && !(c.date.a13 > 0 && c.date.b13 === 0) && !(c.date.b13 > 0 && c.date.a13 === 0)) {
+    if (
+      c.kind === "date" &&
+      c.date.ambiguous &&
+      c.date.ambiguous.count &&
+      !pc.dateFormat &&
+      !(c.date.a13 > 0 && c.date.b13 === 0) &&
+      !(c.date.b13 > 0 && c.date.a13 === 0)
+    ) {
       out.push(
         finding(
           "date.ambiguous",
@@ -187,5 +282,14 @@ export function rowFindings(scan: Scan): Finding[] {
 }
 
 export function article(type: string): string {
-  return { number: "a number", integer: "an integer", boolean: "a yes/no value", date: "a date", category: "a level", text: "text" }[type] ?? type;
+  return (
+    {
+      number: "a number",
+      integer: "an integer",
+      boolean: "a yes/no value",
+      date: "a date",
+      category: "a level",
+      text: "text",
+    }[type] ?? type
+  );
 }

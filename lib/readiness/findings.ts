@@ -31,7 +31,10 @@ const ORDER: Record<Severity, number> = { blocker: 0, warning: 1, note: 2 };
 
 /** Blockers first, then warnings, then notes; stable within a severity. */
 export function sortFindings(fs: Finding[]): Finding[] {
-  return fs.map((f, i) => [f, i] as const).sort((a, b) => ORDER[a[0].severity] - ORDER[b[0].severity] || a[1] - b[1]).map((p) => p[0]);
+  return fs
+    .map((f, i) => [f, i] as const)
+    .sort((a, b) => ORDER[a[0].severity] - ORDER[b[0].severity] || a[1] - b[1])
+    .map((p) => p[0]);
 }
 
 export function countFindings(fs: Finding[]): { blocker: number; warning: number; note: number } {
@@ -42,7 +45,8 @@ export function countFindings(fs: Finding[]): { blocker: number; warning: number
 
 export const pct = (x: number) => `${(100 * x).toFixed(x < 0.001 && x > 0 ? 2 : 1)} %`;
 export const quote = (s: string) => `“${s}”`;
-export const list = (xs: string[], max = 8) => (xs.length > max ? `${xs.slice(0, max).join(", ")} and ${xs.length - max} more` : xs.join(", "));
+export const list = (xs: string[], max = 8) =>
+  xs.length > max ? `${xs.slice(0, max).join(", ")} and ${xs.length - max} more` : xs.join(", ");
 
 /** "1 row", "2 rows", "1,234 rows" */
 export const rowsOf = (n: number) => `${n.toLocaleString("en")} row${n === 1 ? "" : "s"}`;

@@ -75,7 +75,10 @@ export class HashSet64 {
   raw(): { hi: Uint32Array; lo: Uint32Array; line: Uint32Array; size: number; full: boolean } {
     return { hi: this.hi, lo: this.lo, line: this.line, size: this.size, full: this.full };
   }
-  static fromRaw(r: { hi: Uint32Array; lo: Uint32Array; line: Uint32Array; size: number; full: boolean }, maxEntries: number): HashSet64 {
+  static fromRaw(
+    r: { hi: Uint32Array; lo: Uint32Array; line: Uint32Array; size: number; full: boolean },
+    maxEntries: number,
+  ): HashSet64 {
     const h = new HashSet64(maxEntries);
     h.hi = r.hi;
     h.lo = r.lo;
@@ -86,7 +89,8 @@ export class HashSet64 {
   }
   /** Visit the stored entries (hash halves and first line). */
   forEach(f: (h1: number, h2: number, line: number) => void): void {
-    for (let i = 0; i < this.hi.length; i++) if (this.hi[i] !== 0 || this.lo[i] !== 0) f(this.hi[i]!, this.lo[i]!, this.line[i]!);
+    for (let i = 0; i < this.hi.length; i++)
+      if (this.hi[i] !== 0 || this.lo[i] !== 0) f(this.hi[i]!, this.lo[i]!, this.line[i]!);
   }
 }
 
@@ -118,7 +122,14 @@ export function hashFields(out: Hash64, fields: string[], from = 0, to = fields.
  * hashFields over the UTF-8 bytes of the fields from … to − 1 of a block (the same two hashes
  * as hashFields for ASCII text).
  */
-export function hashByteFields(out: Hash64, buf: Uint8Array, starts: Int32Array, ends: Int32Array, from: number, to: number): void {
+export function hashByteFields(
+  out: Hash64,
+  buf: Uint8Array,
+  starts: Int32Array,
+  ends: Int32Array,
+  from: number,
+  to: number,
+): void {
   let h1 = 0x811c9dc5;
   let h2 = 0x12345678;
   for (let f = from; f < to; f++) {

@@ -24,7 +24,14 @@ export {
   type Role,
   type Thresholds,
 } from "./plan";
-export { REPORT_FORMAT, type ReadinessReport, type Finding, type Severity, type ColumnReport, type Coefficient } from "./report";
+export {
+  REPORT_FORMAT,
+  type ReadinessReport,
+  type Finding,
+  type Severity,
+  type ColumnReport,
+  type Coefficient,
+} from "./report";
 export { buildDesign, predictorsOf, type Design, type DesignTerm, type Predictor } from "./design";
 export { FINDING_CODES, isFindingCode, type FindingCode } from "./codes";
 export type { ByteInput } from "./csv-reader";
@@ -33,5 +40,13 @@ export { rowsAtFault, ROW_FAULT_CODES, type Fault, type FaultLine, type RowsAtFa
 export { UnreadableError } from "./decode";
 /** the seeded generator the demo data and tests draw from (Tommy Ettinger's Mulberry32) */
 export { mulberry32 } from "./accumulators";
-export { countOf, detectableR2, formatNumber, niceTicks, pEquals, plainNumber, type NumberPurpose } from "./format-number";
+export {
+  countOf,
+  detectableR2,
+  formatNumber,
+  niceTicks,
+  pEquals,
+  plainNumber,
+  type NumberPurpose,
+} from "./format-number";
 export * from "./fixes";

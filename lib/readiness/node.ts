@@ -38,8 +38,18 @@ interface RangeJob {
   firstLine: number;
 }
 
-type RangeDone = { ok: true; part: ScanPart; records: number; start: number; stoppedAt: number; lineAfter: number };
-type RangeResult = RangeDone | { ok: false; message: string; fix: string; detail: Record<string, unknown> } | { progress: number };
+type RangeDone = {
+  ok: true;
+  part: ScanPart;
+  records: number;
+  start: number;
+  stoppedAt: number;
+  lineAfter: number;
+};
+type RangeResult =
+  | RangeDone
+  | { ok: false; message: string; fix: string; detail: Record<string, unknown> }
+  | { progress: number };
 
 /**
  * Check a file on disk. Files of PARALLEL_MIN_BYTES and more are split into one byte range per
@@ -63,7 +73,12 @@ export async function checkFile(
 ): Promise<ReadinessReport> {
   const size = fs.statSync(file).size;
   const workers = opts.workers ?? defaultWorkers();
-  const single = () => checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, { isUtf8, expectedBytes: size, ...opts });
+  const single = () =>
+    checkBatch(fs.createReadStream(file, { highWaterMark: 1 << 20 }), plan, {
+      isUtf8,
+      expectedBytes: size,
+      ...opts,
+    });
   if (workers < 2 || size < (opts.minBytes ?? PARALLEL_MIN_BYTES)) return single();
   const t0 = now();
   const s = survey(file, size, workers);
@@ -75,7 +90,10 @@ export async function checkFile(
   const report = (i: number, rows: number) => {
     progress[i] = rows;
     const all = progress.reduce((a, b) => a + b, 0);
-    opts.onProgress?.({ rows: all, bytes: Math.min(size, Math.round((size * all) / Math.max(1, s.rowsGuess))) });
+    opts.onProgress?.({
+      rows: all,
+      bytes: Math.min(size, Math.round((size * all) / Math.max(1, s.rowsGuess))),
+    });
   };
   const run = (i: number, start: number, firstLine: number) =>
     new Promise<RangeResult>((resolve, reject) => {
@@ -88,7 +106,9 @@ export async function checkFile(
         else resolve(m);
       });
       w.on("error", reject);
-      w.on("exit", (code) => (code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined));
+      w.on("exit", (code) =>
+        code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined,
+      );
     });
   const first: RangeResult[] = [];
   if (opts.inThread) for (const [i, r] of s.starts.entries()) first.push(await run(i, r.start, r.firstLine));
@@ -104,7 +124,14 @@ export async function checkFile(
     expect = { start: r.stoppedAt, line: r.lineAfter };
   }
   const failed = results.find((r) => "ok" in r && !r.ok);
-  if (failed && "message" in failed) return unreadableReport(plan, planHash, new UnreadableError(failed.message, failed.fix, failed.detail), null, now() - t0);
+  if (failed && "message" in failed)
+    return unreadableReport(
+      plan,
+      planHash,
+      new UnreadableError(failed.message, failed.fix, failed.detail),
+      null,
+      now() - t0,
+    );
   const scan = new Scan(plan);
   scan.onHeader(s.header, s.meta);
   let records = 0;
@@ -114,21 +141,33 @@ export async function checkFile(
       records += r.records;
     }
   });
-  return reportFromScan(scan, plan, planHash, { bytes: size, records, bom: s.meta.bom, delimiter: s.meta.delimiter }, t0);
+  return reportFromScan(
+    scan,
+    plan,
+    planHash,
+    { bytes: size, records, bom: s.meta.bom, delimiter: s.meta.delimiter },
+    t0,
+  );
 }
 
 /** Start a worker on a script; a TypeScript one is loaded through tsx's module hooks (development). */
 function startWorker(script: string, data: unknown, execArgv?: string[]): Worker {
   const extra = execArgv ? { execArgv } : {};
   if (!/\.[cm]?ts$/.test(script)) return new Worker(script, { workerData: data, ...extra });
-  const tsxApi = pathToFileURL(createRequire(path.join(process.cwd(), "index.js")).resolve("tsx/esm/api").replace(/\.cjs$/, ".mjs")).href;
+  const tsxApi = pathToFileURL(
+    createRequire(path.join(process.cwd(), "index.js"))
+      .resolve("tsx/esm/api")
+      .replace(/\.cjs$/, ".mjs"),
+  ).href;
   const code = `import(${JSON.stringify(tsxApi)}).then((m) => { m.register(); return import(${JSON.stringify(pathToFileURL(script).href)}); });`;
   return new Worker(code, { eval: true, workerData: data, ...extra });
 }
 
 /** True when this thread was started by checkFile to read one byte range. */
 export function isRangeWorker(): boolean {
-  return !isMainThread && typeof workerData === "object" && workerData !== null && "tributaryRange" in workerData;
+  return (
+    !isMainThread && typeof workerData === "object" && workerData !== null && "tributaryRange" in workerData
+  );
 }
 
 /** Read one byte range: the Scan's part, where the range stopped, or why the file is unreadable. */
@@ -137,12 +176,23 @@ async function readRange(job: RangeJob, onProgress?: (rows: number) => void): Pr
   scan.onHeader(job.header, job.meta);
   scan.expectedBytes = job.end - job.start;
   try {
-    const read = await readCsv(fs.createReadStream(job.file, { start: job.start, highWaterMark: 1 << 20 }), scan, {
-      range: { meta: job.meta, byteOffset: job.start, firstLine: job.firstLine, endOffset: job.end },
-      isUtf8,
-      onProgress: onProgress && ((p) => onProgress(p.rows)),
-    });
-    return { ok: true, part: scanPart(scan), records: read.records, start: job.start, stoppedAt: read.stoppedAt, lineAfter: read.lineAfter };
+    const read = await readCsv(
+      fs.createReadStream(job.file, { start: job.start, highWaterMark: 1 << 20 }),
+      scan,
+      {
+        range: { meta: job.meta, byteOffset: job.start, firstLine: job.firstLine, endOffset: job.end },
+        isUtf8,
+        onProgress: onProgress && ((p) => onProgress(p.rows)),
+      },
+    );
+    return {
+      ok: true,
+      part: scanPart(scan),
+      records: read.records,
+      start: job.start,
+      stoppedAt: read.stoppedAt,
+      lineAfter: read.lineAfter,
+    };
   } catch (e) {
     if (e instanceof UnreadableError) return { ok: false, message: e.message, fix: e.fix, detail: e.detail };
     throw e;
@@ -155,6 +205,12 @@ export async function runRangeWorker(): Promise<void> {
   const r = await readRange(job, (rows) => parentPort!.postMessage({ progress: rows } satisfies RangeResult));
   if (!("ok" in r) || !r.ok) return parentPort!.postMessage(r);
   const part = r.part;
-  const transfer = [part.rowSet.hi.buffer, part.rowSet.lo.buffer, part.rowSet.line.buffer, ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]), ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : []))];
+  const transfer = [
+    part.rowSet.hi.buffer,
+    part.rowSet.lo.buffer,
+    part.rowSet.line.buffer,
+    ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]),
+    ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : [])),
+  ];
   parentPort!.postMessage(r, transfer as ArrayBuffer[]);
 }

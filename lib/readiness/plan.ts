@@ -119,7 +119,10 @@ export const planSchema = z
      */
     selection: z
       .object({
-        candidates: z.union([z.number().int().min(1), z.array(name).min(1, "name at least one candidate term")]),
+        candidates: z.union([
+          z.number().int().min(1),
+          z.array(name).min(1, "name at least one candidate term"),
+        ]),
         required: z.array(name).optional(),
       })
       .optional(),
@@ -130,31 +133,64 @@ export const planSchema = z
     plan.columns.forEach((c, i) => {
       const prior = seen.get(c.name);
       if (prior !== undefined) {
-        ctx.addIssue({ code: "custom", path: ["columns", i, "name"], message: `"${c.name}" is already column ${prior + 1}; column names must be unique` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", i, "name"],
+          message: `"${c.name}" is already column ${prior + 1}; column names must be unique`,
+        });
       }
       seen.set(c.name, i);
       if (c.levels && c.type !== "category") {
-        ctx.addIssue({ code: "custom", path: ["columns", i, "levels"], message: `levels only apply to category columns; "${c.name}" is ${c.type}` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", i, "levels"],
+          message: `levels only apply to category columns; "${c.name}" is ${c.type}`,
+        });
       }
       if (c.levels) {
         const dup = c.levels.find((l, j) => c.levels!.indexOf(l) !== j);
-        if (dup !== undefined) ctx.addIssue({ code: "custom", path: ["columns", i, "levels"], message: `level "${dup}" is listed twice` });
+        if (dup !== undefined)
+          ctx.addIssue({
+            code: "custom",
+            path: ["columns", i, "levels"],
+            message: `level "${dup}" is listed twice`,
+          });
       }
       if (c.baseline !== undefined) {
         if (c.type !== "category") {
-          ctx.addIssue({ code: "custom", path: ["columns", i, "baseline"], message: `a baseline only applies to category columns` });
+          ctx.addIssue({
+            code: "custom",
+            path: ["columns", i, "baseline"],
+            message: `a baseline only applies to category columns`,
+          });
         } else if (c.levels && !c.levels.includes(c.baseline)) {
-          ctx.addIssue({ code: "custom", path: ["columns", i, "baseline"], message: `baseline "${c.baseline}" is not among the levels of "${c.name}" (${c.levels.join(", ")})` });
+          ctx.addIssue({
+            code: "custom",
+            path: ["columns", i, "baseline"],
+            message: `baseline "${c.baseline}" is not among the levels of "${c.name}" (${c.levels.join(", ")})`,
+          });
         }
       }
       if (c.min !== undefined && c.max !== undefined && c.min > c.max) {
-        ctx.addIssue({ code: "custom", path: ["columns", i, "min"], message: `min ${c.min} is above max ${c.max}` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", i, "min"],
+          message: `min ${c.min} is above max ${c.max}`,
+        });
       }
       if ((c.role === "response" || c.role === "predictor") && (c.type === "text" || c.type === "date")) {
-        ctx.addIssue({ code: "custom", path: ["columns", i, "type"], message: `a ${c.role} must be number, integer, category or boolean; "${c.name}" is ${c.type}` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", i, "type"],
+          message: `a ${c.role} must be number, integer, category or boolean; "${c.name}" is ${c.type}`,
+        });
       }
       if (c.role === "response" && c.type === "category") {
-        ctx.addIssue({ code: "custom", path: ["columns", i, "type"], message: `the response must be numeric for a linear model; "${c.name}" is a category` });
+        ctx.addIssue({
+          code: "custom",
+          path: ["columns", i, "type"],
+          message: `the response must be numeric for a linear model; "${c.name}" is a category`,
+        });
       }
     });
     const responses = plan.columns.filter((c) => c.role === "response");
@@ -162,31 +198,55 @@ export const planSchema = z
       ctx.addIssue({
         code: "custom",
         path: ["columns"],
-        message: responses.length === 0 ? "the plan needs exactly one response column; none is marked" : `the plan needs exactly one response column; ${responses.map((c) => `"${c.name}"`).join(" and ")} are marked`,
+        message:
+          responses.length === 0
+            ? "the plan needs exactly one response column; none is marked"
+            : `the plan needs exactly one response column; ${responses.map((c) => `"${c.name}"`).join(" and ")} are marked`,
       });
     }
     const predictors = new Set(plan.columns.filter((c) => c.role === "predictor").map((c) => c.name));
     plan.interactions.forEach(([a, b], i) => {
       for (const [j, n] of [a, b].entries()) {
         if (!predictors.has(n)) {
-          ctx.addIssue({ code: "custom", path: ["interactions", i, j], message: `interaction term "${a}:${b}": "${n}" is not a planned predictor` });
+          ctx.addIssue({
+            code: "custom",
+            path: ["interactions", i, j],
+            message: `interaction term "${a}:${b}": "${n}" is not a planned predictor`,
+          });
         }
       }
-      if (a === b) ctx.addIssue({ code: "custom", path: ["interactions", i], message: `an interaction needs two different predictors ("${a}:${b}")` });
+      if (a === b)
+        ctx.addIssue({
+          code: "custom",
+          path: ["interactions", i],
+          message: `an interaction needs two different predictors ("${a}:${b}")`,
+        });
     });
-    if (plan.selection) selectionIssues(plan, predictors).forEach((i) => ctx.addIssue({ code: "custom", ...i }));
+    if (plan.selection)
+      selectionIssues(plan, predictors).forEach((i) => ctx.addIssue({ code: "custom", ...i }));
     const t = { ...DEFAULT_THRESHOLDS, ...plan.thresholds };
     if (t.missingWarning > t.missingBlocker) {
-      ctx.addIssue({ code: "custom", path: ["thresholds", "missingWarning"], message: "the missingness warning level is above the blocker level" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["thresholds", "missingWarning"],
+        message: "the missingness warning level is above the blocker level",
+      });
     }
     if (t.vifWarning > t.vifStrong) {
-      ctx.addIssue({ code: "custom", path: ["thresholds", "vifWarning"], message: "the VIF warning level is above the strong-warning level" });
+      ctx.addIssue({
+        code: "custom",
+        path: ["thresholds", "vifWarning"],
+        message: "the VIF warning level is above the strong-warning level",
+      });
     }
   });
 
 /** Every selection term must be a planned predictor or interaction, named once, in one list. */
 function selectionIssues(
-  plan: { interactions: [string, string][]; selection?: { candidates: number | string[]; required?: string[] } },
+  plan: {
+    interactions: [string, string][];
+    selection?: { candidates: number | string[]; required?: string[] };
+  },
   predictors: Set<string>,
 ): { path: (string | number)[]; message: string }[] {
   const out: { path: (string | number)[]; message: string }[] = [];
@@ -197,9 +257,20 @@ function selectionIssues(
   for (const [key, names] of lists) {
     names.forEach((t, i) => {
       const path = ["selection", key, i];
-      if (!terms.has(t)) out.push({ path, message: `selection term "${t}" is not a planned predictor or interaction (${[...terms].join(", ") || "none planned"})` });
+      if (!terms.has(t))
+        out.push({
+          path,
+          message: `selection term "${t}" is not a planned predictor or interaction (${[...terms].join(", ") || "none planned"})`,
+        });
       const prior = seen.get(t);
-      if (prior) out.push({ path, message: prior === key ? `selection term "${t}" is listed twice` : `"${t}" is both a candidate and a required term; keep it in one list` });
+      if (prior)
+        out.push({
+          path,
+          message:
+            prior === key
+              ? `selection term "${t}" is listed twice`
+              : `"${t}" is both a candidate and a required term; keep it in one list`,
+        });
       seen.set(t, key);
     });
   }

@@ -85,12 +85,16 @@ export async function* pulled<T>(
 }
 
 /** The header record first, then every data record in file order (blank lines skipped). */
-export function csvRecords(input: ByteInput, opts: Omit<ReadOptions, "range"> = {}): AsyncGenerator<CsvRecord, void, undefined> {
+export function csvRecords(
+  input: ByteInput,
+  opts: Omit<ReadOptions, "range"> = {},
+): AsyncGenerator<CsvRecord, void, undefined> {
   const holder: { out: CsvRecord[] } = { out: [] };
   const sink = {
     onHeader: (fields: string[]) => holder.out.push({ kind: "header", line: 1, fields }),
     onRecords: (rows: string[][], lines: number[]) => {
-      for (let i = 0; i < rows.length; i++) holder.out.push({ kind: "row", line: lines[i]!, fields: rows[i]! });
+      for (let i = 0; i < rows.length; i++)
+        holder.out.push({ kind: "row", line: lines[i]!, fields: rows[i]! });
     },
   };
   return pulled(input, holder, (bytes) => readCsv(bytes, sink, opts));

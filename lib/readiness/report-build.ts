@@ -10,7 +10,10 @@ import { REPORT_FORMAT, type ReadinessReport } from "./report";
 /** Version of the engine's checks; part of every report and state. */
 export const ENGINE_VERSION = "1.1.0";
 
-type Analysis = Pick<ReadinessReport, "rows" | "model" | "columns" | "missingness" | "collinearity" | "fit" | "sampleSize">;
+type Analysis = Pick<
+  ReadinessReport,
+  "rows" | "model" | "columns" | "missingness" | "collinearity" | "fit" | "sampleSize"
+>;
 
 /** The model figures when no row was analysed: the plan's parameters, no residual df. */
 function emptyAnalysis(plan: Plan): Analysis {
@@ -18,7 +21,13 @@ function emptyAnalysis(plan: Plan): Analysis {
   const d = buildDesign(plan, predictorsOf(plan));
   return {
     rows: { total: 0, complete: 0 },
-    model: { parameters: d.columns.length - (plan.intercept ? 1 : 0), residualDf: 0, perParameter: null, terms: d.terms, dfTarget: t.dfTarget ?? t.dfFloor },
+    model: {
+      parameters: d.columns.length - (plan.intercept ? 1 : 0),
+      residualDf: 0,
+      perParameter: null,
+      terms: d.terms,
+      dfTarget: t.dfTarget ?? t.dfFloor,
+    },
     columns: [],
     missingness: { patterns: [] },
     collinearity: null,

@@ -47,7 +47,10 @@ export function scanPart(scan: Scan): ScanPart {
     duplicateRows: rs(scan.duplicateRows),
     duplicateOf: scan.duplicateOf,
     rowSet: scan.rowSet.raw(),
-    keys: [...scan.keys.entries()].map(([k, v]) => [k, { set: v.set.raw(), dup: rs(v.dup), examples: [...v.examples.entries()] }]),
+    keys: [...scan.keys.entries()].map(([k, v]) => [
+      k,
+      { set: v.set.raw(), dup: rs(v.dup), examples: [...v.examples.entries()] },
+    ]),
     levels,
     designColumns: [...scan.design.columns],
     ls: scan.ls.toJSON() as LeastSquaresJSON,
@@ -68,7 +71,14 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
   scan.rowsComplete += p.rowsComplete;
   scan.ragged.absorb(p.ragged);
   for (const [w, n] of p.raggedWidths) scan.raggedWidths.set(w, (scan.raggedWidths.get(w) ?? 0) + n);
-  const mergeSet = (set: HashSet64, raw: RawSet, sample: RowSample, pairs: [number, number][] | null, partSample: Sample, partPairs: [number, number][]): HashSet64 => {
+  const mergeSet = (
+    set: HashSet64,
+    raw: RawSet,
+    sample: RowSample,
+    pairs: [number, number][] | null,
+    partSample: Sample,
+    partPairs: [number, number][],
+  ): HashSet64 => {
     if (first) {
       sample.absorb(partSample);
       if (pairs) pairs.push(...partPairs.slice(0, scan.t.sampleRows - pairs.length));
@@ -89,15 +99,29 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
     const rows = [...partSample.rows, ...cross].sort((a, b) => a - b).slice(0, scan.t.sampleRows);
     sample.absorb({ count: partSample.count + cross.length, rows });
     const inPart = partPairs.map(([l, p]): [number, number] => [l, earlier.get(p) ?? p]);
-    if (pairs) pairs.push(...[...inPart, ...crossPairs].sort((a, b) => a[0] - b[0]).slice(0, Math.max(0, scan.t.sampleRows - pairs.length)));
+    if (pairs)
+      pairs.push(
+        ...[...inPart, ...crossPairs]
+          .sort((a, b) => a[0] - b[0])
+          .slice(0, Math.max(0, scan.t.sampleRows - pairs.length)),
+      );
     return set;
   };
-  scan.rowSet = mergeSet(scan.rowSet, p.rowSet, scan.duplicateRows, scan.duplicateOf, p.duplicateRows, p.duplicateOf);
+  scan.rowSet = mergeSet(
+    scan.rowSet,
+    p.rowSet,
+    scan.duplicateRows,
+    scan.duplicateOf,
+    p.duplicateRows,
+    p.duplicateOf,
+  );
   for (const [k, v] of p.keys) {
     const mine = scan.keys.get(k);
     if (!mine) continue;
     mine.set = mergeSet(mine.set, v.set, mine.dup, null, v.dup, []);
-    for (const [e, n] of v.examples) if (mine.examples.size < 10 || mine.examples.has(e)) mine.examples.set(e, (mine.examples.get(e) ?? 0) + n);
+    for (const [e, n] of v.examples)
+      if (mine.examples.size < 10 || mine.examples.has(e))
+        mine.examples.set(e, (mine.examples.get(e) ?? 0) + n);
   }
   // design: unite the level lists, then merge the least-squares factors on the united columns
   for (const pr of scan.predictors) {
@@ -106,9 +130,11 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
   }
   const from = scan.design.columns;
   scan.design = buildDesign(scan.plan, scan.predictors, true);
-  if (scan.design.columns.join("\u0000") !== from.join("\u0000")) scan.ls = scan.ls.expandColumns(from, scan.design.columns);
+  if (scan.design.columns.join("\u0000") !== from.join("\u0000"))
+    scan.ls = scan.ls.expandColumns(from, scan.design.columns);
   let other = LeastSquares.fromJSON(p.ls);
-  if (p.designColumns.join("\u0000") !== scan.design.columns.join("\u0000")) other = other.expandColumns(p.designColumns, scan.design.columns);
+  if (p.designColumns.join("\u0000") !== scan.design.columns.join("\u0000"))
+    other = other.expandColumns(p.designColumns, scan.design.columns);
   scan.ls.merge(other);
   scan.levelIndex = scan.predictors.map((pr) => new Map(pr.levels.map((l, j) => [l, j])));
   scan.encoder = new RowEncoder(scan.plan, scan.predictors, scan.design, true);
@@ -121,4 +147,3 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
     if (mine) absorbColumn(mine, c);
   });
 }
-

@@ -44,7 +44,10 @@ export class ScanState {
   duplicateOf: [number, number][] = [];
   /** @internal (scan-merge.ts) */
   rowSet = new HashSet64(DUPLICATE_CAP);
-  keys = new Map<number, { set: HashSet64; dup: RowSample; examples: Map<string, number>; lastRepeatOf: number }>();
+  keys = new Map<
+    number,
+    { set: HashSet64; dup: RowSample; examples: Map<string, number>; lastRepeatOf: number }
+  >();
   /** line of the earlier equal row of the row just read (0: none) */
   lastRepeatOf = 0;
   protected keyList: number[] = [];
@@ -105,9 +108,13 @@ export class ScanState {
         else seen.set(name, [i]);
       }
     });
-    for (const [name, positions] of seen) if (positions.length > 1) this.duplicateHeaders.push({ name, positions });
+    for (const [name, positions] of seen)
+      if (positions.length > 1) this.duplicateHeaders.push({ name, positions });
     const planByName = new Map(this.plan.columns.map((c) => [c.name, c]));
-    const quantCap = Math.max(1000, Math.min(QUANTILE_COLUMN_CAP, Math.floor(QUANTILE_BUDGET / Math.max(1, fields.length))));
+    const quantCap = Math.max(
+      1000,
+      Math.min(QUANTILE_COLUMN_CAP, Math.floor(QUANTILE_BUDGET / Math.max(1, fields.length))),
+    );
     this.cols = fields.map((raw, i) => {
       const name = raw.trim();
       const first = seen.get(name)?.[0] === i;
@@ -118,17 +125,28 @@ export class ScanState {
     for (const c of this.plan.columns) {
       if (c.role === "key") {
         const i = this.index.get(c.name);
-        if (i !== undefined) this.keys.set(i, { set: new HashSet64(DUPLICATE_CAP), dup: new RowSample(this.t.sampleRows), examples: new Map(), lastRepeatOf: 0 });
+        if (i !== undefined)
+          this.keys.set(i, {
+            set: new HashSet64(DUPLICATE_CAP),
+            dup: new RowSample(this.t.sampleRows),
+            examples: new Map(),
+            lastRepeatOf: 0,
+          });
       }
     }
     this.keyList = [...this.keys.keys()];
     this.keyHash = new Float64Array(2 * this.keyList.length);
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
-    this.model = [...(this.response ? [this.response] : []), ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 }))];
+    this.model = [
+      ...(this.response ? [this.response] : []),
+      ...this.predictors.map((p) => ({ name: p.name, index: this.index.get(p.name) ?? -1 })),
+    ];
     this.modelCols = this.model.map((m) => this.cols[m.index]!);
     this.modelPred = Int32Array.from(this.model, (_, m) => (this.response ? m - 1 : m));
-    this.modelCat = Uint8Array.from(this.model, (_, m) => (this.predictors[this.modelPred[m]!]?.kind === "category" ? 1 : 0));
+    this.modelCat = Uint8Array.from(this.model, (_, m) =>
+      this.predictors[this.modelPred[m]!]?.kind === "category" ? 1 : 0,
+    );
     this.levelIndex = this.predictors.map((p) => new Map(p.levels.map((l, j) => [l, j])));
     this.unknownLevels = this.predictors.map(() => new Map());
     this.soleUnusable = this.model.map(() => 0);
@@ -164,11 +182,11 @@ export class ScanState {
     p.levels.push(level);
     this.levelIndex[i]!.set(level, p.levels.length - 1);
     this.design = buildDesign(this.plan, this.predictors, true);
-    if (this.design.columns.length !== from.length) this.ls = this.ls.expandColumns(from, this.design.columns);
+    if (this.design.columns.length !== from.length)
+      this.ls = this.ls.expandColumns(from, this.design.columns);
     this.encoder = new RowEncoder(this.plan, this.predictors, this.design, true);
     return p.levels.length - 1;
   }
-
 
   /** The design index of the current level of category predictor pi (−1: not usable), noted on the level's entry. */
   protected levelOf(pi: number, c: ColumnScan, line: number): number {
@@ -179,7 +197,8 @@ export class ScanState {
     if (li < 0 && this.predictors[pi]!.open) li = this.addLevel(pi, s);
     if (li < 0) {
       let u = this.unknownLevels[pi]!.get(s);
-      if (!u && this.unknownLevels[pi]!.size < 1000) this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
+      if (!u && this.unknownLevels[pi]!.size < 1000)
+        this.unknownLevels[pi]!.set(s, (u = new RowSample(this.t.sampleRows)));
       u?.add(line);
     }
     if (acc) acc.design = li;

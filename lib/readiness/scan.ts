@@ -9,7 +9,14 @@ import { BlockText, type FieldBatch } from "./fields";
 import { hashByteFields, hashFields } from "./hashing";
 import { ScanState } from "./scan-state";
 
-export { DUPLICATE_CAP, MAX_DESIGN_COLUMNS, MAX_OPEN_LEVELS, QUANTILE_BUDGET, QUANTILE_COLUMN_CAP, type ModelColumn } from "./scan-state";
+export {
+  DUPLICATE_CAP,
+  MAX_DESIGN_COLUMNS,
+  MAX_OPEN_LEVELS,
+  QUANTILE_BUDGET,
+  QUANTILE_COLUMN_CAP,
+  type ModelColumn,
+} from "./scan-state";
 
 export class Scan extends ScanState implements CsvSink {
   private readonly blockText = new BlockText();
@@ -97,7 +104,8 @@ export class Scan extends ScanState implements CsvSink {
         if (first) {
           key.dup.add(line);
           const v = c.str || String(c.value);
-          if (key.examples.size < 10 || key.examples.has(v)) key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
+          if (key.examples.size < 10 || key.examples.has(v))
+            key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
         }
       }
       if (!this.ready) return;

@@ -13,11 +13,12 @@ function countLines(fd: number, from: number, to: number): number {
   const block = Buffer.alloc(Math.min(8 << 20, Math.max(1, to - from)));
   let n = 0;
   let prevCR = false;
-  for (let pos = from; pos < to; ) {
+  for (let pos = from; pos < to;) {
     const got = fs.readSync(fd, block, 0, Math.min(block.length, to - pos), pos);
     if (got <= 0) break;
     const b = block.subarray(0, got);
-    for (let at = b.indexOf(10); at >= 0; at = b.indexOf(10, at + 1)) if (!(at === 0 ? prevCR : b[at - 1] === 13)) n++;
+    for (let at = b.indexOf(10); at >= 0; at = b.indexOf(10, at + 1))
+      if (!(at === 0 ? prevCR : b[at - 1] === 13)) n++;
     for (let at = b.indexOf(13); at >= 0; at = b.indexOf(13, at + 1)) n++;
     prevCR = b[got - 1] === 13;
     pos += got;
@@ -30,7 +31,16 @@ function countLines(fd: number, from: number, to: number): number {
  * each worker's range starts: the line start after an even share of the bytes. A guess may
  * fall inside a quoted field; checkFile finds that out and reads that range again.
  */
-export function survey(file: string, size: number, parts: number): { meta: CsvMeta; header: string[]; starts: { start: number; firstLine: number }[]; rowsGuess: number } | null {
+export function survey(
+  file: string,
+  size: number,
+  parts: number,
+): {
+  meta: CsvMeta;
+  header: string[];
+  starts: { start: number; firstLine: number }[];
+  rowsGuess: number;
+} | null {
   const fd = fs.openSync(file, "r");
   try {
     const head = Buffer.alloc(Math.min(size, 1 << 20));
@@ -41,9 +51,16 @@ export function survey(file: string, size: number, parts: number): { meta: CsvMe
     let tok: Tokenizer;
     try {
       bom = sniffBytes(head).bom;
-      const { delimiter, newline } = sniffText(head.subarray(bom, Math.min(head.length, bom + (1 << 16))).toString("utf8"), head.length === size);
+      const { delimiter, newline } = sniffText(
+        head.subarray(bom, Math.min(head.length, bom + (1 << 16))).toString("utf8"),
+        head.length === size,
+      );
       meta = { delimiter, newline, encoding: "utf-8", bom: bom > 0 };
-      tok = new Tokenizer(delimiter.charCodeAt(0), { maxFieldBytes: DEFAULT_LIMITS.maxFieldChars, maxRecordBytes: DEFAULT_LIMITS.maxRecordChars }, { offset: bom, endOffset: bom + 1 });
+      tok = new Tokenizer(
+        delimiter.charCodeAt(0),
+        { maxFieldBytes: DEFAULT_LIMITS.maxFieldChars, maxRecordBytes: DEFAULT_LIMITS.maxRecordChars },
+        { offset: bom, endOffset: bom + 1 },
+      );
       tok.push(head.subarray(bom), head.length === size, (b) => (header ??= recordText(b, 0)));
     } catch {
       return null; // the single pass reports it
@@ -68,4 +85,3 @@ export function survey(file: string, size: number, parts: number): { meta: CsvMe
     fs.closeSync(fd);
   }
 }
-

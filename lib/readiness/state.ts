@@ -66,7 +66,9 @@ export function stateOf(scan: Scan, engineVersion: string, planHash: string): En
       missing: c.missing.count,
       moments: c.moments.n > 0 ? c.moments.toJSON() : null,
       sample: { values: c.quant ? c.quant.sample(STATE_SAMPLE) : [], weight: c.moments.n },
-      levels: c.levels ? [...c.levels.entries()].map(([l, a]) => [l, a.count, a.complete] as [string, number, number]) : null,
+      levels: c.levels
+        ? [...c.levels.entries()].map(([l, a]) => [l, a.count, a.complete] as [string, number, number])
+        : null,
       levelOverflow: c.levelOverflow,
     })),
   };
@@ -74,7 +76,12 @@ export function stateOf(scan: Scan, engineVersion: string, planHash: string): En
 
 /** Check that a stored value is an engine state (states come back from the database). */
 export function isEngineState(s: unknown): s is EngineState {
-  return typeof s === "object" && s !== null && (s as EngineState).kind === STATE_KIND && (s as EngineState).version === 1;
+  return (
+    typeof s === "object" &&
+    s !== null &&
+    (s as EngineState).kind === STATE_KIND &&
+    (s as EngineState).version === 1
+  );
 }
 
 function mergeColumn(a: ColumnState, b: ColumnState): ColumnState {
@@ -82,7 +89,8 @@ function mergeColumn(a: ColumnState, b: ColumnState): ColumnState {
   if (b.moments) m.merge(b.moments);
   // pooled sample: each side's values carry its weight; resample to STATE_SAMPLE by weighted quantiles
   const pts: [number, number][] = [];
-  for (const s of [a.sample, b.sample]) for (const v of s.values) pts.push([v, s.weight / Math.max(1, s.values.length)]);
+  for (const s of [a.sample, b.sample])
+    for (const v of s.values) pts.push([v, s.weight / Math.max(1, s.values.length)]);
   pts.sort((x, y) => x[0] - y[0]);
   const totalW = pts.reduce((t, p) => t + p[1], 0);
   const values: number[] = [];
@@ -109,7 +117,12 @@ function mergeColumn(a: ColumnState, b: ColumnState): ColumnState {
   }
   return {
     name: a.name,
-    inferredType: a.inferredType === b.inferredType || b.inferredType === "empty" ? a.inferredType : a.inferredType === "empty" ? b.inferredType : a.inferredType,
+    inferredType:
+      a.inferredType === b.inferredType || b.inferredType === "empty"
+        ? a.inferredType
+        : a.inferredType === "empty"
+          ? b.inferredType
+          : a.inferredType,
     total: a.total + b.total,
     missing: a.missing + b.missing,
     moments: m.n > 0 ? m.toJSON() : null,
@@ -123,7 +136,10 @@ function mergeColumn(a: ColumnState, b: ColumnState): ColumnState {
  * Merge states of batches checked against the same plan. Design columns are united (a level
  * one batch lacks is a zero column there) before the least-squares factors are merged.
  */
-export function mergeStates(states: EngineState[], designColumns: (levels: Record<string, string[]>) => string[]): EngineState {
+export function mergeStates(
+  states: EngineState[],
+  designColumns: (levels: Record<string, string[]>) => string[],
+): EngineState {
   if (states.length === 0) throw new RangeError("mergeStates needs at least one state");
   const levels: Record<string, string[]> = {};
   for (const s of states) {
@@ -136,7 +152,8 @@ export function mergeStates(states: EngineState[], designColumns: (levels: Recor
   let ls: LeastSquares | null = null;
   for (const s of states) {
     let part = LeastSquares.fromJSON(s.ls);
-    if (part.k !== columns.length || s.design.columns.some((c, i) => c !== columns[i])) part = part.expandColumns(s.design.columns, columns);
+    if (part.k !== columns.length || s.design.columns.some((c, i) => c !== columns[i]))
+      part = part.expandColumns(s.design.columns, columns);
     if (!ls) ls = part;
     else ls.merge(part);
   }
@@ -173,7 +190,10 @@ export function mergeStates(states: EngineState[], designColumns: (levels: Recor
     engineVersion: first.engineVersion,
     planHash: first.planHash,
     header,
-    rows: { total: states.reduce((t, s) => t + s.rows.total, 0), complete: states.reduce((t, s) => t + s.rows.complete, 0) },
+    rows: {
+      total: states.reduce((t, s) => t + s.rows.total, 0),
+      complete: states.reduce((t, s) => t + s.rows.complete, 0),
+    },
     design: { columns, levels },
     ls: ls!.toJSON() as LeastSquaresJSON,
     pm: pm ? pm.toJSON() : null,

@@ -98,7 +98,15 @@ export class Tokenizer {
     this.append(chunk);
     this.run(last);
     if (this.count > 0) {
-      const b: FieldBatch = { buf: this.buf, starts: this.starts, ends: this.ends, recs: this.recs, lines: this.lines, first: 0, count: this.count };
+      const b: FieldBatch = {
+        buf: this.buf,
+        starts: this.starts,
+        ends: this.ends,
+        recs: this.recs,
+        lines: this.lines,
+        first: 0,
+        count: this.count,
+      };
       if (this.rawEnds) {
         b.rawEnds = this.rawEnds;
         b.recOffsets = this.recOffsets!;
@@ -112,7 +120,12 @@ export class Tokenizer {
     this.nf = open;
     this.count = 0;
     this.recs[0] = 0;
-    if (this.len - this.recStart > this.limits.maxRecordBytes) throw recordTooLong(this.recLine, this.at === At.Quoted || this.at === At.QuoteSeen, this.limits.maxRecordBytes);
+    if (this.len - this.recStart > this.limits.maxRecordBytes)
+      throw recordTooLong(
+        this.recLine,
+        this.at === At.Quoted || this.at === At.QuoteSeen,
+        this.limits.maxRecordBytes,
+      );
   }
 
   private append(chunk: Uint8Array): void {
@@ -143,7 +156,13 @@ export class Tokenizer {
 
   /** `raw`: the buffer index just past the field's raw text (its closing quote and anything after it) */
   private endField(s: number, e: number, raw: number): void {
-    if (e - s > this.limits.maxFieldBytes) throw fieldTooLong(this.recLine, this.nf - this.recs[this.count]! + 1, e - s, this.limits.maxFieldBytes);
+    if (e - s > this.limits.maxFieldBytes)
+      throw fieldTooLong(
+        this.recLine,
+        this.nf - this.recs[this.count]! + 1,
+        e - s,
+        this.limits.maxFieldBytes,
+      );
     if (this.nf >= this.starts.length) {
       this.starts = grow(this.starts, this.nf + 1);
       this.ends = grow(this.ends, this.nf + 1);

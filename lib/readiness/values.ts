@@ -46,7 +46,10 @@ function isPlainNumber(t: string): boolean {
  * to be a finite double (`1e999`, a run of 400 digits). Leading and trailing spaces are
  * allowed; hex, `Infinity` and thousands separators are not.
  */
-export const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
+export const POW10 = [
+  1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19,
+  1e20, 1e21, 1e22,
+];
 
 export function readNumber(s: string): number {
   const n = s.length;
@@ -132,7 +135,20 @@ function digits(s: string, from: number, to: number): number {
 
 export function validYmd(y: number, m: number, d: number): boolean {
   if (m < 1 || m > 12 || d < 1) return false;
-  const days = [31, (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0 ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1]!;
+  const days = [
+    31,
+    (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0 ? 29 : 28,
+    31,
+    30,
+    31,
+    30,
+    31,
+    31,
+    30,
+    31,
+    30,
+    31,
+  ][m - 1]!;
   return d <= days;
 }
 
@@ -154,14 +170,20 @@ export function parseDate(s: string): DateParse {
   if (p) {
     const a = +p[1]!;
     const b = +p[2]!;
-    if ((a >= 1 && a <= 31 && b >= 1 && b <= 12) || (b >= 1 && b <= 31 && a >= 1 && a <= 12)) return { kind: "pair", a, b };
+    if ((a >= 1 && a <= 31 && b >= 1 && b <= 12) || (b >= 1 && b <= 31 && a >= 1 && a <= 12))
+      return { kind: "pair", a, b };
   }
   return { kind: "bad" };
 }
 
 /** Trim, lower-case and strip accents: `Clay `, `clay` and `Cláy` fold to the same key. */
 export function foldLevel(s: string): string {
-  return s.trim().toLowerCase().normalize("NFD").replace(/[\u0300-\u036f]/g, "").replace(/\s+/g, " ");
+  return s
+    .trim()
+    .toLowerCase()
+    .normalize("NFD")
+    .replace(/[\u0300-\u036f]/g, "")
+    .replace(/\s+/g, " ");
 }
 
 /** True when a and b are at most one edit (insert, delete or substitute) apart. */

@@ -4,7 +4,12 @@
  */
 import { buildDesign, predictorsOf, DEFAULT_THRESHOLDS, type Plan, type PlanInput } from "@/lib/readiness";
 
-export type ModelTerm = { term: string; kind: "numeric" | "boolean" | "category" | "interaction"; df: number; columns: string[] };
+export type ModelTerm = {
+  term: string;
+  kind: "numeric" | "boolean" | "category" | "interaction";
+  df: number;
+  columns: string[];
+};
 
 export type ModelSize = {
   terms: ModelTerm[];

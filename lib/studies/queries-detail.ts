@@ -54,10 +54,15 @@ export async function listStudiesForUser(user: SessionUser): Promise<StudySummar
 }
 
 /** One study by numeric id or slug, or null when it does not exist or is outside the user's scope. */
-export async function getStudyForUser(user: SessionUser, idOrSlug: number | string): Promise<StudyDetail | null> {
+export async function getStudyForUser(
+  user: SessionUser,
+  idOrSlug: number | string,
+): Promise<StudyDetail | null> {
   const db = getDb();
   const key =
-    typeof idOrSlug === "number" || /^\d+$/.test(idOrSlug) ? eq(studies.id, Number(idOrSlug)) : eq(studies.slug, String(idOrSlug));
+    typeof idOrSlug === "number" || /^\d+$/.test(idOrSlug)
+      ? eq(studies.id, Number(idOrSlug))
+      : eq(studies.slug, String(idOrSlug));
   const rows = await db
     .select(studyColumns)
     .from(studies)
@@ -71,7 +76,12 @@ export async function getStudyForUser(user: SessionUser, idOrSlug: number | stri
     study.currentPlanVersion == null
       ? Promise.resolve([])
       : db
-          .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan, createdAt: dataPlans.createdAt })
+          .select({
+            id: dataPlans.id,
+            version: dataPlans.version,
+            plan: dataPlans.plan,
+            createdAt: dataPlans.createdAt,
+          })
           .from(dataPlans)
           .where(and(eq(dataPlans.studyId, study.id), eq(dataPlans.version, study.currentPlanVersion)))
           .limit(1),
@@ -81,7 +91,10 @@ export async function getStudyForUser(user: SessionUser, idOrSlug: number | stri
       .innerJoin(organisations, eq(organisations.id, studyProviders.organisationId))
       .where(
         user.role === "provider"
-          ? and(eq(studyProviders.studyId, study.id), eq(studyProviders.organisationId, user.organisationId ?? 0))
+          ? and(
+              eq(studyProviders.studyId, study.id),
+              eq(studyProviders.organisationId, user.organisationId ?? 0),
+            )
           : eq(studyProviders.studyId, study.id),
       )
       .orderBy(asc(organisations.name)),

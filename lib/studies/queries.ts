@@ -25,7 +25,10 @@ export async function listStudyRowsForUser(user: SessionUser): Promise<StudyList
       .innerJoin(organisations, eq(organisations.id, studyProviders.organisationId))
       .where(
         user.role === "provider"
-          ? and(inArray(studyProviders.studyId, ids), eq(studyProviders.organisationId, user.organisationId ?? 0))
+          ? and(
+              inArray(studyProviders.studyId, ids),
+              eq(studyProviders.organisationId, user.organisationId ?? 0),
+            )
           : inArray(studyProviders.studyId, ids),
       )
       .orderBy(asc(organisations.name)),
@@ -45,12 +48,23 @@ export async function listStudyRowsForUser(user: SessionUser): Promise<StudyList
   }));
 }
 
-export type PlanVersionRow = { id: number; version: number; planHash: string; note: string | null; createdAt: Date; createdByName: string | null };
+export type PlanVersionRow = {
+  id: number;
+  version: number;
+  planHash: string;
+  note: string | null;
+  createdAt: Date;
+  createdByName: string | null;
+};
 
 /** Every plan version of a study, newest first; empty when the study is outside the user's scope. */
 export async function listPlanVersionsForUser(user: SessionUser, studyId: number): Promise<PlanVersionRow[]> {
   const db = getDb();
-  const visible = await db.select({ id: studies.id }).from(studies).where(and(eq(studies.id, studyId), studyScope(user))).limit(1);
+  const visible = await db
+    .select({ id: studies.id })
+    .from(studies)
+    .where(and(eq(studies.id, studyId), studyScope(user)))
+    .limit(1);
   if (visible.length === 0) return [];
   return db
     .select({
@@ -70,7 +84,9 @@ export async function listPlanVersionsForUser(user: SessionUser, studyId: number
 export type Option = { id: number; name: string; detail?: string };
 
 /** Active analysts and provider organisations to choose from (study.manage only; empty otherwise). */
-export async function listMembershipCandidates(user: SessionUser): Promise<{ analysts: Option[]; providers: Option[] }> {
+export async function listMembershipCandidates(
+  user: SessionUser,
+): Promise<{ analysts: Option[]; providers: Option[] }> {
   if (!can(user.role, "study.manage")) return { analysts: [], providers: [] };
   const db = getDb();
   const [analysts, providers] = await Promise.all([
@@ -79,7 +95,11 @@ export async function listMembershipCandidates(user: SessionUser): Promise<{ ana
       .from(users)
       .where(and(eq(users.role, "analyst"), eq(users.active, true)))
       .orderBy(asc(users.name)),
-    db.select({ id: organisations.id, name: organisations.name }).from(organisations).where(eq(organisations.kind, "provider")).orderBy(asc(organisations.name)),
+    db
+      .select({ id: organisations.id, name: organisations.name })
+      .from(organisations)
+      .where(eq(organisations.kind, "provider"))
+      .orderBy(asc(organisations.name)),
   ]);
   return { analysts, providers };
 }
@@ -87,7 +107,11 @@ export async function listMembershipCandidates(user: SessionUser): Promise<{ ana
 /** Team organisations that may run a study (study.manage only). */
 export async function listTeamOrganisations(user: SessionUser): Promise<Option[]> {
   if (!can(user.role, "study.manage")) return [];
-  return getDb().select({ id: organisations.id, name: organisations.name }).from(organisations).where(eq(organisations.kind, "team")).orderBy(asc(organisations.name));
+  return getDb()
+    .select({ id: organisations.id, name: organisations.name })
+    .from(organisations)
+    .where(eq(organisations.kind, "team"))
+    .orderBy(asc(organisations.name));
 }
 
 export type CurrentPlan = {
@@ -104,7 +128,10 @@ export type CurrentPlan = {
  * A study's current data plan by numeric id or slug: null when the study is outside the user's
  * scope (lib/studies/queries-detail.ts getStudyForUser), or has no plan yet (`{ study }` without a plan).
  */
-export async function getCurrentPlanForUser(user: SessionUser, idOrSlug: string | number): Promise<{ found: false } | { found: true; plan: CurrentPlan | null }> {
+export async function getCurrentPlanForUser(
+  user: SessionUser,
+  idOrSlug: string | number,
+): Promise<{ found: false } | { found: true; plan: CurrentPlan | null }> {
   const study = await getStudyForUser(user, idOrSlug);
   if (!study) return { found: false };
   if (!study.currentPlan) return { found: true, plan: null };

@@ -9,11 +9,21 @@ const slug = z
   .toLowerCase()
   .min(2, "Give the study a short address of at least 2 characters, e.g. barley-nitrogen.")
   .max(100, "Keep the address to 100 characters or fewer.")
-  .regex(SLUG_PATTERN, "Use lower-case letters, digits and dashes only, starting and ending with a letter or digit.")
-  .refine((s) => !/^\d+$/.test(s), "An address made only of digits would be mistaken for a study number; add a letter.")
+  .regex(
+    SLUG_PATTERN,
+    "Use lower-case letters, digits and dashes only, starting and ending with a letter or digit.",
+  )
+  .refine(
+    (s) => !/^\d+$/.test(s),
+    "An address made only of digits would be mistaken for a study number; add a letter.",
+  )
   .refine((s) => s !== "new", '"new" is reserved for the page that creates a study; choose another address.');
 
-const title = z.string().trim().min(3, "Give the study a title of at least 3 characters.").max(300, "Keep the title to 300 characters or fewer.");
+const title = z
+  .string()
+  .trim()
+  .min(3, "Give the study a title of at least 3 characters.")
+  .max(300, "Keep the title to 300 characters or fewer.");
 
 const description = z
   .string()
@@ -25,7 +35,11 @@ const description = z
 /** Form fields arrive as strings: an empty select means "none". */
 const optionalId = z.preprocess(
   (v) => (v === "" || v === null || v === undefined ? null : v),
-  z.coerce.number().int("Choose an organisation from the list.").positive("Choose an organisation from the list.").nullable(),
+  z.coerce
+    .number()
+    .int("Choose an organisation from the list.")
+    .positive("Choose an organisation from the list.")
+    .nullable(),
 );
 
 export const createStudySchema = z.object({
@@ -62,4 +76,7 @@ export const planNoteSchema = z
   .nullable()
   .transform((s) => (s ? s : null));
 
-export const memberIdSchema = z.coerce.number({ message: "Choose someone from the list." }).int().positive("Choose someone from the list.");
+export const memberIdSchema = z.coerce
+  .number({ message: "Choose someone from the list." })
+  .int()
+  .positive("Choose someone from the list.");

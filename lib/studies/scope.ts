@@ -15,10 +15,16 @@ export function studyScope(user: SessionUser): SQL | undefined {
       if (user.organisationId == null) return NOTHING;
       return inArray(
         studies.id,
-        db.select({ id: studyProviders.studyId }).from(studyProviders).where(eq(studyProviders.organisationId, user.organisationId)),
+        db
+          .select({ id: studyProviders.studyId })
+          .from(studyProviders)
+          .where(eq(studyProviders.organisationId, user.organisationId)),
       );
     case "analyst":
-      return inArray(studies.id, db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)));
+      return inArray(
+        studies.id,
+        db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)),
+      );
     case "lead":
     case "admin":
       return undefined;
@@ -34,7 +40,10 @@ export function batchScope(user: SessionUser): SQL | undefined {
       if (user.organisationId == null) return NOTHING;
       return eq(batches.organisationId, user.organisationId);
     case "analyst":
-      return inArray(batches.studyId, db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)));
+      return inArray(
+        batches.studyId,
+        db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)),
+      );
     case "lead":
     case "admin":
       return undefined;

@@ -15,16 +15,31 @@ export interface UploadBody {
 }
 
 /** A multipart/form-data body with the fields `study`, `label` and `file` (text/csv). */
-export function multipartUpload(token: string, studySlug: string, label: string, fileName: string, csv: string): { headers: Record<string, string>; body: Buffer } {
+export function multipartUpload(
+  token: string,
+  studySlug: string,
+  label: string,
+  fileName: string,
+  csv: string,
+): { headers: Record<string, string>; body: Buffer } {
   const boundary = `----tributary-load-${randomBytes(12).toString("hex")}`;
-  const field = (name: string, value: string) => `--${boundary}\r\nContent-Disposition: form-data; name="${name}"\r\n\r\n${value}\r\n`;
+  const field = (name: string, value: string) =>
+    `--${boundary}\r\nContent-Disposition: form-data; name="${name}"\r\n\r\n${value}\r\n`;
   const body = Buffer.concat([
     Buffer.from(field("study", studySlug) + field("label", label)),
-    Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${fileName}"\r\nContent-Type: text/csv\r\n\r\n`),
+    Buffer.from(
+      `--${boundary}\r\nContent-Disposition: form-data; name="file"; filename="${fileName}"\r\nContent-Type: text/csv\r\n\r\n`,
+    ),
     Buffer.from(csv, "utf8"),
     Buffer.from(`\r\n--${boundary}--\r\n`),
   ]);
-  return { headers: { authorization: `Bearer ${token}`, "content-type": `multipart/form-data; boundary=${boundary}` }, body };
+  return {
+    headers: {
+      authorization: `Bearer ${token}`,
+      "content-type": `multipart/form-data; boundary=${boundary}`,
+    },
+    body,
+  };
 }
 
 /** Provider k's batch: `rows` plot rows from seed 7000 + k, as the upload body. */

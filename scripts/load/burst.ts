@@ -12,16 +12,27 @@ export interface Burst {
   kill(): void;
 }
 
-export function prepareBurst(root: string, accountsFile: string, origin: string, rows: number, timeoutS: number): Burst {
-  const child = spawn(path.join(root, "node_modules", ".bin", "tsx"), ["scripts/load/upload-burst.ts", accountsFile, origin, String(rows), String(timeoutS)], {
-    cwd: root,
-    stdio: ["pipe", "pipe", "inherit"],
-  });
+export function prepareBurst(
+  root: string,
+  accountsFile: string,
+  origin: string,
+  rows: number,
+  timeoutS: number,
+): Burst {
+  const child = spawn(
+    path.join(root, "node_modules", ".bin", "tsx"),
+    ["scripts/load/upload-burst.ts", accountsFile, origin, String(rows), String(timeoutS)],
+    {
+      cwd: root,
+      stdio: ["pipe", "pipe", "inherit"],
+    },
+  );
   const messages: ((line: string) => void)[] = [];
   const failures: ((e: Error) => void)[] = [];
   createInterface({ input: child.stdout }).on("line", (line) => messages.shift()?.(line));
   child.once("exit", (code) => {
-    for (const fail of failures.splice(0)) fail(new Error(`the upload sender stopped (exit ${code}) before it answered`));
+    for (const fail of failures.splice(0))
+      fail(new Error(`the upload sender stopped (exit ${code}) before it answered`));
   });
   const next = () =>
     new Promise<string>((resolve, reject) => {

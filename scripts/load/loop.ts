@@ -26,7 +26,11 @@ export function watchOwnLoop(): () => number {
 }
 
 /** The app's stalls between `from` and `to` (Date.now() clock), read from its log. */
-export function appLoopStalls(logFile: string, from: number, to: number): { maxMs: number | null; secondsOver100Ms: number } {
+export function appLoopStalls(
+  logFile: string,
+  from: number,
+  to: number,
+): { maxMs: number | null; secondsOver100Ms: number } {
   let text = "";
   try {
     text = readFileSync(logFile, "utf8");

@@ -25,57 +25,97 @@ function intArg(name: string, fallback: number): number {
   const i = process.argv.indexOf(name);
   if (i < 0) return fallback;
   const n = Number(process.argv[i + 1]);
-  if (!Number.isInteger(n) || n < 1 || n > 200) throw new Error(`${name} takes a whole number from 1 to 200.`);
+  if (!Number.isInteger(n) || n < 1 || n > 200)
+    throw new Error(`${name} takes a whole number from 1 to 200.`);
   return n;
 }
 
 function must<T>(what: string, r: Result<T>): T {
-  if (!r.ok) throw new Error(`${what}: ${r.message}${r.fieldErrors ? ` ${JSON.stringify(r.fieldErrors)}` : ""}`);
+  if (!r.ok)
+    throw new Error(`${what}: ${r.message}${r.fieldErrors ? ` ${JSON.stringify(r.fieldErrors)}` : ""}`);
   return r.data;
 }
 
 async function main(): Promise<void> {
   const out = process.argv[2];
-  if (!out || out.startsWith("--")) throw new Error("usage: setup.ts OUT.json [--providers N] [--analysts N]");
+  if (!out || out.startsWith("--"))
+    throw new Error("usage: setup.ts OUT.json [--providers N] [--analysts N]");
   const nProviders = intArg("--providers", 20);
   const nAnalysts = intArg("--analysts", 20);
   const db = getDb();
-  const [admin] = await db.select({ id: users.id }).from(users).where(eq(users.email, "admin@tributary.test"));
+  const [admin] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "admin@tributary.test"));
   if (!admin) throw new Error("the demo admin is missing: run the demo seed (tsx db/seed.ts) first.");
   const barley = DEMO_STUDIES.find((s) => s.slug === "barley-nitrogen");
   if (!barley) throw new Error("the barley demo study is missing from lib/demo.");
   const password = `load-${randomBytes(12).toString("hex")}`;
 
-  const study = must("create the load study", await createStudy(admin.id, {
-    slug: LOAD_STUDY_SLUG,
-    title: "Load test: spring barley nitrogen response",
-    description: "Invented batches sent by the load script (npm run load).",
-    teamOrganisationId: null,
-  }));
-  must("publish the load study's data plan", await publishPlanVersion(admin.id, study.id, barley.plan, "the barley demo plan"));
+  const study = must(
+    "create the load study",
+    await createStudy(admin.id, {
+      slug: LOAD_STUDY_SLUG,
+      title: "Load test: spring barley nitrogen response",
+      description: "Invented batches sent by the load script (npm run load).",
+      teamOrganisationId: null,
+    }),
+  );
+  must(
+    "publish the load study's data plan",
+    await publishPlanVersion(admin.id, study.id, barley.plan, "the barley demo plan"),
+  );
 
-  const orgSlugs = Array.from({ length: nProviders }, (_, i) => `load-farm-${String(i + 1).padStart(2, "0")}`);
-  await db.insert(organisations).values(orgSlugs.map((slug, i) => ({ slug, name: `Load Farm ${i + 1}`, kind: "provider" as const })));
-  const orgs = await db.select({ id: organisations.id, slug: organisations.slug }).from(organisations).where(inArray(organisations.slug, orgSlugs));
+  const orgSlugs = Array.from(
+    { length: nProviders },
+    (_, i) => `load-farm-${String(i + 1).padStart(2, "0")}`,
+  );
+  await db
+    .insert(organisations)
+    .values(orgSlugs.map((slug, i) => ({ slug, name: `Load Farm ${i + 1}`, kind: "provider" as const })));
+  const orgs = await db
+    .select({ id: organisations.id, slug: organisations.slug })
+    .from(organisations)
+    .where(inArray(organisations.slug, orgSlugs));
   const orgId = (slug: string) => orgs.find((o) => o.slug === slug)?.id ?? NaN;
 
   const accounts: LoadAccounts = { studySlug: LOAD_STUDY_SLUG, providers: [], analysts: [] };
   for (const [i, slug] of orgSlugs.entries()) {
     must(`admit ${slug}`, await admitProvider(admin.id, study.id, orgId(slug)));
     const email = `provider@${slug}.test`;
-    const user = must(`create ${email}`, await createUser(admin.id, { email, name: `Provider ${i + 1}`, role: "provider", organisationId: orgId(slug), password }));
+    const user = must(
+      `create ${email}`,
+      await createUser(admin.id, {
+        email,
+        name: `Provider ${i + 1}`,
+        role: "provider",
+        organisationId: orgId(slug),
+        password,
+      }),
+    );
     const token = must(`token for ${email}`, await createApiToken(user.id, { name: "load test" }));
     accounts.providers.push({ email, organisation: slug, token: token.token });
   }
   for (let i = 0; i < nAnalysts; i++) {
     const email = `analyst${String(i + 1).padStart(2, "0")}@load.test`;
-    const user = must(`create ${email}`, await createUser(admin.id, { email, name: `Load analyst ${i + 1}`, role: "analyst", organisationId: null, password }));
+    const user = must(
+      `create ${email}`,
+      await createUser(admin.id, {
+        email,
+        name: `Load analyst ${i + 1}`,
+        role: "analyst",
+        organisationId: null,
+        password,
+      }),
+    );
     must(`assign ${email}`, await assignAnalyst(admin.id, study.id, user.id));
     const token = must(`token for ${email}`, await createApiToken(user.id, { name: "load test" }));
     accounts.analysts.push({ email, token: token.token });
   }
   writeFileSync(out, JSON.stringify(accounts, null, 2), { mode: 0o600 });
-  console.log(`[load-setup] study ${LOAD_STUDY_SLUG}: ${nProviders} providers and ${nAnalysts} analysts with API tokens`);
+  console.log(
+    `[load-setup] study ${LOAD_STUDY_SLUG}: ${nProviders} providers and ${nAnalysts} analysts with API tokens`,
+  );
 }
 
 try {

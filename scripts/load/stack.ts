@@ -16,7 +16,12 @@ export interface Stack {
 }
 
 /** Starts the stack and resolves once it prints "ready" (rejects when it exits first or `limitMs` passes). */
-export function startStack(root: string, setupArgs: string[], limitMs: number, log: (line: string) => void): Promise<Stack> {
+export function startStack(
+  root: string,
+  setupArgs: string[],
+  limitMs: number,
+  log: (line: string) => void,
+): Promise<Stack> {
   const dir = path.join(root, ".data", "load");
   mkdirSync(dir, { recursive: true });
   const out = createWriteStream(path.join(dir, "server.log"));
@@ -61,11 +66,21 @@ export function startStack(root: string, setupArgs: string[], limitMs: number, l
     child.stdout?.on("data", feed);
     child.stderr?.on("data", feed);
     const timer = setTimeout(() => {
-      void stop().then(() => reject(new Error(`the load stack was not ready within ${Math.round(limitMs / 1000)} s (log: .data/load/server.log)`)));
+      void stop().then(() =>
+        reject(
+          new Error(
+            `the load stack was not ready within ${Math.round(limitMs / 1000)} s (log: .data/load/server.log)`,
+          ),
+        ),
+      );
     }, limitMs);
     void exitedP.then(() => {
       clearTimeout(timer);
-      reject(new Error(`the load stack stopped during start-up (exit ${child.exitCode ?? child.signalCode}); see .data/load/server.log`));
+      reject(
+        new Error(
+          `the load stack stopped during start-up (exit ${child.exitCode ?? child.signalCode}); see .data/load/server.log`,
+        ),
+      );
     });
   });
 }

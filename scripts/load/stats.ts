@@ -65,7 +65,14 @@ export class Recorder {
   }
 
   /** One answer: its status, latency (ms), size in bytes, and body (kept for the first few errors). */
-  response(endpoint: Endpoint, status: number, latencyMs: number, bytes: number, body?: string, answeredAt = Date.now()): void {
+  response(
+    endpoint: Endpoint,
+    status: number,
+    latencyMs: number,
+    bytes: number,
+    body?: string,
+    answeredAt = Date.now(),
+  ): void {
     const now = answeredAt;
     if (now - latencyMs < this.from) return;
     const s = this.of(endpoint);
@@ -76,7 +83,8 @@ export class Recorder {
     s.bytes += bytes;
     s.first = Math.min(s.first, now - latencyMs);
     s.last = Math.max(s.last, now);
-    if ((status < 200 || status > 299) && s.errorSamples.length < 5) s.errorSamples.push(`${status} ${(body ?? "").slice(0, 300)}`);
+    if ((status < 200 || status > 299) && s.errorSamples.length < 5)
+      s.errorSamples.push(`${status} ${(body ?? "").slice(0, 300)}`);
   }
 
   socketError(endpoint: Endpoint, error: Error): void {
@@ -86,10 +94,21 @@ export class Recorder {
   }
 
   /** Latency percentiles of the answers that arrived in [from, to) (Date.now() clock). */
-  window(endpoint: Endpoint, from: number, to: number): { requests: number; p50: number | null; p95: number | null; p99: number | null } {
+  window(
+    endpoint: Endpoint,
+    from: number,
+    to: number,
+  ): { requests: number; p50: number | null; p95: number | null; p99: number | null } {
     const s = this.of(endpoint);
-    const sorted = s.latencies.filter((_, i) => (s.at[i] ?? 0) >= from && (s.at[i] ?? 0) < to).sort((a, b) => a - b);
-    return { requests: sorted.length, p50: percentile(sorted, 50), p95: percentile(sorted, 95), p99: percentile(sorted, 99) };
+    const sorted = s.latencies
+      .filter((_, i) => (s.at[i] ?? 0) >= from && (s.at[i] ?? 0) < to)
+      .sort((a, b) => a - b);
+    return {
+      requests: sorted.length,
+      p50: percentile(sorted, 50),
+      p95: percentile(sorted, 95),
+      p99: percentile(sorted, 99),
+    };
   }
 
   /** Every answer as [ms since `origin` when it arrived, latency ms, status], for a timeline. */
@@ -101,7 +120,10 @@ export class Recorder {
   figures(endpoint: Endpoint): EndpointFigures {
     const s = this.of(endpoint);
     const sorted = [...s.latencies].sort((a, b) => a - b);
-    const ok2xx = Object.entries(s.statusCodes).reduce((n, [code, c]) => (code.startsWith("2") ? n + c : n), 0);
+    const ok2xx = Object.entries(s.statusCodes).reduce(
+      (n, [code, c]) => (code.startsWith("2") ? n + c : n),
+      0,
+    );
     const window = (s.last - s.first) / 1000;
     const round = (x: number | null) => (x === null ? null : Math.round(x * 10) / 10);
     return {
@@ -129,7 +151,11 @@ function pad(cells: string[], widths: number[]): string {
 /** A plain-text table (first column left-aligned, the rest right-aligned). */
 export function table(header: string[], rows: string[][]): string {
   const widths = header.map((h, i) => Math.max(h.length, ...rows.map((r) => (r[i] ?? "").length)));
-  return [pad(header, widths), widths.map((w) => "-".repeat(w)).join("  "), ...rows.map((r) => pad(r, widths))].join("\n");
+  return [
+    pad(header, widths),
+    widths.map((w) => "-".repeat(w)).join("  "),
+    ...rows.map((r) => pad(r, widths)),
+  ].join("\n");
 }
 
 export const ms = (x: number | null) => (x === null ? "–" : `${x.toFixed(0)} ms`);

@@ -40,7 +40,12 @@ export function lastUploadToLastReport(p: CheckProgress): number | null {
 }
 
 /** The targets of issue 7: no errors, every batch reported, queue and report p95 under the limit. */
-export function evaluate(s: RunSettings, figs: EndpointFigures[], uploads: UploadOutcome[], p: CheckProgress): Target[] {
+export function evaluate(
+  s: RunSettings,
+  figs: EndpointFigures[],
+  uploads: UploadOutcome[],
+  p: CheckProgress,
+): Target[] {
   const errors = figs.reduce((n, f) => n + f.non2xx + f.socketErrors, 0);
   const accepted = uploads.filter((u) => u.status === 201).length;
   const targets: Target[] = [
@@ -68,7 +73,21 @@ export function evaluate(s: RunSettings, figs: EndpointFigures[], uploads: Uploa
 }
 
 /** The compact table and the lines under it. */
-export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadOutcome[], p: CheckProgress, targets: Target[], extra: { checksWindowMs: number | null; uploadBurstMs: number | null; loadAvg: string; reportsOpened: number; phases: PhaseFigures[]; loop: LoopFigures }): string {
+export function render(
+  s: RunSettings,
+  figs: EndpointFigures[],
+  uploads: UploadOutcome[],
+  p: CheckProgress,
+  targets: Target[],
+  extra: {
+    checksWindowMs: number | null;
+    uploadBurstMs: number | null;
+    loadAvg: string;
+    reportsOpened: number;
+    phases: PhaseFigures[];
+    loop: LoopFigures;
+  },
+): string {
   const rows = figs.map((f) => [
     LABEL[f.endpoint] ?? f.endpoint,
     String(f.requests),
@@ -87,8 +106,26 @@ export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadO
     table(["endpoint", "requests", "req/s", "p50", "p95", "p99", "max", "non-2xx", "socket errors"], rows),
     "",
     table(
-      ["analysts' requests by phase", "window", "queue n", "queue p50", "queue p95", "report n", "report p50", "report p95"],
-      extra.phases.map((ph) => [ph.name, `${ph.seconds.toFixed(1)} s`, String(ph.queue.requests), ms(ph.queue.p50), ms(ph.queue.p95), String(ph.report.requests), ms(ph.report.p50), ms(ph.report.p95)]),
+      [
+        "analysts' requests by phase",
+        "window",
+        "queue n",
+        "queue p50",
+        "queue p95",
+        "report n",
+        "report p50",
+        "report p95",
+      ],
+      extra.phases.map((ph) => [
+        ph.name,
+        `${ph.seconds.toFixed(1)} s`,
+        String(ph.queue.requests),
+        ms(ph.queue.p50),
+        ms(ph.queue.p95),
+        String(ph.report.requests),
+        ms(ph.report.p50),
+        ms(ph.report.p95),
+      ]),
     ),
     "",
     `uploads accepted         ${uploads.filter((u) => u.status === 201).length}/${s.providers} (first sent → last accepted ${secs(extra.uploadBurstMs)})`,
@@ -96,7 +133,9 @@ export function render(s: RunSettings, figs: EndpointFigures[], uploads: UploadO
     `reports opened           ${extra.reportsOpened} distinct batch versions with a stored report`,
     `last upload → last report ${secs(lastUploadToLastReport(p))}`,
     `checks                   ${rowsTotal.toLocaleString("en")} rows in ${secs(extra.checksWindowMs)} from first upload to last report` +
-      (extra.checksWindowMs ? ` (${Math.round(rowsTotal / (extra.checksWindowMs / 1000)).toLocaleString("en")} rows/s)` : ""),
+      (extra.checksWindowMs
+        ? ` (${Math.round(rowsTotal / (extra.checksWindowMs / 1000)).toLocaleString("en")} rows/s)`
+        : ""),
     `event loop held up       app: longest ${ms(extra.loop.appMaxMs)} (${extra.loop.appSecondsOver100Ms} s with a stall of 100 ms or more); load generator: longest ${ms(extra.loop.generatorMaxMs)}`,
     `machine                  ${extra.loadAvg}`,
     "",

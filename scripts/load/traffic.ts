@@ -12,7 +12,10 @@ import type { Endpoint, Recorder } from "./stats";
 // autocannon samples its own summary every sampleInt ms; 1 ms (its default) costs CPU for nothing here
 const SAMPLE_MS = 250;
 
-function run(opts: autocannon.Options): { instance: autocannon.Instance; done: Promise<autocannon.Result | null> } {
+function run(opts: autocannon.Options): {
+  instance: autocannon.Instance;
+  done: Promise<autocannon.Result | null>;
+} {
   let instance!: autocannon.Instance;
   const done = new Promise<autocannon.Result | null>((resolve) => {
     instance = autocannon(opts, (err, result) => resolve(err ? null : result));
@@ -31,9 +34,21 @@ export interface UploadOutcome {
 }
 
 /** All uploads at once; resolves when each has its answer (or failed on the socket). */
-export async function runUploads(origin: string, bodies: UploadBody[], rec: Recorder, timeoutS: number): Promise<UploadOutcome[]> {
+export async function runUploads(
+  origin: string,
+  bodies: UploadBody[],
+  rec: Recorder,
+  timeoutS: number,
+): Promise<UploadOutcome[]> {
   const runs = bodies.map((b) => {
-    const out: UploadOutcome = { fileName: b.fileName, status: null, acceptedAt: null, batchId: null, version: null, error: null };
+    const out: UploadOutcome = {
+      fileName: b.fileName,
+      status: null,
+      acceptedAt: null,
+      batchId: null,
+      version: null,
+      error: null,
+    };
     let lastBody = "";
     const { instance, done } = run({
       url: origin,
@@ -62,7 +77,9 @@ export async function runUploads(origin: string, bodies: UploadBody[], rec: Reco
         },
       ],
     });
-    instance.on("response", (_client, status, bytes, latency) => rec.response("upload", status, latency, bytes, lastBody));
+    instance.on("response", (_client, status, bytes, latency) =>
+      rec.response("upload", status, latency, bytes, lastBody),
+    );
     instance.on("reqError", (e: Error) => {
       out.error = `socket: ${e.message}`;
       rec.socketError("upload", e);
@@ -82,7 +99,12 @@ export interface AnalystTraffic {
 type QueueItem = { batchId: string; version: number; state: string };
 
 /** Starts the analysts; they run until stop() or `maxSeconds`, whichever comes first. */
-export function startAnalysts(origin: string, tokens: string[], rec: Recorder, opts: { rate: number; maxSeconds: number }): AnalystTraffic {
+export function startAnalysts(
+  origin: string,
+  tokens: string[],
+  rec: Recorder,
+  opts: { rate: number; maxSeconds: number },
+): AnalystTraffic {
   const runs: Promise<unknown>[] = [];
   const instances: autocannon.Instance[] = [];
   const timers: NodeJS.Timeout[] = [];
@@ -134,7 +156,10 @@ export function startAnalysts(origin: string, tokens: string[], rec: Recorder, o
               if (!item) return null as unknown as autocannon.Request;
               inflight = "report";
               opening = `${item.batchId}/${item.version}`;
-              return { ...req, path: `/api/v1/batches/${encodeURIComponent(item.batchId)}/versions/${item.version}/report` };
+              return {
+                ...req,
+                path: `/api/v1/batches/${encodeURIComponent(item.batchId)}/versions/${item.version}/report`,
+              };
             },
             onResponse: (status, body) => {
               lastBody = body;
@@ -143,7 +168,9 @@ export function startAnalysts(origin: string, tokens: string[], rec: Recorder, o
           },
         ],
       });
-      instance.on("response", (_client, status, bytes, latency) => rec.response(inflight, status, latency, bytes, lastBody));
+      instance.on("response", (_client, status, bytes, latency) =>
+        rec.response(inflight, status, latency, bytes, lastBody),
+      );
       instance.on("reqError", (e: Error) => rec.socketError(inflight, e));
       instances.push(instance);
       runs.push(done);

@@ -6,7 +6,10 @@ import { watchPageProblems } from "./pages/csp-watch";
 
 const WRONG = "E-mail or password is wrong, or the account is deactivated.";
 
-test("admin creates a user, changes the role, deactivates them, and the account stops working", async ({ page, browser }) => {
+test("admin creates a user, changes the role, deactivates them, and the account stops working", async ({
+  page,
+  browser,
+}) => {
   const watch = watchPageProblems(page);
   // unique per run, so a retry against the same database does not collide
   const email = `e2e-${Date.now().toString(36)}@lowmoor.test`;
@@ -23,7 +26,13 @@ test("admin creates a user, changes the role, deactivates them, and the account 
   await expect(admin.createForm.locator("#new-email-error")).toContainText("e-mail address");
   await expect(admin.createForm.getByLabel("Name")).toHaveValue("Dana Rowe");
 
-  await admin.createUser({ name: "Dana Rowe", email, roleLabel: "Analyst", organisation: "Lowmoor Valley Crop Trials", password });
+  await admin.createUser({
+    name: "Dana Rowe",
+    email,
+    roleLabel: "Analyst",
+    organisation: "Lowmoor Valley Crop Trials",
+    password,
+  });
   await expect(admin.toast(`Account created for ${email}`)).toBeVisible();
   const row = admin.row(email);
   await expect(row).toContainText("Lowmoor Valley Crop Trials");

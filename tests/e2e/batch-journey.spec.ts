@@ -23,13 +23,17 @@ async function as(browser: Browser, email: string): Promise<Page> {
 async function openMail(page: Page, subject: RegExp): Promise<string> {
   await expect(async () => {
     await page.goto("/mailbox");
-    await expect(page.getByTestId("mailbox").getByRole("link", { name: subject }).first()).toBeVisible({ timeout: 2_000 });
+    await expect(page.getByTestId("mailbox").getByRole("link", { name: subject }).first()).toBeVisible({
+      timeout: 2_000,
+    });
   }).toPass({ timeout: 60_000 });
   await page.getByTestId("mailbox").getByRole("link", { name: subject }).first().click();
   return (await page.getByTestId("mail-text").textContent()) ?? "";
 }
 
-test("a provider sees the faults before upload, then the report with the variant level and the exact dependency", async ({ browser }) => {
+test("a provider sees the faults before upload, then the report with the variant level and the exact dependency", async ({
+  browser,
+}) => {
   const page = await as(browser, "provider@fennick.test");
   await page.goto("/upload");
   const batch = new BatchPage(page);
@@ -45,7 +49,9 @@ test("a provider sees the faults before upload, then the report with the variant
   await page.context().close();
 });
 
-test("the assigned analyst sees the same report and bounces it with two comments; another analyst cannot see it", async ({ browser }) => {
+test("the assigned analyst sees the same report and bounces it with two comments; another analyst cannot see it", async ({
+  browser,
+}) => {
   const other = await as(browser, "analyst2@lowmoor.test");
   await other.goto(`/batches/${batchId}`);
   await expect(other.getByRole("heading", { name: "Batch not found" })).toBeVisible();
@@ -56,14 +62,22 @@ test("the assigned analyst sees the same report and bounces it with two comments
   const batch = new BatchPage(page);
   await batch.waitForReport();
   await expect(batch.findings).toContainText("total_water_mm = irrigation_mm + rainfall_mm");
-  await batch.commentOnFinding("level.variant", "Write the soil level as clay, lower case, no trailing space.");
-  await batch.commentOnFinding("collinear.exact", "Send the plot gauge reading, not irrigation plus rainfall.");
+  await batch.commentOnFinding(
+    "level.variant",
+    "Write the soil level as clay, lower case, no trailing space.",
+  );
+  await batch.commentOnFinding(
+    "collinear.exact",
+    "Send the plot gauge reading, not irrigation plus rainfall.",
+  );
   await batch.decide("bounce", "Two fixes needed before this can join the pool.");
   await expect(page.getByTestId("decision")).toContainText("Bounced by Tobias Ferrell");
   await page.context().close();
 });
 
-test("the provider gets the e-mail with both comments and the link, downloads the rows at fault, and sends version 2 which resolves them", async ({ browser }) => {
+test("the provider gets the e-mail with both comments and the link, downloads the rows at fault, and sends version 2 which resolves them", async ({
+  browser,
+}) => {
   const page = await as(browser, "provider@fennick.test");
   const text = await openMail(page, /bounced/);
   expect(text).toContain("Write the soil level as clay");
@@ -72,8 +86,13 @@ test("the provider gets the e-mail with both comments and the link, downloads th
 
   await page.goto(`/batches/${batchId}`);
   // the rows at fault, with their finding codes, to fix in the provider's own tools
-  const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("rows-at-fault").click()]);
-  const faulty = await new Response(Readable.toWeb(await download.createReadStream()) as ReadableStream).text();
+  const [download] = await Promise.all([
+    page.waitForEvent("download"),
+    page.getByTestId("rows-at-fault").click(),
+  ]);
+  const faulty = await new Response(
+    Readable.toWeb(await download.createReadStream()) as ReadableStream,
+  ).text();
   expect(faulty.split("\n")[0]).toContain("finding_codes");
   expect(faulty).toContain("level.variant");
   await page.getByRole("link", { name: "Upload a new version" }).click();

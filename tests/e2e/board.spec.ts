@@ -23,10 +23,19 @@ class BoardPage {
   }
 }
 
-type BoardJson = { data: { batches: { title: string; state: keyof typeof BATCH_STATE_LABELS; studySlug: string }[]; pools: { studySlug: string; studyTitle: string }[] } };
-type PoolJson = { data: { report: { rows: { total: number; complete: number }; model: { residualDf: number } } } };
+type BoardJson = {
+  data: {
+    batches: { title: string; state: keyof typeof BATCH_STATE_LABELS; studySlug: string }[];
+    pools: { studySlug: string; studyTitle: string }[];
+  };
+};
+type PoolJson = {
+  data: { report: { rows: { total: number; complete: number }; model: { residualDf: number } } };
+};
 
-test("a lead sees every batch in its state on the board, opens a study's pool and downloads its rows", async ({ page }) => {
+test("a lead sees every batch in its state on the board, opens a study's pool and downloads its rows", async ({
+  page,
+}) => {
   test.setTimeout(180_000);
   await new SignInPage(page).signInAs("lead@lowmoor.test");
   const board = new BoardPage(page);
@@ -43,14 +52,25 @@ test("a lead sees every batch in its state on the board, opens a study's pool an
   await expect(page).toHaveURL(/\/pool\/barley-nitrogen$/);
   await expect(page.getByRole("heading", { name: /Pool of Spring barley nitrogen response/ })).toBeVisible();
   const pool = (await (await page.request.get("/api/v1/pool/barley-nitrogen")).json()) as PoolJson;
-  await expect(page.getByTestId("pool-figures").getByRole("row", { name: /Complete cases \(n\)/ })).toContainText(pool.data.report.rows.complete.toLocaleString("en-GB"));
+  await expect(
+    page.getByTestId("pool-figures").getByRole("row", { name: /Complete cases \(n\)/ }),
+  ).toContainText(pool.data.report.rows.complete.toLocaleString("en-GB"));
 
-  const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("export-rows").click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent("download"),
+    page.getByTestId("export-rows").click(),
+  ]);
   expect(download.suggestedFilename()).toMatch(/^barley-nitrogen-pool-rows-\d{4}-\d{2}-\d{2}\.csv$/);
   const text = await readFile((await download.path())!, "utf8");
   const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
   expect(parsed.errors).toEqual([]);
-  expect(parsed.meta.fields?.slice(0, 5)).toEqual(["organisation", "batch", "batch_title", "version", "source_row"]);
+  expect(parsed.meta.fields?.slice(0, 5)).toEqual([
+    "organisation",
+    "batch",
+    "batch_title",
+    "version",
+    "source_row",
+  ]);
   expect(parsed.data).toHaveLength(pool.data.report.rows.total);
 });
 

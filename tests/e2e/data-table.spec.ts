@@ -16,7 +16,10 @@ test("a table sorts, filters and downloads what it shows as CSV", async ({ page 
   await expect(firstEmail()).toHaveText("admin@tributary.test");
   await expect(table.getByRole("columnheader", { name: "E-mail" })).toHaveAttribute("aria-sort", "ascending");
   await table.getByRole("button", { name: "E-mail" }).click();
-  await expect(table.getByRole("columnheader", { name: "E-mail" })).toHaveAttribute("aria-sort", "descending");
+  await expect(table.getByRole("columnheader", { name: "E-mail" })).toHaveAttribute(
+    "aria-sort",
+    "descending",
+  );
   await expect(firstEmail()).not.toHaveText("admin@tributary.test");
 
   // filter: the seed has two accounts at harrowgate.test (one of them deactivated)
@@ -24,7 +27,10 @@ test("a table sorts, filters and downloads what it shows as CSV", async ({ page 
   await expect(table.locator("tbody tr")).toHaveCount(2);
   await expect(page.getByText(/^2 of \d+ rows$/)).toBeVisible();
 
-  const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("button", { name: "Download CSV" }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent("download"),
+    page.getByRole("button", { name: "Download CSV" }).click(),
+  ]);
   expect(download.suggestedFilename()).toBe("tributary-users.csv");
   const csv = await readFile(await download.path(), "utf8");
   const lines = csv.trimEnd().split("\r\n");

@@ -14,7 +14,9 @@ let batchId = "";
 
 const as = signedIn;
 
-test("the bounced batch: the provider applies the level merge and sends version 2 in one step", async ({ browser }) => {
+test("the bounced batch: the provider applies the level merge and sends version 2 in one step", async ({
+  browser,
+}) => {
   const page = await as(browser, "provider@fennick.test");
   await page.goto("/upload");
   const batch = new BatchPage(page);
@@ -50,12 +52,16 @@ test("the bounced batch: the provider applies the level merge and sends version 
   await provider.getByRole("button", { name: "Apply and send as version 2" }).click();
   await provider.waitForURL(/\?v=2$/, { timeout: 60_000 });
   await new BatchPage(provider).waitForReport();
-  await expect(provider.getByTestId("machine-corrected")).toContainText("Produced from version 1 by applying level.variant:soil");
+  await expect(provider.getByTestId("machine-corrected")).toContainText(
+    "Produced from version 1 by applying level.variant:soil",
+  );
   await expect(provider.getByText(/Resolved: level\.variant/)).toBeVisible();
   await provider.context().close();
 });
 
-test("the analyst sees version 2 was machine-corrected, who approved it, and the change log", async ({ browser }) => {
+test("the analyst sees version 2 was machine-corrected, who approved it, and the change log", async ({
+  browser,
+}) => {
   const page = await as(browser, "analyst@lowmoor.test");
   await page.goto(`/batches/${batchId}?v=2`);
   await new BatchPage(page).waitForReport();
@@ -65,7 +71,10 @@ test("the analyst sees version 2 was machine-corrected, who approved it, and the
   const table = page.getByTestId("change-log-table");
   await expect(table).toContainText("soil");
   await expect(table).toContainText("“Clay”");
-  const [download] = await Promise.all([page.waitForEvent("download"), page.getByTestId("change-log").click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent("download"),
+    page.getByTestId("change-log").click(),
+  ]);
   const csv = await new Response(Readable.toWeb(await download.createReadStream()) as ReadableStream).text();
   const lines = csv.trim().split("\r\n");
   expect(lines[0]).toBe("row,column,before,after,proposal");

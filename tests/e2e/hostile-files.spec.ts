@@ -29,7 +29,9 @@ async function signedIn(browser: Browser): Promise<Page> {
 
 async function choose(page: Page, id: string): Promise<void> {
   const f = file(id);
-  await page.getByTestId("batch-file-input").setInputFiles({ name: f.fileName, mimeType: "text/csv", buffer: Buffer.from(f.bytes()) });
+  await page
+    .getByTestId("batch-file-input")
+    .setInputFiles({ name: f.fileName, mimeType: "text/csv", buffer: Buffer.from(f.bytes()) });
 }
 
 /** The server still answers (the provider's home loads), and the page ran without CSP refusals or uncaught errors. */
@@ -40,32 +42,44 @@ async function serverStaysUp(page: Page): Promise<void> {
   expect(problems.get(page)?.problems).toEqual([]);
 }
 
-test("an empty file is refused in the form with what to do, and nothing can be uploaded", async ({ browser }) => {
+test("an empty file is refused in the form with what to do, and nothing can be uploaded", async ({
+  browser,
+}) => {
   const page = await signedIn(browser);
   await choose(page, "empty");
-  await expect(page.getByRole("main").getByRole("alert")).toContainText('"empty.csv" is empty (0 bytes). Choose the file that holds the batch.');
+  await expect(page.getByRole("main").getByRole("alert")).toContainText(
+    '"empty.csv" is empty (0 bytes). Choose the file that holds the batch.',
+  );
   await expect(page.getByTestId("upload-button")).toBeDisabled();
   await serverStaysUp(page);
   await page.context().close();
 });
 
-test("a workbook renamed .csv: the browser check says it is a workbook; uploaded anyway, the batch ends unreadable with the same message", async ({ browser }) => {
+test("a workbook renamed .csv: the browser check says it is a workbook; uploaded anyway, the batch ends unreadable with the same message", async ({
+  browser,
+}) => {
   const page = await signedIn(browser);
   const batch = new BatchPage(page);
   await choose(page, "xlsx-renamed");
   await expect(batch.precheck).toContainText("file.unreadable", { timeout: 30_000 });
-  await expect(batch.precheck).toContainText("This is an Excel workbook (or another zip archive), not a CSV file.");
+  await expect(batch.precheck).toContainText(
+    "This is an Excel workbook (or another zip archive), not a CSV file.",
+  );
   await expect(batch.precheck).toContainText("Save As → CSV UTF-8");
   await batch.upload();
   await batch.waitForReport();
   await expect(batch.verdict).toContainText("This file could not be read");
   await expect(page.getByRole("main")).toContainText("Unreadable");
-  await expect(batch.findings).toContainText("This is an Excel workbook (or another zip archive), not a CSV file.");
+  await expect(batch.findings).toContainText(
+    "This is an Excel workbook (or another zip archive), not a CSV file.",
+  );
   await serverStaysUp(page);
   await page.context().close();
 });
 
-test("binary bytes: the browser check names the byte; uploaded anyway, the batch ends unreadable", async ({ browser }) => {
+test("binary bytes: the browser check names the byte; uploaded anyway, the batch ends unreadable", async ({
+  browser,
+}) => {
   const page = await signedIn(browser);
   const batch = new BatchPage(page);
   await choose(page, "binary");
@@ -78,7 +92,9 @@ test("binary bytes: the browser check names the byte; uploaded anyway, the batch
   await page.context().close();
 });
 
-test("a 20 MB line without a line break: the page stays responsive while the browser check runs, and the message appears", async ({ browser }) => {
+test("a 20 MB line without a line break: the page stays responsive while the browser check runs, and the message appears", async ({
+  browser,
+}) => {
   const page = await signedIn(browser);
   const batch = new BatchPage(page);
   // from disk, so the browser reads the file itself (a buffer would be decoded on the page's main thread)
@@ -101,7 +117,9 @@ test("a 20 MB line without a line break: the page stays responsive while the bro
     // the page answers input while the check runs in its Web Worker
     await page.getByLabel("Batch name (optional)").fill("one long line");
     await expect(page.getByLabel("Batch name (optional)")).toHaveValue("one long line");
-    await expect(batch.precheck).toContainText("Line 2 runs on for more than 4 MB without a line break", { timeout: 60_000 });
+    await expect(batch.precheck).toContainText("Line 2 runs on for more than 4 MB without a line break", {
+      timeout: 60_000,
+    });
     // the engine runs in the Web Worker, and rendering its result is small; 500 ms leaves room for
     // a machine shared with builds and other test runs
     const gap = await longestGap();
@@ -120,7 +138,9 @@ test("a 20 MB line without a line break: the page stays responsive while the bro
   await page.context().close();
 });
 
-test("semicolons with decimal commas: reported before upload and in the report, with the decimal-comma finding", async ({ browser }) => {
+test("semicolons with decimal commas: reported before upload and in the report, with the decimal-comma finding", async ({
+  browser,
+}) => {
   const page = await signedIn(browser);
   const batch = new BatchPage(page);
   await choose(page, "decimal-comma");

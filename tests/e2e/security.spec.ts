@@ -56,7 +56,10 @@ test("a page, an API route and a static asset carry the security headers", async
   expectSecurityHeaders(asset, "static asset");
 });
 
-test("pages run only scripts carrying the request's nonce: one policy, a fresh nonce each time, every script tagged", async ({ request, browser }) => {
+test("pages run only scripts carrying the request's nonce: one policy, a fresh nonce each time, every script tagged", async ({
+  request,
+  browser,
+}) => {
   const nonces: string[] = [];
   // the sign-in page twice (a fresh nonce each time), and the reset page, which has no data of its
   // own: it must still be rendered per request, or its scripts would carry no nonce
@@ -91,14 +94,18 @@ test("pages run only scripts carrying the request's nonce: one policy, a fresh n
   expect(refused).toEqual([]);
 });
 
-test("session cookies are HttpOnly and SameSite=Lax (plain http on loopback: not Secure)", async ({ request }) => {
+test("session cookies are HttpOnly and SameSite=Lax (plain http on loopback: not Secure)", async ({
+  request,
+}) => {
   const csrf = await request.get("/api/auth/csrf");
   const { csrfToken } = (await csrf.json()) as { csrfToken: string };
   const signIn = await request.post("/api/auth/callback/credentials", {
     form: { email: "lead@lowmoor.test", password: "tributary-demo", csrfToken, json: "true" },
     maxRedirects: 0,
   });
-  const setCookies = [...csrf.headersArray(), ...signIn.headersArray()].filter((h) => h.name.toLowerCase() === "set-cookie").map((h) => h.value);
+  const setCookies = [...csrf.headersArray(), ...signIn.headersArray()]
+    .filter((h) => h.name.toLowerCase() === "set-cookie")
+    .map((h) => h.value);
   const session = setCookies.find((c) => c.startsWith("next-auth.session-token="));
   expect(session, setCookies.join("\n")).toBeTruthy();
   for (const c of setCookies.filter((c) => c.startsWith("next-auth."))) {
@@ -118,32 +125,56 @@ test("next start refuses to boot with the demo secrets when TRIBUTARY_DEMO is no
   Object.assign(env, { NODE_ENV: "production", TRIBUTARY_DEMO: "0" });
   // the refusal ends the process: wait for its exit, however long a busy machine takes to boot next
   test.setTimeout(processTestTimeout());
-  const { code, output } = await runProcess(path.join(ROOT, "node_modules/.bin/next"), ["start", "-H", "127.0.0.1", "-p", "3419"], { cwd: ROOT, env: env as NodeJS.ProcessEnv });
+  const { code, output } = await runProcess(
+    path.join(ROOT, "node_modules/.bin/next"),
+    ["start", "-H", "127.0.0.1", "-p", "3419"],
+    { cwd: ROOT, env: env as NodeJS.ProcessEnv },
+  );
   expect(code, output).not.toBeNull();
   expect(code, output).not.toBe(0);
   expect(output).toContain("refusing to start");
-  expect(output).toMatch(/NEXTAUTH_SECRET: is a demo value published in this repository; set NEXTAUTH_SECRET to a secret of your own/);
+  expect(output).toMatch(
+    /NEXTAUTH_SECRET: is a demo value published in this repository; set NEXTAUTH_SECRET to a secret of your own/,
+  );
 });
 
-test("an upload with a hostile name and label shows both as text; no element is injected", async ({ browser }) => {
+test("an upload with a hostile name and label shows both as text; no element is injected", async ({
+  browser,
+}) => {
   const page = await as(browser, "provider@fennick.test");
   const res = await page.request.post("/api/v1/batches", {
-    multipart: { study: "barley-nitrogen", label: HOSTILE_LABEL, file: { name: HOSTILE_FILE, mimeType: "text/csv", buffer: Buffer.from(CSV) } },
+    multipart: {
+      study: "barley-nitrogen",
+      label: HOSTILE_LABEL,
+      file: { name: HOSTILE_FILE, mimeType: "text/csv", buffer: Buffer.from(CSV) },
+    },
   });
   expect(res.status(), await res.text()).toBe(201);
   batchId = ((await res.json()) as { data: { batchId: string } }).data.batchId;
 
   await page.goto(`/batches/${batchId}`);
-  await expect(page.getByRole("heading", { level: 1 })).toContainText('<img src=x onerror="window.__label=1">');
+  await expect(page.getByRole("heading", { level: 1 })).toContainText(
+    '<img src=x onerror="window.__label=1">',
+  );
   await expect(page.getByText("_img src=x onerror=window.__fileName=1_.csv")).toBeVisible();
   await expect(page.locator('img[src="x"]')).toHaveCount(0);
-  expect(await page.evaluate(() => [(window as unknown as Record<string, unknown>).__label, (window as unknown as Record<string, unknown>).__fileName])).toEqual([undefined, undefined]);
+  expect(
+    await page.evaluate(() => [
+      (window as unknown as Record<string, unknown>).__label,
+      (window as unknown as Record<string, unknown>).__fileName,
+    ]),
+  ).toEqual([undefined, undefined]);
 
   // the original file, linked from the page and named safely
-  await expect(page.getByTestId("original-file")).toHaveAttribute("href", `/api/v1/batches/${batchId}/versions/1/file`);
+  await expect(page.getByTestId("original-file")).toHaveAttribute(
+    "href",
+    `/api/v1/batches/${batchId}/versions/1/file`,
+  );
   const file = await page.request.get(`/api/v1/batches/${batchId}/versions/1/file`);
   expect(file.status()).toBe(200);
-  expect(file.headers()["content-disposition"]).toMatch(/^attachment; filename="[A-Za-z0-9._-]+"; filename\*=UTF-8''[A-Za-z0-9!#$&+.^_`|~%-]+$/);
+  expect(file.headers()["content-disposition"]).toMatch(
+    /^attachment; filename="[A-Za-z0-9._-]+"; filename\*=UTF-8''[A-Za-z0-9!#$&+.^_`|~%-]+$/,
+  );
   expect(await file.text()).toBe(CSV);
 
   // the home table's CSV download keeps the formula-looking label as text
@@ -154,15 +185,22 @@ test("an upload with a hostile name and label shows both as text; no element is 
     .filter({ has: page.getByRole("grid", { name: "Recent batches" }) })
     .filter({ has: page.getByLabel("Filter Recent batches") })
     .last();
-  const [download] = await Promise.all([page.waitForEvent("download"), recent.getByRole("button", { name: "Download CSV" }).click()]);
+  const [download] = await Promise.all([
+    page.waitForEvent("download"),
+    recent.getByRole("button", { name: "Download CSV" }).click(),
+  ]);
   expect(download.suggestedFilename()).toBe("recent-batches.csv");
   const csv = await readFile(await download.path(), "utf8");
-  expect(csv).toContain(`"'=HYPERLINK(""http://example.invalid"",""open"") <img src=x onerror=""window.__label=1"">"`);
+  expect(csv).toContain(
+    `"'=HYPERLINK(""http://example.invalid"",""open"") <img src=x onerror=""window.__label=1"">"`,
+  );
   expect(csv).not.toMatch(/(^|,)"?=/m);
   await page.context().close();
 });
 
-test("a file chosen in the browser with markup and a right-to-left override in its name is stored clean and shown as text", async ({ browser }) => {
+test("a file chosen in the browser with markup and a right-to-left override in its name is stored clean and shown as text", async ({
+  browser,
+}) => {
   const page = await as(browser, "provider@fennick.test");
   await page.goto("/upload");
   const batch = new BatchPage(page);
@@ -173,12 +211,16 @@ test("a file chosen in the browser with markup and a right-to-left override in i
   await expect(page.getByText("_img src=x onerror=window.__up=1_txt.csv")).toBeVisible();
   await expect(page.locator('img[src="x"]')).toHaveCount(0);
   expect(await page.evaluate(() => (window as unknown as Record<string, unknown>).__up)).toBeUndefined();
-  const json = (await (await page.request.get(`/api/v1/batches/${id}`)).json()) as { data: { versions: { fileName: string }[] } };
+  const json = (await (await page.request.get(`/api/v1/batches/${id}`)).json()) as {
+    data: { versions: { fileName: string }[] };
+  };
   expect(json.data.versions[0]!.fileName).toBe("_img src=x onerror=window.__up=1_txt.csv");
   await page.context().close();
 });
 
-test("another organisation's provider and an analyst not assigned get 'Batch not found' and 404 for the file", async ({ browser }) => {
+test("another organisation's provider and an analyst not assigned get 'Batch not found' and 404 for the file", async ({
+  browser,
+}) => {
   for (const email of ["provider@harrowgate.test", "analyst2@lowmoor.test"]) {
     const page = await as(browser, email);
     for (const url of [`/batches/${batchId}`, `/batches/${batchId}/trail`]) {
@@ -186,7 +228,11 @@ test("another organisation's provider and an analyst not assigned get 'Batch not
       await expect(page.getByRole("heading", { name: "Batch not found" }), `${email} ${url}`).toBeVisible();
       await expect(page.getByText("HYPERLINK")).toHaveCount(0);
     }
-    for (const url of [`/api/v1/batches/${batchId}/versions/1/file`, `/api/v1/batches/${batchId}/versions/1/report`, `/api/v1/batches/${batchId}/versions/1/rows-at-fault`]) {
+    for (const url of [
+      `/api/v1/batches/${batchId}/versions/1/file`,
+      `/api/v1/batches/${batchId}/versions/1/report`,
+      `/api/v1/batches/${batchId}/versions/1/rows-at-fault`,
+    ]) {
       expect((await page.request.get(url)).status(), `${email} ${url}`).toBe(404);
     }
     await page.context().close();

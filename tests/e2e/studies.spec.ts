@@ -29,7 +29,10 @@ const SAMPLE = [
   "P6,6.0,110,clay,no",
 ].join("\n");
 
-test("a lead creates a study, drafts its plan from a sample, fixes a refused plan, publishes two versions and admits a provider", async ({ page, browser }, info) => {
+test("a lead creates a study, drafts its plan from a sample, fixes a refused plan, publishes two versions and admits a provider", async ({
+  page,
+  browser,
+}, info) => {
   // a long journey through five pages and three publishes
   test.setTimeout(240_000);
   const watch = watchPageProblems(page);
@@ -82,7 +85,9 @@ test("a lead creates a study, drafts its plan from a sample, fixes a refused pla
   await editor.publish.click();
   await page.waitForURL(`**/studies/${slug}`);
   await expect(page.getByRole("heading", { name: "Data plan, version 2" })).toBeVisible();
-  const versions = page.locator("section").filter({ has: page.getByRole("heading", { level: 2, name: "Plan versions" }) });
+  const versions = page
+    .locator("section")
+    .filter({ has: page.getByRole("heading", { level: 2, name: "Plan versions" }) });
   await expect(versions).toContainText("drafted from the first sample");
   await expect(versions).toContainText("2 rows");
 
@@ -100,7 +105,9 @@ test("a lead creates a study, drafts its plan from a sample, fixes a refused pla
     const p = await ctx.newPage();
     await new SignInPage(p).signInAs(email);
     await p.goto(`/studies/${slug}`);
-    await expect(p.getByRole("heading", { level: 1 })).toContainText(visible ? "Oat trial" : "Study not found");
+    await expect(p.getByRole("heading", { level: 1 })).toContainText(
+      visible ? "Oat trial" : "Study not found",
+    );
     await ctx.close();
   }
 });

@@ -33,7 +33,16 @@ const t1 = performance.now();
 const cpu = process.cpuUsage(c0);
 const cpuMs = (cpu.user + cpu.system) / 1000;
 const cols = ["intercept", ...Array.from({ length: k - 1 }, (_, j) => `x${j + 1}`)];
-const res = analyseDesign(ls, { columns: cols, intercept: true, terms: cols.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })), numericColumns: cols.slice(1) }, { alpha: 0.05, power: 0.8 });
+const res = analyseDesign(
+  ls,
+  {
+    columns: cols,
+    intercept: true,
+    terms: cols.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })),
+    numericColumns: cols.slice(1),
+  },
+  { alpha: 0.05, power: 0.8 },
+);
 const t2 = performance.now();
 
 const m = 10;
@@ -47,6 +56,12 @@ for (let i = 0; i < rows; i++) {
 }
 const t4 = performance.now();
 
-console.log(`LeastSquares.addRow: ${rows} rows × k = ${k}: ${(t1 - t0).toFixed(0)} ms wall → ${Math.round(rows / ((t1 - t0) / 1000)).toLocaleString("en")} rows/s; ${cpuMs.toFixed(0)} ms CPU → ${Math.round(rows / (cpuMs / 1000)).toLocaleString("en")} rows/s per core`);
-console.log(`analyseDesign: ${(t2 - t1).toFixed(1)} ms (rank ${res.rank}, R² ${res.fit.rSquared.toFixed(4)})`);
-console.log(`PatternMoments.addRow: ${rows} rows × m = ${m}: ${(t4 - t3).toFixed(0)} ms → ${Math.round(rows / ((t4 - t3) / 1000)).toLocaleString("en")} rows/s`);
+console.log(
+  `LeastSquares.addRow: ${rows} rows × k = ${k}: ${(t1 - t0).toFixed(0)} ms wall → ${Math.round(rows / ((t1 - t0) / 1000)).toLocaleString("en")} rows/s; ${cpuMs.toFixed(0)} ms CPU → ${Math.round(rows / (cpuMs / 1000)).toLocaleString("en")} rows/s per core`,
+);
+console.log(
+  `analyseDesign: ${(t2 - t1).toFixed(1)} ms (rank ${res.rank}, R² ${res.fit.rSquared.toFixed(4)})`,
+);
+console.log(
+  `PatternMoments.addRow: ${rows} rows × m = ${m}: ${(t4 - t3).toFixed(0)} ms → ${Math.round(rows / ((t4 - t3) / 1000)).toLocaleString("en")} rows/s`,
+);

@@ -8,7 +8,8 @@ export function close(x: unknown, y: unknown, at: string): void {
   }
   if (x && typeof x === "object" && y && typeof y === "object") {
     const keys = new Set([...Object.keys(x), ...Object.keys(y)]);
-    for (const k of keys) close((x as Record<string, unknown>)[k], (y as Record<string, unknown>)[k], `${at}.${k}`);
+    for (const k of keys)
+      close((x as Record<string, unknown>)[k], (y as Record<string, unknown>)[k], `${at}.${k}`);
     return;
   }
   expect(y, at).toEqual(x);

@@ -53,7 +53,11 @@ export function startProcess(command: string, args: string[], options: SpawnOpti
       ended = true;
       check();
       for (const w of waiters.splice(0)) {
-        w.reject(new Error(`${command} ended (exit code ${code}) before printing a line matching ${w.re}; it printed:\n${text}`));
+        w.reject(
+          new Error(
+            `${command} ended (exit code ${code}) before printing a line matching ${w.re}; it printed:\n${text}`,
+          ),
+        );
       }
       resolve(code);
     });
@@ -66,11 +70,20 @@ export function startProcess(command: string, args: string[], options: SpawnOpti
       return new Promise((resolve, reject) => {
         const seen = text.split("\n").find((l) => re.test(l));
         if (seen !== undefined) return resolve(seen);
-        if (ended) return reject(new Error(`${command} had ended without a line matching ${re}; it printed:\n${text}`));
+        if (ended)
+          return reject(
+            new Error(`${command} had ended without a line matching ${re}; it printed:\n${text}`),
+          );
         const timer = setTimeout(() => {
-          reject(new Error(`${command} printed no line matching ${re} within ${boundMs / 1000} s; it printed:\n${text}`));
+          reject(
+            new Error(
+              `${command} printed no line matching ${re} within ${boundMs / 1000} s; it printed:\n${text}`,
+            ),
+          );
         }, boundMs);
-        const done = <T>(f: (v: T) => void) => (v: T) => (clearTimeout(timer), f(v));
+        const done =
+          <T>(f: (v: T) => void) =>
+          (v: T) => (clearTimeout(timer), f(v));
         waiters.push({ re, resolve: done(resolve), reject: done(reject) });
       });
     },

@@ -13,24 +13,40 @@ export const R_DIR = path.resolve(import.meta.dirname, "../r");
 let cached: { ok: true; version: string } | { ok: false; reason: string } | undefined;
 
 /** Whether Rscript (and, when asked, some packages) can be run here; the reason when not. */
-export function rscriptAvailable(packages: string[] = []): { ok: true; version: string } | { ok: false; reason: string } {
+export function rscriptAvailable(
+  packages: string[] = [],
+): { ok: true; version: string } | { ok: false; reason: string } {
   if (!cached) {
     const v = spawnSync("Rscript", ["--version"], { encoding: "utf8" });
-    if (v.error || v.status !== 0) cached = { ok: false, reason: `Rscript not found on PATH (${v.error?.message ?? v.stderr})` };
+    if (v.error || v.status !== 0)
+      cached = { ok: false, reason: `Rscript not found on PATH (${v.error?.message ?? v.stderr})` };
     else cached = { ok: true, version: (v.stdout + v.stderr).trim() };
   }
   if (!cached.ok || packages.length === 0) return cached;
-  const check = spawnSync("Rscript", ["-e", `for (p in c(${packages.map((p) => JSON.stringify(p)).join(",")})) if (!requireNamespace(p, quietly = TRUE)) { cat(p); quit(status = 3) }`], { encoding: "utf8" });
-  if (check.status !== 0) return { ok: false, reason: `R package ${check.stdout.trim() || packages.join(", ")} is not installed` };
+  const check = spawnSync(
+    "Rscript",
+    [
+      "-e",
+      `for (p in c(${packages.map((p) => JSON.stringify(p)).join(",")})) if (!requireNamespace(p, quietly = TRUE)) { cat(p); quit(status = 3) }`,
+    ],
+    { encoding: "utf8" },
+  );
+  if (check.status !== 0)
+    return { ok: false, reason: `R package ${check.stdout.trim() || packages.join(", ")} is not installed` };
   return cached;
 }
 
 /** Run tests/r/<script> with arguments; returns stdout, throws with R's stderr on failure. */
 export function runRscript(script: string, args: string[] = [], timeoutMs = PROCESS_PATIENCE_MS): string {
   const file = path.isAbsolute(script) ? script : path.join(R_DIR, script);
-  const res = spawnSync("Rscript", ["--vanilla", file, ...args], { encoding: "utf8", timeout: timeoutMs, maxBuffer: 64 * 1024 * 1024 });
+  const res = spawnSync("Rscript", ["--vanilla", file, ...args], {
+    encoding: "utf8",
+    timeout: timeoutMs,
+    maxBuffer: 64 * 1024 * 1024,
+  });
   if (res.error) throw new Error(`Rscript ${path.basename(file)} could not run: ${res.error.message}`);
-  if (res.status !== 0) throw new Error(`Rscript ${path.basename(file)} failed (exit ${res.status}):\n${res.stderr}`);
+  if (res.status !== 0)
+    throw new Error(`Rscript ${path.basename(file)} failed (exit ${res.status}):\n${res.stderr}`);
   return res.stdout;
 }
 
@@ -51,6 +67,7 @@ export function tempDir(prefix = "tributary-r-"): string {
 
 /** Write rows as CSV with full double precision (%.17g round-trips in R's read.csv). */
 export function writeCsv(file: string, header: string[], rows: (number | string | null)[][]): void {
-  const fmt = (v: number | string | null) => (v === null ? "NA" : typeof v === "number" ? v.toPrecision(17) : v);
+  const fmt = (v: number | string | null) =>
+    v === null ? "NA" : typeof v === "number" ? v.toPrecision(17) : v;
   fs.writeFileSync(file, [header.join(","), ...rows.map((r) => r.map(fmt).join(","))].join("\n") + "\n");
 }

@@ -26,14 +26,26 @@ const unique = (k: string) => `${k}-${Date.now()}-${Math.floor(Math.random() * 1
 
 async function auditFor(objectId: number) {
   return getDb()
-    .select({ action: auditEvents.action, actorId: auditEvents.actorId, objectType: auditEvents.objectType, before: auditEvents.before, after: auditEvents.after })
+    .select({
+      action: auditEvents.action,
+      actorId: auditEvents.actorId,
+      objectType: auditEvents.objectType,
+      before: auditEvents.before,
+      after: auditEvents.after,
+    })
     .from(auditEvents)
     .where(and(eq(auditEvents.objectType, "user"), eq(auditEvents.objectId, String(objectId))))
     .orderBy(auditEvents.id);
 }
 
 function patch(target: number, body: unknown) {
-  return call(patchAdminUser, { method: "PATCH", path: `/api/v1/admin/users/${target}`, params: { id: String(target) }, body, as: admin });
+  return call(patchAdminUser, {
+    method: "PATCH",
+    path: `/api/v1/admin/users/${target}`,
+    params: { id: String(target) },
+    body,
+    as: admin,
+  });
 }
 
 describe("POST /api/v1/admin/users", () => {
@@ -42,15 +54,36 @@ describe("POST /api/v1/admin/users", () => {
     const res = await call(createAdminUser, {
       method: "POST",
       path: "/api/v1/admin/users",
-      body: { email: email.toUpperCase(), name: "Created Provider", role: "provider", organisationId: String(w.farmA.id), password: "a-long-password" },
+      body: {
+        email: email.toUpperCase(),
+        name: "Created Provider",
+        role: "provider",
+        organisationId: String(w.farmA.id),
+        password: "a-long-password",
+      },
       as: admin,
     });
     expect(res.status).toBe(201);
     const created = res.json.data as { id: number; email: string };
-    expect(res.json.data).toEqual({ id: created.id, email, name: "Created Provider", role: "provider", organisationId: w.farmA.id, active: true });
-    expect(await authorizeCredentials({ email, password: "a-long-password" }, { ip: "192.0.2.9" })).toMatchObject({ id: String(created.id), role: "provider" });
+    expect(res.json.data).toEqual({
+      id: created.id,
+      email,
+      name: "Created Provider",
+      role: "provider",
+      organisationId: w.farmA.id,
+      active: true,
+    });
+    expect(
+      await authorizeCredentials({ email, password: "a-long-password" }, { ip: "192.0.2.9" }),
+    ).toMatchObject({ id: String(created.id), role: "provider" });
     expect(await auditFor(created.id)).toEqual([
-      { action: "user.create", actorId: w.users.admin.id, objectType: "user", before: null, after: res.json.data },
+      {
+        action: "user.create",
+        actorId: w.users.admin.id,
+        objectType: "user",
+        before: null,
+        after: res.json.data,
+      },
     ]);
   });
 
@@ -59,7 +92,13 @@ describe("POST /api/v1/admin/users", () => {
     const res = await call(createAdminUser, {
       method: "POST",
       path: "/api/v1/admin/users",
-      body: { email: w.users.lead.email, name: "Twin", role: "analyst", organisationId: w.team.id, password: "a-long-password" },
+      body: {
+        email: w.users.lead.email,
+        name: "Twin",
+        role: "analyst",
+        organisationId: w.team.id,
+        password: "a-long-password",
+      },
       as: admin,
     });
     expect(res.status).toBe(409);
@@ -74,20 +113,54 @@ describe("POST /api/v1/admin/users", () => {
     ["an unknown role", { role: "owner" }, "role", /provider, analyst, lead, admin/],
     ["a missing name", { name: "" }, "name", /Enter a name/],
   ])("%s → 422 with a field error saying what to fix", async (_label, change, field, message) => {
-    const body = { email: unique("bad"), name: "Someone", role: "analyst", organisationId: w.team.id, password: "a-long-password", ...change };
+    const body = {
+      email: unique("bad"),
+      name: "Someone",
+      role: "analyst",
+      organisationId: w.team.id,
+      password: "a-long-password",
+      ...change,
+    };
     const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body, as: admin });
     expect(res.status).toBe(422);
     expect(res.json.error?.fieldErrors?.[field]?.[0]).toMatch(message);
   });
 
   test.each([
-    ["a provider without an organisation", { role: "provider", organisationId: "" }, /Choose the provider organisation/],
-    ["a provider in a team organisation", { role: "provider", organisationId: "team" }, /provider organisation/],
-    ["an analyst in a provider organisation", { role: "analyst", organisationId: "farm" }, /team organisation/],
-    ["an organisation that does not exist", { role: "analyst", organisationId: 999_999_999 }, /no such organisation/],
+    [
+      "a provider without an organisation",
+      { role: "provider", organisationId: "" },
+      /Choose the provider organisation/,
+    ],
+    [
+      "a provider in a team organisation",
+      { role: "provider", organisationId: "team" },
+      /provider organisation/,
+    ],
+    [
+      "an analyst in a provider organisation",
+      { role: "analyst", organisationId: "farm" },
+      /team organisation/,
+    ],
+    [
+      "an organisation that does not exist",
+      { role: "analyst", organisationId: 999_999_999 },
+      /no such organisation/,
+    ],
   ])("%s → 422 on organisationId", async (_label, change, message) => {
-    const organisationId = change.organisationId === "team" ? w.team.id : change.organisationId === "farm" ? w.farmA.id : change.organisationId;
-    const body = { email: unique("org"), name: "Someone", password: "a-long-password", ...change, organisationId };
+    const organisationId =
+      change.organisationId === "team"
+        ? w.team.id
+        : change.organisationId === "farm"
+          ? w.farmA.id
+          : change.organisationId;
+    const body = {
+      email: unique("org"),
+      name: "Someone",
+      password: "a-long-password",
+      ...change,
+      organisationId,
+    };
     const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body, as: admin });
     expect(res.status).toBe(422);
     expect(res.json.error?.fieldErrors?.organisationId?.[0]).toMatch(message);
@@ -95,7 +168,13 @@ describe("POST /api/v1/admin/users", () => {
 
   test("a cookie-authenticated change from another site's page is refused and writes nothing", async () => {
     const email = unique("csrf");
-    const body = JSON.stringify({ email, name: "Cross Site", role: "admin", organisationId: w.team.id, password: "a-long-password" });
+    const body = JSON.stringify({
+      email,
+      name: "Cross Site",
+      role: "admin",
+      organisationId: w.team.id,
+      password: "a-long-password",
+    });
     const send = (origin: string) =>
       createAdminUser(
         new Request("http://127.0.0.1:3410/api/v1/admin/users", {
@@ -113,7 +192,12 @@ describe("POST /api/v1/admin/users", () => {
   });
 
   test("a body that is not JSON → 422 with a plain message", async () => {
-    const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: "{email:", as: admin });
+    const res = await call(createAdminUser, {
+      method: "POST",
+      path: "/api/v1/admin/users",
+      body: "{email:",
+      as: admin,
+    });
     expect(res.status).toBe(422);
     expectSafeError(res.json, "invalid");
     expect(res.json.error?.message).toBe("The request body is not valid JSON.");
@@ -154,32 +238,55 @@ describe("PATCH /api/v1/admin/users/:id", () => {
     ["a bad active flag", () => w.users.lead, { active: "maybe" }, 422, /active/],
   ])("%s is refused and changes nothing", async (_label, who, body, status, message) => {
     const target: WorldUser = who();
-    const [before] = await getDb().select({ role: users.role, active: users.active, sv: users.sessionVersion }).from(users).where(eq(users.id, target.id));
+    const [before] = await getDb()
+      .select({ role: users.role, active: users.active, sv: users.sessionVersion })
+      .from(users)
+      .where(eq(users.id, target.id));
     const auditBefore = (await auditFor(target.id)).length;
     const res = await patch(target.id, body);
     expect(res.status).toBe(status);
     expect(res.json.error?.message).toMatch(message);
-    const [after] = await getDb().select({ role: users.role, active: users.active, sv: users.sessionVersion }).from(users).where(eq(users.id, target.id));
+    const [after] = await getDb()
+      .select({ role: users.role, active: users.active, sv: users.sessionVersion })
+      .from(users)
+      .where(eq(users.id, target.id));
     expect(after).toEqual(before);
     expect((await auditFor(target.id)).length).toBe(auditBefore);
   });
 
   test("role and deactivation in one request: both applied, each with its audit row, and the session ends", async () => {
-    const before = (await getDb().select({ sv: users.sessionVersion }).from(users).where(eq(users.id, w.users.analystB.id)))[0]!.sv;
+    const before = (
+      await getDb().select({ sv: users.sessionVersion }).from(users).where(eq(users.id, w.users.analystB.id))
+    )[0]!.sv;
     const ok = await patch(w.users.analystB.id, { role: "lead", active: false });
     expect(ok.status).toBe(200);
-    const [row] = await getDb().select({ role: users.role, active: users.active }).from(users).where(eq(users.id, w.users.analystB.id));
+    const [row] = await getDb()
+      .select({ role: users.role, active: users.active })
+      .from(users)
+      .where(eq(users.id, w.users.analystB.id));
     expect(row).toEqual({ role: "lead", active: false });
-    const [after] = await getDb().select({ sv: users.sessionVersion }).from(users).where(eq(users.id, w.users.analystB.id));
+    const [after] = await getDb()
+      .select({ sv: users.sessionVersion })
+      .from(users)
+      .where(eq(users.id, w.users.analystB.id));
     expect(after?.sv).toBe(before + 1);
-    expect((await auditFor(w.users.analystB.id)).slice(-2).map((a) => a.action)).toEqual(["user.role_change", "user.deactivate"]);
+    expect((await auditFor(w.users.analystB.id)).slice(-2).map((a) => a.action)).toEqual([
+      "user.role_change",
+      "user.deactivate",
+    ]);
     expect((await patch(w.users.analystB.id, { role: "analyst", active: true })).status).toBe(200);
   });
 
   test("an unknown user → 404; a non-numeric id → 422", async () => {
     const missing = await patch(999_999_999, { active: false });
     expect(missing.status).toBe(404);
-    const bad = await call(patchAdminUser, { method: "PATCH", path: "/api/v1/admin/users/abc", params: { id: "abc" }, body: { active: false }, as: admin });
+    const bad = await call(patchAdminUser, {
+      method: "PATCH",
+      path: "/api/v1/admin/users/abc",
+      params: { id: "abc" },
+      body: { active: false },
+      as: admin,
+    });
     expect(bad.status).toBe(422);
   });
 });
@@ -187,22 +294,53 @@ describe("PATCH /api/v1/admin/users/:id", () => {
 describe("services read the actor's role from the database", () => {
   test("a lead may invite providers and analysts, not admins", async () => {
     const lead = w.users.lead.id;
-    const provider = await createUser(lead, { email: unique("invited"), name: "Invited", role: "provider", organisationId: w.farmB.id, password: "a-long-password" });
+    const provider = await createUser(lead, {
+      email: unique("invited"),
+      name: "Invited",
+      role: "provider",
+      organisationId: w.farmB.id,
+      password: "a-long-password",
+    });
     expect(provider.ok).toBe(true);
-    const adminTry = await createUser(lead, { email: unique("boss"), name: "Boss", role: "admin", organisationId: w.team.id, password: "a-long-password" });
-    expect(adminTry).toMatchObject({ ok: false, code: "forbidden", fieldErrors: { role: ["Choose provider or analyst."] } });
+    const adminTry = await createUser(lead, {
+      email: unique("boss"),
+      name: "Boss",
+      role: "admin",
+      organisationId: w.team.id,
+      password: "a-long-password",
+    });
+    expect(adminTry).toMatchObject({
+      ok: false,
+      code: "forbidden",
+      fieldErrors: { role: ["Choose provider or analyst."] },
+    });
     // leads do not manage roles or activation
-    expect(await changeRole(lead, w.users.providerB.id, "provider")).toMatchObject({ ok: false, code: "forbidden" });
-    expect(await setActive(lead, w.users.providerB.id, false)).toMatchObject({ ok: false, code: "forbidden" });
+    expect(await changeRole(lead, w.users.providerB.id, "provider")).toMatchObject({
+      ok: false,
+      code: "forbidden",
+    });
+    expect(await setActive(lead, w.users.providerB.id, false)).toMatchObject({
+      ok: false,
+      code: "forbidden",
+    });
   });
 
   test("an actor deactivated after their page loaded can no longer act", async () => {
-    const tmp = await createUser(w.users.admin.id, { email: unique("tmp-admin"), name: "Temp Admin", role: "admin", organisationId: null, password: "a-long-password" });
+    const tmp = await createUser(w.users.admin.id, {
+      email: unique("tmp-admin"),
+      name: "Temp Admin",
+      role: "admin",
+      organisationId: null,
+      password: "a-long-password",
+    });
     if (!tmp.ok) throw new Error(tmp.message);
     expect((await setActive(w.users.admin.id, tmp.data.id, false)).ok).toBe(true);
     const res = await setActive(tmp.data.id, w.users.providerB.id, false);
     expect(res).toMatchObject({ ok: false, code: "unauthenticated" });
-    const [row] = await getDb().select({ active: users.active }).from(users).where(eq(users.id, w.users.providerB.id));
+    const [row] = await getDb()
+      .select({ active: users.active })
+      .from(users)
+      .where(eq(users.id, w.users.providerB.id));
     expect(row?.active).toBe(true);
   });
 });

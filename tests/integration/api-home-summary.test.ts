@@ -18,7 +18,14 @@ beforeAll(async () => {
 });
 
 function sessionUser(u: WorldUser, organisationName: string | null = null): SessionUser {
-  return { id: u.id, email: u.email, name: u.name, role: u.role, organisationId: u.organisationId, organisationName };
+  return {
+    id: u.id,
+    email: u.email,
+    name: u.name,
+    role: u.role,
+    organisationId: u.organisationId,
+    organisationName,
+  };
 }
 
 async function sqlCount(query: string): Promise<number> {
@@ -44,7 +51,9 @@ describe("getHomeSummary", () => {
     expect(a.readyForReview).toBe(1);
     expect(a.queue.map((q) => q.publicId)).toEqual([w.batchA.publicId]);
     // study B's only batch is accepted: nothing waits for analyst B
-    expect(b.studies.map((s) => [s.id, s.readyForReview, s.batchesByState.accepted])).toEqual([[w.studyB.id, 0, 1]]);
+    expect(b.studies.map((s) => [s.id, s.readyForReview, s.batchesByState.accepted])).toEqual([
+      [w.studyB.id, 0, 1],
+    ]);
     expect(b.queue).toEqual([]);
   });
 
@@ -65,12 +74,18 @@ describe("getHomeSummary", () => {
     const home = await getHomeSummary(sessionUser(w.users.admin));
     if (home.role !== "admin") throw new Error("expected an admin home");
     for (const role of ["provider", "analyst", "lead", "admin"] as const) {
-      expect(home.usersByRole[role]).toBe(await sqlCount(`SELECT COUNT(*) AS n FROM users WHERE role = '${role}'`));
+      expect(home.usersByRole[role]).toBe(
+        await sqlCount(`SELECT COUNT(*) AS n FROM users WHERE role = '${role}'`),
+      );
     }
     expect(home.inactiveUsers).toBe(await sqlCount("SELECT COUNT(*) AS n FROM users WHERE active = 0"));
     expect(home.activeUsers + home.inactiveUsers).toBe(await sqlCount("SELECT COUNT(*) AS n FROM users"));
-    expect(home.organisations.provider).toBe(await sqlCount("SELECT COUNT(*) AS n FROM organisations WHERE kind = 'provider'"));
-    expect(home.organisations.team).toBe(await sqlCount("SELECT COUNT(*) AS n FROM organisations WHERE kind = 'team'"));
+    expect(home.organisations.provider).toBe(
+      await sqlCount("SELECT COUNT(*) AS n FROM organisations WHERE kind = 'provider'"),
+    );
+    expect(home.organisations.team).toBe(
+      await sqlCount("SELECT COUNT(*) AS n FROM organisations WHERE kind = 'team'"),
+    );
     expect(home.studies).toBe(await sqlCount("SELECT COUNT(*) AS n FROM studies"));
   });
 });

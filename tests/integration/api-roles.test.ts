@@ -38,23 +38,42 @@ async function usersSnapshot() {
   const db = getDb();
   const [n] = await db.select({ n: count() }).from(users);
   const rows = await db
-    .select({ id: users.id, role: users.role, active: users.active, sessionVersion: users.sessionVersion, passwordHash: users.passwordHash })
+    .select({
+      id: users.id,
+      role: users.role,
+      active: users.active,
+      sessionVersion: users.sessionVersion,
+      passwordHash: users.passwordHash,
+    })
     .from(users)
     .where(eq(users.organisationId, w.farmB.id));
   return { count: Number(n?.n), farmB: rows };
 }
 
 function newUserBody(tag: string) {
-  return { email: `new-${tag}-${Date.now()}@f3a.test`, name: "New Person", role: "admin", organisationId: w.team.id, password: "long-enough-password" };
+  return {
+    email: `new-${tag}-${Date.now()}@f3a.test`,
+    name: "New Person",
+    role: "admin",
+    organisationId: w.team.id,
+    password: "long-enough-password",
+  };
 }
 
 describe("anonymous", () => {
   test.each([
     ["GET /api/v1/me", () => call(getMe, { path: "/api/v1/me" })],
     ["GET /api/v1/studies", () => call(listStudies, { path: "/api/v1/studies" })],
-    ["GET /api/v1/studies/:id", () => call(getStudy, { path: `/api/v1/studies/${w.studyA.id}`, params: { id: String(w.studyA.id) } })],
+    [
+      "GET /api/v1/studies/:id",
+      () => call(getStudy, { path: `/api/v1/studies/${w.studyA.id}`, params: { id: String(w.studyA.id) } }),
+    ],
     ["GET /api/v1/batches", () => call(listBatches, { path: "/api/v1/batches" })],
-    ["GET /api/v1/batches/:id", () => call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId } })],
+    [
+      "GET /api/v1/batches/:id",
+      () =>
+        call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId } }),
+    ],
     ["GET /api/v1/admin/users", () => call(listAdminUsers, { path: "/api/v1/admin/users" })],
   ])("%s → 401 JSON", async (_label, run) => {
     const res = await run();
@@ -65,7 +84,11 @@ describe("anonymous", () => {
 
   test("POST and PATCH on admin users → 401 and the users table unchanged", async () => {
     const before = await usersSnapshot();
-    const created = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: newUserBody("anon") });
+    const created = await call(createAdminUser, {
+      method: "POST",
+      path: "/api/v1/admin/users",
+      body: newUserBody("anon"),
+    });
     const patched = await call(patchAdminUser, {
       method: "PATCH",
       path: `/api/v1/admin/users/${w.users.providerB.id}`,
@@ -77,8 +100,14 @@ describe("anonymous", () => {
   });
 
   test("a cookie encrypted under another secret, or a garbage cookie, is no session", async () => {
-    const forged = await call(getMe, { path: "/api/v1/me", as: { cookie: await forgedSessionCookie(w.users.admin) } });
-    const garbage = await call(getMe, { path: "/api/v1/me", as: { cookie: "next-auth.session-token=eyJhbGciOi.not.a.jwt" } });
+    const forged = await call(getMe, {
+      path: "/api/v1/me",
+      as: { cookie: await forgedSessionCookie(w.users.admin) },
+    });
+    const garbage = await call(getMe, {
+      path: "/api/v1/me",
+      as: { cookie: "next-auth.session-token=eyJhbGciOi.not.a.jwt" },
+    });
     expect([forged.status, garbage.status]).toEqual([401, 401]);
   });
 });
@@ -87,7 +116,10 @@ describe("provider", () => {
   test("sees itself and its organisation", async () => {
     const res = await call(getMe, { path: "/api/v1/me", as: as.providerA });
     expect(res.status).toBe(200);
-    expect(res.json.data).toMatchObject({ role: "provider", organisation: { id: w.farmA.id, name: w.farmA.name } });
+    expect(res.json.data).toMatchObject({
+      role: "provider",
+      organisation: { id: w.farmA.id, name: w.farmA.name },
+    });
     expect((res.json.data as { permissions: string[] }).permissions).not.toContain("user.manage");
   });
 
@@ -98,9 +130,18 @@ describe("provider", () => {
   });
 
   test("reads an admitted study, with only its own organisation among the providers", async () => {
-    const res = await call(getStudy, { path: `/api/v1/studies/${w.studyA.slug}`, params: { id: w.studyA.slug }, as: as.providerA });
+    const res = await call(getStudy, {
+      path: `/api/v1/studies/${w.studyA.slug}`,
+      params: { id: w.studyA.slug },
+      as: as.providerA,
+    });
     expect(res.status).toBe(200);
-    const study = res.json.data as { id: number; providers: { id: number }[]; analysts: unknown[]; currentPlan: { version: number } };
+    const study = res.json.data as {
+      id: number;
+      providers: { id: number }[];
+      analysts: unknown[];
+      currentPlan: { version: number };
+    };
     expect(study.id).toBe(w.studyA.id);
     expect(study.providers.map((p) => p.id)).toEqual([w.farmA.id]);
     expect(study.analysts).toEqual([]);
@@ -124,14 +165,31 @@ describe("provider", () => {
   });
 
   test("reads its own batch with the latest version's state", async () => {
-    const res = await call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId }, as: as.providerA });
+    const res = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchA.publicId}`,
+      params: { id: w.batchA.publicId },
+      as: as.providerA,
+    });
     expect(res.status).toBe(200);
-    expect(res.json.data).toMatchObject({ publicId: w.batchA.publicId, state: "ready", latestVersion: 1, versions: [{ version: 1, state: "ready" }] });
+    expect(res.json.data).toMatchObject({
+      publicId: w.batchA.publicId,
+      state: "ready",
+      latestVersion: 1,
+      versions: [{ version: 1, state: "ready" }],
+    });
   });
 
   test("another organisation's batch → 404, indistinguishable from a batch that does not exist", async () => {
-    const other = await call(getBatch, { path: `/api/v1/batches/${w.batchB.publicId}`, params: { id: w.batchB.publicId }, as: as.providerA });
-    const missing = await call(getBatch, { path: "/api/v1/batches/tnosuchbatch000", params: { id: "tnosuchbatch000" }, as: as.providerA });
+    const other = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchB.publicId}`,
+      params: { id: w.batchB.publicId },
+      as: as.providerA,
+    });
+    const missing = await call(getBatch, {
+      path: "/api/v1/batches/tnosuchbatch000",
+      params: { id: "tnosuchbatch000" },
+      as: as.providerA,
+    });
     expect(other.status).toBe(404);
     expectSafeError(other.json, "not_found");
     expect(other).toEqual(missing);
@@ -140,7 +198,12 @@ describe("provider", () => {
   test("admin routes → 403, and the users table is unchanged", async () => {
     const before = await usersSnapshot();
     const list = await call(listAdminUsers, { path: "/api/v1/admin/users", as: as.providerA });
-    const create = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: newUserBody("prov"), as: as.providerA });
+    const create = await call(createAdminUser, {
+      method: "POST",
+      path: "/api/v1/admin/users",
+      body: newUserBody("prov"),
+      as: as.providerA,
+    });
     const deactivate = await call(patchAdminUser, {
       method: "PATCH",
       path: `/api/v1/admin/users/${w.users.providerB.id}`,
@@ -161,12 +224,20 @@ describe("provider", () => {
       expectSafeError(res.json, "forbidden");
     }
     expect(await usersSnapshot()).toEqual(before);
-    const [me] = await getDb().select({ role: users.role }).from(users).where(eq(users.id, w.users.providerA.id));
+    const [me] = await getDb()
+      .select({ role: users.role })
+      .from(users)
+      .where(eq(users.id, w.users.providerA.id));
     expect(me?.role).toBe("provider");
   });
 
   test("a refusal does not depend on the body: a malformed body still gets 403, not 422", async () => {
-    const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: "{not json", as: as.providerA });
+    const res = await call(createAdminUser, {
+      method: "POST",
+      path: "/api/v1/admin/users",
+      body: "{not json",
+      as: as.providerA,
+    });
     expect(res.status).toBe(403);
   });
 });
@@ -180,13 +251,21 @@ describe("analyst", () => {
   });
 
   test("an unassigned study → 404", async () => {
-    const res = await call(getStudy, { path: `/api/v1/studies/${w.studyB.id}`, params: { id: String(w.studyB.id) }, as: as.analystA });
+    const res = await call(getStudy, {
+      path: `/api/v1/studies/${w.studyB.id}`,
+      params: { id: String(w.studyB.id) },
+      as: as.analystA,
+    });
     expect(res.status).toBe(404);
     expectSafeError(res.json, "not_found");
   });
 
   test("an assigned study lists its analysts and providers", async () => {
-    const res = await call(getStudy, { path: `/api/v1/studies/${w.studyA.id}`, params: { id: String(w.studyA.id) }, as: as.analystA });
+    const res = await call(getStudy, {
+      path: `/api/v1/studies/${w.studyA.id}`,
+      params: { id: String(w.studyA.id) },
+      as: as.analystA,
+    });
     expect(res.status).toBe(200);
     const s = res.json.data as { analysts: { id: number }[]; providers: { id: number }[] };
     expect(s.analysts.map((a) => a.id)).toEqual([w.users.analystA.id]);
@@ -196,13 +275,24 @@ describe("analyst", () => {
   test("sees the batches of assigned studies only", async () => {
     const list = await call(listBatches, { path: "/api/v1/batches", as: as.analystA });
     expect(publicIds(list.json.data)).toEqual([w.batchA.publicId]);
-    const own = await call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId }, as: as.analystA });
-    const other = await call(getBatch, { path: `/api/v1/batches/${w.batchB.publicId}`, params: { id: w.batchB.publicId }, as: as.analystA });
+    const own = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchA.publicId}`,
+      params: { id: w.batchA.publicId },
+      as: as.analystA,
+    });
+    const other = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchB.publicId}`,
+      params: { id: w.batchB.publicId },
+      as: as.analystA,
+    });
     expect([own.status, other.status]).toEqual([200, 404]);
   });
 
   test("the batch list filters by study and state within scope", async () => {
-    const filtered = await call(listBatches, { path: `/api/v1/batches?studyId=${w.studyB.id}`, as: as.analystA });
+    const filtered = await call(listBatches, {
+      path: `/api/v1/batches?studyId=${w.studyB.id}`,
+      as: as.analystA,
+    });
     expect(filtered.json.data).toEqual([]);
     const ready = await call(listBatches, { path: "/api/v1/batches?state=ready", as: as.analystA });
     expect(publicIds(ready.json.data)).toEqual([w.batchA.publicId]);
@@ -222,15 +312,26 @@ describe("lead", () => {
     const studies = await call(listStudies, { path: "/api/v1/studies", as: as.lead });
     expect(ids(studies.json.data)).toEqual(expect.arrayContaining([w.studyA.id, w.studyB.id]));
     const batches = await call(listBatches, { path: "/api/v1/batches", as: as.lead });
-    expect(publicIds(batches.json.data)).toEqual(expect.arrayContaining([w.batchA.publicId, w.batchB.publicId]));
-    const b = await call(getBatch, { path: `/api/v1/batches/${w.batchB.publicId}`, params: { id: w.batchB.publicId }, as: as.lead });
+    expect(publicIds(batches.json.data)).toEqual(
+      expect.arrayContaining([w.batchA.publicId, w.batchB.publicId]),
+    );
+    const b = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchB.publicId}`,
+      params: { id: w.batchB.publicId },
+      as: as.lead,
+    });
     expect(b.status).toBe(200);
   });
 
   test("admin user routes are for admins only → 403, data unchanged", async () => {
     const before = await usersSnapshot();
     const list = await call(listAdminUsers, { path: "/api/v1/admin/users", as: as.lead });
-    const create = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body: newUserBody("lead"), as: as.lead });
+    const create = await call(createAdminUser, {
+      method: "POST",
+      path: "/api/v1/admin/users",
+      body: newUserBody("lead"),
+      as: as.lead,
+    });
     expect([list.status, create.status]).toEqual([403, 403]);
     expect(await usersSnapshot()).toEqual(before);
   });
@@ -240,7 +341,11 @@ describe("admin", () => {
   test("sees every study and batch", async () => {
     const studies = await call(listStudies, { path: "/api/v1/studies", as: as.admin });
     expect(ids(studies.json.data)).toEqual(expect.arrayContaining([w.studyA.id, w.studyB.id]));
-    const b = await call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId }, as: as.admin });
+    const b = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchA.publicId}`,
+      params: { id: w.batchA.publicId },
+      as: as.admin,
+    });
     expect(b.status).toBe(200);
   });
 

@@ -25,13 +25,21 @@ describe("API tokens", () => {
   test("created while signed in, shown once, stored only as its sha-256, and usable as Bearer", async () => {
     const u = w.users.providerA;
     const cookie = await sessionCookieFor(u);
-    const created = await call(createToken, { method: "POST", path: "/api/v1/tokens", body: { name: "upload script" }, as: { cookie } });
+    const created = await call(createToken, {
+      method: "POST",
+      path: "/api/v1/tokens",
+      body: { name: "upload script" },
+      as: { cookie },
+    });
     expect(created.status).toBe(201);
     const { token, id, prefix } = created.json.data as { token: string; id: number; prefix: string };
     expect(token).toMatch(/^trb_[A-Za-z0-9_-]{32}$/);
     expect(token.startsWith(prefix)).toBe(true);
 
-    const [row] = await getDb().select({ tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt }).from(apiTokens).where(eq(apiTokens.id, id));
+    const [row] = await getDb()
+      .select({ tokenHash: apiTokens.tokenHash, lastUsedAt: apiTokens.lastUsedAt })
+      .from(apiTokens)
+      .where(eq(apiTokens.id, id));
     expect(row?.tokenHash).toBe(hashApiToken(token));
     expect(row?.tokenHash).not.toContain(token.slice(4, 20));
     expect(row?.lastUsedAt).toBeNull();
@@ -39,7 +47,10 @@ describe("API tokens", () => {
     const me = await call(getMe, { path: "/api/v1/me", as: { bearer: token } });
     expect(me.status).toBe(200);
     expect(me.json.data).toMatchObject({ id: u.id, role: "provider", via: "token" });
-    const [used] = await getDb().select({ lastUsedAt: apiTokens.lastUsedAt }).from(apiTokens).where(eq(apiTokens.id, id));
+    const [used] = await getDb()
+      .select({ lastUsedAt: apiTokens.lastUsedAt })
+      .from(apiTokens)
+      .where(eq(apiTokens.id, id));
     expect(used?.lastUsedAt).toBeInstanceOf(Date);
     expect(Math.abs(used!.lastUsedAt!.getTime() - Date.now())).toBeLessThan(60_000);
 
@@ -52,8 +63,16 @@ describe("API tokens", () => {
 
   test("a token carries its user's scope: another organisation's batch is still 404", async () => {
     const { token } = await addApiToken(w.users.providerA);
-    const own = await call(getBatch, { path: `/api/v1/batches/${w.batchA.publicId}`, params: { id: w.batchA.publicId }, as: { bearer: token } });
-    const other = await call(getBatch, { path: `/api/v1/batches/${w.batchB.publicId}`, params: { id: w.batchB.publicId }, as: { bearer: token } });
+    const own = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchA.publicId}`,
+      params: { id: w.batchA.publicId },
+      as: { bearer: token },
+    });
+    const other = await call(getBatch, {
+      path: `/api/v1/batches/${w.batchB.publicId}`,
+      params: { id: w.batchB.publicId },
+      as: { bearer: token },
+    });
     expect([own.status, other.status]).toEqual([200, 404]);
   });
 
@@ -63,14 +82,22 @@ describe("API tokens", () => {
     const { id, token } = await addApiToken(u);
     expect((await call(getMe, { path: "/api/v1/me", as: { bearer: token } })).status).toBe(200);
 
-    const revoked = await call(revokeToken, { method: "DELETE", path: `/api/v1/tokens/${id}`, params: { id: String(id) }, as: { cookie } });
+    const revoked = await call(revokeToken, {
+      method: "DELETE",
+      path: `/api/v1/tokens/${id}`,
+      params: { id: String(id) },
+      as: { cookie },
+    });
     expect(revoked.status).toBe(200);
     const res = await call(getMe, { path: "/api/v1/me", as: { bearer: token } });
     expect(res.status).toBe(401);
     expectSafeError(res.json, "unauthenticated");
     expect(res.json.error?.message).toMatch(/revoked/);
 
-    const audit = await getDb().select({ action: auditEvents.action }).from(auditEvents).where(eq(auditEvents.objectId, String(id)));
+    const audit = await getDb()
+      .select({ action: auditEvents.action })
+      .from(auditEvents)
+      .where(eq(auditEvents.objectId, String(id)));
     expect(audit.map((a) => a.action)).toContain("token.revoke");
   });
 
@@ -81,7 +108,10 @@ describe("API tokens", () => {
       const res = await call(getMe, { path: "/api/v1/me", as: { bearer } });
       expect(res.status).toBe(401);
     }
-    const basic = await getMe(new Request("http://127.0.0.1:3410/api/v1/me", { headers: { authorization: "Basic YTpi" } }), { params: Promise.resolve({}) });
+    const basic = await getMe(
+      new Request("http://127.0.0.1:3410/api/v1/me", { headers: { authorization: "Basic YTpi" } }),
+      { params: Promise.resolve({}) },
+    );
     expect(basic.status).toBe(401);
   });
 
@@ -101,7 +131,12 @@ describe("API tokens", () => {
 
   test("a token cannot mint tokens, nor revoke another user's token", async () => {
     const { token } = await addApiToken(w.users.lead);
-    const mint = await call(createToken, { method: "POST", path: "/api/v1/tokens", body: { name: "chain" }, as: { bearer: token } });
+    const mint = await call(createToken, {
+      method: "POST",
+      path: "/api/v1/tokens",
+      body: { name: "chain" },
+      as: { bearer: token },
+    });
     expect(mint.status).toBe(403);
 
     const theirs = await addApiToken(w.users.analystB);
@@ -116,7 +151,12 @@ describe("API tokens", () => {
   });
 
   test("a token needs a name", async () => {
-    const res = await call(createToken, { method: "POST", path: "/api/v1/tokens", body: { name: "  " }, as: { cookie: await sessionCookieFor(w.users.lead) } });
+    const res = await call(createToken, {
+      method: "POST",
+      path: "/api/v1/tokens",
+      body: { name: "  " },
+      as: { cookie: await sessionCookieFor(w.users.lead) },
+    });
     expect(res.status).toBe(422);
     expect(res.json.error?.fieldErrors?.name).toEqual(["Name the token (e.g. 'upload script')."]);
   });

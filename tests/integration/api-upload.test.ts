@@ -36,10 +36,13 @@ function post(token: string | null, fields: Record<string, string | File>): Prom
   for (const [k, v] of Object.entries(fields)) form.append(k, v);
   const headers = new Headers();
   if (token) headers.set("authorization", `Bearer ${token}`);
-  return POST(new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers, body: form }), { params: Promise.resolve({}) });
+  return POST(new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers, body: form }), {
+    params: Promise.resolve({}),
+  });
 }
 
-const storedCount = async () => (await readdir(dir).catch(() => [] as string[])).filter((n) => !n.endsWith(".json")).length;
+const storedCount = async () =>
+  (await readdir(dir).catch(() => [] as string[])).filter((n) => !n.endsWith(".json")).length;
 
 beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-api-upload-"));
@@ -63,9 +66,15 @@ describe("POST /api/v1/batches", () => {
     const csv = barleyBatches()[1]!.csv;
     const { token } = await tokenFor("provider@fennick.test");
     await drainQueue();
-    const res = await post(token, { study: "barley-nitrogen", label: "Fennick by API", file: new File([csv], "fennick.csv", { type: "text/csv" }) });
+    const res = await post(token, {
+      study: "barley-nitrogen",
+      label: "Fennick by API",
+      file: new File([csv], "fennick.csv", { type: "text/csv" }),
+    });
     expect(res.status).toBe(201);
-    const body = (await res.json()) as { data: { batchId: string; version: number; links: { report: string } } };
+    const body = (await res.json()) as {
+      data: { batchId: string; version: number; links: { report: string } };
+    };
     expect(body.data.version).toBe(1);
     expect(body.data.links.report).toBe(`/api/v1/batches/${body.data.batchId}/versions/1/report`);
     // 201 names what it created (RFC 9110 §15.3.2)
@@ -99,12 +108,60 @@ describe("POST /api/v1/batches", () => {
   });
 
   it.each([
-    ["a provider not admitted to the study", "installer@greenhearth.test", { study: "barley-nitrogen" }, "x.csv", "a,b\n1,2\n", 404, /not admitted/],
-    ["an empty file", "provider@fennick.test", { study: "barley-nitrogen" }, "empty.csv", "", 422, /empty \(0 bytes\)/],
-    ["a workbook", "provider@fennick.test", { study: "barley-nitrogen" }, "plots.xlsx", "PK\u0003\u0004", 422, /not a CSV file/],
-    ["an unknown study", "provider@fennick.test", { study: "no-such-study" }, "x.csv", "a\n1\n", 404, /does not exist/],
-    ["a file over the size limit", "provider@fennick.test", { study: "barley-nitrogen" }, "big.csv", "a,b\n" + "1,2\n".repeat(300_000), 422, /limit is 1 MB|1 MB limit/],
-    ["an analyst (no upload permission)", "analyst@lowmoor.test", { study: "barley-nitrogen" }, "x.csv", "a\n1\n", 403, /role does not allow/],
+    [
+      "a provider not admitted to the study",
+      "installer@greenhearth.test",
+      { study: "barley-nitrogen" },
+      "x.csv",
+      "a,b\n1,2\n",
+      404,
+      /not admitted/,
+    ],
+    [
+      "an empty file",
+      "provider@fennick.test",
+      { study: "barley-nitrogen" },
+      "empty.csv",
+      "",
+      422,
+      /empty \(0 bytes\)/,
+    ],
+    [
+      "a workbook",
+      "provider@fennick.test",
+      { study: "barley-nitrogen" },
+      "plots.xlsx",
+      "PK\u0003\u0004",
+      422,
+      /not a CSV file/,
+    ],
+    [
+      "an unknown study",
+      "provider@fennick.test",
+      { study: "no-such-study" },
+      "x.csv",
+      "a\n1\n",
+      404,
+      /does not exist/,
+    ],
+    [
+      "a file over the size limit",
+      "provider@fennick.test",
+      { study: "barley-nitrogen" },
+      "big.csv",
+      "a,b\n" + "1,2\n".repeat(300_000),
+      422,
+      /limit is 1 MB|1 MB limit/,
+    ],
+    [
+      "an analyst (no upload permission)",
+      "analyst@lowmoor.test",
+      { study: "barley-nitrogen" },
+      "x.csv",
+      "a\n1\n",
+      403,
+      /role does not allow/,
+    ],
   ])("refuses %s before storing anything", async (_what, email, fields, name, content, status, message) => {
     const { token } = await tokenFor(email);
     const before = await storedCount();
@@ -123,7 +180,9 @@ describe("POST /api/v1/batches", () => {
       const before = await storedCount();
       const res = await post(token, { study: "heat-pump-savings", file: new File(["a\n1\n"], "x.csv") });
       expect(res.status).toBe(403);
-      expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/is closed and takes no more batches/);
+      expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(
+        /is closed and takes no more batches/,
+      );
       expect(await storedCount()).toBe(before);
     } finally {
       await db.update(studies).set({ status: "open" }).where(eq(studies.slug, "heat-pump-savings"));

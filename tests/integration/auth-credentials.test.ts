@@ -31,7 +31,10 @@ describe("authorize()", () => {
 
   test("e-mail is matched without regard to case and surrounding spaces", async () => {
     const u = w.users.lead;
-    const got = await authorizeCredentials({ email: `  ${u.email.toUpperCase()} `, password: WORLD_PASSWORD }, ip);
+    const got = await authorizeCredentials(
+      { email: `  ${u.email.toUpperCase()} `, password: WORLD_PASSWORD },
+      ip,
+    );
     expect(got?.id).toBe(String(u.id));
   });
 
@@ -51,7 +54,9 @@ describe("authorize()", () => {
     try {
       const attempt = authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip);
       await expect(attempt).rejects.toBeInstanceOf(SignInRefused);
-      await expect(authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).rejects.toThrow(SIGN_IN_ERROR.deactivated);
+      await expect(authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).rejects.toThrow(
+        SIGN_IN_ERROR.deactivated,
+      );
       // and with a wrong password it is the plain refusal, which says nothing about the account
       expect(await authorizeCredentials({ email: u.email, password: "wrong-password-123" }, ip)).toBeNull();
     } finally {
@@ -75,11 +80,17 @@ describe("sign-in throttling", () => {
     for (let i = 0; i < SIGN_IN_LIMIT.maxFailures; i++) {
       expect(await authorizeCredentials({ email: u.email, password: `wrong-${i}-password` }, ip)).toBeNull();
     }
-    await expect(authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
+    await expect(authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).rejects.toThrow(
+      SIGN_IN_ERROR.tooManyAttempts,
+    );
     // another address is not held back by this one's failures
-    expect(await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "198.51.100.20" })).not.toBeNull();
+    expect(
+      await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "198.51.100.20" }),
+    ).not.toBeNull();
     // nor is another account from the same address
-    expect(await authorizeCredentials({ email: w.users.lead.email, password: WORLD_PASSWORD }, ip)).not.toBeNull();
+    expect(
+      await authorizeCredentials({ email: w.users.lead.email, password: WORLD_PASSWORD }, ip),
+    ).not.toBeNull();
   });
 
   test("the window is fixed: it ends 15 minutes after its first failure, and then nothing counts", async () => {
@@ -106,9 +117,11 @@ describe("sign-in throttling", () => {
 
   test("nine failures then a success clears the count", async () => {
     const u = w.users.analystA;
-    for (let i = 0; i < SIGN_IN_LIMIT.maxFailures - 1; i++) await authorizeCredentials({ email: u.email, password: "nope-nope-nope" }, ip);
+    for (let i = 0; i < SIGN_IN_LIMIT.maxFailures - 1; i++)
+      await authorizeCredentials({ email: u.email, password: "nope-nope-nope" }, ip);
     expect(await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).not.toBeNull();
-    for (let i = 0; i < SIGN_IN_LIMIT.maxFailures - 1; i++) await authorizeCredentials({ email: u.email, password: "nope-nope-nope" }, ip);
+    for (let i = 0; i < SIGN_IN_LIMIT.maxFailures - 1; i++)
+      await authorizeCredentials({ email: u.email, password: "nope-nope-nope" }, ip);
     expect(await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, ip)).not.toBeNull();
   });
 });

@@ -34,22 +34,38 @@ describe("demo accounts", () => {
   test.each(ACCOUNTS)("%s signs in as %s and sees %j", async (email, role, slugs) => {
     const user = await authorizeCredentials({ email, password: DEMO_PASSWORD }, ip);
     expect(user).toMatchObject({ email, role });
-    const cookie = await sessionCookieFor({ id: Number(user!.id), email, name: user!.name, role, sessionVersion: user!.sv });
+    const cookie = await sessionCookieFor({
+      id: Number(user!.id),
+      email,
+      name: user!.name,
+      role,
+      sessionVersion: user!.sv,
+    });
     const res = await call(listStudies, { path: "/api/v1/studies", as: { cookie } });
     expect(res.status).toBe(200);
-    const seen = (res.json.data as { slug: string }[]).map((s) => s.slug).filter((s) => DEMO_SLUGS.includes(s));
+    const seen = (res.json.data as { slug: string }[])
+      .map((s) => s.slug)
+      .filter((s) => DEMO_SLUGS.includes(s));
     expect(seen.sort()).toEqual([...slugs].sort());
     for (const other of DEMO_SLUGS.filter((s) => !(slugs as readonly string[]).includes(s))) {
-      const refused = await call(getStudy, { path: `/api/v1/studies/${other}`, params: { id: other }, as: { cookie } });
+      const refused = await call(getStudy, {
+        path: `/api/v1/studies/${other}`,
+        params: { id: other },
+        as: { cookie },
+      });
       expect(refused.status).toBe(404);
     }
   });
 
   test("inactive@harrowgate.test cannot sign in", async () => {
-    await expect(authorizeCredentials({ email: "inactive@harrowgate.test", password: DEMO_PASSWORD }, ip)).rejects.toThrow("AccountDeactivated");
+    await expect(
+      authorizeCredentials({ email: "inactive@harrowgate.test", password: DEMO_PASSWORD }, ip),
+    ).rejects.toThrow("AccountDeactivated");
   });
 
   test("a demo account with a wrong password is refused", async () => {
-    expect(await authorizeCredentials({ email: "admin@tributary.test", password: "tributary-demo!" }, ip)).toBeNull();
+    expect(
+      await authorizeCredentials({ email: "admin@tributary.test", password: "tributary-demo!" }, ip),
+    ).toBeNull();
   });
 });

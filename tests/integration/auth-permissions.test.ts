@@ -12,7 +12,16 @@ const MUST: Record<(typeof ROLES)[number], Action[]> = {
   admin: [...ACTIONS],
 };
 const MUST_NOT: Record<(typeof ROLES)[number], Action[]> = {
-  provider: ["batch.decide", "pool.read", "board.read", "user.manage", "user.invite", "study.manage", "plan.edit", "audit.read"],
+  provider: [
+    "batch.decide",
+    "pool.read",
+    "board.read",
+    "user.manage",
+    "user.invite",
+    "study.manage",
+    "plan.edit",
+    "audit.read",
+  ],
   analyst: ["batch.upload", "board.read", "user.manage", "user.invite", "study.manage", "plan.edit"],
   lead: ["user.manage", "batch.upload", "batch.decide"],
   admin: [],

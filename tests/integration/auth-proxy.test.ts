@@ -7,14 +7,22 @@ import { config, isPublicPath, proxy } from "@/proxy";
 import { forgedSessionCookie, sessionCookieFor } from "./helpers/session";
 
 const BASE = "http://127.0.0.1:3410";
-const user = { id: 1, email: "x@f3a.test", name: "X", role: "admin" as const, organisationId: null, sessionVersion: 1 };
+const user = {
+  id: 1,
+  email: "x@f3a.test",
+  name: "X",
+  role: "admin" as const,
+  organisationId: null,
+  sessionVersion: 1,
+};
 
 function visit(path: string, cookie?: string): NextRequest {
   return new NextRequest(new URL(path, BASE), { headers: cookie ? { cookie } : {} });
 }
 
 // NextResponse.next() marks "carry on" with this header; a redirect has a Location
-const passes = (res: Response) => res.headers.get("x-middleware-next") === "1" && !res.headers.get("location");
+const passes = (res: Response) =>
+  res.headers.get("x-middleware-next") === "1" && !res.headers.get("location");
 
 describe("proxy", () => {
   test("an anonymous page visit is sent to /sign-in with callbackUrl holding path and query", async () => {
@@ -29,13 +37,17 @@ describe("proxy", () => {
     expect((await proxy(visit("/"))).status).toBe(307);
   });
 
-  test.each(["/sign-in", "/api/v1/me", "/api/auth/session", "/_next/static/chunks/app.js", "/icon.svg", "/fonts/source-sans-3.woff2"])(
-    "%s passes without a session",
-    async (path) => {
-      expect(isPublicPath(path)).toBe(true);
-      expect(passes(await proxy(visit(path)))).toBe(true);
-    },
-  );
+  test.each([
+    "/sign-in",
+    "/api/v1/me",
+    "/api/auth/session",
+    "/_next/static/chunks/app.js",
+    "/icon.svg",
+    "/fonts/source-sans-3.woff2",
+  ])("%s passes without a session", async (path) => {
+    expect(isPublicPath(path)).toBe(true);
+    expect(passes(await proxy(visit(path)))).toBe(true);
+  });
 
   test("a page visit with a valid session cookie passes; a forged one is redirected", async () => {
     expect(passes(await proxy(visit("/studies", await sessionCookieFor(user))))).toBe(true);

@@ -14,7 +14,10 @@ const { getServerSessionMock, redirectMock } = vi.hoisted(() => ({
 }));
 // getCurrentUser() reads the session through next-auth's getServerSession, which needs
 // Next's request scope; here it is handed the session next-auth would have decoded.
-vi.mock("next-auth", async (orig) => ({ ...(await orig<typeof import("next-auth")>()), getServerSession: getServerSessionMock }));
+vi.mock("next-auth", async (orig) => ({
+  ...(await orig<typeof import("next-auth")>()),
+  getServerSession: getServerSessionMock,
+}));
 vi.mock("next/navigation", () => ({ redirect: redirectMock }));
 
 import { getDb } from "@/db/client";
@@ -45,13 +48,22 @@ async function sessionVersionOf(id: number): Promise<number> {
 }
 
 function patchUser(target: WorldUser, body: unknown) {
-  return call(patchAdminUser, { method: "PATCH", path: `/api/v1/admin/users/${target.id}`, params: { id: String(target.id) }, body, as: { cookie: adminCookie } });
+  return call(patchAdminUser, {
+    method: "PATCH",
+    path: `/api/v1/admin/users/${target.id}`,
+    params: { id: String(target.id) },
+    body,
+    as: { cookie: adminCookie },
+  });
 }
 
 /** The session object next-auth builds from the JWT with our session callback. */
 async function sessionFor(user: WorldUser) {
   const token = await jwtAtSignIn(user);
-  return authOptions.callbacks!.session!({ session: { expires: new Date(Date.now() + 3600_000).toISOString() } as never, token } as never);
+  return authOptions.callbacks!.session!({
+    session: { expires: new Date(Date.now() + 3600_000).toISOString() } as never,
+    token,
+  } as never);
 }
 
 describe("deactivation", () => {
@@ -70,22 +82,49 @@ describe("deactivation", () => {
     expectSafeError(after.json, "unauthenticated");
 
     // the deactivated user cannot sign in again either
-    await expect(authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "192.0.2.1" })).rejects.toThrow("AccountDeactivated");
+    await expect(
+      authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "192.0.2.1" }),
+    ).rejects.toThrow("AccountDeactivated");
 
     // reactivation lets them sign in anew, but the old session stays ended
     expect((await patchUser(u, { active: true })).status).toBe(200);
     expect((await call(getMe, { path: "/api/v1/me", as: { cookie } })).status).toBe(401);
-    const fresh = await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "192.0.2.1" });
+    const fresh = await authorizeCredentials(
+      { email: u.email, password: WORLD_PASSWORD },
+      { ip: "192.0.2.1" },
+    );
     expect(fresh?.sv).toBe(2);
-    expect((await call(getMe, { path: "/api/v1/me", as: { cookie: await sessionCookieFor({ ...u, sessionVersion: 2 }) } })).status).toBe(200);
+    expect(
+      (
+        await call(getMe, {
+          path: "/api/v1/me",
+          as: { cookie: await sessionCookieFor({ ...u, sessionVersion: 2 }) },
+        })
+      ).status,
+    ).toBe(200);
 
     const audit = await getDb()
-      .select({ action: auditEvents.action, actorId: auditEvents.actorId, before: auditEvents.before, after: auditEvents.after })
+      .select({
+        action: auditEvents.action,
+        actorId: auditEvents.actorId,
+        before: auditEvents.before,
+        after: auditEvents.after,
+      })
       .from(auditEvents)
       .where(eq(auditEvents.objectId, String(u.id)));
     expect(audit.filter((a) => a.action.startsWith("user.") && a.actorId === w.users.admin.id)).toEqual([
-      { action: "user.deactivate", actorId: w.users.admin.id, before: { active: true }, after: { active: false } },
-      { action: "user.reactivate", actorId: w.users.admin.id, before: { active: false }, after: { active: true } },
+      {
+        action: "user.deactivate",
+        actorId: w.users.admin.id,
+        before: { active: true },
+        after: { active: false },
+      },
+      {
+        action: "user.reactivate",
+        actorId: w.users.admin.id,
+        before: { active: false },
+        after: { active: true },
+      },
     ]);
   });
 
@@ -122,21 +161,41 @@ describe("password change", () => {
     expect((await call(getMe, { path: "/api/v1/me", as: { cookie } })).status).toBe(200);
 
     const wrong = await changeOwnPassword(u.id, "not-my-password", "a-brand-new-password");
-    expect(wrong).toEqual({ ok: false, message: "Check the highlighted fields.", fieldErrors: { currentPassword: ["That is not your current password."] }, code: "invalid" });
+    expect(wrong).toEqual({
+      ok: false,
+      message: "Check the highlighted fields.",
+      fieldErrors: { currentPassword: ["That is not your current password."] },
+      code: "invalid",
+    });
     const short = await changeOwnPassword(u.id, WORLD_PASSWORD, "short");
     expect(short.ok === false && short.fieldErrors?.newPassword).toEqual(["Use at least 10 characters."]);
-    const mismatch = await changeOwnPassword(u.id, WORLD_PASSWORD, "a-brand-new-password", "a-brand-new-passwort");
+    const mismatch = await changeOwnPassword(
+      u.id,
+      WORLD_PASSWORD,
+      "a-brand-new-password",
+      "a-brand-new-passwort",
+    );
     expect(mismatch.ok === false && mismatch.fieldErrors?.confirmPassword?.[0]).toMatch(/differ/);
     // refused attempts change nothing
     expect((await call(getMe, { path: "/api/v1/me", as: { cookie } })).status).toBe(200);
     expect(await sessionVersionOf(u.id)).toBe(1);
 
-    const done = await changeOwnPassword(u.id, WORLD_PASSWORD, "a-brand-new-password", "a-brand-new-password");
+    const done = await changeOwnPassword(
+      u.id,
+      WORLD_PASSWORD,
+      "a-brand-new-password",
+      "a-brand-new-password",
+    );
     expect(done).toEqual({ ok: true, data: { sessionVersion: 2 } });
     expect((await call(getMe, { path: "/api/v1/me", as: { cookie } })).status).toBe(401);
 
-    expect(await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "192.0.2.2" })).toBeNull();
-    const again = await authorizeCredentials({ email: u.email, password: "a-brand-new-password" }, { ip: "192.0.2.2" });
+    expect(
+      await authorizeCredentials({ email: u.email, password: WORLD_PASSWORD }, { ip: "192.0.2.2" }),
+    ).toBeNull();
+    const again = await authorizeCredentials(
+      { email: u.email, password: "a-brand-new-password" },
+      { ip: "192.0.2.2" },
+    );
     expect(again).toMatchObject({ id: String(u.id), sv: 2 });
     const newCookie = await sessionCookieFor({ ...u, sessionVersion: again!.sv });
     expect((await call(getMe, { path: "/api/v1/me", as: { cookie: newCookie } })).status).toBe(200);
@@ -145,7 +204,11 @@ describe("password change", () => {
       .select({ actorId: auditEvents.actorId, before: auditEvents.before, after: auditEvents.after })
       .from(auditEvents)
       .where(and(eq(auditEvents.action, "user.password_change"), eq(auditEvents.objectId, String(u.id))));
-    expect(audit).toMatchObject({ actorId: u.id, before: { sessionVersion: 1 }, after: { sessionVersion: 2 } });
+    expect(audit).toMatchObject({
+      actorId: u.id,
+      before: { sessionVersion: 1 },
+      after: { sessionVersion: 2 },
+    });
     expect(JSON.stringify(audit)).not.toMatch(/\$2[aby]\$|password/i);
   });
 });
@@ -158,7 +221,11 @@ describe("password change throttling", () => {
       expect(r.ok === false && r.fieldErrors?.currentPassword).toBeTruthy();
     }
     const blocked = await changeOwnPassword(u.id, WORLD_PASSWORD, "another-new-password");
-    expect(blocked).toMatchObject({ ok: false, code: "conflict", message: expect.stringMatching(/Too many wrong current passwords/) });
+    expect(blocked).toMatchObject({
+      ok: false,
+      code: "conflict",
+      message: expect.stringMatching(/Too many wrong current passwords/),
+    });
     expect(await sessionVersionOf(u.id)).toBe(1);
   });
 });
@@ -175,7 +242,9 @@ describe("role change", () => {
     try {
       expect((await call(listAdminUsers, { path: "/api/v1/admin/users", as: { cookie } })).status).toBe(200);
       const all = await call(listStudies, { path: "/api/v1/studies", as: { cookie } });
-      expect((all.json.data as { id: number }[]).map((s) => s.id)).toEqual(expect.arrayContaining([w.studyA.id, w.studyB.id]));
+      expect((all.json.data as { id: number }[]).map((s) => s.id)).toEqual(
+        expect.arrayContaining([w.studyA.id, w.studyB.id]),
+      );
     } finally {
       expect((await patchUser(u, { role: "analyst" })).status).toBe(200);
     }

@@ -29,7 +29,13 @@ beforeAll(async () => {
 beforeEach(() => resetRateLimits());
 
 /** One request to next-auth as the browser at 127.0.0.1:3410 would send it. */
-function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>, query: Record<string, string> = {}) {
+function nextAuth(
+  action: string[],
+  method: "GET" | "POST",
+  jar: Jar,
+  body?: Record<string, string>,
+  query: Record<string, string> = {},
+) {
   return callNextAuth(authOptions, action, method, jar, body, { query, headers: HEADERS });
 }
 
@@ -75,7 +81,9 @@ describe("sign-in through next-auth", () => {
     const to = new URL(res.redirect!);
     expect(to.pathname).toBe("/api/auth/error");
     expect(to.searchParams.get("error")).toBe("CredentialsSignin");
-    const hop1 = new URL((await nextAuth(["error"], "GET", jar, undefined, { error: "CredentialsSignin" })).redirect!);
+    const hop1 = new URL(
+      (await nextAuth(["error"], "GET", jar, undefined, { error: "CredentialsSignin" })).redirect!,
+    );
     expect(hop1.pathname).toBe("/api/auth/signin");
     const hop2 = await nextAuth(["signin"], "GET", jar, undefined, Object.fromEntries(hop1.searchParams));
     const page = new URL(hop2.redirect!, "http://127.0.0.1:3410");

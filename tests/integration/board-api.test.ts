@@ -19,7 +19,16 @@ const { GET: pools } = await import("@/app/api/v1/pool/route");
 const db = getDb();
 
 async function as(email: string) {
-  const [u] = await db.select({ id: users.id, email: users.email, name: users.name, role: users.role, sessionVersion: users.sessionVersion }).from(users).where(eq(users.email, email));
+  const [u] = await db
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      sessionVersion: users.sessionVersion,
+    })
+    .from(users)
+    .where(eq(users.email, email));
   return { cookie: await sessionCookieFor(u!) };
 }
 
@@ -31,7 +40,10 @@ describe("board routes", () => {
   it("gives a lead the board with every demo study's pool", async () => {
     const r = await call(board, { path: "/api/v1/board?weeks=4", as: await as("lead@lowmoor.test") });
     expect(r.status).toBe(200);
-    const data = r.json.data as { pools: { studySlug: string; dfTarget: number }[]; turnaround: { weeks: unknown[] } };
+    const data = r.json.data as {
+      pools: { studySlug: string; dfTarget: number }[];
+      turnaround: { weeks: unknown[] };
+    };
     // targets of the demo plans (lib/demo/plans.ts): barley 150 residual df
     expect(data.pools.find((p) => p.studySlug === "barley-nitrogen")?.dfTarget).toBe(150);
     expect(data.pools.some((p) => p.studySlug === "heat-pump-savings")).toBe(true);
@@ -39,16 +51,38 @@ describe("board routes", () => {
   });
 
   it("refuses analysts and providers (403), anonymous callers (401) and a bad period (422)", async () => {
-    expectSafeError((await call(board, { path: "/api/v1/board", as: await as("analyst@lowmoor.test") })).json, "forbidden");
-    expect((await call(board, { path: "/api/v1/board", as: await as("provider@harrowgate.test") })).status).toBe(403);
+    expectSafeError(
+      (await call(board, { path: "/api/v1/board", as: await as("analyst@lowmoor.test") })).json,
+      "forbidden",
+    );
+    expect(
+      (await call(board, { path: "/api/v1/board", as: await as("provider@harrowgate.test") })).status,
+    ).toBe(403);
     expect((await call(board, { path: "/api/v1/board" })).status).toBe(401);
-    expect((await call(board, { path: "/api/v1/board?weeks=0", as: await as("lead@lowmoor.test") })).status).toBe(422);
-    expect((await call(digest, { method: "POST", path: "/api/v1/board/digest", as: await as("provider@harrowgate.test") })).status).toBe(403);
+    expect(
+      (await call(board, { path: "/api/v1/board?weeks=0", as: await as("lead@lowmoor.test") })).status,
+    ).toBe(422);
+    expect(
+      (
+        await call(digest, {
+          method: "POST",
+          path: "/api/v1/board/digest",
+          as: await as("provider@harrowgate.test"),
+        })
+      ).status,
+    ).toBe(403);
   });
 
   it("queues the digest for every active lead on 'send now'", async () => {
-    const leads = await db.select({ id: users.id }).from(users).where(and(eq(users.role, "lead"), eq(users.active, true)));
-    const r = await call(digest, { method: "POST", path: "/api/v1/board/digest", as: await as("admin@tributary.test") });
+    const leads = await db
+      .select({ id: users.id })
+      .from(users)
+      .where(and(eq(users.role, "lead"), eq(users.active, true)));
+    const r = await call(digest, {
+      method: "POST",
+      path: "/api/v1/board/digest",
+      as: await as("admin@tributary.test"),
+    });
     expect(r.status).toBe(202);
     expect(r.json.data).toMatchObject({ recipients: leads.length, queued: leads.length });
   });
@@ -57,6 +91,8 @@ describe("board routes", () => {
     const r = await call(pools, { path: "/api/v1/pool", as: await as("analyst2@lowmoor.test") });
     expect(r.status).toBe(200);
     expect((r.json.data as { slug: string }[]).map((p) => p.slug)).toEqual(["heat-pump-savings"]);
-    expect((await call(pools, { path: "/api/v1/pool", as: await as("provider@harrowgate.test") })).status).toBe(403);
+    expect(
+      (await call(pools, { path: "/api/v1/pool", as: await as("provider@harrowgate.test") })).status,
+    ).toBe(403);
   });
 });

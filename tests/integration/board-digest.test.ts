@@ -5,7 +5,16 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { and, eq, like } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import { auditEvents, dataPlans, emailOutbox, organisations, studies, studyAnalysts, studyProviders, users } from "@/db/schema";
+import {
+  auditEvents,
+  dataPlans,
+  emailOutbox,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+  users,
+} from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
@@ -27,10 +36,22 @@ beforeAll(async () => {
   const parsed = parsePlan(BARLEY_PLAN);
   if (!parsed.ok) throw new Error("demo plan invalid");
   const lead = await userId("lead@lowmoor.test");
-  const [s] = await db.insert(studies).values({ slug: SLUG, title: TITLE, currentPlanVersion: 1, createdById: lead }).$returningId();
-  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
+  const [s] = await db
+    .insert(studies)
+    .values({ slug: SLUG, title: TITLE, currentPlanVersion: 1, createdById: lead })
+    .$returningId();
+  await db.insert(dataPlans).values({
+    studyId: s!.id,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
   for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, org));
+    const [o] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, org));
     await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
   }
   await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
@@ -40,7 +61,14 @@ beforeAll(async () => {
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, demo[0]!.csv);
   expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
   const b = await uploadAndCheck("provider@fennick.test", SLUG, demo[1]!.csv);
-  expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
+  expect(
+    (
+      await decideVersion(analyst, b.batchPublicId, 1, {
+        decision: "bounce",
+        comment: "Soil levels as in the plan.",
+      })
+    ).ok,
+  ).toBe(true);
   bouncedId = b.batchPublicId;
   const c = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv);
   waitingId = c.batchPublicId;
@@ -75,25 +103,49 @@ describe("weekly digest", () => {
   });
 
   it("queues one message per active lead, once a week for the schedule and each time for 'send now'", async () => {
-    const leads = await db.select({ email: users.email }).from(users).where(and(eq(users.role, "lead"), eq(users.active, true)));
+    const leads = await db
+      .select({ email: users.email })
+      .from(users)
+      .where(and(eq(users.role, "lead"), eq(users.active, true)));
     const lead = await userId("lead@lowmoor.test");
     const now = new Date(Date.now() + 2000);
     const first = await sendDigest({ actorId: null, now, reason: "weekly" });
     expect(first).toMatchObject({ ok: true, data: { recipients: leads.length, queued: leads.length } });
-    const again = await sendDigest({ actorId: null, now: new Date(now.getTime() + 60_000), reason: "weekly" });
+    const again = await sendDigest({
+      actorId: null,
+      now: new Date(now.getTime() + 60_000),
+      reason: "weekly",
+    });
     expect(again).toMatchObject({ ok: true, data: { queued: 0 } });
     const manual = await sendDigest({ actorId: lead, now: new Date(now.getTime() + 120_000), reason: "now" });
     expect(manual).toMatchObject({ ok: true, data: { queued: leads.length } });
-    const rows = await db.select().from(emailOutbox).where(and(eq(emailOutbox.kind, "digest"), eq(emailOutbox.toAddress, "lead@lowmoor.test"), like(emailOutbox.dedupeKey, "digest:%")));
+    const rows = await db
+      .select()
+      .from(emailOutbox)
+      .where(
+        and(
+          eq(emailOutbox.kind, "digest"),
+          eq(emailOutbox.toAddress, "lead@lowmoor.test"),
+          like(emailOutbox.dedupeKey, "digest:%"),
+        ),
+      );
     expect(rows.length).toBeGreaterThanOrEqual(2);
     expect(rows.at(-1)?.textBody).toContain(TITLE);
-    const audit = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "digest.send"), eq(auditEvents.actorId, lead)));
+    const audit = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.action, "digest.send"), eq(auditEvents.actorId, lead)));
     expect(audit.length).toBeGreaterThanOrEqual(1);
   });
 
   it("refuses providers and analysts, and is due from Monday 07:00 UTC", async () => {
-    expect(await sendDigest({ actorId: await userId("provider@harrowgate.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
-    expect(await sendDigest({ actorId: await userId("analyst@lowmoor.test"), reason: "now" })).toMatchObject({ ok: false, code: "forbidden" });
+    expect(
+      await sendDigest({ actorId: await userId("provider@harrowgate.test"), reason: "now" }),
+    ).toMatchObject({ ok: false, code: "forbidden" });
+    expect(await sendDigest({ actorId: await userId("analyst@lowmoor.test"), reason: "now" })).toMatchObject({
+      ok: false,
+      code: "forbidden",
+    });
     expect(digestDue(new Date("2026-11-30T06:59:00Z"))).toBe(false);
     expect(digestDue(new Date("2026-11-30T07:00:00Z"))).toBe(true);
     expect(digestDue(new Date("2026-12-02T01:00:00Z"))).toBe(true);

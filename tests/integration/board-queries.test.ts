@@ -6,12 +6,28 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import { batchVersions, dataPlans, decisions, organisations, studies, studyAnalysts, studyProviders } from "@/db/schema";
+import {
+  batchVersions,
+  dataPlans,
+  decisions,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+} from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
-import { getBoard, intakeFlow, listBoardBatches, poolHeadrooms, providerStats, silentProviders, turnaroundByWeek } from "@/lib/pool/queries-board";
+import {
+  getBoard,
+  intakeFlow,
+  listBoardBatches,
+  poolHeadrooms,
+  providerStats,
+  silentProviders,
+  turnaroundByWeek,
+} from "@/lib/pool/queries-board";
 import { quantile, weekStart } from "@/lib/pool/board-stats";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
 
@@ -28,10 +44,22 @@ beforeAll(async () => {
   const parsed = parsePlan(BARLEY_PLAN);
   if (!parsed.ok) throw new Error("demo plan invalid");
   const lead = await userId("lead@lowmoor.test");
-  const [s] = await db.insert(studies).values({ slug: SLUG, title: `Board test ${SLUG}`, currentPlanVersion: 1, createdById: lead }).$returningId();
-  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
+  const [s] = await db
+    .insert(studies)
+    .values({ slug: SLUG, title: `Board test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
+    .$returningId();
+  await db.insert(dataPlans).values({
+    studyId: s!.id,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
   for (const org of ["harrowgate", "fennick-hill", "brackenridge"]) {
-    const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, org));
+    const [o] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, org));
     await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
   }
   await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
@@ -40,15 +68,38 @@ beforeAll(async () => {
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, demo[0]!.csv);
   expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
   const b = await uploadAndCheck("provider@fennick.test", SLUG, demo[1]!.csv);
-  expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan." })).ok).toBe(true);
-  const b2 = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv, { batchPublicId: b.batchPublicId });
+  expect(
+    (
+      await decideVersion(analyst, b.batchPublicId, 1, {
+        decision: "bounce",
+        comment: "Soil levels as in the plan.",
+      })
+    ).ok,
+  ).toBe(true);
+  const b2 = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv, {
+    batchPublicId: b.batchPublicId,
+  });
   // known times: a decided 10 h after upload, b v1 30 h after; b v2 waiting for 5 h
   const set = async (versionId: number, uploaded: Date, changed: Date, decided?: Date) => {
-    await db.update(batchVersions).set({ uploadedAt: uploaded, stateChangedAt: changed }).where(eq(batchVersions.id, versionId));
-    if (decided) await db.update(decisions).set({ decidedAt: decided }).where(eq(decisions.batchVersionId, versionId));
+    await db
+      .update(batchVersions)
+      .set({ uploadedAt: uploaded, stateChangedAt: changed })
+      .where(eq(batchVersions.id, versionId));
+    if (decided)
+      await db.update(decisions).set({ decidedAt: decided }).where(eq(decisions.batchVersionId, versionId));
   };
-  await set(a.batchVersionId, new Date(NOW.getTime() - 40 * HOUR), new Date(NOW.getTime() - 30 * HOUR), new Date(NOW.getTime() - 30 * HOUR));
-  await set(b.batchVersionId, new Date(NOW.getTime() - 50 * HOUR), new Date(NOW.getTime() - 20 * HOUR), new Date(NOW.getTime() - 20 * HOUR));
+  await set(
+    a.batchVersionId,
+    new Date(NOW.getTime() - 40 * HOUR),
+    new Date(NOW.getTime() - 30 * HOUR),
+    new Date(NOW.getTime() - 30 * HOUR),
+  );
+  await set(
+    b.batchVersionId,
+    new Date(NOW.getTime() - 50 * HOUR),
+    new Date(NOW.getTime() - 20 * HOUR),
+    new Date(NOW.getTime() - 20 * HOUR),
+  );
   await set(b2.batchVersionId, new Date(NOW.getTime() - 5 * HOUR), new Date(NOW.getTime() - 5 * HOUR));
   ids = { accepted: a.batchPublicId, resubmitted: b.batchPublicId };
 });
@@ -103,10 +154,28 @@ describe("the board", () => {
   it("gives bounce rate and versions per batch by provider, and who has sent nothing", async () => {
     const stats = (await providerStats(db)).filter((p) => p.studySlug === SLUG);
     expect(stats).toEqual([
-      expect.objectContaining({ organisationName: "Fennick Hill Farm", batches: 1, versions: 2, versionsPerBatch: 2, accepted: 0, bounced: 1, bounceRate: 1 }),
-      expect.objectContaining({ organisationName: "Harrowgate Farm", batches: 1, versions: 1, versionsPerBatch: 1, accepted: 1, bounced: 0, bounceRate: 0 }),
+      expect.objectContaining({
+        organisationName: "Fennick Hill Farm",
+        batches: 1,
+        versions: 2,
+        versionsPerBatch: 2,
+        accepted: 0,
+        bounced: 1,
+        bounceRate: 1,
+      }),
+      expect.objectContaining({
+        organisationName: "Harrowgate Farm",
+        batches: 1,
+        versions: 1,
+        versionsPerBatch: 1,
+        accepted: 1,
+        bounced: 0,
+        bounceRate: 0,
+      }),
     ]);
-    expect((await silentProviders(db)).filter((s) => s.studySlug === SLUG).map((s) => s.organisationName)).toEqual(["Brackenridge Farm"]);
+    expect(
+      (await silentProviders(db)).filter((s) => s.studySlug === SLUG).map((s) => s.organisationName),
+    ).toEqual(["Brackenridge Farm"]);
   });
 
   it("shows the pool against its df target and the intake flow", async () => {
@@ -118,7 +187,12 @@ describe("the board", () => {
     const flow = await intakeFlow(db, new Date(NOW.getTime() - 60 * HOUR), NOW);
     const f = (from: string, to: string) => flow.find((x) => x.from === from && x.to === to)?.versions ?? 0;
     // other test files' versions were uploaded at the real time, after NOW: only this file's three fall in the window
-    expect([f("received", "checking"), f("checking", "ready"), f("ready", "accepted"), f("ready", "bounced")]).toEqual([3, 3, 1, 1]);
+    expect([
+      f("received", "checking"),
+      f("checking", "ready"),
+      f("ready", "accepted"),
+      f("ready", "bounced"),
+    ]).toEqual([3, 3, 1, 1]);
     const board = await getBoard(db, NOW, 4);
     expect(board.pools.some((p) => p.studySlug === SLUG)).toBe(true);
   });

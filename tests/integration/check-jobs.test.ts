@@ -22,7 +22,10 @@ const openFile = openMemoryFile;
 const store = storeInMemory;
 
 beforeAll(async () => {
-  const [p] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
+  const [p] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "provider@harrowgate.test"));
   const [q] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@fennick.test"));
   const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
   const [h] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "heat-pump-savings"));
@@ -48,7 +51,10 @@ describe("recording an upload", () => {
     const jobs = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
     expect(jobs).toHaveLength(1);
     expect(jobs[0]?.status).toBe("queued");
-    const audit = await db.select().from(auditEvents).where(and(eq(auditEvents.batchId, r.data.batchId), eq(auditEvents.action, "batch.received")));
+    const audit = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.batchId, r.data.batchId), eq(auditEvents.action, "batch.received")));
     expect(audit).toHaveLength(1);
     await drainQueue();
   });
@@ -66,7 +72,11 @@ describe("recording an upload", () => {
     const mine = await recordBatchVersion(providerId, { studyId }, store("a\n1\n"));
     expect(mine.ok).toBe(true);
     if (!mine.ok) return;
-    const theirs = await recordBatchVersion(otherProviderId, { studyId, batchPublicId: mine.data.batchPublicId }, store("a\n1\n"));
+    const theirs = await recordBatchVersion(
+      otherProviderId,
+      { studyId, batchPublicId: mine.data.batchPublicId },
+      store("a\n1\n"),
+    );
     expect(theirs.ok).toBe(false);
     if (!theirs.ok) expect(theirs.message).toMatch(/not found/);
     await drainQueue();
@@ -75,10 +85,17 @@ describe("recording an upload", () => {
   it("a resubmission is version 2 and supersedes version 1", async () => {
     const v1 = await recordBatchVersion(providerId, { studyId }, store("a\n1\n"));
     if (!v1.ok) throw new Error(v1.message);
-    const v2 = await recordBatchVersion(providerId, { studyId, batchPublicId: v1.data.batchPublicId }, store("a\n2\n"));
+    const v2 = await recordBatchVersion(
+      providerId,
+      { studyId, batchPublicId: v1.data.batchPublicId },
+      store("a\n2\n"),
+    );
     if (!v2.ok) throw new Error(v2.message);
     expect(v2.data.version).toBe(2);
-    const [old] = await db.select({ state: batchVersions.state }).from(batchVersions).where(eq(batchVersions.id, v1.data.batchVersionId));
+    const [old] = await db
+      .select({ state: batchVersions.state })
+      .from(batchVersions)
+      .where(eq(batchVersions.id, v1.data.batchVersionId));
     expect(old?.state).toBe("superseded");
     await drainQueue();
   });
@@ -109,7 +126,11 @@ describe("workers", () => {
   });
 
   it("a job left running by a dead worker is taken again and ends with one report", async () => {
-    const r = await recordBatchVersion(providerId, { studyId }, store(barleyBatches()[1]!.csv, "fennick.csv"));
+    const r = await recordBatchVersion(
+      providerId,
+      { studyId },
+      store(barleyBatches()[1]!.csv, "fennick.csv"),
+    );
     if (!r.ok) throw new Error(r.message);
     const first = await claimJob(db, "doomed-worker");
     expect(first?.batchVersionId).toBe(r.data.batchVersionId);
@@ -123,29 +144,48 @@ describe("workers", () => {
     expect(report?.status).toBe("checked");
     const stored = await db.select().from(reports).where(eq(reports.batchVersionId, r.data.batchVersionId));
     expect(stored).toHaveLength(1);
-    const [v] = await db.select({ state: batchVersions.state }).from(batchVersions).where(eq(batchVersions.id, r.data.batchVersionId));
+    const [v] = await db
+      .select({ state: batchVersions.state })
+      .from(batchVersions)
+      .where(eq(batchVersions.id, r.data.batchVersionId));
     expect(v?.state).toBe("ready");
     const codes = (report?.findings ?? []).map((f) => f.code);
     // the Fennick Hill file carries "Clay"/"clay " and total_water_mm = irrigation_mm + rainfall_mm
     expect(codes).toContain("level.variant");
     const exact = report?.findings.find((f) => f.code === "collinear.exact");
-    expect(exact?.message).toMatch(/total_water_mm = (irrigation_mm \+ rainfall_mm|rainfall_mm \+ irrigation_mm)/);
-    const [job] = await db.select({ status: checkJobs.status }).from(checkJobs).where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
+    expect(exact?.message).toMatch(
+      /total_water_mm = (irrigation_mm \+ rainfall_mm|rainfall_mm \+ irrigation_mm)/,
+    );
+    const [job] = await db
+      .select({ status: checkJobs.status })
+      .from(checkJobs)
+      .where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
     expect(job?.status).toBe("done");
   });
 
   it("an unreadable file ends as unreadable with its reason, not as a failed job", async () => {
-    const r = await recordBatchVersion(providerId, { studyId }, store("PK\u0003\u0004 not really a workbook", "plots.xlsx.csv"));
+    const r = await recordBatchVersion(
+      providerId,
+      { studyId },
+      store("PK\u0003\u0004 not really a workbook", "plots.xlsx.csv"),
+    );
     if (!r.ok) throw new Error(r.message);
     const job = await claimJob(db, "w");
     const report = await runJob({ db, openFile }, job!);
     expect(report?.status).toBe("unreadable");
-    const [v] = await db.select({ state: batchVersions.state }).from(batchVersions).where(eq(batchVersions.id, r.data.batchVersionId));
+    const [v] = await db
+      .select({ state: batchVersions.state })
+      .from(batchVersions)
+      .where(eq(batchVersions.id, r.data.batchVersionId));
     expect(v?.state).toBe("unreadable");
   });
 
   it("a file that cannot be fetched fails the attempt and is retried later, then marked failed", async () => {
-    const r = await recordBatchVersion(providerId, { studyId }, { key: "missing-key", url: "http://127.0.0.1/none", name: "x.csv", size: 1 });
+    const r = await recordBatchVersion(
+      providerId,
+      { studyId },
+      { key: "missing-key", url: "http://127.0.0.1/none", name: "x.csv", size: 1 },
+    );
     if (!r.ok) throw new Error(r.message);
     let now = Date.now();
     for (let attempt = 1; attempt <= 3; attempt++) {
@@ -156,7 +196,10 @@ describe("workers", () => {
     }
     now += 600_000;
     expect(await claimJob(db, "w", new Date(now))).toBeNull();
-    const [job] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
+    const [job] = await db
+      .select()
+      .from(checkJobs)
+      .where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
     expect(job?.status).toBe("failed");
     expect(job?.lastError).toMatch(/no stored file/);
   });

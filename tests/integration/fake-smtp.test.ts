@@ -52,7 +52,10 @@ describe("SMTP fake", () => {
     expect(m.fromAddress).toBe("no-reply@tributary.test");
     expect(m.to).toEqual(["provider@harrowgate.test"]);
     expect(m.cc).toEqual(["lead@lowmoor.test"]);
-    expect(m.envelope).toEqual({ from: "no-reply@tributary.test", to: ["provider@harrowgate.test", "lead@lowmoor.test"] });
+    expect(m.envelope).toEqual({
+      from: "no-reply@tributary.test",
+      to: ["provider@harrowgate.test", "lead@lowmoor.test"],
+    });
     expect(m.text.trim()).toBe("Two findings need a fix.\nE_MISSING_RESPONSE in yield_t_ha");
     expect(m.html).toContain("<li>E_MISSING_RESPONSE in yield_t_ha</li>");
     expect(m.messageId).toBe("<outbox-7@tributary.test>");

@@ -24,8 +24,24 @@ let restoreXhr: () => void;
 
 beforeAll(async () => {
   dir = await mkdtemp(path.join(os.tmpdir(), "tributary-upload-errors-"));
-  fake = await startUploadFake({ port: 0, apiKey, appId, dir, callbackTimeoutMs: 1500, registrationWaitMs: 300, log: () => {} });
-  prodFake = await startUploadFake({ port: 0, apiKey, appId, dir, callbackTimeoutMs: 20_000, callbackGraceMs: 300, log: () => {} });
+  fake = await startUploadFake({
+    port: 0,
+    apiKey,
+    appId,
+    dir,
+    callbackTimeoutMs: 1500,
+    registrationWaitMs: 300,
+    log: () => {},
+  });
+  prodFake = await startUploadFake({
+    port: 0,
+    apiKey,
+    appId,
+    dir,
+    callbackTimeoutMs: 20_000,
+    callbackGraceMs: 300,
+    log: () => {},
+  });
   restoreXhr = installFetchXhr();
 });
 
@@ -85,7 +101,12 @@ describe("upload failures", () => {
   });
 
   it("when onUploadComplete fails in production mode the client is told soon after the callback returns", async () => {
-    const app = await startTestUploadApp({ token, ingestUrl: prodFake.url, isDev: false, failComplete: true });
+    const app = await startTestUploadApp({
+      token,
+      ingestUrl: prodFake.url,
+      isDev: false,
+      failComplete: true,
+    });
     try {
       const started = Date.now();
       await expect(app.upload(new File(["a,b\n1,2\n"], "x.csv", { type: "text/csv" }))).rejects.toThrow(

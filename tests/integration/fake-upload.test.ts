@@ -70,7 +70,12 @@ describe.each([
     expect(res!.serverData).toEqual({ batchId: "b-1", hashSeen: md5(csv) });
     expect(app.completed).toHaveLength(1);
     expect(app.completed[0]!.meta).toEqual({ uploader: "provider-1", study: "barley-nitrogen" });
-    expect(app.completed[0]!.file).toMatchObject({ key: res!.key, name: "harrowgate-2026.csv", size: Buffer.byteLength(csv), type: "text/csv" });
+    expect(app.completed[0]!.file).toMatchObject({
+      key: res!.key,
+      name: "harrowgate-2026.csv",
+      size: Buffer.byteLength(csv),
+      type: "text/csv",
+    });
 
     // the batch route stores privately: the plain URL is refused, a signed one works
     const plain = await fetch(res!.ufsUrl);
@@ -83,14 +88,17 @@ describe.each([
   it("refuses an upload the middleware rejects, with its message, and stores nothing", async () => {
     const before = (await api.listFiles()).files.length;
     const file = new File(["a,b\n1,2\n"], "x.csv", { type: "text/csv" });
-    await expect(app.upload(file, { user: "someone-else" })).rejects.toThrow(/Only provider-1 may upload here/);
+    await expect(app.upload(file, { user: "someone-else" })).rejects.toThrow(
+      /Only provider-1 may upload here/,
+    );
     expect((await api.listFiles()).files.length).toBe(before);
   });
 
   it("keeps binary-looking content and boundary-like lines intact across chunks (3 MiB)", async () => {
     const noise = randomBytes(3 * 1024 * 1024);
     // sprinkle CRLF and multipart-delimiter look-alikes through the body
-    for (let i = 0; i < noise.length - 64; i += 65_537) noise.write("\r\n------WebKitFormBoundary\r\n--", i, "latin1");
+    for (let i = 0; i < noise.length - 64; i += 65_537)
+      noise.write("\r\n------WebKitFormBoundary\r\n--", i, "latin1");
     const file = new File([noise], "big.csv", { type: "text/csv" });
     const [res] = await app.upload(file);
     expect(res!.fileHash).toBe(md5(noise));
@@ -112,7 +120,10 @@ describe("signatures and the raw protocol", () => {
     const r = await fetch(`${app.served.url}/api/uploadthing?actionType=upload&slug=batchFile`, {
       method: "POST",
       headers: { "content-type": "application/json", "x-test-user": "provider-1" },
-      body: JSON.stringify({ files: [{ name, size, type: "text/csv", lastModified: Date.now() }], input: { studySlug: "barley-nitrogen" } }),
+      body: JSON.stringify({
+        files: [{ name, size, type: "text/csv", lastModified: Date.now() }],
+        input: { studySlug: "barley-nitrogen" },
+      }),
     });
     expect(r.status).toBe(200);
     const [p] = (await r.json()) as { url: string; key: string }[];
@@ -127,7 +138,10 @@ describe("signatures and the raw protocol", () => {
 
   it("answers HEAD with x-ut-range-start and CORS for the browser", async () => {
     const p = await presign("h.csv", 4);
-    const pre = await fetch(p.url, { method: "OPTIONS", headers: { origin: "http://example.test", "access-control-request-method": "PUT" } });
+    const pre = await fetch(p.url, {
+      method: "OPTIONS",
+      headers: { origin: "http://example.test", "access-control-request-method": "PUT" },
+    });
     expect(pre.status).toBe(204);
     expect(pre.headers.get("access-control-allow-origin")).toBe("*");
     expect(pre.headers.get("access-control-allow-headers")).toContain("x-uploadthing-version");
@@ -146,11 +160,16 @@ describe("signatures and the raw protocol", () => {
     expect(r1.status).toBe(403);
     await r1.body?.cancel();
     // a bigger announced size under the original signature
-    const resized = p.url.slice(0, sigAt).replace(/x-ut-file-size=\d+/, "x-ut-file-size=999999") + p.url.slice(sigAt);
+    const resized =
+      p.url.slice(0, sigAt).replace(/x-ut-file-size=\d+/, "x-ut-file-size=999999") + p.url.slice(sigAt);
     const r2 = await fetch(resized, { method: "PUT", headers: { range: "bytes=0-" }, body: form(content) });
     expect(r2.status).toBe(403);
     await r2.body?.cancel();
-    const r3 = await fetch(p.url.slice(0, sigAt), { method: "PUT", headers: { range: "bytes=0-" }, body: form(content) });
+    const r3 = await fetch(p.url.slice(0, sigAt), {
+      method: "PUT",
+      headers: { range: "bytes=0-" },
+      body: form(content),
+    });
     expect(r3.status).toBe(403);
     await r3.body?.cancel();
     expect(await (await fetch(`${fake.url}/f/${p.key}`)).status).toBe(404);
@@ -179,7 +198,11 @@ describe("signatures and the raw protocol", () => {
   });
 
   it("requires the api key on server endpoints (401)", async () => {
-    const r = await fetch(`${fake.url}/v6/listFiles`, { method: "POST", headers: { "x-uploadthing-api-key": "sk_wrong" }, body: "{}" });
+    const r = await fetch(`${fake.url}/v6/listFiles`, {
+      method: "POST",
+      headers: { "x-uploadthing-api-key": "sk_wrong" },
+      body: "{}",
+    });
     expect(r.status).toBe(401);
     await r.body?.cancel();
   });
@@ -201,7 +224,10 @@ describe("UTApi from Node", () => {
     const urls = await api.getFileUrls(data.key);
     expect(urls.data).toEqual([{ key: data.key, url: data.ufsUrl }]);
     const listed = await api.listFiles();
-    expect(listed.files.find((f) => f.key === data.key)).toMatchObject({ name: "greenhearth.csv", status: "Uploaded" });
+    expect(listed.files.find((f) => f.key === data.key)).toMatchObject({
+      name: "greenhearth.csv",
+      status: "Uploaded",
+    });
 
     const signed = await api.getSignedURL(data.key, { expiresIn: 60 });
     expect((await fetch(signed.ufsUrl)).status).toBe(200);
@@ -213,7 +239,9 @@ describe("UTApi from Node", () => {
 
   it("keeps a non-ASCII file name through the double-encoded query and serves it in Content-Disposition", async () => {
     const name = "Ærøskøbing høst 2026 (ét).csv";
-    const res = await api.uploadFiles(new UTFile(["x\n1\n"], name, { type: "text/csv" }), { contentDisposition: "attachment" });
+    const res = await api.uploadFiles(new UTFile(["x\n1\n"], name, { type: "text/csv" }), {
+      contentDisposition: "attachment",
+    });
     expect((await api.listFiles()).files.find((f) => f.key === res.data!.key)?.name).toBe(name);
     const r = await fetch(res.data!.ufsUrl);
     // RFC 6266 / RFC 8187: the UTF-8 name percent-encoded in filename*
@@ -225,7 +253,9 @@ describe("UTApi from Node", () => {
 
   it("private files need a valid, unexpired signature", async () => {
     const content = "a\n1\n";
-    const res = await api.uploadFiles(new UTFile([content], "p.csv", { type: "text/csv" }), { acl: "private" });
+    const res = await api.uploadFiles(new UTFile([content], "p.csv", { type: "text/csv" }), {
+      acl: "private",
+    });
     const key = res.data!.key;
     expect((await fetch(res.data!.ufsUrl)).status).toBe(403);
     const { ufsUrl } = await api.generateSignedURL(key, { expiresIn: 60 });
@@ -236,7 +266,9 @@ describe("UTApi from Node", () => {
     const tampered = ufsUrl.replace(/expires=(\d+)/, (_m, n: string) => `expires=${Number(n) + 1000}`);
     expect((await fetch(tampered)).status).toBe(403);
     // another key under this key's signature
-    const other = await api.uploadFiles(new UTFile(["b\n2\n"], "q.csv", { type: "text/csv" }), { acl: "private" });
+    const other = await api.uploadFiles(new UTFile(["b\n2\n"], "q.csv", { type: "text/csv" }), {
+      acl: "private",
+    });
     expect((await fetch(ufsUrl.replace(key, other.data!.key))).status).toBe(403);
   });
 

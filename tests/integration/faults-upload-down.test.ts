@@ -51,7 +51,10 @@ beforeAll(async () => {
   app = await serveFetchHandler((req) => uploadRoute.POST(req as never));
   process.env.UPLOADTHING_CALLBACK_URL = `${app.url}/api/uploadthing`;
   restoreXhr = installFetchXhr();
-  const [u] = await getDb().select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
+  const [u] = await getDb()
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "provider@harrowgate.test"));
   signedIn.user = await loadSessionUser(u!.id);
   const t = await createApiToken(u!.id, { name: "upload fault test" });
   if (!t.ok) throw new Error(t.message);
@@ -75,7 +78,12 @@ async function counts() {
     batches: await n(db.select({ n: sql<number>`count(*)` }).from(batches)),
     versions: await n(db.select({ n: sql<number>`count(*)` }).from(batchVersions)),
     jobs: await n(db.select({ n: sql<number>`count(*)` }).from(checkJobs)),
-    audit: await n(db.select({ n: sql<number>`count(*)` }).from(auditEvents).where(sql`${auditEvents.action} like 'batch.%'`)),
+    audit: await n(
+      db
+        .select({ n: sql<number>`count(*)` })
+        .from(auditEvents)
+        .where(sql`${auditEvents.action} like 'batch.%'`),
+    ),
   };
 }
 
@@ -85,7 +93,11 @@ function apiUpload(name: string): Promise<Response> {
   const form = new FormData();
   form.append("study", "barley-nitrogen");
   form.append("file", new File([CSV], name, { type: "text/csv" }));
-  const req = new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers: { authorization: `Bearer ${apiToken}` }, body: form });
+  const req = new Request("http://127.0.0.1:3410/api/v1/batches", {
+    method: "POST",
+    headers: { authorization: `Bearer ${apiToken}` },
+    body: form,
+  });
   return apiPost(req, { params: Promise.resolve({}) });
 }
 
@@ -115,7 +127,12 @@ describe("the upload service down during an upload through the API", () => {
 
     const again = await apiUpload("while-down.csv");
     expect(again.status).toBe(201);
-    expect(await counts()).toEqual({ batches: before.batches + 1, versions: before.versions + 1, jobs: before.jobs + 1, audit: before.audit + 2 });
+    expect(await counts()).toEqual({
+      batches: before.batches + 1,
+      versions: before.versions + 1,
+      jobs: before.jobs + 1,
+      audit: before.audit + 2,
+    });
   });
 
   it("the connection cut mid-upload: 503 with the same message, nothing recorded, no file kept", async () => {
@@ -137,9 +154,21 @@ describe("the upload service down during an upload through the browser route", (
   // the SDK's browser client against the app's route handler: the route admits the upload and
   // hands out a signed address; the browser then sends the file to the service itself
   const send = (name: string) =>
-    (genUploader<never>({ url: new URL(`${app.url}/api/uploadthing`), package: "tributary-faults", fetch: globalThis.fetch }) as unknown as {
-      uploadFiles: (slug: string, o: unknown) => Promise<{ serverData: { batchId?: string; version?: number } }[]>;
-    }).uploadFiles("batchFile", { files: [new File([CSV], name, { type: "text/csv" })], input: { studySlug: "barley-nitrogen" } });
+    (
+      genUploader<never>({
+        url: new URL(`${app.url}/api/uploadthing`),
+        package: "tributary-faults",
+        fetch: globalThis.fetch,
+      }) as unknown as {
+        uploadFiles: (
+          slug: string,
+          o: unknown,
+        ) => Promise<{ serverData: { batchId?: string; version?: number } }[]>;
+      }
+    ).uploadFiles("batchFile", {
+      files: [new File([CSV], name, { type: "text/csv" })],
+      input: { studySlug: "barley-nitrogen" },
+    });
 
   /** The upload fails for the browser; the app records nothing and the service keeps no file. */
   async function expectRefusedAndNothingRecorded(name: string): Promise<void> {
@@ -156,9 +185,19 @@ describe("the upload service down during an upload through the browser route", (
     // and the upload form turns either into the API's wording (lib/batches/intake/upload-errors.ts)
     expect(uploadErrorMessage(e!)).toBe(STORE_DOWN_MESSAGE);
     // the React hook reports a store it could not reach as this code and text (@uploadthing/react)
-    expect(uploadErrorMessage({ code: "INTERNAL_CLIENT_ERROR", message: "Something went wrong. Please report this to UploadThing." })).toBe(STORE_DOWN_MESSAGE);
+    expect(
+      uploadErrorMessage({
+        code: "INTERNAL_CLIENT_ERROR",
+        message: "Something went wrong. Please report this to UploadThing.",
+      }),
+    ).toBe(STORE_DOWN_MESSAGE);
     // while the app's own refusals keep their message
-    expect(uploadErrorMessage({ code: "NOT_FOUND", message: "This study does not exist or your organisation is not admitted to it." })).toMatch(/not admitted/);
+    expect(
+      uploadErrorMessage({
+        code: "NOT_FOUND",
+        message: "This study does not exist or your organisation is not admitted to it.",
+      }),
+    ).toMatch(/not admitted/);
     // the service may still answer the cut upload late: give it the time a callback would take
     await new Promise((r) => setTimeout(r, 500));
     expect(await counts()).toEqual(before);
@@ -190,6 +229,11 @@ describe("the upload service down during an upload through the browser route", (
     const [done] = await send("browser-back.csv");
     expect(done?.serverData).toMatchObject({ version: 1 });
     expect(done?.serverData.batchId).toEqual(expect.any(String));
-    expect(await counts()).toEqual({ batches: before.batches + 1, versions: before.versions + 1, jobs: before.jobs + 1, audit: before.audit + 2 });
+    expect(await counts()).toEqual({
+      batches: before.batches + 1,
+      versions: before.versions + 1,
+      jobs: before.jobs + 1,
+      audit: before.audit + 2,
+    });
   });
 });

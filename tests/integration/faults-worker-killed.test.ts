@@ -16,7 +16,14 @@ import { checkJobs, studies, users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { BARLEY_HEADER, barleyRows, toCsv } from "@/lib/demo/batches";
 import { recordBatchVersion } from "@/lib/batches/commands-upload";
-import { clearOutbox, killAllWorkers, outcome, startWorker, waitFor, type WorkerProcess } from "./helpers/faults";
+import {
+  clearOutbox,
+  killAllWorkers,
+  outcome,
+  startWorker,
+  waitFor,
+  type WorkerProcess,
+} from "./helpers/faults";
 import { startFileGate, storeFile, type FileGate } from "./helpers/faults-net";
 import { drainQueue } from "./helpers/pipeline";
 import { processTestTimeout } from "../helpers/processes";
@@ -61,90 +68,110 @@ function workerEnv(): Record<string, string> {
 
 async function queueLarge(seed: number, name: string): Promise<{ versionId: number; size: number }> {
   const db = getDb();
-  const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@harrowgate.test"));
-  const [study] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
+  const [provider] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "provider@harrowgate.test"));
+  const [study] = await db
+    .select({ id: studies.id })
+    .from(studies)
+    .where(eq(studies.slug, "barley-nitrogen"));
   const file = await storeFile(fake.url, token, toCsv(BARLEY_HEADER, barleyRows("KL", ROWS, seed)), name);
-  const recorded = await recordBatchVersion(provider!.id, { studyId: study!.id, title: "Large season file" }, file);
+  const recorded = await recordBatchVersion(
+    provider!.id,
+    { studyId: study!.id, title: "Large season file" },
+    file,
+  );
   if (!recorded.ok) throw new Error(recorded.message);
   return { versionId: recorded.data.batchVersionId, size: file.size };
 }
 
 describe("a worker killed mid-file", () => {
-  it("the job is taken over by another worker after the stale timeout and ends with exactly one report", { timeout: processTestTimeout(4) }, async () => {
-    const db = getDb();
-    const { versionId, size } = await queueLarge(707, "harrowgate-large.csv");
+  it(
+    "the job is taken over by another worker after the stale timeout and ends with exactly one report",
+    { timeout: processTestTimeout(4) },
+    async () => {
+      const db = getDb();
+      const { versionId, size } = await queueLarge(707, "harrowgate-large.csv");
 
-    const heldAt = Math.floor(size * 0.4);
-    const held = gate.holdNext(heldAt);
-    const workers: WorkerProcess[] = [startWorker(workerEnv()), startWorker(workerEnv())];
-    await held;
+      const heldAt = Math.floor(size * 0.4);
+      const held = gate.holdNext(heldAt);
+      const workers: WorkerProcess[] = [startWorker(workerEnv()), startWorker(workerEnv())];
+      await held;
 
-    const job = await waitFor("the job to be running", async () => {
-      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
-      return j?.status === "running" && j.lockedBy ? j : null;
-    });
-    const victim = workers.find((w) => job.lockedBy!.includes(`:${w.pid}:`));
-    survivor = workers.find((w) => w !== victim);
-    expect(victim, `the job is locked by one of our workers (${job.lockedBy})`).toBeDefined();
-    expect(job.attempts).toBe(1);
+      const job = await waitFor("the job to be running", async () => {
+        const [j] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
+        return j?.status === "running" && j.lockedBy ? j : null;
+      });
+      const victim = workers.find((w) => job.lockedBy!.includes(`:${w.pid}:`));
+      survivor = workers.find((w) => w !== victim);
+      expect(victim, `the job is locked by one of our workers (${job.lockedBy})`).toBeDefined();
+      expect(job.attempts).toBe(1);
 
-    // alive but stalled mid-file for longer than the stale timeout: heartbeats keep the claim
-    await new Promise((r) => setTimeout(r, STALE_MS * 2));
-    const [still] = await db.select().from(checkJobs).where(eq(checkJobs.id, job.id));
-    expect(still).toMatchObject({ status: "running", lockedBy: job.lockedBy, attempts: 1 });
-    expect(still!.heartbeatAt!.getTime()).toBeGreaterThan(job.heartbeatAt!.getTime());
-    const [mid] = await outcome(db, [versionId]).then((m) => [...m.values()]);
-    expect(mid!.state).toBe("checking");
-    expect(mid!.reports).toHaveLength(0);
+      // alive but stalled mid-file for longer than the stale timeout: heartbeats keep the claim
+      await new Promise((r) => setTimeout(r, STALE_MS * 2));
+      const [still] = await db.select().from(checkJobs).where(eq(checkJobs.id, job.id));
+      expect(still).toMatchObject({ status: "running", lockedBy: job.lockedBy, attempts: 1 });
+      expect(still!.heartbeatAt!.getTime()).toBeGreaterThan(job.heartbeatAt!.getTime());
+      const [mid] = await outcome(db, [versionId]).then((m) => [...m.values()]);
+      expect(mid!.state).toBe("checking");
+      expect(mid!.reports).toHaveLength(0);
 
-    const killedAt = Date.now();
-    victim!.kill("SIGKILL");
-    expect(await victim!.exited).toEqual({ code: null, signal: "SIGKILL" });
+      const killedAt = Date.now();
+      victim!.kill("SIGKILL");
+      expect(await victim!.exited).toEqual({ code: null, signal: "SIGKILL" });
 
-    const done = await waitFor("the job to be done by the other worker", async () => {
-      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job.id));
-      return j?.status === "done" ? j : null;
-    });
-    const tookOver = Date.now() - killedAt;
-    expect(tookOver).toBeGreaterThanOrEqual(STALE_MS - 1_000);
-    expect(done.lockedBy).not.toBe(job.lockedBy);
-    expect(done.lockedBy).toContain(`:${survivor!.pid}:`);
-    expect(done.attempts).toBe(2);
-    expect(gate.downloads).toBe(2);
+      const done = await waitFor("the job to be done by the other worker", async () => {
+        const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job.id));
+        return j?.status === "done" ? j : null;
+      });
+      const tookOver = Date.now() - killedAt;
+      expect(tookOver).toBeGreaterThanOrEqual(STALE_MS - 1_000);
+      expect(done.lockedBy).not.toBe(job.lockedBy);
+      expect(done.lockedBy).toContain(`:${survivor!.pid}:`);
+      expect(done.attempts).toBe(2);
+      expect(gate.downloads).toBe(2);
 
-    const o = (await outcome(db, [versionId])).get(versionId)!;
-    expect(o.reports).toHaveLength(1);
-    expect(o.reports[0]).toMatchObject({ status: "checked" });
-    expect(Number(o.reports[0]!.rows)).toBe(ROWS);
-    expect(o.state).toBe("ready");
-    expect(o.audit).toEqual(["batch.checked", "batch.received"]);
-    expect(survivor!.alive()).toBe(true);
-    await survivor!.waitForLine(new RegExp(`check job ${job.id} done: report stored \\(${ROWS} rows\\)`));
-  });
+      const o = (await outcome(db, [versionId])).get(versionId)!;
+      expect(o.reports).toHaveLength(1);
+      expect(o.reports[0]).toMatchObject({ status: "checked" });
+      expect(Number(o.reports[0]!.rows)).toBe(ROWS);
+      expect(o.state).toBe("ready");
+      expect(o.audit).toEqual(["batch.checked", "batch.received"]);
+      expect(survivor!.alive()).toBe(true);
+      await survivor!.waitForLine(new RegExp(`check job ${job.id} done: report stored \\(${ROWS} rows\\)`));
+    },
+  );
 
-  it("a download that hangs mid-file fails that attempt; the next attempt checks the batch", { timeout: processTestTimeout(4) }, async () => {
-    const db = getDb();
-    const w = survivor!;
-    const { versionId, size } = await queueLarge(708, "harrowgate-hanging.csv");
-    // the service stops sending mid-file and never resumes (the gate is not released)
-    await gate.holdNext(Math.floor(size * 0.4));
-    const [job] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
-    await w.waitForLine(new RegExp(`check job ${job!.id} attempt 1 failed: The upload service sent no data for 6 s`));
-    // the failure is recorded (the job goes back to the queue for 2 s, then is claimed again)
-    const failed = await waitFor("the failed attempt to be recorded", async () => {
-      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
-      return j?.lastError ? j : null;
-    });
-    expect(failed.lastError).toMatch(/sent no data for 6 s; the check is tried again later/);
-    expect(failed.status).not.toBe("failed");
-    const done = await waitFor("the second attempt to finish", async () => {
-      const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
-      return j?.status === "done" ? j : null;
-    });
-    expect(done.attempts).toBe(2);
-    const o = (await outcome(db, [versionId])).get(versionId)!;
-    expect(o.reports).toHaveLength(1);
-    expect(Number(o.reports[0]!.rows)).toBe(ROWS);
-    expect(o.state).toBe("ready");
-  });
+  it(
+    "a download that hangs mid-file fails that attempt; the next attempt checks the batch",
+    { timeout: processTestTimeout(4) },
+    async () => {
+      const db = getDb();
+      const w = survivor!;
+      const { versionId, size } = await queueLarge(708, "harrowgate-hanging.csv");
+      // the service stops sending mid-file and never resumes (the gate is not released)
+      await gate.holdNext(Math.floor(size * 0.4));
+      const [job] = await db.select().from(checkJobs).where(eq(checkJobs.batchVersionId, versionId));
+      await w.waitForLine(
+        new RegExp(`check job ${job!.id} attempt 1 failed: The upload service sent no data for 6 s`),
+      );
+      // the failure is recorded (the job goes back to the queue for 2 s, then is claimed again)
+      const failed = await waitFor("the failed attempt to be recorded", async () => {
+        const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
+        return j?.lastError ? j : null;
+      });
+      expect(failed.lastError).toMatch(/sent no data for 6 s; the check is tried again later/);
+      expect(failed.status).not.toBe("failed");
+      const done = await waitFor("the second attempt to finish", async () => {
+        const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.id));
+        return j?.status === "done" ? j : null;
+      });
+      expect(done.attempts).toBe(2);
+      const o = (await outcome(db, [versionId])).get(versionId)!;
+      expect(o.reports).toHaveLength(1);
+      expect(Number(o.reports[0]!.rows)).toBe(ROWS);
+      expect(o.state).toBe("ready");
+    },
+  );
 });

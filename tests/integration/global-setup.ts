@@ -31,7 +31,11 @@ const TEST_ENV: Record<string, string> = {
   NEXTAUTH_URL: "http://127.0.0.1:3410",
   NEXTAUTH_SECRET: "test-secret-not-for-production-0123456789",
   UPLOADTHING_TOKEN: Buffer.from(
-    JSON.stringify({ apiKey: "sk_dev_tributary_local_0000000000", appId: "tributary-dev", regions: ["local1"] }),
+    JSON.stringify({
+      apiKey: "sk_dev_tributary_local_0000000000",
+      appId: "tributary-dev",
+      regions: ["local1"],
+    }),
   ).toString("base64"),
   UPLOADTHING_INGEST_URL: "http://127.0.0.1:3411",
   UPLOADTHING_API_URL: "http://127.0.0.1:3411",
@@ -47,13 +51,20 @@ const TEST_ENV: Record<string, string> = {
 };
 
 function db(...args: string[]): string {
-  return execFileSync("bash", [DB_SCRIPT, ...args], { cwd: ROOT, encoding: "utf8", stdio: ["ignore", "pipe", "inherit"] });
+  return execFileSync("bash", [DB_SCRIPT, ...args], {
+    cwd: ROOT,
+    encoding: "utf8",
+    stdio: ["ignore", "pipe", "inherit"],
+  });
 }
 
 /** Drops test databases left by runs that died before their teardown (their pid is gone). */
 function dropOrphans(): void {
   const out = db("sql", "--skip-column-names", "-e", "SHOW DATABASES LIKE 'tributary\\_test\\_%'");
-  for (const name of out.split("\n").map((s) => s.trim()).filter(Boolean)) {
+  for (const name of out
+    .split("\n")
+    .map((s) => s.trim())
+    .filter(Boolean)) {
     const pid = Number(/^tributary_test_(\d+)/.exec(name)?.[1]);
     if (!Number.isInteger(pid) || pid === process.pid) continue;
     let alive = true;
@@ -100,8 +111,17 @@ export default async function setup(project: TestProject): Promise<() => void> {
       return;
     }
     // the run's database and the per-file copies of files that did not finish
-    const out = db("sql", "--skip-column-names", "-e", `SHOW DATABASES LIKE '${name.replace(/_/g, "\\_")}\\_%'`);
-    for (const n of out.split("\n").map((s) => s.trim()).filter(Boolean)) db("drop-db", n);
+    const out = db(
+      "sql",
+      "--skip-column-names",
+      "-e",
+      `SHOW DATABASES LIKE '${name.replace(/_/g, "\\_")}\\_%'`,
+    );
+    for (const n of out
+      .split("\n")
+      .map((s) => s.trim())
+      .filter(Boolean))
+      db("drop-db", n);
     db("drop-db", name);
   };
 }

@@ -23,7 +23,12 @@ import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { GET as getBatch, POST } from "@/app/api/v1/batches/route";
 import { GET as getOneBatch } from "@/app/api/v1/batches/[id]/route";
 import { GET as getReport } from "@/app/api/v1/batches/[id]/versions/[version]/report/route";
-import { BARLEY_DATASET, hostileFiles, type HostileFile, type HostileOutcome } from "../fixtures/hostile-files";
+import {
+  BARLEY_DATASET,
+  hostileFiles,
+  type HostileFile,
+  type HostileOutcome,
+} from "../fixtures/hostile-files";
 import { call } from "./helpers/api";
 import { drainQueue } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
@@ -48,7 +53,10 @@ const uploadPeak = new Map<string, Peak>();
 const checkPeak = new Map<string, Peak>();
 
 /** Runs `work` while sampling memory every 10 ms; returns its result and the peak growth. */
-async function measured<T>(work: () => Promise<T>, onSample?: (m: NodeJS.MemoryUsage) => void): Promise<{ value: T; peak: Peak }> {
+async function measured<T>(
+  work: () => Promise<T>,
+  onSample?: (m: NodeJS.MemoryUsage) => void,
+): Promise<{ value: T; peak: Peak }> {
   gc();
   const base = process.memoryUsage();
   const peak: Peak = { heap: 0, rss: 0 };
@@ -74,10 +82,13 @@ function post(c: HostileFile, bytes = c.bytes()): Promise<Response> {
   form.append("label", `hostile: ${c.name}`);
   form.append("file", new File([bytes as BlobPart], c.fileName, { type: "text/csv" }));
   const headers = new Headers({ authorization: `Bearer ${token}` });
-  return POST(new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers, body: form }), { params: Promise.resolve({}) });
+  return POST(new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers, body: form }), {
+    params: Promise.resolve({}),
+  });
 }
 
-const storedCount = async () => (await readdir(dir).catch(() => [] as string[])).filter((n) => !n.endsWith(".json")).length;
+const storedCount = async () =>
+  (await readdir(dir).catch(() => [] as string[])).filter((n) => !n.endsWith(".json")).length;
 const versionCount = async () => (await db.select({ id: batchVersions.id }).from(batchVersions)).length;
 
 beforeAll(async () => {
@@ -87,12 +98,21 @@ beforeAll(async () => {
   // the SDK reads these at first use (lib/batches/intake/file-store.ts caches its UTApi)
   process.env.UPLOADTHING_API_URL = fake.url;
   process.env.UPLOADTHING_INGEST_URL = fake.url;
-  const [provider] = await db.select({ id: users.id }).from(users).where(eq(users.email, "provider@fennick.test"));
+  const [provider] = await db
+    .select({ id: users.id })
+    .from(users)
+    .where(eq(users.email, "provider@fennick.test"));
   const t = await createApiToken(provider!.id, { name: "hostile files" });
   if (!t.ok) throw new Error(t.message);
   token = t.data.token;
   const [analyst] = await db
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role, sessionVersion: users.sessionVersion })
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      sessionVersion: users.sessionVersion,
+    })
     .from(users)
     .where(eq(users.email, "analyst@lowmoor.test"));
   analystCookie = await sessionCookieFor(analyst!);
@@ -106,17 +126,22 @@ afterAll(async () => {
 });
 
 describe("hostile files through the API upload and the check worker", () => {
-  it.each(CASES.filter((c) => c.expect.kind === "refused"))("$name: refused with a 4xx message before anything is stored", async (c) => {
-    const want = c.expect as Extract<HostileOutcome, { kind: "refused" }>;
-    const [files, versions] = [await storedCount(), await versionCount()];
-    const res = await post(c);
-    expect(res.status).toBe(422);
-    const body = (await res.json()) as { error: { code: string; message: string; fieldErrors?: Record<string, string[]> } };
-    expect(body.error.message).toMatch(want.message);
-    expect(body.error.fieldErrors?.file?.[0]).toMatch(want.message);
-    expect(await storedCount()).toBe(files);
-    expect(await versionCount()).toBe(versions);
-  });
+  it.each(CASES.filter((c) => c.expect.kind === "refused"))(
+    "$name: refused with a 4xx message before anything is stored",
+    async (c) => {
+      const want = c.expect as Extract<HostileOutcome, { kind: "refused" }>;
+      const [files, versions] = [await storedCount(), await versionCount()];
+      const res = await post(c);
+      expect(res.status).toBe(422);
+      const body = (await res.json()) as {
+        error: { code: string; message: string; fieldErrors?: Record<string, string[]> };
+      };
+      expect(body.error.message).toMatch(want.message);
+      expect(body.error.fieldErrors?.file?.[0]).toMatch(want.message);
+      expect(await storedCount()).toBe(files);
+      expect(await versionCount()).toBe(versions);
+    },
+  );
 
   it("every other case is stored and recorded as received (201), with memory bounded while the large ones upload", async () => {
     for (const c of CASES.filter((x) => x.expect.kind !== "refused")) {
@@ -138,66 +163,99 @@ describe("hostile files through the API upload and the check worker", () => {
     expect(sent.length).toBe(CASES.filter((x) => x.expect.kind !== "refused").length);
   });
 
-  it("one worker loop checks every case to an end state and keeps running; no attempt fails", { timeout: processTestTimeout() }, async () => {
-    const ids = sent.map((s) => s.versionId);
-    const byKey = new Map<string, string>();
-    for (const s of sent) {
-      const [v] = await db.select({ key: batchVersions.fileKey }).from(batchVersions).where(eq(batchVersions.id, s.versionId));
-      byKey.set(v!.key, s.c.id);
-    }
-    const log: string[] = [];
-    const controller = new AbortController();
-    let current: string | null = null;
-    let jobBase = process.memoryUsage();
-    const done = async () => (await db.select({ state: batchVersions.state }).from(batchVersions).where(inArray(batchVersions.id, ids))).every((v) => v.state === "ready" || v.state === "unreadable");
-    const started = Date.now();
-    const { peak } = await measured(
-      async () => {
-        const loop = runWorker({
-          db,
-          // which case the worker is reading, so each memory sample is counted against it
-          openFile: (key) => {
-            current = byKey.get(key) ?? null;
-            gc();
-            jobBase = process.memoryUsage();
-            return openStoredFile(key);
-          },
-          workerId: "hostile-test",
-          signal: controller.signal,
-          pollMs: 50,
-          progressEveryMs: 100,
-          log: (line) => log.push(line),
-        });
-        try {
-          while (!(await done())) {
-            if (Date.now() - started > PROCESS_PATIENCE_MS) throw new Error(`the worker did not finish in ${PROCESS_PATIENCE_MS / 1000} s; log: ${log.join("\n")}`);
-            await new Promise((r) => setTimeout(r, 100));
+  it(
+    "one worker loop checks every case to an end state and keeps running; no attempt fails",
+    { timeout: processTestTimeout() },
+    async () => {
+      const ids = sent.map((s) => s.versionId);
+      const byKey = new Map<string, string>();
+      for (const s of sent) {
+        const [v] = await db
+          .select({ key: batchVersions.fileKey })
+          .from(batchVersions)
+          .where(eq(batchVersions.id, s.versionId));
+        byKey.set(v!.key, s.c.id);
+      }
+      const log: string[] = [];
+      const controller = new AbortController();
+      let current: string | null = null;
+      let jobBase = process.memoryUsage();
+      const done = async () =>
+        (
+          await db
+            .select({ state: batchVersions.state })
+            .from(batchVersions)
+            .where(inArray(batchVersions.id, ids))
+        ).every((v) => v.state === "ready" || v.state === "unreadable");
+      const started = Date.now();
+      const { peak } = await measured(
+        async () => {
+          const loop = runWorker({
+            db,
+            // which case the worker is reading, so each memory sample is counted against it
+            openFile: (key) => {
+              current = byKey.get(key) ?? null;
+              gc();
+              jobBase = process.memoryUsage();
+              return openStoredFile(key);
+            },
+            workerId: "hostile-test",
+            signal: controller.signal,
+            pollMs: 50,
+            progressEveryMs: 100,
+            log: (line) => log.push(line),
+          });
+          try {
+            while (!(await done())) {
+              if (Date.now() - started > PROCESS_PATIENCE_MS)
+                throw new Error(
+                  `the worker did not finish in ${PROCESS_PATIENCE_MS / 1000} s; log: ${log.join("\n")}`,
+                );
+              await new Promise((r) => setTimeout(r, 100));
+            }
+          } finally {
+            controller.abort();
+            await loop;
           }
-        } finally {
-          controller.abort();
-          await loop;
-        }
-      },
-      (m) => {
-        if (!current) return;
-        const p = checkPeak.get(current) ?? { heap: 0, rss: 0 };
-        checkPeak.set(current, { heap: Math.max(p.heap, m.heapUsed - jobBase.heapUsed), rss: Math.max(p.rss, m.rss - jobBase.rss) });
-      },
-    );
-    // nothing failed, was handed back or lost the database on the way
-    expect(log.filter((l) => /failed|could not|handed back|unavailable|stopped while/.test(l))).toEqual([]);
-    expect(peak.heap).toBeGreaterThan(0);
-    const jobs = await db.select({ status: checkJobs.status, attempts: checkJobs.attempts, lastError: checkJobs.lastError }).from(checkJobs).where(inArray(checkJobs.batchVersionId, ids));
-    expect(jobs).toHaveLength(ids.length);
-    for (const j of jobs) expect(j).toEqual({ status: "done", attempts: 1, lastError: null });
-  });
+        },
+        (m) => {
+          if (!current) return;
+          const p = checkPeak.get(current) ?? { heap: 0, rss: 0 };
+          checkPeak.set(current, {
+            heap: Math.max(p.heap, m.heapUsed - jobBase.heapUsed),
+            rss: Math.max(p.rss, m.rss - jobBase.rss),
+          });
+        },
+      );
+      // nothing failed, was handed back or lost the database on the way
+      expect(log.filter((l) => /failed|could not|handed back|unavailable|stopped while/.test(l))).toEqual([]);
+      expect(peak.heap).toBeGreaterThan(0);
+      const jobs = await db
+        .select({ status: checkJobs.status, attempts: checkJobs.attempts, lastError: checkJobs.lastError })
+        .from(checkJobs)
+        .where(inArray(checkJobs.batchVersionId, ids));
+      expect(jobs).toHaveLength(ids.length);
+      for (const j of jobs) expect(j).toEqual({ status: "done", attempts: 1, lastError: null });
+    },
+  );
 
   it("each case ends in its promised state with its message, seen through the report API by the provider and the assigned analyst", async () => {
     for (const s of sent) {
       for (const as of [{ bearer: token }, { cookie: analystCookie }]) {
-        const r = await call(getReport, { path: `/api/v1/batches/${s.batchId}/versions/${s.version}/report`, params: { id: s.batchId, version: String(s.version) }, as });
+        const r = await call(getReport, {
+          path: `/api/v1/batches/${s.batchId}/versions/${s.version}/report`,
+          params: { id: s.batchId, version: String(s.version) },
+          as,
+        });
         expect(r.status, s.c.name).toBe(200);
-        const data = r.json.data as { state: string; report: { status: string; findings: { code: string; severity: string; message: string; fix: string; rows: number[] }[]; file?: { delimiter: string; decimal: string } } };
+        const data = r.json.data as {
+          state: string;
+          report: {
+            status: string;
+            findings: { code: string; severity: string; message: string; fix: string; rows: number[] }[];
+            file?: { delimiter: string; decimal: string };
+          };
+        };
         const e = s.c.expect;
         if (e.kind === "unreadable") {
           expect(data.state, s.c.name).toBe("unreadable");
@@ -213,7 +271,8 @@ describe("hostile files through the API upload and the check worker", () => {
           expect(data.report.status).toBe("checked");
           const codes = data.report.findings.map((f) => f.code);
           for (const code of e.findings) expect(codes, s.c.name).toContain(code);
-          for (const [code, rows] of Object.entries(e.rows ?? {})) expect(data.report.findings.find((f) => f.code === code)?.rows).toEqual(rows);
+          for (const [code, rows] of Object.entries(e.rows ?? {}))
+            expect(data.report.findings.find((f) => f.code === code)?.rows).toEqual(rows);
           if (e.file?.delimiter) expect(data.report.file?.delimiter).toBe(e.file.delimiter);
           if (e.file?.decimal) expect(data.report.file?.decimal).toBe(e.file.decimal);
         }
@@ -223,9 +282,15 @@ describe("hostile files through the API upload and the check worker", () => {
 
   it("the batch API still answers: each batch with its version state, and the provider's list holds them all", async () => {
     for (const s of sent) {
-      const r = await call(getOneBatch, { path: `/api/v1/batches/${s.batchId}`, params: { id: s.batchId }, as: { bearer: token } });
+      const r = await call(getOneBatch, {
+        path: `/api/v1/batches/${s.batchId}`,
+        params: { id: s.batchId },
+        as: { bearer: token },
+      });
       expect(r.status).toBe(200);
-      expect(JSON.stringify(r.json.data)).toContain(s.c.expect.kind === "unreadable" ? '"unreadable"' : '"ready"');
+      expect(JSON.stringify(r.json.data)).toContain(
+        s.c.expect.kind === "unreadable" ? '"unreadable"' : '"ready"',
+      );
     }
     const list = await call(getBatch, { path: "/api/v1/batches?limit=2000", as: { bearer: token } });
     expect(list.status).toBe(200);
@@ -234,8 +299,14 @@ describe("hostile files through the API upload and the check worker", () => {
   });
 
   it("memory stays bounded around the largest files", () => {
-    const report = [...uploadPeak.entries()].map(([id, p]) => `${id} upload: heap +${(p.heap / MB).toFixed(1)} MB, rss +${(p.rss / MB).toFixed(1)} MB`);
-    report.push(...[...checkPeak.entries()].map(([id, p]) => `${id} check: heap +${(p.heap / MB).toFixed(1)} MB, rss +${(p.rss / MB).toFixed(1)} MB`));
+    const report = [...uploadPeak.entries()].map(
+      ([id, p]) => `${id} upload: heap +${(p.heap / MB).toFixed(1)} MB, rss +${(p.rss / MB).toFixed(1)} MB`,
+    );
+    report.push(
+      ...[...checkPeak.entries()].map(
+        ([id, p]) => `${id} check: heap +${(p.heap / MB).toFixed(1)} MB, rss +${(p.rss / MB).toFixed(1)} MB`,
+      ),
+    );
     console.log(report.join("\n"));
     const big = CASES.filter((c) => c.big);
     expect([...uploadPeak.keys()].sort()).toEqual(big.map((c) => c.id).sort());

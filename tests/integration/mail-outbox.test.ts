@@ -13,7 +13,15 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db/client";
 import { emailOutbox } from "@/db/schema";
 import { startSmtpFake, type MessageSummary, type SmtpFake, type StoredMessage } from "@/fakes/smtp";
-import { createTransport, deliverOutbox, enqueueEmail, messageIdFor, retryDelayMs, runMailSender, type DeliverOptions } from "@/lib/mail";
+import {
+  createTransport,
+  deliverOutbox,
+  enqueueEmail,
+  messageIdFor,
+  retryDelayMs,
+  runMailSender,
+  type DeliverOptions,
+} from "@/lib/mail";
 
 const run = randomBytes(4).toString("hex");
 const FROM = "Tributary <no-reply@tributary.test>";
@@ -54,7 +62,9 @@ async function myRows() {
       messageId: emailOutbox.messageId,
       createdAt: emailOutbox.createdAt,
       /** ms until the next attempt, by the database clock */
-      dueInMs: sql<number>`TIMESTAMPDIFF(MICROSECOND, NOW(3), ${emailOutbox.nextAttemptAt}) / 1000`.mapWith(Number),
+      dueInMs: sql<number>`TIMESTAMPDIFF(MICROSECOND, NOW(3), ${emailOutbox.nextAttemptAt}) / 1000`.mapWith(
+        Number,
+      ),
     })
     .from(emailOutbox)
     .where(like(emailOutbox.dedupeKey, `test-outbox-${run}-%`))
@@ -92,19 +102,37 @@ describe("outbox", () => {
         });
         expect(r.queued).toBe(true);
       }
-      const again = await enqueueEmail(tx, { dedupeKey: key("a"), kind: "decision", to: addr("a"), subject: "x", text: "x", html: "" });
+      const again = await enqueueEmail(tx, {
+        dedupeKey: key("a"),
+        kind: "decision",
+        to: addr("a"),
+        subject: "x",
+        text: "x",
+        html: "",
+      });
       expect(again.queued).toBe(false);
     });
     expect((await myRows()).map((r) => r.status)).toEqual(["pending", "pending", "pending"]);
     await expect(
-      enqueueEmail(getDb(), { dedupeKey: key("bad"), kind: "decision", to: "not-an-address", subject: "s", text: "t", html: "" }),
+      enqueueEmail(getDb(), {
+        dedupeKey: key("bad"),
+        kind: "decision",
+        to: "not-an-address",
+        subject: "s",
+        text: "t",
+        html: "",
+      }),
     ).rejects.toThrow(/"not-an-address" is not an e-mail address/);
   });
 
   it("with SMTP down nothing is lost: rows stay pending with a doubling back-off", async () => {
     await deliverOutbox(opts());
     let rows = await myRows();
-    expect(rows.map((r) => [r.status, r.attempts])).toEqual([["pending", 1], ["pending", 1], ["pending", 1]]);
+    expect(rows.map((r) => [r.status, r.attempts])).toEqual([
+      ["pending", 1],
+      ["pending", 1],
+      ["pending", 1],
+    ]);
     for (const r of rows) {
       expect(r.lastError).toMatch(/ECONNREFUSED|connect/i);
       // first retry after base = 1000 ms (minus the time since)
@@ -118,7 +146,11 @@ describe("outbox", () => {
     await new Promise((r) => setTimeout(r, 1100));
     await deliverOutbox(opts());
     rows = await myRows();
-    expect(rows.map((r) => [r.status, r.attempts])).toEqual([["pending", 2], ["pending", 2], ["pending", 2]]);
+    expect(rows.map((r) => [r.status, r.attempts])).toEqual([
+      ["pending", 2],
+      ["pending", 2],
+      ["pending", 2],
+    ]);
     // second retry after 2 × base
     for (const r of rows) {
       expect(r.dueInMs).toBeGreaterThan(1400);
@@ -140,7 +172,9 @@ describe("outbox", () => {
       expect(got).toHaveLength(1);
       expect(got[0]!.messageId).toBe(messageIdFor(r, FROM));
       expect(r.messageId).toBe(`<outbox-${r.id}.${r.createdAt.getTime().toString(36)}@tributary.test>`);
-      const full = (await (await fetch(`${fake!.mailboxUrl}/messages/${got[0]!.id}`)).json()) as StoredMessage;
+      const full = (await (
+        await fetch(`${fake!.mailboxUrl}/messages/${got[0]!.id}`)
+      ).json()) as StoredMessage;
       const n = r.dedupeKey.slice(-1);
       expect(full.subject).toBe(`Batch bounced (${n})`);
       expect(full.text.trim()).toBe(`Plain text for ${n}`);
@@ -151,10 +185,23 @@ describe("outbox", () => {
   it("concurrent senders never send the same row twice", async () => {
     const names = Array.from({ length: 12 }, (_, i) => `con${i}`);
     await getDb().transaction(async (tx) => {
-      for (const n of names) await enqueueEmail(tx, { dedupeKey: key(n), kind: "invite", to: addr(n), subject: `Invitation ${n}`, text: "t", html: "" });
+      for (const n of names)
+        await enqueueEmail(tx, {
+          dedupeKey: key(n),
+          kind: "invite",
+          to: addr(n),
+          subject: `Invitation ${n}`,
+          text: "t",
+          html: "",
+        });
     });
     const o = { ...opts(), limit: 2 };
-    await Promise.all([drain(o), drain(o), drain(o), drain({ ...o, transport: createTransport(`smtp://127.0.0.1:${smtpPort}`) })]);
+    await Promise.all([
+      drain(o),
+      drain(o),
+      drain(o),
+      drain({ ...o, transport: createTransport(`smtp://127.0.0.1:${smtpPort}`) }),
+    ]);
     for (const n of names) expect(await inbox(addr(n))).toHaveLength(1);
     const rows = (await myRows()).filter((r) => r.dedupeKey.includes("-con"));
     expect(rows.every((r) => r.status === "sent" && r.attempts === 1)).toBe(true);
@@ -162,7 +209,15 @@ describe("outbox", () => {
 
   it("a claim left by a dead sender is retried once its lease runs out, with the same Message-ID", async () => {
     await getDb().transaction(async (tx) => {
-      for (const n of ["stale", "leased"]) await enqueueEmail(tx, { dedupeKey: key(n), kind: "reset", to: addr(n), subject: n, text: n, html: "" });
+      for (const n of ["stale", "leased"])
+        await enqueueEmail(tx, {
+          dedupeKey: key(n),
+          kind: "reset",
+          to: addr(n),
+          subject: n,
+          text: n,
+          html: "",
+        });
     });
     // a sender claimed both and died; one lease has run out, the other has not
     await getDb()
@@ -185,7 +240,14 @@ describe("outbox", () => {
   });
 
   it("gives up after maxAttempts and marks the row failed with the reason", async () => {
-    await enqueueEmail(getDb(), { dedupeKey: key("doomed"), kind: "decision", to: addr("doomed"), subject: "d", text: "d", html: "" });
+    await enqueueEmail(getDb(), {
+      dedupeKey: key("doomed"),
+      kind: "decision",
+      to: addr("doomed"),
+      subject: "d",
+      text: "d",
+      html: "",
+    });
     const down = { ...opts(), transport: createTransport("smtp://127.0.0.1:9"), maxAttempts: 1 };
     await deliverOutbox(down);
     const row = (await myRows()).find((r) => r.dedupeKey === key("doomed"))!;
@@ -196,7 +258,14 @@ describe("outbox", () => {
   it("runMailSender delivers what is queued while it runs and stops on abort", async () => {
     const ac = new AbortController();
     const loop = runMailSender({ signal: ac.signal, intervalMs: 100, deliver: opts(), log: () => {} });
-    await enqueueEmail(getDb(), { dedupeKey: key("loop"), kind: "invite", to: addr("loop"), subject: "loop", text: "loop", html: "" });
+    await enqueueEmail(getDb(), {
+      dedupeKey: key("loop"),
+      kind: "invite",
+      to: addr("loop"),
+      subject: "loop",
+      text: "loop",
+      html: "",
+    });
     let got: MessageSummary[] = [];
     for (let i = 0; i < 50 && got.length === 0; i++) {
       await new Promise((r) => setTimeout(r, 100));

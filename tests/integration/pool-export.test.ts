@@ -8,7 +8,15 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { and, eq } from "drizzle-orm";
 import Papa from "papaparse";
 import { getDb, getPool } from "@/db/client";
-import { auditEvents, dataPlans, organisations, studies, studyAnalysts, studyProviders, users } from "@/db/schema";
+import {
+  auditEvents,
+  dataPlans,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+  users,
+} from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { hashPlan, parsePlan } from "@/lib/readiness";
@@ -32,25 +40,52 @@ const SLUG = `pool-export-${process.pid}`;
 let studyIdOf = 0;
 
 async function cookieOf(email: string) {
-  const [u] = await db.select({ id: users.id, email: users.email, name: users.name, role: users.role, sessionVersion: users.sessionVersion }).from(users).where(eq(users.email, email));
+  const [u] = await db
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      sessionVersion: users.sessionVersion,
+    })
+    .from(users)
+    .where(eq(users.email, email));
   return sessionCookieFor(u!);
 }
 
-async function get(handler: (req: Request, ctx: { params: Promise<{ slug: string }> }) => Promise<Response>, path: string, email?: string) {
+async function get(
+  handler: (req: Request, ctx: { params: Promise<{ slug: string }> }) => Promise<Response>,
+  path: string,
+  email?: string,
+) {
   const headers = new Headers();
   if (email) headers.set("cookie", await cookieOf(email));
-  return handler(new Request(`http://127.0.0.1:3410${path}`, { headers }), { params: Promise.resolve({ slug: SLUG }) });
+  return handler(new Request(`http://127.0.0.1:3410${path}`, { headers }), {
+    params: Promise.resolve({ slug: SLUG }),
+  });
 }
 
 beforeAll(async () => {
   const parsed = parsePlan(BARLEY_PLAN);
   if (!parsed.ok) throw new Error("demo plan invalid");
   const lead = await userId("lead@lowmoor.test");
-  const [s] = await db.insert(studies).values({ slug: SLUG, title: `Export test ${SLUG}`, currentPlanVersion: 1, createdById: lead }).$returningId();
+  const [s] = await db
+    .insert(studies)
+    .values({ slug: SLUG, title: `Export test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
+    .$returningId();
   studyIdOf = s!.id;
-  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
+  await db.insert(dataPlans).values({
+    studyId: s!.id,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
   for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, org));
+    const [o] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, org));
     await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
   }
   await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
@@ -64,7 +99,10 @@ beforeAll(async () => {
   const c = await uploadAndCheck("provider@fennick.test", SLUG, demo[5]!.csv, { name: "coldwell.csv" });
   expect((await decideVersion(analyst, a.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
   expect((await decideVersion(analyst, b.batchPublicId, 1, { decision: "accept" })).ok).toBe(true);
-  expect((await decideVersion(analyst, c.batchPublicId, 1, { decision: "bounce", comment: "Plot ids repeat." })).ok).toBe(true);
+  expect(
+    (await decideVersion(analyst, c.batchPublicId, 1, { decision: "bounce", comment: "Plot ids repeat." }))
+      .ok,
+  ).toBe(true);
 });
 
 afterAll(async () => {
@@ -90,8 +128,16 @@ describe("pool export", () => {
     expect(parsed.data).toHaveLength(180 + 140);
     const pool = await (await get(poolHandler, `/api/v1/pool/${SLUG}`, "lead@lowmoor.test")).json();
     expect(parsed.data).toHaveLength(pool.data.report.rows.total);
-    expect(parsed.meta.fields?.slice(0, 5)).toEqual(["organisation", "batch", "batch_title", "version", "source_row"]);
-    expect(new Set(parsed.data.map((r) => r.organisation))).toEqual(new Set(["Harrowgate Farm", "Fennick Hill Farm"]));
+    expect(parsed.meta.fields?.slice(0, 5)).toEqual([
+      "organisation",
+      "batch",
+      "batch_title",
+      "version",
+      "source_row",
+    ]);
+    expect(new Set(parsed.data.map((r) => r.organisation))).toEqual(
+      new Set(["Harrowgate Farm", "Fennick Hill Farm"]),
+    );
     expect(parsed.data[0]!.source_row).toBe("2");
     // the semicolon file's decimal commas come out as points, so the column reads as numbers throughout
     const salt = parsed.data.filter((r) => r.organisation === "Fennick Hill Farm");
@@ -100,7 +146,10 @@ describe("pool export", () => {
     // the formula-looking note is written as text (OWASP CSV injection guidance)
     expect(parsed.data.some((r) => r.farm_plot_note === "'=2+3*cmd")).toBe(true);
     expect(text).not.toMatch(/(^|,)=2\+3/m);
-    const audit = await db.select().from(auditEvents).where(and(eq(auditEvents.studyId, studyIdOf), eq(auditEvents.action, "pool.export_rows")));
+    const audit = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.studyId, studyIdOf), eq(auditEvents.action, "pool.export_rows")));
     expect(audit).toHaveLength(1);
   });
 
@@ -109,22 +158,43 @@ describe("pool export", () => {
     expect(res.status).toBe(200);
     const d = (await res.json()).data;
     const soil = d.columns.find((c: { name: string }) => c.name === "soil");
-    expect(soil).toMatchObject({ role: "predictor", type: "category", levels: ["loam", "clay", "sand", "silt"], baseline: "loam" });
-    expect(d.columns.find((c: { name: string }) => c.name === "yield_t_ha")).toMatchObject({ role: "response", min: 0, max: 14, missingTokens: ["", "NA"] });
+    expect(soil).toMatchObject({
+      role: "predictor",
+      type: "category",
+      levels: ["loam", "clay", "sand", "silt"],
+      baseline: "loam",
+    });
+    expect(d.columns.find((c: { name: string }) => c.name === "yield_t_ha")).toMatchObject({
+      role: "response",
+      min: 0,
+      max: 14,
+      missingTokens: ["", "NA"],
+    });
     expect(d.pool.rows).toBe(320);
     expect(d.pool.headroom).toBe(d.pool.residualDf - 150);
-    const csv = await (await get(dictionaryHandler, `/api/v1/pool/${SLUG}/dictionary?format=csv`, "analyst@lowmoor.test")).text();
+    const csv = await (
+      await get(dictionaryHandler, `/api/v1/pool/${SLUG}/dictionary?format=csv`, "analyst@lowmoor.test")
+    ).text();
     expect(csv.split("\r\n")[0]).toMatch(/^column,role,type,/);
     expect(csv).toContain("df_headroom");
-    const bad = await get(dictionaryHandler, `/api/v1/pool/${SLUG}/dictionary?format=xlsx`, "analyst@lowmoor.test");
+    const bad = await get(
+      dictionaryHandler,
+      `/api/v1/pool/${SLUG}/dictionary?format=xlsx`,
+      "analyst@lowmoor.test",
+    );
     expect(bad.status).toBe(422);
-    const audit = await db.select().from(auditEvents).where(and(eq(auditEvents.studyId, studyIdOf), eq(auditEvents.action, "pool.export_dictionary")));
+    const audit = await db
+      .select()
+      .from(auditEvents)
+      .where(and(eq(auditEvents.studyId, studyIdOf), eq(auditEvents.action, "pool.export_dictionary")));
     expect(audit).toHaveLength(2);
   });
 
   it("refuses anonymous callers (401), providers (403) and analysts of other studies (404)", async () => {
     expect((await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`)).status).toBe(401);
-    expect((await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "provider@harrowgate.test")).status).toBe(403);
+    expect((await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "provider@harrowgate.test")).status).toBe(
+      403,
+    );
     const other = await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "analyst2@lowmoor.test");
     expect(other.status).toBe(404);
     expect((await other.json()).error.code).toBe("not_found");

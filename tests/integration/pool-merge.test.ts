@@ -26,11 +26,32 @@ async function scratchStudy(slug: string) {
   const parsed = parsePlan(BARLEY_PLAN);
   if (!parsed.ok) throw new Error("demo plan invalid");
   const lead = await userId("lead@lowmoor.test");
-  const [team] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, "lowmoor"));
-  const [s] = await db.insert(studies).values({ slug, title: `Pool test ${slug}`, teamOrganisationId: team?.id ?? null, currentPlanVersion: 1, createdById: lead }).$returningId();
-  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
+  const [team] = await db
+    .select({ id: organisations.id })
+    .from(organisations)
+    .where(eq(organisations.slug, "lowmoor"));
+  const [s] = await db
+    .insert(studies)
+    .values({
+      slug,
+      title: `Pool test ${slug}`,
+      teamOrganisationId: team?.id ?? null,
+      currentPlanVersion: 1,
+      createdById: lead,
+    })
+    .$returningId();
+  await db.insert(dataPlans).values({
+    studyId: s!.id,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
   for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, org));
+    const [o] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, org));
     await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
   }
   await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
@@ -85,7 +106,10 @@ describe("the pool", () => {
   it("is empty before anything is accepted, and a bounced version never enters it", async () => {
     const analyst = await userId("analyst@lowmoor.test");
     const up = await uploadAndCheck("provider@fennick.test", SLUG, fennick);
-    const r = await decideVersion(analyst, up.batchPublicId, 1, { decision: "bounce", comment: "Soil levels as in the plan, please." });
+    const r = await decideVersion(analyst, up.batchPublicId, 1, {
+      decision: "bounce",
+      comment: "Soil levels as in the plan, please.",
+    });
     expect(r.ok).toBe(true);
     const pool = await getStudyPool(db, (await getStudyRef(db, { slug: SLUG }))!);
     expect(pool.members).toHaveLength(0);
@@ -122,7 +146,9 @@ describe("the pool", () => {
     expectSameFigures(three.report, ref);
     // the level counts per factor add up over the pool
     const soil = three.report.columns.find((col) => col.name === "soil");
-    expect(soil?.levels?.reduce((s, l) => s + l.count, 0)).toBe(ref.columns.find((col) => col.name === "soil")?.levels?.reduce((s, l) => s + l.count, 0));
+    expect(soil?.levels?.reduce((s, l) => s + l.count, 0)).toBe(
+      ref.columns.find((col) => col.name === "soil")?.levels?.reduce((s, l) => s + l.count, 0),
+    );
     // once decided, a version has no "if accepted"
     expect(await getIfAccepted(db, c.batchPublicId, 1)).toBeNull();
   });
@@ -133,16 +159,31 @@ describe("the pool", () => {
     const otter = demo[3]!.csv;
     const v1 = await uploadAndCheck("provider@harrowgate.test", SLUG, otter, { name: "otter-v1.csv" });
     const v2csv = concat([otter, demo[0]!.csv.split("\n").slice(0, 41).join("\n") + "\n"]);
-    await uploadAndCheck("provider@harrowgate.test", SLUG, v2csv, { batchPublicId: v1.batchPublicId, name: "otter-v2.csv" });
+    await uploadAndCheck("provider@harrowgate.test", SLUG, v2csv, {
+      batchPublicId: v1.batchPublicId,
+      name: "otter-v2.csv",
+    });
     // version 1 is superseded: it can neither be decided nor enter the pool
     expect((await decideVersion(analyst, v1.batchPublicId, 1, { decision: "accept" })).ok).toBe(false);
     expect(await getIfAccepted(db, v1.batchPublicId, 1)).toBeNull();
     const during = await getStudyPool(db, study);
-    expect(during.members.map((m) => m.fileName).sort()).toEqual(["bracken.csv", "coldwell.csv", "harrowgate.csv"]);
+    expect(during.members.map((m) => m.fileName).sort()).toEqual([
+      "bracken.csv",
+      "coldwell.csv",
+      "harrowgate.csv",
+    ]);
 
     expect((await decideVersion(analyst, v1.batchPublicId, 2, { decision: "accept" })).ok).toBe(true);
     const after = await getStudyPool(db, study);
-    expect(after.members.map((m) => `${m.fileName}@${m.version}`).sort()).toEqual(["bracken.csv@1", "coldwell.csv@1", "harrowgate.csv@1", "otter-v2.csv@2"]);
-    expectSameFigures(after.report, await checkBatch(streamOf(concat([harrowgate, coldwell, bracken, v2csv])), plan));
+    expect(after.members.map((m) => `${m.fileName}@${m.version}`).sort()).toEqual([
+      "bracken.csv@1",
+      "coldwell.csv@1",
+      "harrowgate.csv@1",
+      "otter-v2.csv@2",
+    ]);
+    expectSameFigures(
+      after.report,
+      await checkBatch(streamOf(concat([harrowgate, coldwell, bracken, v2csv])), plan),
+    );
   });
 });

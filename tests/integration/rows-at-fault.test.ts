@@ -32,16 +32,29 @@ describe("rows at fault", () => {
     const noteAt = header.indexOf("farm_plot_note");
     const target = lines.findIndex((l, i) => i > 0 && l.includes(",Clay,"));
     const cells = lines[target]!.split(",");
-    cells[noteAt] = "=HYPERLINK(\"http://example.invalid\")";
-    lines[target] = cells.map((c) => (c.includes(",") || c.includes('"') ? `"${c.replace(/"/g, '""')}"` : c)).join(",");
+    cells[noteAt] = '=HYPERLINK("http://example.invalid")';
+    lines[target] = cells
+      .map((c) => (c.includes(",") || c.includes('"') ? `"${c.replace(/"/g, '""')}"` : c))
+      .join(",");
     const up = await uploadAndCheck("provider@fennick.test", "barley-nitrogen", lines.join("\n") + "\n");
     const db = getDb();
-    const [v] = await db.select({ fileKey: batchVersions.fileKey, planId: batchVersions.planId }).from(batchVersions).where(eq(batchVersions.id, up.batchVersionId));
-    const [plan] = await db.select({ plan: dataPlans.plan }).from(dataPlans).where(eq(dataPlans.id, v!.planId));
-    const [stored] = await db.select({ report: reports.report }).from(reports).where(and(eq(reports.batchVersionId, up.batchVersionId)));
+    const [v] = await db
+      .select({ fileKey: batchVersions.fileKey, planId: batchVersions.planId })
+      .from(batchVersions)
+      .where(eq(batchVersions.id, up.batchVersionId));
+    const [plan] = await db
+      .select({ plan: dataPlans.plan })
+      .from(dataPlans)
+      .where(eq(dataPlans.id, v!.planId));
+    const [stored] = await db
+      .select({ report: reports.report })
+      .from(reports)
+      .where(and(eq(reports.batchVersionId, up.batchVersionId)));
     const report = stored!.report as ReadinessReport;
 
-    const csv = await text(rowsAtFaultCsv({ fileKey: v!.fileKey, plan: plan!.plan, report, openFile: openMemoryFile }));
+    const csv = await text(
+      rowsAtFaultCsv({ fileKey: v!.fileKey, plan: plan!.plan, report, openFile: openMemoryFile }),
+    );
     const parsed = Papa.parse<string[]>(csv.trim(), { skipEmptyLines: true });
     const [head, ...rows] = parsed.data;
     expect(head).toEqual(["line", ...header, "finding_codes", "findings"]);
@@ -51,7 +64,7 @@ describe("rows at fault", () => {
     for (const line of variant.rows) expect(byLine.get(line)?.at(-2)).toContain("level.variant");
     // the planted formula comes back as text, not as a formula
     const planted = byLine.get(target + 1)!;
-    expect(planted[noteAt + 1]).toBe("'=HYPERLINK(\"http://example.invalid\")");
+    expect(planted[noteAt + 1]).toBe('\'=HYPERLINK("http://example.invalid")');
     expect(csv).not.toMatch(/(^|,)=HYPERLINK/m);
     // a row without findings is not listed
     expect(rows.length).toBeLessThan(lines.length - 1);
@@ -61,11 +74,26 @@ describe("rows at fault", () => {
     const up = await uploadAndCheck("provider@fennick.test", "barley-nitrogen", barleyBatches()[1]!.csv);
     const db = getDb();
     for (const email of ["provider@harrowgate.test", "analyst2@lowmoor.test"]) {
-      const [u] = await db.select({ id: users.id, email: users.email, name: users.name, role: users.role, organisationId: users.organisationId, sessionVersion: users.sessionVersion }).from(users).where(eq(users.email, email));
+      const [u] = await db
+        .select({
+          id: users.id,
+          email: users.email,
+          name: users.name,
+          role: users.role,
+          organisationId: users.organisationId,
+          sessionVersion: users.sessionVersion,
+        })
+        .from(users)
+        .where(eq(users.email, email));
       const cookie = await sessionCookieFor(u!);
-      const res = await GET(new Request(`http://127.0.0.1:3410/api/v1/batches/${up.batchPublicId}/versions/1/rows-at-fault`, { headers: { cookie } }), {
-        params: Promise.resolve({ id: up.batchPublicId, version: "1" }),
-      });
+      const res = await GET(
+        new Request(`http://127.0.0.1:3410/api/v1/batches/${up.batchPublicId}/versions/1/rows-at-fault`, {
+          headers: { cookie },
+        }),
+        {
+          params: Promise.resolve({ id: up.batchPublicId, version: "1" }),
+        },
+      );
       expect(res.status).toBe(404);
     }
   });

@@ -47,15 +47,13 @@ beforeAll(async () => {
     .values({ slug: SLUG, title: `Clock test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
     .$returningId();
   studyId = s!.id;
-  await db
-    .insert(dataPlans)
-    .values({
-      studyId,
-      version: 1,
-      plan: parsed.plan,
-      planHash: await hashPlan(parsed.plan),
-      createdById: lead,
-    });
+  await db.insert(dataPlans).values({
+    studyId,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
   const [o] = await db
     .select({ id: organisations.id })
     .from(organisations)

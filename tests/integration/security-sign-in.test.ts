@@ -32,38 +32,67 @@ describe("sign-in throttling", () => {
 
   it(`stops a guesser who changes X-Forwarded-For on every attempt after ${SIGN_IN_LIMIT.maxFailuresPerAccount} failures`, async () => {
     for (let i = 0; i < SIGN_IN_LIMIT.maxFailuresPerAccount; i++) {
-      expect(await authorizeCredentials({ email: EMAIL, password: `guess-${i}-password` }, asFrom(`203.0.113.${i + 1}`))).toBeNull();
+      expect(
+        await authorizeCredentials(
+          { email: EMAIL, password: `guess-${i}-password` },
+          asFrom(`203.0.113.${i + 1}`),
+        ),
+      ).toBeNull();
     }
     // even the right password, from an address never seen before, is refused until the window moves
-    await expect(authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77"))).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
+    await expect(
+      authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77")),
+    ).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
     // other accounts are not held back
-    expect(await authorizeCredentials({ email: "analyst@lowmoor.test", password: DEMO_PASSWORD }, asFrom("203.0.113.1"))).not.toBeNull();
+    expect(
+      await authorizeCredentials(
+        { email: "analyst@lowmoor.test", password: DEMO_PASSWORD },
+        asFrom("203.0.113.1"),
+      ),
+    ).not.toBeNull();
   });
 
   it("fewer failures spread over addresses do not lock the owner out", async () => {
     for (let i = 0; i < SIGN_IN_LIMIT.maxFailuresPerAccount - 1; i++) {
-      await authorizeCredentials({ email: EMAIL, password: `guess-${i}-password` }, asFrom(`203.0.113.${i + 1}`));
+      await authorizeCredentials(
+        { email: EMAIL, password: `guess-${i}-password` },
+        asFrom(`203.0.113.${i + 1}`),
+      );
     }
-    expect(await authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77"))).toMatchObject({ email: EMAIL });
+    expect(
+      await authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77")),
+    ).toMatchObject({ email: EMAIL });
   });
 
   it("a locked account stays locked after 5,000 failures on made-up e-mails (they cannot push its counter out)", async () => {
     for (let i = 0; i < SIGN_IN_LIMIT.maxFailuresPerAccount; i++) {
-      await authorizeCredentials({ email: EMAIL, password: `guess-${i}-password` }, asFrom(`203.0.113.${i + 1}`));
+      await authorizeCredentials(
+        { email: EMAIL, password: `guess-${i}-password` },
+        asFrom(`203.0.113.${i + 1}`),
+      );
     }
-    await expect(authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77"))).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
+    await expect(
+      authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.77")),
+    ).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
     // the flood goes to the limiter directly (the password check of each attempt would only add time)
     const FLOOD = 5_000;
     for (let start = 0; start < FLOOD; start += 50) {
       await Promise.all(
         Array.from({ length: 50 }, (_, j) => {
           const n = start + j;
-          return recordSignInFailure(`made-up-${n}@nowhere.test`, `10.${(n >> 16) & 255}.${(n >> 8) & 255}.${n & 255}`);
+          return recordSignInFailure(
+            `made-up-${n}@nowhere.test`,
+            `10.${(n >> 16) & 255}.${(n >> 8) & 255}.${n & 255}`,
+          );
         }),
       );
     }
-    const [rows] = (await getPool().query("SELECT COUNT(*) AS n FROM rate_limits WHERE `key` LIKE 'signInAccount:%'")) as unknown as [{ n: number }[]];
+    const [rows] = (await getPool().query(
+      "SELECT COUNT(*) AS n FROM rate_limits WHERE `key` LIKE 'signInAccount:%'",
+    )) as unknown as [{ n: number }[]];
     expect(Number(rows[0]!.n)).toBe(FLOOD + 1);
-    await expect(authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.78"))).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
+    await expect(
+      authorizeCredentials({ email: EMAIL, password: DEMO_PASSWORD }, asFrom("198.51.100.78")),
+    ).rejects.toThrow(SIGN_IN_ERROR.tooManyAttempts);
   }, 600_000);
 });

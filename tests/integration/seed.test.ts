@@ -15,10 +15,20 @@ import { parsePlan } from "@/lib/readiness";
 
 const ROOT = path.resolve(import.meta.dirname, "../..");
 const dbsh = (...args: string[]) =>
-  execFileSync("bash", [path.join(ROOT, "scripts/db.sh"), ...args], { encoding: "utf8", stdio: ["ignore", "pipe", "pipe"] });
+  execFileSync("bash", [path.join(ROOT, "scripts/db.sh"), ...args], {
+    encoding: "utf8",
+    stdio: ["ignore", "pipe", "pipe"],
+  });
 
 const NAME = `tributary_test_${process.pid}_seed`;
-const TABLES = ["organisations", "users", "studies", "data_plans", "study_analysts", "study_providers"] as const;
+const TABLES = [
+  "organisations",
+  "users",
+  "studies",
+  "data_plans",
+  "study_analysts",
+  "study_providers",
+] as const;
 let pool: mysql.Pool;
 let db: SeedDb;
 
@@ -51,7 +61,14 @@ describe("seedDemo", () => {
     const first = await counts();
     // the demo (lib/demo/accounts.ts): 2 teams + 6 farms + 2 installers; 12 sign-ins (eight named accounts and a provider for each of the other four farms); 2 studies with plan version 1;
     // one analyst per study; six farms on barley, two installers on heat pumps
-    expect(first).toEqual({ organisations: 10, users: 12, studies: 2, data_plans: 2, study_analysts: 2, study_providers: 8 });
+    expect(first).toEqual({
+      organisations: 10,
+      users: 12,
+      studies: 2,
+      data_plans: 2,
+      study_analysts: 2,
+      study_providers: 8,
+    });
     const again = await seedDemo(db);
     expect(again.usersAdded).toBe(0);
     expect(again.plansAdded).toBe(0);
@@ -109,7 +126,13 @@ describe("seedDemo", () => {
 
   test("stored plans parse, are current, and carry the sha-256 of their canonical JSON", async () => {
     const rows = await db
-      .select({ slug: schema.studies.slug, current: schema.studies.currentPlanVersion, version: schema.dataPlans.version, plan: schema.dataPlans.plan, hash: schema.dataPlans.planHash })
+      .select({
+        slug: schema.studies.slug,
+        current: schema.studies.currentPlanVersion,
+        version: schema.dataPlans.version,
+        plan: schema.dataPlans.plan,
+        hash: schema.dataPlans.planHash,
+      })
       .from(schema.dataPlans)
       .innerJoin(schema.studies, eq(schema.studies.id, schema.dataPlans.studyId))
       .orderBy(schema.studies.slug);
@@ -126,8 +149,15 @@ describe("seedDemo", () => {
       expect(r.hash).toBe(planHash(r.plan));
     }
     expect(barley.plan.columns.find((c) => c.role === "response")?.name).toBe("yield_t_ha");
-    expect(barley.plan.columns.find((c) => c.name === "soil")).toMatchObject({ levels: ["loam", "clay", "sand", "silt"], baseline: "loam" });
-    expect(barley.plan.columns.find((c) => c.name === "nitrogen_kg_ha")).toMatchObject({ type: "number", min: 0, max: 250 });
+    expect(barley.plan.columns.find((c) => c.name === "soil")).toMatchObject({
+      levels: ["loam", "clay", "sand", "silt"],
+      baseline: "loam",
+    });
+    expect(barley.plan.columns.find((c) => c.name === "nitrogen_kg_ha")).toMatchObject({
+      type: "number",
+      min: 0,
+      max: 250,
+    });
     expect(barley.plan.columns.find((c) => c.name === "variety")?.levels).toHaveLength(4);
     expect(barley.plan.anticipatedR2).toBe(0.35);
     expect(barley.plan.thresholds.dfTarget).toBeGreaterThan(0);
@@ -137,11 +167,20 @@ describe("seedDemo", () => {
 
   test("a re-run restores a changed demo password and ends the account's older sessions", async () => {
     const email = "provider@fennick.test";
-    await pool.query("UPDATE users SET password_hash = ?, active = 0 WHERE email = ?", [await bcrypt.hash("something-else", 4), email]);
-    const [[before]] = await pool.query<mysql.RowDataPacket[]>("SELECT session_version AS sv FROM users WHERE email = ?", [email]);
+    await pool.query("UPDATE users SET password_hash = ?, active = 0 WHERE email = ?", [
+      await bcrypt.hash("something-else", 4),
+      email,
+    ]);
+    const [[before]] = await pool.query<mysql.RowDataPacket[]>(
+      "SELECT session_version AS sv FROM users WHERE email = ?",
+      [email],
+    );
     const summary = await seedDemo(db);
     expect(summary.passwordsReset).toBe(1);
-    const [[after]] = await pool.query<mysql.RowDataPacket[]>("SELECT session_version AS sv, active, password_hash AS h FROM users WHERE email = ?", [email]);
+    const [[after]] = await pool.query<mysql.RowDataPacket[]>(
+      "SELECT session_version AS sv, active, password_hash AS h FROM users WHERE email = ?",
+      [email],
+    );
     expect(await bcrypt.compare(DEMO_PASSWORD, after?.h as string)).toBe(true);
     expect(Number(after?.active)).toBe(1);
     expect(Number(after?.sv)).toBe(Number(before?.sv) + 1);
@@ -154,6 +193,8 @@ describe("canonicalJson", () => {
     expect(planHash({ a: 1, b: 2 })).toBe(planHash({ b: 2, a: 1 }));
     expect(planHash({ a: [1, 2] })).not.toBe(planHash({ a: [2, 1] }));
     // FIPS 180-2 test vector: sha-256("abc"); canonicalJson of the string "abc" is "\"abc\""
-    expect(createHash("sha256").update("abc").digest("hex")).toBe("ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad");
+    expect(createHash("sha256").update("abc").digest("hex")).toBe(
+      "ba7816bf8f01cfea414140de5dae2223b00361a396177a9cb410ff61f20015ad",
+    );
   });
 });

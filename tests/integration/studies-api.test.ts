@@ -38,7 +38,13 @@ const EMAILS = {
 beforeAll(async () => {
   for (const [key, email] of Object.entries(EMAILS)) {
     const [u] = await db
-      .select({ id: users.id, email: users.email, name: users.name, role: users.role, sessionVersion: users.sessionVersion })
+      .select({
+        id: users.id,
+        email: users.email,
+        name: users.name,
+        role: users.role,
+        sessionVersion: users.sessionVersion,
+      })
       .from(users)
       .where(eq(users.email, email));
     if (!u) throw new Error(`no demo user ${email}`);
@@ -54,7 +60,11 @@ afterAll(async () => {
 });
 
 const get = (id: string | number, who?: keyof typeof EMAILS) =>
-  call(getPlan, { path: `/api/v1/studies/${id}/plan`, params: { id: String(id) }, as: who ? as[who] : undefined });
+  call(getPlan, {
+    path: `/api/v1/studies/${id}/plan`,
+    params: { id: String(id) },
+    as: who ? as[who] : undefined,
+  });
 
 describe("GET /api/v1/studies/:id/plan", () => {
   test("anonymous → 401", async () => {
@@ -69,8 +79,19 @@ describe("GET /api/v1/studies/:id/plan", () => {
     for (const id of ["barley-nitrogen", barleyId]) {
       const r = await get(id, "admin");
       expect(r.status).toBe(200);
-      const data = r.json.data as { studyId: number; slug: string; version: number; planHash: string; plan: { columns: { name: string }[] } };
-      expect(data).toMatchObject({ studyId: barleyId, slug: "barley-nitrogen", version: 1, planHash: planHash(parsed.plan) });
+      const data = r.json.data as {
+        studyId: number;
+        slug: string;
+        version: number;
+        planHash: string;
+        plan: { columns: { name: string }[] };
+      };
+      expect(data).toMatchObject({
+        studyId: barleyId,
+        slug: "barley-nitrogen",
+        version: 1,
+        planHash: planHash(parsed.plan),
+      });
       expect(data.plan.columns.map((c) => c.name)).toEqual(BARLEY_PLAN.columns.map((c) => c.name));
     }
   });
@@ -120,11 +141,16 @@ describe("GET /api/v1/studies/:id/plan", () => {
     if (!v1.ok || !v2.ok) throw new Error("publishing failed");
     const r = await get(c.data.id, "lead");
     expect(r.json.data).toMatchObject({ version: 2, planHash: v2.data.planHash, note: "water interaction" });
-    expect((r.json.data as { plan: { interactions: string[][] } }).plan.interactions).toEqual([["nitrogen_kg_ha", "irrigation_mm"]]);
+    expect((r.json.data as { plan: { interactions: string[][] } }).plan.interactions).toEqual([
+      ["nitrogen_kg_ha", "irrigation_mm"],
+    ]);
 
     // not admitted yet → 404; admitted → 200
     expect((await get(slug, "fennick")).status).toBe(404);
-    const [fennick] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, "fennick-hill"));
+    const [fennick] = await db
+      .select({ id: organisations.id })
+      .from(organisations)
+      .where(eq(organisations.slug, "fennick-hill"));
     expect((await admitProvider(userIds.admin!, c.data.id, fennick!.id)).ok).toBe(true);
     expect((await get(slug, "fennick")).status).toBe(200);
     expect((await get(slug, "harrowgate")).status).toBe(404);

@@ -20,12 +20,15 @@ describe("form state", () => {
   test.each([
     ["barley", BARLEY_PLAN],
     ["heat pump", HEAT_PUMP_PLAN],
-  ] as const)("the %s plan survives the round trip through the form with the same planHash", (_name, plan) => {
-    const stored = parsed(plan);
-    const { plan: back, errors } = planFromDraft(draftFromPlan(stored));
-    expect(errors).toEqual({});
-    expect(planHash(parsed(back))).toBe(planHash(stored));
-  });
+  ] as const)(
+    "the %s plan survives the round trip through the form with the same planHash",
+    (_name, plan) => {
+      const stored = parsed(plan);
+      const { plan: back, errors } = planFromDraft(draftFromPlan(stored));
+      expect(errors).toEqual({});
+      expect(planHash(parsed(back))).toBe(planHash(stored));
+    },
+  );
 
   test("a changed level order is a different plan", () => {
     const stored = parsed(BARLEY_PLAN);
@@ -44,7 +47,11 @@ describe("form state", () => {
     d.outcomeMean = "";
     d.outcomeSd = "1.2";
     const { plan, errors } = planFromDraft(d);
-    expect(Object.keys(errors).sort()).toEqual([`columns.${yieldIdx}.min`, "outcome.mean", "thresholds.vifWarning"]);
+    expect(Object.keys(errors).sort()).toEqual([
+      `columns.${yieldIdx}.min`,
+      "outcome.mean",
+      "thresholds.vifWarning",
+    ]);
     expect(errors[`columns.${yieldIdx}.min`]?.[0]).toMatch(/decimal point/);
     expect(plan.columns[yieldIdx]?.min).toBeUndefined();
     expect(plan.anticipatedR2).toBe(0.3);
@@ -63,7 +70,13 @@ describe("form state", () => {
     const d = draftFromPlan(BARLEY_PLAN as PlanInput);
     const before = d.columns;
     const mapped = errorsByRow(
-      { "columns.8.baseline": ["bad baseline"], "columns.8.levels.2": ["blank level"], "columns.3": ["row problem"], "thresholds.vifWarning": ["too high"], columns: ["no response"] },
+      {
+        "columns.8.baseline": ["bad baseline"],
+        "columns.8.levels.2": ["blank level"],
+        "columns.3": ["row problem"],
+        "thresholds.vifWarning": ["too high"],
+        columns: ["no response"],
+      },
       before,
     );
     const soilKey = before[8]!.key;

@@ -34,7 +34,10 @@ function pByR(plan: PlanInput): number {
     if (c.type === "boolean") return `${rName(c.name)} = rep_len(c(TRUE, FALSE), 12)`;
     return `${rName(c.name)} = rnorm(12)`;
   });
-  const terms = [...preds.map((c) => rName(c.name)), ...(plan.interactions ?? []).map(([a, b]) => `${rName(a)}:${rName(b)}`)];
+  const terms = [
+    ...preds.map((c) => rName(c.name)),
+    ...(plan.interactions ?? []).map(([a, b]) => `${rName(a)}:${rName(b)}`),
+  ];
   const script = [
     "set.seed(1)",
     `d <- data.frame(${cols.join(", ")}, check.names = FALSE)`,
@@ -44,12 +47,21 @@ function pByR(plan: PlanInput): number {
   return Number(execFileSync("Rscript", ["-e", script], { encoding: "utf8" }).trim());
 }
 
-const withInteractions = (plan: PlanInput, interactions: [string, string][]): PlanInput => ({ ...structuredClone(plan), interactions });
+const withInteractions = (plan: PlanInput, interactions: [string, string][]): PlanInput => ({
+  ...structuredClone(plan),
+  interactions,
+});
 
 const CASES: [string, PlanInput][] = [
   ["barley as seeded", BARLEY_PLAN],
   ["barley + nitrogen:soil", withInteractions(BARLEY_PLAN, [["nitrogen_kg_ha", "soil"]])],
-  ["barley + soil:variety + nitrogen:irrigation", withInteractions(BARLEY_PLAN, [["soil", "variety"], ["nitrogen_kg_ha", "irrigation_mm"]])],
+  [
+    "barley + soil:variety + nitrogen:irrigation",
+    withInteractions(BARLEY_PLAN, [
+      ["soil", "variety"],
+      ["nitrogen_kg_ha", "irrigation_mm"],
+    ]),
+  ],
   ["heat pump as seeded", HEAT_PUMP_PLAN],
   ["heat pump + type:insulation", withInteractions(HEAT_PUMP_PLAN, [["heat_pump_type", "insulation_band"]])],
 ];

@@ -11,11 +11,27 @@ import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
 vi.mock("server-only", () => ({}));
 
 import { getDb, getPool } from "@/db/client";
-import { auditEvents, dataPlans, organisations, studies, studyAnalysts, studyProviders, users } from "@/db/schema";
+import {
+  auditEvents,
+  dataPlans,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+  users,
+} from "@/db/schema";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { planHash } from "@/lib/demo/plan-hash";
 import { parsePlan, type PlanInput } from "@/lib/readiness";
-import { admitProvider, assignAnalyst, createStudy, publishPlanVersion, removeProvider, unassignAnalyst, updateStudy } from "@/lib/studies";
+import {
+  admitProvider,
+  assignAnalyst,
+  createStudy,
+  publishPlanVersion,
+  removeProvider,
+  unassignAnalyst,
+  updateStudy,
+} from "@/lib/studies";
 
 const db = getDb();
 const tag = randomBytes(3).toString("hex");
@@ -27,12 +43,19 @@ async function userId(email: string): Promise<number> {
   return u.id;
 }
 async function orgId(slug: string): Promise<number> {
-  const [o] = await db.select({ id: organisations.id }).from(organisations).where(eq(organisations.slug, slug));
+  const [o] = await db
+    .select({ id: organisations.id })
+    .from(organisations)
+    .where(eq(organisations.slug, slug));
   if (!o) throw new Error(`no organisation ${slug}`);
   return o.id;
 }
 async function auditFor(studyId: number, action: string) {
-  return db.select().from(auditEvents).where(and(eq(auditEvents.studyId, studyId), eq(auditEvents.action, action))).orderBy(desc(auditEvents.id));
+  return db
+    .select()
+    .from(auditEvents)
+    .where(and(eq(auditEvents.studyId, studyId), eq(auditEvents.action, action)))
+    .orderBy(desc(auditEvents.id));
 }
 /** A copy of the demo barley plan (a valid plan) to change in each test. */
 const barley = (): PlanInput => structuredClone(BARLEY_PLAN);
@@ -60,10 +83,19 @@ afterAll(async () => {
 describe("createStudy", () => {
   test("a lead creates a study: the row, the default team (the lead's own) and the audit row", async () => {
     const slug = `wheat-${tag}`;
-    const r = await createStudy(ids.lead!, { slug, title: "Winter wheat sulphur trial", description: "Plots on the upper farms." });
+    const r = await createStudy(ids.lead!, {
+      slug,
+      title: "Winter wheat sulphur trial",
+      description: "Plots on the upper farms.",
+    });
     expect(r.ok).toBe(true);
     if (!r.ok) return;
-    expect(r.data).toMatchObject({ slug, status: "open", teamOrganisationId: ids.team, currentPlanVersion: null });
+    expect(r.data).toMatchObject({
+      slug,
+      status: "open",
+      teamOrganisationId: ids.team,
+      currentPlanVersion: null,
+    });
     const [row] = await db.select().from(studies).where(eq(studies.slug, slug));
     expect(row?.title).toBe("Winter wheat sulphur trial");
     expect(row?.createdById).toBe(ids.lead);
@@ -93,7 +125,11 @@ describe("createStudy", () => {
   });
 
   test("a provider organisation cannot run a study", async () => {
-    const r = await createStudy(ids.admin!, { slug: `prov-run-${tag}`, title: "Run by a farm", teamOrganisationId: ids.harrowgate });
+    const r = await createStudy(ids.admin!, {
+      slug: `prov-run-${tag}`,
+      title: "Run by a farm",
+      teamOrganisationId: ids.harrowgate,
+    });
     expect(r.ok).toBe(false);
     if (!r.ok) expect(r.fieldErrors?.teamOrganisationId?.[0]).toMatch(/team organisation/);
   });
@@ -174,9 +210,15 @@ describe("publishPlanVersion", () => {
     changed.interactions = [["nitrogen_kg_ha", "soil"]];
     const v2 = await publishPlanVersion(ids.admin!, studyId, changed, "nitrogen response by soil");
     expect(v2).toMatchObject({ ok: true, data: { version: 2 } });
-    const [s] = await db.select({ v: studies.currentPlanVersion }).from(studies).where(eq(studies.id, studyId));
+    const [s] = await db
+      .select({ v: studies.currentPlanVersion })
+      .from(studies)
+      .where(eq(studies.id, studyId));
     expect(s?.v).toBe(2);
-    const versions = await db.select({ version: dataPlans.version, note: dataPlans.note, by: dataPlans.createdById }).from(dataPlans).where(eq(dataPlans.studyId, studyId));
+    const versions = await db
+      .select({ version: dataPlans.version, note: dataPlans.note, by: dataPlans.createdById })
+      .from(dataPlans)
+      .where(eq(dataPlans.studyId, studyId));
     expect(versions.sort((a, b) => a.version - b.version)).toEqual([
       { version: 1, note: "first plan", by: ids.lead },
       { version: 2, note: "nitrogen response by soil", by: ids.admin },
@@ -191,7 +233,10 @@ describe("publishPlanVersion", () => {
     a.anticipatedR2 = 0.4;
     const b = barley();
     b.anticipatedR2 = 0.45;
-    const [ra, rb] = await Promise.all([publishPlanVersion(ids.admin!, studyId, a), publishPlanVersion(ids.lead!, studyId, b)]);
+    const [ra, rb] = await Promise.all([
+      publishPlanVersion(ids.admin!, studyId, a),
+      publishPlanVersion(ids.lead!, studyId, b),
+    ]);
     expect(ra.ok && rb.ok).toBe(true);
     const got = [ra, rb].map((r) => (r.ok ? r.data.version : 0)).sort();
     expect(got).toEqual([3, 4]);
@@ -214,13 +259,29 @@ describe("membership", () => {
     expect(await unassignAnalyst(ids.lead!, studyId, ids.analyst2)).toMatchObject({ ok: true });
     expect(await db.select().from(studyAnalysts).where(eq(studyAnalysts.studyId, studyId))).toHaveLength(0);
 
-    expect(await admitProvider(ids.admin!, studyId, String(ids.fennick))).toMatchObject({ ok: true, data: { name: "Fennick Hill Farm" } });
+    expect(await admitProvider(ids.admin!, studyId, String(ids.fennick))).toMatchObject({
+      ok: true,
+      data: { name: "Fennick Hill Farm" },
+    });
     expect(await db.select().from(studyProviders).where(eq(studyProviders.studyId, studyId))).toHaveLength(1);
     expect(await removeProvider(ids.admin!, studyId, ids.fennick)).toMatchObject({ ok: true });
-    expect(await removeProvider(ids.admin!, studyId, ids.fennick)).toMatchObject({ ok: false, code: "not_found" });
+    expect(await removeProvider(ids.admin!, studyId, ids.fennick)).toMatchObject({
+      ok: false,
+      code: "not_found",
+    });
 
-    const actions = (await db.select({ a: auditEvents.action, by: auditEvents.actorId }).from(auditEvents).where(eq(auditEvents.studyId, studyId))).map((r) => r.a);
-    expect(actions.filter((a) => a !== "study.create").sort()).toEqual(["study.analyst_assign", "study.analyst_unassign", "study.provider_admit", "study.provider_remove"]);
+    const actions = (
+      await db
+        .select({ a: auditEvents.action, by: auditEvents.actorId })
+        .from(auditEvents)
+        .where(eq(auditEvents.studyId, studyId))
+    ).map((r) => r.a);
+    expect(actions.filter((a) => a !== "study.create").sort()).toEqual([
+      "study.analyst_assign",
+      "study.analyst_unassign",
+      "study.provider_admit",
+      "study.provider_remove",
+    ]);
   });
 
   test("only active analysts are assigned, only provider organisations admitted", async () => {
@@ -251,32 +312,43 @@ describe("membership", () => {
 });
 
 describe("refusals", () => {
-  test.each(["provider", "analyst"])("a %s calling any of the services → forbidden, nothing written", async (who) => {
-    const actor = ids[who]!;
-    const [barleyStudy] = await db.select({ id: studies.id, v: studies.currentPlanVersion }).from(studies).where(eq(studies.slug, "barley-nitrogen"));
-    const sid = barleyStudy!.id;
-    const auditBefore = (await db.select({ id: auditEvents.id }).from(auditEvents)).length;
-    const changed = barley();
-    changed.anticipatedR2 = 0.5;
-    const results = [
-      await createStudy(actor, { slug: `refused-${who}-${tag}`, title: "Should not exist" }),
-      await updateStudy(actor, sid, { status: "closed" }),
-      await publishPlanVersion(actor, sid, changed),
-      await assignAnalyst(actor, sid, ids.analyst2),
-      await unassignAnalyst(actor, sid, ids.analyst),
-      await admitProvider(actor, sid, ids.fennick),
-      await removeProvider(actor, sid, ids.harrowgate),
-    ];
-    for (const r of results) expect(r).toMatchObject({ ok: false, code: "forbidden" });
-    expect((await db.select({ id: auditEvents.id }).from(auditEvents)).length).toBe(auditBefore);
-    const [after] = await db.select({ v: studies.currentPlanVersion, status: studies.status }).from(studies).where(eq(studies.id, sid));
-    expect(after).toEqual({ v: barleyStudy!.v, status: "open" });
-  });
+  test.each(["provider", "analyst"])(
+    "a %s calling any of the services → forbidden, nothing written",
+    async (who) => {
+      const actor = ids[who]!;
+      const [barleyStudy] = await db
+        .select({ id: studies.id, v: studies.currentPlanVersion })
+        .from(studies)
+        .where(eq(studies.slug, "barley-nitrogen"));
+      const sid = barleyStudy!.id;
+      const auditBefore = (await db.select({ id: auditEvents.id }).from(auditEvents)).length;
+      const changed = barley();
+      changed.anticipatedR2 = 0.5;
+      const results = [
+        await createStudy(actor, { slug: `refused-${who}-${tag}`, title: "Should not exist" }),
+        await updateStudy(actor, sid, { status: "closed" }),
+        await publishPlanVersion(actor, sid, changed),
+        await assignAnalyst(actor, sid, ids.analyst2),
+        await unassignAnalyst(actor, sid, ids.analyst),
+        await admitProvider(actor, sid, ids.fennick),
+        await removeProvider(actor, sid, ids.harrowgate),
+      ];
+      for (const r of results) expect(r).toMatchObject({ ok: false, code: "forbidden" });
+      expect((await db.select({ id: auditEvents.id }).from(auditEvents)).length).toBe(auditBefore);
+      const [after] = await db
+        .select({ v: studies.currentPlanVersion, status: studies.status })
+        .from(studies)
+        .where(eq(studies.id, sid));
+      expect(after).toEqual({ v: barleyStudy!.v, status: "open" });
+    },
+  );
 
   test("a lead demoted in the database is refused at once, whatever the session says", async () => {
     await db.update(users).set({ role: "analyst" }).where(eq(users.id, ids.lead!));
     try {
-      expect(await createStudy(ids.lead!, { slug: `demoted-${tag}`, title: "After demotion" })).toMatchObject({ ok: false, code: "forbidden" });
+      expect(await createStudy(ids.lead!, { slug: `demoted-${tag}`, title: "After demotion" })).toMatchObject(
+        { ok: false, code: "forbidden" },
+      );
     } finally {
       await db.update(users).set({ role: "lead" }).where(eq(users.id, ids.lead!));
     }

@@ -51,10 +51,14 @@ describe("csvCell", () => {
 
   test("a whole document: no cell of the read-back starts with a formula character unless it is a number", () => {
     const rows = HOSTILE.map((h, i) => [h, NUMBERS[i % NUMBERS.length], i]);
-    const parsed = Papa.parse<string[]>(toCsv(["text", "number", "n"], rows), { delimiter: ",", skipEmptyLines: true }).data;
+    const parsed = Papa.parse<string[]>(toCsv(["text", "number", "n"], rows), {
+      delimiter: ",",
+      skipEmptyLines: true,
+    }).data;
     expect(parsed).toHaveLength(HOSTILE.length + 1);
     for (const row of parsed.slice(1)) {
-      for (const c of row) if (/^[=+\-@\t\r\0]/.test(c)) expect(Number.isFinite(Number(c.replace(",", ".")))).toBe(true);
+      for (const c of row)
+        if (/^[=+\-@\t\r\0]/.test(c)) expect(Number.isFinite(Number(c.replace(",", ".")))).toBe(true);
     }
   });
 });

@@ -22,13 +22,25 @@ function cli(...args: string[]) {
 }
 
 function cliWith(opts: { input?: string }, ...args: string[]) {
-  const r = spawnSync(process.execPath, [BIN, ...args], { encoding: "utf8", timeout: PROCESS_PATIENCE_MS, input: opts.input });
+  const r = spawnSync(process.execPath, [BIN, ...args], {
+    encoding: "utf8",
+    timeout: PROCESS_PATIENCE_MS,
+    input: opts.input,
+  });
   return { code: r.status, out: r.stdout, err: r.stderr };
 }
 
 beforeAll(() => {
   fs.writeFileSync(f("plan.json"), JSON.stringify(planInput()));
-  fs.writeFileSync(f("bad-plan.json"), JSON.stringify({ columns: [{ name: "a", role: "response", type: "number" }, { name: "b", role: "response", type: "category", levels: ["x"], baseline: "y" }] }));
+  fs.writeFileSync(
+    f("bad-plan.json"),
+    JSON.stringify({
+      columns: [
+        { name: "a", role: "response", type: "number" },
+        { name: "b", role: "response", type: "category", levels: ["x"], baseline: "y" },
+      ],
+    }),
+  );
   fs.writeFileSync(f("clean.csv"), csvOf(HEADER, cleanRows(200)));
   const bad = cleanRows(200);
   bad[3]![HEADER.indexOf("soil")] = "peat";
@@ -38,18 +50,73 @@ beforeAll(() => {
 
 describe("exit codes", () => {
   test.each([
-    { name: "clean file → 0", args: () => [f("clean.csv"), "--plan", f("plan.json")], code: 0, out: /0 blockers/ },
-    { name: "a blocker → 1", args: () => [f("blocker.csv"), "--plan", f("plan.json")], code: 1, out: /\[BLOCKER\] level\.unknown \(soil\)[\s\S]*rows: 5/ },
-    { name: "unreadable file → 2", args: () => [f("book.csv"), "--plan", f("plan.json")], code: 2, out: /Excel workbook/ },
-    { name: "missing file → 2", args: () => [f("nope.csv"), "--plan", f("plan.json")], code: 2, err: /no such file/ },
+    {
+      name: "clean file → 0",
+      args: () => [f("clean.csv"), "--plan", f("plan.json")],
+      code: 0,
+      out: /0 blockers/,
+    },
+    {
+      name: "a blocker → 1",
+      args: () => [f("blocker.csv"), "--plan", f("plan.json")],
+      code: 1,
+      out: /\[BLOCKER\] level\.unknown \(soil\)[\s\S]*rows: 5/,
+    },
+    {
+      name: "unreadable file → 2",
+      args: () => [f("book.csv"), "--plan", f("plan.json")],
+      code: 2,
+      out: /Excel workbook/,
+    },
+    {
+      name: "missing file → 2",
+      args: () => [f("nope.csv"), "--plan", f("plan.json")],
+      code: 2,
+      err: /no such file/,
+    },
     { name: "no plan → 2", args: () => [f("clean.csv")], code: 2, err: /--plan PLAN\.json is required/ },
-    { name: "unknown option → 2", args: () => [f("clean.csv"), "--frobnicate"], code: 2, err: /unknown option --frobnicate/ },
-    { name: "--plan without its file → 2", args: () => [f("clean.csv"), "--plan"], code: 2, err: /--plan needs a file name/ },
-    { name: "a value given to a switch → 2", args: () => [f("clean.csv"), "--plan", f("plan.json"), "--json=yes"], code: 2, err: /--json takes no value/ },
-    { name: "--workers out of range → 2", args: () => [f("clean.csv"), "--plan", f("plan.json"), "--workers", "0"], code: 2, err: /--workers needs a whole number from 1 to 16/ },
-    { name: "two files without --pool → 2", args: () => [f("clean.csv"), f("blocker.csv"), "--plan", f("plan.json")], code: 2, err: /only one file at a time[\s\S]*--pool/ },
-    { name: "--opt=value works like --opt value", args: () => [f("blocker.csv"), `--plan=${f("plan.json")}`, "--workers=2"], code: 1, out: /level\.unknown \(soil\)/ },
-    { name: "invalid plan → 2 with field messages", args: () => [f("clean.csv"), "--plan", f("bad-plan.json")], code: 2, err: /columns\.1\.baseline: baseline "y" is not among the levels[\s\S]*exactly one response/ },
+    {
+      name: "unknown option → 2",
+      args: () => [f("clean.csv"), "--frobnicate"],
+      code: 2,
+      err: /unknown option --frobnicate/,
+    },
+    {
+      name: "--plan without its file → 2",
+      args: () => [f("clean.csv"), "--plan"],
+      code: 2,
+      err: /--plan needs a file name/,
+    },
+    {
+      name: "a value given to a switch → 2",
+      args: () => [f("clean.csv"), "--plan", f("plan.json"), "--json=yes"],
+      code: 2,
+      err: /--json takes no value/,
+    },
+    {
+      name: "--workers out of range → 2",
+      args: () => [f("clean.csv"), "--plan", f("plan.json"), "--workers", "0"],
+      code: 2,
+      err: /--workers needs a whole number from 1 to 16/,
+    },
+    {
+      name: "two files without --pool → 2",
+      args: () => [f("clean.csv"), f("blocker.csv"), "--plan", f("plan.json")],
+      code: 2,
+      err: /only one file at a time[\s\S]*--pool/,
+    },
+    {
+      name: "--opt=value works like --opt value",
+      args: () => [f("blocker.csv"), `--plan=${f("plan.json")}`, "--workers=2"],
+      code: 1,
+      out: /level\.unknown \(soil\)/,
+    },
+    {
+      name: "invalid plan → 2 with field messages",
+      args: () => [f("clean.csv"), "--plan", f("bad-plan.json")],
+      code: 2,
+      err: /columns\.1\.baseline: baseline "y" is not among the levels[\s\S]*exactly one response/,
+    },
   ])("$name", ({ args, code, out, err }) => {
     const r = cli(...args());
     expect(r.code, r.err).toBe(code);
@@ -75,8 +142,13 @@ describe("output modes", () => {
     const soil = draft.columns.find((c: { name: string }) => c.name === "soil");
     expect(soil).toMatchObject({ role: "predictor", type: "category", baseline: soil.levels[0] });
     expect(soil.levels.sort()).toEqual(["clay", "loam", "sand", "silt"]);
-    expect(draft.columns.find((c: { name: string }) => c.name === "plot_id")).toMatchObject({ role: "key", type: "integer" });
-    expect(draft.columns.find((c: { name: string }) => c.name === "sow_date")).toMatchObject({ type: "date" });
+    expect(draft.columns.find((c: { name: string }) => c.name === "plot_id")).toMatchObject({
+      role: "key",
+      type: "integer",
+    });
+    expect(draft.columns.find((c: { name: string }) => c.name === "sow_date")).toMatchObject({
+      type: "date",
+    });
     const nitrogen = draft.columns.find((c: { name: string }) => c.name === "nitrogen");
     const values = cleanRows(200).map((x) => Number(x[HEADER.indexOf("nitrogen")]));
     expect(nitrogen).toMatchObject({ type: "number", min: Math.min(...values), max: Math.max(...values) });
@@ -87,7 +159,13 @@ describe("output modes", () => {
 describe("standard input, --version, progress and npx", () => {
   test("`-` reads the batch from standard input: the same report as from the file", () => {
     const fromFile = JSON.parse(cli(f("blocker.csv"), "--plan", f("plan.json"), "--json").out);
-    const r = cliWith({ input: fs.readFileSync(f("blocker.csv"), "utf8") }, "-", "--plan", f("plan.json"), "--json");
+    const r = cliWith(
+      { input: fs.readFileSync(f("blocker.csv"), "utf8") },
+      "-",
+      "--plan",
+      f("plan.json"),
+      "--json",
+    );
     expect(r.code, r.err).toBe(1);
     const fromStdin = JSON.parse(r.out);
     expect(fromStdin.rows).toEqual(fromFile.rows);
@@ -96,7 +174,13 @@ describe("standard input, --version, progress and npx", () => {
   });
 
   test("`-` also drafts a plan from standard input", () => {
-    const r = cliWith({ input: fs.readFileSync(f("clean.csv"), "utf8") }, "-", "--draft-plan", "--response", "yield");
+    const r = cliWith(
+      { input: fs.readFileSync(f("clean.csv"), "utf8") },
+      "-",
+      "--draft-plan",
+      "--response",
+      "yield",
+    );
     expect(r.code, r.err).toBe(0);
     expect(parsePlan(JSON.parse(r.out)).ok).toBe(true);
   });
@@ -122,25 +206,37 @@ describe("standard input, --version, progress and npx", () => {
   const hasScript = spawnSync("script", ["--version"]).status === 0;
   test.skipIf(!hasScript)("progress on standard error when it is a terminal", () => {
     if (!fs.existsSync(f("large.csv"))) fs.writeFileSync(f("large.csv"), csvOf(HEADER, cleanRows(25_000)));
-    const cmd = [process.execPath, BIN, f("large.csv"), "--plan", f("plan.json"), "--json"].map((a) => `'${a}'`).join(" ");
-    const tty = spawnSync("script", ["-qec", `${cmd} >/dev/null`, "/dev/null"], { encoding: "utf8", timeout: 60_000 });
+    const cmd = [process.execPath, BIN, f("large.csv"), "--plan", f("plan.json"), "--json"]
+      .map((a) => `'${a}'`)
+      .join(" ");
+    const tty = spawnSync("script", ["-qec", `${cmd} >/dev/null`, "/dev/null"], {
+      encoding: "utf8",
+      timeout: 60_000,
+    });
     expect(tty.status, tty.stderr).toBe(0);
     expect(tty.stdout).toMatch(/large\.csv: read [\d,]+ rows, \d+ %/);
   });
 
   test("npx tributary-check runs the package's bin from the checkout (npm workspaces link it)", () => {
-    const r = spawnSync("npx", ["--no-install", "tributary-check", "--version"], { encoding: "utf8", timeout: 60_000 });
+    const r = spawnSync("npx", ["--no-install", "tributary-check", "--version"], {
+      encoding: "utf8",
+      timeout: 60_000,
+    });
     expect(r.status, r.stderr).toBe(0);
     expect(r.stdout).toMatch(/^tributary-check \d+\.\d+\.\d+ /);
   });
 });
 
 describe("--pool: several files, each one batch, pooled from their states", () => {
-  const selection = { selection: { candidates: ["soil", "variety", "nitrogen", "irrigation", "rainfall"], required: [] } };
+  const selection = {
+    selection: { candidates: ["soil", "variety", "nitrogen", "irrigation", "rainfall"], required: [] },
+  };
   const names = ["north.csv", "south.csv", "east.csv"];
   beforeAll(() => {
     fs.writeFileSync(f("select-plan.json"), JSON.stringify(planInput(selection)));
-    names.forEach((name, i) => fs.writeFileSync(f(name), csvOf(HEADER, cleanRows(150, 21 + i, 1 + 1000 * i))));
+    names.forEach((name, i) =>
+      fs.writeFileSync(f(name), csvOf(HEADER, cleanRows(150, 21 + i, 1 + 1000 * i))),
+    );
   });
 
   test("the JSON holds poolability, influence and selection, equal to poolQuestions on the files' own states", async () => {
@@ -153,7 +249,13 @@ describe("--pool: several files, each one batch, pooled from their states", () =
     const members: PoolMember[] = [];
     for (const [i, name] of names.entries()) {
       const rep = await checkBatch(chunks(fs.readFileSync(f(name))), p);
-      members.push({ id: String(i + 1), label: f(name), group: "files", groupLabel: "these files", state: rep.state as PoolMember["state"] });
+      members.push({
+        id: String(i + 1),
+        label: f(name),
+        group: "files",
+        groupLabel: "these files",
+        state: rep.state as PoolMember["state"],
+      });
     }
     const q = JSON.parse(JSON.stringify(poolQuestions(members, p)));
     expect(out.poolability).toEqual(q.poolability);
@@ -174,7 +276,9 @@ describe("--pool: several files, each one batch, pooled from their states", () =
   test("the readable summary names each file and the pool's answers; an unreadable file → 2, no pool", () => {
     const r = cli(...names.map(f), "--pool", "--plan", f("plan.json"));
     expect(r.code, r.err).toBe(0);
-    expect(r.out).toMatch(/north\.csv: 150 rows[\s\S]*Readiness report for the pool of 3 files[\s\S]*poolability:[\s\S]*influence:/);
+    expect(r.out).toMatch(
+      /north\.csv: 150 rows[\s\S]*Readiness report for the pool of 3 files[\s\S]*poolability:[\s\S]*influence:/,
+    );
     const bad = cli(f("north.csv"), f("book.csv"), "--pool", "--plan", f("plan.json"), "--json");
     expect(bad.code).toBe(2);
     const out = JSON.parse(bad.out);

@@ -5,7 +5,17 @@
  * Also the missing.column grading by role, level.variant targets and distinct sample rows.
  */
 import { describe, expect, test } from "vitest";
-import { checkBatch, parsePlan, rowsAtFault, ROW_FAULT_CODES, UnreadableError, type EngineState, type FaultLine, type Plan, type ReadinessReport } from "@/lib/readiness";
+import {
+  checkBatch,
+  parsePlan,
+  rowsAtFault,
+  ROW_FAULT_CODES,
+  UnreadableError,
+  type EngineState,
+  type FaultLine,
+  type Plan,
+  type ReadinessReport,
+} from "@/lib/readiness";
 import { barleyBatches } from "@/lib/demo/batches";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { HEADER, chunks, cleanRows, csvOf, plan as testPlan, planInput } from "../fixtures/engine/data";
@@ -17,7 +27,11 @@ const barley = (() => {
 })();
 const demo = (slug: string) => barleyBatches().find((b) => b.organisationSlug === slug)!.csv;
 
-async function faultsOf(csv: string, plan: Plan, chunk = 977): Promise<{ report: ReadinessReport; items: FaultLine[] }> {
+async function faultsOf(
+  csv: string,
+  plan: Plan,
+  chunk = 977,
+): Promise<{ report: ReadinessReport; items: FaultLine[] }> {
   const report = await checkBatch(chunks(csv, chunk), plan);
   const items: FaultLine[] = [];
   for await (const it of rowsAtFault(chunks(csv, chunk), plan, { report })) items.push(it);
@@ -27,7 +41,11 @@ async function faultsOf(csv: string, plan: Plan, chunk = 977): Promise<{ report:
 /** the row-level findings' sample rows must come back, each with a fault of that code on that column */
 function expectSamplesCovered(report: ReadinessReport, items: FaultLine[], plan: Plan) {
   const byLine = new Map(items.filter((i) => i.kind === "row").map((i) => [i.line, i]));
-  const graded = new Set(plan.columns.filter((c) => c.role === "response" || c.role === "predictor" || c.role === "key").map((c) => c.name));
+  const graded = new Set(
+    plan.columns
+      .filter((c) => c.role === "response" || c.role === "predictor" || c.role === "key")
+      .map((c) => c.name),
+  );
   let checked = 0;
   for (const f of report.findings) {
     if (!(ROW_FAULT_CODES as readonly string[]).includes(f.code)) continue;
@@ -37,8 +55,14 @@ function expectSamplesCovered(report: ReadinessReport, items: FaultLine[], plan:
       const item = byLine.get(line);
       expect(item, `${f.code} row ${line}`).toBeDefined();
       const col = f.columns[0] ?? null;
-      const codes = f.code === "missing.column" && plan.columns.find((c) => c.name === col)?.role === "response" ? ["missing.column", "missing.response"] : [f.code];
-      expect(item!.faults.some((x) => codes.includes(x.code) && (col === null || x.column === col)), `${f.code} on ${col} at row ${line}`).toBe(true);
+      const codes =
+        f.code === "missing.column" && plan.columns.find((c) => c.name === col)?.role === "response"
+          ? ["missing.column", "missing.response"]
+          : [f.code];
+      expect(
+        item!.faults.some((x) => codes.includes(x.code) && (col === null || x.column === col)),
+        `${f.code} on ${col} at row ${line}`,
+      ).toBe(true);
       checked++;
     }
   }
@@ -74,14 +98,18 @@ describe("rowsAtFault on the demo batches", () => {
     // the rows with commas: every row where some number has a decimal part
     const comma = report.findings.filter((f) => f.code === "number.decimal-comma");
     const most = Math.max(...comma.map((f) => f.rowCount ?? 0));
-    expect(items.filter((i) => i.faults.some((f) => f.code === "number.decimal-comma")).length).toBeGreaterThanOrEqual(most);
+    expect(
+      items.filter((i) => i.faults.some((f) => f.code === "number.decimal-comma")).length,
+    ).toBeGreaterThanOrEqual(most);
   });
 
   test("clean demo batches yield nothing and are no longer held up by the empty notes column", async () => {
     for (const slug of ["harrowgate", "coldwell"]) {
       const { report, items } = await faultsOf(demo(slug), barley);
       expect(items).toEqual([]);
-      const note = report.findings.find((f) => f.code === "missing.column" && f.columns[0] === "farm_plot_note")!;
+      const note = report.findings.find(
+        (f) => f.code === "missing.column" && f.columns[0] === "farm_plot_note",
+      )!;
       expect(note.severity).toBe("note");
       expect(note.message).toMatch(/carried along/);
       expect(report.counts.blocker).toBe(0);
@@ -104,10 +132,14 @@ describe("rowsAtFault on invented files", () => {
     const { report, items } = await faultsOf(csvOf(HEADER, rows), p, 61);
     expect(expectSamplesCovered(report, items, p)).toBeGreaterThanOrEqual(4);
     const at = (line: number) => items.find((i) => i.line === line && i.kind === "row");
-    expect(at(11)!.faults).toEqual([{ code: "type.mismatch", column: "nitrogen", message: "“lots” is not a number." }]);
+    expect(at(11)!.faults).toEqual([
+      { code: "type.mismatch", column: "nitrogen", message: "“lots” is not a number." },
+    ]);
     expect(at(11)!.fields[farm]).toBe(String(rows[6]![farm]));
     expect(at(14)!.faults.map((f) => f.code)).toContain("row.duplicate");
-    expect(at(14)!.faults.find((f) => f.code === "row.duplicate")!.message).toBe("This row repeats row 4 exactly.");
+    expect(at(14)!.faults.find((f) => f.code === "row.duplicate")!.message).toBe(
+      "This row repeats row 4 exactly.",
+    );
     expect(at(17)!.faults.find((f) => f.code === "key.duplicate")!.message).toMatch(/already used on row 3/);
     expect(at(19)!.faults.map((f) => f.code)).toEqual(["missing.response"]);
     expect(items.filter((i) => i.kind === "row").map((i) => i.line)).toEqual([11, 14, 17, 19]);
@@ -119,7 +151,10 @@ describe("rowsAtFault on invented files", () => {
     const rows = cleanRows(30);
     rows[4] = [...rows[4]!, "extra"];
     const { items } = await faultsOf(csvOf(HEADER, rows), p);
-    expect(items.map((i) => [i.kind, i.line])).toEqual([["header", 1], ["row", 6]]);
+    expect(items.map((i) => [i.kind, i.line])).toEqual([
+      ["header", 1],
+      ["row", 6],
+    ]);
     expect(items[1]!.fields.length).toBe(HEADER.length + 1);
     expect(items[1]!.faults[0]!.code).toBe("row.ragged");
     expect((await faultsOf(csvOf(HEADER, cleanRows(30)), p)).items).toEqual([]);
@@ -162,7 +197,8 @@ describe("rowsAtFault on invented files", () => {
     const csv = csvOf(HEADER, rows);
     const report = await checkBatch(chunks(csv), p);
     let n = 0;
-    for await (const it of rowsAtFault(chunks(csv, 4096), p, { report })) if (it.kind === "row" && ++n === 3) break;
+    for await (const it of rowsAtFault(chunks(csv, 4096), p, { report }))
+      if (it.kind === "row" && ++n === 3) break;
     expect(n).toBe(3);
     // and a full read gives every row (more than the 2,000 held before the reader pauses)
     let all = 0;
@@ -179,7 +215,11 @@ describe("missingness by role, variant targets, distinct sample rows", () => {
       if (i % 2 === 0) r[HEADER.indexOf("irrigation")] = ""; // predictor, 50 % empty
       return r;
     });
-    const p = testPlan({ columns: planInput().columns.map((c) => (c.name === "sow_date" ? { ...c, role: "ignore" as const } : c)) });
+    const p = testPlan({
+      columns: planInput().columns.map((c) =>
+        c.name === "sow_date" ? { ...c, role: "ignore" as const } : c,
+      ),
+    });
     const r = await checkBatch(chunks(csvOf(HEADER, rows)), p);
     const m = (name: string) => r.findings.find((f) => f.code === "missing.column" && f.columns[0] === name);
     // lib/readiness/CHECKS.md missing.column: blocker at ≥ 40 % for the planned model's columns
@@ -211,8 +251,16 @@ describe("missingness by role, variant targets, distinct sample rows", () => {
   test("level.variant: an open list merges onto the most frequent spelling", async () => {
     const rows = cleanRows(200);
     const farm = HEADER.indexOf("farm");
-    rows.forEach((r, i) => (r[farm] = i % 10 === 0 ? "Harrowgate" : i % 25 === 1 ? "harrowgate " : "harrowgate"));
-    const p = testPlan({ columns: planInput().columns.map((c) => (c.name === "farm" ? { name: "farm", role: "carry" as const, type: "category" as const, openLevels: true } : c)) });
+    rows.forEach(
+      (r, i) => (r[farm] = i % 10 === 0 ? "Harrowgate" : i % 25 === 1 ? "harrowgate " : "harrowgate"),
+    );
+    const p = testPlan({
+      columns: planInput().columns.map((c) =>
+        c.name === "farm"
+          ? { name: "farm", role: "carry" as const, type: "category" as const, openLevels: true }
+          : c,
+      ),
+    });
     const r = await checkBatch(chunks(csvOf(HEADER, rows)), p);
     const v = r.findings.find((f) => f.code === "level.variant")!;
     expect(v.detail?.merges).toEqual([

@@ -15,28 +15,36 @@ const CASES = hostileFiles(ENGINE_DATASET);
 const bytesOf = (id: string) => hostileFile(ENGINE_DATASET, id).bytes();
 
 describe("the bad-input list (tests/fixtures/hostile-files.ts): each case ends in the outcome it promises", () => {
-  test.each(CASES.filter((c) => c.expect.kind !== "checked"))("$name: unreadable, one actionable file.unreadable blocker", async (c) => {
-    // a file the intake refuses must still be refused by the engine if it ever reached it
-    const want = c.expect.kind === "refused" ? c.expect.engine : (c.expect as { message: RegExp; fix: RegExp });
-    const r = await checkBatch(chunks(c.bytes(), 64 << 10), P);
-    expect(r.status).toBe("unreadable");
-    const f = r.findings.find((x) => x.code === "file.unreadable");
-    expect(f?.severity).toBe("blocker");
-    expect(f?.message).toMatch(want.message);
-    expect(f?.fix).toMatch(want.fix);
-    expect(r.counts.blocker).toBe(1);
-  });
+  test.each(CASES.filter((c) => c.expect.kind !== "checked"))(
+    "$name: unreadable, one actionable file.unreadable blocker",
+    async (c) => {
+      // a file the intake refuses must still be refused by the engine if it ever reached it
+      const want =
+        c.expect.kind === "refused" ? c.expect.engine : (c.expect as { message: RegExp; fix: RegExp });
+      const r = await checkBatch(chunks(c.bytes(), 64 << 10), P);
+      expect(r.status).toBe("unreadable");
+      const f = r.findings.find((x) => x.code === "file.unreadable");
+      expect(f?.severity).toBe("blocker");
+      expect(f?.message).toMatch(want.message);
+      expect(f?.fix).toMatch(want.fix);
+      expect(r.counts.blocker).toBe(1);
+    },
+  );
 
-  test.each(CASES.filter((c) => c.expect.kind === "checked"))("$name: read and reported with its findings", async (c) => {
-    const want = c.expect as Extract<HostileOutcome, { kind: "checked" }>;
-    const r = await checkBatch(chunks(c.bytes(), 333), P);
-    expect(r.status).toBe("checked");
-    const codes = r.findings.map((f) => f.code);
-    for (const code of want.findings) expect(codes).toContain(code);
-    for (const [code, rows] of Object.entries(want.rows ?? {})) expect(r.findings.find((f) => f.code === code)?.rows).toEqual(rows);
-    if (want.file?.delimiter) expect(r.file?.delimiter).toBe(want.file.delimiter);
-    if (want.file?.decimal) expect(r.file?.decimal).toBe(want.file.decimal);
-  });
+  test.each(CASES.filter((c) => c.expect.kind === "checked"))(
+    "$name: read and reported with its findings",
+    async (c) => {
+      const want = c.expect as Extract<HostileOutcome, { kind: "checked" }>;
+      const r = await checkBatch(chunks(c.bytes(), 333), P);
+      expect(r.status).toBe("checked");
+      const codes = r.findings.map((f) => f.code);
+      for (const code of want.findings) expect(codes).toContain(code);
+      for (const [code, rows] of Object.entries(want.rows ?? {}))
+        expect(r.findings.find((f) => f.code === code)?.rows).toEqual(rows);
+      if (want.file?.delimiter) expect(r.file?.delimiter).toBe(want.file.delimiter);
+      if (want.file?.decimal) expect(r.file?.decimal).toBe(want.file.decimal);
+    },
+  );
 });
 
 describe("bounded memory on pathological files", () => {
@@ -45,7 +53,9 @@ describe("bounded memory on pathological files", () => {
     global.gc?.();
     const before = process.memoryUsage().heapUsed;
     let peak = before;
-    const r = await checkBatch(chunks(bytes, 1 << 16), P, { onProgress: () => (peak = Math.max(peak, process.memoryUsage().heapUsed)) });
+    const r = await checkBatch(chunks(bytes, 1 << 16), P, {
+      onProgress: () => (peak = Math.max(peak, process.memoryUsage().heapUsed)),
+    });
     peak = Math.max(peak, process.memoryUsage().heapUsed);
     return { r, growth: peak - before };
   }
@@ -69,7 +79,9 @@ describe("bounded memory on pathological files", () => {
   test("an unclosed quote that swallows a large file is refused once the record passes the cap", async () => {
     const { r, growth } = await peakGrowth(bytesOf("unclosed-quote-large"));
     expect(r.status).toBe("unreadable");
-    expect(r.findings[0]!.message).toMatch(/quoted field that starts on line 2 is never closed: more than 4 MB/);
+    expect(r.findings[0]!.message).toMatch(
+      /quoted field that starts on line 2 is never closed: more than 4 MB/,
+    );
     expect(growth).toBeLessThan(64 << 20);
   });
 
@@ -160,7 +172,12 @@ describe("readable variants", () => {
   });
 
   test("ragged rows and duplicate headers are reported, not fatal", async () => {
-    const text = `${HEADER.join(",")},yield\n` + cleanRows(5).map((r) => [...r, 1].join(",")).join("\n") + "\n1,2,3\n";
+    const text =
+      `${HEADER.join(",")},yield\n` +
+      cleanRows(5)
+        .map((r) => [...r, 1].join(","))
+        .join("\n") +
+      "\n1,2,3\n";
     const r = await checkBatch(chunks(text), P);
     expect(r.status).toBe("checked");
     const codes = r.findings.map((f) => f.code);

@@ -12,7 +12,8 @@ import fs from "node:fs";
 
 const col = (name: string) => HEADER.indexOf(name);
 const rel = (a: number, b: number) => Math.abs(a - b) / Math.max(Math.abs(b), 1e-300);
-const coef = (r: ReadinessReport, term: string) => r.fit!.coefficients.find((c) => c.term === term)!.estimate!;
+const coef = (r: ReadinessReport, term: string) =>
+  r.fit!.coefficients.find((c) => c.term === term)!.estimate!;
 
 /** clean rows with some gaps: irrigation missing in every 9th row, rainfall "NA" in every 13th */
 function gappy(n: number, seed: number, firstId = 1): Row[] {
@@ -35,13 +36,19 @@ describe("baseline identity (treatment coding: changing the baseline reparametri
     expect(rel(clay.fit!.rSquared, loam.fit!.rSquared)).toBeLessThan(1e-10);
     expect(clay.model.parameters).toBe(loam.model.parameters);
     // new intercept = old intercept + old coef of the new baseline
-    expect(rel(coef(clay, "intercept"), coef(loam, "intercept") + coef(loam, "soil[clay]"))).toBeLessThan(1e-9);
+    expect(rel(coef(clay, "intercept"), coef(loam, "intercept") + coef(loam, "soil[clay]"))).toBeLessThan(
+      1e-9,
+    );
     // the old baseline's indicator = −(old coef of the new baseline)
     expect(rel(coef(clay, "soil[loam]"), -coef(loam, "soil[clay]"))).toBeLessThan(1e-9);
     // any other level: old coef − old coef of the new baseline
-    for (const l of ["sand", "silt"]) expect(rel(coef(clay, `soil[${l}]`), coef(loam, `soil[${l}]`) - coef(loam, "soil[clay]"))).toBeLessThan(1e-9);
+    for (const l of ["sand", "silt"])
+      expect(rel(coef(clay, `soil[${l}]`), coef(loam, `soil[${l}]`) - coef(loam, "soil[clay]"))).toBeLessThan(
+        1e-9,
+      );
     // numeric slopes and the other factor untouched
-    for (const t of ["nitrogen", "irrigation", "rainfall", "variety[Corrin]"]) expect(rel(coef(clay, t), coef(loam, t))).toBeLessThan(1e-9);
+    for (const t of ["nitrogen", "irrigation", "rainfall", "variety[Corrin]"])
+      expect(rel(coef(clay, t), coef(loam, t))).toBeLessThan(1e-9);
     // GVIF does not depend on the baseline (Fox & Monette 1992)
     const g = (r: ReadinessReport) => r.collinearity!.terms.find((t) => t.term === "soil")!.gvif;
     expect(rel(g(clay), g(loam))).toBeLessThan(1e-9);
@@ -56,13 +63,23 @@ describe("pooling: merged states equal one pass over the concatenated files", ()
 
   test.each([
     { name: "closed level lists", p: plan() },
-    { name: "open level lists discovered from the data", p: plan({ columns: planInput().columns.map((c) => (c.type === "category" ? { name: c.name, role: c.role, type: c.type } : c)) }) },
+    {
+      name: "open level lists discovered from the data",
+      p: plan({
+        columns: planInput().columns.map((c) =>
+          c.type === "category" ? { name: c.name, role: c.role, type: c.type } : c,
+        ),
+      }),
+    },
   ])("$name", async ({ p }) => {
     const a = await checkBatch(chunks(csvOf(HEADER, rowsA)), p);
     const b = await checkBatch(chunks(csvOf(HEADER, rowsB)), p);
     const whole = await checkBatch(chunks(csvOf(HEADER, [...rowsA, ...rowsB]), 777), p);
     // states survive a round trip through JSON (as stored in the database)
-    const pool = await poolReport([JSON.parse(JSON.stringify(a.state)), JSON.parse(JSON.stringify(b.state))], p);
+    const pool = await poolReport(
+      [JSON.parse(JSON.stringify(a.state)), JSON.parse(JSON.stringify(b.state))],
+      p,
+    );
     expect(pool.rows).toEqual(whole.rows);
     expect(pool.model.parameters).toBe(whole.model.parameters);
     expect(pool.model.residualDf).toBe(whole.model.residualDf);
@@ -112,7 +129,8 @@ describe.skipIf(!R.ok)("R cross-check through the whole pipeline (lm, car::vif, 
     // correlated predictors and missing values: rainfall tracks irrigation, tokens "" and "NA"
     const g = rng(42);
     const rows = gappy(400, 8).map((x, i) => {
-      if (typeof x[col("irrigation")] === "number") x[col("rainfall")] = +(200 + 1.5 * Number(x[col("irrigation")]) + 30 * g()).toFixed(2);
+      if (typeof x[col("irrigation")] === "number")
+        x[col("rainfall")] = +(200 + 1.5 * Number(x[col("irrigation")]) + 30 * g()).toFixed(2);
       if (i % 17 === 3) x[col("soil")] = "";
       return x;
     });
@@ -120,10 +138,22 @@ describe.skipIf(!R.ok)("R cross-check through the whole pipeline (lm, car::vif, 
     const file = path.join(dir, "batch.csv");
     fs.writeFileSync(file, csvOf(HEADER, rows));
     const ours = await checkBatch(chunks(fs.readFileSync(file)), plan());
-    const r = runRJson<{ n: number[]; rank: number[]; dfResidual: number[]; F: number[]; rSquared: number[]; adjRSquared: number[]; sigma: number[]; rss: number[]; coef: number[]; se: number[]; gvifTerms: string[]; gvif: number[]; gvifScaled: number[]; condition: number[] }>(
-      path.resolve("tests/fixtures/engine/lm-pipeline.R"),
-      [file, path.resolve("tests/r/json.R")],
-    );
+    const r = runRJson<{
+      n: number[];
+      rank: number[];
+      dfResidual: number[];
+      F: number[];
+      rSquared: number[];
+      adjRSquared: number[];
+      sigma: number[];
+      rss: number[];
+      coef: number[];
+      se: number[];
+      gvifTerms: string[];
+      gvif: number[];
+      gvifScaled: number[];
+      condition: number[];
+    }>(path.resolve("tests/fixtures/engine/lm-pipeline.R"), [file, path.resolve("tests/r/json.R")]);
     expect(ours.rows.complete).toBe(r.n[0]);
     expect(ours.model.parameters).toBe(r.rank[0]! - 1);
     expect(ours.model.residualDf).toBe(r.dfResidual[0]);

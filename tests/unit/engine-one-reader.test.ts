@@ -27,13 +27,23 @@ describe("every batch-reading path uses the one reader", () => {
   test("no application file imports papaparse or another CSV parser", () => {
     expect(files.length).toBeGreaterThan(50);
     const offenders = files.filter(
-      (f) => !PARSER_ALLOW.includes(f) && /from\s+["'](papaparse|csv-parse[^"']*|fast-csv|d3-dsv|neat-csv)["']|require\(["']papaparse["']\)/.test(fs.readFileSync(f, "utf8")),
+      (f) =>
+        !PARSER_ALLOW.includes(f) &&
+        /from\s+["'](papaparse|csv-parse[^"']*|fast-csv|d3-dsv|neat-csv)["']|require\(["']papaparse["']\)/.test(
+          fs.readFileSync(f, "utf8"),
+        ),
     );
     expect(offenders).toEqual([]);
   });
 
   test("the tokenizer and readCsv are used only inside the engine (lib/readiness)", () => {
-    const outside = files.filter((f) => !f.startsWith(`lib${path.sep}readiness${path.sep}`) && /\bnew Tokenizer\(|\breadCsv\(|readiness\/(tokenizer|csv-reader)["']/.test(fs.readFileSync(f, "utf8")));
+    const outside = files.filter(
+      (f) =>
+        !f.startsWith(`lib${path.sep}readiness${path.sep}`) &&
+        /\bnew Tokenizer\(|\breadCsv\(|readiness\/(tokenizer|csv-reader)["']/.test(
+          fs.readFileSync(f, "utf8"),
+        ),
+    );
     expect(outside).toEqual([]);
   });
 });

@@ -17,7 +17,6 @@ import { survey } from "@/lib/readiness/split";
 import { HEADER, chunks, cleanRows, csvOf, plan, rng, type Row } from "../fixtures/engine/data";
 import { close } from "../helpers/close";
 
-
 // the examples of keys repeated across ranges are not known to the merge (only hashes travel)
 const strip = ({ state: _s, timings: _t, findings, ...rest }: ReadinessReport) => ({
   ...rest,
@@ -32,7 +31,8 @@ function randomBatch(seed: number): string {
   const col = (name: string) => HEADER.indexOf(name);
   for (const row of rows) {
     const u = r();
-    if (u < 0.3) row[col("farm")] = `"north ${Math.floor(r() * 9)},\n""upper""${r() < 0.5 ? "\r\n" : "\n\n"}field"`;
+    if (u < 0.3)
+      row[col("farm")] = `"north ${Math.floor(r() * 9)},\n""upper""${r() < 0.5 ? "\r\n" : "\n\n"}field"`;
     else if (u < 0.33) row[col("nitrogen")] = "";
     else if (u < 0.34) row[col("nitrogen")] = "n/a";
     else if (u < 0.35) row[col("soil")] = "Clay";
@@ -70,7 +70,11 @@ describe("checkFile over byte ranges equals one pass", () => {
       const file = path.join(dir, `w${i}.csv`);
       fs.writeFileSync(file, text);
       const one = await checkBatch(chunks(text, 1 << 16), P);
-      const par = await checkFile(file, P, { minBytes: 0, workers: 3, workerScript: path.resolve("tests/fixtures/engine/range-worker.ts") });
+      const par = await checkFile(file, P, {
+        minBytes: 0,
+        workers: 3,
+        workerScript: path.resolve("tests/fixtures/engine/range-worker.ts"),
+      });
       close(strip(one), strip(par), `file ${i}`);
     }
   }, 120_000);

@@ -12,7 +12,6 @@ import { checkFile } from "@/lib/readiness/node";
 import { HEADER, chunks, cleanRows, csvOf, plan } from "../fixtures/engine/data";
 import { close } from "../helpers/close";
 
-
 describe("the byte-span hot path equals the string path", () => {
   test("a 30,000-row file with defects of every row-level kind, CRLF line ends and blank lines", async () => {
     const rows = cleanRows(30_000);
@@ -60,11 +59,17 @@ describe("checkFile with worker threads equals one pass", () => {
     fs.writeFileSync(file, csvOf(HEADER, rows));
     const p = plan();
     const one = await checkBatch(fs.createReadStream(file), p);
-    const par = await checkFile(file, p, { minBytes: 0, workers: 3, workerScript: path.resolve("tests/fixtures/engine/range-worker.ts") });
+    const par = await checkFile(file, p, {
+      minBytes: 0,
+      workers: 3,
+      workerScript: path.resolve("tests/fixtures/engine/range-worker.ts"),
+    });
     // key examples of repeats across ranges are not known to the merge (only hashes travel): compare without them
     const strip = ({ state: _s, timings: _t, findings, ...rest }: ReadinessReport) => ({
       ...rest,
-      findings: findings.map(({ detail: _d, ...f }) => (f.code === "key.duplicate" ? { ...f, message: "" } : f)),
+      findings: findings.map(({ detail: _d, ...f }) =>
+        f.code === "key.duplicate" ? { ...f, message: "" } : f,
+      ),
     });
     expect(par.findings.map((f) => f.code)).toEqual(one.findings.map((f) => f.code));
     expect(par.findings.find((f) => f.code === "row.duplicate")?.rows).toEqual([3002]);

@@ -90,7 +90,11 @@ describe("our reader, papaparse and Python's csv module read random files alike"
   test("papaparse gives the same records (files with one kind of line end)", () => {
     for (const c of FILES) {
       const body = c.text.replace(/^\uFEFF/, "");
-      const p = Papa.parse<string[]>(body, { delimiter: c.delimiter, newline: c.newline as "\n", skipEmptyLines: true });
+      const p = Papa.parse<string[]>(body, {
+        delimiter: c.delimiter,
+        newline: c.newline as "\n",
+        skipEmptyLines: true,
+      });
       expect(p.data, c.text).toEqual(c.records);
     }
   });
@@ -103,7 +107,11 @@ describe("our reader, papaparse and Python's csv module read random files alike"
       fs.writeFileSync(f, c.text);
       args.push(f, c.delimiter);
     });
-    const py = JSON.parse(execFileSync("python3", [path.resolve("tests/fixtures/engine/csv-records.py"), ...args], { maxBuffer: 64 << 20 }).toString()) as {
+    const py = JSON.parse(
+      execFileSync("python3", [path.resolve("tests/fixtures/engine/csv-records.py"), ...args], {
+        maxBuffer: 64 << 20,
+      }).toString(),
+    ) as {
       records: string[][];
       lines: number[];
     }[];

@@ -26,7 +26,10 @@ const tmpFile = (text: string | Uint8Array) => {
 
 describe("defect 1: a quoted header read by worker threads", () => {
   test('"plot","yield",… with two workers gives the one-pass report (no false plan.column-missing)', async () => {
-    const text = csvOf(HEADER.map((h) => `"${h}"`), cleanRows(4000));
+    const text = csvOf(
+      HEADER.map((h) => `"${h}"`),
+      cleanRows(4000),
+    );
     const file = tmpFile(text);
     const one = await checkBatch(chunks(text, 1 << 16), P);
     const two = await checkFile(file, P, { minBytes: 0, workers: 2, workerScript: WORKER });
@@ -47,7 +50,16 @@ describe("defect 2: the pool export numbers rows as the report does", () => {
     expect(report.findings.find((f) => f.code === "type.mismatch")?.rows).toEqual([5]);
     const pool = {
       plan: P,
-      members: [{ fileKey: "k", organisationName: "Org", batchPublicId: "b1", batchTitle: "B", version: 1, decimal: "." }],
+      members: [
+        {
+          fileKey: "k",
+          organisationName: "Org",
+          batchPublicId: "b1",
+          batchTitle: "B",
+          version: 1,
+          decimal: ".",
+        },
+      ],
     } as unknown as StudyPool;
     const open = async () => new Response(csv).body!;
     const lines: string[] = [];
@@ -62,7 +74,9 @@ describe("defect 2: the pool export numbers rows as the report does", () => {
 });
 
 describe("defect 3: invalid UTF-8 (RFC 3629) is unreadable, with the offset of the first bad byte", () => {
-  const head = new TextEncoder().encode(`${HEADER.join(",")}\n1,harrowgate,loam,Corrin,1,2,3,2026-04-01,4\n2,`);
+  const head = new TextEncoder().encode(
+    `${HEADER.join(",")}\n1,harrowgate,loam,Corrin,1,2,3,2026-04-01,4\n2,`,
+  );
   test.each([
     ["an overlong sequence", [0xe0, 0x80, 0x80]],
     ["a surrogate", [0xed, 0xa0, 0x80]],
@@ -129,7 +143,11 @@ describe("defect 5: a long field costs time in proportion to its length, in ever
     rows[500]![HEADER.indexOf(column)] = `"${long(n)}"`;
     const withLong = csvOf(HEADER, rows);
     // the same size without it: more ordinary rows
-    const more = cleanRows(Math.ceil((withLong.length - plainText.length) / (plainText.length / base.length)) + 2000, 7, 5000);
+    const more = cleanRows(
+      Math.ceil((withLong.length - plainText.length) / (plainText.length / base.length)) + 2000,
+      7,
+      5000,
+    );
     const plain = csvOf(HEADER, more).slice(0, withLong.length);
     const plainSized = plain.slice(0, plain.lastIndexOf("\n") + 1);
     expect(Math.abs(plainSized.length - withLong.length)).toBeLessThan(200);

@@ -61,12 +61,15 @@ describe("dates and level folding", () => {
 
 describe("quartiles", () => {
   test("selection equals type-7 quantiles of the sorted values", () => {
-    expect([0.25, 0.5, 0.75].map((p) => selectQuantile(Float64Array.from([10, 4, 1, 3, 2]), p))).toEqual([2, 3, 4]);
+    expect([0.25, 0.5, 0.75].map((p) => selectQuantile(Float64Array.from([10, 4, 1, 3, 2]), p))).toEqual([
+      2, 3, 4,
+    ]);
     const r = rng(5);
     for (let n = 1; n < 300; n += 7) {
       const v = Float64Array.from({ length: n }, () => Math.round(r() * 50));
       const sorted = v.slice().sort();
-      for (const p of [0.25, 0.5, 0.75]) expect(selectQuantile(v.slice(), p)).toBeCloseTo(quantile(sorted, p), 12);
+      for (const p of [0.25, 0.5, 0.75])
+        expect(selectQuantile(v.slice(), p)).toBeCloseTo(quantile(sorted, p), 12);
     }
   });
   test("beyond the bound the reservoir's quartiles of U(0,1) are within 5 standard errors", () => {

@@ -16,7 +16,10 @@ describe("toAppError and database outages", () => {
   test.each([
     ["refused connection", driverError("ECONNREFUSED")],
     ["connection lost mid-query", driverError("PROTOCOL_CONNECTION_LOST")],
-    ["lost connection during query (MariaDB errno 2013)", Object.assign(new Error("Lost connection"), { errno: 2013 })],
+    [
+      "lost connection during query (MariaDB errno 2013)",
+      Object.assign(new Error("Lost connection"), { errno: 2013 }),
+    ],
     ["wrapped by the ORM", new Error("Failed query: select 1", { cause: driverError("ECONNREFUSED") })],
   ])("%s → unavailable, 503, a message saying to try again", (_label, error) => {
     const app = toAppError(error, "test");
@@ -26,7 +29,13 @@ describe("toAppError and database outages", () => {
   });
 
   test("a wrong query (ER_PARSE_ERROR, errno 1064) stays an internal error", () => {
-    const app = toAppError(Object.assign(new Error("You have an error in your SQL syntax"), { code: "ER_PARSE_ERROR", errno: 1064 }), "test");
+    const app = toAppError(
+      Object.assign(new Error("You have an error in your SQL syntax"), {
+        code: "ER_PARSE_ERROR",
+        errno: 1064,
+      }),
+      "test",
+    );
     expect(app.code).toBe("internal");
     expect(ERROR_STATUS[app.code]).toBe(500);
   });

@@ -6,7 +6,12 @@
  * and the UTF-8 `filename*` of RFC 8187, whose value uses attr-chars and %-escapes only).
  */
 import { describe, expect, test } from "vitest";
-import { attachmentDisposition, cleanFileName, cleanText, MAX_FILE_NAME_CHARS } from "@/lib/batches/intake/file-rules";
+import {
+  attachmentDisposition,
+  cleanFileName,
+  cleanText,
+  MAX_FILE_NAME_CHARS,
+} from "@/lib/batches/intake/file-rules";
 
 const CASES: [string, string][] = [
   ["../../etc/passwd.csv", "passwd.csv"],
@@ -49,22 +54,31 @@ describe("attachmentDisposition", () => {
   const ATTR_CHARS = /^[A-Za-z0-9!#$&+.^_`|~%-]*$/;
 
   test.each([
-    ["plots.csv", 'attachment; filename="plots.csv"; filename*=UTF-8\'\'plots.csv'],
-    ["naïve café.csv", "attachment; filename=\"naive-cafe.csv\"; filename*=UTF-8''na%C3%AFve%20caf%C3%A9.csv"],
-    ['x";\r\nSet-Cookie: a=b.csv', "attachment; filename=\"x_-Set-Cookie_-a-b.csv\"; filename*=UTF-8''x_%3BSet-Cookie_%20a%3Db.csv"],
+    ["plots.csv", "attachment; filename=\"plots.csv\"; filename*=UTF-8''plots.csv"],
+    [
+      "naïve café.csv",
+      "attachment; filename=\"naive-cafe.csv\"; filename*=UTF-8''na%C3%AFve%20caf%C3%A9.csv",
+    ],
+    [
+      'x";\r\nSet-Cookie: a=b.csv',
+      "attachment; filename=\"x_-Set-Cookie_-a-b.csv\"; filename*=UTF-8''x_%3BSet-Cookie_%20a%3Db.csv",
+    ],
     ["😀.csv", "attachment; filename=\"download.csv\"; filename*=UTF-8''%F0%9F%98%80.csv"],
   ])("%j", (name, want) => {
     expect(attachmentDisposition(name)).toBe(want);
   });
 
-  test.each(CASES.map(([g]) => [g]))("for %j: no break-out characters, and filename* decodes to the clean name", (given) => {
-    const h = attachmentDisposition(given);
-    expect(h).not.toMatch(/[\r\n\0]/);
-    const m = /^attachment; filename="([^"\\]*)"; filename\*=UTF-8''(.*)$/.exec(h)!;
-    expect(m[1]).toMatch(/^[A-Za-z0-9._-]+$/);
-    expect(m[2]).toMatch(ATTR_CHARS);
-    expect(decodeURIComponent(m[2]!)).toBe(cleanFileName(given));
-  });
+  test.each(CASES.map(([g]) => [g]))(
+    "for %j: no break-out characters, and filename* decodes to the clean name",
+    (given) => {
+      const h = attachmentDisposition(given);
+      expect(h).not.toMatch(/[\r\n\0]/);
+      const m = /^attachment; filename="([^"\\]*)"; filename\*=UTF-8''(.*)$/.exec(h)!;
+      expect(m[1]).toMatch(/^[A-Za-z0-9._-]+$/);
+      expect(m[2]).toMatch(ATTR_CHARS);
+      expect(decodeURIComponent(m[2]!)).toBe(cleanFileName(given));
+    },
+  );
 });
 
 test("cleanText removes control and bidi characters from a label and collapses spaces", () => {

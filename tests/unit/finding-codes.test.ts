@@ -22,7 +22,10 @@ function catalogueOf(markdown: string): Map<string, string[]> {
     const m = /^\|\s*`([a-z]+\.[a-z-]+)`\s*\|([^|]*)\|/.exec(line);
     if (!m) continue;
     const words = (m[2] ?? "").toLowerCase();
-    out.set(m[1]!, SEVERITIES.filter((s) => words.includes(s)));
+    out.set(
+      m[1]!,
+      SEVERITIES.filter((s) => words.includes(s)),
+    );
   }
   return out;
 }
@@ -56,7 +59,8 @@ function codesPassedToFinding(file: string, text: string): { codes: string[]; pr
       const found = first ? literals(first) : null;
       const at = `${path.relative(ROOT, file)}:${src.getLineAndCharacterOfPosition(node.getStart()).line + 1}`;
       if (found) codes.push(...found);
-      else problems.push(`${at}: the code passed to finding() is not a string literal, so it cannot be checked`);
+      else
+        problems.push(`${at}: the code passed to finding() is not a string literal, so it cannot be checked`);
     }
     ts.forEachChild(node, visit);
   };
@@ -93,7 +97,9 @@ describe("finding codes", () => {
     expect(emitted.size).toBeGreaterThan(30);
     expect([...emitted].filter((c) => !isFindingCode(c))).toEqual([]);
     // the pool questions are computed outside the single-batch engine and may land later
-    const unused = table.filter((c) => !emitted.has(c) && FINDING_CODES[c as keyof typeof FINDING_CODES].group !== "pool questions");
+    const unused = table.filter(
+      (c) => !emitted.has(c) && FINDING_CODES[c as keyof typeof FINDING_CODES].group !== "pool questions",
+    );
     expect(unused).toEqual([]);
   });
 
@@ -107,7 +113,8 @@ describe("finding codes", () => {
   });
 
   it("the catalogue reader takes codes and severities from table rows only", () => {
-    const md = "| code | severity |\n|---|---|\n| `a.b` | warning |\n| `c.d-e` | note, warning, blocker |\nsee `f.g` |";
+    const md =
+      "| code | severity |\n|---|---|\n| `a.b` | warning |\n| `c.d-e` | note, warning, blocker |\nsee `f.g` |";
     expect([...catalogueOf(md)]).toEqual([
       ["a.b", ["warning"]],
       ["c.d-e", ["blocker", "warning", "note"]],

@@ -9,7 +9,13 @@
  * (en-GB grouping, "15 %").
  */
 import { describe, expect, test } from "vitest";
-import { countOf, formatNumber, niceTicks, plainNumber, type NumberPurpose } from "@/lib/readiness/format-number";
+import {
+  countOf,
+  formatNumber,
+  niceTicks,
+  plainNumber,
+  type NumberPurpose,
+} from "@/lib/readiness/format-number";
 
 const TABLE: [value: number | null, purpose: NumberPurpose, expected: string][] = [
   // measures in the data's units: artefacts gone, the data's own decimals kept

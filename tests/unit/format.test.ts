@@ -8,8 +8,8 @@ describe("csvCell", () => {
     ["+1+1", "'+1+1"],
     ["-2+3", "'-2+3"],
     ["@cmd", "'@cmd"],
-    ["\tx", "\"'\tx\""],
-    ["\rx", "\"'\rx\""],
+    ["\tx", '"\'\tx"'],
+    ["\rx", '"\'\rx"'],
     ["plain", "plain"],
     ["a=b", "a=b"],
   ])("%j → %j", (input, expected) => {
@@ -36,7 +36,15 @@ describe("csvCell", () => {
 });
 
 test("toCsv writes CRLF-terminated records (RFC 4180 §2.1)", () => {
-  expect(toCsv(["name", "n"], [["x,y", 1], ["=1", null]])).toBe('name,n\r\n"x,y",1\r\n\'=1,\r\n');
+  expect(
+    toCsv(
+      ["name", "n"],
+      [
+        ["x,y", 1],
+        ["=1", null],
+      ],
+    ),
+  ).toBe('name,n\r\n"x,y",1\r\n\'=1,\r\n');
 });
 
 test("formatCount and formatBytes", () => {

@@ -11,14 +11,25 @@ import { describe, expect, test } from "vitest";
 import { AppError } from "@/lib/errors";
 import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
 
-const tempUploads = async () => (await readdir(os.tmpdir())).filter((n) => n.startsWith("tributary-upload-")).length;
+const tempUploads = async () =>
+  (await readdir(os.tmpdir())).filter((n) => n.startsWith("tributary-upload-")).length;
 
 /** A multipart request; `stream` sends the body as a stream, so no Content-Length is set. */
 async function formRequest(form: FormData, stream = false): Promise<Request> {
   const encoded = new Request("http://127.0.0.1/api/v1/batches", { method: "POST", body: form });
   const type = encoded.headers.get("content-type")!;
-  if (!stream) return new Request(encoded.url, { method: "POST", headers: { "content-type": type }, body: await encoded.arrayBuffer() });
-  return new Request(encoded.url, { method: "POST", headers: { "content-type": type }, body: encoded.body, duplex: "half" } as RequestInit);
+  if (!stream)
+    return new Request(encoded.url, {
+      method: "POST",
+      headers: { "content-type": type },
+      body: await encoded.arrayBuffer(),
+    });
+  return new Request(encoded.url, {
+    method: "POST",
+    headers: { "content-type": type },
+    body: encoded.body,
+    duplex: "half",
+  } as RequestInit);
 }
 
 describe("receiveMultipart", () => {
@@ -44,7 +55,11 @@ describe("receiveMultipart", () => {
     form.append("study", "barley-nitrogen");
     form.append("file", new File([new Uint8Array(300_000).fill(49)], "big.csv"));
     const before = await tempUploads();
-    const err = await receiveMultipart(await formRequest(form, true), 100_000, "The upload is larger than the limit.").catch((e: unknown) => e);
+    const err = await receiveMultipart(
+      await formRequest(form, true),
+      100_000,
+      "The upload is larger than the limit.",
+    ).catch((e: unknown) => e);
     expect(err).toBeInstanceOf(AppError);
     expect((err as AppError).message).toBe("The upload is larger than the limit.");
     expect(await tempUploads()).toBe(before);
@@ -65,8 +80,14 @@ describe("receiveMultipart", () => {
   });
 
   test("a body that is not multipart is refused saying what to send", async () => {
-    const req = new Request("http://127.0.0.1/", { method: "POST", headers: { "content-type": "multipart/form-data; boundary=x" }, body: "garbage" });
+    const req = new Request("http://127.0.0.1/", {
+      method: "POST",
+      headers: { "content-type": "multipart/form-data; boundary=x" },
+      body: "garbage",
+    });
     const err = await receiveMultipart(req, 1e6, "too large").catch((e: unknown) => e);
-    expect((err as AppError).message).toMatch(/multipart body could not be read|Send the fields 'study' and 'file'/);
+    expect((err as AppError).message).toMatch(
+      /multipart body could not be read|Send the fields 'study' and 'file'/,
+    );
   });
 });

@@ -17,7 +17,9 @@ const ROOT = path.resolve(import.meta.dirname, "../..");
 const MACHINE_DIRS = ["work", "root", "home", "Users", "mnt"];
 const ABSOLUTE = new RegExp(`(^|[\\s"'\`(=:,[{])/(${MACHINE_DIRS.join("|")})/`);
 /** The sibling folder the product's reference documents were handed over in. */
-const SIBLING = new RegExp(["\\.\\.", "shared\\b"].join("/") + "|(^|[^\\w./-])" + ["shared", "(reference|[A-Z]+\\.md)"].join("/"));
+const SIBLING = new RegExp(
+  ["\\.\\.", "shared\\b"].join("/") + "|(^|[^\\w./-])" + ["shared", "(reference|[A-Z]+\\.md)"].join("/"),
+);
 /** An upper-case document name such as README.md; it must be a file of the repository. */
 const DOCUMENT = /(?<![\w/.-])([A-Z][A-Z0-9_-]*\.md)\b/g;
 /** Lines that import, require, read or resolve a path (TypeScript, JavaScript, shell). */
@@ -56,8 +58,13 @@ function offencesOf(file: string, text: string, documents: Set<string>): Offence
 }
 
 function trackedFiles(): string[] {
-  const out = execFileSync("git", ["ls-files", "-z", "--cached", "--others", "--exclude-standard"], { cwd: ROOT });
-  return out.toString("utf8").split("\0").filter((f) => f !== "" && f !== "package-lock.json");
+  const out = execFileSync("git", ["ls-files", "-z", "--cached", "--others", "--exclude-standard"], {
+    cwd: ROOT,
+  });
+  return out
+    .toString("utf8")
+    .split("\0")
+    .filter((f) => f !== "" && f !== "package-lock.json");
 }
 
 function isBinary(buf: Buffer): boolean {
@@ -67,14 +74,17 @@ function isBinary(buf: Buffer): boolean {
 describe("the repository stands alone", () => {
   it("no tracked file reads or names a path outside the checkout", () => {
     // regular files only: a symlinked node_modules (not matched by "node_modules/") is no file of ours
-    const files = trackedFiles().filter((f) => fs.statSync(path.join(ROOT, f), { throwIfNoEntry: false })?.isFile());
+    const files = trackedFiles().filter((f) =>
+      fs.statSync(path.join(ROOT, f), { throwIfNoEntry: false })?.isFile(),
+    );
     expect(files.length).toBeGreaterThan(100);
     const documents = new Set(files.map((f) => path.basename(f)));
     const offences: string[] = [];
     for (const f of files) {
       const buf = fs.readFileSync(path.join(ROOT, f));
       if (isBinary(buf)) continue;
-      for (const o of offencesOf(f, buf.toString("utf8"), documents)) offences.push(`${o.file}:${o.line}: ${o.what}: ${o.text}`);
+      for (const o of offencesOf(f, buf.toString("utf8"), documents))
+        offences.push(`${o.file}:${o.line}: ${o.what}: ${o.text}`);
     }
     expect(offences).toEqual([]);
   });
@@ -86,7 +96,10 @@ describe("the repository stands alone", () => {
     const up = ["..", "..", ".."].join("/");
 
     it.each([
-      ["tests/unit/a.test.ts", `const REF = path.resolve(import.meta.dirname, "${up}/${"sha"}red/reference");`],
+      [
+        "tests/unit/a.test.ts",
+        `const REF = path.resolve(import.meta.dirname, "${up}/${"sha"}red/reference");`,
+      ],
       ["lib/a.ts", `import x from "${up}/elsewhere/x";`],
       ["scripts/a.sh", `source "${up}/elsewhere/lib.sh"`],
       ["lib/a.ts", `// see ${abs("work")}/notes`],

@@ -37,7 +37,13 @@ describe("exact collinearity", () => {
     const irrigation = Math.round(g.u() * 400) / 10;
     const rainfall = Math.round(g.u() * 600) / 10;
     const n = g.normal();
-    return { irrigation, rainfall, total: irrigation + rainfall, n, y: 2 + 0.3 * irrigation + 0.1 * rainfall + g.normal() };
+    return {
+      irrigation,
+      rainfall,
+      total: irrigation + rainfall,
+      n,
+      y: 2 + 0.3 * irrigation + 0.1 * rainfall + g.normal(),
+    };
   });
   const full = new LeastSquares(5);
   const reduced = new LeastSquares(4);
@@ -45,7 +51,11 @@ describe("exact collinearity", () => {
     full.addRow([1, r.irrigation, r.rainfall, r.total, r.n], r.y);
     reduced.addRow([1, r.irrigation, r.rainfall, r.n], r.y);
   }
-  const res = analyseDesign(full, numericSpec(["intercept", "irrigation", "rainfall", "total_water", "n"]), OPTS);
+  const res = analyseDesign(
+    full,
+    numericSpec(["intercept", "irrigation", "rainfall", "total_water", "n"]),
+    OPTS,
+  );
   const ref = analyseDesign(reduced, numericSpec(["intercept", "irrigation", "rainfall", "n"]), OPTS);
 
   it("names the dependency and drops the aliased column from p", () => {
@@ -60,16 +70,21 @@ describe("exact collinearity", () => {
 
   it("fits as if the aliased column were absent", () => {
     expect(Math.abs(res.fit.rss - ref.fit.rss)).toBeLessThan(1e-10 * ref.fit.rss);
-    expect(Math.abs((res.fit.F as number) - (ref.fit.F as number))).toBeLessThan(1e-9 * (ref.fit.F as number));
-    const est = (a: typeof res, t: string) => a.fit.coefficients.find((c) => c.term === t)?.estimate as number;
-    for (const t of ["intercept", "irrigation", "rainfall", "n"]) expect(est(res, t)).toBeCloseTo(est(ref, t), 9);
+    expect(Math.abs((res.fit.F as number) - (ref.fit.F as number))).toBeLessThan(
+      1e-9 * (ref.fit.F as number),
+    );
+    const est = (a: typeof res, t: string) =>
+      a.fit.coefficients.find((c) => c.term === t)?.estimate as number;
+    for (const t of ["intercept", "irrigation", "rainfall", "n"])
+      expect(est(res, t)).toBeCloseTo(est(ref, t), 9);
     expect(res.collinearity?.terms.map((t) => t.term)).toEqual(["irrigation", "rainfall", "n"]);
     expect(allFinite(res)).toBe(true);
   });
 
   it("prints scaled combinations with rounded coefficients", () => {
     const ls = new LeastSquares(4);
-    for (const r of rows) ls.addRow([1, r.irrigation, r.rainfall, 2 * r.irrigation - 0.5 * r.rainfall + 3], r.y);
+    for (const r of rows)
+      ls.addRow([1, r.irrigation, r.rainfall, 2 * r.irrigation - 0.5 * r.rainfall + 3], r.y);
     const a = analyseDesign(ls, numericSpec(["intercept", "a", "b", "c"]), OPTS);
     expect(a.aliased).toEqual([{ term: "c", combination: "2·a − 0.5·b + 3" }]);
   });
@@ -134,7 +149,9 @@ describe("too few rows and degenerate columns", () => {
       ls.addRow([1, x, 5], x + g.normal());
     }
     const res = analyseDesign(ls, numericSpec(["intercept", "x", "plot_size"]), OPTS);
-    expect(res.aliased).toEqual([{ term: "plot_size", combination: "5 (the column is constant on the complete cases)" }]);
+    expect(res.aliased).toEqual([
+      { term: "plot_size", combination: "5 (the column is constant on the complete cases)" },
+    ]);
     expect(res.fit.dfModel).toBe(1);
   });
 
@@ -164,7 +181,18 @@ describe("too few rows and degenerate columns", () => {
     const ls = new LeastSquares(2);
     expect(() => ls.addRow([1, NaN], 1)).toThrow(/not a finite number/);
     expect(() => ls.addRow([1], 1)).toThrow(/expected 2/);
-    expect(() => LeastSquares.fromJSON({ kind: "least-squares", version: 1, k: 2, n: 1, d: [1], rbar: [], thetab: [1, 2], sserr: 0 })).toThrow(/wrong length/);
+    expect(() =>
+      LeastSquares.fromJSON({
+        kind: "least-squares",
+        version: 1,
+        k: 2,
+        n: 1,
+        d: [1],
+        rbar: [],
+        thetab: [1, 2],
+        sserr: 0,
+      }),
+    ).toThrow(/wrong length/);
     expect(() => LeastSquares.fromJSON({ hello: 1 })).toThrow(/not valid/);
   });
 });
@@ -177,7 +205,8 @@ describe("states with different indicator sets merge through expandColumns", () 
     const x = g.normal();
     return { soil, x, y: 3 + x + levels.indexOf(soil) * 0.5 + g.normal() };
   });
-  const row = (r: (typeof data)[number], cols: string[]) => cols.map((c) => (c === "intercept" ? 1 : c === "x" ? r.x : c === `soil[${r.soil}]` ? 1 : 0));
+  const row = (r: (typeof data)[number], cols: string[]) =>
+    cols.map((c) => (c === "intercept" ? 1 : c === "x" ? r.x : c === `soil[${r.soil}]` ? 1 : 0));
   const colsA = ["intercept", "soil[clay]", "soil[sand]", "x"];
   const colsB = ["intercept", "x", "soil[sand]", "soil[silt]", "soil[clay]"];
   const all = ["intercept", "soil[clay]", "soil[sand]", "soil[silt]", "x"];
@@ -221,12 +250,22 @@ describe("states with different indicator sets merge through expandColumns", () 
     const dropped = one.expandColumns(all, ["intercept", "x", "soil[clay]"]);
     const direct = new LeastSquares(3);
     data.forEach((r) => direct.addRow(row(r, ["intercept", "x", "soil[clay]"]), r.y));
-    const s3: DesignSpec = { columns: ["intercept", "x", "soil[clay]"], intercept: true, terms: [{ term: "x", columns: ["x"], df: 1 }, { term: "soil", columns: ["soil[clay]"], df: 1 }], numericColumns: ["x"] };
+    const s3: DesignSpec = {
+      columns: ["intercept", "x", "soil[clay]"],
+      intercept: true,
+      terms: [
+        { term: "x", columns: ["x"], df: 1 },
+        { term: "soil", columns: ["soil[clay]"], df: 1 },
+      ],
+      numericColumns: ["x"],
+    };
     const p = analyseDesign(dropped, s3, OPTS);
     const q = analyseDesign(direct, s3, OPTS);
     expect(dropped.n).toBe(200);
     expect(Math.abs(p.fit.rss - q.fit.rss)).toBeLessThan(1e-10 * q.fit.rss);
-    p.fit.coefficients.forEach((c, i) => expect(c.estimate as number).toBeCloseTo(q.fit.coefficients[i]?.estimate as number, 10));
+    p.fit.coefficients.forEach((c, i) =>
+      expect(c.estimate as number).toBeCloseTo(q.fit.coefficients[i]?.estimate as number, 10),
+    );
   });
 
   it("a batch without a level has that indicator aliased as a zero column", () => {
@@ -239,13 +278,23 @@ describe("states with different indicator sets merge through expandColumns", () 
     const alt = ["intercept", "soil[loam]", "soil[sand]", "soil[silt]", "x"];
     const ls = new LeastSquares(alt.length);
     data.forEach((r) => ls.addRow(row(r, alt), r.y));
-    const specAlt: DesignSpec = { ...spec, columns: alt, terms: [{ term: "soil", columns: alt.slice(1, 4), df: 3 }, { term: "x", columns: ["x"], df: 1 }] };
+    const specAlt: DesignSpec = {
+      ...spec,
+      columns: alt,
+      terms: [
+        { term: "soil", columns: alt.slice(1, 4), df: 3 },
+        { term: "x", columns: ["x"], df: 1 },
+      ],
+    };
     const p = analyseDesign(ls, specAlt, OPTS);
     const q = analyseDesign(one, spec, OPTS);
     expect(p.fit.rss).toBeCloseTo(q.fit.rss, 8);
     expect(p.fit.F as number).toBeCloseTo(q.fit.F as number, 8);
     expect(p.fit.coefficients[0]?.estimate).not.toBeCloseTo(q.fit.coefficients[0]?.estimate as number, 2);
-    expect(p.collinearity?.terms[0]?.gvif as number).toBeCloseTo(q.collinearity?.terms[0]?.gvif as number, 10);
+    expect(p.collinearity?.terms[0]?.gvif as number).toBeCloseTo(
+      q.collinearity?.terms[0]?.gvif as number,
+      10,
+    );
     expect(p.collinearity?.terms[1]?.vif as number).toBeCloseTo(q.collinearity?.terms[1]?.vif as number, 10);
   });
 });

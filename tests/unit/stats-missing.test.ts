@@ -36,15 +36,26 @@ describe("PatternMoments", () => {
     const x = littleMcar(one);
     const y = littleMcar(PatternMoments.fromJSON(JSON.parse(JSON.stringify(p1.toJSON()))));
     expect(x).not.toBeNull();
-    expect(Math.abs((x?.statistic as number) - (y?.statistic as number))).toBeLessThan(1e-8 * (x?.statistic as number));
+    expect(Math.abs((x?.statistic as number) - (y?.statistic as number))).toBeLessThan(
+      1e-8 * (x?.statistic as number),
+    );
     expect(x?.df).toBe(y?.df);
     // a column never observed is left out: same test as without it
     const withEmpty = new PatternMoments(["a", "b", "c", "z"]);
     rows.forEach((r) => withEmpty.addRow([...r, null]));
     const z = littleMcar(withEmpty);
     expect(z?.df).toBe(x?.df);
-    expect(Math.abs((z?.statistic as number) - (x?.statistic as number))).toBeLessThan(1e-9 * (x?.statistic as number));
-    expect(() => PatternMoments.fromJSON({ kind: "pattern-moments", version: 1, columns: ["a"], patterns: [{ observed: [3], count: 1, mean: [1], comoment: [0] }] })).toThrow(/wrong shape/);
+    expect(Math.abs((z?.statistic as number) - (x?.statistic as number))).toBeLessThan(
+      1e-9 * (x?.statistic as number),
+    );
+    expect(() =>
+      PatternMoments.fromJSON({
+        kind: "pattern-moments",
+        version: 1,
+        columns: ["a"],
+        patterns: [{ observed: [3], count: 1, mean: [1], comoment: [0] }],
+      }),
+    ).toThrow(/wrong shape/);
     // memory bound: too many patterns drops the moments and the test, and says so
     const saved = PatternMoments.MAX_CELLS;
     try {

@@ -5,7 +5,13 @@
 import fs from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
-import { LeastSquares, analyseDesign, conditionFlags, highCorrelationPairs, type DesignSpec } from "@/lib/readiness/stats";
+import {
+  LeastSquares,
+  analyseDesign,
+  conditionFlags,
+  highCorrelationPairs,
+  type DesignSpec,
+} from "@/lib/readiness/stats";
 
 const REF = path.resolve(import.meta.dirname, "../fixtures/reference");
 
@@ -35,18 +41,35 @@ function readCertified(name: string): Certified {
     };
   }
   return {
-    coefficients: c.coefficients.map((b: { estimate: number; std_dev: number }) => ({ estimate: b.estimate, sd: b.std_dev })),
+    coefficients: c.coefficients.map((b: { estimate: number; std_dev: number }) => ({
+      estimate: b.estimate,
+      sd: b.std_dev,
+    })),
     residualSd: c.residual_standard_deviation,
     rSquared: c.r_squared,
-    regression: { df: c.anova.regression.df, ss: c.anova.regression.sum_of_squares, ms: c.anova.regression.mean_square },
-    residual: { df: c.anova.residual.df, ss: c.anova.residual.sum_of_squares, ms: c.anova.residual.mean_square },
+    regression: {
+      df: c.anova.regression.df,
+      ss: c.anova.regression.sum_of_squares,
+      ms: c.anova.regression.mean_square,
+    },
+    residual: {
+      df: c.anova.residual.df,
+      ss: c.anova.residual.sum_of_squares,
+      ms: c.anova.residual.mean_square,
+    },
     F: c.anova.f_statistic,
   };
 }
 
 function readData(name: string): { header: string[]; rows: number[][] } {
-  const lines = fs.readFileSync(path.join(REF, `${name}.csv`), "utf8").trim().split(/\r?\n/);
-  return { header: (lines[0] as string).split(","), rows: lines.slice(1).map((l) => l.split(",").map(Number)) };
+  const lines = fs
+    .readFileSync(path.join(REF, `${name}.csv`), "utf8")
+    .trim()
+    .split(/\r?\n/);
+  return {
+    header: (lines[0] as string).split(","),
+    rows: lines.slice(1).map((l) => l.split(",").map(Number)),
+  };
 }
 
 /** Log relative error: the number of correct significant digits (as in McCullough 1998). */
@@ -56,17 +79,41 @@ function lre(x: number | null, certified: number): number {
   return -Math.log10(Math.abs(x - certified) / Math.abs(certified));
 }
 
-type Model = { name: string; design: (x: number[]) => number[]; columns: string[]; intercept: boolean; digits: number };
+type Model = {
+  name: string;
+  design: (x: number[]) => number[];
+  columns: string[];
+  intercept: boolean;
+  digits: number;
+};
 
 const MODELS: Model[] = [
   // NIST "lower" difficulty: y = B0 + B1 x
-  { name: "norris", design: ([x]) => [1, x as number], columns: ["intercept", "x"], intercept: true, digits: 11 },
+  {
+    name: "norris",
+    design: ([x]) => [1, x as number],
+    columns: ["intercept", "x"],
+    intercept: true,
+    digits: 11,
+  },
   // NIST "lower": y = B0 + B1 x + B2 x²
-  { name: "pontius", design: ([x]) => [1, x as number, (x as number) ** 2], columns: ["intercept", "x", "x2"], intercept: true, digits: 11 },
+  {
+    name: "pontius",
+    design: ([x]) => [1, x as number, (x as number) ** 2],
+    columns: ["intercept", "x", "x2"],
+    intercept: true,
+    digits: 11,
+  },
   // NIST "average": y = B1 x, no intercept (R² and regression SS about zero)
   { name: "noint1", design: ([x]) => [x as number], columns: ["x"], intercept: false, digits: 12 },
   // NIST "higher": y = B0 + B1 x1 + … + B6 x6 (lib/readiness/CHECKS.md asks ≥ 9 digits; we hold 11)
-  { name: "longley", design: (x) => [1, ...x], columns: ["intercept", "x1", "x2", "x3", "x4", "x5", "x6"], intercept: true, digits: 11 },
+  {
+    name: "longley",
+    design: (x) => [1, ...x],
+    columns: ["intercept", "x1", "x2", "x3", "x4", "x5", "x6"],
+    intercept: true,
+    digits: 11,
+  },
 ];
 
 function spec(m: Model): DesignSpec {
@@ -198,13 +245,24 @@ describe("NIST StRD Wampler1 and Wampler2 (higher difficulty; data rebuilt from 
       ls.addRow(row, name === "Wampler2" ? Number(y.toFixed(5)) : y);
     }
     const cols = ["intercept", "x1", "x2", "x3", "x4", "x5"];
-    const res = analyseDesign(ls, { columns: cols, intercept: true, terms: cols.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })), numericColumns: [] }, { alpha: 0.05, power: 0.8 });
+    const res = analyseDesign(
+      ls,
+      {
+        columns: cols,
+        intercept: true,
+        terms: cols.slice(1).map((c) => ({ term: c, columns: [c], df: 1 })),
+        numericColumns: [],
+      },
+      { alpha: 0.05, power: 0.8 },
+    );
     expect(res.rank).toBe(6);
     const got = Math.min(...res.fit.coefficients.map((c, i) => lre(c.estimate, coefs[i] as number)));
     achieved[name.toLowerCase()] = got;
     expect(got).toBeGreaterThanOrEqual(digits);
     expect(res.fit.rSquared).toBeCloseTo(1, 12); // certified R² = 1
     // certified SDs are 0: ours are rounding noise, tiny against each coefficient
-    res.fit.coefficients.forEach((c, i) => expect((c.stdError as number) / (coefs[i] as number)).toBeLessThan(1e-9));
+    res.fit.coefficients.forEach((c, i) =>
+      expect((c.stdError as number) / (coefs[i] as number)).toBeLessThan(1e-9),
+    );
   });
 });

@@ -87,7 +87,8 @@ function generate(c: Case) {
     const fi = Math.min(3, Math.floor(g.u() * 3 + (x1 > 0.5 ? 1 : 0))); // level depends on x1
     const f = LEVELS[fi] as string;
     const x4 = x1 + 2 * x3; // exactly dependent
-    const y = 1 + 2 * x1 - x2 + 0.05 * x3 + [0, 0.5, -0.3, 1][fi]! + 0.4 * x1 * (fi === 2 ? 1 : 0) + g.normal();
+    const y =
+      1 + 2 * x1 - x2 + 0.05 * x3 + [0, 0.5, -0.3, 1][fi]! + 0.4 * x1 * (fi === 2 ? 1 : 0) + g.normal();
     return { x1, x2, x3, f, x4, y };
   });
   const value = (r: (typeof raw)[number], col: string): number => {
@@ -133,13 +134,28 @@ const CASES: Case[] = [
 describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
   const { raw, value } = generate(c);
   const csv = path.join(R.ok ? tempDir() : "", "design.csv");
-  if (R.ok) writeCsv(csv, ["x1", "x2", "x3", "f", "x4", "y"], raw.map((r) => [r.x1, r.x2, r.x3, r.f, r.x4, r.y]));
-  const spec: DesignSpec = { columns: c.columns, intercept: true, terms: c.terms, numericColumns: ["x1", "x2", "x3", "x4"].filter((x) => c.columns.includes(x)) };
+  if (R.ok)
+    writeCsv(
+      csv,
+      ["x1", "x2", "x3", "f", "x4", "y"],
+      raw.map((r) => [r.x1, r.x2, r.x3, r.f, r.x4, r.y]),
+    );
+  const spec: DesignSpec = {
+    columns: c.columns,
+    intercept: true,
+    terms: c.terms,
+    numericColumns: ["x1", "x2", "x3", "x4"].filter((x) => c.columns.includes(x)),
+  };
   // Fox & Monette groups as lib/readiness/CHECKS.md (Formulas, GVIF) defines them: a predictor with the interaction columns containing it
   const groups = c.terms
     .filter((t) => !t.term.includes(":"))
     .map((t) => {
-      const cols = [...t.columns, ...c.terms.filter((o) => o.term.includes(":") && o.term.split(":").includes(t.term)).flatMap((o) => o.columns)];
+      const cols = [
+        ...t.columns,
+        ...c.terms
+          .filter((o) => o.term.includes(":") && o.term.split(":").includes(t.term))
+          .flatMap((o) => o.columns),
+      ];
       return `${t.term}=${cols.map(rName).join(",")}`;
     })
     .filter((g) => !g.startsWith("x4="))
@@ -149,7 +165,11 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
     out = runRJson<LmOut>("lm-check.R", [csv, c.formula, groups]);
   });
   const ls = new LeastSquares(c.columns.length);
-  for (const r of raw) ls.addRow(c.columns.map((col) => value(r, col)), r.y);
+  for (const r of raw)
+    ls.addRow(
+      c.columns.map((col) => value(r, col)),
+      r.y,
+    );
   const res = analyseDesign(ls, spec, { alpha: 0.05, power: 0.8 });
 
   it("uses R's column order", () => {
@@ -182,7 +202,9 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
     expect(res.aliased.map((a) => rName(a.term))).toEqual(out.aliasRows.map((r) => r[0]));
     out.aliasRows.forEach((row, i) => {
       const coefs = out.aliasCoef[i] as number[];
-      const expected = out.aliasCols.map((col, j) => ({ col: col[0] as string, v: coefs[j] as number })).filter((e) => Math.abs(e.v) > 1e-9);
+      const expected = out.aliasCols
+        .map((col, j) => ({ col: col[0] as string, v: coefs[j] as number }))
+        .filter((e) => Math.abs(e.v) > 1e-9);
       const text = res.aliased[i]?.combination ?? "";
       for (const e of expected) {
         const v = Math.abs(Number(e.v.toPrecision(4)));
@@ -199,9 +221,17 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
     expect(ci).toHaveLength(out.condition.length);
     ci.forEach((v, k) => expect(rel(v, out.condition[k] as number)).toBeLessThan(1e-9));
     const props = res.collinearity?.varianceProportions.matrix ?? [];
-    props.forEach((row, k) => row.forEach((v, j) => expect(Math.abs(v - ((out.proportions[k] as number[])[j] as number))).toBeLessThan(1e-8)));
+    props.forEach((row, k) =>
+      row.forEach((v, j) =>
+        expect(Math.abs(v - ((out.proportions[k] as number[])[j] as number))).toBeLessThan(1e-8),
+      ),
+    );
     const cor = res.collinearity?.correlations.matrix ?? [];
-    cor.forEach((row, i) => row.forEach((v, j) => expect(Math.abs(v - ((out.cor[i] as number[])[j] as number))).toBeLessThan(1e-12)));
+    cor.forEach((row, i) =>
+      row.forEach((v, j) =>
+        expect(Math.abs(v - ((out.cor[i] as number[])[j] as number))).toBeLessThan(1e-12),
+      ),
+    );
   });
 
   it("GVIFs agree with det(R11)det(R22)/det(R) and with car::vif", () => {
@@ -229,7 +259,13 @@ describe.skipIf(!R.ok).each(CASES)("lm cross-check: $name", (c) => {
 
 describe.skipIf(!R.ok)("distributions against R pf/pt/pchisq/qf/qt/qchisq and noncentral pf", () => {
   const grid: [string, number, number, number, number][] = [];
-  for (const [d1, d2] of [[1, 5], [3, 73], [7, 200], [20, 5000], [2.5, 11.5]] as [number, number][]) {
+  for (const [d1, d2] of [
+    [1, 5],
+    [3, 73],
+    [7, 200],
+    [20, 5000],
+    [2.5, 11.5],
+  ] as [number, number][]) {
     for (const x of [0.1, 0.9, 2.2, 4, 9]) {
       grid.push(["fUpper", x, d1, d2, 0], ["fCdf", x, d1, d2, 0]);
       for (const ncp of [0.5, 5, 30, 120]) grid.push(["ncf", x, d1, d2, ncp]);
@@ -250,15 +286,24 @@ describe.skipIf(!R.ok)("distributions against R pf/pt/pchisq/qf/qt/qchisq and no
   });
   const ours = (fn: string, x: number, d1: number, d2: number, ncp: number): number => {
     switch (fn) {
-      case "fUpper": return fUpper(x, d1, d2);
-      case "fCdf": return fCdf(x, d1, d2);
-      case "ncf": return noncentralFCdf(x, d1, d2, ncp);
-      case "qf": return qf(x, d1, d2);
-      case "tUpper": return tUpper(x, d1);
-      case "qt": return qt(x, d1);
-      case "chiUpper": return chiSquareUpper(x, d1);
-      case "qchisq": return qchisq(x, d1);
-      default: throw new Error(fn);
+      case "fUpper":
+        return fUpper(x, d1, d2);
+      case "fCdf":
+        return fCdf(x, d1, d2);
+      case "ncf":
+        return noncentralFCdf(x, d1, d2, ncp);
+      case "qf":
+        return qf(x, d1, d2);
+      case "tUpper":
+        return tUpper(x, d1);
+      case "qt":
+        return qt(x, d1);
+      case "chiUpper":
+        return chiSquareUpper(x, d1);
+      case "qchisq":
+        return qchisq(x, d1);
+      default:
+        throw new Error(fn);
     }
   };
   it.each(grid.map((g, i) => [i, ...g] as const))("#%i %s(%f, %f, %f, ncp %f)", (i, fn, x, d1, d2, ncp) => {
@@ -290,7 +335,11 @@ describe.skipIf(!R.ok)("Little's MCAR test against a row-level R implementation"
     const dir = tempDir();
     const csv = path.join(dir, "missing.csv");
     writeCsv(csv, ["a", "b", "c", "d"], rows);
-    const out = runRJson<{ statistic: number[]; df: number[]; pValue: number[] }>("little-mcar.R", [csv], 300_000);
+    const out = runRJson<{ statistic: number[]; df: number[]; pValue: number[] }>(
+      "little-mcar.R",
+      [csv],
+      300_000,
+    );
     const pm = new PatternMoments(["a", "b", "c", "d"]);
     rows.forEach((r) => pm.addRow(r));
     const res = littleMcar(pm);

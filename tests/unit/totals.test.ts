@@ -20,7 +20,10 @@ const DIR = path.join(ROOT, ".data/tmp", `totals-${process.pid}`);
 beforeAll(() => {
   fs.mkdirSync(path.join(DIR, "v"), { recursive: true });
   fs.mkdirSync(path.join(DIR, "p"), { recursive: true });
-  fs.writeFileSync(path.join(DIR, "v/vitest.config.mjs"), "export default { test: { include: ['*.test.mjs'] } };\n");
+  fs.writeFileSync(
+    path.join(DIR, "v/vitest.config.mjs"),
+    "export default { test: { include: ['*.test.mjs'] } };\n",
+  );
   fs.writeFileSync(
     path.join(DIR, "v/a.test.mjs"),
     "import { test, expect } from 'vitest';\n" +
@@ -29,7 +32,10 @@ beforeAll(() => {
       "test.skip('skipped', () => {});\n",
   );
   fs.writeFileSync(path.join(DIR, "v/crash.test.mjs"), "import './does-not-exist.mjs';\n");
-  fs.writeFileSync(path.join(DIR, "p/playwright.config.mjs"), "export default { testDir: '.', testMatch: '*.spec.mjs', workers: 1 };\n");
+  fs.writeFileSync(
+    path.join(DIR, "p/playwright.config.mjs"),
+    "export default { testDir: '.', testMatch: '*.spec.mjs', workers: 1 };\n",
+  );
   fs.writeFileSync(
     path.join(DIR, "p/a.spec.mjs"),
     "import { test, expect } from '@playwright/test';\n" +
@@ -44,10 +50,14 @@ afterAll(() => fs.rmSync(DIR, { recursive: true, force: true }));
 describe("totals of real reports", () => {
   test("vitest: a file that cannot load counts as a failure beside the failing test", () => {
     const out = path.join(DIR, "vitest.json");
-    const r = spawnSync(path.join(ROOT, "node_modules/.bin/vitest"), ["run", "--root", path.join(DIR, "v"), "--reporter=json", `--outputFile.json=${out}`], {
-      encoding: "utf8",
-      timeout: PROCESS_PATIENCE_MS,
-    });
+    const r = spawnSync(
+      path.join(ROOT, "node_modules/.bin/vitest"),
+      ["run", "--root", path.join(DIR, "v"), "--reporter=json", `--outputFile.json=${out}`],
+      {
+        encoding: "utf8",
+        timeout: PROCESS_PATIENCE_MS,
+      },
+    );
     expect(r.status).not.toBe(0);
     const t = tallyVitest("v", r.status ?? 1, out);
     expect([t.passed, t.failed, t.skipped]).toEqual([1, 2, 1]);
@@ -56,11 +66,15 @@ describe("totals of real reports", () => {
 
   test("playwright: expected, unexpected and skipped", () => {
     const out = path.join(DIR, "playwright.json");
-    const r = spawnSync(path.join(ROOT, "node_modules/.bin/playwright"), ["test", "--config", path.join(DIR, "p/playwright.config.mjs"), "--reporter=json"], {
-      encoding: "utf8",
-      timeout: PROCESS_PATIENCE_MS,
-      env: { ...process.env, PLAYWRIGHT_JSON_OUTPUT_NAME: out, CI: "" },
-    });
+    const r = spawnSync(
+      path.join(ROOT, "node_modules/.bin/playwright"),
+      ["test", "--config", path.join(DIR, "p/playwright.config.mjs"), "--reporter=json"],
+      {
+        encoding: "utf8",
+        timeout: PROCESS_PATIENCE_MS,
+        env: { ...process.env, PLAYWRIGHT_JSON_OUTPUT_NAME: out, CI: "" },
+      },
+    );
     expect(r.status).toBe(1);
     const t = tallyPlaywright("p", r.status ?? 1, out);
     expect([t.passed, t.failed, t.skipped]).toEqual([1, 1, 1]);
@@ -75,14 +89,29 @@ describe("crashed and missing suites are never dropped", () => {
 
   test("a non-zero exit with all tests passing is one failure", () => {
     const f = path.join(DIR, "ok.json");
-    fs.writeFileSync(f, JSON.stringify({ numPassedTests: 5, numFailedTests: 0, numPendingTests: 0, numTodoTests: 0, testResults: [] }));
+    fs.writeFileSync(
+      f,
+      JSON.stringify({
+        numPassedTests: 5,
+        numFailedTests: 0,
+        numPendingTests: 0,
+        numTodoTests: 0,
+        testResults: [],
+      }),
+    );
     expect(tallyVitest("v", 1, f)).toMatchObject({ passed: 5, failed: 1 });
     expect(tallyVitest("v", 0, f)).toMatchObject({ passed: 5, failed: 0 });
   });
 
   test("a Playwright global error (e.g. the web server did not start) is a failure", () => {
     const f = path.join(DIR, "pw-error.json");
-    fs.writeFileSync(f, JSON.stringify({ stats: { expected: 0, unexpected: 0, flaky: 0, skipped: 0 }, errors: [{ message: "Timed out waiting 300000ms from config.webServer." }] }));
+    fs.writeFileSync(
+      f,
+      JSON.stringify({
+        stats: { expected: 0, unexpected: 0, flaky: 0, skipped: 0 },
+        errors: [{ message: "Timed out waiting 300000ms from config.webServer." }],
+      }),
+    );
     const t = tallyPlaywright("p", 1, f);
     expect(t.failed).toBe(1);
     expect(t.problems[0]).toContain("webServer");

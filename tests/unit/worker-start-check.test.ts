@@ -20,23 +20,39 @@ const demo: NodeJS.ProcessEnv = {
 
 const WORKER = ["--import", "tsx", "scripts/worker.ts"];
 
-test("production without the demo flag: exits 1 and names NEXTAUTH_SECRET and DATABASE_URL", () => {
-  // the worker ends by itself; the bound only catches one that hangs
-  const r = spawnSync(process.execPath, WORKER, { cwd: root, env: demo, encoding: "utf8", timeout: PROCESS_PATIENCE_MS });
-  expect(r.status).toBe(1);
-  expect(r.stderr).toContain("[worker] refusing to start");
-  expect(r.stderr).toMatch(/NEXTAUTH_SECRET: is a demo value/);
-  expect(r.stderr).toMatch(/DATABASE_URL: uses the demo database user/);
-  expect(r.stderr).toContain("TRIBUTARY_DEMO=1");
-}, processTestTimeout());
+test(
+  "production without the demo flag: exits 1 and names NEXTAUTH_SECRET and DATABASE_URL",
+  () => {
+    // the worker ends by itself; the bound only catches one that hangs
+    const r = spawnSync(process.execPath, WORKER, {
+      cwd: root,
+      env: demo,
+      encoding: "utf8",
+      timeout: PROCESS_PATIENCE_MS,
+    });
+    expect(r.status).toBe(1);
+    expect(r.stderr).toContain("[worker] refusing to start");
+    expect(r.stderr).toMatch(/NEXTAUTH_SECRET: is a demo value/);
+    expect(r.stderr).toMatch(/DATABASE_URL: uses the demo database user/);
+    expect(r.stderr).toContain("TRIBUTARY_DEMO=1");
+  },
+  processTestTimeout(),
+);
 
-test("the same values with TRIBUTARY_DEMO=1 pass the check: the worker starts (and waits for its absent database until stopped)", async () => {
-  const w = startProcess(process.execPath, WORKER, { cwd: root, env: { ...demo, TRIBUTARY_DEMO: "1", UPLOADTHING_TOKEN: "x".repeat(20) } });
-  try {
-    // its start line is the readiness signal: however long the machine takes to print it
-    await w.waitForLine(/\[worker\] started as/);
-  } finally {
-    await w.stop();
-  }
-  expect(w.output()).not.toContain("refusing to start");
-}, processTestTimeout(2));
+test(
+  "the same values with TRIBUTARY_DEMO=1 pass the check: the worker starts (and waits for its absent database until stopped)",
+  async () => {
+    const w = startProcess(process.execPath, WORKER, {
+      cwd: root,
+      env: { ...demo, TRIBUTARY_DEMO: "1", UPLOADTHING_TOKEN: "x".repeat(20) },
+    });
+    try {
+      // its start line is the readiness signal: however long the machine takes to print it
+      await w.waitForLine(/\[worker\] started as/);
+    } finally {
+      await w.stop();
+    }
+    expect(w.output()).not.toContain("refusing to start");
+  },
+  processTestTimeout(2),
+);

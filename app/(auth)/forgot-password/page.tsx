@@ -7,7 +7,9 @@ export default function ForgotPasswordPage() {
   return (
     <>
       <h1 className="text-2xl font-semibold">Forgot your password?</h1>
-      <p className="mt-1 mb-6 text-md text-ink-soft">Enter your e-mail address; we send a link to choose a new password.</p>
+      <p className="mt-1 mb-6 text-md text-ink-soft">
+        Enter your e-mail address; we send a link to choose a new password.
+      </p>
       <ForgotPasswordForm request={requestResetAction} />
     </>
   );

@@ -21,13 +21,19 @@ export default async function SignInPage({
   if (await getCurrentUser()) redirect(next);
   const error = Array.isArray(sp.error) ? sp.error[0] : sp.error;
   // only known notices are shown, so a crafted link cannot put its own words here
-  const notice = sp.notice === "password-changed" ? "Your password was changed. Sign in with the new one." : null;
+  const notice =
+    sp.notice === "password-changed" ? "Your password was changed. Sign in with the new one." : null;
   return (
     <>
       <h1 className="text-2xl font-semibold">Sign in</h1>
-      <p className="mt-1 mb-6 text-md text-ink-soft">Use the e-mail address your study team registered for you.</p>
+      <p className="mt-1 mb-6 text-md text-ink-soft">
+        Use the e-mail address your study team registered for you.
+      </p>
       {notice ? (
-        <p role="status" className="mb-4 rounded border border-reed/40 bg-reed-wash px-3 py-2 text-sm text-reed-ink">
+        <p
+          role="status"
+          className="mb-4 rounded border border-reed/40 bg-reed-wash px-3 py-2 text-sm text-reed-ink"
+        >
           {notice}
         </p>
       ) : null}

@@ -51,7 +51,13 @@ export function SignInForm({ next, initialError }: { next: string; initialError:
   }
 
   return (
-    <form method="post" onSubmit={onSubmit} noValidate className="flex flex-col gap-4" aria-describedby="sign-in-error">
+    <form
+      method="post"
+      onSubmit={onSubmit}
+      noValidate
+      className="flex flex-col gap-4"
+      aria-describedby="sign-in-error"
+    >
       <Field id="email" label="E-mail">
         <Input name="email" type="email" autoComplete="username" required autoFocus />
       </Field>
@@ -63,7 +69,9 @@ export function SignInForm({ next, initialError }: { next: string; initialError:
           id="sign-in-error"
           role="alert"
           aria-live="assertive"
-          className={error ? "mb-4 rounded border border-clay/40 bg-clay-wash px-3 py-2 text-sm text-clay-ink" : ""}
+          className={
+            error ? "mb-4 rounded border border-clay/40 bg-clay-wash px-3 py-2 text-sm text-clay-ink" : ""
+          }
         >
           {error}
         </div>

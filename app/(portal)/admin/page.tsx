@@ -20,7 +20,10 @@ export default async function AdminHome() {
         title="Installation"
         description="Who can sign in, in which role, and what this installation holds."
         actions={
-          <Link href="/admin/users" className="rounded border border-channel bg-channel px-3.5 py-2 text-base font-semibold text-white no-underline hover:bg-channel-deep hover:text-white">
+          <Link
+            href="/admin/users"
+            className="rounded border border-channel bg-channel px-3.5 py-2 text-base font-semibold text-white no-underline hover:bg-channel-deep hover:text-white"
+          >
             Manage users
           </Link>
         }
@@ -38,8 +41,12 @@ export default async function AdminHome() {
           <table className="w-full max-w-md border-collapse text-sm" aria-labelledby="roles-title">
             <thead>
               <tr className="border-b border-silt text-left">
-                <th scope="col" className="py-1.5 pr-4 font-semibold">Role</th>
-                <th scope="col" className="py-1.5 text-right font-semibold">Users</th>
+                <th scope="col" className="py-1.5 pr-4 font-semibold">
+                  Role
+                </th>
+                <th scope="col" className="py-1.5 text-right font-semibold">
+                  Users
+                </th>
               </tr>
             </thead>
             <tbody>
@@ -55,12 +62,18 @@ export default async function AdminHome() {
         <Section id="tasks" title="Administration">
           <ul className="space-y-2 text-base">
             <li>
-              <Link href="/admin/users" className="font-semibold">Users</Link>
-              <span className="text-ink-soft"> — create accounts, change roles, deactivate and reactivate.</span>
+              <Link href="/admin/users" className="font-semibold">
+                Users
+              </Link>
+              <span className="text-ink-soft">
+                {" "}
+                — create accounts, change roles, deactivate and reactivate.
+              </span>
             </li>
             <li className="text-ink-soft">
-              Organisations: <span className="tabular">{formatCount(home.organisations.provider)}</span> providers and{" "}
-              <span className="tabular">{formatCount(home.organisations.team)}</span> study teams.
+              Organisations: <span className="tabular">{formatCount(home.organisations.provider)}</span>{" "}
+              providers and <span className="tabular">{formatCount(home.organisations.team)}</span> study
+              teams.
             </li>
           </ul>
         </Section>

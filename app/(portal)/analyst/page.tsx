@@ -29,7 +29,11 @@ export default async function AnalystHome() {
           { id: "bounced", label: "Bounced", value: sum("bounced") },
         ]}
       />
-      <Section id="queue" title="Awaiting review" note="Oldest first is usually fairest: sort by “State since”.">
+      <Section
+        id="queue"
+        title="Awaiting review"
+        note="Oldest first is usually fairest: sort by “State since”."
+      >
         <BatchTable
           caption="Batches awaiting review"
           rows={toBatchRows(home.queue)}
@@ -40,13 +44,11 @@ export default async function AnalystHome() {
       </Section>
       <Section id="studies" title="Assigned studies">
         {home.studies.length ? (
-          <StudyTable
-            variant="analyst"
-            caption="Assigned studies"
-            rows={home.studies.map(toStudyRow)}
-          />
+          <StudyTable variant="analyst" caption="Assigned studies" rows={home.studies.map(toStudyRow)} />
         ) : (
-          <EmptyState title="No studies assigned">A study lead or an administrator assigns analysts to studies.</EmptyState>
+          <EmptyState title="No studies assigned">
+            A study lead or an administrator assigns analysts to studies.
+          </EmptyState>
         )}
       </Section>
     </>

@@ -43,7 +43,11 @@ export default async function BoardPage() {
         actions={<DigestButton />}
       />
 
-      <Section title="Pools against their targets" id="pools" note="Residual df of each study's accepted data against the df target of its plan. Open a study for its pool.">
+      <Section
+        title="Pools against their targets"
+        id="pools"
+        note="Residual df of each study's accepted data against the df target of its plan. Open a study for its pool."
+      >
         <PoolHeadroom rows={board.pools} />
       </Section>
 
@@ -52,25 +56,61 @@ export default async function BoardPage() {
         id="headroom"
         note={`Each pool's residual df at the end of each of the last ${WEEKS} weeks, under the current plan, against its df target (dashed).`}
       >
-        <HeadroomChart series={board.pools.filter((p) => !p.error).map((p) => ({ studySlug: p.studySlug, studyTitle: p.studyTitle, dfTarget: p.dfTarget, history: p.history }))} />
+        <HeadroomChart
+          series={board.pools
+            .filter((p) => !p.error)
+            .map((p) => ({
+              studySlug: p.studySlug,
+              studyTitle: p.studyTitle,
+              dfTarget: p.dfTarget,
+              history: p.history,
+            }))}
+        />
       </Section>
 
-      <Section title="Batches by state" id="by-state" note="The newest version of every batch. Time in state counts from the last change of state.">
+      <Section
+        title="Batches by state"
+        id="by-state"
+        note="The newest version of every batch. Time in state counts from the last change of state."
+      >
         <div className="mb-4 grid gap-3">
           {studies.map(([slug, title]) => (
             <div key={slug}>
-              <h3 className="mb-1 text-sm font-semibold"><Link href={`/pool/${slug}`} className="text-ink">{title}</Link></h3>
+              <h3 className="mb-1 text-sm font-semibold">
+                <Link href={`/pool/${slug}`} className="text-ink">
+                  {title}
+                </Link>
+              </h3>
               <StateLedger counts={countsOf(slug)} label={`${title}: batches by state`} />
             </div>
           ))}
         </div>
         <BoardBatchesTable
-          rows={board.batches.map((b) => ({ id: `${b.batchPublicId}`, studyTitle: b.studyTitle, organisationName: b.organisationName, batchPublicId: b.batchPublicId, title: b.title, version: b.version, state: b.state, uploadedAt: b.uploadedAt.toISOString(), stateChangedAt: b.stateChangedAt.toISOString(), hoursInState: b.hoursInState }))}
+          rows={board.batches.map((b) => ({
+            id: `${b.batchPublicId}`,
+            studyTitle: b.studyTitle,
+            organisationName: b.organisationName,
+            batchPublicId: b.batchPublicId,
+            title: b.title,
+            version: b.version,
+            state: b.state,
+            uploadedAt: b.uploadedAt.toISOString(),
+            stateChangedAt: b.stateChangedAt.toISOString(),
+            hoursInState: b.hoursInState,
+          }))}
         />
       </Section>
 
-      <Section title="Intake flow" id="flow" note={`Versions uploaded in the last ${WEEKS} weeks and where they went.`}>
-        <IntakeFlow flow={board.flow} received={board.flowReceived} sinceLabel={formatDate(board.flowSince)} />
+      <Section
+        title="Intake flow"
+        id="flow"
+        note={`Versions uploaded in the last ${WEEKS} weeks and where they went.`}
+      >
+        <IntakeFlow
+          flow={board.flow}
+          received={board.flowReceived}
+          sinceLabel={formatDate(board.flowSince)}
+        />
       </Section>
 
       <Section
@@ -81,8 +121,14 @@ export default async function BoardPage() {
         <TurnaroundChart weeks={board.turnaround.weeks} />
       </Section>
 
-      <Section title="Providers" id="providers" note="Bounce rate is bounces over decisions; versions per batch counts resubmissions.">
-        <ProviderChart rows={board.providers.map((p) => ({ ...p, id: `${p.studySlug}:${p.organisationName}` }))} />
+      <Section
+        title="Providers"
+        id="providers"
+        note="Bounce rate is bounces over decisions; versions per batch counts resubmissions."
+      >
+        <ProviderChart
+          rows={board.providers.map((p) => ({ ...p, id: `${p.studySlug}:${p.organisationName}` }))}
+        />
       </Section>
 
       <Section title="Admitted providers with nothing sent" id="silent">
@@ -92,7 +138,8 @@ export default async function BoardPage() {
           <ul className="grid gap-1 text-sm" data-testid="silent-providers">
             {board.silent.map((s) => (
               <li key={`${s.studySlug}:${s.organisationName}`}>
-                <span className="font-semibold">{s.organisationName}</span> — {s.studyTitle}, admitted {formatDate(s.admittedAt)}
+                <span className="font-semibold">{s.organisationName}</span> — {s.studyTitle}, admitted{" "}
+                {formatDate(s.admittedAt)}
               </li>
             ))}
           </ul>

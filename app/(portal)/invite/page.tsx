@@ -14,8 +14,14 @@ export default async function InvitePage() {
   const orgs = await listOrganisations(user);
   return (
     <>
-      <PageHeader title="Invite a provider or an analyst" description="They get an e-mail with a link to choose their password (valid for 7 days). Admit their organisation to a study, or assign the analyst, on the study's page." />
-      <InviteForm organisations={orgs.map((o) => ({ id: o.id, name: o.name, kind: o.kind }))} invite={inviteAction} />
+      <PageHeader
+        title="Invite a provider or an analyst"
+        description="They get an e-mail with a link to choose their password (valid for 7 days). Admit their organisation to a study, or assign the analyst, on the study's page."
+      />
+      <InviteForm
+        organisations={orgs.map((o) => ({ id: o.id, name: o.name, kind: o.kind }))}
+        invite={inviteAction}
+      />
     </>
   );
 }

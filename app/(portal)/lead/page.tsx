@@ -16,7 +16,9 @@ export default async function LeadHome() {
   if (home.role !== "lead") throw new Error("home summary for the wrong role");
   // provider names per study (a handful of studies: one small query each)
   const details = await Promise.all(home.studies.map((s) => getStudyForUser(user, s.id)));
-  const providersOf = new Map(details.filter((d) => d !== null).map((d) => [d.id, d.providers.map((p) => p.name)]));
+  const providersOf = new Map(
+    details.filter((d) => d !== null).map((d) => [d.id, d.providers.map((p) => p.name)]),
+  );
   return (
     <>
       <PageHeader
@@ -25,10 +27,16 @@ export default async function LeadHome() {
         description="Where every batch stands, and which providers send data to each study."
         actions={
           <>
-            <Link href="/board" className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+            <Link
+              href="/board"
+              className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep"
+            >
               Status board
             </Link>
-            <Link href="/pool" className="rounded border border-silt bg-white px-3 py-1.5 text-sm font-semibold text-ink hover:bg-sand-deep">
+            <Link
+              href="/pool"
+              className="rounded border border-silt bg-white px-3 py-1.5 text-sm font-semibold text-ink hover:bg-sand-deep"
+            >
               Pools
             </Link>
           </>
@@ -49,7 +57,9 @@ export default async function LeadHome() {
             }))}
           />
         ) : (
-          <EmptyState title="No studies yet">An administrator creates studies and their data plans.</EmptyState>
+          <EmptyState title="No studies yet">
+            An administrator creates studies and their data plans.
+          </EmptyState>
         )}
       </Section>
     </>

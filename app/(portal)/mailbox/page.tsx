@@ -22,10 +22,16 @@ export default async function MailboxPage() {
         description={`The e-mail Tributary sent to ${user.role === "admin" ? "anyone" : user.email}, as the local mail server received it. A real installation sends to people's own inboxes instead.`}
       />
       {mail.length ? (
-        <ul className="divide-y divide-silt-line rounded border border-silt-line bg-white" data-testid="mailbox">
+        <ul
+          className="divide-y divide-silt-line rounded border border-silt-line bg-white"
+          data-testid="mailbox"
+        >
           {mail.map((m) => (
             <li key={m.id}>
-              <Link href={`/mailbox/${m.id}`} className="grid gap-0.5 px-4 py-2 hover:bg-channel-wash sm:grid-cols-[1fr_auto]">
+              <Link
+                href={`/mailbox/${m.id}`}
+                className="grid gap-0.5 px-4 py-2 hover:bg-channel-wash sm:grid-cols-[1fr_auto]"
+              >
                 <span className="font-semibold">{m.subject}</span>
                 <span className="text-sm text-silt-ink tabular-nums">{formatDateTime(m.receivedAt)}</span>
                 <span className="text-sm text-silt-ink">to {m.to.join(", ")}</span>
@@ -34,7 +40,9 @@ export default async function MailboxPage() {
           ))}
         </ul>
       ) : (
-        <EmptyState title="No e-mail yet">Decisions, invitations and password resets addressed to you appear here.</EmptyState>
+        <EmptyState title="No e-mail yet">
+          Decisions, invitations and password resets addressed to you appear here.
+        </EmptyState>
       )}
     </>
   );

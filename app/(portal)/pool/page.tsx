@@ -15,7 +15,11 @@ export default async function PoolsPage() {
   const pools = await Promise.all(studies.map((s) => loadPool(s)));
   return (
     <>
-      <PageHeader eyebrow="Pools" title="Accepted data by study" description="Each study's accepted batch versions combined, and whether they can carry the planned model yet." />
+      <PageHeader
+        eyebrow="Pools"
+        title="Accepted data by study"
+        description="Each study's accepted batch versions combined, and whether they can carry the planned model yet."
+      />
       <Section title="Studies" id="pools">
         {pools.length === 0 ? (
           <EmptyState title="No studies">You are not assigned to any study yet.</EmptyState>
@@ -36,12 +40,18 @@ export default async function PoolsPage() {
                 const h = p.report.model.residualDf - p.report.model.dfTarget;
                 return (
                   <tr key={p.slug} className="border-b border-silt-line/50">
-                    <td className="py-1 pr-4"><Link className="text-channel underline" href={`/pool/${p.slug}`}>{p.title}</Link></td>
+                    <td className="py-1 pr-4">
+                      <Link className="text-channel underline" href={`/pool/${p.slug}`}>
+                        {p.title}
+                      </Link>
+                    </td>
                     <td className="py-1 pr-4 text-right">{p.members.length}</td>
                     <td className="py-1 pr-4 text-right">{formatCount(p.report.rows.complete)}</td>
                     <td className="py-1 pr-4 text-right">{formatCount(p.report.model.residualDf)}</td>
                     <td className="py-1 pr-4 text-right">{formatCount(p.report.model.dfTarget)}</td>
-                    <td className={`py-1 pr-4 text-right ${h >= 0 ? "text-reed-ink" : "text-ochre-ink"}`}>{h >= 0 ? `+${formatCount(h)}` : `${formatCount(-h)} short`}</td>
+                    <td className={`py-1 pr-4 text-right ${h >= 0 ? "text-reed-ink" : "text-ochre-ink"}`}>
+                      {h >= 0 ? `+${formatCount(h)}` : `${formatCount(-h)} short`}
+                    </td>
                   </tr>
                 );
               })}

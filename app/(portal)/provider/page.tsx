@@ -41,7 +41,11 @@ export default async function ProviderHome() {
           </EmptyState>
         )}
       </Section>
-      <Section id="recent" title="Recent batches" note="The ten most recent, newest first, with the state of their latest version.">
+      <Section
+        id="recent"
+        title="Recent batches"
+        note="The ten most recent, newest first, with the state of their latest version."
+      >
         <BatchTable
           caption="Recent batches"
           rows={toBatchRows(home.recentBatches)}

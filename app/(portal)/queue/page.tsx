@@ -11,7 +11,11 @@ export default async function QueuePage() {
   const user = await requireUser();
   if (!can(user.role, "batch.decide")) notFound();
   const items = await listQueueForUser(user);
-  const initial = items.map((i) => ({ ...i, uploadedAt: i.uploadedAt.toISOString(), since: i.since.toISOString() }));
+  const initial = items.map((i) => ({
+    ...i,
+    uploadedAt: i.uploadedAt.toISOString(),
+    since: i.since.toISOString(),
+  }));
   return (
     <>
       <PageHeader

@@ -29,13 +29,26 @@ export default async function SettingsPage() {
           <dd>{user.organisationName ?? "–"}</dd>
         </dl>
       </Section>
-      <Section id="password" title="Change your password" note="After the change you sign in again; sessions on other devices end too.">
+      <Section
+        id="password"
+        title="Change your password"
+        note="After the change you sign in again; sessions on other devices end too."
+      >
         <PasswordForm minLength={PASSWORD_MIN_LENGTH} />
       </Section>
       {can(user.role, "token.manage") ? (
-        <Section id="tokens" title="API tokens" note="For scripts that upload batches or read reports through the API (see the README). A token can do what you can, no more.">
+        <Section
+          id="tokens"
+          title="API tokens"
+          note="For scripts that upload batches or read reports through the API (see the README). A token can do what you can, no more."
+        >
           <ApiTokens
-            tokens={tokens.map((t) => ({ ...t, createdAt: t.createdAt.toISOString(), lastUsedAt: t.lastUsedAt?.toISOString() ?? null, revokedAt: t.revokedAt?.toISOString() ?? null }))}
+            tokens={tokens.map((t) => ({
+              ...t,
+              createdAt: t.createdAt.toISOString(),
+              lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+              revokedAt: t.revokedAt?.toISOString() ?? null,
+            }))}
             create={createTokenAction}
             revoke={revokeTokenAction}
           />

@@ -43,8 +43,19 @@ export function PasswordForm({ minLength }: { minLength: number }) {
       <Field id="current-password" label="Current password" errors={errors.currentPassword}>
         <Input name="currentPassword" type="password" autoComplete="current-password" required />
       </Field>
-      <Field id="new-password" label="New password" hint={`At least ${minLength} characters.`} errors={errors.newPassword}>
-        <Input name="newPassword" type="password" autoComplete="new-password" required minLength={minLength} />
+      <Field
+        id="new-password"
+        label="New password"
+        hint={`At least ${minLength} characters.`}
+        errors={errors.newPassword}
+      >
+        <Input
+          name="newPassword"
+          type="password"
+          autoComplete="new-password"
+          required
+          minLength={minLength}
+        />
       </Field>
       <Field id="confirm-password" label="New password again" errors={errors.confirmPassword}>
         <Input name="confirmPassword" type="password" autoComplete="new-password" required />

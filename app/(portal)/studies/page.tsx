@@ -20,7 +20,10 @@ export default async function StudiesPage() {
   const rows = await listStudyRowsForUser(user);
   const manage = can(user.role, "study.manage");
   const newButton = manage ? (
-    <Link href="/studies/new" className="inline-flex h-9 items-center rounded border border-channel bg-channel px-3.5 font-semibold text-white hover:bg-channel-deep hover:text-white">
+    <Link
+      href="/studies/new"
+      className="inline-flex h-9 items-center rounded border border-channel bg-channel px-3.5 font-semibold text-white hover:bg-channel-deep hover:text-white"
+    >
       New study
     </Link>
   ) : null;

@@ -38,7 +38,11 @@ export function StudiesTable({ rows, showAnalysts }: { rows: StudiesRow[]; showA
       header: "Status",
       width: "6rem",
       value: (r) => r.status,
-      render: (r) => <Badge tone={r.status === "open" ? "channel" : "neutral"}>{r.status === "open" ? "Open" : "Closed"}</Badge>,
+      render: (r) => (
+        <Badge tone={r.status === "open" ? "channel" : "neutral"}>
+          {r.status === "open" ? "Open" : "Closed"}
+        </Badge>
+      ),
     },
     {
       key: "plan",
@@ -46,7 +50,8 @@ export function StudiesTable({ rows, showAnalysts }: { rows: StudiesRow[]; showA
       width: "6.5rem",
       numeric: true,
       value: (r) => r.planVersion,
-      render: (r) => (r.planVersion == null ? <span className="text-silt-ink">none yet</span> : `v${r.planVersion}`),
+      render: (r) =>
+        r.planVersion == null ? <span className="text-silt-ink">none yet</span> : `v${r.planVersion}`,
     },
     {
       key: "providers",
@@ -58,7 +63,8 @@ export function StudiesTable({ rows, showAnalysts }: { rows: StudiesRow[]; showA
           <span className="text-silt-ink">none admitted</span>
         ) : (
           <span>
-            <span className="font-semibold tabular">{r.providers.length}</span> <span className="text-ink-soft">— {r.providers.join(", ")}</span>
+            <span className="font-semibold tabular">{r.providers.length}</span>{" "}
+            <span className="text-ink-soft">— {r.providers.join(", ")}</span>
           </span>
         ),
     },
@@ -69,7 +75,12 @@ export function StudiesTable({ rows, showAnalysts }: { rows: StudiesRow[]; showA
       header: "Analysts",
       width: "minmax(10rem, 2fr)",
       value: (r) => r.analysts.join("; "),
-      render: (r) => (r.analysts.length === 0 ? <span className="text-silt-ink">none assigned</span> : r.analysts.join(", ")),
+      render: (r) =>
+        r.analysts.length === 0 ? (
+          <span className="text-silt-ink">none assigned</span>
+        ) : (
+          r.analysts.join(", ")
+        ),
     });
   }
   return <DataTable rows={rows} columns={columns} caption="Studies" filterPlaceholder="Filter studies" />;

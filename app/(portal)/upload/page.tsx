@@ -21,7 +21,10 @@ export default async function UploadPage() {
         description="Choose the study and the file. The file is checked in your browser first, then again on the server against the study's data plan."
       />
       {targets.length ? (
-        <UploadPanel studies={targets.map((t) => ({ slug: t.slug, title: t.title, plan: t.plan }))} maxUploadMb={env().MAX_UPLOAD_MB} />
+        <UploadPanel
+          studies={targets.map((t) => ({ slug: t.slug, title: t.title, plan: t.plan }))}
+          maxUploadMb={env().MAX_UPLOAD_MB}
+        />
       ) : (
         <EmptyState title="No open study takes batches from your organisation">
           A study lead admits your organisation to a study; ask them if you expected one here.

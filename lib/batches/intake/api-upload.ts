@@ -19,7 +19,6 @@ import { authoriseUpload } from "../commands-upload";
 import { recordStoredFile } from "./record-stored-file";
 import { studyIdBySlug } from "./upload-router";
 
-
 export interface ApiUploadInput {
   studySlug: string;
   batchId?: string | null;
@@ -49,7 +48,8 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   const name = cleanFileName(input.file.name);
   if (problem) throw new AppError("invalid", problem, { fieldErrors: { file: [problem] } });
   const studyId = await studyIdBySlug(input.studySlug);
-  if (studyId === null) throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
+  if (studyId === null)
+    throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
   const admitted = await authoriseUpload(db, actor.id, { studyId, batchPublicId: input.batchId ?? null });
   // a study or batch outside the organisation answers like a missing one (404), not 403
   if (!admitted.ok) throw new AppError(admitted.code ?? "forbidden", admitted.message);
@@ -57,7 +57,10 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   // a disk-backed Blob: the SDK streams it to the store without reading it into memory
   const bytes = await input.file.blob();
   const stored = await utapi()
-    .uploadFiles(new UTFile([bytes], name, { type: input.file.type || "text/csv" }), { acl: "private", contentDisposition: "attachment" })
+    .uploadFiles(new UTFile([bytes], name, { type: input.file.type || "text/csv" }), {
+      acl: "private",
+      contentDisposition: "attachment",
+    })
     .catch((error: unknown) => ({ data: null, error }));
   if (stored.error || !stored.data) {
     throw new AppError("unavailable", STORE_DOWN_MESSAGE, { cause: stored.error });

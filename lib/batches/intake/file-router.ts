@@ -18,7 +18,10 @@ export const batchUploadInput = z.object({
   label: z.string().max(200).optional(),
   /** the file is the batch's latest version with these fix proposals applied (issue 12) */
   fixes: z
-    .object({ fromVersion: z.number().int().positive(), proposals: z.array(z.string().min(1).max(200)).min(1).max(50) })
+    .object({
+      fromVersion: z.number().int().positive(),
+      proposals: z.array(z.string().min(1).max(200)).min(1).max(50),
+    })
     .optional(),
 });
 export type BatchUploadInput = z.infer<typeof batchUploadInput>;
@@ -40,7 +43,11 @@ export type BatchUploadMeta = Record<string, string | number | boolean | null>;
 
 export type FileRouterHooks<M extends BatchUploadMeta> = {
   /** Session and role checks. Throw `UploadThingError` (or any Error) to refuse. */
-  authorise(req: Request, input: BatchUploadInput, files: readonly { name: string; size: number }[]): Promise<M> | M;
+  authorise(
+    req: Request,
+    input: BatchUploadInput,
+    files: readonly { name: string; size: number }[],
+  ): Promise<M> | M;
   /** Records the upload; what it returns reaches the client as `serverData`. */
   onComplete(meta: M, file: UploadedBatchFile): Promise<Record<string, string | number | boolean | null>>;
   /** Upload size limit in MB; default MAX_UPLOAD_MB or 200. */
@@ -48,7 +55,12 @@ export type FileRouterHooks<M extends BatchUploadMeta> = {
 };
 
 /** MIME types accepted for a batch: CSV, tab-separated and plain text (and the type some systems give .csv files). */
-export const BATCH_FILE_TYPES = ["text/csv", "text/tab-separated-values", "text/plain", "application/vnd.ms-excel"] as const;
+export const BATCH_FILE_TYPES = [
+  "text/csv",
+  "text/tab-separated-values",
+  "text/plain",
+  "application/vnd.ms-excel",
+] as const;
 
 function maxSize(mb: number | undefined): `${number}MB` {
   const n = mb ?? Number(rawSetting("MAX_UPLOAD_MB") ?? 200);
@@ -71,10 +83,14 @@ const APP_CODES: Record<string, "FORBIDDEN" | "NOT_FOUND" | "BAD_REQUEST"> = {
  */
 function toUploadError(e: unknown): UploadThingError {
   if (e instanceof UploadThingError) return e;
-  const code = typeof (e as { code?: unknown })?.code === "string" ? APP_CODES[(e as { code: string }).code] : undefined;
+  const code =
+    typeof (e as { code?: unknown })?.code === "string" ? APP_CODES[(e as { code: string }).code] : undefined;
   if (code) return new UploadThingError({ code, message: (e as Error).message });
   console.error("upload middleware failed", e);
-  return new UploadThingError({ code: "INTERNAL_SERVER_ERROR", message: "The upload could not be started. Try again." });
+  return new UploadThingError({
+    code: "INTERNAL_SERVER_ERROR",
+    message: "The upload could not be started. Try again.",
+  });
 }
 
 /**
@@ -84,10 +100,18 @@ function toUploadError(e: unknown): UploadThingError {
 export function makeFileRouter<M extends BatchUploadMeta>(hooks: FileRouterHooks<M>) {
   const f = createUploadthing();
   const size = maxSize(hooks.maxUploadMb) as "256MB";
-  const one = { maxFileSize: size, maxFileCount: 1, acl: "private", contentDisposition: "attachment" } as const;
+  const one = {
+    maxFileSize: size,
+    maxFileCount: 1,
+    acl: "private",
+    contentDisposition: "attachment",
+  } as const;
   return {
     batchFile: f(
-      Object.fromEntries(BATCH_FILE_TYPES.map((t) => [t, one])) as Record<(typeof BATCH_FILE_TYPES)[number], typeof one>,
+      Object.fromEntries(BATCH_FILE_TYPES.map((t) => [t, one])) as Record<
+        (typeof BATCH_FILE_TYPES)[number],
+        typeof one
+      >,
       // a random part makes keys unpredictable (the default hashes name, size and time)
       { awaitServerData: true, getFileHashParts: (file) => [file.name, file.size, crypto.randomUUID()] },
     )

@@ -40,7 +40,10 @@ export function cleanFileName(name: string): string {
   if (WINDOWS_DEVICE.test(stem)) stem = `_${stem}`;
   const extChars = Array.from(ext);
   const room = MAX_FILE_NAME_CHARS - Math.min(extChars.length, 16);
-  const out = (Array.from(stem).slice(0, room).join("").trimEnd() + extChars.slice(0, 16).join("")).replace(/[\s.]+$/, "");
+  const out = (Array.from(stem).slice(0, room).join("").trimEnd() + extChars.slice(0, 16).join("")).replace(
+    /[\s.]+$/,
+    "",
+  );
   return out && out !== ext ? out : out ? `batch${out}` : "batch.csv";
 }
 
@@ -51,11 +54,19 @@ export function cleanFileName(name: string): string {
  */
 export function attachmentDisposition(fileName: string): string {
   const clean = cleanFileName(fileName);
-  const toAscii = (t: string) => t.normalize("NFKD").replace(/[\u0300-\u036f]/g, "").replace(/[^A-Za-z0-9._-]+/g, "-").replace(/-+/g, "-");
+  const toAscii = (t: string) =>
+    t
+      .normalize("NFKD")
+      .replace(/[\u0300-\u036f]/g, "")
+      .replace(/[^A-Za-z0-9._-]+/g, "-")
+      .replace(/-+/g, "-");
   const dot = clean.lastIndexOf(".");
   const stem = toAscii(dot > 0 ? clean.slice(0, dot) : clean).replace(/^[-.]+|[-.]+$/g, "") || "download";
   const ascii = stem + (dot > 0 ? toAscii(clean.slice(dot)).replace(/-+$/, "") : "");
-  const encoded = encodeURIComponent(clean).replace(/['()*]/g, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`);
+  const encoded = encodeURIComponent(clean).replace(
+    /['()*]/g,
+    (c) => `%${c.charCodeAt(0).toString(16).toUpperCase()}`,
+  );
   return `attachment; filename="${ascii}"; filename*=UTF-8''${encoded}`;
 }
 

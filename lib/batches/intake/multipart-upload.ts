@@ -47,14 +47,23 @@ function unescapeFormName(name: string): string {
  * part named `file` (other file parts are refused). A file over `maxBytes` is refused with
  * `tooLarge` as the message; nothing is kept in that case.
  */
-export async function receiveMultipart(req: Request, maxBytes: number, tooLarge: string): Promise<ReceivedUpload> {
+export async function receiveMultipart(
+  req: Request,
+  maxBytes: number,
+  tooLarge: string,
+): Promise<ReceivedUpload> {
   const type = req.headers.get("content-type") ?? "";
   if (!req.body) throw new AppError("invalid", MALFORMED);
   const dir = await mkdtemp(path.join(os.tmpdir(), "tributary-upload-"));
   const discard = () => rm(dir, { recursive: true, force: true });
   let parser: busboy.Busboy;
   try {
-    parser = busboy({ headers: { "content-type": type }, defParamCharset: "utf8", preservePath: true, limits: { files: 1, fileSize: maxBytes, fields: 16, fieldSize: 4096, parts: 20 } });
+    parser = busboy({
+      headers: { "content-type": type },
+      defParamCharset: "utf8",
+      preservePath: true,
+      limits: { files: 1, fileSize: maxBytes, fields: 16, fieldSize: 4096, parts: 20 },
+    });
   } catch {
     await discard();
     throw new AppError("invalid", MALFORMED);
@@ -108,7 +117,10 @@ export async function receiveMultipart(req: Request, maxBytes: number, tooLarge:
   });
 
   try {
-    await pipeline(Readable.fromWeb(req.body as import("node:stream/web").ReadableStream<Uint8Array>), parser);
+    await pipeline(
+      Readable.fromWeb(req.body as import("node:stream/web").ReadableStream<Uint8Array>),
+      parser,
+    );
     await Promise.all(writes);
   } catch (error) {
     await discard();

@@ -11,7 +11,12 @@ import type { MachineCorrection } from "../fixes";
 import { utapi } from "./file-store";
 import { DB_DOWN_MESSAGE } from "./upload-errors";
 
-export async function recordStoredFile(actorId: number, target: UploadTarget, file: StoredFile, fix?: MachineCorrection) {
+export async function recordStoredFile(
+  actorId: number,
+  target: UploadTarget,
+  file: StoredFile,
+  fix?: MachineCorrection,
+) {
   // recordBatchVersion cleans the file name (file-rules.ts cleanFileName)
   const recorded = await recordBatchVersion(actorId, target, file, fix);
   if (recorded.ok) return recorded.data;

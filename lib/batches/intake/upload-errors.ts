@@ -17,6 +17,13 @@ const STORE_CODES = new Set(["INTERNAL_CLIENT_ERROR", "UPLOAD_FAILED", "INTERNAL
 /** The message to show for a failed upload, from the library's error code and message. */
 export function uploadErrorMessage(e: { name?: string; code?: string; message?: string }): string {
   const message = (e.message ?? "").trim();
-  if (e.name === "FetchError" || (e.code && STORE_CODES.has(e.code)) || !message || message === e.code || /uploadthing/i.test(message)) return STORE_DOWN_MESSAGE;
+  if (
+    e.name === "FetchError" ||
+    (e.code && STORE_CODES.has(e.code)) ||
+    !message ||
+    message === e.code ||
+    /uploadthing/i.test(message)
+  )
+    return STORE_DOWN_MESSAGE;
   return message;
 }

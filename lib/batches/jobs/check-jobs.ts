@@ -52,7 +52,11 @@ export async function claimJob(db: Db, workerId: string, now = clockNow()): Prom
     if (job.attempts >= MAX_ATTEMPTS) {
       await tx
         .update(checkJobs)
-        .set({ status: "failed", finishedAt: now, lastError: sql`CONCAT(COALESCE(${checkJobs.lastError}, ''), ${`\nGave up after ${job.attempts} attempts.`})` })
+        .set({
+          status: "failed",
+          finishedAt: now,
+          lastError: sql`CONCAT(COALESCE(${checkJobs.lastError}, ''), ${`\nGave up after ${job.attempts} attempts.`})`,
+        })
         .where(eq(checkJobs.id, job.id));
       return null;
     }
@@ -73,7 +77,10 @@ export async function claimJob(db: Db, workerId: string, now = clockNow()): Prom
       .innerJoin(dataPlans, eq(dataPlans.id, batchVersions.planId))
       .where(eq(batchVersions.id, job.batchVersionId));
     if (!row) {
-      await tx.update(checkJobs).set({ status: "failed", finishedAt: now, lastError: "The batch version no longer exists." }).where(eq(checkJobs.id, job.id));
+      await tx
+        .update(checkJobs)
+        .set({ status: "failed", finishedAt: now, lastError: "The batch version no longer exists." })
+        .where(eq(checkJobs.id, job.id));
       return null;
     }
 
@@ -105,14 +112,22 @@ export async function claimJob(db: Db, workerId: string, now = clockNow()): Prom
 
 /** This worker's claim on the job, as a condition: it is still running and still ours. */
 function ours(job: ClaimedJob) {
-  return and(eq(checkJobs.id, job.jobId), eq(checkJobs.status, "running"), eq(checkJobs.lockedBy, job.workerId));
+  return and(
+    eq(checkJobs.id, job.jobId),
+    eq(checkJobs.status, "running"),
+    eq(checkJobs.lockedBy, job.workerId),
+  );
 }
 
 /**
  * Record progress and prove the worker is alive. Returns false when the claim is no longer
  * this worker's (it was taken over as stale, or finished by another worker).
  */
-export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: number; bytes: number }): Promise<boolean> {
+export async function heartbeat(
+  db: Db,
+  job: ClaimedJob,
+  progress: { rows: number; bytes: number },
+): Promise<boolean> {
   const now = clockNow();
   const [res] = await db.update(checkJobs).set({ heartbeatAt: now }).where(ours(job));
   if (res.affectedRows === 0) return false;
@@ -132,7 +147,11 @@ export async function heartbeat(db: Db, job: ClaimedJob, progress: { rows: numbe
 export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessReport): Promise<boolean> {
   const now = clockNow();
   return db.transaction(async (tx) => {
-    const [jobRow] = await tx.select({ status: checkJobs.status }).from(checkJobs).where(eq(checkJobs.id, job.jobId)).for("update");
+    const [jobRow] = await tx
+      .select({ status: checkJobs.status })
+      .from(checkJobs)
+      .where(eq(checkJobs.id, job.jobId))
+      .for("update");
     if (!jobRow || jobRow.status === "done") return false;
     const [current] = await tx
       .select({ state: batchVersions.state })
@@ -163,7 +182,10 @@ export async function completeJob(db: Db, job: ClaimedJob, report: ReadinessRepo
         .where(eq(batchVersions.id, job.batchVersionId));
       if (next === "ready") await enqueuePoolQuestions(tx, job.studyId, job.batchVersionId);
     }
-    await tx.update(checkJobs).set({ status: "done", finishedAt: now, lastError: null }).where(eq(checkJobs.id, job.jobId));
+    await tx
+      .update(checkJobs)
+      .set({ status: "done", finishedAt: now, lastError: null })
+      .where(eq(checkJobs.id, job.jobId));
     await recordAudit(tx, {
       actorId: null,
       action: "batch.checked",
@@ -201,7 +223,13 @@ export async function releaseJob(db: Db, job: ClaimedJob): Promise<boolean> {
   return db.transaction(async (tx) => {
     const [res] = await tx
       .update(checkJobs)
-      .set({ status: "queued", attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`, lockedBy: null, heartbeatAt: null, runAfter: clockNow() })
+      .set({
+        status: "queued",
+        attempts: sql`GREATEST(${checkJobs.attempts} - 1, 0)`,
+        lockedBy: null,
+        heartbeatAt: null,
+        runAfter: clockNow(),
+      })
       .where(ours(job));
     if (res.affectedRows === 0) return false;
     await tx

@@ -32,13 +32,17 @@ export async function withDbRetry<T>(fn: () => Promise<T>, opts: DbRetryOptions)
   for (;;) {
     try {
       const value = await fn();
-      if (tries > 0) opts.log?.(`database back: ${opts.what} succeeded after ${tries} retr${tries === 1 ? "y" : "ies"} (${Date.now() - started} ms)`);
+      if (tries > 0)
+        opts.log?.(
+          `database back: ${opts.what} succeeded after ${tries} retr${tries === 1 ? "y" : "ies"} (${Date.now() - started} ms)`,
+        );
       return value;
     } catch (error) {
       if (!isDbUnavailable(error)) throw error;
       const waited = Date.now() - started;
       if (opts.signal?.aborted || (opts.maxWaitMs !== undefined && waited >= opts.maxWaitMs)) throw error;
-      if (tries === 0) opts.log?.(`database unavailable while ${opts.what}; retrying until it is back (${describe(error)})`);
+      if (tries === 0)
+        opts.log?.(`database unavailable while ${opts.what}; retrying until it is back (${describe(error)})`);
       tries++;
       await sleep(delay, opts.signal);
       delay = Math.min(maxDelay, delay * 2);
@@ -48,7 +52,11 @@ export async function withDbRetry<T>(fn: () => Promise<T>, opts: DbRetryOptions)
 
 function describe(error: unknown): string {
   let e: unknown = error;
-  while (e && typeof e === "object" && (e as { cause?: unknown }).cause && !(e as { code?: unknown }).code) e = (e as { cause: unknown }).cause;
+  while (e && typeof e === "object" && (e as { cause?: unknown }).cause && !(e as { code?: unknown }).code)
+    e = (e as { cause: unknown }).cause;
   const { code, message } = (e ?? {}) as { code?: unknown; message?: unknown };
-  return [code, typeof message === "string" ? message.split("\n")[0] : undefined].filter(Boolean).join(": ") || String(error);
+  return (
+    [code, typeof message === "string" ? message.split("\n")[0] : undefined].filter(Boolean).join(": ") ||
+    String(error)
+  );
 }

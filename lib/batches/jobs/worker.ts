@@ -11,7 +11,15 @@ import type { Db } from "@/db/client";
 import { checkAndPropose } from "./proposals";
 import { parsePlan, type ReadinessReport } from "@/lib/readiness";
 import { sleep } from "@/lib/sleep";
-import { STALE_AFTER_MS, claimJob, completeJob, failJob, heartbeat, releaseJob, type ClaimedJob } from "./check-jobs";
+import {
+  STALE_AFTER_MS,
+  claimJob,
+  completeJob,
+  failJob,
+  heartbeat,
+  releaseJob,
+  type ClaimedJob,
+} from "./check-jobs";
 import { isDbUnavailable } from "@/db/errors";
 import { withDbRetry } from "./db-retry";
 import { defaultWorkerId } from "@/lib/core/queue";
@@ -66,7 +74,11 @@ function within<T>(promise: Promise<T>, ms: number, message: string): Promise<T>
  * buffered chunks otherwise reach the engine as microtasks only, and a busy check would
  * starve its own heartbeats.
  */
-function abortable(stream: ReadableStream<Uint8Array>, signal: AbortSignal, stallMs: number): ReadableStream<Uint8Array> {
+function abortable(
+  stream: ReadableStream<Uint8Array>,
+  signal: AbortSignal,
+  stallMs: number,
+): ReadableStream<Uint8Array> {
   const reader = stream.getReader();
   let onAbort: (() => void) | undefined;
   let lastYield = Date.now();
@@ -85,7 +97,11 @@ function abortable(stream: ReadableStream<Uint8Array>, signal: AbortSignal, stal
           await yieldToLoop();
           lastYield = Date.now();
         }
-        const r = await within(reader.read(), stallMs, `The upload service sent no data for ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
+        const r = await within(
+          reader.read(),
+          stallMs,
+          `The upload service sent no data for ${Math.round(stallMs / 1000)} s; the check is tried again later.`,
+        );
         if (signal.aborted) return;
         if (r.done) {
           signal.removeEventListener("abort", onAbort!);
@@ -128,12 +144,18 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
     pending = pending
       .then(() => heartbeat(db, job, progress))
       .then((mine) => {
-        if (!mine && !lost) log(`check job ${job.jobId}: the claim was taken over by another worker; whichever finishes first stores the report`);
+        if (!mine && !lost)
+          log(
+            `check job ${job.jobId}: the claim was taken over by another worker; whichever finishes first stores the report`,
+          );
         lost ||= !mine;
         beatFailed = false;
       })
       .catch((error: unknown) => {
-        if (!beatFailed) log(`check job ${job.jobId}: heartbeat failed (${isDbUnavailable(error) ? "database unavailable" : error instanceof Error ? error.message : String(error)}); the check goes on`);
+        if (!beatFailed)
+          log(
+            `check job ${job.jobId}: heartbeat failed (${isDbUnavailable(error) ? "database unavailable" : error instanceof Error ? error.message : String(error)}); the check goes on`,
+          );
         beatFailed = true;
       });
   };
@@ -154,9 +176,16 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
     let report: ReadinessReport;
     try {
       const parsed = parsePlan(job.plan);
-      if (!parsed.ok) throw new Error(`The stored data plan is not valid: ${parsed.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`);
+      if (!parsed.ok)
+        throw new Error(
+          `The stored data plan is not valid: ${parsed.issues.map((i) => `${i.path}: ${i.message}`).join("; ")}`,
+        );
       const stallMs = opts.stallMs ?? 120_000;
-      const opened = await within(openFile(job.fileKey), stallMs, `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`);
+      const opened = await within(
+        openFile(job.fileKey),
+        stallMs,
+        `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`,
+      );
       const stream = abortable(opened, stopJob.signal, stallMs);
       const reopen = () => openFile(job.fileKey).then((s) => abortable(s, stopJob.signal, stallMs));
       report = await checkAndPropose(stream, reopen, parsed.plan, {
@@ -174,27 +203,57 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
     } catch (error) {
       await finish();
       if (stopJob.signal.aborted) {
-        const back = await withDbRetry(() => releaseJob(db, job), { what: `handing job ${job.jobId} back`, maxWaitMs: 5_000, log }).catch(() => false);
-        log(back ? `check job ${job.jobId} handed back to the queue (attempt not counted)` : `check job ${job.jobId} could not be handed back; it is taken again after the stale timeout`);
+        const back = await withDbRetry(() => releaseJob(db, job), {
+          what: `handing job ${job.jobId} back`,
+          maxWaitMs: 5_000,
+          log,
+        }).catch(() => false);
+        log(
+          back
+            ? `check job ${job.jobId} handed back to the queue (attempt not counted)`
+            : `check job ${job.jobId} could not be handed back; it is taken again after the stale timeout`,
+        );
         return null;
       }
-      log(`check job ${job.jobId} attempt ${job.attempt} failed: ${error instanceof Error ? error.message : String(error)}`);
-      await withDbRetry(() => failJob(db, job, error), { what: `recording the failure of job ${job.jobId}`, signal: stopJob.signal, log });
+      log(
+        `check job ${job.jobId} attempt ${job.attempt} failed: ${error instanceof Error ? error.message : String(error)}`,
+      );
+      await withDbRetry(() => failJob(db, job, error), {
+        what: `recording the failure of job ${job.jobId}`,
+        signal: stopJob.signal,
+        log,
+      });
       return null;
     }
 
     await finish();
     try {
-      const stored = await withDbRetry(() => completeJob(db, job, report), { what: `storing the report of job ${job.jobId}`, signal: stopJob.signal, log });
-      log(stored ? `check job ${job.jobId} done: report stored (${report.rows.total} rows)` : `check job ${job.jobId} was already done; this report is not stored twice`);
+      const stored = await withDbRetry(() => completeJob(db, job, report), {
+        what: `storing the report of job ${job.jobId}`,
+        signal: stopJob.signal,
+        log,
+      });
+      log(
+        stored
+          ? `check job ${job.jobId} done: report stored (${report.rows.total} rows)`
+          : `check job ${job.jobId} was already done; this report is not stored twice`,
+      );
       return report;
     } catch (error) {
       if (stopJob.signal.aborted) {
-        log(`check job ${job.jobId}: stopped while the database was unavailable; the job is taken again after the stale timeout`);
+        log(
+          `check job ${job.jobId}: stopped while the database was unavailable; the job is taken again after the stale timeout`,
+        );
         return null;
       }
-      log(`check job ${job.jobId}: storing the report failed: ${error instanceof Error ? error.message : String(error)}`);
-      await withDbRetry(() => failJob(db, job, error), { what: `recording the failure of job ${job.jobId}`, signal: stopJob.signal, log });
+      log(
+        `check job ${job.jobId}: storing the report failed: ${error instanceof Error ? error.message : String(error)}`,
+      );
+      await withDbRetry(() => failJob(db, job, error), {
+        what: `recording the failure of job ${job.jobId}`,
+        signal: stopJob.signal,
+        log,
+      });
       return null;
     }
   }
@@ -214,14 +273,18 @@ export async function runWorker(opts: WorkerOptions): Promise<void> {
       down = 0;
     } catch (error) {
       if (down === 0 || !isDbUnavailable(error)) {
-        log(`could not claim a job${isDbUnavailable(error) ? " (database unavailable; waiting for it)" : ""}: ${error instanceof Error ? error.message.split("\n")[0] : String(error)}`);
+        log(
+          `could not claim a job${isDbUnavailable(error) ? " (database unavailable; waiting for it)" : ""}: ${error instanceof Error ? error.message.split("\n")[0] : String(error)}`,
+        );
       }
       down++;
       await sleep(Math.min(5_000, pollMs * 2 ** Math.min(down - 1, 3)), opts.signal);
       continue;
     }
     if (job) {
-      log(`check job ${job.jobId} claimed (attempt ${job.attempt}, version ${job.batchVersionId}, ${job.fileName})`);
+      log(
+        `check job ${job.jobId} claimed (attempt ${job.attempt}, version ${job.batchVersionId}, ${job.fileName})`,
+      );
       try {
         await runJob({ ...opts, workerId }, job);
       } catch (error) {

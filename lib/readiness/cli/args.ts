@@ -112,6 +112,8 @@ export function parseCliArgs(argv: string[], env: Record<string, string | undefi
   if (!out.draft && !out.plan) throw new UsageError("--plan PLAN.json is required (or use --draft-plan)");
   if (out.only && !out.applyFixes) throw new UsageError("--only goes with --apply-fixes OUT.csv");
   if (out.applyFixes && (out.pool || out.draft || out.files[0] === "-"))
-    throw new UsageError("--apply-fixes rewrites one named file: give its path (not -) and leave out --pool and --draft-plan");
+    throw new UsageError(
+      "--apply-fixes rewrites one named file: give its path (not -) and leave out --pool and --draft-plan",
+    );
   return out;
 }

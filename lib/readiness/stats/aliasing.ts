@@ -56,7 +56,11 @@ export function detectAliasing(a: number[][], k: number, tol = ALIAS_TOLERANCE):
 }
 
 /** Coefficients c with x_j ≈ Σ c_i x_i over the kept columns before j (least squares on the factor). */
-export function aliasCombination(a: number[][], kept: number[], j: number): { column: number; coef: number }[] {
+export function aliasCombination(
+  a: number[][],
+  kept: number[],
+  j: number,
+): { column: number; coef: number }[] {
   const before = kept.filter((i) => i < j);
   if (before.length === 0) return [];
   const cols = [...before, j];
@@ -93,7 +97,10 @@ export function describeCombination(
   const others = significant.filter((p) => !isIntercept(p.column));
   const constant = significant.filter((p) => isIntercept(p.column));
   // "1 − a − b" reads better than "−a − b + 1"; otherwise the constant goes last ("2·a + 3")
-  const ordered = others.length > 0 && (others[0] as { coef: number }).coef < 0 ? [...constant, ...others] : [...others, ...constant];
+  const ordered =
+    others.length > 0 && (others[0] as { coef: number }).coef < 0
+      ? [...constant, ...others]
+      : [...others, ...constant];
   let text = "";
   ordered.forEach((p, idx) => {
     const neg = p.coef < 0;
@@ -115,7 +122,10 @@ export function describeCombination(
   const trap =
     target !== null &&
     ordered.some((p) => isIntercept(p.column)) &&
-    ordered.every((p) => (isIntercept(p.column) || indicatorTerm(p.column) !== null) && Math.abs(Math.abs(p.coef) - 1) < 1e-6);
+    ordered.every(
+      (p) =>
+        (isIntercept(p.column) || indicatorTerm(p.column) !== null) && Math.abs(Math.abs(p.coef) - 1) < 1e-6,
+    );
   if (trap) {
     return `${text} (indicator trap: these indicator columns add up to the intercept column; typically the baseline level has no complete cases)`;
   }

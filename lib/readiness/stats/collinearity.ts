@@ -21,7 +21,7 @@ export interface TermGroup {
 export function correlationFactor(t: number[][], r: number): number[][] {
   const m = r - 1;
   const u: number[][] = [];
-  for (let i = 0; i < m; i++) u.push(((t[i + 1] as number[]).slice(1, r)));
+  for (let i = 0; i < m; i++) u.push((t[i + 1] as number[]).slice(1, r));
   const norms = Array.from({ length: m }, (_, j) => columnNorm(u, j));
   return u.map((row) => row.map((v, j) => v / (norms[j] as number)));
 }
@@ -56,7 +56,8 @@ export function correlationMatrix(u: number[][]): number[][] {
   for (let i = 0; i < m; i++) {
     for (let j = i; j < m; j++) {
       let s = 0;
-      for (let l = 0; l <= Math.min(i, j); l++) s += ((u[l] as number[])[i] as number) * ((u[l] as number[])[j] as number);
+      for (let l = 0; l <= Math.min(i, j); l++)
+        s += ((u[l] as number[])[i] as number) * ((u[l] as number[])[j] as number);
       const v = i === j ? 1 : Math.max(-1, Math.min(1, s));
       (c[i] as number[])[j] = v;
       (c[j] as number[])[i] = v;
@@ -70,21 +71,32 @@ export function correlationMatrix(u: number[][]): number[][] {
  * π_kj = (v_jk²/d_k²)/Σ_k(v_jk²/d_k²); x: the r×r factor of the kept columns (same singular
  * values and right singular vectors as X).
  */
-export function conditionDiagnostics(x: number[][], r: number): { indices: number[]; proportions: number[][] } {
+export function conditionDiagnostics(
+  x: number[][],
+  r: number,
+): { indices: number[]; proportions: number[][] } {
   if (r === 0) return { indices: [], proportions: [] };
   const sub = x.slice(0, r).map((row) => row.slice(0, r));
   const norms = Array.from({ length: r }, (_, j) => columnNorm(sub, j));
   const scaled = sub.map((row) => row.map((v, j) => v / (norms[j] as number)));
-  const svd = new SVD(new Matrix(scaled), { computeLeftSingularVectors: false, computeRightSingularVectors: true, autoTranspose: false });
+  const svd = new SVD(new Matrix(scaled), {
+    computeLeftSingularVectors: false,
+    computeRightSingularVectors: true,
+    autoTranspose: false,
+  });
   const d = svd.diagonal;
   const v = svd.rightSingularVectors;
   const order = d.map((_, i) => i).sort((a, b) => (d[b] as number) - (d[a] as number));
   const d1 = d[order[0] as number] as number;
   const indices = order.map((k) => d1 / (d[k] as number));
   // phi[j][k] = v_jk² / d_k²
-  const phi = Array.from({ length: r }, (_, j) => order.map((k) => (v.get(j, k) * v.get(j, k)) / ((d[k] as number) * (d[k] as number))));
+  const phi = Array.from({ length: r }, (_, j) =>
+    order.map((k) => (v.get(j, k) * v.get(j, k)) / ((d[k] as number) * (d[k] as number))),
+  );
   const totals = phi.map((row) => row.reduce((s, e) => s + e, 0));
-  const proportions = order.map((_, kk) => Array.from({ length: r }, (_, j) => ((phi[j] as number[])[kk] as number) / (totals[j] as number)));
+  const proportions = order.map((_, kk) =>
+    Array.from({ length: r }, (_, j) => ((phi[j] as number[])[kk] as number) / (totals[j] as number)),
+  );
   return { indices, proportions };
 }
 
@@ -101,7 +113,11 @@ export function highCorrelationPairs(
   for (let i = 0; i < columns.length; i++) {
     for (let j = i + 1; j < columns.length; j++) {
       const r = (matrix[i] as number[])[j] as number;
-      if (numeric.has(columns[i] as string) && numeric.has(columns[j] as string) && Math.abs(r) >= threshold) {
+      if (
+        numeric.has(columns[i] as string) &&
+        numeric.has(columns[j] as string) &&
+        Math.abs(r) >= threshold
+      ) {
         out.push({ a: columns[i] as string, b: columns[j] as string, r });
       }
     }
@@ -125,7 +141,12 @@ export function conditionFlags(
     if (!(eta >= index)) return;
     const row = report.varianceProportions.matrix[k] ?? [];
     const hit = row.map((p, j) => ({ p, j })).filter((e) => e.p > proportion);
-    if (hit.length >= 2) out.push({ conditionIndex: eta, columns: hit.map((e) => names[e.j] as string), proportions: hit.map((e) => e.p) });
+    if (hit.length >= 2)
+      out.push({
+        conditionIndex: eta,
+        columns: hit.map((e) => names[e.j] as string),
+        proportions: hit.map((e) => e.p),
+      });
   });
   return out;
 }

@@ -6,7 +6,13 @@
 import type { CollinearityReport, Coefficient, FitReport } from "../report";
 import type { LeastSquares } from "./least-squares";
 import { aliasCombination, describeCombination, detectAliasing } from "./aliasing";
-import { conditionDiagnostics, correlationFactor, correlationMatrix, termCollinearity, type TermGroup } from "./collinearity";
+import {
+  conditionDiagnostics,
+  correlationFactor,
+  correlationMatrix,
+  termCollinearity,
+  type TermGroup,
+} from "./collinearity";
 import { invertUpper, solveUpper, triangularise } from "./linalg";
 import { refineCoefficients } from "./refine";
 import { fUpper, tTwoSided } from "./distributions";
@@ -37,12 +43,17 @@ function factorRows(ls: LeastSquares): number[][] {
 
 function checkSpec(ls: LeastSquares, spec: DesignSpec): void {
   if (spec.columns.length !== ls.k) {
-    throw new RangeError(`design spec names ${spec.columns.length} columns but the least-squares state has ${ls.k}`);
+    throw new RangeError(
+      `design spec names ${spec.columns.length} columns but the least-squares state has ${ls.k}`,
+    );
   }
-  if (new Set(spec.columns).size !== spec.columns.length) throw new RangeError("design spec repeats a column name");
+  if (new Set(spec.columns).size !== spec.columns.length)
+    throw new RangeError("design spec repeats a column name");
   const known = new Set(spec.columns);
   for (const t of spec.terms) {
-    for (const c of t.columns) if (!known.has(c)) throw new RangeError(`term "${t.term}" lists column "${c}" that is not in the design`);
+    for (const c of t.columns)
+      if (!known.has(c))
+        throw new RangeError(`term "${t.term}" lists column "${c}" that is not in the design`);
   }
 }
 
@@ -70,7 +81,11 @@ function termGroups(spec: DesignSpec, position: Map<string, number>): TermGroup[
  * When n ≤ rank (no residual df) rss, residualStdError and adjRSquared are 0 and F, its
  * p-value, standard errors, t and p-values are null.
  */
-export function analyseDesign(ls: LeastSquares, spec: DesignSpec, opts: { alpha: number; power: number }): DesignAnalysis {
+export function analyseDesign(
+  ls: LeastSquares,
+  spec: DesignSpec,
+  opts: { alpha: number; power: number },
+): DesignAnalysis {
   checkSpec(ls, spec);
   const k = ls.k;
   const a = factorRows(ls);
@@ -103,7 +118,9 @@ export function analyseDesign(ls: LeastSquares, spec: DesignSpec, opts: { alpha:
   const naming = {
     names: spec.columns,
     intercept: spec.intercept,
-    termOf: new Map(spec.terms.flatMap((term) => term.columns.map((c) => [c, term.term] as [string, string]))),
+    termOf: new Map(
+      spec.terms.flatMap((term) => term.columns.map((c) => [c, term.term] as [string, string])),
+    ),
   };
   const aliased = aliasedIdx.map((j) => ({
     term: spec.columns[j] as string,
@@ -113,7 +130,8 @@ export function analyseDesign(ls: LeastSquares, spec: DesignSpec, opts: { alpha:
   const keptPos = new Map(kept.map((j, p) => [j, p]));
   const coefficients: Coefficient[] = spec.columns.map((name, j) => {
     const p = keptPos.get(j);
-    if (p === undefined) return { term: name, estimate: null, stdError: null, t: null, pValue: null, aliased: true };
+    if (p === undefined)
+      return { term: name, estimate: null, stdError: null, t: null, pValue: null, aliased: true };
     const estimate = beta[p] as number;
     if (!(dfResidual > 0)) return { term: name, estimate, stdError: null, t: null, pValue: null };
     let s = 0;
@@ -134,7 +152,11 @@ export function analyseDesign(ls: LeastSquares, spec: DesignSpec, opts: { alpha:
     dfModel,
     dfResidual,
     pValue: F === null ? null : fUpper(F, dfModel, dfResidual),
-    power: { alpha: opts.alpha, power: opts.power, detectableR2: dfModel > 0 ? detectableR2(n, dfModel, opts.alpha, opts.power) : null },
+    power: {
+      alpha: opts.alpha,
+      power: opts.power,
+      detectableR2: dfModel > 0 ? detectableR2(n, dfModel, opts.alpha, opts.power) : null,
+    },
   };
 
   let collinearity: CollinearityReport | null = null;

@@ -18,7 +18,8 @@ function stirlingCorrection(x: number): number {
   const x2 = 1 / (x * x);
   return (
     (1 / 12 +
-      x2 * (-1 / 360 + x2 * (1 / 1260 + x2 * (-1 / 1680 + x2 * (1 / 1188 + x2 * (-691 / 360360 + x2 / 156)))))) /
+      x2 *
+        (-1 / 360 + x2 * (1 / 1260 + x2 * (-1 / 1680 + x2 * (1 / 1188 + x2 * (-691 / 360360 + x2 / 156)))))) /
     x
   );
 }
@@ -46,7 +47,13 @@ export function lnBeta(a: number, b: number): number {
   const q = Math.max(a, b);
   if (p >= 10) {
     const corr = stirlingCorrection(p) + stirlingCorrection(q) - stirlingCorrection(p + q);
-    return -0.5 * Math.log(q) + LN_SQRT_2PI + corr + (p - 0.5) * Math.log(p / (p + q)) + q * Math.log1p(-p / (p + q));
+    return (
+      -0.5 * Math.log(q) +
+      LN_SQRT_2PI +
+      corr +
+      (p - 0.5) * Math.log(p / (p + q)) +
+      q * Math.log1p(-p / (p + q))
+    );
   }
   if (q >= 10) {
     const corr = stirlingCorrection(q) - stirlingCorrection(p + q);
@@ -145,7 +152,8 @@ export function gammaRegularized(a: number, x: number, upper = false): number {
 }
 
 function checkDf(name: string, v: number): void {
-  if (!(v > 0) || !Number.isFinite(v)) throw new RangeError(`${name} must be a positive number of degrees of freedom (got ${v})`);
+  if (!(v > 0) || !Number.isFinite(v))
+    throw new RangeError(`${name} must be a positive number of degrees of freedom (got ${v})`);
 }
 
 /** P(F ≤ x) for F(d1, d2): I_{d1x/(d1x+d2)}(d1/2, d2/2). */

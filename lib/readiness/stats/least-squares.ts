@@ -48,7 +48,8 @@ export class LeastSquares {
   private kept: number[] | null = [];
 
   constructor(k: number) {
-    if (!Number.isInteger(k) || k < 1) throw new RangeError(`LeastSquares needs at least one design column (got k = ${k})`);
+    if (!Number.isInteger(k) || k < 1)
+      throw new RangeError(`LeastSquares needs at least one design column (got k = ${k})`);
     this.k = k;
     this.d = new Float64Array(k);
     this.rbar = new Float64Array((k * (k - 1)) / 2);
@@ -137,7 +138,9 @@ export class LeastSquares {
   /** Union of two row sets (same design columns): stack the two factors and re-triangularise. */
   merge(other: LeastSquares): void {
     if (other.k !== this.k) {
-      throw new RangeError(`cannot merge least-squares states with ${this.k} and ${other.k} design columns; expand them to one column list first`);
+      throw new RangeError(
+        `cannot merge least-squares states with ${this.k} and ${other.k} design columns; expand them to one column list first`,
+      );
     }
     const src = other === this ? other.clone() : other;
     this.absorb(src, (j) => j);
@@ -151,13 +154,15 @@ export class LeastSquares {
    * Names of `from` that are absent from `to` are dropped (their rows stay).
    */
   expandColumns(from: string[], to: string[]): LeastSquares {
-    if (from.length !== this.k) throw new RangeError(`expandColumns: 'from' lists ${from.length} names for ${this.k} design columns`);
+    if (from.length !== this.k)
+      throw new RangeError(`expandColumns: 'from' lists ${from.length} names for ${this.k} design columns`);
     const index = new Map<string, number>();
     to.forEach((name, i) => {
       if (index.has(name)) throw new RangeError(`expandColumns: column "${name}" appears twice in 'to'`);
       index.set(name, i);
     });
-    if (new Set(from).size !== from.length) throw new RangeError("expandColumns: 'from' repeats a column name");
+    if (new Set(from).size !== from.length)
+      throw new RangeError("expandColumns: 'from' repeats a column name");
     const out = new LeastSquares(to.length);
     const targets = from.map((name) => index.get(name) ?? -1);
     if (targets.every((t) => t >= 0)) {
@@ -231,7 +236,10 @@ export class LeastSquares {
 
   static fromJSON(j: unknown): LeastSquares {
     const parsed = jsonSchema.safeParse(j);
-    if (!parsed.success) throw new Error(`stored least-squares state is not valid: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
+    if (!parsed.success)
+      throw new Error(
+        `stored least-squares state is not valid: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`,
+      );
     const s = parsed.data;
     if (s.d.length !== s.k || s.thetab.length !== s.k || s.rbar.length !== (s.k * (s.k - 1)) / 2) {
       throw new Error(`stored least-squares state has arrays of the wrong length for k = ${s.k}`);
@@ -243,7 +251,9 @@ export class LeastSquares {
     ls.thetab.set(s.thetab);
     ls.sserr = s.sserr;
     if (s.rows !== undefined && s.rows.length !== s.n * (s.k + 1)) {
-      throw new Error(`stored least-squares state keeps ${s.rows.length} row values for ${s.n} rows of ${s.k + 1}`);
+      throw new Error(
+        `stored least-squares state keeps ${s.rows.length} row values for ${s.n} rows of ${s.k + 1}`,
+      );
     }
     ls.kept = s.rows ?? null;
     return ls;

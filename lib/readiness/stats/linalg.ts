@@ -21,7 +21,8 @@ export function triangularise(m: number[][], c: number): number[][] {
       let dot = 0;
       for (let i = j; i < rows; i++) dot += (v[i - j] as number) * ((a[i] as number[])[col] as number);
       const f = (2 * dot) / vv;
-      for (let i = j; i < rows; i++) (a[i] as number[])[col] = ((a[i] as number[])[col] as number) - f * (v[i - j] as number);
+      for (let i = j; i < rows; i++)
+        (a[i] as number[])[col] = ((a[i] as number[])[col] as number) - f * (v[i - j] as number);
     }
     for (let i = j + 1; i < rows; i++) (a[i] as number[])[j] = 0;
   }

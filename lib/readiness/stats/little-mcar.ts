@@ -72,7 +72,13 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
   // Start: available-case means and variances, no covariance.
   const mu = new Float64Array(m);
   const cnt = new Float64Array(m);
-  for (const p of pats) p.o.forEach((c, a) => ((mu[c] = (mu[c] as number) + p.n * (p.mean[a] as number)), (cnt[c] = (cnt[c] as number) + p.n)));
+  for (const p of pats)
+    p.o.forEach(
+      (c, a) => (
+        (mu[c] = (mu[c] as number) + p.n * (p.mean[a] as number)),
+        (cnt[c] = (cnt[c] as number) + p.n)
+      ),
+    );
   for (let c = 0; c < m; c++) mu[c] = (mu[c] as number) / (cnt[c] as number);
   let sigma = new Float64Array(m * m);
   for (const p of pats) {
@@ -97,7 +103,8 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
 
   const factorObserved = (p: Pat): boolean => {
     const q = p.o.length;
-    for (let a = 0; a < q; a++) for (let b = 0; b < q; b++) L[a * q + b] = sigma[(p.o[a] as number) * m + (p.o[b] as number)] as number;
+    for (let a = 0; a < q; a++)
+      for (let b = 0; b < q; b++) L[a * q + b] = sigma[(p.o[a] as number) * m + (p.o[b] as number)] as number;
     return cholesky(L, q);
   };
 
@@ -156,7 +163,8 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
               bsb += (BS[i * q + a] as number) * (B[j * q + a] as number);
               bso += (B[i * q + a] as number) * (sigma[(o[a] as number) * m + cj] as number);
             }
-            acc[ci * m + cj] = (acc[ci * m + cj] as number) + bsb + n * ((sigma[ci * m + cj] as number) - bso);
+            acc[ci * m + cj] =
+              (acc[ci * m + cj] as number) + bsb + n * ((sigma[ci * m + cj] as number) - bso);
           }
         }
       }
@@ -164,7 +172,8 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
       for (let i = 0; i < m; i++) {
         const di = (yhat[i] as number) - (mu[i] as number);
         t1[i] = (t1[i] as number) + n * di;
-        for (let j = 0; j < m; j++) acc[i * m + j] = (acc[i * m + j] as number) + n * di * ((yhat[j] as number) - (mu[j] as number));
+        for (let j = 0; j < m; j++)
+          acc[i * m + j] = (acc[i * m + j] as number) + n * di * ((yhat[j] as number) - (mu[j] as number));
       }
     }
     const next = new Float64Array(m * m);
@@ -179,7 +188,10 @@ export function littleMcar(pm: PatternMoments): { statistic: number; df: number;
       change = Math.max(change, Math.abs((t1[i] as number) / N) / sd);
       for (let j = 0; j < m; j++) {
         const scale = Math.sqrt((next[i * m + i] as number) * (next[j * m + j] as number)) || 1;
-        change = Math.max(change, Math.abs((next[i * m + j] as number) - (sigma[i * m + j] as number)) / scale);
+        change = Math.max(
+          change,
+          Math.abs((next[i * m + j] as number) - (sigma[i * m + j] as number)) / scale,
+        );
       }
       mu[i] = (mu[i] as number) + (t1[i] as number) / N;
     }

@@ -31,7 +31,12 @@ const schema = z.object({
   columns: z.array(z.string()),
   overflowed: z.boolean().optional(),
   patterns: z.array(
-    z.object({ observed: z.array(z.number().int().min(0)), count: z.number().int().min(1), mean: z.array(finite), comoment: z.array(finite) }),
+    z.object({
+      observed: z.array(z.number().int().min(0)),
+      count: z.number().int().min(1),
+      mean: z.array(finite),
+      comoment: z.array(finite),
+    }),
   ),
 });
 
@@ -148,7 +153,10 @@ export class PatternMoments {
     const d = this.delta;
     for (let a = 0; a < q; a++) {
       const v = values[obs[a] as number] as number;
-      if (!Number.isFinite(v)) throw new RangeError(`value ${v} in column "${this.columns[obs[a] as number]}" is not a finite number`);
+      if (!Number.isFinite(v))
+        throw new RangeError(
+          `value ${v} in column "${this.columns[obs[a] as number]}" is not a finite number`,
+        );
       const dv = v - (p.mean[a] as number);
       d[a] = dv;
       p.mean[a] = (p.mean[a] as number) + dv / n;
@@ -184,7 +192,9 @@ export class PatternMoments {
       for (let a = 0; a < q; a++) {
         for (let b = 0; b < q; b++) {
           dst.comoment[a * q + b] =
-            (dst.comoment[a * q + b] as number) + (src.comoment[a * q + b] as number) + ((delta[a] as number) * (delta[b] as number) * na * nb) / n;
+            (dst.comoment[a * q + b] as number) +
+            (src.comoment[a * q + b] as number) +
+            ((delta[a] as number) * (delta[b] as number) * na * nb) / n;
         }
       }
       for (let a = 0; a < q; a++) dst.mean[a] = (dst.mean[a] as number) + ((delta[a] as number) * nb) / n;
@@ -204,14 +214,22 @@ export class PatternMoments {
   }
 
   toJSON(): PatternMomentsJSON {
-    const j: PatternMomentsJSON = { kind: "pattern-moments", version: 1, columns: [...this.columns], patterns: this.summary() };
+    const j: PatternMomentsJSON = {
+      kind: "pattern-moments",
+      version: 1,
+      columns: [...this.columns],
+      patterns: this.summary(),
+    };
     if (this.over) j.overflowed = true;
     return j;
   }
 
   static fromJSON(j: unknown): PatternMoments {
     const parsed = schema.safeParse(j);
-    if (!parsed.success) throw new Error(`stored missingness moments are not valid: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`);
+    if (!parsed.success)
+      throw new Error(
+        `stored missingness moments are not valid: ${parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ")}`,
+      );
     const s = parsed.data;
     const pm = new PatternMoments(s.columns);
     const m = s.columns.length;
@@ -221,11 +239,20 @@ export class PatternMoments {
     }
     for (const p of s.patterns) {
       const q = p.observed.length;
-      if (p.mean.length !== q || p.comoment.length !== q * q || p.observed.some((j, i) => j >= m || (i > 0 && j <= (p.observed[i - 1] as number)))) {
+      if (
+        p.mean.length !== q ||
+        p.comoment.length !== q * q ||
+        p.observed.some((j, i) => j >= m || (i > 0 && j <= (p.observed[i - 1] as number)))
+      ) {
         throw new Error("stored missingness moments have a pattern of the wrong shape");
       }
       pm.cells += q * q + q + 8;
-      pm.patterns.set(pm.keyOf(p.observed), { observed: [...p.observed], count: p.count, mean: Float64Array.from(p.mean), comoment: Float64Array.from(p.comoment) });
+      pm.patterns.set(pm.keyOf(p.observed), {
+        observed: [...p.observed],
+        count: p.count,
+        mean: Float64Array.from(p.mean),
+        comoment: Float64Array.from(p.comoment),
+      });
     }
     return pm;
   }

@@ -49,7 +49,8 @@ export function noncentralFCdf(x: number, d1: number, d2: number, lambda: number
 /** Power of the overall F test with u predictors and N cases at effect f² (Cohen 1988). */
 export function overallFPower(f2: number, u: number, N: number, alpha: number): number {
   const v = N - u - 1;
-  if (!(u >= 1) || !(v >= 1)) throw new RangeError(`the F test needs u ≥ 1 and N − u − 1 ≥ 1 (u = ${u}, N = ${N})`);
+  if (!(u >= 1) || !(v >= 1))
+    throw new RangeError(`the F test needs u ≥ 1 and N − u − 1 ≥ 1 (u = ${u}, N = ${N})`);
   if (!(alpha > 0 && alpha < 1)) throw new RangeError(`alpha must lie between 0 and 1 (got ${alpha})`);
   if (!(f2 >= 0)) throw new RangeError(`f² must be ≥ 0 (got ${f2})`);
   const crit = qf(1 - alpha, u, v);

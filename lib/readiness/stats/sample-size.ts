@@ -44,8 +44,10 @@ export function rileyContinuous(
   r2adj: number,
   outcome?: { mean: number; sd: number },
 ): { criteria: { i: number; ii: number; iii: number; iv: number | null }; required: number } {
-  if (!Number.isInteger(p) || p < 1) throw new RangeError(`Riley's criteria need p ≥ 1 parameters (got ${p})`);
-  if (!(r2adj > 0 && r2adj < 1)) throw new RangeError(`anticipated adjusted R² must lie between 0 and 1 (got ${r2adj})`);
+  if (!Number.isInteger(p) || p < 1)
+    throw new RangeError(`Riley's criteria need p ≥ 1 parameters (got ${p})`);
+  if (!(r2adj > 0 && r2adj < 1))
+    throw new RangeError(`anticipated adjusted R² must lie between 0 and 1 (got ${r2adj})`);
   const first = p + 2; // at least one residual df
   // S(n) first falls from 1 (near n = p + 2) and then rises back towards 1: take the rising branch.
   let nMin = first;
@@ -63,8 +65,12 @@ export function rileyContinuous(
     if (shrinkage(m1, p, r2adj) < shrinkage(m2, p, r2adj)) hi = m2;
     else lo = m1;
   }
-  const argmin = [lo, lo + 1, hi].reduce((b, n) => (shrinkage(n, p, r2adj) < shrinkage(b, p, r2adj) ? n : b), lo);
-  const i = shrinkage(argmin, p, r2adj) >= 0.9 ? first : smallestN(argmin, (n) => shrinkage(n, p, r2adj) >= 0.9);
+  const argmin = [lo, lo + 1, hi].reduce(
+    (b, n) => (shrinkage(n, p, r2adj) < shrinkage(b, p, r2adj) ? n : b),
+    lo,
+  );
+  const i =
+    shrinkage(argmin, p, r2adj) >= 0.9 ? first : smallestN(argmin, (n) => shrinkage(n, p, r2adj) >= 0.9);
   const ii = Math.max(first, Math.ceil(1 + (p * (1 - r2adj)) / 0.05 - 1e-9));
   const sdOk = (n: number) => {
     const df = n - p - 1;
@@ -75,7 +81,10 @@ export function rileyContinuous(
   let iv: number | null = null;
   if (outcome && Number.isFinite(outcome.mean) && outcome.mean !== 0 && outcome.sd > 0) {
     const { mean, sd } = outcome;
-    iv = smallestN(first, (n) => qt(0.975, n - p - 1) * sd * Math.sqrt((1 - r2adj) / n) <= 0.1 * Math.abs(mean));
+    iv = smallestN(
+      first,
+      (n) => qt(0.975, n - p - 1) * sd * Math.sqrt((1 - r2adj) / n) <= 0.1 * Math.abs(mean),
+    );
   }
   return { criteria: { i, ii, iii, iv }, required: Math.max(i, ii, iii, iv ?? 0) };
 }

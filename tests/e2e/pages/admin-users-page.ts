@@ -15,7 +15,13 @@ export class AdminUsersPage {
     await expect(this.page.getByRole("heading", { level: 1, name: "Users" })).toBeVisible();
   }
 
-  async createUser(u: { name: string; email: string; roleLabel: string; organisation: string; password: string }): Promise<void> {
+  async createUser(u: {
+    name: string;
+    email: string;
+    roleLabel: string;
+    organisation: string;
+    password: string;
+  }): Promise<void> {
     const f = this.createForm;
     await f.getByLabel("Name").fill(u.name);
     await f.getByLabel("E-mail").fill(u.email);

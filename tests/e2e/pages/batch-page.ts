@@ -15,7 +15,9 @@ export class BatchPage {
 
   /** Chooses a file (built in memory) in the upload panel. */
   async chooseFile(name: string, csv: string): Promise<void> {
-    await this.page.getByTestId("batch-file-input").setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
+    await this.page
+      .getByTestId("batch-file-input")
+      .setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
   }
 
   async upload(): Promise<string> {
@@ -32,7 +34,8 @@ export class BatchPage {
   async commentOnFinding(code: string, text: string): Promise<void> {
     const form = this.page.getByTestId("decision-form");
     const details = form.locator("details");
-    if (!(await details.evaluate((d) => (d as HTMLDetailsElement).open))) await details.locator("summary").click();
+    if (!(await details.evaluate((d) => (d as HTMLDetailsElement).open)))
+      await details.locator("summary").click();
     await form.locator(`textarea[data-finding-code="${code}"]`).first().fill(text);
   }
 

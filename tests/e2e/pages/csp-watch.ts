@@ -8,7 +8,10 @@ export function watchPageProblems(page: Page): { problems: string[] } {
   const problems: string[] = [];
   page.on("console", (msg) => {
     const text = msg.text();
-    if (msg.type() === "error" && /Content Security Policy|Refused to (load|apply|execute|connect)/i.test(text)) {
+    if (
+      msg.type() === "error" &&
+      /Content Security Policy|Refused to (load|apply|execute|connect)/i.test(text)
+    ) {
       problems.push(`CSP: ${text}`);
     }
   });

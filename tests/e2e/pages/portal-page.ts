@@ -21,7 +21,9 @@ export class PortalPage {
 
   /** A section of the page by its heading (level 2). */
   section(title: string | RegExp): Locator {
-    return this.page.locator("section").filter({ has: this.page.getByRole("heading", { level: 2, name: title }) });
+    return this.page
+      .locator("section")
+      .filter({ has: this.page.getByRole("heading", { level: 2, name: title }) });
   }
 
   async signOut(): Promise<void> {

@@ -32,9 +32,17 @@ async function listen(server: Server, sockets: Set<Socket>): Promise<Served> {
   };
 }
 
-function forward(req: IncomingMessage, target: URL, onResponse: (up: IncomingMessage) => void, res: ServerResponse): ReturnType<typeof request> {
+function forward(
+  req: IncomingMessage,
+  target: URL,
+  onResponse: (up: IncomingMessage) => void,
+  res: ServerResponse,
+): ReturnType<typeof request> {
   // the Host header is kept: the fake checks signatures over the URL as the client addressed it
-  const up = request({ host: target.hostname, port: target.port, method: req.method, path: req.url, headers: req.headers }, onResponse);
+  const up = request(
+    { host: target.hostname, port: target.port, method: req.method, path: req.url, headers: req.headers },
+    onResponse,
+  );
   up.on("error", () => res.destroy());
   return up;
 }
@@ -60,36 +68,41 @@ export async function startFileGate(targetUrl: string): Promise<FileGate> {
     if (isDownload) gate.downloads++;
     const hold = isDownload ? armed : null;
     if (hold) armed = null;
-    const up = forward(req, target, (down) => {
-      res.writeHead(down.statusCode ?? 502, down.headers);
-      if (!hold) return void down.pipe(res);
-      let sent = 0;
-      let state: "before" | "held" | "after" = "before";
-      down.on("data", (chunk: Buffer) => {
-        if (state === "before" && sent + chunk.length >= hold.bytes) {
-          const rest = chunk.subarray(hold.bytes - sent);
-          res.write(chunk.subarray(0, hold.bytes - sent));
+    const up = forward(
+      req,
+      target,
+      (down) => {
+        res.writeHead(down.statusCode ?? 502, down.headers);
+        if (!hold) return void down.pipe(res);
+        let sent = 0;
+        let state: "before" | "held" | "after" = "before";
+        down.on("data", (chunk: Buffer) => {
+          if (state === "before" && sent + chunk.length >= hold.bytes) {
+            const rest = chunk.subarray(hold.bytes - sent);
+            res.write(chunk.subarray(0, hold.bytes - sent));
+            sent += chunk.length;
+            state = "held";
+            down.pause();
+            hold.reached();
+            releasers.push(() => {
+              if (res.destroyed) return;
+              state = "after";
+              res.write(rest);
+              down.resume();
+            });
+            return;
+          }
           sent += chunk.length;
-          state = "held";
-          down.pause();
-          hold.reached();
-          releasers.push(() => {
-            if (res.destroyed) return;
-            state = "after";
-            res.write(rest);
-            down.resume();
-          });
-          return;
-        }
-        sent += chunk.length;
-        if (!res.write(chunk)) {
-          down.pause();
-          res.once("drain", () => state !== "held" && down.resume());
-        }
-      });
-      down.on("end", () => res.end());
-      res.on("close", () => down.destroy());
-    }, res);
+          if (!res.write(chunk)) {
+            down.pause();
+            res.once("drain", () => state !== "held" && down.resume());
+          }
+        });
+        down.on("end", () => res.end());
+        res.on("close", () => down.destroy());
+      },
+      res,
+    );
     req.pipe(up);
   });
   const served = await listen(server, sockets);
@@ -126,10 +139,15 @@ export async function startServiceSwitch(targetUrl: string): Promise<ServiceSwit
   const sockets = new Set<Socket>();
   const sw = { dropPutsAfter: null, dropped: 0 } as unknown as ServiceSwitch;
   const server = createServer((req, res) => {
-    const up = forward(req, target, (down) => {
-      res.writeHead(down.statusCode ?? 502, down.headers);
-      down.pipe(res);
-    }, res);
+    const up = forward(
+      req,
+      target,
+      (down) => {
+        res.writeHead(down.statusCode ?? 502, down.headers);
+        down.pipe(res);
+      },
+      res,
+    );
     const limit = sw.dropPutsAfter;
     if (req.method !== "PUT" || limit === null) return void req.pipe(up);
     let seen = 0;
@@ -159,10 +177,18 @@ export async function startServiceSwitch(targetUrl: string): Promise<ServiceSwit
 }
 
 /** Stores `csv` in the upload service at `serviceUrl` as the app does (private attachment); returns key and URL. */
-export async function storeFile(serviceUrl: string, token: string, csv: string, name: string): Promise<{ key: string; url: string; name: string; size: number }> {
+export async function storeFile(
+  serviceUrl: string,
+  token: string,
+  csv: string,
+  name: string,
+): Promise<{ key: string; url: string; name: string; size: number }> {
   const api = createUtapi({ token, apiUrl: serviceUrl, ingestUrl: serviceUrl });
   const bytes = new TextEncoder().encode(csv);
-  const r = await api.uploadFiles(new UTFile([bytes], name, { type: "text/csv" }), { acl: "private", contentDisposition: "attachment" });
+  const r = await api.uploadFiles(new UTFile([bytes], name, { type: "text/csv" }), {
+    acl: "private",
+    contentDisposition: "attachment",
+  });
   if (r.error || !r.data) throw new Error(`storing ${name} in the upload fake failed: ${r.error?.message}`);
   return { key: r.data.key, url: r.data.ufsUrl, name, size: bytes.length };
 }

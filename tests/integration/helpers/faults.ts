@@ -80,7 +80,15 @@ export function startWorker(env: Record<string, string>): WorkerProcess {
       const seen = lines.find((l) => re.test(l));
       if (seen) return Promise.resolve(seen);
       return new Promise((resolve, reject) => {
-        const t = setTimeout(() => reject(new Error(`worker ${child.pid} printed no line matching ${re} within ${timeoutMs} ms; it printed:\n${lines.join("\n")}`)), timeoutMs);
+        const t = setTimeout(
+          () =>
+            reject(
+              new Error(
+                `worker ${child.pid} printed no line matching ${re} within ${timeoutMs} ms; it printed:\n${lines.join("\n")}`,
+              ),
+            ),
+          timeoutMs,
+        );
         waiters.push({ re, resolve: (l) => (clearTimeout(t), resolve(l)) });
       });
     },
@@ -91,11 +99,20 @@ export function startWorker(env: Record<string, string>): WorkerProcess {
 export async function killAllWorkers(): Promise<void> {
   const left = [...started];
   for (const c of left) c.kill("SIGKILL");
-  await Promise.all(left.map((c) => new Promise((r) => (c.exitCode !== null || c.signalCode !== null ? r(null) : c.once("exit", r)))));
+  await Promise.all(
+    left.map(
+      (c) => new Promise((r) => (c.exitCode !== null || c.signalCode !== null ? r(null) : c.once("exit", r))),
+    ),
+  );
 }
 
 /** Polls `fn` until it returns a truthy value; throws `what` after `timeoutMs`. */
-export async function waitFor<T>(what: string, fn: () => Promise<T | null | undefined | false>, timeoutMs = PROCESS_PATIENCE_MS, everyMs = 100): Promise<T> {
+export async function waitFor<T>(
+  what: string,
+  fn: () => Promise<T | null | undefined | false>,
+  timeoutMs = PROCESS_PATIENCE_MS,
+  everyMs = 100,
+): Promise<T> {
   const until = Date.now() + timeoutMs;
   for (;;) {
     const v = await fn();
@@ -119,7 +136,10 @@ export function privateDb(...args: string[]): string {
     encoding: "utf8",
     timeout: PROCESS_PATIENCE_MS,
   });
-  if (r.status !== 0) throw new Error(`db.sh ${args.join(" ")} (private instance on ${PRIVATE_DB.port}) failed:\n${r.stdout}${r.stderr}`);
+  if (r.status !== 0)
+    throw new Error(
+      `db.sh ${args.join(" ")} (private instance on ${PRIVATE_DB.port}) failed:\n${r.stdout}${r.stderr}`,
+    );
   return r.stdout;
 }
 
@@ -141,18 +161,34 @@ export async function clearOutbox(db: Db): Promise<void> {
 
 /** What the database holds for some batch versions: reports, jobs, states and audit rows. */
 export async function outcome(db: Db, versionIds: number[]) {
-  const rs = await db.select({ id: reports.id, v: reports.batchVersionId, status: reports.status, rows: sql<number>`JSON_EXTRACT(${reports.report}, '$.rows.total')` }).from(reports).where(inArray(reports.batchVersionId, versionIds));
+  const rs = await db
+    .select({
+      id: reports.id,
+      v: reports.batchVersionId,
+      status: reports.status,
+      rows: sql<number>`JSON_EXTRACT(${reports.report}, '$.rows.total')`,
+    })
+    .from(reports)
+    .where(inArray(reports.batchVersionId, versionIds));
   const jobs = await db.select().from(checkJobs).where(inArray(checkJobs.batchVersionId, versionIds));
-  const versions = await db.select({ id: batchVersions.id, state: batchVersions.state }).from(batchVersions).where(inArray(batchVersions.id, versionIds));
+  const versions = await db
+    .select({ id: batchVersions.id, state: batchVersions.state })
+    .from(batchVersions)
+    .where(inArray(batchVersions.id, versionIds));
   const audit = await db
     .select({ action: auditEvents.action, objectId: auditEvents.objectId })
     .from(auditEvents)
-    .where(and(eq(auditEvents.objectType, "batch_version"), inArray(auditEvents.objectId, versionIds.map(String))));
+    .where(
+      and(eq(auditEvents.objectType, "batch_version"), inArray(auditEvents.objectId, versionIds.map(String))),
+    );
   const per = (id: number) => ({
     reports: rs.filter((r) => r.v === id),
     jobs: jobs.filter((j) => j.batchVersionId === id),
     state: versions.find((v) => v.id === id)?.state,
-    audit: audit.filter((a) => a.objectId === String(id)).map((a) => a.action).sort(),
+    audit: audit
+      .filter((a) => a.objectId === String(id))
+      .map((a) => a.action)
+      .sort(),
   });
   return new Map(versionIds.map((id) => [id, per(id)]));
 }

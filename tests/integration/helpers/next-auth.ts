@@ -44,7 +44,11 @@ export async function callNextAuth(
     cookies: { ...jar },
     headers: { ...extra.headers, ...(body ? { "content-type": "application/x-www-form-urlencoded" } : {}) },
   };
-  await (NextAuth as unknown as (req: unknown, res: unknown, o: AuthOptions) => Promise<void>)(req, res, options);
+  await (NextAuth as unknown as (req: unknown, res: unknown, o: AuthOptions) => Promise<void>)(
+    req,
+    res,
+    options,
+  );
   for (const c of [headers["Set-Cookie"] ?? []].flat()) {
     reply.setCookies.push(c);
     const [pair] = c.split(";");
@@ -53,6 +57,7 @@ export async function callNextAuth(
     if (value) jar[pair!.slice(0, at)] = value;
     else delete jar[pair!.slice(0, at)];
   }
-  if (body?.json === "true" && reply.body && typeof reply.body === "object" && "url" in reply.body) reply.redirect = String((reply.body as { url: string }).url);
+  if (body?.json === "true" && reply.body && typeof reply.body === "object" && "url" in reply.body)
+    reply.redirect = String((reply.body as { url: string }).url);
   return reply;
 }

@@ -45,17 +45,30 @@ export async function studyId(slug: string): Promise<number> {
 
 /** Marks every open job done, so a test starts from an empty queue. */
 export async function drainQueue() {
-  await getDb().update(checkJobs).set({ status: "done" }).where(sql`${checkJobs.status} in ('queued','running')`);
+  await getDb()
+    .update(checkJobs)
+    .set({ status: "done" })
+    .where(sql`${checkJobs.status} in ('queued','running')`);
 }
 
 /** Upload `csv` as `email` to `slug` (optionally as a new version) and run its check to the end. */
-export async function uploadAndCheck(email: string, slug: string, csv: string, opts: { batchPublicId?: string; name?: string } = {}) {
+export async function uploadAndCheck(
+  email: string,
+  slug: string,
+  csv: string,
+  opts: { batchPublicId?: string; name?: string } = {},
+) {
   const db = getDb();
   await drainQueue();
-  const r = await recordBatchVersion(await userId(email), { studyId: await studyId(slug), batchPublicId: opts.batchPublicId ?? null }, storeInMemory(csv, opts.name));
+  const r = await recordBatchVersion(
+    await userId(email),
+    { studyId: await studyId(slug), batchPublicId: opts.batchPublicId ?? null },
+    storeInMemory(csv, opts.name),
+  );
   if (!r.ok) throw new Error(r.message);
   const job = await claimJob(db, "test-worker");
-  if (!job || job.batchVersionId !== r.data.batchVersionId) throw new Error("the new version's job was not claimed");
+  if (!job || job.batchVersionId !== r.data.batchVersionId)
+    throw new Error("the new version's job was not claimed");
   const report = await runJob({ db, openFile: openMemoryFile }, job);
   return { ...r.data, report };
 }

@@ -22,7 +22,12 @@ export async function actionOutcome(run: () => Promise<unknown>): Promise<string
   try {
     const r = (await run()) as { ok?: boolean; code?: string } | null;
     if (r?.ok === true) return "ok";
-    if (r?.ok === false) return r.code === "unauthenticated" ? "sign-in" : r.code === "not_found" ? "not found" : (r.code ?? "invalid");
+    if (r?.ok === false)
+      return r.code === "unauthenticated"
+        ? "sign-in"
+        : r.code === "not_found"
+          ? "not found"
+          : (r.code ?? "invalid");
     throw new Error(`the action answered neither a Result nor a redirect: ${JSON.stringify(r)}`);
   } catch (e) {
     const to = redirectTarget(e);
@@ -57,7 +62,12 @@ const unique = () => `${process.pid}-${++n}`;
 
 /** The token of the newest reset link e-mailed to `email` (the link's last path segment). */
 async function linkTokenFor(email: string): Promise<string> {
-  const [m] = await getDb().select({ text: emailOutbox.textBody }).from(emailOutbox).where(eq(emailOutbox.toAddress, email)).orderBy(desc(emailOutbox.id)).limit(1);
+  const [m] = await getDb()
+    .select({ text: emailOutbox.textBody })
+    .from(emailOutbox)
+    .where(eq(emailOutbox.toAddress, email))
+    .orderBy(desc(emailOutbox.id))
+    .limit(1);
   const token = /\/set-password\/([A-Za-z0-9_-]+)/.exec(m?.text ?? "")?.[1];
   if (!token) throw new Error(`no reset link was e-mailed to ${email}`);
   return token;
@@ -68,20 +78,39 @@ const study = (c: ProbeCtx) => freshStudy(c.w, c.scope === "own");
 
 /** Probes by "file#export | call" as the README names them. */
 export const ACTION_PROBES: Record<string, (fn: Action) => Probe> = {
-  "(auth)/link-actions.ts#requestResetAction | an account's e-mail": action(async (c) => ({ args: [(await freshUser(c.w, "provider")).email] })),
+  "(auth)/link-actions.ts#requestResetAction | an account's e-mail": action(async (c) => ({
+    args: [(await freshUser(c.w, "provider")).email],
+  })),
   "(auth)/link-actions.ts#setPasswordAction | the link from the e-mail": action(async (c) => {
     const u = await freshUser(c.w, "analyst");
     const r = await requestPasswordReset(u.email);
     if (!r.ok) throw new Error(r.message);
     return { args: [await linkTokenFor(u.email), "a-new-long-password", "a-new-long-password"] };
   }),
-  "(auth)/link-actions.ts#setPasswordAction | a made-up link": action(() => ({ args: ["A".repeat(32), "a-new-long-password", "a-new-long-password"] })),
-  "(portal)/admin/jobs/actions.ts#retryJobAction | a failed check": action(async (c) => ({ args: [(await freshVersion(c.w, true, "failed")).jobId] })),
-  "(portal)/admin/users/actions.ts#createUserAction | a provider with a password": action((c) => ({
-    args: [null, form({ email: `walk-made-${unique()}@f3a.test`, name: "Walk Made", role: "provider", organisationId: String(c.w.farmA.id), password: "long-enough-password" })],
+  "(auth)/link-actions.ts#setPasswordAction | a made-up link": action(() => ({
+    args: ["A".repeat(32), "a-new-long-password", "a-new-long-password"],
   })),
-  "(portal)/admin/users/actions.ts#changeRoleAction | analyst to lead": action(async (c) => ({ args: [(await freshUser(c.w, "analyst")).id, "lead"] })),
-  "(portal)/admin/users/actions.ts#setActiveAction | deactivate": action(async (c) => ({ args: [(await freshUser(c.w, "analyst")).id, false] })),
+  "(portal)/admin/jobs/actions.ts#retryJobAction | a failed check": action(async (c) => ({
+    args: [(await freshVersion(c.w, true, "failed")).jobId],
+  })),
+  "(portal)/admin/users/actions.ts#createUserAction | a provider with a password": action((c) => ({
+    args: [
+      null,
+      form({
+        email: `walk-made-${unique()}@f3a.test`,
+        name: "Walk Made",
+        role: "provider",
+        organisationId: String(c.w.farmA.id),
+        password: "long-enough-password",
+      }),
+    ],
+  })),
+  "(portal)/admin/users/actions.ts#changeRoleAction | analyst to lead": action(async (c) => ({
+    args: [(await freshUser(c.w, "analyst")).id, "lead"],
+  })),
+  "(portal)/admin/users/actions.ts#setActiveAction | deactivate": action(async (c) => ({
+    args: [(await freshUser(c.w, "analyst")).id, false],
+  })),
   "(portal)/batches/[id]/actions.ts#decideAction | accept": action(
     async (c) => {
       const v = await freshVersion(c.w, c.scope === "own");
@@ -90,27 +119,83 @@ export const ACTION_PROBES: Record<string, (fn: Action) => Probe> = {
     { scoped: true },
   ),
   "(portal)/invite/actions.ts#inviteAction | a provider": action((c) => ({
-    args: [{ email: `walk-invited-${unique()}@f3a.test`, name: "Walk Invited", role: "provider", organisationId: String(c.w.farmA.id) }],
+    args: [
+      {
+        email: `walk-invited-${unique()}@f3a.test`,
+        name: "Walk Invited",
+        role: "provider",
+        organisationId: String(c.w.farmA.id),
+      },
+    ],
   })),
   // as a throwaway user of the role: the change ends that user's sessions
   "(portal)/settings/actions.ts#changePasswordAction | own password": action(async (c) => {
-    if (c.role === "anonymous") return { args: [null, form({ currentPassword: "correct-horse-battery", newPassword: "another-long-password", confirmPassword: "another-long-password" })] };
+    if (c.role === "anonymous")
+      return {
+        args: [
+          null,
+          form({
+            currentPassword: "correct-horse-battery",
+            newPassword: "another-long-password",
+            confirmPassword: "another-long-password",
+          }),
+        ],
+      };
     const u = await freshUser(c.w, c.role);
-    return { cookie: u.cookie, args: [null, form({ currentPassword: "correct-horse-battery", newPassword: "another-long-password", confirmPassword: "another-long-password" })] };
+    return {
+      cookie: u.cookie,
+      args: [
+        null,
+        form({
+          currentPassword: "correct-horse-battery",
+          newPassword: "another-long-password",
+          confirmPassword: "another-long-password",
+        }),
+      ],
+    };
   }),
   "(portal)/settings/token-actions.ts#createTokenAction | —": action(() => ({ args: [`walk ${unique()}`] })),
   "(portal)/settings/token-actions.ts#revokeTokenAction | —": action(
-    async (c) => ({ args: [await freshToken(c.w, c.role === "anonymous" ? c.w.users.providerA : c.w.callers[c.role], c.scope === "own")] }),
+    async (c) => ({
+      args: [
+        await freshToken(
+          c.w,
+          c.role === "anonymous" ? c.w.users.providerA : c.w.callers[c.role],
+          c.scope === "own",
+        ),
+      ],
+    }),
     { scoped: true },
   ),
-  "(portal)/studies/[slug]/actions.ts#updateStudyAction | close the study": action(async (c) => ({ args: [(await study(c)).slug, { status: "closed" }] }), { scoped: true }),
-  "(portal)/studies/[slug]/actions.ts#addMemberAction | admit a provider organisation": action(async (c) => ({ args: [(await study(c)).slug, "provider", String(await freshFarm())] }), {
-    scoped: true,
-  }),
+  "(portal)/studies/[slug]/actions.ts#updateStudyAction | close the study": action(
+    async (c) => ({ args: [(await study(c)).slug, { status: "closed" }] }),
+    { scoped: true },
+  ),
+  "(portal)/studies/[slug]/actions.ts#addMemberAction | admit a provider organisation": action(
+    async (c) => ({ args: [(await study(c)).slug, "provider", String(await freshFarm())] }),
+    {
+      scoped: true,
+    },
+  ),
   "(portal)/studies/[slug]/actions.ts#removeMemberAction | remove the admitted farm": action(
-    async (c) => ({ args: [(await study(c)).slug, "provider", c.scope === "own" ? c.w.farmA.id : c.w.farmB.id] }),
+    async (c) => ({
+      args: [(await study(c)).slug, "provider", c.scope === "own" ? c.w.farmA.id : c.w.farmB.id],
+    }),
     { scoped: true },
   ),
-  "(portal)/studies/[slug]/plan/actions.ts#publishPlanAction | a changed plan": action(async (c) => ({ args: [(await study(c)).slug, DEMO_STUDIES[1]!.plan, "walk"] }), { scoped: true }),
-  "(portal)/studies/actions.ts#createStudyAction | —": action(() => ({ args: [null, form({ slug: `walk-new-${unique()}`, title: "Walk new study", description: "", teamOrganisationId: "" })] })),
+  "(portal)/studies/[slug]/plan/actions.ts#publishPlanAction | a changed plan": action(
+    async (c) => ({ args: [(await study(c)).slug, DEMO_STUDIES[1]!.plan, "walk"] }),
+    { scoped: true },
+  ),
+  "(portal)/studies/actions.ts#createStudyAction | —": action(() => ({
+    args: [
+      null,
+      form({
+        slug: `walk-new-${unique()}`,
+        title: "Walk new study",
+        description: "",
+        teamOrganisationId: "",
+      }),
+    ],
+  })),
 };

@@ -33,8 +33,16 @@ type Spec = {
 const CODE_OF: Record<number, string> = { 401: "unauthenticated", 403: "forbidden", 404: "not_found" };
 
 /** Calls `fn` as the ctx's caller; refusals of the v1 API must carry the matching error code. */
-export async function callRoute(fn: RouteFn, url: string, method: string, ctx: ProbeCtx, spec: Spec): Promise<string> {
-  const path = url.replace(/\[(?:\.\.\.)?(\w+)\]/g, (_m, k: string) => [spec.params?.[k] ?? `[${k}]`].flat().join("/"));
+export async function callRoute(
+  fn: RouteFn,
+  url: string,
+  method: string,
+  ctx: ProbeCtx,
+  spec: Spec,
+): Promise<string> {
+  const path = url.replace(/\[(?:\.\.\.)?(\w+)\]/g, (_m, k: string) =>
+    [spec.params?.[k] ?? `[${k}]`].flat().join("/"),
+  );
   const full = new URL(`http://127.0.0.1:3410${path}`);
   for (const [k, v] of Object.entries(spec.query ?? {})) full.searchParams.set(k, v);
   const headers = new Headers(spec.headers);
@@ -51,7 +59,8 @@ export async function callRoute(fn: RouteFn, url: string, method: string, ctx: P
   const res = await fn(req, { params: Promise.resolve(spec.params ?? {}) });
   if (path.startsWith("/api/v1/") && CODE_OF[res.status]) {
     const json = (await res.json()) as { error?: { code?: string } };
-    if (json.error?.code !== CODE_OF[res.status]) throw new Error(`${method} ${path} answered ${res.status} with error code ${json.error?.code}`);
+    if (json.error?.code !== CODE_OF[res.status])
+      throw new Error(`${method} ${path} answered ${res.status} with error code ${json.error?.code}`);
   } else await res.body?.cancel();
   return String(res.status);
 }
@@ -72,7 +81,10 @@ function route(build: (ctx: ProbeCtx) => Spec | Promise<Spec>, flags: Omit<Probe
 const plain = route(() => ({}));
 const byStudy = route((c) => ({ params: { id: side(c).study.slug } }), { scoped: true });
 const byPool = route((c) => ({ params: { slug: side(c).study.slug } }), { scoped: true });
-const byVersion = route((c) => ({ params: { id: side(c).ready.publicId, version: String(side(c).ready.version) } }), { scoped: true });
+const byVersion = route(
+  (c) => ({ params: { id: side(c).ready.publicId, version: String(side(c).ready.version) } }),
+  { scoped: true },
+);
 
 function csvForm(study: string): FormData {
   const form = new FormData();
@@ -86,25 +98,46 @@ const uploadFiles = () => [{ name: `walk-${++n}.csv`, size: 24, type: "text/csv"
 
 /** Probes by "handler | call" as the README names them. */
 export const ROUTE_PROBES: Record<string, (fn: RouteFn, url: string, method: string) => Probe> = {
-  "GET /api/auth/[...nextauth] | read the session": route(() => ({ params: { nextauth: ["session"] }, next: true })),
+  "GET /api/auth/[...nextauth] | read the session": route(() => ({
+    params: { nextauth: ["session"] },
+    next: true,
+  })),
   "POST /api/auth/[...nextauth] | sign in without the form's CSRF token": route(
     (c) => ({
       params: { nextauth: ["callback", "credentials"] },
       next: true,
       headers: { "content-type": "application/x-www-form-urlencoded" },
-      body: new URLSearchParams({ email: c.w.users.providerA.email, password: "correct-horse-battery" }).toString(),
+      body: new URLSearchParams({
+        email: c.w.users.providerA.email,
+        password: "correct-horse-battery",
+      }).toString(),
     }),
     { mutates: true },
   ),
   "GET /api/uploadthing | the upload route's configuration": route(() => ({ query: { slug: "batchFile" } })),
   "POST /api/uploadthing | prepare an upload to a study": route(
-    (c) => ({ query: { actionType: "upload", slug: "batchFile" }, body: { files: uploadFiles(), input: { studySlug: side(c).study.slug } } }),
+    (c) => ({
+      query: { actionType: "upload", slug: "batchFile" },
+      body: { files: uploadFiles(), input: { studySlug: side(c).study.slug } },
+    }),
     { scoped: true, mutates: true },
   ),
   "POST /api/uploadthing | a callback with a forged signature": route(
     (c) => ({
       headers: { "uploadthing-hook": "callback", "x-uploadthing-signature": "hmac-sha256=" + "0".repeat(64) },
-      body: { status: "uploaded", metadata: { userId: c.w.users.providerA.id, studyId: c.w.studyA.id, batchId: null, label: null }, file: { key: "forged", name: "x.csv", size: 3, url: "http://127.0.0.1/f/forged", fileHash: "0", type: "text/csv", customId: null } },
+      body: {
+        status: "uploaded",
+        metadata: { userId: c.w.users.providerA.id, studyId: c.w.studyA.id, batchId: null, label: null },
+        file: {
+          key: "forged",
+          name: "x.csv",
+          size: 3,
+          url: "http://127.0.0.1/f/forged",
+          fileHash: "0",
+          type: "text/csv",
+          customId: null,
+        },
+      },
     }),
     { mutates: true },
   ),
@@ -114,34 +147,71 @@ export const ROUTE_PROBES: Record<string, (fn: RouteFn, url: string, method: str
   "GET /api/v1/studies/[id] | —": byStudy,
   "GET /api/v1/studies/[id]/plan | —": byStudy,
   "GET /api/v1/batches | —": plain,
-  "POST /api/v1/batches | upload a file to a study": route((c) => ({ form: csvForm(side(c).study.slug) }), { scoped: true, mutates: true, writes: true }),
-  "GET /api/v1/batches/[id] | —": route((c) => ({ params: { id: side(c).ready.publicId } }), { scoped: true }),
+  "POST /api/v1/batches | upload a file to a study": route((c) => ({ form: csvForm(side(c).study.slug) }), {
+    scoped: true,
+    mutates: true,
+    writes: true,
+  }),
+  "GET /api/v1/batches/[id] | —": route((c) => ({ params: { id: side(c).ready.publicId } }), {
+    scoped: true,
+  }),
   "GET /api/v1/queue | —": plain,
   "GET /api/v1/pool | —": plain,
   "GET /api/v1/pool/[slug] | —": byPool,
-  "GET /api/v1/pool/[slug]/if-accepted | —": route((c) => ({ params: { slug: side(c).study.slug }, query: { batch: side(c).ready.publicId, version: "1" } }), { scoped: true }),
+  "GET /api/v1/pool/[slug]/if-accepted | —": route(
+    (c) => ({ params: { slug: side(c).study.slug }, query: { batch: side(c).ready.publicId, version: "1" } }),
+    { scoped: true },
+  ),
   "GET /api/v1/board | —": plain,
   "POST /api/v1/board/digest | —": route(() => ({}), { mutates: true, writes: true }),
   "GET /api/v1/audit | —": plain,
   "GET /api/v1/tokens | —": plain,
-  "POST /api/v1/tokens | —": route(() => ({ body: { name: `walk ${++n}` } }), { mutates: true, writes: true }),
+  "POST /api/v1/tokens | —": route(() => ({ body: { name: `walk ${++n}` } }), {
+    mutates: true,
+    writes: true,
+  }),
   "DELETE /api/v1/tokens/[id] | —": route(
-    async (c) => ({ params: { id: String(await freshToken(c.w, c.role === "anonymous" ? c.w.users.providerA : c.w.callers[c.role], c.scope === "own")) } }),
+    async (c) => ({
+      params: {
+        id: String(
+          await freshToken(
+            c.w,
+            c.role === "anonymous" ? c.w.users.providerA : c.w.callers[c.role],
+            c.scope === "own",
+          ),
+        ),
+      },
+    }),
     { scoped: true, mutates: true, writes: true },
   ),
   "GET /api/v1/admin/users | —": plain,
   "POST /api/v1/admin/users | —": route(
-    (c) => ({ body: { email: `walk-new-${++n}-${process.pid}@f3a.test`, name: "Walk New", role: "analyst", organisationId: c.w.team.id, password: "long-enough-password" } }),
+    (c) => ({
+      body: {
+        email: `walk-new-${++n}-${process.pid}@f3a.test`,
+        name: "Walk New",
+        role: "analyst",
+        organisationId: c.w.team.id,
+        password: "long-enough-password",
+      },
+    }),
     { mutates: true, writes: true },
   ),
-  "PATCH /api/v1/admin/users/[id] | —": route(async (c) => ({ params: { id: String((await freshUser(c.w, "analyst")).id) }, body: { active: false } }), { mutates: true, writes: true }),
+  "PATCH /api/v1/admin/users/[id] | —": route(
+    async (c) => ({ params: { id: String((await freshUser(c.w, "analyst")).id) }, body: { active: false } }),
+    { mutates: true, writes: true },
+  ),
 };
 
 /** Routes that read one batch version (`…/versions/[version]/<what>`) share one probe, also for ones added later. */
-export function routeProbe(handler: string, call: string): ((fn: RouteFn, url: string, method: string) => Probe) | undefined {
+export function routeProbe(
+  handler: string,
+  call: string,
+): ((fn: RouteFn, url: string, method: string) => Probe) | undefined {
   const exact = ROUTE_PROBES[`${handler} | ${call}`];
   if (exact) return exact;
-  if (call === "—" && /^GET \/api\/v1\/batches\/\[id\]\/versions\/\[version\]\/[\w-]+$/.test(handler)) return byVersion;
+  if (call === "—" && /^GET \/api\/v1\/batches\/\[id\]\/versions\/\[version\]\/[\w-]+$/.test(handler))
+    return byVersion;
   if (call === "—" && /^GET \/api\/v1\/pool\/\[slug\]\/[\w-]+$/.test(handler)) return byPool;
   return undefined;
 }

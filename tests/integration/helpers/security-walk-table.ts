@@ -25,7 +25,10 @@ export function parseCell(text: string, where: string): Expect[] {
   const out = parts.map((p) => {
     const m = /^(.*?)(?:\s+(own|other))?$/.exec(p)!;
     const answer = m[1]!.trim();
-    if (!ANSWER.test(answer)) throw new Error(`${where}: "${p}" is not an answer (a status like 200, or ok, sign-in, forbidden, not found, conflict, invalid).`);
+    if (!ANSWER.test(answer))
+      throw new Error(
+        `${where}: "${p}" is not an answer (a status like 200, or ok, sign-in, forbidden, not found, conflict, invalid).`,
+      );
     return { answer, ...(m[2] ? { scope: m[2] as Scope } : {}) };
   });
   const scopes = out.map((e) => e.scope ?? "all");
@@ -48,17 +51,23 @@ export function readAccessTable(readme = readFileSync(path.join(ROOT, "README.md
       if (header && rows.length > 0) break;
       continue;
     }
-    const cells = line.slice(1, line.endsWith("|") ? -1 : undefined).split("|").map((c) => c.trim());
+    const cells = line
+      .slice(1, line.endsWith("|") ? -1 : undefined)
+      .split("|")
+      .map((c) => c.trim());
     if (!header) {
       header = cells;
       const want = ["handler", "call", ...ROLES];
-      if (header.join("|") !== want.join("|")) throw new Error(`README line ${i + 1}: the table's columns must be ${want.join(" | ")}.`);
+      if (header.join("|") !== want.join("|"))
+        throw new Error(`README line ${i + 1}: the table's columns must be ${want.join(" | ")}.`);
       continue;
     }
     if (cells.every((c) => /^:?-+:?$/.test(c))) continue;
-    if (cells.length !== header.length) throw new Error(`README line ${i + 1}: ${cells.length} cells, the header has ${header.length}.`);
+    if (cells.length !== header.length)
+      throw new Error(`README line ${i + 1}: ${cells.length} cells, the header has ${header.length}.`);
     const handler = /^`([^`]+)`$/.exec(cells[0]!)?.[1];
-    if (!handler) throw new Error(`README line ${i + 1}: name the handler in backticks, e.g. \`GET /api/v1/me\`.`);
+    if (!handler)
+      throw new Error(`README line ${i + 1}: name the handler in backticks, e.g. \`GET /api/v1/me\`.`);
     const byRole = {} as Record<Role, Expect[]>;
     ROLES.forEach((r, k) => (byRole[r] = parseCell(cells[k + 2]!, `README line ${i + 1}, column ${r}`)));
     rows.push({ handler, call: cells[1]!, cells: byRole, line: i + 1 });
@@ -90,10 +99,13 @@ export async function inventory(): Promise<Handler[]> {
     if (/(^|\/)route\.tsx?$/.test(rel)) {
       const mod = (await import(/* @vite-ignore */ file)) as Record<string, unknown>;
       const url = "/" + rel.replace(/\/route\.tsx?$/, "");
-      for (const m of HTTP_METHODS) if (typeof mod[m] === "function") out.push({ name: `${m} ${url}`, file, exportName: m, kind: "route" });
+      for (const m of HTTP_METHODS)
+        if (typeof mod[m] === "function")
+          out.push({ name: `${m} ${url}`, file, exportName: m, kind: "route" });
     } else if (/\.tsx?$/.test(rel) && isServerActionFile(readFileSync(file, "utf8"))) {
       const mod = (await import(/* @vite-ignore */ file)) as Record<string, unknown>;
-      for (const [k, v] of Object.entries(mod)) if (typeof v === "function") out.push({ name: `${rel}#${k}`, file, exportName: k, kind: "action" });
+      for (const [k, v] of Object.entries(mod))
+        if (typeof v === "function") out.push({ name: `${rel}#${k}`, file, exportName: k, kind: "action" });
     }
   }
   return out;

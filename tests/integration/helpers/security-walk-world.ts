@@ -12,7 +12,18 @@ import bcrypt from "bcryptjs";
 import { eq, inArray, sql } from "drizzle-orm";
 import { UTFile } from "uploadthing/server";
 import { getDb } from "@/db/client";
-import { batches, batchVersions, checkJobs, dataPlans, organisations, studies, studyAnalysts, studyProviders, users, type UserRole } from "@/db/schema";
+import {
+  batches,
+  batchVersions,
+  checkJobs,
+  dataPlans,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+  users,
+  type UserRole,
+} from "@/db/schema";
 import { startUploadFake, parseUploadToken } from "@/fakes/upload-service";
 import { DEMO_STUDIES, planHash } from "@/lib/demo";
 import { barleyBatches } from "@/lib/demo/batches";
@@ -26,7 +37,11 @@ import { sessionCookieFor } from "./session";
 import { addApiToken, createWorld, WORLD_PASSWORD, type World, type WorldUser } from "./world";
 import type { Role } from "./security-walk-table";
 
-export type Side = { study: { id: number; slug: string }; ready: { publicId: string; version: number }; accepted: { publicId: string; version: number } };
+export type Side = {
+  study: { id: number; slug: string };
+  ready: { publicId: string; version: number };
+  accepted: { publicId: string; version: number };
+};
 export type WalkWorld = World & {
   /** the caller of each role; "own" objects are on side A (farm A, study A), "other" ones on side B */
   callers: Record<Exclude<Role, "anonymous">, WorldUser>;
@@ -56,13 +71,21 @@ export async function stopWalkFileStore(): Promise<void> {
 async function realBatch(provider: WorldUser, studyId: number, csv: string, accept: WorldUser | null) {
   const db = getDb();
   const name = `walk-${randomBytes(3).toString("hex")}.csv`;
-  const stored = await utapi().uploadFiles(new UTFile([csv], name, { type: "text/csv" }), { acl: "private", contentDisposition: "attachment" });
+  const stored = await utapi().uploadFiles(new UTFile([csv], name, { type: "text/csv" }), {
+    acl: "private",
+    contentDisposition: "attachment",
+  });
   if (stored.error || !stored.data) throw new Error(`file fake refused the file: ${stored.error?.message}`);
   await drainQueue();
-  const r = await recordBatchVersion(provider.id, { studyId, batchPublicId: null, title: name }, { key: stored.data.key, url: stored.data.ufsUrl, name, size: csv.length });
+  const r = await recordBatchVersion(
+    provider.id,
+    { studyId, batchPublicId: null, title: name },
+    { key: stored.data.key, url: stored.data.ufsUrl, name, size: csv.length },
+  );
   if (!r.ok) throw new Error(r.message);
   const job = await claimJob(db, "security-walk");
-  if (job?.batchVersionId !== r.data.batchVersionId) throw new Error("the new version's check was not claimed");
+  if (job?.batchVersionId !== r.data.batchVersionId)
+    throw new Error("the new version's check was not claimed");
   await runJob({ db, openFile: (k) => openStoredFile(k) }, job);
   if (accept) {
     const d = await decideVersion(accept.id, r.data.batchPublicId, r.data.version, { decision: "accept" });
@@ -74,7 +97,10 @@ async function realBatch(provider: WorldUser, studyId: number, csv: string, acce
 export async function buildWalkWorld(): Promise<WalkWorld> {
   const w = await createWorld();
   // the world's own batches have no stored file or report: keep them out of the pools
-  await getDb().update(batchVersions).set({ state: "bounced" }).where(inArray(batchVersions.batchId, [w.batchA.id, w.batchB.id]));
+  await getDb()
+    .update(batchVersions)
+    .set({ state: "bounced" })
+    .where(inArray(batchVersions.batchId, [w.batchA.id, w.batchB.id]));
   // the ready one has findings (rows at fault to list); the accepted one is clean
   const [faulty, clean] = [barleyBatches()[1]!.csv, barleyBatches().at(-1)!.csv];
   const side = async (study: World["studyA"], provider: WorldUser): Promise<Side> => ({
@@ -84,7 +110,12 @@ export async function buildWalkWorld(): Promise<WalkWorld> {
   });
   const a = await side(w.studyA, w.users.providerA);
   const b = await side(w.studyB, w.users.providerB);
-  const callers = { provider: w.users.providerA, analyst: w.users.analystA, lead: w.users.lead, admin: w.users.admin };
+  const callers = {
+    provider: w.users.providerA,
+    analyst: w.users.analystA,
+    lead: w.users.lead,
+    admin: w.users.admin,
+  };
   const cookies: Record<Role, string> = { anonymous: "", provider: "", analyst: "", lead: "", admin: "" };
   for (const [role, u] of Object.entries(callers)) cookies[role as Role] = await sessionCookieFor(u);
   return { ...w, callers, cookies, a, b };
@@ -98,7 +129,10 @@ const HASH = bcrypt.hashSync(WORLD_PASSWORD, 4);
 export async function freshUser(w: WalkWorld, role: UserRole): Promise<WorldUser & { cookie: string }> {
   const email = `walk-${role}-${tag()}@f3a.test`;
   const organisationId = role === "provider" ? w.farmA.id : w.team.id;
-  const [row] = await getDb().insert(users).values({ email, name: `Walk ${role}`, role, organisationId, passwordHash: HASH, active: true }).$returningId();
+  const [row] = await getDb()
+    .insert(users)
+    .values({ email, name: `Walk ${role}`, role, organisationId, passwordHash: HASH, active: true })
+    .$returningId();
   const u = { id: row!.id, email, name: `Walk ${role}`, role, organisationId, sessionVersion: 1 };
   return { ...u, cookie: await sessionCookieFor(u) };
 }
@@ -106,7 +140,10 @@ export async function freshUser(w: WalkWorld, role: UserRole): Promise<WorldUser
 /** A throwaway provider organisation (for admitting to a study). */
 export async function freshFarm(): Promise<number> {
   const t = tag();
-  const [row] = await getDb().insert(organisations).values({ name: `Walk farm ${t}`, slug: `walk-farm-${t}`, kind: "provider" }).$returningId();
+  const [row] = await getDb()
+    .insert(organisations)
+    .values({ name: `Walk farm ${t}`, slug: `walk-farm-${t}`, kind: "provider" })
+    .$returningId();
   return row!.id;
 }
 
@@ -114,24 +151,40 @@ export async function freshFarm(): Promise<number> {
 export async function freshStudy(w: WalkWorld, own: boolean): Promise<{ id: number; slug: string }> {
   const db = getDb();
   const slug = `walk-study-${tag()}`;
-  const [row] = await db.insert(studies).values({ slug, title: `Walk ${slug}`, teamOrganisationId: w.team.id }).$returningId();
+  const [row] = await db
+    .insert(studies)
+    .values({ slug, title: `Walk ${slug}`, teamOrganisationId: w.team.id })
+    .$returningId();
   const plan = DEMO_STUDIES[0]!.plan;
   await db.insert(dataPlans).values({ studyId: row!.id, version: 1, plan, planHash: planHash(plan) });
   await db.update(studies).set({ currentPlanVersion: 1 }).where(eq(studies.id, row!.id));
-  await db.insert(studyAnalysts).values({ studyId: row!.id, userId: own ? w.users.analystA.id : w.users.analystB.id });
+  await db
+    .insert(studyAnalysts)
+    .values({ studyId: row!.id, userId: own ? w.users.analystA.id : w.users.analystB.id });
   await db.insert(studyProviders).values({ studyId: row!.id, organisationId: own ? w.farmA.id : w.farmB.id });
   return { id: row!.id, slug };
 }
 
 /** A throwaway version ready for review in study A (own) or B (other); or, with `failed`, one whose check job failed. */
-export async function freshVersion(w: WalkWorld, own: boolean, job?: "failed"): Promise<{ publicId: string; version: number; jobId?: number }> {
+export async function freshVersion(
+  w: WalkWorld,
+  own: boolean,
+  job?: "failed",
+): Promise<{ publicId: string; version: number; jobId?: number }> {
   const db = getDb();
   const study = own ? w.studyA : w.studyB;
   const uploader = own ? w.users.providerA : w.users.providerB;
   const publicId = `w${randomBytes(7).toString("hex")}`;
   const [b] = await db
     .insert(batches)
-    .values({ publicId, studyId: study.id, organisationId: uploader.organisationId!, title: `Walk ${publicId}`, latestVersion: 1, createdById: uploader.id })
+    .values({
+      publicId,
+      studyId: study.id,
+      organisationId: uploader.organisationId!,
+      title: `Walk ${publicId}`,
+      latestVersion: 1,
+      createdById: uploader.id,
+    })
     .$returningId();
   const [plan] = await db.select({ id: dataPlans.id }).from(dataPlans).where(eq(dataPlans.studyId, study.id));
   const [v] = await db
@@ -149,7 +202,16 @@ export async function freshVersion(w: WalkWorld, own: boolean, job?: "failed"): 
     })
     .$returningId();
   if (!job) return { publicId, version: 1 };
-  const [j] = await db.insert(checkJobs).values({ batchVersionId: v!.id, status: "failed", attempts: 3, lastError: "walk: a failed check", finishedAt: new Date() }).$returningId();
+  const [j] = await db
+    .insert(checkJobs)
+    .values({
+      batchVersionId: v!.id,
+      status: "failed",
+      attempts: 3,
+      lastError: "walk: a failed check",
+      finishedAt: new Date(),
+    })
+    .$returningId();
   return { publicId, version: 1, jobId: j!.id };
 }
 
@@ -158,10 +220,29 @@ export async function freshToken(w: WalkWorld, user: WorldUser, own: boolean): P
   return (await addApiToken(own ? user : w.users.providerB)).id;
 }
 
-const TABLES = ["users", "organisations", "studies", "data_plans", "study_analysts", "study_providers", "batches", "batch_versions", "check_jobs", "reports", "decisions", "finding_comments", "api_tokens", "user_tokens", "email_outbox", "audit_events"];
+const TABLES = [
+  "users",
+  "organisations",
+  "studies",
+  "data_plans",
+  "study_analysts",
+  "study_providers",
+  "batches",
+  "batch_versions",
+  "check_jobs",
+  "reports",
+  "decisions",
+  "finding_comments",
+  "api_tokens",
+  "user_tokens",
+  "email_outbox",
+  "audit_events",
+];
 
 /** A checksum of every table a call could change (MariaDB's CHECKSUM TABLE over all rows). */
 export async function dataSnapshot(): Promise<string> {
-  const [rows] = (await getDb().execute(sql.raw(`CHECKSUM TABLE ${TABLES.join(", ")}`))) as unknown as [{ Table: string; Checksum: string | number }[]];
+  const [rows] = (await getDb().execute(sql.raw(`CHECKSUM TABLE ${TABLES.join(", ")}`))) as unknown as [
+    { Table: string; Checksum: string | number }[],
+  ];
   return rows.map((r) => `${r.Table}=${r.Checksum}`).join(" ");
 }

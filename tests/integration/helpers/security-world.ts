@@ -41,7 +41,13 @@ export async function stopFileStore(): Promise<void> {
 /** A session cookie of the seeded user with this e-mail. */
 export async function cookieOf(email: string): Promise<string> {
   const [u] = await getDb()
-    .select({ id: users.id, email: users.email, name: users.name, role: users.role, sessionVersion: users.sessionVersion })
+    .select({
+      id: users.id,
+      email: users.email,
+      name: users.name,
+      role: users.role,
+      sessionVersion: users.sessionVersion,
+    })
     .from(users)
     .where(eq(users.email, email));
   if (!u) throw new Error(`no user ${email}`);
@@ -49,14 +55,24 @@ export async function cookieOf(email: string): Promise<string> {
 }
 
 /** Calls a route handler as `email` (anonymous when null). */
-export async function callAs<P extends Record<string, string>>(handler: Handler<P>, url: string, params: P, email: string | null): Promise<Response> {
+export async function callAs<P extends Record<string, string>>(
+  handler: Handler<P>,
+  url: string,
+  params: P,
+  email: string | null,
+): Promise<Response> {
   const headers = new Headers();
   if (email) headers.set("cookie", await cookieOf(email));
-  return handler(new Request(`http://127.0.0.1:3410${url}`, { headers }), { params: Promise.resolve(params) });
+  return handler(new Request(`http://127.0.0.1:3410${url}`, { headers }), {
+    params: Promise.resolve(params),
+  });
 }
 
 /** Uploads through POST /api/v1/batches as `email`; the answer's status and body. */
-export async function apiUpload(email: string, fields: { study: string; file: File; label?: string; batch?: string }) {
+export async function apiUpload(
+  email: string,
+  fields: { study: string; file: File; label?: string; batch?: string },
+) {
   await drainQueue();
   const form = new FormData();
   form.append("study", fields.study);
@@ -64,10 +80,20 @@ export async function apiUpload(email: string, fields: { study: string; file: Fi
   if (fields.label !== undefined) form.append("label", fields.label);
   if (fields.batch !== undefined) form.append("batch", fields.batch);
   const res = await uploadRoute(
-    new Request("http://127.0.0.1:3410/api/v1/batches", { method: "POST", headers: { cookie: await cookieOf(email) }, body: form }),
+    new Request("http://127.0.0.1:3410/api/v1/batches", {
+      method: "POST",
+      headers: { cookie: await cookieOf(email) },
+      body: form,
+    }),
     { params: Promise.resolve({}) },
   );
-  return { status: res.status, body: (await res.json()) as { data?: { batchId: string; version: number }; error?: { code: string; message: string } } };
+  return {
+    status: res.status,
+    body: (await res.json()) as {
+      data?: { batchId: string; version: number };
+      error?: { code: string; message: string };
+    },
+  };
 }
 
 /** Runs the queued check with the worker's code, reading the file from the store. */
@@ -78,9 +104,13 @@ export async function runNextCheck() {
 }
 
 /** Upload and check; throws unless the upload was taken. */
-export async function uploadChecked(email: string, fields: { study: string; file: File; label?: string; batch?: string }) {
+export async function uploadChecked(
+  email: string,
+  fields: { study: string; file: File; label?: string; batch?: string },
+) {
   const up = await apiUpload(email, fields);
-  if (up.status !== 201 || !up.body.data) throw new Error(`upload refused: ${up.status} ${JSON.stringify(up.body)}`);
+  if (up.status !== 201 || !up.body.data)
+    throw new Error(`upload refused: ${up.status} ${JSON.stringify(up.body)}`);
   const report = await runNextCheck();
   return { batchId: up.body.data.batchId, version: up.body.data.version, report };
 }

@@ -17,22 +17,40 @@ function secret(): string {
 }
 
 /** The JWT next-auth stores at sign-in for this user (via the real jwt callback). */
-export async function jwtAtSignIn(user: Pick<WorldUser, "id" | "email" | "name" | "role" | "sessionVersion">): Promise<JWT> {
-  const signedIn: User = { id: String(user.id), email: user.email, name: user.name, role: user.role, sv: user.sessionVersion };
+export async function jwtAtSignIn(
+  user: Pick<WorldUser, "id" | "email" | "name" | "role" | "sessionVersion">,
+): Promise<JWT> {
+  const signedIn: User = {
+    id: String(user.id),
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    sv: user.sessionVersion,
+  };
   const jwt = authOptions.callbacks?.jwt;
   if (!jwt) throw new Error("authOptions has no jwt callback");
   // next-auth seeds the token with name, email and sub before calling the callback
-  return jwt({ token: { name: user.name, email: user.email, sub: String(user.id) }, user: signedIn, account: null, trigger: "signIn" });
+  return jwt({
+    token: { name: user.name, email: user.email, sub: String(user.id) },
+    user: signedIn,
+    account: null,
+    trigger: "signIn",
+  });
 }
 
 /** A `Cookie` header value carrying a signed-in session for `user`. */
-export async function sessionCookieFor(user: Pick<WorldUser, "id" | "email" | "name" | "role" | "sessionVersion">): Promise<string> {
+export async function sessionCookieFor(
+  user: Pick<WorldUser, "id" | "email" | "name" | "role" | "sessionVersion">,
+): Promise<string> {
   const token = await encode({ token: await jwtAtSignIn(user), secret: secret() });
   return `${SESSION_COOKIE}=${token}`;
 }
 
 /** A cookie with a JWT encrypted under another secret: must be treated as no session. */
 export async function forgedSessionCookie(user: WorldUser): Promise<string> {
-  const token = await encode({ token: await jwtAtSignIn(user), secret: "not-the-app-secret-0123456789abcdef" });
+  const token = await encode({
+    token: await jwtAtSignIn(user),
+    secret: "not-the-app-secret-0123456789abcdef",
+  });
   return `${SESSION_COOKIE}=${token}`;
 }

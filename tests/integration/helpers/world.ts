@@ -8,13 +8,31 @@ import { randomBytes } from "node:crypto";
 import bcrypt from "bcryptjs";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { apiTokens, batches, batchVersions, dataPlans, organisations, studies, studyAnalysts, studyProviders, users, type UserRole } from "@/db/schema";
+import {
+  apiTokens,
+  batches,
+  batchVersions,
+  dataPlans,
+  organisations,
+  studies,
+  studyAnalysts,
+  studyProviders,
+  users,
+  type UserRole,
+} from "@/db/schema";
 import { generateApiToken } from "@/lib/auth/api-tokens";
 import { DEMO_STUDIES, planHash } from "@/lib/demo";
 
 export const WORLD_PASSWORD = "correct-horse-battery";
 
-export type WorldUser = { id: number; email: string; name: string; role: UserRole; organisationId: number | null; sessionVersion: number };
+export type WorldUser = {
+  id: number;
+  email: string;
+  name: string;
+  role: UserRole;
+  organisationId: number | null;
+  sessionVersion: number;
+};
 
 export type World = {
   tag: string;
@@ -38,10 +56,18 @@ export type World = {
 // bcrypt cost 4 keeps the fixtures fast; the sign-in code reads the cost from the hash
 const HASH = bcrypt.hashSync(WORLD_PASSWORD, 4);
 
-async function addUser(tag: string, key: string, role: UserRole, organisationId: number | null): Promise<WorldUser> {
+async function addUser(
+  tag: string,
+  key: string,
+  role: UserRole,
+  organisationId: number | null,
+): Promise<WorldUser> {
   const email = `${key}.${tag}@f3a.test`;
   const name = `${key} ${tag}`;
-  const [row] = await getDb().insert(users).values({ email, name, role, organisationId, passwordHash: HASH, active: true }).$returningId();
+  const [row] = await getDb()
+    .insert(users)
+    .values({ email, name, role, organisationId, passwordHash: HASH, active: true })
+    .$returningId();
   if (!row) throw new Error("no user id");
   return { id: row.id, email, name, role, organisationId, sessionVersion: 1 };
 }
@@ -50,7 +76,10 @@ export async function createWorld(): Promise<World> {
   const db = getDb();
   const tag = randomBytes(4).toString("hex");
   const org = async (name: string, kind: "provider" | "team") => {
-    const [row] = await db.insert(organisations).values({ name: `${name} ${tag}`, slug: `${name.toLowerCase().replace(/\s+/g, "-")}-${tag}`, kind }).$returningId();
+    const [row] = await db
+      .insert(organisations)
+      .values({ name: `${name} ${tag}`, slug: `${name.toLowerCase().replace(/\s+/g, "-")}-${tag}`, kind })
+      .$returningId();
     if (!row) throw new Error("no organisation id");
     return { id: row.id, name: `${name} ${tag}` };
   };
@@ -68,7 +97,10 @@ export async function createWorld(): Promise<World> {
   };
 
   const study = async (slug: string) => {
-    const [row] = await db.insert(studies).values({ slug: `${slug}-${tag}`, title: `Study ${slug} ${tag}`, teamOrganisationId: team.id }).$returningId();
+    const [row] = await db
+      .insert(studies)
+      .values({ slug: `${slug}-${tag}`, title: `Study ${slug} ${tag}`, teamOrganisationId: team.id })
+      .$returningId();
     if (!row) throw new Error("no study id");
     // a real, valid plan (the demo barley plan), so code that parses every study's plan is not upset by ours
     const plan = DEMO_STUDIES[0]!.plan;
@@ -88,11 +120,29 @@ export async function createWorld(): Promise<World> {
     { studyId: studyB.id, organisationId: farmB.id },
   ]);
 
-  const batch = async (studyId: number, organisationId: number, uploader: WorldUser, state: "ready" | "accepted") => {
+  const batch = async (
+    studyId: number,
+    organisationId: number,
+    uploader: WorldUser,
+    state: "ready" | "accepted",
+  ) => {
     const publicId = `t${tag}${randomBytes(6).toString("hex")}`;
-    const [row] = await db.insert(batches).values({ publicId, studyId, organisationId, title: `Batch ${publicId}`, latestVersion: 1, createdById: uploader.id }).$returningId();
+    const [row] = await db
+      .insert(batches)
+      .values({
+        publicId,
+        studyId,
+        organisationId,
+        title: `Batch ${publicId}`,
+        latestVersion: 1,
+        createdById: uploader.id,
+      })
+      .$returningId();
     if (!row) throw new Error("no batch id");
-    const [plan] = await db.select({ id: dataPlans.id }).from(dataPlans).where(eq(dataPlans.studyId, studyId));
+    const [plan] = await db
+      .select({ id: dataPlans.id })
+      .from(dataPlans)
+      .where(eq(dataPlans.studyId, studyId));
     await db.insert(batchVersions).values({
       batchId: row.id,
       version: 1,
@@ -113,11 +163,20 @@ export async function createWorld(): Promise<World> {
 }
 
 /** Inserts an API token for `user` directly and returns its value. */
-export async function addApiToken(user: WorldUser, opts: { revoked?: boolean } = {}): Promise<{ id: number; token: string }> {
+export async function addApiToken(
+  user: WorldUser,
+  opts: { revoked?: boolean } = {},
+): Promise<{ id: number; token: string }> {
   const { token, hash, prefix } = generateApiToken();
   const [row] = await getDb()
     .insert(apiTokens)
-    .values({ userId: user.id, name: "test token", tokenHash: hash, prefix, revokedAt: opts.revoked ? new Date() : null })
+    .values({
+      userId: user.id,
+      name: "test token",
+      tokenHash: hash,
+      prefix,
+      revokedAt: opts.revoked ? new Date() : null,
+    })
     .$returningId();
   if (!row) throw new Error("no token id");
   return { id: row.id, token };

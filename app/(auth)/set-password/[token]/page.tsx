@@ -15,14 +15,20 @@ export default async function SetPasswordPage({ params }: { params: Promise<{ to
       <>
         <h1 className="text-2xl font-semibold">This link no longer works</h1>
         <p className="mt-2 text-base">
-          It has expired or was already used. <Link href="/forgot-password" className="text-channel underline">Ask for a new link</Link>, or ask the person who invited you.
+          It has expired or was already used.{" "}
+          <Link href="/forgot-password" className="text-channel underline">
+            Ask for a new link
+          </Link>
+          , or ask the person who invited you.
         </p>
       </>
     );
   }
   return (
     <>
-      <h1 className="text-2xl font-semibold">{link.kind === "invite" ? `Welcome, ${link.name}` : "Choose a new password"}</h1>
+      <h1 className="text-2xl font-semibold">
+        {link.kind === "invite" ? `Welcome, ${link.name}` : "Choose a new password"}
+      </h1>
       <p className="mt-1 mb-6 text-md text-ink-soft">For {link.email}.</p>
       <SetPasswordForm token={token} minLength={PASSWORD_MIN_LENGTH} save={setPasswordAction} />
     </>

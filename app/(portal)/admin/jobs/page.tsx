@@ -20,7 +20,10 @@ export default async function JobsPage() {
         title="Checks waiting, running or failed"
         description="A check that failed three times stops here with its error; retry it once the cause (a missing file, the file store down) is fixed."
       />
-      <JobsTable jobs={jobs.map((j) => ({ ...j, createdAt: j.createdAt.toISOString() }))} retry={retryJobAction} />
+      <JobsTable
+        jobs={jobs.map((j) => ({ ...j, createdAt: j.createdAt.toISOString() }))}
+        retry={retryJobAction}
+      />
     </>
   );
 }

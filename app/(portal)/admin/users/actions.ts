@@ -19,7 +19,12 @@ export async function createUserAction(_prev: CreateUserState, form: FormData): 
   const actor = await getCurrentUser();
   if (!actor) return fail(SIGNED_OUT, undefined, "unauthenticated");
   // this form sets a password, so it is for admins only; leads invite through /invite, where the person chooses it
-  if (!can(actor.role, "user.manage")) return fail("Only admins create accounts with a password; invite people instead.", undefined, "forbidden");
+  if (!can(actor.role, "user.manage"))
+    return fail(
+      "Only admins create accounts with a password; invite people instead.",
+      undefined,
+      "forbidden",
+    );
   const parsed = createUserSchema.safeParse(Object.fromEntries(form));
   if (!parsed.success) return fail("Check the marked fields.", fieldErrorsOf(parsed.error.issues));
   const res = await createUser(actor.id, parsed.data, { ip: await requestAddress() });
@@ -46,7 +51,8 @@ export async function setActiveAction(userId: number, active: boolean): Promise<
   const actor = await getCurrentUser();
   if (!actor) return fail(SIGNED_OUT, undefined, "unauthenticated");
   const id = userIdSchema.safeParse(userId);
-  if (!id.success || typeof active !== "boolean") return fail("That user could not be found; reload the page.");
+  if (!id.success || typeof active !== "boolean")
+    return fail("That user could not be found; reload the page.");
   const res = await setActive(actor.id, id.data, active);
   if (!res.ok) return res;
   revalidatePath("/admin/users");

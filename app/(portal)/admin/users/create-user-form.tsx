@@ -14,7 +14,13 @@ import { createUserAction, type CreateUserState } from "./actions";
 
 type Org = { id: number; name: string; kind: "provider" | "team" };
 
-export function CreateUserForm({ organisations, passwordMinLength }: { organisations: Org[]; passwordMinLength: number }) {
+export function CreateUserForm({
+  organisations,
+  passwordMinLength,
+}: {
+  organisations: Org[];
+  passwordMinLength: number;
+}) {
   const hydrated = useHydrated();
   const [state, action, pending] = useActionState<CreateUserState, FormData>(createUserAction, null);
   const [role, setRole] = useState<UserRole>("provider");
@@ -33,14 +39,19 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
   }, [state]);
 
   // providers belong to a provider organisation; the others to a study team
-  const choices = organisations.filter((o) => (role === "provider" ? o.kind === "provider" : o.kind === "team"));
+  const choices = organisations.filter((o) =>
+    role === "provider" ? o.kind === "provider" : o.kind === "team",
+  );
 
   return (
     <form
       method="post"
       ref={formRef}
       onSubmit={submitFormData(action)}
-      noValidate className="grid max-w-4xl gap-4 sm:grid-cols-2 lg:grid-cols-3" aria-label="Create a user">
+      noValidate
+      className="grid max-w-4xl gap-4 sm:grid-cols-2 lg:grid-cols-3"
+      aria-label="Create a user"
+    >
       <Field id="new-name" label="Name" errors={errors.name}>
         <Input name="name" autoComplete="off" required maxLength={200} />
       </Field>
@@ -66,8 +77,19 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
           ))}
         </Select>
       </Field>
-      <Field id="new-password" label="First password" hint={`At least ${passwordMinLength} characters.`} errors={errors.password}>
-        <Input name="password" type="password" autoComplete="new-password" required minLength={passwordMinLength} />
+      <Field
+        id="new-password"
+        label="First password"
+        hint={`At least ${passwordMinLength} characters.`}
+        errors={errors.password}
+      >
+        <Input
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          required
+          minLength={passwordMinLength}
+        />
       </Field>
       <div className="flex items-end gap-3 self-start pt-6">
         <Button type="submit" disabled={!hydrated} busy={pending}>
@@ -75,7 +97,9 @@ export function CreateUserForm({ organisations, passwordMinLength }: { organisat
         </Button>
       </div>
       <p aria-live="polite" className="text-sm text-clay sm:col-span-2 lg:col-span-3">
-        {state && !state.ok && state.fieldErrors ? `${state.message}${errors._form ? ` ${errors._form.join(" ")}` : ""}` : ""}
+        {state && !state.ok && state.fieldErrors
+          ? `${state.message}${errors._form ? ` ${errors._form.join(" ")}` : ""}`
+          : ""}
       </p>
     </form>
   );

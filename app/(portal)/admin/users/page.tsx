@@ -37,7 +37,11 @@ export default async function AdminUsersPage() {
           }))}
         />
       </Section>
-      <Section id="create" title="Create a user" note="Give the new user their password by a safe route; they can change it under Settings.">
+      <Section
+        id="create"
+        title="Create a user"
+        note="Give the new user their password by a safe route; they can change it under Settings."
+      >
         <CreateUserForm
           organisations={orgs.map((o) => ({ id: o.id, name: o.name, kind: o.kind }))}
           passwordMinLength={PASSWORD_MIN_LENGTH}

@@ -31,7 +31,13 @@ function RoleCell({ row, self }: { row: UserRow; self: boolean }) {
       aria-label={`Role of ${row.email}`}
       value={value}
       disabled={pending || locked}
-      title={self ? "You cannot change your own role" : row.role === "provider" ? "A provider account stays a provider; create a team account instead" : undefined}
+      title={
+        self
+          ? "You cannot change your own role"
+          : row.role === "provider"
+            ? "A provider account stays a provider; create a team account instead"
+            : undefined
+      }
       className="h-7 w-full py-0 text-sm"
       onChange={(e) => {
         const next = e.target.value as UserRole;
@@ -70,7 +76,12 @@ function ActiveCell({ row, self }: { row: UserRow; self: boolean }) {
       onClick={() =>
         start(async () => {
           const res = await setActiveAction(row.id, !row.active);
-          if (res.ok) toast.success(row.active ? `${row.name} is deactivated and can no longer sign in.` : `${row.name} can sign in again.`);
+          if (res.ok)
+            toast.success(
+              row.active
+                ? `${row.name} is deactivated and can no longer sign in.`
+                : `${row.name} can sign in again.`,
+            );
           else toast.error(res.message);
         })
       }
@@ -82,7 +93,13 @@ function ActiveCell({ row, self }: { row: UserRow; self: boolean }) {
 
 export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUserId: number }) {
   const columns: Column<UserRow>[] = [
-    { key: "name", header: "Name", width: "minmax(10rem, 2fr)", value: (r) => r.name, render: (r) => <span className="font-semibold">{r.name}</span> },
+    {
+      key: "name",
+      header: "Name",
+      width: "minmax(10rem, 2fr)",
+      value: (r) => r.name,
+      render: (r) => <span className="font-semibold">{r.name}</span>,
+    },
     { key: "email", header: "E-mail", width: "minmax(13rem, 3fr)", value: (r) => r.email },
     {
       key: "role",
@@ -91,7 +108,12 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
       value: (r) => r.role,
       render: (r) => <RoleCell key={`${r.id}-${r.role}`} row={r} self={r.id === currentUserId} />,
     },
-    { key: "organisation", header: "Organisation", width: "minmax(11rem, 2fr)", value: (r) => r.organisationName },
+    {
+      key: "organisation",
+      header: "Organisation",
+      width: "minmax(11rem, 2fr)",
+      value: (r) => r.organisationName,
+    },
     {
       key: "active",
       header: "Status",
@@ -99,7 +121,13 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
       value: (r) => (r.active ? "active" : "deactivated"),
       render: (r) => (r.active ? <Badge tone="reed">Active</Badge> : <Badge tone="clay">Deactivated</Badge>),
     },
-    { key: "created", header: "Created", width: "8rem", value: (r) => r.createdAt, render: (r) => <span className="tabular">{formatDate(r.createdAt)}</span> },
+    {
+      key: "created",
+      header: "Created",
+      width: "8rem",
+      value: (r) => r.createdAt,
+      render: (r) => <span className="tabular">{formatDate(r.createdAt)}</span>,
+    },
     {
       key: "actions",
       header: "Access",
@@ -110,5 +138,13 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
       render: (r) => <ActiveCell row={r} self={r.id === currentUserId} />,
     },
   ];
-  return <DataTable rows={rows} columns={columns} caption="Users" csvName="tributary-users" filterPlaceholder="Filter by name, e-mail, role…" />;
+  return (
+    <DataTable
+      rows={rows}
+      columns={columns}
+      caption="Users"
+      csvName="tributary-users"
+      filterPlaceholder="Filter by name, e-mail, role…"
+    />
+  );
 }

@@ -19,7 +19,13 @@ import { formatBytes, formatDateTime } from "@/lib/format";
 
 export const metadata = { title: "Batch" };
 
-export default async function BatchPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<{ v?: string }> }) {
+export default async function BatchPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<{ v?: string }>;
+}) {
   const user = await requireUser();
   const { id } = await params;
   const { v } = await searchParams;
@@ -31,7 +37,10 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
   const { batch, version, report } = found;
 
   // compare with the previous version, finding by finding
-  let previous: { resolved: NonNullable<typeof report>["findings"]; status: Map<string, "remains" | "new"> } | null = null;
+  let previous: {
+    resolved: NonNullable<typeof report>["findings"];
+    status: Map<string, "remains" | "new">;
+  } | null = null;
   if (report && version.version > 1) {
     const prev = await getVersionReportForUser(user, id, version.version - 1, batchInfo);
     if (prev?.report) {
@@ -39,14 +48,18 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
       const now = new Set(report.findings.map(findingKey));
       previous = {
         resolved: prev.report.findings.filter((f) => !now.has(findingKey(f))),
-        status: new Map(report.findings.map((f) => [findingKey(f), before.has(findingKey(f)) ? "remains" : "new"])),
+        status: new Map(
+          report.findings.map((f) => [findingKey(f), before.has(findingKey(f)) ? "remains" : "new"]),
+        ),
       };
     }
   }
   const fix = await getVersionFixForUser(user, id, version.version, batchInfo);
   const isProvider = user.role === "provider" && can(user.role, "batch.upload");
   const canDecide =
-    can(user.role, "batch.decide") && version.version === batch.latestVersion && (version.state === "ready" || version.state === "unreadable");
+    can(user.role, "batch.decide") &&
+    version.version === batch.latestVersion &&
+    (version.state === "ready" || version.state === "unreadable");
   const canResubmit = isProvider && version.version === batch.latestVersion && batch.state !== "accepted";
 
   return (
@@ -56,16 +69,21 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
         title={batch.title}
         description={
           <>
-            Version {version.version} of {batch.latestVersion}: <span className="font-mono text-sm">{version.fileName}</span> ({formatBytes(version.fileSize)}),
+            Version {version.version} of {batch.latestVersion}:{" "}
+            <span className="font-mono text-sm">{version.fileName}</span> ({formatBytes(version.fileSize)}),
             uploaded {formatDateTime(version.uploadedAt)}
-            {version.uploadedByName ? ` by ${version.uploadedByName}` : ""}, checked against data plan version {found.plan.version}.
+            {version.uploadedByName ? ` by ${version.uploadedByName}` : ""}, checked against data plan version{" "}
+            {found.plan.version}.
           </>
         }
         actions={
           <>
             <StateBadge state={version.state} />
             {canDecide && report && !found.decision ? (
-              <a href="#decide" className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+              <a
+                href="#decide"
+                className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep"
+              >
                 Decide ↓
               </a>
             ) : null}
@@ -91,7 +109,10 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
               </a>
             ) : null}
             {canResubmit ? (
-              <Link href={`/batches/${batch.publicId}/new-version`} className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep">
+              <Link
+                href={`/batches/${batch.publicId}/new-version`}
+                className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep"
+              >
                 Upload a new version
               </Link>
             ) : null}
@@ -117,16 +138,25 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
       <CheckProgress batchId={batch.publicId} version={version.version} state={version.state} />
 
       {previous ? (
-        <Section title={`Since version ${version.version - 1}`} id="since" note="Findings are matched by code and columns.">
+        <Section
+          title={`Since version ${version.version - 1}`}
+          id="since"
+          note="Findings are matched by code and columns."
+        >
           <p className="text-sm tabular-nums" data-testid="since-previous">
-            {previous.resolved.length} resolved · {[...previous.status.values()].filter((s) => s === "remains").length} remain ·{" "}
+            {previous.resolved.length} resolved ·{" "}
+            {[...previous.status.values()].filter((s) => s === "remains").length} remain ·{" "}
             {[...previous.status.values()].filter((s) => s === "new").length} new
           </p>
           {previous.resolved.length ? (
             <ul className="mt-2 grid gap-1 text-sm">
               {previous.resolved.map((f, i) => (
                 <li key={i} className="text-reed-ink">
-                  ✓ Resolved: <code className="text-xs">{f.code}</code> {f.columns.length ? <span className="font-mono text-xs">({f.columns.join(", ")})</span> : null} — {f.message}
+                  ✓ Resolved: <code className="text-xs">{f.code}</code>{" "}
+                  {f.columns.length ? (
+                    <span className="font-mono text-xs">({f.columns.join(", ")})</span>
+                  ) : null}{" "}
+                  — {f.message}
                 </li>
               ))}
             </ul>
@@ -136,17 +166,26 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
 
       {found.decision ? (
         <Section title={found.decision.decision === "accept" ? "Accepted" : "Bounced"} id="decision">
-          <div className={`rounded border-l-4 px-4 py-3 ${found.decision.decision === "accept" ? "border-reed bg-reed-wash" : "border-clay bg-clay-wash"}`} data-testid="decision">
+          <div
+            className={`rounded border-l-4 px-4 py-3 ${found.decision.decision === "accept" ? "border-reed bg-reed-wash" : "border-clay bg-clay-wash"}`}
+            data-testid="decision"
+          >
             <p className="text-sm">
-              {found.decision.decision === "accept" ? "Accepted" : "Bounced"} by {found.decision.decidedBy} on {formatDateTime(found.decision.decidedAt)}.
+              {found.decision.decision === "accept" ? "Accepted" : "Bounced"} by {found.decision.decidedBy} on{" "}
+              {formatDateTime(found.decision.decidedAt)}.
             </p>
-            {found.decision.comment ? <p className="mt-2 whitespace-pre-wrap text-base">{found.decision.comment}</p> : null}
+            {found.decision.comment ? (
+              <p className="mt-2 whitespace-pre-wrap text-base">{found.decision.comment}</p>
+            ) : null}
             {found.decision.findingComments.length ? (
               <ul className="mt-2 grid gap-1 text-sm">
                 {found.decision.findingComments.map((c, i) => (
                   <li key={i}>
                     <code className="text-xs">{c.code}</code>
-                    {c.columns.length ? <span className="font-mono text-xs"> ({c.columns.join(", ")})</span> : null}: {c.comment}
+                    {c.columns.length ? (
+                      <span className="font-mono text-xs"> ({c.columns.join(", ")})</span>
+                    ) : null}
+                    : {c.comment}
                   </li>
                 ))}
               </ul>
@@ -155,14 +194,33 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
         </Section>
       ) : null}
 
-      {fix ? <MachineCorrected batchId={batch.publicId} version={version.version} fix={fix} preview={fix.preview} /> : null}
+      {fix ? (
+        <MachineCorrected
+          batchId={batch.publicId}
+          version={version.version}
+          fix={fix}
+          preview={fix.preview}
+        />
+      ) : null}
 
       {canResubmit && report?.status === "checked" ? (
-        <FixPanel batchId={batch.publicId} studySlug={batch.studySlug} version={version.version} fileName={version.fileName} plan={found.plan.plan} report={{ ...report, state: undefined }} />
+        <FixPanel
+          batchId={batch.publicId}
+          studySlug={batch.studySlug}
+          version={version.version}
+          fileName={version.fileName}
+          plan={found.plan.plan}
+          report={{ ...report, state: undefined }}
+        />
       ) : null}
 
       {report ? (
-        <ReportView report={report} plan={found.plan.plan} csvPrefix={`${batch.publicId}-v${version.version}`} findingStatus={previous?.status} />
+        <ReportView
+          report={report}
+          plan={found.plan.plan}
+          csvPrefix={`${batch.publicId}-v${version.version}`}
+          findingStatus={previous?.status}
+        />
       ) : version.state === "received" || version.state === "checking" ? null : (
         <p className="text-base">No readiness report is stored for this version.</p>
       )}
@@ -170,8 +228,18 @@ export default async function BatchPage({ params, searchParams }: { params: Prom
       <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
 
       {canDecide && report && !found.decision ? (
-        <Section title="Decision" id="decide" note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments.">
-          <DecisionForm batchId={batch.publicId} version={version.version} findings={report.findings} canAccept={version.state === "ready"} decide={decideAction} />
+        <Section
+          title="Decision"
+          id="decide"
+          note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments."
+        >
+          <DecisionForm
+            batchId={batch.publicId}
+            version={version.version}
+            findings={report.findings}
+            canAccept={version.state === "ready"}
+            decide={decideAction}
+          />
         </Section>
       ) : null}
     </>

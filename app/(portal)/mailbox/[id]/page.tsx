@@ -17,8 +17,19 @@ export default async function MailPage({ params }: { params: Promise<{ id: strin
   if (!m) notFound();
   return (
     <>
-      <PageHeader eyebrow={<Link href="/mailbox" className="underline">Mailbox</Link>} title={m.subject} description={`From ${m.from} to ${m.to.join(", ")}, ${formatDateTime(m.receivedAt)}`} />
-      <pre className="whitespace-pre-wrap rounded border border-silt-line bg-white p-4 font-sans text-base" data-testid="mail-text">
+      <PageHeader
+        eyebrow={
+          <Link href="/mailbox" className="underline">
+            Mailbox
+          </Link>
+        }
+        title={m.subject}
+        description={`From ${m.from} to ${m.to.join(", ")}, ${formatDateTime(m.receivedAt)}`}
+      />
+      <pre
+        className="whitespace-pre-wrap rounded border border-silt-line bg-white p-4 font-sans text-base"
+        data-testid="mail-text"
+      >
         {linkify(m.text)}
       </pre>
     </>

@@ -2,7 +2,13 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader, Section } from "@/components/ui";
 import { DfLedger, ledgerOf } from "@/components/report/df-ledger";
-import { CoefficientsTable, CollinearityTable, ColumnsTable, FindingsTable, LevelBars } from "@/components/report/report-tables";
+import {
+  CoefficientsTable,
+  CollinearityTable,
+  ColumnsTable,
+  FindingsTable,
+  LevelBars,
+} from "@/components/report/report-tables";
 import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "@/components/report/report-pictures";
 import { MembersTable } from "@/components/pool/members-table";
 import { PoolFigures } from "@/components/pool/pool-figures";
@@ -33,24 +39,43 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
   return (
     <>
       <PageHeader
-        eyebrow={<Link href="/pool" className="underline">Pools</Link>}
+        eyebrow={
+          <Link href="/pool" className="underline">
+            Pools
+          </Link>
+        }
         title={`Pool of ${pool.title}`}
         description={`The ${pool.members.length} accepted ${pool.members.length === 1 ? "version" : "versions"} of this study combined under data plan version ${pool.planVersion}, merged from the engine states stored with each version — no file is read again.`}
         actions={
           <>
-            <a className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows" href={`${api}/rows`} download data-testid="export-rows">
+            <a
+              className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows"
+              href={`${api}/rows`}
+              download
+              data-testid="export-rows"
+            >
               Rows CSV
             </a>
-            <a className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows" href={`${api}/dictionary?format=csv`} download>
+            <a
+              className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows"
+              href={`${api}/dictionary?format=csv`}
+              download
+            >
               Data dictionary CSV
             </a>
-            <a className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows" href={`${api}/dictionary`}>
+            <a
+              className="rounded border border-channel px-3 py-1.5 text-sm text-channel hover:bg-shallows"
+              href={`${api}/dictionary`}
+            >
               JSON
             </a>
           </>
         }
       />
-      <div className={`mb-6 rounded border-l-4 px-4 py-3 ${headroom >= 0 ? "border-reed bg-reed-wash text-reed-ink" : "border-ochre bg-ochre-wash text-ochre-ink"}`} data-testid="pool-verdict">
+      <div
+        className={`mb-6 rounded border-l-4 px-4 py-3 ${headroom >= 0 ? "border-reed bg-reed-wash text-reed-ink" : "border-ochre bg-ochre-wash text-ochre-ink"}`}
+        data-testid="pool-verdict"
+      >
         <p className="text-md font-semibold">
           {r.rows.total === 0
             ? "The pool is empty: no batch has been accepted yet."
@@ -59,12 +84,17 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
               : `Not there yet: ${formatCount(r.model.residualDf)} residual df, ${formatCount(-headroom)} short of the target of ${formatCount(r.model.dfTarget)}.`}
         </p>
         <p className="mt-1 text-sm tabular-nums">
-          n = {formatCount(r.rows.complete)} complete of {formatCount(r.rows.total)} rows · p = {r.model.parameters} ·{" "}
-          {formatNumber(r.model.perParameter, "estimate")} complete cases per parameter (plan asks {t.perParameter})
+          n = {formatCount(r.rows.complete)} complete of {formatCount(r.rows.total)} rows · p ={" "}
+          {r.model.parameters} · {formatNumber(r.model.perParameter, "estimate")} complete cases per parameter
+          (plan asks {t.perParameter})
         </p>
       </div>
 
-      <Section title="Degrees of freedom" id="ledger" note="The pool's complete cases split into the intercept, the model's parameters and the residual df, against the plan's target.">
+      <Section
+        title="Degrees of freedom"
+        id="ledger"
+        note="The pool's complete cases split into the intercept, the model's parameters and the residual df, against the plan's target."
+      >
         <DfLedger data={ledgerOf(r, pool.plan.intercept)} label="The pool" />
       </Section>
 
@@ -75,7 +105,19 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
       <Section title="Accepted versions" id="members">
         <MembersTable
           csvName={`${pool.slug}-pool-versions`}
-          rows={pool.members.map((m) => ({ id: String(m.batchVersionId), organisationName: m.organisationName, batchPublicId: m.batchPublicId, batchTitle: m.batchTitle, version: m.version, fileName: m.fileName, rowsTotal: m.rowsTotal, rowsComplete: m.rowsComplete, residualDf: m.residualDf, decidedAt: m.decidedAt ? m.decidedAt.toISOString() : null, currentPlan: m.currentPlan }))}
+          rows={pool.members.map((m) => ({
+            id: String(m.batchVersionId),
+            organisationName: m.organisationName,
+            batchPublicId: m.batchPublicId,
+            batchTitle: m.batchTitle,
+            version: m.version,
+            fileName: m.fileName,
+            rowsTotal: m.rowsTotal,
+            rowsComplete: m.rowsComplete,
+            residualDf: m.residualDf,
+            decidedAt: m.decidedAt ? m.decidedAt.toISOString() : null,
+            currentPlan: m.currentPlan,
+          }))}
         />
       </Section>
 
@@ -83,11 +125,23 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
 
       {r.rows.total > 0 ? (
         <>
-          <Section title="Findings on the pool" id="findings" note="Model-level checks on the pooled data; row-level findings belong to each batch's own report.">
-            <FindingsTable findings={r.findings.map((f, i) => ({ ...f, id: String(i) }))} caption="Findings on the pool" csvName={`${pool.slug}-pool-findings`} />
+          <Section
+            title="Findings on the pool"
+            id="findings"
+            note="Model-level checks on the pooled data; row-level findings belong to each batch's own report."
+          >
+            <FindingsTable
+              findings={r.findings.map((f, i) => ({ ...f, id: String(i) }))}
+              caption="Findings on the pool"
+              csvName={`${pool.slug}-pool-findings`}
+            />
           </Section>
 
-          <Section title="Levels across the pool" id="levels" note={`Levels with fewer than ${t.sparseLevel} complete cases are marked sparse.`}>
+          <Section
+            title="Levels across the pool"
+            id="levels"
+            note={`Levels with fewer than ${t.sparseLevel} complete cases are marked sparse.`}
+          >
             <div className="grid gap-6 md:grid-cols-2">
               {factors.map((c) => (
                 <div key={c.name}>
@@ -102,15 +156,31 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             <ColumnsTable columns={r.columns} findings={r.findings} csvName={`${pool.slug}-pool-columns`} />
           </Section>
 
-          <Section title="Collinearity" id="collinearity" note="On the pool's complete cases. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992).">
+          <Section
+            title="Collinearity"
+            id="collinearity"
+            note="On the pool's complete cases. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992)."
+          >
             {coll ? (
               <div className="grid gap-6">
-                <CollinearityTable terms={coll.terms} vifWarning={t.vifWarning} vifStrong={t.vifStrong} csvName={`${pool.slug}-pool-collinearity`} />
+                <CollinearityTable
+                  terms={coll.terms}
+                  vifWarning={t.vifWarning}
+                  vifStrong={t.vifStrong}
+                  csvName={`${pool.slug}-pool-collinearity`}
+                />
                 <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
-                <ConditionIndices indices={coll.conditionIndices} proportions={coll.varianceProportions} threshold={t.conditionIndex} share={t.varianceProportion} />
+                <ConditionIndices
+                  indices={coll.conditionIndices}
+                  proportions={coll.varianceProportions}
+                  threshold={t.conditionIndex}
+                  share={t.varianceProportion}
+                />
               </div>
             ) : (
-              <p className="text-sm text-silt-ink">Not computed: too few complete rows for the planned design.</p>
+              <p className="text-sm text-silt-ink">
+                Not computed: too few complete rows for the planned design.
+              </p>
             )}
           </Section>
 
@@ -118,18 +188,28 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             <MissingnessMap patterns={r.missingness.patterns} columns={planned} total={r.rows.total} />
           </Section>
 
-          <Section title="Fit preview" id="fit" note="Least squares on the pool's complete cases — a sanity check before the modelling, not the analysis.">
+          <Section
+            title="Fit preview"
+            id="fit"
+            note="Least squares on the pool's complete cases — a sanity check before the modelling, not the analysis."
+          >
             {r.fit ? (
               <div className="grid gap-3">
                 <p className="text-sm tabular-nums">
-                  R² = {formatNumber(r.fit.rSquared, "estimate")} · adjusted R² = {formatNumber(r.fit.adjRSquared, "estimate")} · residual standard error{" "}
-                  {formatNumber(r.fit.residualStdError, "estimate")} on {r.fit.dfResidual} df · F = {formatNumber(r.fit.F, "statistic")} on ({r.fit.dfModel},{" "}
-                  {r.fit.dfResidual}) df
+                  R² = {formatNumber(r.fit.rSquared, "estimate")} · adjusted R² ={" "}
+                  {formatNumber(r.fit.adjRSquared, "estimate")} · residual standard error{" "}
+                  {formatNumber(r.fit.residualStdError, "estimate")} on {r.fit.dfResidual} df · F ={" "}
+                  {formatNumber(r.fit.F, "statistic")} on ({r.fit.dfModel}, {r.fit.dfResidual}) df
                 </p>
-                <CoefficientsTable coefficients={r.fit.coefficients} csvName={`${pool.slug}-pool-coefficients`} />
+                <CoefficientsTable
+                  coefficients={r.fit.coefficients}
+                  csvName={`${pool.slug}-pool-coefficients`}
+                />
               </div>
             ) : (
-              <p className="text-sm text-silt-ink">No fit: the pool has no residual degrees of freedom yet.</p>
+              <p className="text-sm text-silt-ink">
+                No fit: the pool has no residual degrees of freedom yet.
+              </p>
             )}
           </Section>
         </>

@@ -27,7 +27,10 @@ function done<T>(slug: string, r: Result<T>): Result<T> {
 
 export type StudyChange = { title?: string; description?: string | null; status?: "open" | "closed" };
 
-export async function updateStudyAction(slug: string, change: StudyChange): Promise<Result<{ status: "open" | "closed" }>> {
+export async function updateStudyAction(
+  slug: string,
+  change: StudyChange,
+): Promise<Result<{ status: "open" | "closed" }>> {
   const r = await resolve(slug);
   if ("error" in r) return r.error;
   const res = await updateStudy(r.actor.id, r.studyId, change);
@@ -36,16 +39,30 @@ export async function updateStudyAction(slug: string, change: StudyChange): Prom
 
 export type MemberKind = "analyst" | "provider";
 
-export async function addMemberAction(slug: string, kind: MemberKind, id: string): Promise<Result<{ name: string }>> {
+export async function addMemberAction(
+  slug: string,
+  kind: MemberKind,
+  id: string,
+): Promise<Result<{ name: string }>> {
   const r = await resolve(slug);
   if ("error" in r) return r.error;
-  const res = kind === "analyst" ? await assignAnalyst(r.actor.id, r.studyId, id) : await admitProvider(r.actor.id, r.studyId, id);
+  const res =
+    kind === "analyst"
+      ? await assignAnalyst(r.actor.id, r.studyId, id)
+      : await admitProvider(r.actor.id, r.studyId, id);
   return done(slug, res.ok ? { ok: true, data: { name: res.data.name } } : res);
 }
 
-export async function removeMemberAction(slug: string, kind: MemberKind, id: number): Promise<Result<{ name: string }>> {
+export async function removeMemberAction(
+  slug: string,
+  kind: MemberKind,
+  id: number,
+): Promise<Result<{ name: string }>> {
   const r = await resolve(slug);
   if ("error" in r) return r.error;
-  const res = kind === "analyst" ? await unassignAnalyst(r.actor.id, r.studyId, id) : await removeProvider(r.actor.id, r.studyId, id);
+  const res =
+    kind === "analyst"
+      ? await unassignAnalyst(r.actor.id, r.studyId, id)
+      : await removeProvider(r.actor.id, r.studyId, id);
   return done(slug, res.ok ? { ok: true, data: { name: res.data.name } } : res);
 }

@@ -17,9 +17,26 @@ type Props = {
   canManage: boolean;
 };
 
-const WORDS: Record<MemberKind, { one: string; a: string; add: string; added: string; removed: string; empty: string }> = {
-  analyst: { one: "analyst", a: "an analyst", add: "Assign", added: "assigned", removed: "no longer assigned", empty: "No analyst is assigned yet." },
-  provider: { one: "provider organisation", a: "a provider organisation", add: "Admit", added: "admitted", removed: "no longer admitted", empty: "No provider organisation is admitted yet." },
+const WORDS: Record<
+  MemberKind,
+  { one: string; a: string; add: string; added: string; removed: string; empty: string }
+> = {
+  analyst: {
+    one: "analyst",
+    a: "an analyst",
+    add: "Assign",
+    added: "assigned",
+    removed: "no longer assigned",
+    empty: "No analyst is assigned yet.",
+  },
+  provider: {
+    one: "provider organisation",
+    a: "a provider organisation",
+    add: "Admit",
+    added: "admitted",
+    removed: "no longer admitted",
+    empty: "No provider organisation is admitted yet.",
+  },
 };
 
 /** The study's analysts or provider organisations, with add and remove for those who manage the study. */
@@ -43,7 +60,11 @@ export function MembersPanel({ slug, kind, members, candidates, canManage }: Pro
         setChosen("");
         setError("");
       } else {
-        setError(Object.values(r.fieldErrors ?? {}).flat().join(" ") || r.message);
+        setError(
+          Object.values(r.fieldErrors ?? {})
+            .flat()
+            .join(" ") || r.message,
+        );
       }
     });
   }
@@ -69,7 +90,14 @@ export function MembersPanel({ slug, kind, members, candidates, canManage }: Pro
                 {m.detail ? <span className="ml-2 text-sm text-silt-ink">{m.detail}</span> : null}
               </span>
               {canManage ? (
-                <Button variant="quiet" size="sm" className="text-clay" disabled={pending} onClick={() => remove(m)} aria-label={`Remove ${m.name}`}>
+                <Button
+                  variant="quiet"
+                  size="sm"
+                  className="text-clay"
+                  disabled={pending}
+                  onClick={() => remove(m)}
+                  aria-label={`Remove ${m.name}`}
+                >
                   Remove
                 </Button>
               ) : null}
@@ -99,7 +127,13 @@ export function MembersPanel({ slug, kind, members, candidates, canManage }: Pro
                 </option>
               ))}
             </Select>
-            <Button variant="secondary" size="sm" onClick={add} busy={pending} disabled={available.length === 0}>
+            <Button
+              variant="secondary"
+              size="sm"
+              onClick={add}
+              busy={pending}
+              disabled={available.length === 0}
+            >
               {w.add}
             </Button>
           </div>

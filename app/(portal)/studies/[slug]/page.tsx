@@ -24,20 +24,44 @@ const linkButton =
   "inline-flex h-9 items-center rounded border border-channel bg-channel px-3.5 font-semibold text-white hover:bg-channel-deep hover:text-white";
 
 function ModelSettings({ plan }: { plan: Plan }) {
-  const overridden = Object.entries(plan.thresholds).filter(([k, v]) => v !== undefined && v !== DEFAULT_THRESHOLDS[k as keyof typeof DEFAULT_THRESHOLDS]) as [keyof typeof DEFAULT_THRESHOLDS, number | null][];
+  const overridden = Object.entries(plan.thresholds).filter(
+    ([k, v]) => v !== undefined && v !== DEFAULT_THRESHOLDS[k as keyof typeof DEFAULT_THRESHOLDS],
+  ) as [keyof typeof DEFAULT_THRESHOLDS, number | null][];
   const tokens = plan.missingTokens.map((t) => (t === "" ? "(empty cell)" : t)).join(", ");
   return (
     <dl className="grid max-w-2xl grid-cols-[14rem_1fr] gap-y-1 text-base">
       <dt className="text-silt-ink">Intercept</dt>
       <dd>{plan.intercept ? "yes" : "no"}</dd>
       <dt className="text-silt-ink">Interactions</dt>
-      <dd className="font-mono text-sm">{plan.interactions.length ? plan.interactions.map(([a, b]) => `${a} × ${b}`).join(", ") : <span className="font-sans text-silt-ink">none</span>}</dd>
+      <dd className="font-mono text-sm">
+        {plan.interactions.length ? (
+          plan.interactions.map(([a, b]) => `${a} × ${b}`).join(", ")
+        ) : (
+          <span className="font-sans text-silt-ink">none</span>
+        )}
+      </dd>
       <dt className="text-silt-ink">Anticipated R²</dt>
       <dd className="tabular">{plan.anticipatedR2 ?? <span className="text-silt-ink">not given</span>}</dd>
       <dt className="text-silt-ink">Outcome mean and SD</dt>
-      <dd className="tabular">{plan.outcome ? `${plan.outcome.mean} ± ${plan.outcome.sd}` : <span className="text-silt-ink">not given</span>}</dd>
+      <dd className="tabular">
+        {plan.outcome ? (
+          `${plan.outcome.mean} ± ${plan.outcome.sd}`
+        ) : (
+          <span className="text-silt-ink">not given</span>
+        )}
+      </dd>
       <dt className="text-silt-ink">Planned selection</dt>
-      <dd className="tabular">{plan.selection ? (Array.isArray(plan.selection.candidates) ? `over ${plan.selection.candidates.join(", ")}` : `over ${plan.selection.candidates} candidate parameters`) : <span className="text-silt-ink">none</span>}</dd>
+      <dd className="tabular">
+        {plan.selection ? (
+          Array.isArray(plan.selection.candidates) ? (
+            `over ${plan.selection.candidates.join(", ")}`
+          ) : (
+            `over ${plan.selection.candidates} candidate parameters`
+          )
+        ) : (
+          <span className="text-silt-ink">none</span>
+        )}
+      </dd>
       <dt className="text-silt-ink">File-wide missing tokens</dt>
       <dd className="font-mono text-sm">{tokens || <span className="font-sans text-silt-ink">none</span>}</dd>
       <dt className="text-silt-ink">Thresholds changed</dt>
@@ -48,8 +72,11 @@ function ModelSettings({ plan }: { plan: Plan }) {
           <ul>
             {overridden.map(([k, v]) => (
               <li key={k}>
-                {THRESHOLD_LABELS[k] ?? k}: <span className="tabular font-semibold">{v === null ? "default" : v}</span>{" "}
-                <span className="text-sm text-silt-ink">(default {DEFAULT_THRESHOLDS[k] ?? "the df floor"})</span>
+                {THRESHOLD_LABELS[k] ?? k}:{" "}
+                <span className="tabular font-semibold">{v === null ? "default" : v}</span>{" "}
+                <span className="text-sm text-silt-ink">
+                  (default {DEFAULT_THRESHOLDS[k] ?? "the df floor"})
+                </span>
               </li>
             ))}
           </ul>
@@ -64,7 +91,10 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
   const { slug } = await params;
   const study = await getStudyForUser(user, decodeURIComponent(slug));
   if (!study) notFound();
-  const [history, candidates] = await Promise.all([listPlanVersionsForUser(user, study.id), listMembershipCandidates(user)]);
+  const [history, candidates] = await Promise.all([
+    listPlanVersionsForUser(user, study.id),
+    listMembershipCandidates(user),
+  ]);
   const manage = can(user.role, "study.manage");
   const editPlan = can(user.role, "plan.edit");
   const parsed = study.currentPlan ? parsePlan(study.currentPlan.plan) : null;
@@ -77,7 +107,9 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
         title={
           <span className="inline-flex flex-wrap items-center gap-3">
             {study.title}
-            <Badge tone={study.status === "open" ? "channel" : "neutral"}>{study.status === "open" ? "Open" : "Closed"}</Badge>
+            <Badge tone={study.status === "open" ? "channel" : "neutral"}>
+              {study.status === "open" ? "Open" : "Closed"}
+            </Badge>
           </span>
         }
         description={study.description ?? undefined}
@@ -92,7 +124,12 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
 
       {manage ? (
         <Section id="status" title="Status">
-          <StudyStatus slug={study.slug} title={study.title} description={study.description} status={study.status} />
+          <StudyStatus
+            slug={study.slug}
+            title={study.title}
+            description={study.description}
+            status={study.status}
+          />
         </Section>
       ) : null}
 
@@ -116,11 +153,16 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
               ) : null
             }
           >
-            Batches cannot be checked until the study has a data plan.{editPlan ? " Draft one from a sample file or enter the columns by hand." : " An admin or lead publishes it."}
+            Batches cannot be checked until the study has a data plan.
+            {editPlan
+              ? " Draft one from a sample file or enter the columns by hand."
+              : " An admin or lead publishes it."}
           </EmptyState>
         ) : parsed && !parsed.ok ? (
           <p role="alert" className="text-clay">
-            The stored plan does not pass the current schema: {parsed.issues.map((i) => `${i.path || "plan"}: ${i.message}`).join("; ")}. Publish a corrected version.
+            The stored plan does not pass the current schema:{" "}
+            {parsed.issues.map((i) => `${i.path || "plan"}: ${i.message}`).join("; ")}. Publish a corrected
+            version.
           </p>
         ) : parsed?.ok ? (
           <div className="flex flex-col gap-6">
@@ -157,7 +199,11 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
 
       <div className="grid grid-cols-1 gap-x-8 lg:grid-cols-2">
         {user.role !== "provider" ? (
-          <Section id="analysts" title={`Analysts (${study.analysts.length})`} note="Assigned analysts review this study's batches and see its pool.">
+          <Section
+            id="analysts"
+            title={`Analysts (${study.analysts.length})`}
+            note="Assigned analysts review this study's batches and see its pool."
+          >
             <MembersPanel
               slug={study.slug}
               kind="analyst"
@@ -169,10 +215,24 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
         ) : null}
         <Section
           id="providers"
-          title={user.role === "provider" ? "Your organisation" : `Provider organisations (${study.providers.length})`}
-          note={user.role === "provider" ? undefined : "Providers of admitted organisations upload batches to this study."}
+          title={
+            user.role === "provider"
+              ? "Your organisation"
+              : `Provider organisations (${study.providers.length})`
+          }
+          note={
+            user.role === "provider"
+              ? undefined
+              : "Providers of admitted organisations upload batches to this study."
+          }
         >
-          <MembersPanel slug={study.slug} kind="provider" canManage={manage} members={study.providers.map((p) => ({ id: p.id, name: p.name }))} candidates={candidates.providers} />
+          <MembersPanel
+            slug={study.slug}
+            kind="provider"
+            canManage={manage}
+            members={study.providers.map((p) => ({ id: p.id, name: p.name }))}
+            candidates={candidates.providers}
+          />
         </Section>
       </div>
     </>

@@ -8,7 +8,17 @@ import { Input, sized } from "@/components/ui/input";
 import { updateStudyAction } from "./actions";
 
 /** Close or reopen a study, and edit its title and description (study.manage). */
-export function StudyStatus({ slug, title, description, status }: { slug: string; title: string; description: string | null; status: "open" | "closed" }) {
+export function StudyStatus({
+  slug,
+  title,
+  description,
+  status,
+}: {
+  slug: string;
+  title: string;
+  description: string | null;
+  status: "open" | "closed";
+}) {
   const [pending, startTransition] = useTransition();
   const [errors, setErrors] = useState<Record<string, string[]>>({});
   const [t, setT] = useState(title);
@@ -31,18 +41,36 @@ export function StudyStatus({ slug, title, description, status }: { slug: string
     <div className="flex flex-col gap-3">
       <div className="flex flex-wrap items-center gap-3">
         {status === "open" ? (
-          <Button variant="danger" size="sm" busy={pending} onClick={() => run({ status: "closed" }, "The study is closed: no new batches are accepted for upload.")}>
+          <Button
+            variant="danger"
+            size="sm"
+            busy={pending}
+            onClick={() =>
+              run({ status: "closed" }, "The study is closed: no new batches are accepted for upload.")
+            }
+          >
             Close the study
           </Button>
         ) : (
-          <Button variant="secondary" size="sm" busy={pending} onClick={() => run({ status: "open" }, "The study is open for uploads again.")}>
+          <Button
+            variant="secondary"
+            size="sm"
+            busy={pending}
+            onClick={() => run({ status: "open" }, "The study is open for uploads again.")}
+          >
             Reopen the study
           </Button>
         )}
-        <span className="text-sm text-silt-ink">{status === "open" ? "Admitted providers can upload batches." : "Closed: uploads are refused; reports and decisions stay."}</span>
+        <span className="text-sm text-silt-ink">
+          {status === "open"
+            ? "Admitted providers can upload batches."
+            : "Closed: uploads are refused; reports and decisions stay."}
+        </span>
       </div>
       <details className="max-w-xl">
-        <summary className="cursor-pointer text-sm font-semibold text-channel">Edit the title and description</summary>
+        <summary className="cursor-pointer text-sm font-semibold text-channel">
+          Edit the title and description
+        </summary>
         <form
           className="mt-2 flex flex-col gap-3"
           onSubmit={(e) => {
@@ -54,7 +82,13 @@ export function StudyStatus({ slug, title, description, status }: { slug: string
             <Input value={t} onChange={(e) => setT(e.target.value)} maxLength={300} />
           </Field>
           <Field id="edit-description" label="Description" errors={errors.description}>
-            <textarea value={d} onChange={(e) => setD(e.target.value)} rows={4} maxLength={5000} className={sized("h-auto py-1.5")} />
+            <textarea
+              value={d}
+              onChange={(e) => setD(e.target.value)}
+              rows={4}
+              maxLength={5000}
+              className={sized("h-auto py-1.5")}
+            />
           </Field>
           <div>
             <Button type="submit" size="sm" busy={pending}>

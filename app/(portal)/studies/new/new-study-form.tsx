@@ -17,7 +17,13 @@ const slugify = (s: string) =>
     .replace(/^-+|-+$/g, "")
     .slice(0, 60);
 
-export function NewStudyForm({ teams, defaultTeamId }: { teams: { id: number; name: string }[]; defaultTeamId: number | null }) {
+export function NewStudyForm({
+  teams,
+  defaultTeamId,
+}: {
+  teams: { id: number; name: string }[];
+  defaultTeamId: number | null;
+}) {
   const [state, action, pending] = useActionState<CreateStudyState, FormData>(createStudyAction, null);
   const [title, setTitle] = useState("");
   const [slug, setSlug] = useState("");
@@ -54,7 +60,12 @@ export function NewStudyForm({ teams, defaultTeamId }: { teams: { id: number; na
           autoComplete="off"
         />
       </Field>
-      <Field id="study-slug" label="Address" hint={<>Lower-case letters, digits and dashes; the study opens at /studies/{slug || "…"}.</>} errors={errors.slug}>
+      <Field
+        id="study-slug"
+        label="Address"
+        hint={<>Lower-case letters, digits and dashes; the study opens at /studies/{slug || "…"}.</>}
+        errors={errors.slug}
+      >
         <Input
           name="slug"
           value={slug}
@@ -68,7 +79,12 @@ export function NewStudyForm({ teams, defaultTeamId }: { teams: { id: number; na
           autoComplete="off"
         />
       </Field>
-      <Field id="study-description" label="Description (optional)" hint="What the model is for and who sends data." errors={errors.description}>
+      <Field
+        id="study-description"
+        label="Description (optional)"
+        hint="What the model is for and who sends data."
+        errors={errors.description}
+      >
         <textarea name="description" rows={4} maxLength={5000} className={sized("h-auto py-1.5")} />
       </Field>
       <Field id="study-team" label="Run by" errors={errors.teamOrganisationId}>

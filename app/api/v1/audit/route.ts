@@ -5,4 +5,6 @@ import { auditQuery } from "@/lib/http/queries";
 import { jsonData } from "@/lib/http/respond";
 import { listAuditEvents } from "@/lib/people/queries-audit";
 
-export const GET = apiRoute({ action: "audit.read" }, async ({ req, actor }) => jsonData(await listAuditEvents(actor, parseQuery(req, auditQuery))));
+export const GET = apiRoute({ action: "audit.read" }, async ({ req, actor }) =>
+  jsonData(await listAuditEvents(actor, parseQuery(req, auditQuery))),
+);

@@ -20,17 +20,24 @@ export const GET = apiRoute({ action: "batch.read" }, async ({ req, actor }) => 
 export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) => {
   const type = req.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) {
-    throw new AppError("invalid", "Send the batch as multipart/form-data with the fields 'study' and 'file' (and 'batch' for a new version).");
+    throw new AppError(
+      "invalid",
+      "Send the batch as multipart/form-data with the fields 'study' and 'file' (and 'batch' for a new version).",
+    );
   }
   const limit = env().MAX_UPLOAD_MB * 1024 * 1024;
   const tooLarge = `The upload is larger than the ${env().MAX_UPLOAD_MB} MB limit. Split the batch into smaller files.`;
   const length = Number(req.headers.get("content-length") ?? 0);
-  if (length > limit + 64 * 1024) throw new AppError("invalid", tooLarge, { fieldErrors: { file: [tooLarge] } });
+  if (length > limit + 64 * 1024)
+    throw new AppError("invalid", tooLarge, { fieldErrors: { file: [tooLarge] } });
   // the file streams to a temporary file (never whole in memory) and is removed when done
   const upload = await receiveMultipart(req, limit, tooLarge);
   let done: Awaited<ReturnType<typeof uploadBatchViaApi>>;
   try {
-    if (!upload.file) throw new AppError("invalid", "Attach the batch file in the field 'file'.", { fieldErrors: { file: ["Attach the batch file."] } });
+    if (!upload.file)
+      throw new AppError("invalid", "Attach the batch file in the field 'file'.", {
+        fieldErrors: { file: ["Attach the batch file."] },
+      });
     const fields = uploadFieldsSchema.safeParse({
       study: upload.fields.study,
       batch: upload.fields.batch || undefined,
@@ -38,9 +45,16 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
     });
     if (!fields.success) {
       const first = fields.error.issues[0];
-      throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", { fieldErrors: fieldErrorsOf(fields.error.issues) });
+      throw new AppError("invalid", first?.message ?? "The upload fields are not valid.", {
+        fieldErrors: fieldErrorsOf(fields.error.issues),
+      });
     }
-    done = await uploadBatchViaApi(actor, { studySlug: fields.data.study, batchId: fields.data.batch, label: fields.data.label, file: upload.file });
+    done = await uploadBatchViaApi(actor, {
+      studySlug: fields.data.study,
+      batchId: fields.data.batch,
+      label: fields.data.label,
+      file: upload.file,
+    });
   } finally {
     await upload.discard();
   }

@@ -9,7 +9,8 @@ export const GET = apiRoute({}, async ({ actor }) =>
     email: actor.email,
     name: actor.name,
     role: actor.role,
-    organisation: actor.organisationId != null ? { id: actor.organisationId, name: actor.organisationName } : null,
+    organisation:
+      actor.organisationId != null ? { id: actor.organisationId, name: actor.organisationName } : null,
     permissions: PERMISSIONS[actor.role],
     via: actor.via,
   }),

@@ -3,4 +3,6 @@ import { apiRoute } from "@/lib/http/route";
 import { jsonData } from "@/lib/http/respond";
 import { listQueueForUser } from "@/lib/batches/queries-queue";
 
-export const GET = apiRoute({ action: "batch.decide" }, async ({ actor }) => jsonData(await listQueueForUser(actor)));
+export const GET = apiRoute({ action: "batch.decide" }, async ({ actor }) =>
+  jsonData(await listQueueForUser(actor)),
+);

@@ -19,7 +19,11 @@ export default async function NewVersionPage({ params }: { params: Promise<{ id:
   if (!target) notFound();
   return (
     <>
-      <PageHeader eyebrow={batch.studyTitle} title={`New version of ${batch.title}`} description="Upload the corrected file. It is checked against the study's current data plan, and the report shows which findings are resolved." />
+      <PageHeader
+        eyebrow={batch.studyTitle}
+        title={`New version of ${batch.title}`}
+        description="Upload the corrected file. It is checked against the study's current data plan, and the report shows which findings are resolved."
+      />
       <UploadPanel
         studies={[{ slug: target.slug, title: target.title, plan: target.plan }]}
         maxUploadMb={env().MAX_UPLOAD_MB}

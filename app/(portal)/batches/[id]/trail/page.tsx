@@ -17,9 +17,19 @@ export default async function TrailPage({ params }: { params: Promise<{ id: stri
       <PageHeader
         eyebrow={`${trail.batch.studyTitle} · ${trail.batch.organisationName}`}
         title={`Audit trail: ${trail.batch.title}`}
-        description={<>Every version, check, decision and e-mail of this batch, oldest first. <Link href={`/batches/${trail.batch.publicId}`} className="text-channel underline">Back to the batch</Link></>}
+        description={
+          <>
+            Every version, check, decision and e-mail of this batch, oldest first.{" "}
+            <Link href={`/batches/${trail.batch.publicId}`} className="text-channel underline">
+              Back to the batch
+            </Link>
+          </>
+        }
       />
-      <TrailTable entries={trail.entries.map((e) => ({ ...e, at: e.at.toISOString() }))} csvName={`${trail.batch.publicId}-audit-trail`} />
+      <TrailTable
+        entries={trail.entries.map((e) => ({ ...e, at: e.at.toISOString() }))}
+        csvName={`${trail.batch.publicId}-audit-trail`}
+      />
     </>
   );
 }

@@ -11,7 +11,13 @@ import { publishPlanAction } from "./actions";
 
 export const metadata = { title: "Data plan editor" };
 
-export default async function PlanEditorPage({ params, searchParams }: { params: Promise<{ slug: string }>; searchParams: Promise<{ created?: string }> }) {
+export default async function PlanEditorPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ slug: string }>;
+  searchParams: Promise<{ created?: string }>;
+}) {
   const user = await requireUser();
   const { slug } = await params;
   const { created } = await searchParams;
@@ -29,7 +35,11 @@ export default async function PlanEditorPage({ params, searchParams }: { params:
             <Link href={`/studies/${study.slug}`}>{study.title}</Link> · data plan
           </>
         }
-        title={study.currentPlan ? `Edit the data plan (current: version ${study.currentPlan.version})` : "Write the data plan"}
+        title={
+          study.currentPlan
+            ? `Edit the data plan (current: version ${study.currentPlan.version})`
+            : "Write the data plan"
+        }
         description={
           created
             ? "The study is created. Draft its plan from a sample file or enter the columns, then publish version 1."

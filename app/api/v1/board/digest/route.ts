@@ -3,4 +3,6 @@ import { apiRoute } from "@/lib/http/route";
 import { resultResponse } from "@/lib/http/respond";
 import { sendDigest } from "@/lib/pool/digest-send";
 
-export const POST = apiRoute({ action: "board.read" }, async ({ actor }) => resultResponse(await sendDigest({ actorId: actor.id, reason: "now" }), 202));
+export const POST = apiRoute({ action: "board.read" }, async ({ actor }) =>
+  resultResponse(await sendDigest({ actorId: actor.id, reason: "now" }), 202),
+);
