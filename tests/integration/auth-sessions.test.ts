@@ -221,9 +221,10 @@ describe("password change throttling", () => {
       expect(r.ok === false && r.fieldErrors?.currentPassword).toBeTruthy();
     }
     const blocked = await changeOwnPassword(u.id, WORLD_PASSWORD, "another-new-password");
+    // the limit is the shared rate limiter's (README "Limits"): the API answers it with 429
     expect(blocked).toMatchObject({
       ok: false,
-      code: "conflict",
+      code: "rate_limited",
       message: expect.stringMatching(/Too many wrong current passwords/),
     });
     expect(await sessionVersionOf(u.id)).toBe(1);

@@ -60,7 +60,7 @@ describe("the OpenAPI document", () => {
     const readme = readFileSync(path.join(ROOT, "README.md"), "utf8");
     const start = readme.indexOf("## Who may call what");
     const rows = [
-      ...readme.slice(start).matchAll(/^\| `(GET|POST|PATCH|PUT|DELETE) (\/api\/v1\/[^`]*)` \|/gm),
+      ...readme.slice(start).matchAll(/^\| `(GET|POST|PATCH|PUT|DELETE) (\/api\/v1\/[^`]*)` *\|/gm),
     ].map((m) => `${m[1]!.toLowerCase()} ${m[2]!.replace(/\[(\w+)\]/g, "{$1}")}`);
     expect(rows.length).toBeGreaterThan(20);
     const inDoc = Object.entries(doc.paths).flatMap(([p, methods]) =>
