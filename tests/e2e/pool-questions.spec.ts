@@ -1,6 +1,5 @@
 import { expect, test, type Browser, type Page } from "@playwright/test";
 import { barleyBatches } from "../../lib/demo/batches";
-import { formatNumber } from "../../lib/readiness";
 import { DEMO_USERS } from "../../lib/demo/accounts";
 import { BatchPage } from "./pages/batch-page";
 import { PoolPage } from "./pages/pool-page";
@@ -124,7 +123,7 @@ test("the barley pool page singles out Brackenridge, and shows the criteria char
   expect(odd.F!).toBe(Math.max(...batches.map((b) => b.F ?? 0)));
   const row = pool.row(label(ODD.title)).first();
   // printed as every statistic is (lib/readiness/format-number.ts: three significant digits)
-  await expect(row).toContainText(formatNumber(odd.F!, "statistic"));
+  await expect(row).toContainText(Number(odd.F!.toPrecision(3)).toLocaleString("en-GB"));
   await expect(row).toContainText("one standard error or more");
   await expect(pool.findings).toContainText("pool.not-poolable");
   await expect(pool.findings).toContainText(label(ODD.title));
