@@ -35,6 +35,44 @@ function Errors({ id, list }: { id: string; list: string[] | undefined }) {
   );
 }
 
+type FieldProps = { id: string; label: string; errors: string[] | undefined };
+
+/** A choice among a fixed list (role, type), printed as the values themselves. */
+function ChoiceField<T extends string>(
+  props: FieldProps & { value: T; options: readonly T[]; onPick: (value: T) => void },
+) {
+  return (
+    <Field id={props.id} label={props.label} errors={props.errors} className="w-32">
+      <Select
+        value={props.value}
+        onChange={(e) => props.onPick(e.target.value as T)}
+        className="h-8 w-full text-sm"
+      >
+        {props.options.map((o) => (
+          <option key={o} value={o}>
+            {o}
+          </option>
+        ))}
+      </Select>
+    </Field>
+  );
+}
+
+/** A numeric column's planned minimum or maximum (empty: no bound). */
+function BoundField(props: FieldProps & { value: string; onValue: (value: string) => void }) {
+  return (
+    <Field id={props.id} label={props.label} errors={props.errors} className="w-28">
+      <Input
+        value={props.value}
+        onChange={(e) => props.onValue(e.target.value)}
+        inputMode="decimal"
+        className="h-8 w-full text-sm tabular"
+        placeholder="none"
+      />
+    </Field>
+  );
+}
+
 /** One column of the plan: name, role, type, range, levels and baseline, missing tokens. */
 export function ColumnRow({ column: c, index, count, errors, onChange, onMove, onRemove }: Props) {
   const id = (f: string) => `col-${c.key}-${f}`;
@@ -85,52 +123,38 @@ export function ColumnRow({ column: c, index, count, errors, onChange, onMove, o
             autoComplete="off"
           />
         </Field>
-        <Field id={id("role")} label="Role" errors={errors("role")} className="w-32">
-          <Select
-            value={c.role}
-            onChange={(e) => onChange({ role: e.target.value as ColumnDraft["role"] })}
-            className="h-8 w-full text-sm"
-          >
-            {ROLES.map((r) => (
-              <option key={r} value={r}>
-                {r}
-              </option>
-            ))}
-          </Select>
-        </Field>
-        <Field id={id("type")} label="Type" errors={errors("type")} className="w-32">
-          <Select
-            value={c.type}
-            onChange={(e) => onChange({ type: e.target.value as ColumnDraft["type"] })}
-            className="h-8 w-full text-sm"
-          >
-            {COLUMN_TYPES.map((t) => (
-              <option key={t} value={t}>
-                {t}
-              </option>
-            ))}
-          </Select>
-        </Field>
+        <ChoiceField
+          id={id("role")}
+          label="Role"
+          errors={errors("role")}
+          value={c.role}
+          options={ROLES}
+          onPick={(role) => onChange({ role })}
+        />
+        <ChoiceField
+          id={id("type")}
+          label="Type"
+          errors={errors("type")}
+          value={c.type}
+          options={COLUMN_TYPES}
+          onPick={(type) => onChange({ type })}
+        />
         {numeric ? (
           <>
-            <Field id={id("min")} label="Minimum" errors={errors("min")} className="w-28">
-              <Input
-                value={c.min}
-                onChange={(e) => onChange({ min: e.target.value })}
-                inputMode="decimal"
-                className="h-8 w-full text-sm tabular"
-                placeholder="none"
-              />
-            </Field>
-            <Field id={id("max")} label="Maximum" errors={errors("max")} className="w-28">
-              <Input
-                value={c.max}
-                onChange={(e) => onChange({ max: e.target.value })}
-                inputMode="decimal"
-                className="h-8 w-full text-sm tabular"
-                placeholder="none"
-              />
-            </Field>
+            <BoundField
+              id={id("min")}
+              label="Minimum"
+              errors={errors("min")}
+              value={c.min}
+              onValue={(min) => onChange({ min })}
+            />
+            <BoundField
+              id={id("max")}
+              label="Maximum"
+              errors={errors("max")}
+              value={c.max}
+              onValue={(max) => onChange({ max })}
+            />
           </>
         ) : null}
         {c.role !== "ignore" ? (

@@ -69,39 +69,9 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
         })}
       </ul>
       <div className="flex flex-wrap items-center gap-1.5">
-        <label htmlFor="interaction-a" className="sr-only">
-          First predictor
-        </label>
-        <Select
-          id="interaction-a"
-          value={a}
-          onChange={(e) => setA(e.target.value)}
-          className="h-8 w-52 text-sm"
-        >
-          <option value="">first predictor</option>
-          {predictors.map((p) => (
-            <option key={p} value={p}>
-              {p}
-            </option>
-          ))}
-        </Select>
+        <PredictorPick id="interaction-a" which="first" value={a} predictors={predictors} onPick={setA} />
         <span aria-hidden="true">×</span>
-        <label htmlFor="interaction-b" className="sr-only">
-          Second predictor
-        </label>
-        <Select
-          id="interaction-b"
-          value={b}
-          onChange={(e) => setB(e.target.value)}
-          className="h-8 w-52 text-sm"
-        >
-          <option value="">second predictor</option>
-          {predictors.map((p) => (
-            <option key={p} value={p}>
-              {p}
-            </option>
-          ))}
-        </Select>
+        <PredictorPick id="interaction-b" which="second" value={b} predictors={predictors} onPick={setB} />
         <Button variant="secondary" size="sm" onClick={add} disabled={predictors.length < 2}>
           Add interaction
         </Button>
@@ -110,5 +80,35 @@ export function InteractionsField({ predictors, value, errors, onChange }: Props
         {predictors.length < 2 ? "An interaction needs at least two predictors in the plan." : note}
       </p>
     </fieldset>
+  );
+}
+
+/** One side of a new interaction: a predictor of the plan, or none yet. */
+function PredictorPick(props: {
+  id: string;
+  which: "first" | "second";
+  value: string;
+  predictors: string[];
+  onPick: (name: string) => void;
+}) {
+  return (
+    <>
+      <label htmlFor={props.id} className="sr-only">
+        {props.which === "first" ? "First" : "Second"} predictor
+      </label>
+      <Select
+        id={props.id}
+        value={props.value}
+        onChange={(e) => props.onPick(e.target.value)}
+        className="h-8 w-52 text-sm"
+      >
+        <option value="">{props.which} predictor</option>
+        {props.predictors.map((p) => (
+          <option key={p} value={p}>
+            {p}
+          </option>
+        ))}
+      </Select>
+    </>
   );
 }

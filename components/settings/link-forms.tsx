@@ -3,6 +3,7 @@
 import { useState, useTransition, type FormEvent, type TransitionStartFunction } from "react";
 import Link from "next/link";
 import { Button } from "@/components/ui/button";
+import { NewPasswordField } from "@/components/settings/new-password-field";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import type { Result } from "@/lib/result";
@@ -105,21 +106,14 @@ export function SetPasswordForm({
         }
       })}
     >
-      <Field
+      <NewPasswordField
         id="password"
         label="New password"
-        hint={`At least ${minLength} characters.`}
+        minLength={minLength}
         errors={errors.password}
-      >
-        <Input
-          type="password"
-          autoComplete="new-password"
-          value={password}
-          onChange={(e) => setPassword(e.target.value)}
-          required
-          minLength={minLength}
-        />
-      </Field>
+        value={password}
+        onChange={(e) => setPassword(e.target.value)}
+      />
       <Field id="confirm" label="New password again" errors={errors.confirmPassword}>
         <Input
           type="password"

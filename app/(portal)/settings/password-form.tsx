@@ -6,6 +6,7 @@ import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
 import { submitFormData } from "@/lib/client/submit-form-data";
 import { useHydrated } from "@/lib/client/use-hydrated";
+import { NewPasswordField } from "@/components/settings/new-password-field";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { changePasswordAction, type ChangePasswordState } from "./actions";
@@ -43,20 +44,13 @@ export function PasswordForm({ minLength }: { minLength: number }) {
       <Field id="current-password" label="Current password" errors={errors.currentPassword}>
         <Input name="currentPassword" type="password" autoComplete="current-password" required />
       </Field>
-      <Field
+      <NewPasswordField
         id="new-password"
         label="New password"
-        hint={`At least ${minLength} characters.`}
+        name="newPassword"
+        minLength={minLength}
         errors={errors.newPassword}
-      >
-        <Input
-          name="newPassword"
-          type="password"
-          autoComplete="new-password"
-          required
-          minLength={minLength}
-        />
-      </Field>
+      />
       <Field id="confirm-password" label="New password again" errors={errors.confirmPassword}>
         <Input name="confirmPassword" type="password" autoComplete="new-password" required />
       </Field>

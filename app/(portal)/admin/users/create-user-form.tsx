@@ -5,6 +5,7 @@ import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
 import { submitFormData } from "@/lib/client/submit-form-data";
 import { useHydrated } from "@/lib/client/use-hydrated";
+import { NewPasswordField } from "@/components/settings/new-password-field";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
 import { Select } from "@/components/ui/select";
@@ -77,20 +78,13 @@ export function CreateUserForm({
           ))}
         </Select>
       </Field>
-      <Field
+      <NewPasswordField
         id="new-password"
         label="First password"
-        hint={`At least ${passwordMinLength} characters.`}
+        name="password"
+        minLength={passwordMinLength}
         errors={errors.password}
-      >
-        <Input
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          required
-          minLength={passwordMinLength}
-        />
-      </Field>
+      />
       <div className="flex items-end gap-3 self-start pt-6">
         <Button type="submit" disabled={!hydrated} busy={pending}>
           Create user
