@@ -11,54 +11,32 @@ export type SeasonProvider = DemoOrganisation & {
   user: { email: string; name: string };
 };
 
+/** One provider of the season: organisation, study, and its one sign-in. */
+function provider(
+  slug: string,
+  name: string,
+  studySlug: SeasonProvider["studySlug"],
+  email: string,
+  userName: string,
+): SeasonProvider {
+  return { slug, name, kind: "provider", studySlug, user: { email, name: userName } };
+}
+
+const BARLEY = "barley-nitrogen";
+const HEAT_PUMPS = "heat-pump-savings";
+
 export const SEASON_PROVIDERS: readonly SeasonProvider[] = [
-  {
-    slug: "wrenfold",
-    name: "Wrenfold Farm",
-    kind: "provider",
-    studySlug: "barley-nitrogen",
-    user: { email: "provider@wrenfold.test", name: "Bethan Corrie" },
-  },
-  {
-    slug: "cowslip-ley",
-    name: "Cowslip Ley Farm",
-    kind: "provider",
-    studySlug: "barley-nitrogen",
-    user: { email: "provider@cowslip.test", name: "Ruairi Nolde" },
-  },
-  {
-    slug: "tallowbeck",
-    name: "Tallowbeck Farm",
-    kind: "provider",
-    studySlug: "barley-nitrogen",
-    user: { email: "provider@tallowbeck.test", name: "Soraya Penhale" },
-  },
-  {
-    slug: "pennyrigg",
-    name: "Pennyrigg Farm",
-    kind: "provider",
-    studySlug: "barley-nitrogen",
-    user: { email: "provider@pennyrigg.test", name: "Alasdair Brume" },
-  },
-  {
-    slug: "tarnbrook-heating",
-    name: "Tarnbrook Heating Co-operative",
-    kind: "provider",
-    studySlug: "heat-pump-savings",
-    user: { email: "installer@tarnbrook.test", name: "Wilhelmina Garrow" },
-  },
-  {
-    slug: "emberlane",
-    name: "Emberlane Heat Pumps",
-    kind: "provider",
-    studySlug: "heat-pump-savings",
-    user: { email: "installer@emberlane.test", name: "Keziah Marr" },
-  },
-  {
-    slug: "kestrel-row",
-    name: "Kestrel Row Retrofit",
-    kind: "provider",
-    studySlug: "heat-pump-savings",
-    user: { email: "installer@kestrelrow.test", name: "Idris Fenwold" },
-  },
+  provider("wrenfold", "Wrenfold Farm", BARLEY, "provider@wrenfold.test", "Bethan Corrie"),
+  provider("cowslip-ley", "Cowslip Ley Farm", BARLEY, "provider@cowslip.test", "Ruairi Nolde"),
+  provider("tallowbeck", "Tallowbeck Farm", BARLEY, "provider@tallowbeck.test", "Soraya Penhale"),
+  provider("pennyrigg", "Pennyrigg Farm", BARLEY, "provider@pennyrigg.test", "Alasdair Brume"),
+  provider(
+    "tarnbrook-heating",
+    "Tarnbrook Heating Co-operative",
+    HEAT_PUMPS,
+    "installer@tarnbrook.test",
+    "Wilhelmina Garrow",
+  ),
+  provider("emberlane", "Emberlane Heat Pumps", HEAT_PUMPS, "installer@emberlane.test", "Keziah Marr"),
+  provider("kestrel-row", "Kestrel Row Retrofit", HEAT_PUMPS, "installer@kestrelrow.test", "Idris Fenwold"),
 ];

@@ -101,21 +101,15 @@ function change(kind: Kind, add: boolean, name: string, actorId: number, studyId
       const id = parsed[field] as number;
       await lockStudy(tx, studyId);
       const key = kind.audit.key;
+      const onStudy = { objectType: "study" as const, objectId: studyId, studyId };
       if (!add) {
         // removing needs only that the link exists: a deactivated analyst can be unassigned
         const member = await anyMember(tx, kind, id);
         if (!member || !(await kind.linked(tx, studyId, member.id)))
           return fail(kind.gone, undefined, "not_found");
         await kind.unlink(tx, studyId, member.id);
-        const before = { [key]: member.id, name: member.name };
-        await audit({
-          action: kind.audit.remove,
-          objectType: "study",
-          objectId: studyId,
-          studyId,
-          before,
-          after: null,
-        });
+        const trace = { [key]: member.id, name: member.name };
+        await audit({ ...onStudy, action: kind.audit.remove, before: trace, after: null });
         return ok({ studyId, memberId: member.id, name: member.name });
       }
       const found = await kind.find(tx, id);
@@ -126,15 +120,8 @@ function change(kind: Kind, add: boolean, name: string, actorId: number, studyId
         return fail(kind.already(found), { [field]: [ALREADY[field]] }, "conflict");
       }
       await kind.link(tx, studyId, found.id);
-      const after = { [key]: found.id, name: found.name };
-      await audit({
-        action: kind.audit.add,
-        objectType: "study",
-        objectId: studyId,
-        studyId,
-        before: null,
-        after,
-      });
+      const trace = { [key]: found.id, name: found.name };
+      await audit({ ...onStudy, action: kind.audit.add, before: null, after: trace });
       return ok({ studyId, memberId: found.id, name: found.name });
     },
   });
