@@ -21,10 +21,7 @@ export function studyScope(user: SessionUser): SQL | undefined {
           .where(eq(studyProviders.organisationId, user.organisationId)),
       );
     case "analyst":
-      return inArray(
-        studies.id,
-        db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)),
-      );
+      return inArray(studies.id, analystStudyIds(user));
     case "lead":
     case "admin":
       return undefined;
@@ -33,19 +30,23 @@ export function studyScope(user: SessionUser): SQL | undefined {
 
 /** WHERE condition on `batches` for the batches `user` may see (undefined = all). */
 export function batchScope(user: SessionUser): SQL | undefined {
-  const db = getDb();
   switch (user.role) {
     case "provider":
       // a provider sees its own organisation's batches and no other's
       if (user.organisationId == null) return NOTHING;
       return eq(batches.organisationId, user.organisationId);
     case "analyst":
-      return inArray(
-        batches.studyId,
-        db.select({ id: studyAnalysts.studyId }).from(studyAnalysts).where(eq(studyAnalysts.userId, user.id)),
-      );
+      return inArray(batches.studyId, analystStudyIds(user));
     case "lead":
     case "admin":
       return undefined;
   }
+}
+
+/** The ids of the studies `user` is assigned to as an analyst (a subquery). */
+function analystStudyIds(user: SessionUser) {
+  return getDb()
+    .select({ id: studyAnalysts.studyId })
+    .from(studyAnalysts)
+    .where(eq(studyAnalysts.userId, user.id));
 }
