@@ -298,7 +298,7 @@ describe("analyst", () => {
     expect(publicIds(ready.json.data)).toEqual([w.batchA.publicId]);
     const bad = await call(listBatches, { path: "/api/v1/batches?state=lost", as: as.analystA });
     expect(bad.status).toBe(422);
-    expect(bad.json.error?.fieldErrors?.state?.[0]).toMatch(/state is one of: received, checking, ready/);
+    expect(bad.json.errors?.state?.[0]).toMatch(/state is one of: received, checking, ready/);
   });
 
   test("admin routes → 403", async () => {
