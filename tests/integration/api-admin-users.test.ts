@@ -191,16 +191,17 @@ describe("POST /api/v1/admin/users", () => {
     expect((await send("http://127.0.0.1:3410")).status).toBe(201);
   });
 
-  test("a body that is not JSON → 422 with a plain message", async () => {
+  test("a body that is not JSON → 400 with a plain message", async () => {
     const res = await call(createAdminUser, {
       method: "POST",
       path: "/api/v1/admin/users",
       body: "{email:",
       as: admin,
     });
-    expect(res.status).toBe(422);
-    expectSafeError(res.json, "invalid");
-    expect(res.json.detail).toBe("The request body is not valid JSON.");
+    // a body that cannot be parsed at all is a 400 (RFC 9110 §15.5.1), not a validation error
+    expect(res.status).toBe(400);
+    expectSafeError(res.json, "bad_request");
+    expect(res.json.detail).toMatch(/^The request body is not valid JSON\./);
   });
 });
 
