@@ -6,10 +6,13 @@ import { isDbUnavailable } from "@/db/errors";
 import type { Result } from "./result";
 
 export const ERROR_STATUS = {
+  bad_request: 400,
   unauthenticated: 401,
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  too_large: 413,
+  unsupported_type: 415,
   invalid: 422,
   rate_limited: 429,
   unavailable: 503,
@@ -19,10 +22,13 @@ export const ERROR_STATUS = {
 export type ErrorCode = keyof typeof ERROR_STATUS;
 
 const DEFAULT_MESSAGES: Record<ErrorCode, string> = {
+  bad_request: "The request could not be read; check its syntax.",
   unauthenticated: "Sign in to continue.",
   forbidden: "Your role does not allow this.",
   not_found: "Not found.",
   conflict: "This conflicts with the current state; reload and try again.",
+  too_large: "The request is larger than the limit allows.",
+  unsupported_type: "This kind of content is not accepted here.",
   invalid: "The request is not valid.",
   rate_limited: "Too many requests. Wait a little and try again.",
   unavailable: "A service this needs is not available right now; try again shortly.",

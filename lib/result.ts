@@ -7,7 +7,14 @@ import type { ErrorCode } from "./errors";
  */
 export type Result<T> =
   | { ok: true; data: T }
-  | { ok: false; message: string; fieldErrors?: Record<string, string[]>; code?: ErrorCode };
+  | {
+      ok: false;
+      message: string;
+      fieldErrors?: Record<string, string[]>;
+      code?: ErrorCode;
+      /** for code rate_limited: seconds until the limit's window ends (Retry-After on the API) */
+      retryAfterSeconds?: number;
+    };
 
 export function ok<T>(data: T): Result<T> {
   return { ok: true, data };

@@ -13,13 +13,13 @@ export function DigestButton() {
       const res = await fetch("/api/v1/board/digest", { method: "POST" });
       const body = (await res.json().catch(() => null)) as {
         data?: { queued: number; recipients: number };
-        error?: { message: string };
+        detail?: string;
       } | null;
       if (res.ok && body?.data)
         setMessage(
           `Digest queued for ${body.data.queued} of ${body.data.recipients} ${body.data.recipients === 1 ? "lead" : "leads"}; it goes out within a minute.`,
         );
-      else setMessage(body?.error?.message ?? "The digest could not be queued. Try again in a minute.");
+      else setMessage(body?.detail ?? "The digest could not be queued. Try again in a minute.");
     } catch {
       setMessage("The server did not answer. Check your connection and try again.");
     } finally {

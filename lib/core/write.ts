@@ -96,7 +96,9 @@ export async function write<S extends z.ZodType, T>(
     if (e instanceof Refused) return e.result;
     if (w.onDuplicate && isDuplicateKey(e)) return w.onDuplicate();
     const err = e instanceof AppError ? e : toAppError(e, w.name);
-    return fail(err.message, err.fieldErrors, err.code);
+    const failed = fail<T>(err.message, err.fieldErrors, err.code);
+    if (err.retryAfterSeconds === undefined || failed.ok) return failed;
+    return { ...failed, retryAfterSeconds: err.retryAfterSeconds };
   }
 }
 

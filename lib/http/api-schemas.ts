@@ -1,6 +1,6 @@
 /**
  * Shapes of the v1 API that the routes and the OpenAPI document (lib/http/openapi.ts) share:
- * the error body every refusal carries, the upload's multipart fields, and the caller's own
+ * the problem details every refusal carries, the upload's multipart fields, and the caller's own
  * record (GET /api/v1/me).
  */
 import { z } from "zod";
@@ -10,16 +10,21 @@ import { ERROR_STATUS, type ErrorCode } from "@/lib/errors";
 
 const ERROR_CODES = Object.keys(ERROR_STATUS) as [ErrorCode, ...ErrorCode[]];
 
-/** `{ error: { code, message, fieldErrors? } }` (lib/http/respond.ts). */
-export const errorBodySchema = z
+/** RFC 9457 problem details, the body of every refusal (lib/http/respond.ts). */
+export const problemSchema = z
   .object({
-    error: z.object({
-      code: z.enum(ERROR_CODES),
-      message: z.string().meta({ description: "What went wrong and what to do; safe to show." }),
-      fieldErrors: z.record(z.string(), z.array(z.string())).optional(),
-    }),
+    type: z.string().meta({ description: "The problem type, a URI (tag:tributary,2026:problem:<code>)." }),
+    title: z.string().meta({ description: "A short summary of the problem type." }),
+    status: z.number().int().min(400).max(599),
+    detail: z.string().meta({ description: "What went wrong here and what to do about it; safe to show." }),
+    instance: z.string().meta({ description: "The address that was asked." }),
+    code: z.enum(ERROR_CODES),
+    errors: z
+      .record(z.string(), z.array(z.string()))
+      .optional()
+      .meta({ description: "For bad input: each field's messages, keyed by the field's name." }),
   })
-  .meta({ id: "Error" });
+  .meta({ id: "Problem" });
 
 /** The text fields of POST /api/v1/batches; the file comes in the part `file`. */
 export const uploadFieldsSchema = z.object({

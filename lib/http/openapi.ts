@@ -5,229 +5,10 @@
  * GET /api/v1/openapi.json; tests/integration/openapi.test.ts checks it against the README's
  * table, a standard validator and real answers.
  */
-import { z } from "zod";
-import { createDocument, type ZodOpenApiOperationObject, type ZodOpenApiPathsObject } from "zod-openapi";
-import { createApiTokenSchema, createUserSchema, updateUserSchema } from "@/lib/people/schemas";
-import { errorBodySchema, meSchema, uploadBodySchema } from "./api-schemas";
-import { batchParams, batchVersionParams, idParams, poolParams, studyParams } from "./params";
-import { auditQuery, batchesQuery, boardQuery, dictionaryQuery, ifAcceptedQuery } from "./queries";
-
-type Op = {
-  summary: string;
-  tag: string;
-  path?: z.ZodObject;
-  query?: z.ZodObject;
-  json?: z.ZodType;
-  multipart?: z.ZodType;
-  status?: 200 | 201 | 202;
-  /** the `data` of the answer; an open object when not described */
-  data?: z.ZodType;
-  /** a CSV or file answer instead of JSON */
-  raw?: "text/csv" | "application/octet-stream";
-  anonymous?: boolean;
-};
-
-const error = (description: string) => ({
-  description,
-  content: { "application/json": { schema: errorBodySchema } },
-});
-
-function operation(op: Op): ZodOpenApiOperationObject {
-  const status = op.status ?? 200;
-  const success = op.raw
-    ? { description: "The file.", content: { [op.raw]: { schema: z.string() } } }
-    : {
-        description: "Done.",
-        content: { "application/json": { schema: z.object({ data: op.data ?? z.looseObject({}) }) } },
-      };
-  return {
-    summary: op.summary,
-    tags: [op.tag],
-    ...(op.anonymous ? { security: [] } : {}),
-    requestParams: { ...(op.path ? { path: op.path } : {}), ...(op.query ? { query: op.query } : {}) },
-    ...(op.json
-      ? { requestBody: { required: true, content: { "application/json": { schema: op.json } } } }
-      : {}),
-    ...(op.multipart
-      ? { requestBody: { required: true, content: { "multipart/form-data": { schema: op.multipart } } } }
-      : {}),
-    responses: {
-      [status]: success,
-      ...(op.anonymous
-        ? {}
-        : {
-            401: error("Not signed in, or the API token is unknown or revoked."),
-            403: error("The role may not do this."),
-            429: error("Too many calls with this token; wait the seconds in Retry-After."),
-          }),
-      ...(op.path
-        ? { 404: error("Not found, or outside the caller's scope (never 403, so existence does not leak).") }
-        : {}),
-      ...(op.query || op.json || op.multipart || op.path
-        ? { 422: error("The input is not valid; fieldErrors names the fields.") }
-        : {}),
-    },
-  };
-}
-
-const tokenParams = idParams("A token id is a positive whole number.");
-const userParams = idParams("A user id is a positive whole number.");
-
-/** Every route of the v1 API: path → method → what it takes and answers. */
-const ROUTES: Record<string, Partial<Record<"get" | "post" | "patch" | "delete", Op>>> = {
-  "/api/v1/openapi.json": { get: { summary: "This document.", tag: "meta", anonymous: true } },
-  "/api/v1/me": {
-    get: {
-      summary: "The caller, their organisation and what their role allows.",
-      tag: "people",
-      data: meSchema,
-    },
-  },
-  "/api/v1/studies": { get: { summary: "The studies the caller may see.", tag: "studies" } },
-  "/api/v1/studies/{id}": {
-    get: {
-      summary: "One study, by number or slug, with its current data plan.",
-      tag: "studies",
-      path: studyParams,
-    },
-  },
-  "/api/v1/studies/{id}/plan": {
-    get: {
-      summary: "The study's current data plan, its version and hash.",
-      tag: "studies",
-      path: studyParams,
-    },
-  },
-  "/api/v1/batches": {
-    get: {
-      summary: "The batches the caller may see, with their latest state.",
-      tag: "batches",
-      query: batchesQuery,
-    },
-    post: {
-      summary: "Upload a batch file (a new batch, or a new version with `batch`).",
-      tag: "batches",
-      multipart: uploadBodySchema,
-      status: 201,
-    },
-  },
-  "/api/v1/batches/{id}": {
-    get: { summary: "A batch and its versions.", tag: "batches", path: batchParams },
-  },
-  "/api/v1/batches/{id}/versions/{version}/report": {
-    get: {
-      summary: "The version's state, progress while checking, and readiness report.",
-      tag: "batches",
-      path: batchVersionParams,
-    },
-  },
-  "/api/v1/batches/{id}/versions/{version}/rows-at-fault": {
-    get: {
-      summary: "The rows behind the report's findings, as formula-safe CSV.",
-      tag: "batches",
-      path: batchVersionParams,
-      raw: "text/csv",
-    },
-  },
-  "/api/v1/batches/{id}/versions/{version}/file": {
-    get: {
-      summary: "The original file as uploaded.",
-      tag: "batches",
-      path: batchVersionParams,
-      raw: "application/octet-stream",
-    },
-  },
-  "/api/v1/batches/{id}/versions/{version}/changes": {
-    get: {
-      summary:
-        "The change log of a machine-corrected version (row, column, before, after, proposal), as CSV.",
-      tag: "batches",
-      path: batchVersionParams,
-      raw: "text/csv",
-    },
-  },
-  "/api/v1/queue": { get: { summary: "The review queue (analysts).", tag: "batches" } },
-  "/api/v1/pool": { get: { summary: "Each visible study's pool in brief.", tag: "pool" } },
-  "/api/v1/pool/{slug}": {
-    get: { summary: "The study's pool of accepted data.", tag: "pool", path: poolParams },
-  },
-  "/api/v1/pool/{slug}/rows": {
-    get: {
-      summary: "The pool as one CSV with provenance columns.",
-      tag: "pool",
-      path: poolParams,
-      raw: "text/csv",
-    },
-  },
-  "/api/v1/pool/{slug}/dictionary": {
-    get: {
-      summary: "The pool's data dictionary (JSON, or CSV with format=csv).",
-      tag: "pool",
-      path: poolParams,
-      query: dictionaryQuery,
-    },
-  },
-  "/api/v1/pool/{slug}/if-accepted": {
-    get: {
-      summary: "The pool's figures if a version were accepted.",
-      tag: "pool",
-      path: poolParams,
-      query: ifAcceptedQuery,
-    },
-  },
-  "/api/v1/pool/{slug}/poolability": {
-    get: {
-      summary:
-        "The pool's questions as the worker last stored them: Chow tests per batch and provider, the whole-pool test, batch influence, the overall F test.",
-      tag: "pool",
-      path: poolParams,
-    },
-  },
-  "/api/v1/pool/{slug}/selection": {
-    get: {
-      summary:
-        "The selection preview the worker last stored: best subsets by size, forward and backward paths, Cp, AIC, BIC, adjusted R², leave-one-batch-out cross-validation and stability, with the caution.",
-      tag: "pool",
-      path: poolParams,
-    },
-  },
-  "/api/v1/board": { get: { summary: "The leads' status board.", tag: "board", query: boardQuery } },
-  "/api/v1/board/digest": {
-    post: { summary: "Queue the weekly digest to every active lead now.", tag: "board", status: 202 },
-  },
-  "/api/v1/audit": {
-    get: { summary: "The audit trail, newest first (leads, admins).", tag: "people", query: auditQuery },
-  },
-  "/api/v1/tokens": {
-    get: { summary: "The caller's API tokens.", tag: "people" },
-    post: {
-      summary: "Create an API token (its value is shown once).",
-      tag: "people",
-      json: createApiTokenSchema,
-      status: 201,
-    },
-  },
-  "/api/v1/tokens/{id}": {
-    delete: { summary: "Revoke one of the caller's API tokens.", tag: "people", path: tokenParams },
-  },
-  "/api/v1/admin/users": {
-    get: { summary: "Every user (admins).", tag: "people" },
-    post: {
-      summary: "Create a user, or invite one (no password: an e-mail link).",
-      tag: "people",
-      json: createUserSchema,
-      status: 201,
-    },
-  },
-  "/api/v1/admin/users/{id}": {
-    patch: {
-      summary: "Change a user's role and/or active flag (admins).",
-      tag: "people",
-      path: userParams,
-      json: updateUserSchema,
-    },
-  },
-};
+import { createDocument, type ZodOpenApiPathsObject } from "zod-openapi";
+import { operation } from "./openapi-operation";
+import { READ_ROUTES } from "./openapi-routes";
+import { WORK_ROUTES } from "./openapi-routes-work";
 
 let cached: ReturnType<typeof createDocument> | undefined;
 
@@ -235,16 +16,18 @@ let cached: ReturnType<typeof createDocument> | undefined;
 export function openApiDocument(): ReturnType<typeof createDocument> {
   if (cached) return cached;
   const paths: ZodOpenApiPathsObject = {};
-  for (const [path, methods] of Object.entries(ROUTES)) {
-    paths[path] = Object.fromEntries(Object.entries(methods).map(([m, op]) => [m, operation(op)]));
-  }
+  for (const routes of [READ_ROUTES, WORK_ROUTES])
+    for (const [path, methods] of Object.entries(routes)) {
+      const ops = Object.fromEntries(Object.entries(methods).map(([m, op]) => [m, operation(op)]));
+      paths[path] = { ...paths[path], ...ops };
+    }
   cached = createDocument({
     openapi: "3.1.0",
     info: {
       title: "Tributary API",
       version: "1",
       description:
-        "Batches, reports, reviews and pools of Tributary. Authenticate with a personal API token (`Authorization: Bearer trb_…`) or the browser session. Answers are `{ data }`, or `{ error: { code, message, fieldErrors? } }`.",
+        "Batches, reports, reviews and pools of Tributary. Authenticate with a personal API token (`Authorization: Bearer trb_…`) or the browser session. Answers are `{ data }`; refusals are RFC 9457 problem details (`application/problem+json`: type, title, status, detail, instance, code, and `errors` naming the fields of bad input). Lists take `cursor` and answer `next`, the address of the following page, or null on the last.",
     },
     security: [{ bearer: [] }, { session: [] }],
     components: {

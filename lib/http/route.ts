@@ -67,9 +67,9 @@ function assertSameOrigin(req: Request): void {
 
 /**
  * Wraps a v1 route handler in the house order: who is calling (401) → may their role do
- * this (403) → the handler parses input (422), loads within the caller's scope (404) and
+ * this (403) → the handler parses input (400/415/422), loads within the caller's scope (404) and
  * acts. Refusals come before input checks so they never depend on the body. Errors become
- * `{ error: { code, message } }`; unexpected ones are logged and answered with a plain 500.
+ * problem details (lib/http/respond.ts); unexpected ones are logged and answered with a plain 500.
  */
 export function apiRoute<P extends Record<string, string | string[]> = Record<string, never>>(
   options: { action?: Action },
@@ -83,7 +83,7 @@ export function apiRoute<P extends Record<string, string | string[]> = Record<st
       const params = ((await ctx?.params) ?? {}) as P;
       return await handler({ req, actor, params });
     } catch (e) {
-      return errorResponse(e, `${req.method} ${new URL(req.url).pathname}`);
+      return errorResponse(e, req);
     }
   };
 }

@@ -269,7 +269,8 @@ export function changeOwnPassword(
       const gate = await peekLimit("passwordChange", throttleKey);
       if (!gate.allowed) {
         const wait = waitText(gate.retryAfterSeconds);
-        return fail(`Too many wrong current passwords. Try again in ${wait}.`, undefined, "rate_limited");
+        const refused = fail<never>(`Too many wrong current passwords. Try again in ${wait}.`);
+        return { ...refused, code: "rate_limited", retryAfterSeconds: gate.retryAfterSeconds };
       }
       const target = await lockUser(tx, actor.id);
       const [row] = await tx.select({ hash: users.passwordHash }).from(users).where(eq(users.id, actor.id));

@@ -102,7 +102,7 @@ describe("POST /api/v1/admin/users", () => {
       as: admin,
     });
     expect(res.status).toBe(409);
-    expect(res.json.error?.fieldErrors).toEqual({ email: ["An account with this e-mail already exists."] });
+    expect(res.json.errors).toEqual({ email: ["An account with this e-mail already exists."] });
     const [after] = await getDb().select({ n: count() }).from(users);
     expect(after?.n).toBe(before?.n);
   });
@@ -123,7 +123,7 @@ describe("POST /api/v1/admin/users", () => {
     };
     const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body, as: admin });
     expect(res.status).toBe(422);
-    expect(res.json.error?.fieldErrors?.[field]?.[0]).toMatch(message);
+    expect(res.json.errors?.[field]?.[0]).toMatch(message);
   });
 
   test.each([
@@ -163,7 +163,7 @@ describe("POST /api/v1/admin/users", () => {
     };
     const res = await call(createAdminUser, { method: "POST", path: "/api/v1/admin/users", body, as: admin });
     expect(res.status).toBe(422);
-    expect(res.json.error?.fieldErrors?.organisationId?.[0]).toMatch(message);
+    expect(res.json.errors?.organisationId?.[0]).toMatch(message);
   });
 
   test("a cookie-authenticated change from another site's page is refused and writes nothing", async () => {
@@ -191,16 +191,17 @@ describe("POST /api/v1/admin/users", () => {
     expect((await send("http://127.0.0.1:3410")).status).toBe(201);
   });
 
-  test("a body that is not JSON → 422 with a plain message", async () => {
+  test("a body that is not JSON → 400 with a plain message", async () => {
     const res = await call(createAdminUser, {
       method: "POST",
       path: "/api/v1/admin/users",
       body: "{email:",
       as: admin,
     });
-    expect(res.status).toBe(422);
-    expectSafeError(res.json, "invalid");
-    expect(res.json.error?.message).toBe("The request body is not valid JSON.");
+    // a body that cannot be parsed at all is a 400 (RFC 9110 §15.5.1), not a validation error
+    expect(res.status).toBe(400);
+    expectSafeError(res.json, "bad_request");
+    expect(res.json.detail).toMatch(/^The request body is not valid JSON\./);
   });
 });
 
@@ -245,7 +246,7 @@ describe("PATCH /api/v1/admin/users/:id", () => {
     const auditBefore = (await auditFor(target.id)).length;
     const res = await patch(target.id, body);
     expect(res.status).toBe(status);
-    expect(res.json.error?.message).toMatch(message);
+    expect(res.json.detail).toMatch(message);
     const [after] = await getDb()
       .select({ role: users.role, active: users.active, sv: users.sessionVersion })
       .from(users)

@@ -192,7 +192,10 @@ describe("provider", () => {
     });
     expect(other.status).toBe(404);
     expectSafeError(other.json, "not_found");
-    expect(other).toEqual(missing);
+    // the same answer but for `instance`, which names the address asked (RFC 9457 §3.1.5)
+    const same = (r: typeof other) => ({ status: r.status, json: { ...r.json, instance: undefined } });
+    expect(same(other)).toEqual(same(missing));
+    expect(other.json.instance).toBe(`/api/v1/batches/${w.batchB.publicId}`);
   });
 
   test("admin routes → 403, and the users table is unchanged", async () => {
@@ -298,7 +301,7 @@ describe("analyst", () => {
     expect(publicIds(ready.json.data)).toEqual([w.batchA.publicId]);
     const bad = await call(listBatches, { path: "/api/v1/batches?state=lost", as: as.analystA });
     expect(bad.status).toBe(422);
-    expect(bad.json.error?.fieldErrors?.state?.[0]).toMatch(/state is one of: received, checking, ready/);
+    expect(bad.json.errors?.state?.[0]).toMatch(/state is one of: received, checking, ready/);
   });
 
   test("admin routes → 403", async () => {

@@ -92,7 +92,7 @@ describe("API tokens", () => {
     const res = await call(getMe, { path: "/api/v1/me", as: { bearer: token } });
     expect(res.status).toBe(401);
     expectSafeError(res.json, "unauthenticated");
-    expect(res.json.error?.message).toMatch(/revoked/);
+    expect(res.json.detail).toMatch(/revoked/);
 
     const audit = await getDb()
       .select({ action: auditEvents.action })
@@ -123,7 +123,7 @@ describe("API tokens", () => {
     try {
       const res = await call(getMe, { path: "/api/v1/me", as: { bearer: token } });
       expect(res.status).toBe(401);
-      expect(res.json.error?.message).toMatch(/not active/);
+      expect(res.json.detail).toMatch(/not active/);
     } finally {
       await getDb().update(users).set({ active: true }).where(eq(users.id, u.id));
     }
@@ -158,6 +158,6 @@ describe("API tokens", () => {
       as: { cookie: await sessionCookieFor(w.users.lead) },
     });
     expect(res.status).toBe(422);
-    expect(res.json.error?.fieldErrors?.name).toEqual(["Name the token (e.g. 'upload script')."]);
+    expect(res.json.errors?.name).toEqual(["Name the token (e.g. 'upload script')."]);
   });
 });

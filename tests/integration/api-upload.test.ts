@@ -103,7 +103,7 @@ describe("POST /api/v1/batches", () => {
     const before = await storedCount();
     const res = await post(token, { study: "barley-nitrogen", file: new File(["a,b\n1,2\n"], "x.csv") });
     expect(res.status).toBe(401);
-    expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/revoked/);
+    expect(((await res.json()) as { detail: string }).detail).toMatch(/revoked/);
     expect(await storedCount()).toBe(before);
   });
 
@@ -132,7 +132,7 @@ describe("POST /api/v1/batches", () => {
       { study: "barley-nitrogen" },
       "plots.xlsx",
       "PK\u0003\u0004",
-      422,
+      415, // not the CSV asked for: RFC 9110 §15.5.16
       /not a CSV file/,
     ],
     [
@@ -150,7 +150,7 @@ describe("POST /api/v1/batches", () => {
       { study: "barley-nitrogen" },
       "big.csv",
       "a,b\n" + "1,2\n".repeat(300_000),
-      422,
+      413, // RFC 9110 §15.5.14 Content Too Large
       /limit is 1 MB|1 MB limit/,
     ],
     [
@@ -168,7 +168,7 @@ describe("POST /api/v1/batches", () => {
     const versionsBefore = (await db.select({ id: batchVersions.id }).from(batchVersions)).length;
     const res = await post(token, { ...fields, file: new File([content], name, { type: "text/csv" }) });
     expect(res.status).toBe(status);
-    expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(message);
+    expect(((await res.json()) as { detail: string }).detail).toMatch(message);
     expect(await storedCount()).toBe(before);
     expect((await db.select({ id: batchVersions.id }).from(batchVersions)).length).toBe(versionsBefore);
   });
@@ -180,7 +180,7 @@ describe("POST /api/v1/batches", () => {
       const before = await storedCount();
       const res = await post(token, { study: "heat-pump-savings", file: new File(["a\n1\n"], "x.csv") });
       expect(res.status).toBe(403);
-      expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(
+      expect(((await res.json()) as { detail: string }).detail).toMatch(
         /is closed and takes no more batches/,
       );
       expect(await storedCount()).toBe(before);

@@ -132,12 +132,15 @@ describe("hostile files through the API upload and the check worker", () => {
       const want = c.expect as Extract<HostileOutcome, { kind: "refused" }>;
       const [files, versions] = [await storedCount(), await versionCount()];
       const res = await post(c);
-      expect(res.status).toBe(422);
+      // an empty file is bad input (422); a workbook is not the CSV asked for (415, RFC 9110 §15.5.16)
+      expect(res.status).toBe(c.fileName.endsWith(".xlsx") ? 415 : 422);
       const body = (await res.json()) as {
-        error: { code: string; message: string; fieldErrors?: Record<string, string[]> };
+        code: string;
+        detail: string;
+        errors?: Record<string, string[]>;
       };
-      expect(body.error.message).toMatch(want.message);
-      expect(body.error.fieldErrors?.file?.[0]).toMatch(want.message);
+      expect(body.detail).toMatch(want.message);
+      expect(body.errors?.file?.[0]).toMatch(want.message);
       expect(await storedCount()).toBe(files);
       expect(await versionCount()).toBe(versions);
     },

@@ -40,7 +40,9 @@ beforeAll(async () => {
 
 /** The schema of an answer, with the document's components so that $refs resolve. */
 function validatorFor(p: string, method: string, status: number) {
-  const schema = doc.paths[p]?.[method]?.responses[String(status)]?.content?.["application/json"]?.schema;
+  // refusals are RFC 9457 problem details, with their own media type (§6.1)
+  const media = status >= 400 ? "application/problem+json" : "application/json";
+  const schema = doc.paths[p]?.[method]?.responses[String(status)]?.content?.[media]?.schema;
   expect(schema, `${method.toUpperCase()} ${p} ${status} has a JSON schema`).toBeDefined();
   const ajv = new Ajv2020({ strict: false });
   ajv.addSchema({ $id: "doc", components: doc.components });
@@ -102,6 +104,8 @@ describe("the OpenAPI document", () => {
     expect(bad.status).toBe(422);
     const validate = validatorFor("/api/v1/audit", "get", 422);
     expect(validate(bad.json), JSON.stringify(validate.errors)).toBe(true);
-    expect(validate({ error: { code: "teapot", message: "x" } })).toBe(false);
+    expect(validate({ type: "x", title: "x", status: 422, detail: "x", instance: "/", code: "teapot" })).toBe(
+      false,
+    );
   });
 });

@@ -197,7 +197,7 @@ describe("pool export", () => {
     );
     const other = await get(poolRowsHandler, `/api/v1/pool/${SLUG}/rows`, "analyst2@lowmoor.test");
     expect(other.status).toBe(404);
-    expect((await other.json()).error.code).toBe("not_found");
+    expect((await other.json()).code).toBe("not_found");
     expect((await get(poolHandler, `/api/v1/pool/${SLUG}`, "analyst2@lowmoor.test")).status).toBe(404);
   });
 });

@@ -90,7 +90,7 @@ describe("two instances, one database", () => {
       const refused = await me(n);
       expect(refused.status).toBe(429);
       expect(Number(refused.headers.get("retry-after"))).toBeGreaterThanOrEqual(1);
-      expect(((await refused.json()) as { error: { code: string } }).error.code).toBe("rate_limited");
+      expect(((await refused.json()) as { code: string }).code).toBe("rate_limited");
     }
   });
 });

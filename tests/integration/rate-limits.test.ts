@@ -114,9 +114,9 @@ describe("API calls per token", () => {
     const retry = Number(refused.headers.get("retry-after"));
     expect(retry).toBeGreaterThanOrEqual(1);
     expect(retry).toBeLessThanOrEqual(60);
-    const body = (await refused.json()) as { error: { code: string; message: string } };
-    expect(body.error.code).toBe("rate_limited");
-    expect(body.error.message).toMatch(/^Too many API calls with this token\. Try again in \d+ seconds\.$/);
+    const body = (await refused.json()) as { code: string; detail: string };
+    expect(body.code).toBe("rate_limited");
+    expect(body.detail).toMatch(/^Too many API calls with this token\. Try again in \d+ seconds\.$/);
 
     const other = await addApiToken(w.users.analystA);
     expect((await me({ authorization: `Bearer ${other.token}` })).status).toBe(200);

@@ -81,7 +81,7 @@ describe("hostile file names through the API", () => {
       study: "barley-nitrogen",
       file: new File([csv], `${"a".repeat(1000)}.csv`, { type: "text/csv" }),
     });
-    expect(up.status, up.body.error?.message.slice(0, 80)).toBe(201);
+    expect(up.status, up.body.detail?.slice(0, 80)).toBe(201);
     const [row] = await getDb()
       .select({ fileName: batchVersions.fileName })
       .from(batchVersions)
@@ -100,7 +100,7 @@ describe("hostile file names through the API", () => {
         file: new File([csv], given, { type: "text/csv" }),
       });
       expect(up.status).toBe(422);
-      expect(up.body.error?.message).toMatch(/control characters.*Rename the file/);
+      expect(up.body.detail).toMatch(/control characters.*Rename the file/);
     },
   );
 
@@ -109,8 +109,8 @@ describe("hostile file names through the API", () => {
       study: "barley-nitrogen",
       file: new File([csv], "../..", { type: "text/csv" }),
     });
-    // no extension left: refused with a message naming what to send
-    expect(up.status).toBe(422);
-    expect(up.body.error?.message).toMatch(/not a CSV file/);
+    // no extension left: not a CSV file (415, RFC 9110 §15.5.16), with a message naming what to send
+    expect(up.status).toBe(415);
+    expect(up.body.detail).toMatch(/not a CSV file/);
   });
 });

@@ -90,7 +90,7 @@ describe("the original file", () => {
     async (email) => {
       const res = await callAs(fileRoute, url(), params(), email);
       expect(res.status).toBe(404);
-      expect(((await res.json()) as { error: { code: string } }).error.code).toBe("not_found");
+      expect(((await res.json()) as { code: string }).code).toBe("not_found");
       // the same for the report JSON
       expect(
         (await callAs(reportRoute, `/api/v1/batches/${ready.batchId}/versions/1/report`, params(), email))

@@ -123,7 +123,7 @@ describe("GET /api/v1/studies/:id/plan", () => {
     const r = await get("bad id!", "admin");
     expect(r.status).toBe(422);
     expectSafeError(r.json, "invalid");
-    expect(r.json.error?.message).toMatch(/number or its slug/);
+    expect(r.json.detail).toMatch(/number or its slug/);
   });
 
   test("a study without a plan → 404 that says so; after publishing, the newest version is served; admission opens it to the provider", async () => {
@@ -132,7 +132,7 @@ describe("GET /api/v1/studies/:id/plan", () => {
     if (!c.ok) throw new Error(c.message);
     const none = await get(slug, "admin");
     expect(none.status).toBe(404);
-    expect(none.json.error?.message).toMatch(/no data plan yet/);
+    expect(none.json.detail).toMatch(/no data plan yet/);
 
     const v1 = await publishPlanVersion(userIds.lead!, c.data.id, BARLEY_PLAN);
     const changed = structuredClone(BARLEY_PLAN);

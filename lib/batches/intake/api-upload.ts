@@ -12,7 +12,7 @@ import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
 import type { SessionUser } from "@/lib/auth/session";
 import { utapi } from "@/lib/batches/intake/file-store";
-import { batchFileProblem, cleanFileName } from "./file-rules";
+import { batchFileRefusal, cleanFileName } from "./file-rules";
 import type { ReceivedFile } from "./multipart-upload";
 import { STORE_DOWN_MESSAGE } from "./upload-errors";
 import { authoriseUpload } from "../commands-upload";
@@ -44,9 +44,10 @@ export function uploadBatchViaApi(actor: SessionUser, input: ApiUploadInput) {
 async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   const db = getDb();
   // judged on the name as sent (as the browser route does), stored cleaned
-  const problem = batchFileProblem({ name: input.file.name, size: input.file.size }, env().MAX_UPLOAD_MB);
+  const refusal = batchFileRefusal({ name: input.file.name, size: input.file.size }, env().MAX_UPLOAD_MB);
   const name = cleanFileName(input.file.name);
-  if (problem) throw new AppError("invalid", problem, { fieldErrors: { file: [problem] } });
+  if (refusal)
+    throw new AppError(refusal.code, refusal.message, { fieldErrors: { file: [refusal.message] } });
   const studyId = await studyIdBySlug(input.studySlug);
   if (studyId === null)
     throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");

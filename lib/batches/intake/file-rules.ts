@@ -70,14 +70,28 @@ export function attachmentDisposition(fileName: string): string {
   return `attachment; filename="${ascii}"; filename*=UTF-8''${encoded}`;
 }
 
-/** A plain message saying what to fix, or null when the file may be uploaded. */
-export function batchFileProblem(file: { name: string; size: number }, maxUploadMb: number): string | null {
-  if (file.size === 0) return `"${file.name}" is empty (0 bytes). Choose the file that holds the batch.`;
+/** Why a file may not be uploaded, with the HTTP-facing kind (empty 422, too large 413, not CSV 415), or null. */
+export function batchFileRefusal(
+  file: { name: string; size: number },
+  maxUploadMb: number,
+): { code: "invalid" | "too_large" | "unsupported_type"; message: string } | null {
+  if (file.size === 0)
+    return {
+      code: "invalid",
+      message: `"${file.name}" is empty (0 bytes). Choose the file that holds the batch.`,
+    };
   if (file.size > maxUploadMb * 1024 * 1024) {
-    return `"${file.name}" is ${formatBytes(file.size)}; the limit is ${maxUploadMb} MB. Split the batch into smaller files.`;
+    const message = `"${file.name}" is ${formatBytes(file.size)}; the limit is ${maxUploadMb} MB. Split the batch into smaller files.`;
+    return { code: "too_large", message };
   }
   if (!BATCH_FILE_EXTENSIONS.test(file.name)) {
-    return `"${file.name}" is not a CSV file. Export the data as CSV (comma, semicolon or tab separated) and send that file.`;
+    const message = `"${file.name}" is not a CSV file. Export the data as CSV (comma, semicolon or tab separated) and send that file.`;
+    return { code: "unsupported_type", message };
   }
   return null;
+}
+
+/** A plain message saying what to fix, or null when the file may be uploaded. */
+export function batchFileProblem(file: { name: string; size: number }, maxUploadMb: number): string | null {
+  return batchFileRefusal(file, maxUploadMb)?.message ?? null;
 }

@@ -53,7 +53,7 @@ export async function receiveMultipart(
   tooLarge: string,
 ): Promise<ReceivedUpload> {
   const type = req.headers.get("content-type") ?? "";
-  if (!req.body) throw new AppError("invalid", MALFORMED);
+  if (!req.body) throw new AppError("bad_request", MALFORMED);
   const dir = await mkdtemp(path.join(os.tmpdir(), "tributary-upload-"));
   const discard = () => rm(dir, { recursive: true, force: true });
   let parser: busboy.Busboy;
@@ -66,7 +66,7 @@ export async function receiveMultipart(
     });
   } catch {
     await discard();
-    throw new AppError("invalid", MALFORMED);
+    throw new AppError("bad_request", MALFORMED);
   }
 
   const fields: Record<string, string> = {};
@@ -96,7 +96,7 @@ export async function receiveMultipart(
     };
     file = received;
     stream.on("limit", () => {
-      problem ??= new AppError("invalid", tooLarge, { fieldErrors: { file: [tooLarge] } });
+      problem ??= new AppError("too_large", tooLarge, { fieldErrors: { file: [tooLarge] } });
     });
     const count = new Transform({
       transform(chunk: Buffer, _enc, done) {
@@ -126,7 +126,9 @@ export async function receiveMultipart(
     await discard();
     if (error instanceof AppError) throw error;
     const header = error instanceof Error && /header/i.test(error.message);
-    throw new AppError("invalid", header ? BAD_HEADER : MALFORMED, { cause: error });
+    throw header
+      ? new AppError("invalid", BAD_HEADER, { cause: error })
+      : new AppError("bad_request", MALFORMED, { cause: error });
   }
   if (problem) {
     await discard();

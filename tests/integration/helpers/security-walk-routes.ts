@@ -7,7 +7,16 @@
 import { NextRequest } from "next/server";
 import type { Role, Scope } from "./security-walk-table";
 import { actAs } from "./security-walk-request";
-import { freshToken, freshUser, type WalkWorld, type Side } from "./security-walk-world";
+import { DEMO_STUDIES } from "@/lib/demo";
+import {
+  freshFarm,
+  freshStudy,
+  freshToken,
+  freshUser,
+  freshVersion,
+  type WalkWorld,
+  type Side,
+} from "./security-walk-world";
 
 export type ProbeCtx = { w: WalkWorld; role: Role; scope: Scope; cookie: string };
 export type Probe = {
@@ -58,9 +67,9 @@ export async function callRoute(
   actAs(ctx.cookie);
   const res = await fn(req, { params: Promise.resolve(spec.params ?? {}) });
   if (path.startsWith("/api/v1/") && CODE_OF[res.status]) {
-    const json = (await res.json()) as { error?: { code?: string } };
-    if (json.error?.code !== CODE_OF[res.status])
-      throw new Error(`${method} ${path} answered ${res.status} with error code ${json.error?.code}`);
+    const json = (await res.json()) as { code?: string };
+    if (json.code !== CODE_OF[res.status])
+      throw new Error(`${method} ${path} answered ${res.status} with error code ${json.code}`);
   } else await res.body?.cancel();
   return String(res.status);
 }
@@ -203,12 +212,69 @@ export const ROUTE_PROBES: Record<string, (fn: RouteFn, url: string, method: str
   ),
 };
 
+const changes = { mutates: true, writes: true } as const;
+const scopedChange = { scoped: true, ...changes } as const;
+const NEW_PASSWORD = { currentPassword: "correct-horse-battery", newPassword: "another-long-password" };
+
+/** Probes of the routes that do a role's work (the same services as the pages' actions). */
+export const WORK_PROBES: Record<string, (fn: RouteFn, url: string, method: string) => Probe> = {
+  "POST /api/v1/batches/[id]/versions/[version]/decision | accept": route(async (c) => {
+    const v = await freshVersion(c.w, c.scope === "own");
+    return { params: { id: v.publicId, version: String(v.version) }, body: { decision: "accept" } };
+  }, scopedChange),
+  "POST /api/v1/studies | —": route(
+    () => ({ body: { slug: `walk-api-${process.pid}-${++n}`, title: "Walk API study", description: "" } }),
+    changes,
+  ),
+  "POST /api/v1/studies/[id]/plan | a changed plan": route(async (c) => {
+    const st = await freshStudy(c.w, c.scope === "own");
+    return { params: { id: st.slug }, body: { plan: DEMO_STUDIES[1]!.plan, note: "walk" } };
+  }, scopedChange),
+  "POST /api/v1/studies/[id]/providers | admit a provider organisation": route(async (c) => {
+    const st = await freshStudy(c.w, c.scope === "own");
+    return { params: { id: st.slug }, body: { organisationId: await freshFarm() } };
+  }, scopedChange),
+  "DELETE /api/v1/studies/[id]/providers/[memberId] | remove the admitted farm": route(async (c) => {
+    const st = await freshStudy(c.w, c.scope === "own");
+    const farm = c.scope === "own" ? c.w.farmA.id : c.w.farmB.id;
+    return { params: { id: st.slug, memberId: String(farm) } };
+  }, scopedChange),
+  "POST /api/v1/studies/[id]/analysts | assign an analyst": route(async (c) => {
+    const st = await freshStudy(c.w, c.scope === "own");
+    return { params: { id: st.slug }, body: { userId: (await freshUser(c.w, "analyst")).id } };
+  }, scopedChange),
+  "DELETE /api/v1/studies/[id]/analysts/[memberId] | unassign the assigned analyst": route(async (c) => {
+    const st = await freshStudy(c.w, c.scope === "own");
+    const analyst = c.scope === "own" ? c.w.users.analystA.id : c.w.users.analystB.id;
+    return { params: { id: st.slug, memberId: String(analyst) } };
+  }, scopedChange),
+  "POST /api/v1/invitations | a provider": route(
+    (c) => ({
+      body: {
+        email: `walk-api-invited-${process.pid}-${++n}@f3a.test`,
+        name: "Walk Invited",
+        role: "provider",
+        organisationId: c.w.farmA.id,
+      },
+    }),
+    changes,
+  ),
+  // as a throwaway user of the role: the change ends that user's sessions
+  "POST /api/v1/me/password | own password": (fn, url, method) => ({
+    ...changes,
+    async prepare(ctx) {
+      const cookie = ctx.role === "anonymous" ? "" : (await freshUser(ctx.w, ctx.role)).cookie;
+      return () => callRoute(fn, url, method, { ...ctx, cookie }, { body: NEW_PASSWORD });
+    },
+  }),
+};
+
 /** Routes that read one batch version (`…/versions/[version]/<what>`) share one probe, also for ones added later. */
 export function routeProbe(
   handler: string,
   call: string,
 ): ((fn: RouteFn, url: string, method: string) => Probe) | undefined {
-  const exact = ROUTE_PROBES[`${handler} | ${call}`];
+  const exact = ROUTE_PROBES[`${handler} | ${call}`] ?? WORK_PROBES[`${handler} | ${call}`];
   if (exact) return exact;
   if (call === "—" && /^GET \/api\/v1\/batches\/\[id\]\/versions\/\[version\]\/[\w-]+$/.test(handler))
     return byVersion;

@@ -91,7 +91,8 @@ export async function apiUpload(
     status: res.status,
     body: (await res.json()) as {
       data?: { batchId: string; version: number };
-      error?: { code: string; message: string };
+      code?: string;
+      detail?: string;
     },
   };
 }

@@ -21,7 +21,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   const type = req.headers.get("content-type") ?? "";
   if (!type.startsWith("multipart/form-data")) {
     throw new AppError(
-      "invalid",
+      "unsupported_type",
       "Send the batch as multipart/form-data with the fields 'study' and 'file' (and 'batch' for a new version).",
     );
   }
@@ -29,7 +29,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   const tooLarge = `The upload is larger than the ${env().MAX_UPLOAD_MB} MB limit. Split the batch into smaller files.`;
   const length = Number(req.headers.get("content-length") ?? 0);
   if (length > limit + 64 * 1024)
-    throw new AppError("invalid", tooLarge, { fieldErrors: { file: [tooLarge] } });
+    throw new AppError("too_large", tooLarge, { fieldErrors: { file: [tooLarge] } });
   // the file streams to a temporary file (never whole in memory) and is removed when done
   const upload = await receiveMultipart(req, limit, tooLarge);
   let done: Awaited<ReturnType<typeof uploadBatchViaApi>>;

@@ -15,5 +15,5 @@ export const POST = apiRoute({ action: "token.manage" }, async ({ req, actor }) 
   if (actor.via === "token")
     throw new AppError("forbidden", "Create API tokens while signed in, not with another token.");
   const input = await parseJsonBody(req, createApiTokenSchema);
-  return resultResponse(await createApiToken(actor.id, input), 201);
+  return resultResponse(await createApiToken(actor.id, input), 201, (t) => `/api/v1/tokens/${t.id}`);
 });

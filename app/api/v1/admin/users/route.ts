@@ -10,5 +10,5 @@ export const GET = apiRoute({ action: "user.manage" }, async ({ actor }) => json
 
 export const POST = apiRoute({ action: "user.manage" }, async ({ req, actor }) => {
   const input = await parseJsonBody(req, createUserSchema);
-  return resultResponse(await createUser(actor.id, input), 201);
+  return resultResponse(await createUser(actor.id, input), 201, (u) => `/api/v1/admin/users/${u.id}`);
 });

@@ -21,6 +21,7 @@ export const GET = apiRoute<{ id: string; version: string }>(
       planVersion: found.plan.version,
       reportedAt: found.reportedAt,
       report: found.report,
+      decision: found.decision,
     });
   },
 );

@@ -1,0 +1,8 @@
+// DELETE /api/v1/studies/:id/analysts/:memberId — unassign an analyst: the study page's service.
+import { apiRoute } from "@/lib/http/route";
+import { removeStudyMember } from "@/lib/http/study-members";
+
+export const DELETE = apiRoute<{ id: string; memberId: string }>(
+  { action: "study.manage" },
+  ({ actor, params }) => removeStudyMember("analysts", actor, params),
+);
