@@ -206,10 +206,8 @@ export async function runRangeWorker(): Promise<void> {
   if (!("ok" in r) || !r.ok) return parentPort!.postMessage(r);
   const part = r.part;
   const transfer = [
-    part.rowSet.hi.buffer,
-    part.rowSet.lo.buffer,
-    part.rowSet.line.buffer,
-    ...part.keys.flatMap(([, k]) => [k.set.hi.buffer, k.set.lo.buffer, k.set.line.buffer]),
+    part.rowSet.slots.buffer,
+    ...part.keys.map(([, k]) => k.set.slots.buffer),
     ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : [])),
   ];
   parentPort!.postMessage(r, transfer as ArrayBuffer[]);

@@ -10,6 +10,7 @@
  */
 import type { FieldBatch } from "./fields";
 import { fieldTooLong, recordTooLong, unclosedQuote } from "./reader-errors";
+import { RecordStore } from "./tokenizer-records";
 
 export type { FieldBatch };
 
@@ -34,13 +35,6 @@ const enum At {
   AfterClosingQuote,
 }
 
-const grow = (a: Int32Array<ArrayBuffer>, need: number): Int32Array<ArrayBuffer> => {
-  if (need <= a.length) return a;
-  const b = new Int32Array(Math.max(need, a.length * 2));
-  b.set(a);
-  return b;
-};
-
 export class Tokenizer {
   private buf = new Uint8Array(1 << 16);
   private len = 0;
@@ -57,17 +51,8 @@ export class Tokenizer {
   private line: number;
   private recLine: number;
   private fieldQuoted = false;
-  private starts: Int32Array<ArrayBuffer> = new Int32Array(4096);
-  private ends: Int32Array<ArrayBuffer> = new Int32Array(4096);
-  /** fields held: those of the complete records, then the unfinished record's */
-  private nf = 0;
-  private recs: Int32Array<ArrayBuffer> = new Int32Array(1025);
-  private lines: Int32Array<ArrayBuffer> = new Int32Array(1024);
-  private count = 0;
+  private readonly store: RecordStore;
   blankLines = 0;
-  /** raw offsets (opt-in: the byte-faithful rewriter needs them, the check does not) */
-  private rawEnds: Float64Array<ArrayBuffer> | null = null;
-  private recOffsets: Float64Array<ArrayBuffer> | null = null;
   /** set once a record would start at or beyond `endOffset` (or the input ended) */
   stoppedAt = -1;
 
@@ -76,10 +61,7 @@ export class Tokenizer {
     private readonly limits: TokenizerLimits,
     opts: { offset?: number; firstLine?: number; endOffset?: number; raw?: boolean } = {},
   ) {
-    if (opts.raw) {
-      this.rawEnds = new Float64Array(4096);
-      this.recOffsets = new Float64Array(1024);
-    }
+    this.store = new RecordStore(opts.raw === true);
     this.base = opts.offset ?? 0;
     this.line = opts.firstLine ?? 1;
     this.recLine = this.line;
@@ -97,29 +79,8 @@ export class Tokenizer {
     if (this.stoppedAt >= 0) return;
     this.append(chunk);
     this.run(last);
-    if (this.count > 0) {
-      const b: FieldBatch = {
-        buf: this.buf,
-        starts: this.starts,
-        ends: this.ends,
-        recs: this.recs,
-        lines: this.lines,
-        first: 0,
-        count: this.count,
-      };
-      if (this.rawEnds) {
-        b.rawEnds = this.rawEnds;
-        b.recOffsets = this.recOffsets!;
-      }
-      emit(b);
-    }
-    const open = this.nf - this.recs[this.count]!;
-    this.starts.copyWithin(0, this.recs[this.count]!, this.nf);
-    this.ends.copyWithin(0, this.recs[this.count]!, this.nf);
-    this.rawEnds?.copyWithin(0, this.recs[this.count]!, this.nf);
-    this.nf = open;
-    this.count = 0;
-    this.recs[0] = 0;
+    if (this.store.count > 0) emit(this.store.batch(this.buf));
+    this.store.dropComplete();
     if (this.len - this.recStart > this.limits.maxRecordBytes)
       throw recordTooLong(
         this.recLine,
@@ -139,10 +100,7 @@ export class Tokenizer {
         this.wp -= shift;
         this.recStart = 0;
         this.base += shift;
-        for (let f = 0; f < this.nf; f++) {
-          this.starts[f]! -= shift;
-          this.ends[f]! -= shift;
-        }
+        this.store.shift(shift);
       }
       if (this.buf.length - this.len < chunk.length) {
         const b = new Uint8Array(Math.max(this.buf.length * 2, this.len + chunk.length));
@@ -157,51 +115,13 @@ export class Tokenizer {
   /** `raw`: the buffer index just past the field's raw text (its closing quote and anything after it) */
   private endField(s: number, e: number, raw: number): void {
     if (e - s > this.limits.maxFieldBytes)
-      throw fieldTooLong(
-        this.recLine,
-        this.nf - this.recs[this.count]! + 1,
-        e - s,
-        this.limits.maxFieldBytes,
-      );
-    if (this.nf >= this.starts.length) {
-      this.starts = grow(this.starts, this.nf + 1);
-      this.ends = grow(this.ends, this.nf + 1);
-    }
-    this.starts[this.nf] = s;
-    this.ends[this.nf] = e;
-    if (this.rawEnds) {
-      if (this.nf >= this.rawEnds.length) {
-        const g = new Float64Array(this.starts.length);
-        g.set(this.rawEnds);
-        this.rawEnds = g;
-      }
-      this.rawEnds[this.nf] = this.base + raw;
-    }
-    this.nf++;
+      throw fieldTooLong(this.recLine, this.store.openFields + 1, e - s, this.limits.maxFieldBytes);
+    this.store.addField(s, e, this.base + raw);
   }
 
   private endRecord(next: number): void {
     this.line++;
-    const from = this.recs[this.count]!;
-    const blank = this.nf - from === 1 && this.ends[from] === this.starts[from] && !this.fieldQuoted;
-    if (blank) {
-      this.nf = from;
-      this.blankLines++;
-    } else {
-      if (this.count + 2 > this.recs.length) this.recs = grow(this.recs, this.count + 2);
-      if (this.count + 1 > this.lines.length) this.lines = grow(this.lines, this.count + 1);
-      this.lines[this.count] = this.recLine;
-      if (this.recOffsets) {
-        if (this.count >= this.recOffsets.length) {
-          const g = new Float64Array(this.lines.length);
-          g.set(this.recOffsets);
-          this.recOffsets = g;
-        }
-        this.recOffsets[this.count] = this.base + this.recStart;
-      }
-      this.count++;
-      this.recs[this.count] = this.nf;
-    }
+    if (!this.store.endRecord(this.recLine, this.base + this.recStart, this.fieldQuoted)) this.blankLines++;
     this.fieldQuoted = false;
     this.recStart = next;
     this.recLine = this.line;
@@ -238,7 +158,7 @@ export class Tokenizer {
         }
       }
       if (at === At.FieldStart) {
-        if (this.nf === this.recs[this.count] && this.base + i >= this.endOffset) {
+        if (this.store.openFields === 0 && this.base + i >= this.endOffset) {
           this.stoppedAt = this.base + i;
           break;
         }
@@ -318,8 +238,8 @@ export class Tokenizer {
     if (at === At.Quoted) throw unclosedQuote(this.recLine);
     if (at === At.Unquoted) this.endField(this.fieldStart, n, n);
     else if (at === At.QuoteSeen || at === At.AfterClosingQuote) this.endField(this.fieldStart, this.wp, n);
-    else if (this.nf > this.recs[this.count]!) this.endField(n, n, n);
-    if (this.nf > this.recs[this.count]!) {
+    else if (this.store.openFields > 0) this.endField(n, n, n);
+    if (this.store.openFields > 0) {
       this.endRecord(n);
       this.line--; // no line break ended it
     }
