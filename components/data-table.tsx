@@ -44,6 +44,8 @@ type Props<T extends TableNode> = {
   filterPlaceholder?: string;
   empty?: ReactNode;
   toolbar?: ReactNode;
+  /** shows only the first rows until "Show all N" is pressed (the CSV still holds every row) */
+  collapsedRows?: number;
 };
 
 function comparable(v: CellValue): string | number {
@@ -88,8 +90,10 @@ export function DataTable<T extends TableNode>({
   filterPlaceholder = "Filter rows",
   empty,
   toolbar,
+  collapsedRows,
 }: Props<T>) {
   const [query, setQuery] = useState("");
+  const [expanded, setExpanded] = useState(false);
   const filterId = useId();
 
   const filtered = useMemo(() => {
@@ -98,6 +102,7 @@ export function DataTable<T extends TableNode>({
     return rows.filter((r) => columns.some((c) => asText(c.value(r)).toLowerCase().includes(q)));
   }, [rows, columns, query]);
 
+  const limit = !expanded && collapsedRows && filtered.length > collapsedRows + 1 ? collapsedRows : null;
   const data = useMemo(() => ({ nodes: filtered }), [filtered]);
 
   const sortFns = useMemo(() => {
@@ -237,7 +242,7 @@ export function DataTable<T extends TableNode>({
                   </HeaderRow>
                 </Header>
                 <Body>
-                  {tableList.map((row) => (
+                  {(limit ? tableList.slice(0, limit) : tableList).map((row) => (
                     <Row key={row.id} item={row}>
                       {columns.map((c) => (
                         <Cell key={c.key} className={c.numeric ? "num" : undefined}>
@@ -262,6 +267,20 @@ export function DataTable<T extends TableNode>({
           </Table>
         </div>
       )}
+      {limit ? (
+        <div>
+          <Button
+            variant="secondary"
+            size="sm"
+            onClick={() => setExpanded(true)}
+            data-testid="show-all"
+            aria-label={`Show all ${filtered.length} rows of ${caption}`}
+          >
+            Show all {filtered.length}
+          </Button>
+          <span className="ml-2 text-sm text-silt-ink">First {limit} shown.</span>
+        </div>
+      ) : null}
     </div>
   );
 }

@@ -63,6 +63,7 @@ export function CoefficientsTable({
       rows={rows}
       columns={columns}
       caption="Coefficients"
+      collapsedRows={5}
       csvName={csvName}
       filterPlaceholder="Filter terms"
     />
@@ -141,6 +142,7 @@ export function CollinearityTable({
       rows={rows}
       columns={columns}
       caption="Collinearity by term"
+      collapsedRows={5}
       csvName={csvName}
       filterPlaceholder="Filter terms"
     />

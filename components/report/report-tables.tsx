@@ -3,6 +3,7 @@
 import { DataTable, type Column } from "@/components/data-table";
 import { SeverityBadge, type Severity } from "@/components/severity-badge";
 import { SummaryText } from "./box-plot";
+import { FindingComment, useReview } from "@/components/triage/review-context";
 import { formatCount, formatNumber } from "@/lib/format";
 import type { ColumnReport, Finding } from "@/lib/readiness";
 
@@ -27,6 +28,7 @@ export function FindingsTable({
   caption?: string;
   csvName?: string;
 }) {
+  const review = useReview();
   const columns: Column<FindingRow>[] = [
     {
       key: "severity",
@@ -68,12 +70,28 @@ export function FindingsTable({
       render: (f) => <span className="text-xs tabular-nums">{rowsText(f)}</span>,
     },
     { key: "fix", header: "What to do", width: "minmax(14rem, 2.5fr)", value: (f) => f.fix },
+    ...(review
+      ? [
+          {
+            key: "comment",
+            header: "Your comment",
+            width: "minmax(12rem, 2fr)",
+            value: (f: FindingRow) => review.comments[f.id] ?? "",
+            render: (f: FindingRow) => (
+              <FindingComment id={f.id} code={f.code} label={`${f.code} ${f.columns.join(", ")}`} />
+            ),
+            sortable: false,
+            csv: false,
+          } satisfies Column<FindingRow>,
+        ]
+      : []),
   ];
   return (
     <DataTable
       rows={findings}
       columns={columns}
       caption={caption}
+      collapsedRows={5}
       csvName={csvName}
       filterPlaceholder="Filter findings"
     />
@@ -180,6 +198,7 @@ export function ColumnsTable({
       rows={rows}
       columns={columns}
       caption="Columns"
+      collapsedRows={5}
       csvName={csvName}
       filterPlaceholder="Filter columns"
     />

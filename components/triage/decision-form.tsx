@@ -1,14 +1,16 @@
 "use client";
-/** The analyst's decision on a version: accept or bounce, an overall comment, comments on findings. */
+/**
+ * The analyst's decision on a version, compact enough for the summary bar: an overall comment and
+ * the two buttons; the comments on findings are written on the findings' own rows (review-context).
+ */
 import { useState, useTransition } from "react";
 import { useRouter } from "next/navigation";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
-import { Field } from "@/components/ui/field";
-import { SeverityShape } from "@/components/severity-badge";
 import type { Finding } from "@/lib/readiness";
 import type { Result } from "@/lib/result";
 import type { DecisionDone, DecisionInput } from "@/lib/batches/commands-decide";
+import { useReview } from "./review-context";
 
 type Props = {
   batchId: string;
@@ -18,22 +20,23 @@ type Props = {
   decide: (batchId: string, version: number, input: DecisionInput) => Promise<Result<DecisionDone>>;
 };
 
-const textareaClass =
-  "w-full rounded border border-silt bg-white px-2.5 py-1.5 text-base focus:outline-2 focus:outline-channel";
+/** Set when a decision is made, read once by the "Next in queue" link to take the focus. */
+export const DECIDED_KEY = "tributary:decided";
 
 export function DecisionForm({ batchId, version, findings, canAccept, decide }: Props) {
   const router = useRouter();
+  const review = useReview();
   const [comment, setComment] = useState("");
-  const [perFinding, setPerFinding] = useState<Record<number, string>>({});
   const [errors, setErrors] = useState<Record<string, string[]>>({});
   const [pending, start] = useTransition();
+  const commented = Object.values(review?.comments ?? {}).filter((t) => t.trim()).length;
 
   function submit(decision: "accept" | "bounce") {
-    const findingComments = Object.entries(perFinding)
+    const findingComments = Object.entries(review?.comments ?? {})
       .filter(([, text]) => text.trim())
-      .map(([i, text]) => {
-        const f = findings[Number(i)]!;
-        return { code: f.code, columns: f.columns, comment: text.trim() };
+      .flatMap(([i, text]) => {
+        const f = findings[Number(i)];
+        return f ? [{ code: f.code, columns: f.columns, comment: text.trim() }] : [];
       });
     start(async () => {
       const r = await decide(batchId, version, { decision, comment, findingComments });
@@ -44,6 +47,7 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
             : `Bounced. ${r.data.emailsQueued} e-mail(s) with your comments queued.`,
         );
         setErrors({});
+        sessionStorage.setItem(DECIDED_KEY, batchId);
         router.refresh();
       } else {
         setErrors(r.fieldErrors ?? {});
@@ -53,68 +57,42 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
     });
   }
 
+  const problems = [...(errors.comment ?? []), ...(errors.findingComments ?? [])];
   return (
     <form
-      className="grid gap-4"
+      className="flex flex-wrap items-start gap-2"
       onSubmit={(e) => e.preventDefault()}
       aria-label="Decision"
       data-testid="decision-form"
     >
-      <Field
-        id="decision-comment"
-        label="Comment to the provider"
-        hint="Sent by e-mail with the decision. Required to bounce unless you comment on a finding."
-        errors={errors.comment}
-      >
+      <div className="grid min-w-64 flex-1 gap-0.5">
+        <label htmlFor="decision-comment" className="text-xs font-semibold text-ink-soft">
+          Comment to the provider
+          <span className="font-normal text-silt-ink">
+            {" "}
+            ·{" "}
+            {commented
+              ? `and ${commented} on findings`
+              : "required to bounce unless you comment on a finding"}
+          </span>
+        </label>
         <textarea
-          className={textareaClass}
-          rows={3}
+          id="decision-comment"
+          className="h-8 w-full rounded border border-silt bg-white px-2 py-1 text-sm focus:h-20 focus:outline-2 focus:outline-channel"
+          rows={1}
           value={comment}
           onChange={(e) => setComment(e.target.value)}
           maxLength={5000}
+          aria-invalid={problems.length ? true : undefined}
+          aria-describedby={problems.length ? "decision-problems" : undefined}
         />
-      </Field>
-      {findings.length ? (
-        <details
-          className="rounded border border-silt-line bg-white px-3 py-2"
-          open={findings.some((f) => f.severity === "blocker")}
-        >
-          <summary className="cursor-pointer text-sm font-semibold">
-            Comment on findings ({findings.length})
-          </summary>
-          <ul className="mt-2 grid gap-3">
-            {findings.map((f, i) => (
-              <li key={i} className="grid gap-1">
-                <label htmlFor={`fc-${i}`} className="flex gap-2 text-sm">
-                  <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
-                  <span>
-                    <code className="text-xs">{f.code}</code>
-                    {f.columns.length ? (
-                      <span className="font-mono text-xs"> ({f.columns.join(", ")})</span>
-                    ) : null}{" "}
-                    — {f.message}
-                  </span>
-                </label>
-                <textarea
-                  id={`fc-${i}`}
-                  data-finding-code={f.code}
-                  className={textareaClass}
-                  rows={1}
-                  value={perFinding[i] ?? ""}
-                  maxLength={2000}
-                  onChange={(e) => setPerFinding({ ...perFinding, [i]: e.target.value })}
-                />
-              </li>
-            ))}
-          </ul>
-          {errors.findingComments ? (
-            <p className="text-sm text-clay" aria-live="polite">
-              {errors.findingComments.join(" ")}
-            </p>
-          ) : null}
-        </details>
-      ) : null}
-      <div className="flex flex-wrap items-center gap-3">
+        {problems.length ? (
+          <p id="decision-problems" className="text-sm text-clay" aria-live="polite">
+            {problems.join(" ")}
+          </p>
+        ) : null}
+      </div>
+      <div className="flex items-center gap-2 self-end">
         <Button variant="danger" onClick={() => submit("bounce")} busy={pending} data-testid="bounce-button">
           Bounce to the provider
         </Button>
@@ -123,9 +101,6 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
             Accept into the pool
           </Button>
         ) : null}
-        <p className="text-xs text-silt-ink">
-          The decision is final for this version and recorded in the audit trail with your name.
-        </p>
       </div>
     </form>
   );

@@ -31,14 +31,15 @@ export class BatchPage {
     await expect(this.verdict).toBeVisible({ timeout: 60_000 });
   }
 
+  /** Writes a comment on the finding's own row (showing every finding first when the table is collapsed). */
   async commentOnFinding(code: string, text: string): Promise<void> {
-    const form = this.page.getByTestId("decision-form");
-    const details = form.locator("details");
-    if (!(await details.evaluate((d) => (d as HTMLDetailsElement).open)))
-      await details.locator("summary").click();
-    await form.locator(`textarea[data-finding-code="${code}"]`).first().fill(text);
+    const field = this.page.locator(`textarea[data-finding-code="${code}"]`).first();
+    const showAll = this.page.getByRole("button", { name: /^Show all \d+ rows of Findings$/ });
+    if ((await field.count()) === 0 && (await showAll.count()) > 0) await showAll.click();
+    await field.fill(text);
   }
 
+  /** Decides from the summary bar, which stays in view. */
   async decide(decision: "accept" | "bounce", comment = ""): Promise<void> {
     const form = this.page.getByTestId("decision-form");
     if (comment) await form.getByLabel("Comment to the provider").fill(comment);

@@ -7,7 +7,12 @@ import { CheckProgress } from "@/components/report/check-progress";
 import { DecisionForm } from "@/components/triage/decision-form";
 import { IfAcceptedPanel } from "@/components/pool/if-accepted";
 import { decideAction } from "./actions";
-import { ReportView, findingKey } from "@/components/report/report-view";
+import { ReportView, findingKey, verdictOf } from "@/components/report/report-view";
+import { SummaryBar, type SectionLink } from "@/components/triage/summary-bar";
+import { ReviewProvider } from "@/components/triage/review-context";
+import { NextInQueue } from "@/components/triage/next-in-queue";
+import { getNextInQueueForUser } from "@/lib/batches/queries-next";
+import { getIfAcceptedForUser } from "@/lib/pool/queries";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { getBatchForUser } from "@/lib/batches/queries";
@@ -61,9 +66,22 @@ export default async function BatchPage({
     version.version === batch.latestVersion &&
     (version.state === "ready" || version.state === "unreadable");
   const canResubmit = isProvider && version.version === batch.latestVersion && batch.state !== "accepted";
+  const reviewing = canDecide && !!report && !found.decision;
+  const ifAccepted = await getIfAcceptedForUser(user, batch.publicId, version.version);
+  // once decided, the reviewer's next batch is one click away
+  const next =
+    can(user.role, "batch.decide") && found.decision
+      ? await getNextInQueueForUser(user, batch.publicId)
+      : null;
+  const sections = sectionsOf({
+    since: !!previous,
+    decision: !!found.decision,
+    report,
+    ifAccepted: !!ifAccepted,
+  });
 
-  return (
-    <>
+  const page = (
+    <div className="[&_h2]:scroll-mt-32">
       <PageHeader
         eyebrow={`${batch.studyTitle} · ${batch.organisationName}`}
         title={batch.title}
@@ -79,14 +97,6 @@ export default async function BatchPage({
         actions={
           <>
             <StateBadge state={version.state} />
-            {canDecide && report && !found.decision ? (
-              <a
-                href="#decide"
-                className="rounded border border-channel bg-channel px-3 py-1.5 text-sm font-semibold text-white hover:bg-channel-deep"
-              >
-                Decide ↓
-              </a>
-            ) : null}
             <Link href={`/batches/${batch.publicId}/trail`} className="text-sm text-channel underline">
               Audit trail
             </Link>
@@ -134,6 +144,25 @@ export default async function BatchPage({
           ))}
         </nav>
       ) : null}
+
+      <SummaryBar
+        report={report}
+        verdict={report ? verdictOf(report) : null}
+        sections={sections}
+        controls={
+          reviewing ? (
+            <DecisionForm
+              batchId={batch.publicId}
+              version={version.version}
+              findings={report.findings}
+              canAccept={version.state === "ready"}
+              decide={decideAction}
+            />
+          ) : can(user.role, "batch.decide") && found.decision ? (
+            <NextInQueue next={next} />
+          ) : null
+        }
+      />
 
       <CheckProgress batchId={batch.publicId} version={version.version} state={version.state} />
 
@@ -225,23 +254,35 @@ export default async function BatchPage({
         <p className="text-base">No readiness report is stored for this version.</p>
       )}
 
-      <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
-
-      {canDecide && report && !found.decision ? (
-        <Section
-          title="Decision"
-          id="decide"
-          note="Accept puts this version into the study's pool; bounce sends it back to the provider with your comments."
-        >
-          <DecisionForm
-            batchId={batch.publicId}
-            version={version.version}
-            findings={report.findings}
-            canAccept={version.state === "ready"}
-            decide={decideAction}
-          />
-        </Section>
-      ) : null}
-    </>
+      <IfAcceptedPanel
+        batchPublicId={batch.publicId}
+        version={version.version}
+        user={user}
+        data={ifAccepted}
+      />
+    </div>
   );
+  return reviewing ? <ReviewProvider>{page}</ReviewProvider> : page;
+}
+
+/** The index of the page's sections, in the order they appear. */
+function sectionsOf(has: {
+  since: boolean;
+  decision: boolean;
+  report: { status: string } | null;
+  ifAccepted: boolean;
+}): SectionLink[] {
+  const checked = has.report?.status === "checked";
+  const all: [boolean, string, string][] = [
+    [has.since, "since", "Since last version"],
+    [has.decision, "decision", "Decision"],
+    [checked, "ledger", "Degrees of freedom"],
+    [!!has.report, "findings", "Findings"],
+    [checked, "columns", "Columns"],
+    [checked, "collinearity", "Collinearity"],
+    [checked, "missingness", "Missingness"],
+    [checked, "fit", "Fit preview"],
+    [has.ifAccepted, "if-accepted", "If accepted"],
+  ];
+  return all.filter(([on]) => on).map(([, id, title]) => ({ id, title }));
 }
