@@ -59,8 +59,8 @@ async function main() {
   const lead = await signIn("lead@lowmoor.test");
   const analyst = await signIn("analyst@lowmoor.test");
   const queue = await fetch(`${BASE}/api/v1/queue`, { headers: { cookie: analyst } });
-  const items = ((await queue.json()) as { data: { batchPublicId?: string; publicId?: string }[] }).data;
-  const batch = items[0]?.batchPublicId ?? items[0]?.publicId;
+  const items = ((await queue.json()) as { data: { batchId?: string; batchPublicId?: string }[] }).data;
+  const batch = items[0]?.batchId ?? items[0]?.batchPublicId;
   const pages: [string, string, string][] = [
     ["board", "/board", lead],
     ["pools", "/pool", analyst],
