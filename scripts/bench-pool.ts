@@ -4,6 +4,9 @@
  * engine; then poolQuestions times poolability, influence, the exhaustive selection preview
  * and leave-one-batch-out cross-validation from the 100 stored states. Prints the time.
  *   npx tsx scripts/bench-pool.ts [--batches N] [--rows N] [--candidates M] [--null]
+ * With --stored it times the board and pool reads over a stored pool of 1,000 accepted versions
+ * instead (scripts/bench/pool-stored.ts):
+ *   npx tsx --conditions react-server scripts/bench-pool.ts --stored [--versions 1000] [--requests 200]
  */
 import {
   checkBatch,
@@ -91,4 +94,5 @@ async function main() {
   );
 }
 
-void main();
+if (process.argv.includes("--stored")) void import("./bench/pool-stored").then((m) => m.benchStoredPool());
+else void main();

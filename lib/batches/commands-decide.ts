@@ -22,6 +22,7 @@ import type { Actor } from "@/lib/core/actor";
 import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
 import { enqueueEmail } from "@/lib/mail";
+import { addToStoredPool } from "@/lib/pool";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import type { ReadinessReport } from "@/lib/readiness";
@@ -160,7 +161,11 @@ async function decideInTx(
     .update(batchVersions)
     .set({ state, stateChangedAt: now() })
     .where(eq(batchVersions.id, version.id));
-  if (state === "accepted") await enqueuePoolQuestions(tx, batch.studyId);
+  if (state === "accepted") {
+    // the stored pool takes the version in this same transaction: the pages never merge on a request
+    await addToStoredPool(tx, batch.studyId, version.id);
+    await enqueuePoolQuestions(tx, batch.studyId);
+  }
   await audit({
     action: `batch.${input.decision}`,
     objectType: "batch_version",

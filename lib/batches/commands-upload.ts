@@ -20,6 +20,7 @@ import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import type { Result } from "@/lib/result";
+import { rebuildStoredPool } from "@/lib/pool";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 import { now } from "@/lib/core/clock";
 import type { MachineCorrection } from "./fixes";
@@ -223,7 +224,10 @@ export function recordBatchVersion(
             .set({ state: "superseded", stateChangedAt: now() })
             .where(eq(batchVersions.id, prev.id));
           // an accepted version leaves the pool
-          if (prev.state === "accepted") await enqueuePoolQuestions(tx, study.id);
+          if (prev.state === "accepted") {
+            await rebuildStoredPool(tx, study.id, { without: prev.id });
+            await enqueuePoolQuestions(tx, study.id);
+          }
           await audit({
             action: "batch.superseded",
             objectType: "batch_version",

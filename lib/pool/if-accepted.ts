@@ -5,8 +5,9 @@
 import { and, eq } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, organisations } from "@/db/schema";
-import { driftFindings, type Finding, type ReadinessReport } from "@/lib/readiness";
-import { getStudyRef, loadAccepted, loadCurrentPlan, poolOf, versionColumns, withStates } from "./pool";
+import { driftFindings, poolReport, type Finding, type ReadinessReport } from "@/lib/readiness";
+import { getStudyRef, loadAccepted, loadCurrentPlan, versionColumns, withStates } from "./pool";
+import { readStoredState } from "./stored-read";
 
 export type IfAccepted = {
   batchPublicId: string;
@@ -40,20 +41,23 @@ export async function getIfAccepted(
   if (!v || v.state !== "ready") return null;
   const study = await getStudyRef(db, { id: v.studyId });
   if (!study) return null;
-  const { plan, planHash } = await loadCurrentPlan(db, study);
+  const { plan, version, planHash } = await loadCurrentPlan(db, study);
   const [mine] = await withStates(db, [{ ...v, decidedAt: null }], planHash);
   if (!mine) return null;
-  const loaded = await loadAccepted(db, study.id, planHash);
-  const before = await poolOf(loaded, plan);
-  const after = await poolOf([...loaded, mine], plan);
+  // the stored pool's merged state when there is one for this plan; merged afresh otherwise
+  const stored = await readStoredState(db, study.id, version);
+  let poolStates: unknown[];
+  let poolMembers: number;
+  if (stored && (stored.versionIds.length === 0 || stored.state != null)) {
+    poolStates = stored.versionIds.length ? [stored.state] : [];
+    poolMembers = stored.versionIds.length;
+  } else {
+    const loaded = await loadAccepted(db, study.id, planHash);
+    poolStates = loaded.map((l) => l.state);
+    poolMembers = loaded.length;
+  }
+  const before = await poolReport(poolStates, plan);
+  const after = await poolReport([...poolStates, mine.state], plan);
   const drift = before.state ? driftFindings(before.state, mine.state, plan) : [];
-  return {
-    batchPublicId,
-    version: versionNo,
-    studySlug: study.slug,
-    before,
-    after,
-    drift,
-    poolMembers: loaded.length,
-  };
+  return { batchPublicId, version: versionNo, studySlug: study.slug, before, after, drift, poolMembers };
 }

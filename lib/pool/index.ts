@@ -1,9 +1,10 @@
 /**
  * The pool feature: a study's accepted versions combined (pool.ts), its scoped reads and the
- * export audit (queries.ts), its exports (export.ts), the lead's board (queries-board.ts) and
+ * export audit (queries.ts), the pool kept per study (stored.ts, stored-read.ts), its exports (export.ts), the lead's board (queries-board.ts) and
  * the weekly digest (digest-*.ts). Other features and the app import from here.
  */
 export {
+  computeStudyPool,
   getIfAccepted,
   getStudyPool,
   getStudyRef,
@@ -39,6 +40,7 @@ export {
   type OpenFile,
 } from "./export";
 export * from "./queries-board";
+export { acceptedInOrder, addToStoredPool, rebuildStoredPool } from "./stored";
 export { quantile, weekStart, HOUR_MS } from "./board-stats";
 export { composeDigest, digestData, type DigestData } from "./digest-compose";
 export { digestDue, runDigestSchedule } from "./digest-schedule";

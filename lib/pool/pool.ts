@@ -7,6 +7,7 @@ import { and, desc, eq, inArray } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { batches, batchVersions, dataPlans, decisions, organisations, reports, studies } from "@/db/schema";
 import { isEngineState, parsePlan, poolReport, type Plan, type ReadinessReport } from "@/lib/readiness";
+import { readStoredPool } from "./stored-read";
 
 // "if accepted" lives in its own file; importers of the pool find it here too
 export { getIfAccepted, type IfAccepted } from "./if-accepted";
@@ -230,20 +231,27 @@ export async function poolOf(loaded: Loaded[], plan: Plan): Promise<ReadinessRep
   );
 }
 
-/** A study's pool: the merged report of its accepted versions under the current plan. */
-export async function getStudyPool(db: Db, study: StudyRef): Promise<StudyPool> {
+/** A study's pool merged afresh from its accepted versions' stored states (what the stored pool must equal). */
+export async function computeStudyPool(db: Db, study: StudyRef): Promise<StudyPool> {
   const { plan, version, planHash } = await loadCurrentPlan(db, study);
   const loaded = await loadAccepted(db, study.id, planHash);
   const report = await poolOf(loaded, plan);
-  return {
-    studyId: study.id,
-    slug: study.slug,
-    title: study.title,
-    planVersion: version,
-    plan,
-    report,
-    members: loaded.map((l) => l.member),
-  };
+  const base = { studyId: study.id, slug: study.slug, title: study.title, planVersion: version, plan };
+  return { ...base, report, members: loaded.map((l) => l.member) };
+}
+
+/**
+ * A study's pool under the current plan: the stored one (lib/pool/stored.ts, no state merged
+ * on the request; `report.state` left out), or merged afresh while none is stored for this
+ * plan version (a database from before the stored pool, until the worker has built it).
+ */
+export async function getStudyPool(db: Db, study: StudyRef): Promise<StudyPool> {
+  const { plan, version, planHash } = await loadCurrentPlan(db, study);
+  const stored = await readStoredPool(db, study.id, version, planHash);
+  if (!stored) return computeStudyPool(db, study);
+  if (!stored.report) throw new RangeError(stored.error ?? "The pool could not be computed under this plan.");
+  const base = { studyId: study.id, slug: study.slug, title: study.title, planVersion: version, plan };
+  return { ...base, report: stored.report, members: stored.members };
 }
 
 /** The report without its merged engine state (for JSON answers and pages). */

@@ -6,9 +6,18 @@
  */
 import { and, eq, gte, lte, sql } from "drizzle-orm";
 import type { Db } from "@/db/client";
-import { batches, batchVersions, decisions, organisations, studies, type BatchState } from "@/db/schema";
+import {
+  batches,
+  batchVersions,
+  dataPlans,
+  decisions,
+  organisations,
+  studies,
+  type BatchState,
+} from "@/db/schema";
 import { getStudyPool, poolFigures, type PoolFigures } from "@/lib/pool/pool";
 import { HOUR_MS, quantile, weekStart } from "./board-stats";
+import { storedFigures } from "./stored-read";
 import { providerStats, silentProviders, type ProviderStats, type SilentProvider } from "./queries-providers";
 
 export { providerStats, silentProviders, type ProviderStats, type SilentProvider };
@@ -127,39 +136,63 @@ export async function poolHeadrooms(
 ): Promise<PoolHeadroom[]> {
   const weeks = opts.weeks ?? 12;
   const now = opts.now ?? new Date();
-  const list = await db
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
-    .from(studies)
-    .orderBy(studies.title);
-  const out: PoolHeadroom[] = [];
-  for (const s of list) {
-    try {
-      const pool = await getStudyPool(db, s);
-      const fitted = pool.report.model.parameters + (pool.plan.intercept ? 1 : 0);
-      const history = await headroomByWeek(db, s.id, fitted, { weeks, now });
-      out.push({ studySlug: s.slug, studyTitle: s.title, ...poolFigures(pool), history });
-    } catch (e) {
-      out.push({
-        studySlug: s.slug,
-        studyTitle: s.title,
-        batches: 0,
-        rows: 0,
-        completeCases: 0,
-        parameters: 0,
-        residualDf: 0,
-        dfTarget: 0,
-        headroom: 0,
-        history: [],
-        error: e instanceof Error ? e.message : "The pool could not be computed.",
-      });
-    }
-  }
-  return out;
+  const [list, stored] = await Promise.all([
+    db
+      .select({
+        id: studies.id,
+        slug: studies.slug,
+        title: studies.title,
+        currentPlanVersion: studies.currentPlanVersion,
+        intercept: sql<string | null>`json_value(${dataPlans.plan}, '$.intercept')`,
+      })
+      .from(studies)
+      .leftJoin(
+        dataPlans,
+        and(eq(dataPlans.studyId, studies.id), eq(dataPlans.version, studies.currentPlanVersion)),
+      )
+      .orderBy(studies.title),
+    storedFigures(db),
+  ]);
+  return Promise.all(
+    list.map(async (s): Promise<PoolHeadroom> => {
+      const named = { studySlug: s.slug, studyTitle: s.title };
+      try {
+        const row = stored.get(s.id);
+        // the stored figures when they are for the current plan; merged afresh otherwise
+        const figures: PoolFigures =
+          row && row.planVersion === s.currentPlanVersion && s.intercept != null
+            ? storedHeadroom(row)
+            : poolFigures(await getStudyPool(db, s));
+        const intercept = s.intercept === "true" || s.intercept === "1";
+        const history = await headroomByWeek(db, s.id, figures.parameters + (intercept ? 1 : 0), {
+          weeks,
+          now,
+        });
+        return { ...named, ...figures, history };
+      } catch (e) {
+        const error = e instanceof Error ? e.message : "The pool could not be computed.";
+        return { ...named, ...emptyFigures, history: [], error };
+      }
+    }),
+  );
+}
+
+const emptyFigures: PoolFigures = {
+  batches: 0,
+  rows: 0,
+  completeCases: 0,
+  parameters: 0,
+  residualDf: 0,
+  dfTarget: 0,
+  headroom: 0,
+};
+
+function storedHeadroom(
+  row: NonNullable<ReturnType<Awaited<ReturnType<typeof storedFigures>>["get"]>>,
+): PoolFigures {
+  if (row.error) throw new RangeError(row.error);
+  const { batches, rows, completeCases, parameters, residualDf, dfTarget } = row;
+  return { batches, rows, completeCases, parameters, residualDf, dfTarget, headroom: residualDf - dfTarget };
 }
 
 export type IntakeFlow = { from: string; to: string; versions: number }[];

@@ -12,6 +12,7 @@ import { batches, batchVersions, ifAcceptedQuestions, poolQuestions, studies } f
 import { defaultWorkerId } from "@/lib/core/queue";
 import { sleep } from "@/lib/sleep";
 import { acceptedVersionIds, describesPool } from "./questions";
+import { rebuildStalePools } from "./stored";
 import { computeStudyQuestions, storeStudyQuestions } from "./questions-compute";
 import { claimPoolQuestionsJob, failPoolQuestionsJob, type PoolQuestionsJob } from "./questions-claim";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
@@ -101,6 +102,13 @@ export async function runPoolQuestionsWorker(opts: PoolQuestionsWorkerOptions): 
   const workerId = opts.workerId ?? defaultWorkerId();
   const log = opts.log ?? (() => undefined);
   const pollMs = opts.pollMs ?? 1000;
+  try {
+    const r = await rebuildStalePools(opts.db);
+    if (r)
+      log(`stored pools: rebuilt ${r} ${r === 1 ? "study's" : "studies'"} pool from the accepted versions`);
+  } catch (error) {
+    log(`stored pools: could not rebuild out-of-date pools (${describe(error)}); pages merge them afresh`);
+  }
   try {
     const n = await enqueueStalePools(opts.db);
     if (n)

@@ -4,6 +4,7 @@ import { z } from "zod";
 import { dataPlans, studies } from "@/db/schema";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
+import { rebuildStoredPool } from "@/lib/pool";
 import { hashPlan } from "@/lib/readiness";
 import { parsePlan, type PlanIssue } from "@/lib/readiness";
 import { fail, ok, type Result } from "@/lib/result";
@@ -93,6 +94,8 @@ export function publishPlanVersion(
         .$returningId();
       if (!created) throw new Error("insert into data_plans returned no id");
       await tx.update(studies).set({ currentPlanVersion: version }).where(eq(studies.id, studyId));
+      // the stored pool merged again under the new plan, in the same transaction
+      await rebuildStoredPool(tx, studyId);
       await enqueuePoolQuestions(tx, studyId);
       await audit({
         action: "plan.publish",
