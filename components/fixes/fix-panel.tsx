@@ -13,7 +13,8 @@ import { uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 import { Button } from "@/components/ui";
 import { Section } from "@/components/ui/section";
 import { useFixes } from "@/lib/client/use-fixes";
-import type { FixProposal, ReadinessReport } from "@/lib/readiness";
+import type { ConfirmedSentinel, FixProposal, ReadinessReport } from "@/lib/readiness";
+import { suspectedSentinels } from "@/lib/client/workers/fix-stream";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
 
@@ -66,6 +67,17 @@ export function FixPanel(props: {
   const router = useRouter();
   const [off, setOff] = useState<Set<string>>(new Set());
   const [busy, setBusy] = useState<"download" | "upload" | null>(null);
+  const [confirmed, setConfirmed] = useState<ConfirmedSentinel[]>([]);
+  const suspected = suspectedSentinels(report);
+  const isConfirmed = (x: ConfirmedSentinel) =>
+    confirmed.some((c) => c.column === x.column && c.value === x.value);
+  async function toggleSentinel(x: ConfirmedSentinel) {
+    const next = isConfirmed(x)
+      ? confirmed.filter((c) => !(c.column === x.column && c.value === x.value))
+      : [...confirmed, x];
+    setConfirmed(next);
+    await fixes.confirm(next);
+  }
   const { startUpload } = useUploadThing("batchFile", {
     onUploadError: (e) => {
       toast.error(uploadErrorMessage(e));
@@ -78,7 +90,7 @@ export function FixPanel(props: {
   async function make(): Promise<File | null> {
     try {
       const out = await fixes.apply(chosen.map((p) => p.id));
-      return new File([out.bytes as BlobPart], corrected, { type: "text/csv" });
+      return new File([out.blob], corrected, { type: "text/csv" });
     } catch (e) {
       toast.error((e as Error).message);
       return null;
@@ -102,7 +114,13 @@ export function FixPanel(props: {
       ? await startUpload([file], {
           studySlug,
           batchId,
-          fixes: { fromVersion: version, proposals: chosen.map((p) => p.id) },
+          fixes: {
+            fromVersion: version,
+            proposals: chosen.map((p) => p.id),
+            confirmedSentinels: confirmed.filter((c) =>
+              chosen.some((p) => p.id === `number.sentinel:${c.column}`),
+            ),
+          },
         })
       : null;
     setBusy(null);
@@ -132,12 +150,33 @@ export function FixPanel(props: {
         <p role="alert" className="text-sm text-clay">
           {s.message}
         </p>
-      ) : s.proposals.length === 0 ? (
+      ) : s.proposals.length === 0 && suspected.length === 0 ? (
         <p className="text-base" data-testid="no-fixes">
           No finding of this version has a mechanical fix; correct the file yourself and upload a new version.
         </p>
       ) : (
         <>
+          {suspected.length > 0 && (
+            <fieldset className="mb-3 grid gap-1" data-testid="suspected-sentinels">
+              <legend className="text-sm text-silt-ink">
+                Values the check suspects of meaning “not measured”. Caution: a real measurement that is
+                blanked is lost from the analysis — tick one only if you know it is a code.
+              </legend>
+              {suspected.map((x) => (
+                <label key={`${x.column}:${x.value}`} className="flex items-center gap-2 text-base">
+                  <input
+                    type="checkbox"
+                    checked={isConfirmed(x)}
+                    onChange={() => toggleSentinel(x)}
+                    data-testid="confirm-sentinel"
+                  />
+                  <span>
+                    {x.value} in “{x.column}” means not measured
+                  </span>
+                </label>
+              ))}
+            </fieldset>
+          )}
           <ul className="grid gap-2">
             {s.proposals.map((p) => (
               <ProposalRow

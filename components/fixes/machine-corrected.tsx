@@ -12,7 +12,7 @@ export type MachineCorrectedProps = {
   version: number;
   fix: {
     fromVersion: number;
-    proposals: { id: string; message: string; cells: number }[];
+    proposals: { id: string; message: string; cells: number; confirmed?: number[] }[];
     changeCount: number;
     approvedBy: string;
     at: Date;
@@ -42,6 +42,9 @@ export function MachineCorrected({ batchId, version, fix, preview }: MachineCorr
           {fix.proposals.map((p) => (
             <li key={p.id}>
               {p.message} ({p.cells.toLocaleString("en")})
+              {p.confirmed?.length
+                ? ` — the provider confirmed that ${p.confirmed.join(", ")} means not measured`
+                : ""}
             </li>
           ))}
         </ul>

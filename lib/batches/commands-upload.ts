@@ -285,6 +285,7 @@ export function recordBatchVersion(
             fromVersion: fix.fromVersion,
             proposals: fix.proposals.map((p) => p.id),
             changes: fix.changes.length,
+            confirmedSentinels: fix.confirmedSentinels,
           },
         });
       }

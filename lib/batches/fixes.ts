@@ -24,16 +24,31 @@ import {
 export const fixRequest = z.object({
   fromVersion: z.number().int().positive(),
   proposals: z.array(z.string().min(1).max(200)).min(1, "Choose at least one fix.").max(50),
+  /** values the provider confirmed mean "not measured" (each a sentinel the report suspects) */
+  confirmedSentinels: z
+    .array(z.object({ column: z.string().min(1).max(200), value: z.number().finite() }))
+    .max(50)
+    .default([]),
 });
-export type FixRequest = z.infer<typeof fixRequest>;
+export type FixRequest = z.input<typeof fixRequest>;
 
-export type AppliedProposal = { id: string; code: string; column: string; cells: number; message: string };
+export type AppliedProposal = {
+  id: string;
+  code: string;
+  column: string;
+  cells: number;
+  message: string;
+  /** number.sentinel: the values the provider confirmed mean "not measured" (beyond the plan's) */
+  confirmed?: number[];
+};
 
 export interface MachineCorrection {
   fromVersionId: number;
   fromVersion: number;
   proposals: AppliedProposal[];
   changes: FixChange[];
+  /** the sentinels the provider confirmed, as the fix request named them */
+  confirmedSentinels: { column: string; value: number }[];
   /** md5 (hex) of the corrected bytes, as the upload service reports an upload's */
   md5: string;
 }
@@ -68,7 +83,24 @@ export async function correctionOf(
       `Version ${req.fromVersion} has no checked report, so no fixes can be applied to it.`,
     );
   }
-  const proposals = await proposeFixes(await open(row.fileKey), plan.plan, report);
+  const confirmed = req.confirmedSentinels ?? [];
+  for (const c of confirmed) {
+    const suspected = report.findings.some(
+      (f) =>
+        f.code === "number.sentinel" &&
+        f.detail?.declared === false &&
+        f.columns[0] === c.column &&
+        f.detail?.value === c.value,
+    );
+    if (!suspected)
+      throw new AppError(
+        "invalid",
+        `The report of version ${req.fromVersion} does not suspect ${c.value} in ${c.column} of meaning "not measured"; only a suspected value can be confirmed. Reload the batch page and choose again.`,
+      );
+  }
+  const proposals = await proposeFixes(await open(row.fileKey), plan.plan, report, {
+    confirmedSentinels: confirmed,
+  });
   const { chosen, unknown } = selectProposals(proposals, req.proposals);
   if (unknown.length || chosen.length !== req.proposals.length) {
     throw new AppError(
@@ -90,8 +122,12 @@ export async function correctionOf(
       column: p.column,
       cells: p.cells,
       message: p.message,
+      ...(p.code === "number.sentinel" && confirmed.some((c) => c.column === p.column)
+        ? { confirmed: confirmed.filter((c) => c.column === p.column).map((c) => c.value) }
+        : {}),
     })),
     changes: applied.changes,
+    confirmedSentinels: confirmed,
     md5: md5.digest("hex"),
   };
 }

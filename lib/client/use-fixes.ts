@@ -1,8 +1,8 @@
 "use client";
 /** The fix proposals of a stored version and the corrected file, from the fixes Web Worker. */
 import { useCallback, useEffect, useRef, useState } from "react";
-import type { FixChange, FixProposal, ReadinessReport } from "@/lib/readiness";
-import type { FixesMessage, FixesRequest } from "./fixes.worker";
+import type { ConfirmedSentinel, FixChange, FixProposal, ReadinessReport } from "@/lib/readiness";
+import type { FixesMessage, FixesRequest } from "./workers/fixes.worker";
 
 export type FixesState =
   | { phase: "idle" }
@@ -19,7 +19,7 @@ export function useFixes() {
 
   const ask = useCallback((req: FixesRequest) => {
     if (!worker.current) {
-      const w = new Worker(new URL("./fixes.worker.ts", import.meta.url), { type: "module" });
+      const w = new Worker(new URL("./workers/fixes.worker.ts", import.meta.url), { type: "module" });
       w.onmessage = (e: MessageEvent<FixesMessage>) => waiting.current?.(e.data);
       w.onerror = () =>
         waiting.current?.({
@@ -45,15 +45,25 @@ export function useFixes() {
     [ask],
   );
 
-  /** The corrected file's bytes and change log for the chosen proposal ids. */
-  const apply = useCallback(
-    async (ids: string[]): Promise<{ bytes: Uint8Array; changes: FixChange[] }> => {
-      const m = await ask({ type: "apply", ids });
-      if (m.type !== "applied") throw new Error(m.type === "error" ? m.message : "Unexpected answer.");
-      return { bytes: m.bytes, changes: m.changes };
+  /** The proposals again with the sentinels the provider confirmed (nothing is read again). */
+  const confirm = useCallback(
+    async (sentinels: ConfirmedSentinel[]) => {
+      const m = await ask({ type: "confirm", sentinels });
+      if (m.type === "proposals") setState({ phase: "ready", proposals: m.proposals });
+      else setState({ phase: "error", message: m.type === "error" ? m.message : "Unexpected answer." });
     },
     [ask],
   );
 
-  return { state, find, apply };
+  /** The corrected file (a Blob, streamed in the worker) and change log for the chosen proposal ids. */
+  const apply = useCallback(
+    async (ids: string[]): Promise<{ blob: Blob; changes: FixChange[] }> => {
+      const m = await ask({ type: "apply", ids });
+      if (m.type !== "applied") throw new Error(m.type === "error" ? m.message : "Unexpected answer.");
+      return { blob: m.blob, changes: m.changes };
+    },
+    [ask],
+  );
+
+  return { state, find, confirm, apply };
 }

@@ -11,6 +11,7 @@ import { recordBatchVersion } from "@/lib/batches/commands-upload";
 import { claimJob, STALE_AFTER_MS } from "@/lib/batches/jobs/check-jobs";
 import { runJob } from "@/lib/batches/jobs/worker";
 import { barleyBatches } from "@/lib/demo/batches";
+import { parsePlan, proposeFixes, type Plan } from "@/lib/readiness";
 import { drainQueue, openMemoryFile, storeInMemory } from "./helpers/pipeline";
 
 const db = getDb();
@@ -19,6 +20,11 @@ let otherProviderId = 0;
 let studyId = 0;
 let heatStudyId = 0;
 const openFile = openMemoryFile;
+const parsedPlan = (p: unknown): Plan => {
+  const r = parsePlan(p);
+  if (!r.ok) throw new Error("the stored plan is not valid");
+  return r.plan;
+};
 const store = storeInMemory;
 
 beforeAll(async () => {
@@ -161,6 +167,31 @@ describe("workers", () => {
       .from(checkJobs)
       .where(eq(checkJobs.batchVersionId, r.data.batchVersionId));
     expect(job?.status).toBe("done");
+  });
+
+  it("downloads the file once: the report's fix proposals come from the same bytes as the check", async () => {
+    // Fennick Hill's demo batch spells the planned level clay as Clay and "clay " (lib/demo/batches.ts)
+    const fennick = barleyBatches()[1]!;
+    const r = await recordBatchVersion(otherProviderId, { studyId }, store(fennick.csv));
+    if (!r.ok) throw new Error(r.message);
+    const job = await claimJob(db, "w-once");
+    const opened: string[] = [];
+    const counting = (key: string) => {
+      opened.push(key);
+      return openFile(key);
+    };
+    const report = await runJob({ db, openFile: counting, checkWorkers: 1 }, job!);
+    expect(opened).toHaveLength(1);
+    expect(report?.status).toBe("checked");
+    // the oracle: the one-shot proposeFixes over the file's own bytes, after the check
+    const alone = await proposeFixes(await openFile(opened[0]!), parsedPlan(job!.plan), report!);
+    expect(alone.map((p) => p.id)).toContain("level.variant:soil");
+    expect(report!.proposals).toEqual(alone);
+    const [stored] = await db
+      .select({ report: reports.report })
+      .from(reports)
+      .where(eq(reports.batchVersionId, r.data.batchVersionId));
+    expect((stored!.report as { proposals?: unknown }).proposals).toEqual(alone);
   });
 
   it("an unreadable file ends as unreadable with its reason, not as a failed job", async () => {

@@ -130,9 +130,9 @@ describe("a worker killed mid-file", () => {
       expect(done.lockedBy).not.toBe(job.lockedBy);
       expect(done.lockedBy).toContain(`:${survivor!.pid}:`);
       expect(done.attempts).toBe(2);
-      // the killed attempt's one download, then the survivor's two: the check, and the second
-      // read that finds the report's fix proposals (lib/batches/jobs/proposals.ts)
-      expect(gate.downloads).toBe(3);
+      // the killed attempt's one download, then the survivor's one: the check and the report's
+      // fix proposals read the same download (lib/batches/jobs/proposals.ts)
+      expect(gate.downloads).toBe(2);
 
       const o = (await outcome(db, [versionId])).get(versionId)!;
       expect(o.reports).toHaveLength(1);

@@ -106,6 +106,28 @@ describe("a machine-corrected version", () => {
         openMemoryFile,
       ),
     ).rejects.toThrow(/has no fix level\.variant:farm/);
+    // a value the report does not suspect of meaning "not measured" cannot be confirmed as one
+    // (Fennick's rainfall holds no -999: lib/demo/batches.ts), nor blanked without confirmation
+    await expect(
+      correctionOf(
+        db,
+        v1.batchPublicId,
+        {
+          fromVersion: 1,
+          proposals: ["level.variant:soil"],
+          confirmedSentinels: [{ column: "rainfall", value: -999 }],
+        },
+        openMemoryFile,
+      ),
+    ).rejects.toThrow(/does not suspect -999 in rainfall/);
+    await expect(
+      correctionOf(
+        db,
+        v1.batchPublicId,
+        { fromVersion: 1, proposals: ["number.sentinel:rainfall"] },
+        openMemoryFile,
+      ),
+    ).rejects.toThrow(/has no fix number\.sentinel:rainfall/);
     const fix = await correctionOf(
       db,
       v1.batchPublicId,

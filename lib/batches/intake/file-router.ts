@@ -21,6 +21,10 @@ export const batchUploadInput = z.object({
     .object({
       fromVersion: z.number().int().positive(),
       proposals: z.array(z.string().min(1).max(200)).min(1).max(50),
+      confirmedSentinels: z
+        .array(z.object({ column: z.string().min(1).max(200), value: z.number().finite() }))
+        .max(50)
+        .optional(),
     })
     .optional(),
 });

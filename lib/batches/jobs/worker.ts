@@ -187,8 +187,8 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
         `The upload service did not answer within ${Math.round(stallMs / 1000)} s; the check is tried again later.`,
       );
       const stream = abortable(opened, stopJob.signal, stallMs);
-      const reopen = () => openFile(job.fileKey).then((s) => abortable(s, stopJob.signal, stallMs));
-      report = await checkAndPropose(stream, reopen, parsed.plan, {
+      // one download: the check and the fix proposals read the same bytes (./proposals.ts)
+      report = await checkAndPropose(stream, parsed.plan, {
         job: { signal: stopJob.signal, log, jobId: job.jobId },
         workers: opts.checkWorkers,
         fileName: job.fileName,

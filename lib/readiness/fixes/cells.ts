@@ -74,17 +74,25 @@ export function applyRule(rule: FixRule, s: string): string | null {
 
 export type CellFix = { after: string; proposal: string };
 
+/** One rule as a function of the cell, never making a cell a formula where the original was safe. */
+export function ruleFixer(rule: FixRule): (s: string) => string | null {
+  return (s) => {
+    const after = applyRule(rule, s);
+    // never make a cell a spreadsheet would read as a formula when the original was safe
+    return after !== null && after !== s && (formulaSafe(after) || !formulaSafe(s)) ? after : null;
+  };
+}
+
 /** A column's proposals in priority order, as one function of the cell. */
 export function columnFixer(proposals: FixProposal[]): (s: string) => CellFix | null {
   const ordered = proposals
     .filter((p) => p.rule.kind !== "rename")
-    .sort((a, b) => PRIORITY.indexOf(a.code) - PRIORITY.indexOf(b.code));
+    .sort((a, b) => PRIORITY.indexOf(a.code) - PRIORITY.indexOf(b.code))
+    .map((p) => ({ id: p.id, fix: ruleFixer(p.rule) }));
   return (s) => {
     for (const p of ordered) {
-      const after = applyRule(p.rule, s);
-      // never make a cell a spreadsheet would read as a formula when the original was safe
-      if (after !== null && after !== s && (formulaSafe(after) || !formulaSafe(s)))
-        return { after, proposal: p.id };
+      const after = p.fix(s);
+      if (after !== null) return { after, proposal: p.id };
     }
     return null;
   };

@@ -8,7 +8,16 @@ export {
   type FixExample,
   type FixChange,
 } from "./types";
-export { proposeFixes, withProposals, type ProposeOptions } from "./propose";
+export {
+  proposeFixes,
+  withProposals,
+  fixTally,
+  tallyFixes,
+  type ProposeOptions,
+  type FixTally,
+  type TallyOptions,
+  type ConfirmedSentinel,
+} from "./propose";
 export { applyFixes, applyFixesToBytes, type AppliedFixes, type ApplyOptions } from "./rewrite";
 export { changeLogCsv, selectProposals } from "./log";
 export { csvCell, formulaSafe } from "./csv-cell";
