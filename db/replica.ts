@@ -63,9 +63,17 @@ export class ReplicaRouter {
       const lag = r?.Seconds_Behind_Master == null ? null : Number(r.Seconds_Behind_Master);
       if (!r) this.set(false, null, "is not replicating from a primary (SHOW SLAVE STATUS is empty)");
       else if (r.Slave_IO_Running !== "Yes" || r.Slave_SQL_Running !== "Yes")
-        this.set(false, lag, `has stopped replicating (IO ${r.Slave_IO_Running}, SQL ${r.Slave_SQL_Running})`);
+        this.set(
+          false,
+          lag,
+          `has stopped replicating (IO ${r.Slave_IO_Running}, SQL ${r.Slave_SQL_Running})`,
+        );
       else if (lag === null || lag > this.maxLagS)
-        this.set(false, lag, `is ${lag ?? "?"} s behind the primary (DATABASE_REPLICA_MAX_LAG_S ${this.maxLagS})`);
+        this.set(
+          false,
+          lag,
+          `is ${lag ?? "?"} s behind the primary (DATABASE_REPLICA_MAX_LAG_S ${this.maxLagS})`,
+        );
       else this.set(true, lag, "");
     } catch (e) {
       this.set(false, null, `does not answer (${message(e)})`);

@@ -6,7 +6,13 @@
  */
 import mysql from "mysql2/promise";
 
-const seqOf = (gtid: unknown) => Math.max(0, ...String(gtid ?? "").split(",").map((g) => Number(g.split("-")[2] ?? 0)));
+const seqOf = (gtid: unknown) =>
+  Math.max(
+    0,
+    ...String(gtid ?? "")
+      .split(",")
+      .map((g) => Number(g.split("-")[2] ?? 0)),
+  );
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 export function openServer(url: string): mysql.Pool {
@@ -71,13 +77,20 @@ export interface AfterChecks {
   checkJobsTakenOver: number;
 }
 
-export async function afterChecks(pool: mysql.Pool, studySlug: string, mailboxUrl: string): Promise<AfterChecks> {
+export async function afterChecks(
+  pool: mysql.Pool,
+  studySlug: string,
+  mailboxUrl: string,
+): Promise<AfterChecks> {
   const one = async (sql: string) => {
     const [rows] = await pool.query(sql, [studySlug]);
     return Number(Object.values((rows as Record<string, unknown>[])[0] ?? {})[0] ?? 0);
   };
   const inStudy = `join batches b on b.id = v.batch_id join studies s on s.id = b.study_id and s.slug = ?`;
-  const messages = (await (await fetch(`${mailboxUrl}/messages`)).json()) as { to: string[]; subject: string }[];
+  const messages = (await (await fetch(`${mailboxUrl}/messages`)).json()) as {
+    to: string[];
+    subject: string;
+  }[];
   const keys = messages.map((m) => `${m.to.join(",")}|${m.subject}`);
   return {
     batches: await one(`select count(*) from batches b join studies s on s.id = b.study_id and s.slug = ?`),
@@ -88,12 +101,16 @@ export async function afterChecks(pool: mysql.Pool, studySlug: string, mailboxUr
     orgsWithMoreThanOneBatch: await one(
       `select count(*) from (select b.organisation_id from batches b join studies s on s.id = b.study_id and s.slug = ? group by b.organisation_id having count(*) > 1) x`,
     ),
-    decisions: await one(`select count(*) from decisions d join batch_versions v on v.id = d.batch_version_id ${inStudy}`),
+    decisions: await one(
+      `select count(*) from decisions d join batch_versions v on v.id = d.batch_version_id ${inStudy}`,
+    ),
     decisionsWithoutAudit: await one(
       `select count(*) from decisions d join batch_versions v on v.id = d.batch_version_id ${inStudy}
         where not exists (select 1 from audit_events a where a.batch_id = b.id and a.action in ('batch.accept', 'batch.bounce'))`,
     ),
-    outboxRows: await one(`select count(*) from email_outbox o join batches b on b.id = o.batch_id join studies s on s.id = b.study_id and s.slug = ?`),
+    outboxRows: await one(
+      `select count(*) from email_outbox o join batches b on b.id = o.batch_id join studies s on s.id = b.study_id and s.slug = ?`,
+    ),
     outboxSent: await one(
       `select count(*) from email_outbox o join batches b on b.id = o.batch_id join studies s on s.id = b.study_id and s.slug = ? where o.status = 'sent'`,
     ),

@@ -25,7 +25,12 @@ async function round(): Promise<void> {
     for (const u of await db
       .select({ id: users.id, email: users.email })
       .from(users)
-      .where(inArray(users.email, accounts.analysts.map((a) => a.email))))
+      .where(
+        inArray(
+          users.email,
+          accounts.analysts.map((a) => a.email),
+        ),
+      ))
       analystIds.set(u.email, u.id);
   const ready = await db
     .select({ publicId: batches.publicId, version: batchVersions.version, org: organisations.slug })

@@ -84,7 +84,8 @@ export class Parts {
     child.stderr?.pipe(out, { end: false });
     let done = false;
     let text = "";
-    if (spec.readyLine) child.stdout?.on("data", (d: Buffer) => (text = (text + d.toString()).slice(-20_000)));
+    if (spec.readyLine)
+      child.stdout?.on("data", (d: Buffer) => (text = (text + d.toString()).slice(-20_000)));
     const exited = new Promise<number | null>((resolve) =>
       child.once("exit", (code) => ((done = true), resolve(code))),
     );

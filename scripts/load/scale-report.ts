@@ -49,10 +49,16 @@ export function printScale(r: {
         .filter((f) => f.requests > 0)
         .map((f) => row(`${inst} ${f.endpoint}`, f)),
     );
-  const lagMs = r.lag.filter((x) => x.ms !== null).map((x) => x.ms!).sort((a, b) => a - b);
+  const lagMs = r.lag
+    .filter((x) => x.ms !== null)
+    .map((x) => x.ms!)
+    .sort((a, b) => a - b);
   const accepted = r.outcomes.filter((o) => o.status === 201).length;
   const a = r.after;
-  const retries = Object.entries(r.rec.retries).map(([e, n]) => `${e} ${n}`).join(", ") || "none";
+  const retries =
+    Object.entries(r.rec.retries)
+      .map(([e, n]) => `${e} ${n}`)
+      .join(", ") || "none";
   const targets = [
     {
       name: "no errors",
@@ -74,12 +80,18 @@ export function printScale(r: {
     }),
     {
       name: "sign-in limits counted across both instances",
-      met: r.signIn.refusedAfter && Object.keys(r.signIn.instances).filter((i) => i.startsWith("app-")).length === 2,
+      met:
+        r.signIn.refusedAfter &&
+        Object.keys(r.signIn.instances).filter((i) => i.startsWith("app-")).length === 2,
       detail: `10 wrong passwords answered by ${JSON.stringify(r.signIn.instances)}; the right one then ${r.signIn.refusedAfter ? "refused (TooManyAttempts)" : `not refused: ${r.signIn.detail}`}`,
     },
     {
       name: "every decision audited, no e-mail twice",
-      met: a.decisionsWithoutAudit === 0 && a.mailsSentTwice === 0 && a.outboxSent === a.outboxRows && a.decisions > 0,
+      met:
+        a.decisionsWithoutAudit === 0 &&
+        a.mailsSentTwice === 0 &&
+        a.outboxSent === a.outboxRows &&
+        a.decisions > 0,
       detail: `${a.decisions} decisions, ${a.decisionsWithoutAudit} without an audit row; ${a.outboxSent}/${a.outboxRows} e-mails sent, ${a.mailboxMessages} in the mailbox, ${a.mailsSentTwice} twice`,
     },
   ];
@@ -87,9 +99,12 @@ export function printScale(r: {
   const lines = [
     `Tributary scale run: HAProxy → app-a, app-b (next start); 2 workers; MariaDB primary + 1 replica. ${s.batches} providers × ${s.rows!.toLocaleString("en")} rows in waves of ${s.wave}; ${s.analysts} analysts and ${s.leads} leads at ${s.rate} request/s each`,
     "",
-    table(head, all.map((f) => row(f.endpoint, f))),
+    table(
+      head,
+      all.map((f) => row(f.endpoint, f)),
+    ),
     "",
-    "per instance (the X-Tributary-Instance header HAProxy sets; \"none\": HAProxy answered itself)",
+    'per instance (the X-Tributary-Instance header HAProxy sets; "none": HAProxy answered itself)',
     table(head, perInstance),
     "",
     `uploads accepted         ${accepted}/${s.batches} in ${r.uploadsS.toFixed(1)} s; whole window ${r.windowS.toFixed(1)} s`,
@@ -110,7 +125,9 @@ export function printScale(r: {
     finishedAt: new Date().toISOString(),
     settings: s,
     figures: all,
-    perInstance: Object.fromEntries([...r.rec.byInstance].map(([i, rec]) => [i, ENDPOINTS.map((e) => rec.figures(e))])),
+    perInstance: Object.fromEntries(
+      [...r.rec.byInstance].map(([i, rec]) => [i, ENDPOINTS.map((e) => rec.figures(e))]),
+    ),
     retries: r.rec.retries,
     after: a,
     lagMs: { p50: percentile(lagMs, 50), p95: percentile(lagMs, 95), max: lagMs.at(-1) ?? null },

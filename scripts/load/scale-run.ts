@@ -29,7 +29,8 @@ function opt(argv: string[], name: string, fallback: number, min: number, max: n
   const i = argv.indexOf(`--${name}`);
   if (i < 0) return fallback;
   const v = Number(argv[i + 1]);
-  if (!Number.isFinite(v) || v < min || v > max) throw new Error(`--${name} takes a number from ${min} to ${max}.`);
+  if (!Number.isFinite(v) || v < min || v > max)
+    throw new Error(`--${name} takes a number from ${min} to ${max}.`);
   return v;
 }
 
@@ -48,7 +49,10 @@ export async function runScale(argv: string[]): Promise<number> {
     console.error(`load --scale: FAILED: the run exceeded its hard limit of ${s.timeout} s`);
     void stack?.stop().finally(() => process.exit(1));
   }, s.timeout * 1000);
-  const loadBefore = os.loadavg().map((x) => x.toFixed(2)).join(" ");
+  const loadBefore = os
+    .loadavg()
+    .map((x) => x.toFixed(2))
+    .join(" ");
   let stack: ScaleStack | null = null;
   try {
     stack = await startScaleStack(ROOT, { providers: s.batches, analysts: s.analysts, leads: s.leads }, log);
@@ -70,16 +74,34 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   const replica = openServer(stack.env.DATABASE_REPLICA_URL!);
   const rec = new ScaleRecorder();
   const faults: FaultNote[] = [];
-  const note = (name: string, what: string) => (faults.push({ name, at: Date.now(), what }), log(`${name}: ${what}`));
+  const note = (name: string, what: string) => (
+    faults.push({ name, at: Date.now(), what }),
+    log(`${name}: ${what}`)
+  );
 
   const signIn = await signInLimit(origin, rec, accounts.analysts[0]!.email, accounts.password, 10);
-  log(`sign-in limit: ${JSON.stringify(signIn.instances)} answered the failures; refused after: ${signIn.refusedAfter}`);
+  log(
+    `sign-in limit: ${JSON.stringify(signIn.instances)} answered the failures; refused after: ${signIn.refusedAfter}`,
+  );
   const lag = sampleLag(primary, replica);
   const ownLoop = watchOwnLoop();
-  const readers = startReaders(origin, accounts.studySlug, accounts.analysts.slice(1).map((a) => a.token), accounts.leads.map((l) => l.token), rec, s.rate!);
-  const decider = spawn(path.join(ROOT, "node_modules/.bin/tsx"), ["--conditions=react-server", "scripts/load/scale-decide.ts", stack.accountsFile], {
-    cwd: ROOT, env: stack.env, stdio: ["pipe", "pipe", "inherit"],
-  });
+  const readers = startReaders(
+    origin,
+    accounts.studySlug,
+    accounts.analysts.slice(1).map((a) => a.token),
+    accounts.leads.map((l) => l.token),
+    rec,
+    s.rate!,
+  );
+  const decider = spawn(
+    path.join(ROOT, "node_modules/.bin/tsx"),
+    ["--conditions=react-server", "scripts/load/scale-decide.ts", stack.accountsFile],
+    {
+      cwd: ROOT,
+      env: stack.env,
+      stdio: ["pipe", "pipe", "inherit"],
+    },
+  );
   let decided = 0;
   decider.stdout.on("data", (d: Buffer) => (decided += (d.toString().match(/"ok":true/g) ?? []).length));
   const startedAt = Date.now();
@@ -105,7 +127,9 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   }
   const accepted = outcomes.filter((o) => o.status === 201);
   const lastAccepted = Math.max(...accepted.map((o) => o.acceptedAt ?? 0));
-  log(`${accepted.length}/${outcomes.length} uploads accepted; waiting for the checks, decisions and e-mails`);
+  log(
+    `${accepted.length}/${outcomes.length} uploads accepted; waiting for the checks, decisions and e-mails`,
+  );
   await Promise.all(side);
   const progress = progressReader(stack.env.DATABASE_URL!, accounts.studySlug);
   let p = await progress.read();
@@ -117,7 +141,13 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
         "select count(*) as n, sum(status = 'sent') as sent from email_outbox",
       )) as unknown as [{ n: number; sent: number }[]];
       // decided: no version left ready for review; every decision's e-mail out
-      return p.versions >= accepted.length && p.waiting === 0 && p.reported >= p.versions && p.ready === 0 && Number(o?.sent) >= Number(o?.n);
+      return (
+        p.versions >= accepted.length &&
+        p.waiting === 0 &&
+        p.reported >= p.versions &&
+        p.ready === 0 &&
+        Number(o?.sent) >= Number(o?.n)
+      );
     },
     s.checkLimit! * 1000,
   ).catch((e: Error) => log(`FAILED: ${e.message}`));
@@ -128,7 +158,10 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   await lag.stop();
   await progress.close();
   const after = await afterChecks(primary, accounts.studySlug, stack.env.MAILBOX_URL!);
-  const loadAfter = os.loadavg().map((x) => x.toFixed(2)).join(" ");
+  const loadAfter = os
+    .loadavg()
+    .map((x) => x.toFixed(2))
+    .join(" ");
   const figures = printScale({
     settings: s,
     rec,
@@ -141,7 +174,10 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
     decided,
     windowS: (doneAt - startedAt) / 1000,
     uploadsS: (lastAccepted - startedAt) / 1000,
-    checksS: p.firstUploadAt && p.lastReportAt ? (p.lastReportAt.getTime() - p.firstUploadAt.getTime()) / 1000 : null,
+    checksS:
+      p.firstUploadAt && p.lastReportAt
+        ? (p.lastReportAt.getTime() - p.firstUploadAt.getTime()) / 1000
+        : null,
     machine: `${os.cpus().length} cores; load average (1/5/15 min) ${loadBefore} before, ${loadAfter} after; load generator's longest stall ${generatorMaxMs} ms`,
   });
   await primary.end();
@@ -159,37 +195,67 @@ async function killApp(stack: ScaleStack, note: (n: string, w: string) => void) 
   await stack.parts.kill("app-a", "SIGKILL");
   await new Promise((r) => setTimeout(r, 10_000));
   await stack.parts.restart("app-a");
-  note("app instance killed", "app-a started again and listening; HAProxy adds it back after two good checks");
+  note(
+    "app instance killed",
+    "app-a started again and listening; HAProxy adds it back after two good checks",
+  );
 }
 
-async function killWorker(stack: ScaleStack, primary: ReturnType<typeof openServer>, note: (n: string, w: string) => void) {
+async function killWorker(
+  stack: ScaleStack,
+  primary: ReturnType<typeof openServer>,
+  note: (n: string, w: string) => void,
+) {
   const id = /started as (\S+)/.exec(readFileSync(stack.parts.get("worker-1")!.logFile, "utf8"))?.[1] ?? "";
   let job = 0;
-  await until("worker-1 holding a check", async () => {
-    const [rows] = await primary.query("select id from check_jobs where kind = 'check' and status = 'running' and locked_by = ?", [id]);
-    job = Number((rows as { id: number }[])[0]?.id ?? 0);
-    return job > 0;
-  }, 300_000);
+  await until(
+    "worker-1 holding a check",
+    async () => {
+      const [rows] = await primary.query(
+        "select id from check_jobs where kind = 'check' and status = 'running' and locked_by = ?",
+        [id],
+      );
+      job = Number((rows as { id: number }[])[0]?.id ?? 0);
+      return job > 0;
+    },
+    300_000,
+  );
   await stack.parts.kill("worker-1", "SIGKILL");
   note("worker killed", `SIGKILL to worker-1 (${id}) mid-check of job ${job}`);
-  await until(`job ${job} finished by the other worker`, async () => {
-    const [rows] = await primary.query("select status, locked_by as by_ from check_jobs where id = ?", [job]);
-    const r = (rows as { status: string; by_: string }[])[0];
-    return r?.status === "done";
-  }, 600_000);
+  await until(
+    `job ${job} finished by the other worker`,
+    async () => {
+      const [rows] = await primary.query("select status, locked_by as by_ from check_jobs where id = ?", [
+        job,
+      ]);
+      const r = (rows as { status: string; by_: string }[])[0];
+      return r?.status === "done";
+    },
+    600_000,
+  );
   const [rows] = await primary.query("select locked_by as by_, attempts from check_jobs where id = ?", [job]);
-  note("worker killed", `job ${job} done by ${(rows as { by_: string }[])[0]?.by_} on attempt ${(rows as { attempts: number }[])[0]?.attempts}; worker-1 started again`);
+  note(
+    "worker killed",
+    `job ${job} done by ${(rows as { by_: string }[])[0]?.by_} on attempt ${(rows as { attempts: number }[])[0]?.attempts}; worker-1 started again`,
+  );
   await stack.parts.restart("worker-1");
 }
 
-async function stopReplica(stack: ScaleStack, note: (n: string, w: string) => void, selectsAt: () => Promise<{ primary: number | null; replica: number | null }>) {
+async function stopReplica(
+  stack: ScaleStack,
+  note: (n: string, w: string) => void,
+  selectsAt: () => Promise<{ primary: number | null; replica: number | null }>,
+) {
   const before = await selectsAt();
   await stack.dbAsync("replica", "stop");
   note("replica stopped", "bash scripts/db.sh replica stop; 20 s without it");
   const t0 = await selectsAt();
   await new Promise((r) => setTimeout(r, 20_000));
   const t1 = await selectsAt();
-  note("replica stopped", `SELECTs on the primary during the outage: ${(t1.primary ?? 0) - (t0.primary ?? 0)} (in the 20 s; the replica had served ${(t0.replica ?? 0) - (before.replica ?? 0)} just before, over the stop)`);
+  note(
+    "replica stopped",
+    `SELECTs on the primary during the outage: ${(t1.primary ?? 0) - (t0.primary ?? 0)} (in the 20 s; the replica had served ${(t0.replica ?? 0) - (before.replica ?? 0)} just before, over the stop)`,
+  );
   await stack.dbAsync("replica", "start");
   note("replica stopped", "replica started again: it resumes from its GTID position");
 }
@@ -200,7 +266,10 @@ async function restartPrimary(stack: ScaleStack, note: (n: string, w: string) =>
   await stack.dbAsync("stop");
   note("primary restarted", "bash scripts/db.sh stop during wave 8's uploads");
   await stack.dbAsync("start");
-  note("primary restarted", `bash scripts/db.sh start: the primary answered again ${((Date.now() - t) / 1000).toFixed(1)} s after the stop began`);
+  note(
+    "primary restarted",
+    `bash scripts/db.sh start: the primary answered again ${((Date.now() - t) / 1000).toFixed(1)} s after the stop began`,
+  );
 }
 
 export { SCALE };

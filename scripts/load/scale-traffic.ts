@@ -86,9 +86,14 @@ export function startReaders(
         }
       } else if (n % 3 === 1) {
         const q = seen[n % seen.length]!;
-        const r = await call(rec, "report", `${origin}/api/v1/batches/${q.batchId}/versions/${q.version}/report`, {
-          headers,
-        });
+        const r = await call(
+          rec,
+          "report",
+          `${origin}/api/v1/batches/${q.batchId}/versions/${q.version}/report`,
+          {
+            headers,
+          },
+        );
         if (r.status === 200 && r.body.includes('"report":{')) opened.add(`${q.batchId}/${q.version}`);
       } else await call(rec, "pool", `${origin}/api/v1/pool/${studySlug}`, { headers });
       await pause(Math.max(0, every - (Date.now() - started)));
@@ -113,7 +118,12 @@ export interface UploadOutcome {
 }
 
 /** Provider k's batch (built beforehand: loadBatch of scripts/load/batches.ts). */
-export async function upload(origin: string, rec: ScaleRecorder, k: number, b: UploadBody): Promise<UploadOutcome> {
+export async function upload(
+  origin: string,
+  rec: ScaleRecorder,
+  k: number,
+  b: UploadBody,
+): Promise<UploadOutcome> {
   const r = await call(
     rec,
     "upload",
@@ -123,7 +133,13 @@ export async function upload(origin: string, rec: ScaleRecorder, k: number, b: U
   );
   const batchId =
     r.status === 201 ? ((JSON.parse(r.body) as { data?: { batchId?: string } }).data?.batchId ?? null) : null;
-  return { k, status: r.status, batchId, instance: r.instance, acceptedAt: r.status === 201 ? Date.now() : null };
+  return {
+    k,
+    status: r.status,
+    batchId,
+    instance: r.instance,
+    acceptedAt: r.status === 201 ? Date.now() : null,
+  };
 }
 
 /**

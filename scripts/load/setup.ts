@@ -81,7 +81,13 @@ async function main(): Promise<void> {
     .where(inArray(organisations.slug, orgSlugs));
   const orgId = (slug: string) => orgs.find((o) => o.slug === slug)?.id ?? NaN;
 
-  const accounts: LoadAccounts = { studySlug: LOAD_STUDY_SLUG, providers: [], analysts: [], leads: [], password };
+  const accounts: LoadAccounts = {
+    studySlug: LOAD_STUDY_SLUG,
+    providers: [],
+    analysts: [],
+    leads: [],
+    password,
+  };
   for (const [i, slug] of orgSlugs.entries()) {
     must(`admit ${slug}`, await admitProvider(admin.id, study.id, orgId(slug)));
     const email = `provider@${slug}.test`;
@@ -118,7 +124,13 @@ async function main(): Promise<void> {
     const email = `lead${String(i + 1).padStart(2, "0")}@load.test`;
     const user = must(
       `create ${email}`,
-      await createUser(admin.id, { email, name: `Load lead ${i + 1}`, role: "lead", organisationId: null, password }),
+      await createUser(admin.id, {
+        email,
+        name: `Load lead ${i + 1}`,
+        role: "lead",
+        organisationId: null,
+        password,
+      }),
     );
     const token = must(`token for ${email}`, await createApiToken(user.id, { name: "load test" }));
     accounts.leads.push({ email, token: token.token });

@@ -78,7 +78,10 @@ beforeAll(async () => {
   );
   const env = { ...process.env, DATABASE_URL: url, DATABASE_REPLICA_URL: replicaUrl };
   const tsx = path.join(ROOT, "node_modules/.bin/tsx");
-  for (const [name, port] of [["app-a", PORTS.appA], ["app-b", PORTS.appB]] as const)
+  for (const [name, port] of [
+    ["app-a", PORTS.appA],
+    ["app-b", PORTS.appB],
+  ] as const)
     await parts.start({
       name,
       command: tsx,
@@ -88,8 +91,18 @@ beforeAll(async () => {
       readyLine: /^listening \d+/m,
     });
   const cfg = path.join(HOME, "haproxy-topology.cfg");
-  writeFileSync(cfg, haproxyConfig(ROOT, { front: PORTS.front, appA: PORTS.appA, appB: PORTS.appB, stats: PORTS.stats }));
-  await parts.start({ name: "haproxy", command: "haproxy", args: ["-db", "-f", cfg], env, cwd: ROOT, port: PORTS.front });
+  writeFileSync(
+    cfg,
+    haproxyConfig(ROOT, { front: PORTS.front, appA: PORTS.appA, appB: PORTS.appB, stats: PORTS.stats }),
+  );
+  await parts.start({
+    name: "haproxy",
+    command: "haproxy",
+    args: ["-db", "-f", cfg],
+    env,
+    cwd: ROOT,
+    port: PORTS.front,
+  });
   const worker = startWorker({ DATABASE_URL: url, DATABASE_REPLICA_URL: replicaUrl });
   await worker.waitForLine(/started as/);
 });
@@ -109,12 +122,16 @@ describe("two instances behind HAProxy, one worker, a replica", () => {
   test("both instances answer through the balancer, and the board is read from the replica", async () => {
     // HAProxy marks a server up after two good health checks: wait until both have answered
     const seen = new Set<string>();
-    await until("both instances answering", async () => {
-      const r = await board();
-      expect(r.status).toBe(200);
-      if (r.instance) seen.add(r.instance);
-      return seen.size === 2;
-    }, PROCESS_PATIENCE_MS);
+    await until(
+      "both instances answering",
+      async () => {
+        const r = await board();
+        expect(r.status).toBe(200);
+        if (r.instance) seen.add(r.instance);
+        return seen.size === 2;
+      },
+      PROCESS_PATIENCE_MS,
+    );
     expect([...seen].sort()).toEqual(["app-a", "app-b"]);
     const [p0, r0] = [await selects(primary), await selects(replica)];
     for (let i = 0; i < 10; i++) expect((await board()).status).toBe(200);

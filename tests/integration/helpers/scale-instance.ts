@@ -20,7 +20,10 @@ const server = createServer(async (req, res) => {
     for (const [k, v] of Object.entries(req.headers)) if (typeof v === "string") headers.set(k, v);
     const answer = await route(new Request(url, { headers }), { params: Promise.resolve({}) });
     res
-      .writeHead(answer.status, { ...Object.fromEntries(answer.headers), "x-instance-pid": String(process.pid) })
+      .writeHead(answer.status, {
+        ...Object.fromEntries(answer.headers),
+        "x-instance-pid": String(process.pid),
+      })
       .end(Buffer.from(await answer.arrayBuffer()));
   } catch (e) {
     console.error(e);
