@@ -87,10 +87,9 @@ export async function afterChecks(
     return Number(Object.values((rows as Record<string, unknown>[])[0] ?? {})[0] ?? 0);
   };
   const inStudy = `join batches b on b.id = v.batch_id join studies s on s.id = b.study_id and s.slug = ?`;
-  const messages = (await (await fetch(`${mailboxUrl}/messages`)).json()) as {
-    to: string[];
-    subject: string;
-  }[];
+  const { messages } = (await (await fetch(`${mailboxUrl}/messages`)).json()) as {
+    messages: { to: string[]; subject: string }[];
+  };
   const keys = messages.map((m) => `${m.to.join(",")}|${m.subject}`);
   return {
     batches: await one(`select count(*) from batches b join studies s on s.id = b.study_id and s.slug = ?`),

@@ -155,7 +155,10 @@ export async function signInLimit(
   failures: number,
 ): Promise<{ instances: Record<string, number>; refusedAfter: boolean; detail: string }> {
   const instances: Record<string, number> = {};
-  const attempt = async (pw: string) => {
+  const attempt = async (pw: string, n: number) => {
+    // two requests per attempt (the CSRF token, the sign-in): under roundrobin every sign-in would
+    // meet the same instance, so every other attempt asks for the token twice
+    if (n % 2 === 1) await (await fetch(`${origin}/api/auth/csrf`)).arrayBuffer();
     const csrf = await fetch(`${origin}/api/auth/csrf`);
     const cookie = (csrf.headers.getSetCookie() ?? []).map((c) => c.split(";")[0]).join("; ");
     const { csrfToken } = (await csrf.json()) as { csrfToken: string };
@@ -169,7 +172,7 @@ export async function signInLimit(
     instances[r.instance] = (instances[r.instance] ?? 0) + 1;
     return `${r.status} ${r.body}`;
   };
-  for (let i = 0; i < failures; i++) await attempt(`wrong-password-${i}`);
-  const last = await attempt(password);
+  for (let i = 0; i < failures; i++) await attempt(`wrong-password-${i}`, i);
+  const last = await attempt(password, failures);
   return { instances, refusedAfter: /TooManyAttempts/.test(last), detail: last.slice(0, 200) };
 }
