@@ -49,6 +49,19 @@ function isLoopback(url: string): boolean {
 const base = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: z.string().url().startsWith("mysql://", "DATABASE_URL must be a mysql:// URL"),
+  /** a read replica of DATABASE_URL for the board, pool and report reads (db/client.ts getReadDb) */
+  DATABASE_REPLICA_URL: z
+    .string()
+    .url()
+    .startsWith("mysql://", "DATABASE_REPLICA_URL must be a mysql:// URL")
+    .optional()
+    .or(z.literal("").transform(() => undefined)),
+  /** how far (seconds) the replica may lag before its reads go to the primary */
+  DATABASE_REPLICA_MAX_LAG_S: z.coerce
+    .number()
+    .int()
+    .min(0, "DATABASE_REPLICA_MAX_LAG_S must be 0 or more seconds")
+    .default(5),
   APP_URL: z.string().url().default("http://127.0.0.1:3400"),
   NEXTAUTH_URL: z.string().url().optional(),
   NEXTAUTH_SECRET: z.string().min(16, "NEXTAUTH_SECRET must be at least 16 characters"),
@@ -93,12 +106,14 @@ const schema = base.superRefine((e, ctx) => {
       );
     }
   }
-  const creds = databaseCredentials(e.DATABASE_URL);
-  if (creds !== null && (PUBLIC_SECRETS.DATABASE_CREDENTIALS as readonly string[]).includes(creds)) {
-    refuse(
-      "DATABASE_URL",
-      "uses the demo database user and password published in this repository; create a database user with a password of your own and put it in DATABASE_URL",
-    );
+  for (const key of ["DATABASE_URL", "DATABASE_REPLICA_URL"] as const) {
+    const creds = e[key] ? databaseCredentials(e[key]) : null;
+    if (creds !== null && (PUBLIC_SECRETS.DATABASE_CREDENTIALS as readonly string[]).includes(creds)) {
+      refuse(
+        key,
+        `uses the demo database user and password published in this repository; create a database user with a password of your own and put it in ${key}`,
+      );
+    }
   }
   // session cookies are Secure only over https; plain http is for loopback
   const appHttps = e.APP_URL.startsWith("https://");

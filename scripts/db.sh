@@ -9,9 +9,11 @@
 #   bash scripts/db.sh url NAME         print the app's DATABASE_URL for NAME
 #   bash scripts/db.sh sql [ARGS...]    the mariadb client as root over the socket (SQL on stdin or -e)
 #   bash scripts/db.sh dump NAME        schema and data of NAME as SQL on stdout (tests copy a template)
+#   bash scripts/db.sh replica start|stop|status|lag|url NAME|sql [ARGS...]
+#                                       a read replica of this instance (scripts/lib/db-replica.sh)
 #
 # Environment (for tests and side-by-side checkouts): TRIBUTARY_DB_HOME (default <repo>/.data),
-# TRIBUTARY_DB_PORT (default 3406).
+# TRIBUTARY_DB_PORT (default 3406), TRIBUTARY_DB_REPLICA_PORT (default the port + 1).
 set -euo pipefail
 # shellcheck source=lib/common.sh
 source "$(dirname "${BASH_SOURCE[0]}")/lib/common.sh"
@@ -31,6 +33,13 @@ mkdir -p "$DB_HOME" "$RUNDIR" "$LOGDIR"
 DB_HOME="$(cd "$DB_HOME" && pwd)"
 DATADIR="$DB_HOME/mariadb"; RUNDIR="$DB_HOME/run"; LOGDIR="$DB_HOME/logs"
 PIDFILE="$RUNDIR/mariadb.pid"; LOGFILE="$LOGDIR/mariadb.log"; LOCKFILE="$DB_HOME/mariadb.lock"
+# extra server options and SQL run after the app user's grants (the replica sets both)
+SERVER_ARGS=()
+APP_USER_EXTRA=""
+# a primary with a replica keeps a binary log (the marker is written by `replica start`)
+if [[ -f "$DB_HOME/binlog.enabled" ]]; then
+  SERVER_ARGS=(--server-id=1 --log-bin=binlog --binlog-format=ROW --expire-logs-days=1)
+fi
 
 # Unix socket paths are limited to 107 bytes: deep checkouts get a short path under the temp dir.
 SOCKET="$RUNDIR/mariadb.sock"
@@ -105,6 +114,7 @@ CREATE USER IF NOT EXISTS '$APP_USER'@'127.0.0.1' IDENTIFIED BY '$APP_PASSWORD';
 CREATE USER IF NOT EXISTS '$APP_USER'@'localhost' IDENTIFIED BY '$APP_PASSWORD';
 GRANT ALL PRIVILEGES ON \`tributary%\`.* TO '$APP_USER'@'127.0.0.1';
 GRANT ALL PRIVILEGES ON \`tributary%\`.* TO '$APP_USER'@'localhost';
+$APP_USER_EXTRA
 SQL
 }
 
@@ -165,7 +175,7 @@ cmd_start() {
     "--datadir=$DATADIR" --bind-address=127.0.0.1 "--port=$PORT" "--socket=$SOCKET" \
     "--pid-file=$PIDFILE" "--log-error=$LOGFILE" \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
-    --skip-name-resolve --innodb-buffer-pool-size=128M \
+    --skip-name-resolve --innodb-buffer-pool-size=128M "${SERVER_ARGS[@]}" \
     </dev/null >/dev/null 2>&1 9>&- &
   pid=$!
   wait_ready "$pid"
@@ -233,8 +243,11 @@ cmd_drop_db() {
   root_sql -e "DROP DATABASE IF EXISTS \`$1\`"
 }
 
+# shellcheck source=lib/db-replica.sh
+source "$(dirname "${BASH_SOURCE[0]}")/lib/db-replica.sh"
+
 usage() {
-  sed -n '2,13p' "${BASH_SOURCE[0]}" | sed 's/^# \{0,1\}//'
+  sed -n '2,17p' "${BASH_SOURCE[0]}" | sed 's/^# \{0,1\}//'
 }
 
 case "${1:-}" in
@@ -250,6 +263,7 @@ case "${1:-}" in
     require_running
     mariadb-dump "${client_args[@]}" --single-transaction --skip-lock-tables --skip-add-locks \
       --skip-comments --skip-dump-date --no-tablespaces --routines=false --triggers=false "$2" ;;
+  replica) shift; replica_command "$@" ;;
   -h|--help|help) usage ;;
   *) usage >&2; exit 2 ;;
 esac

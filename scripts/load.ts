@@ -54,6 +54,18 @@ function usage(message: string): never {
   process.exit(2);
 }
 
+if (process.argv.includes("--scale")) {
+  // the scale topology has a run of its own (scripts/load/scale-run.ts)
+  const { runScale } = await import("./load/scale-run");
+  let scaleCode = 2;
+  try {
+    scaleCode = await runScale(process.argv.slice(2).filter((a) => a !== "--scale"));
+  } catch (e) {
+    console.error(`load --scale: could not run: ${e instanceof Error ? e.message : String(e)}`);
+  }
+  process.exit(scaleCode);
+}
+
 const known = new Set(["--providers", "--rows", "--analysts", "--rate", "--check-limit", "--timeout"]);
 process.argv.slice(2).forEach((a, i, all) => {
   if (a.startsWith("--") && !known.has(a)) usage(`unknown option ${a}.`);

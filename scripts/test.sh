@@ -16,7 +16,7 @@ totals_printed=0
 trap '(( totals_printed )) || { echo "the test run stopped before any suite finished (see above)"; echo "0 passed, 1 failed"; }' EXIT
 
 require_node
-ensure_apt_packages mariadb-server chromium r-base-core r-cran-car r-cran-data.table r-cran-leaps
+ensure_apt_packages mariadb-server chromium r-base-core r-cran-car r-cran-data.table r-cran-leaps haproxy
 ensure_node_modules
 bash scripts/db.sh start || die "MariaDB did not start (see above)."
 

@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import { AppError } from "@/lib/errors";
-import { getDb } from "@/db/client";
+import { getDb, getReadDb, type Db } from "@/db/client";
 import { batchVersions, dataPlans, decisions, findingComments, reports, users } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import type { ReadinessReport } from "@/lib/readiness";
@@ -65,17 +65,27 @@ export async function getVersionReportForUser(
       : [];
     return { d, comments };
   };
-  const [[plan], [row], { d, comments }] = await Promise.all([
-    db
-      .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan })
-      .from(dataPlans)
-      .where(eq(dataPlans.id, version.planId)),
-    db
+  const storedReport = (from: Db) =>
+    from
       .select({ report: reports.report, createdAt: reports.createdAt })
       .from(reports)
       .where(and(eq(reports.batchVersionId, version.id)))
       .orderBy(desc(reports.createdAt), desc(reports.id))
-      .limit(1),
+      .limit(1);
+  // plans and reports never change once written: the replica serves them; a report the version's
+  // state says is stored but the replica has not received yet is read from the primary
+  const replica = getReadDb();
+  const reportRow = async () => {
+    const rows = await storedReport(replica);
+    const expected = version.state !== "received" && version.state !== "checking";
+    return rows.length === 0 && expected && replica !== db ? storedReport(db) : rows;
+  };
+  const [[plan], [row], { d, comments }] = await Promise.all([
+    replica
+      .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan })
+      .from(dataPlans)
+      .where(eq(dataPlans.id, version.planId)),
+    reportRow(),
     decisionWithComments(),
   ]);
   return {

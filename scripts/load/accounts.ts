@@ -5,4 +5,7 @@ export interface LoadAccounts {
   studySlug: string;
   providers: { email: string; organisation: string; token: string }[];
   analysts: { email: string; token: string }[];
+  leads: { email: string; token: string }[];
+  /** every load account's password (for the sign-in checks) */
+  password: string;
 }

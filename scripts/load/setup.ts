@@ -2,9 +2,10 @@
  * Load-test accounts, made through the product's own services (run by scripts/load-server.sh
  * against the private `tributary_load` database, after the demo seed):
  * one open study with the barley demo plan, N provider organisations with one provider and a
- * personal API token each, N analysts assigned to the study with a token each.
+ * personal API token each, N analysts assigned to the study with a token each, and (--leads N,
+ * default 0) leads with a token each.
  *
- *   tsx --conditions=react-server scripts/load/setup.ts OUT.json [--providers N] [--analysts N]
+ *   tsx --conditions=react-server scripts/load/setup.ts OUT.json [--providers N] [--analysts N] [--leads N]
  *
  * The services import "server-only", which only loads under the React server condition.
  * Organisations have no service of their own (the seed writes them too), so they are inserted here.
@@ -21,12 +22,12 @@ import { createUser } from "@/lib/people/commands-users";
 import { admitProvider, assignAnalyst, createStudy, publishPlanVersion } from "@/lib/studies";
 import { LOAD_STUDY_SLUG, type LoadAccounts } from "./accounts";
 
-function intArg(name: string, fallback: number): number {
+function intArg(name: string, fallback: number, min = 1): number {
   const i = process.argv.indexOf(name);
   if (i < 0) return fallback;
   const n = Number(process.argv[i + 1]);
-  if (!Number.isInteger(n) || n < 1 || n > 200)
-    throw new Error(`${name} takes a whole number from 1 to 200.`);
+  if (!Number.isInteger(n) || n < min || n > 200)
+    throw new Error(`${name} takes a whole number from ${min} to 200.`);
   return n;
 }
 
@@ -42,6 +43,7 @@ async function main(): Promise<void> {
     throw new Error("usage: setup.ts OUT.json [--providers N] [--analysts N]");
   const nProviders = intArg("--providers", 20);
   const nAnalysts = intArg("--analysts", 20);
+  const nLeads = intArg("--leads", 0, 0);
   const db = getDb();
   const [admin] = await db
     .select({ id: users.id })
@@ -79,7 +81,13 @@ async function main(): Promise<void> {
     .where(inArray(organisations.slug, orgSlugs));
   const orgId = (slug: string) => orgs.find((o) => o.slug === slug)?.id ?? NaN;
 
-  const accounts: LoadAccounts = { studySlug: LOAD_STUDY_SLUG, providers: [], analysts: [] };
+  const accounts: LoadAccounts = {
+    studySlug: LOAD_STUDY_SLUG,
+    providers: [],
+    analysts: [],
+    leads: [],
+    password,
+  };
   for (const [i, slug] of orgSlugs.entries()) {
     must(`admit ${slug}`, await admitProvider(admin.id, study.id, orgId(slug)));
     const email = `provider@${slug}.test`;
@@ -112,9 +120,24 @@ async function main(): Promise<void> {
     const token = must(`token for ${email}`, await createApiToken(user.id, { name: "load test" }));
     accounts.analysts.push({ email, token: token.token });
   }
+  for (let i = 0; i < nLeads; i++) {
+    const email = `lead${String(i + 1).padStart(2, "0")}@load.test`;
+    const user = must(
+      `create ${email}`,
+      await createUser(admin.id, {
+        email,
+        name: `Load lead ${i + 1}`,
+        role: "lead",
+        organisationId: null,
+        password,
+      }),
+    );
+    const token = must(`token for ${email}`, await createApiToken(user.id, { name: "load test" }));
+    accounts.leads.push({ email, token: token.token });
+  }
   writeFileSync(out, JSON.stringify(accounts, null, 2), { mode: 0o600 });
   console.log(
-    `[load-setup] study ${LOAD_STUDY_SLUG}: ${nProviders} providers and ${nAnalysts} analysts with API tokens`,
+    `[load-setup] study ${LOAD_STUDY_SLUG}: ${nProviders} providers, ${nAnalysts} analysts and ${nLeads} leads with API tokens`,
   );
 }
 

@@ -5,7 +5,7 @@
  * value at rank ceil(p/100 · n)), so p95 is exact rather than read off autocannon's summary,
  * which reports p50, p97.5 and p99 only.
  */
-export type Endpoint = "upload" | "queue" | "report";
+export type Endpoint = "upload" | "queue" | "report" | "pool" | "board" | "sign-in";
 
 export interface EndpointFigures {
   endpoint: Endpoint;
