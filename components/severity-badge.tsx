@@ -14,18 +14,18 @@ export function SeverityShape({ severity, className }: { severity: Severity; cla
   if (severity === "blocker")
     return (
       <svg {...common}>
-        <rect x="0.5" y="0.5" width="9" height="9" fill="#A63D24" />
+        <rect x="0.5" y="0.5" width="9" height="9" fill="var(--t-clay)" />
       </svg>
     );
   if (severity === "warning")
     return (
       <svg {...common}>
-        <path d="M5 0.9 L9.1 5 L5 9.1 L0.9 5 Z" fill="none" stroke="#A8660B" strokeWidth="1.6" />
+        <path d="M5 0.9 L9.1 5 L5 9.1 L0.9 5 Z" fill="none" stroke="var(--t-ochre)" strokeWidth="1.6" />
       </svg>
     );
   return (
     <svg {...common}>
-      <circle cx="5" cy="5" r="3.4" fill="none" stroke="#4A5D78" strokeWidth="1.6" />
+      <circle cx="5" cy="5" r="3.4" fill="none" stroke="var(--t-slate)" strokeWidth="1.6" />
     </svg>
   );
 }
