@@ -211,7 +211,8 @@ export function DataTable<T extends TableNode>({
             {(tableList: T[]) => (
               <>
                 <Header>
-                  <HeaderRow>
+                  {/* the library's default role "rowheader" is not a row: axe and screen readers need "row" */}
+                  <HeaderRow role="row">
                     {columns.map((c) =>
                       c.sortable === false ? (
                         <HeaderCell key={c.key} className={c.numeric ? "th-num" : undefined}>

@@ -49,8 +49,8 @@ export function SeverityBadge({
     <span
       className={cx(
         "inline-flex items-center gap-1.5 whitespace-nowrap rounded-sm border px-1.5 py-px text-xs font-semibold",
-        box,
-        count === 0 && "opacity-60",
+        // none of this severity: muted colours, not opacity, so the text keeps its contrast
+        count === 0 ? "border-silt-line bg-sand-deep text-silt-ink" : box,
         className,
       )}
       data-severity={severity}

@@ -12,7 +12,7 @@ import { ROLE_ACCOUNTS, walkRolePages } from "./pages/walk";
 type Found = { path: string; scheme: string; rule: string; impact: string; help: string; targets: string[] };
 
 async function scan(page: import("@playwright/test").Page, path: string, scheme: string): Promise<Found[]> {
-  const result = await new AxeBuilder({ page }).analyze();
+  const result = await new AxeBuilder({ page }).options({ resultTypes: ["violations"] }).analyze();
   return result.violations
     .filter((v) => v.impact === "serious" || v.impact === "critical")
     .map((v) => ({
@@ -41,7 +41,7 @@ for (const [role, email] of Object.entries(ROLE_ACCOUNTS)) {
   test(`every page of the ${role} has no serious or critical accessibility violation, light or dark`, async ({
     page,
   }) => {
-    test.setTimeout(300_000);
+    test.setTimeout(600_000);
     await new SignInPage(page).signInAs(email);
     const found: Found[] = [];
     const seen = await walkRolePages(page, async (path) => {
