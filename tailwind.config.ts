@@ -1,26 +1,31 @@
 import type { Config } from "tailwindcss";
 
+/** A palette colour: its custom property (app/globals.css), redefined for the dark scheme. */
+const v = (name: string) => `var(--t-${name})`;
+
 /**
- * The "estuary" palette. Each colour that also carries meaning has a
+ * The "estuary" palette (values in app/globals.css, light and dark). Each colour that also carries meaning has a
  * `wash` (soft background) and, where the base fails WCAG AA as text on sand, an `ink`
- * shade that passes (contrast ratios checked against #F7F4EE and #FFFFFF).
+ * shade that passes (contrast ratios checked against sand and the surface in both schemes).
  */
 const config: Config = {
   content: ["./app/**/*.{ts,tsx}", "./components/**/*.{ts,tsx}"],
   theme: {
     extend: {
       colors: {
-        ink: { DEFAULT: "#12262E", soft: "#2B3F47" },
-        channel: { DEFAULT: "#1F6F78", deep: "#185A62", wash: "#E9F3F2" },
-        shallows: "#D8ECEB",
-        sand: { DEFAULT: "#F7F4EE", deep: "#EFEADF" },
+        // "white" is the surface a panel, a row or an input is drawn on: white in the light scheme
+        white: v("surface"),
+        ink: { DEFAULT: v("ink"), soft: v("ink-soft") },
+        channel: { DEFAULT: v("channel"), deep: v("channel-deep"), wash: v("channel-wash") },
+        shallows: v("shallows"),
+        sand: { DEFAULT: v("sand"), deep: v("sand-deep") },
         // silt as a border passes 3:1 (3.51 on sand); as text use silt-ink (5.41 on sand)
-        silt: { DEFAULT: "#8A8170", ink: "#6B6354", line: "#E2DCCF" },
-        reed: { DEFAULT: "#4F7A32", ink: "#3F6428", wash: "#E4EDDC" },
-        clay: { DEFAULT: "#A63D24", ink: "#A63D24", wash: "#F6E4DE" },
+        silt: { DEFAULT: v("silt"), ink: v("silt-ink"), line: v("silt-line") },
+        reed: { DEFAULT: v("reed"), ink: v("reed-ink"), wash: v("reed-wash") },
+        clay: { DEFAULT: v("clay"), ink: v("clay-ink"), wash: v("clay-wash") },
         // ochre as text is 4.19 on sand (fails AA): text uses ochre-ink (5.76)
-        ochre: { DEFAULT: "#A8660B", ink: "#8A5309", wash: "#F8EBD3" },
-        slate: { DEFAULT: "#4A5D78", ink: "#4A5D78", wash: "#E4E9F0" },
+        ochre: { DEFAULT: v("ochre"), ink: v("ochre-ink"), wash: v("ochre-wash") },
+        slate: { DEFAULT: v("slate"), ink: v("slate-ink"), wash: v("slate-wash") },
       },
       fontFamily: {
         sans: ["var(--font-sans)", "system-ui", "sans-serif"],

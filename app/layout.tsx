@@ -18,7 +18,13 @@ export const metadata: Metadata = {
     "The intake desk between data providers and analysts: batches checked against a study's data plan.",
 };
 
-export const viewport: Viewport = { themeColor: "#12262E" };
+export const viewport: Viewport = {
+  themeColor: [
+    { media: "(prefers-color-scheme: light)", color: "#12262E" },
+    { media: "(prefers-color-scheme: dark)", color: "#0E1B20" },
+  ],
+  colorScheme: "light dark",
+};
 
 export default async function RootLayout({ children }: { children: React.ReactNode }) {
   // every page is rendered per request: its scripts carry that request's CSP nonce (proxy.ts);

@@ -73,8 +73,8 @@ function asText(v: CellValue): string {
 
 const SortIcon = ({ dir }: { dir: "none" | "up" | "down" }) => (
   <svg width="9" height="12" viewBox="0 0 9 12" aria-hidden="true" className="shrink-0">
-    <path d="M4.5 1 L8 5 H1 Z" fill={dir === "up" ? "#1F6F78" : "#C9C1B1"} />
-    <path d="M4.5 11 L8 7 H1 Z" fill={dir === "down" ? "#1F6F78" : "#C9C1B1"} />
+    <path d="M4.5 1 L8 5 H1 Z" fill={dir === "up" ? "var(--t-channel)" : "var(--t-silt-faint)"} />
+    <path d="M4.5 11 L8 7 H1 Z" fill={dir === "down" ? "var(--t-channel)" : "var(--t-silt-faint)"} />
   </svg>
 );
 
@@ -133,16 +133,16 @@ export function DataTable<T extends TableNode>({
     .join(" ");
   const theme = useTheme({
     Table: `--data-table-library_grid-template-columns: ${template}; font-size: 0.8125rem; line-height: 1.25rem;`,
-    HeaderRow: `background: #EFEADF; color: #12262E;`,
-    HeaderCell: `font-weight: 600; padding: 7px 10px; border-bottom: 1px solid #8A8170; text-align: left;
-      & button { font-weight: 600; color: #12262E; }
+    HeaderRow: `background: var(--t-sand-deep); color: var(--t-ink);`,
+    HeaderCell: `font-weight: 600; padding: 7px 10px; border-bottom: 1px solid var(--t-silt); text-align: left;
+      & button { font-weight: 600; color: var(--t-ink); }
       & > div { white-space: normal; }
       & button > div { white-space: normal; overflow: visible; text-overflow: clip; text-align: inherit; }
       &.th-num > div { display: flex; justify-content: flex-end; text-align: right; }`,
-    Row: `background: #FFFFFF; color: #12262E;
-      &:nth-of-type(even) { background: #FBF9F5; }
-      &:hover { background: #E9F3F2; }`,
-    Cell: `padding: 6px 10px; border-bottom: 1px solid #E2DCCF; & > div { white-space: normal; overflow-wrap: anywhere; }`,
+    Row: `background: var(--t-surface); color: var(--t-ink);
+      &:nth-of-type(even) { background: var(--t-stripe); }
+      &:hover { background: var(--t-channel-wash); }`,
+    Cell: `padding: 6px 10px; border-bottom: 1px solid var(--t-silt-line); & > div { white-space: normal; overflow-wrap: anywhere; }`,
   });
 
   const sortState = sort.state as { sortKey?: string; reverse?: boolean };
@@ -177,7 +177,7 @@ export function DataTable<T extends TableNode>({
   }
 
   return (
-    <div className="flex flex-col gap-2">
+    <div className="flex min-w-0 max-w-full flex-col gap-2">
       <div className="flex flex-wrap items-center gap-2">
         <label htmlFor={filterId} className="sr-only">
           Filter {caption}
@@ -216,7 +216,8 @@ export function DataTable<T extends TableNode>({
             {(tableList: T[]) => (
               <>
                 <Header>
-                  <HeaderRow>
+                  {/* the library's default role "rowheader" is not a row: axe and screen readers need "row" */}
+                  <HeaderRow role="row">
                     {columns.map((c) =>
                       c.sortable === false ? (
                         <HeaderCell key={c.key} className={c.numeric ? "th-num" : undefined}>

@@ -14,18 +14,18 @@ export function SeverityShape({ severity, className }: { severity: Severity; cla
   if (severity === "blocker")
     return (
       <svg {...common}>
-        <rect x="0.5" y="0.5" width="9" height="9" fill="#A63D24" />
+        <rect x="0.5" y="0.5" width="9" height="9" fill="var(--t-clay)" />
       </svg>
     );
   if (severity === "warning")
     return (
       <svg {...common}>
-        <path d="M5 0.9 L9.1 5 L5 9.1 L0.9 5 Z" fill="none" stroke="#A8660B" strokeWidth="1.6" />
+        <path d="M5 0.9 L9.1 5 L5 9.1 L0.9 5 Z" fill="none" stroke="var(--t-ochre)" strokeWidth="1.6" />
       </svg>
     );
   return (
     <svg {...common}>
-      <circle cx="5" cy="5" r="3.4" fill="none" stroke="#4A5D78" strokeWidth="1.6" />
+      <circle cx="5" cy="5" r="3.4" fill="none" stroke="var(--t-slate)" strokeWidth="1.6" />
     </svg>
   );
 }
@@ -49,8 +49,8 @@ export function SeverityBadge({
     <span
       className={cx(
         "inline-flex items-center gap-1.5 whitespace-nowrap rounded-sm border px-1.5 py-px text-xs font-semibold",
-        box,
-        count === 0 && "opacity-60",
+        // none of this severity: muted colours, not opacity, so the text keeps its contrast
+        count === 0 ? "border-silt-line bg-sand-deep text-silt-ink" : box,
         className,
       )}
       data-severity={severity}

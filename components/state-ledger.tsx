@@ -4,13 +4,13 @@ import { batchStateLabel, formatCount } from "@/lib/format";
 
 /** Fill of each state in the ledger bar; the word beside each count carries the meaning too. */
 export const STATE_FILL: Record<BatchState, string> = {
-  received: "#B9B09E",
-  checking: "#5FB1B8",
-  ready: "#4A5D78",
-  accepted: "#4F7A32",
-  bounced: "#A63D24",
-  superseded: "#DDD6C8",
-  unreadable: "#A8660B",
+  received: "var(--t-state-received)",
+  checking: "var(--t-state-checking)",
+  ready: "var(--t-slate)",
+  accepted: "var(--t-reed)",
+  bounced: "var(--t-clay)",
+  superseded: "var(--t-state-superseded)",
+  unreadable: "var(--t-ochre)",
 };
 
 /**

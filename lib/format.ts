@@ -82,6 +82,33 @@ export function formatDate(d: Date | string | number | null | undefined): string
   return x ? dateFmt.format(x) : "–";
 }
 
+/**
+ * The time in the viewer's zone (the browser's own, or `timeZone` when given), named by its short
+ * zone: "2 Dec 2026, 11:43 GMT+13"; `dateOnly` drops the time. For the browser: a page rendered
+ * on the server prints `formatDateTime` (UTC) and the client swaps this in (components/ui/local-time.tsx).
+ */
+export function formatLocalDateTime(
+  d: Date | string | number | null | undefined,
+  opts: { dateOnly?: boolean; timeZone?: string } = {},
+): string {
+  const x = toDate(d);
+  if (!x) return "–";
+  const fmt = new Intl.DateTimeFormat("en-GB", {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    ...(opts.dateOnly ? {} : { hour: "2-digit", minute: "2-digit", timeZoneName: "short" }),
+    timeZone: opts.timeZone,
+  });
+  return fmt.format(x);
+}
+
+/** "2026-12-01T22:43:00Z": ISO 8601 in UTC to the second, for a timestamp's hover text. */
+export function isoSeconds(d: Date | string | number | null | undefined): string {
+  const x = toDate(d);
+  return x ? x.toISOString().replace(/\.\d{3}Z$/, "Z") : "";
+}
+
 /** ISO 8601 in UTC, for CSV and machine-readable attributes. */
 export function isoDateTime(d: Date | string | number | null | undefined): string {
   const x = toDate(d);

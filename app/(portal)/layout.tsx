@@ -13,7 +13,7 @@ export default async function PortalLayout({ children }: { children: React.React
         Skip to content
       </a>
       <TopBar user={user} />
-      <main id="main" className="mx-auto w-full max-w-page flex-1 px-6 py-6">
+      <main id="main" className="mx-auto w-full min-w-0 max-w-page flex-1 px-4 py-6 sm:px-6">
         {children}
       </main>
     </div>

@@ -1,9 +1,10 @@
 "use client";
 /** Every batch's newest version with its state and how long it has sat there. */
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
 import { StateBadge } from "@/components/state-badge";
-import { batchStateLabel, formatDateTime } from "@/lib/format";
+import { batchStateLabel } from "@/lib/format";
 import { formatHours } from "./format";
 
 export type BoardBatchRow = {
@@ -45,7 +46,7 @@ const columns: Column<BoardBatchRow>[] = [
     key: "since",
     header: "In state since",
     value: (r) => r.stateChangedAt,
-    render: (r) => formatDateTime(r.stateChangedAt),
+    render: (r) => <LocalTime value={r.stateChangedAt} />,
     width: "10rem",
   },
   {

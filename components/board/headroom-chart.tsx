@@ -73,32 +73,32 @@ export function HeadroomChart({ series }: { series: HeadroomSeries[] }) {
               <figcaption className="mb-1 text-sm font-semibold">{s.studyTitle}</figcaption>
               <ResponsiveContainer width="100%" height="90%">
                 <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
-                  <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
-                  <XAxis dataKey="label" tick={{ fontSize: 12, fill: "#6B6354" }} />
+                  <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
+                  <XAxis dataKey="label" tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }} />
                   <YAxis
                     domain={[0, ticks[ticks.length - 1] ?? 1]}
                     ticks={ticks}
-                    tick={{ fontSize: 12, fill: "#6B6354" }}
+                    tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
                     tickFormatter={(v: number) => formatCount(v)}
                     width={56}
                   />
                   <Tooltip formatter={(v) => formatCount(typeof v === "number" ? v : null)} />
                   <ReferenceLine
                     y={s.dfTarget}
-                    stroke="#12262E"
+                    stroke="var(--t-ink)"
                     strokeDasharray="6 3"
                     label={{
                       value: `target ${formatCount(s.dfTarget)}`,
                       position: "insideTopRight",
                       fontSize: 12,
-                      fill: "#12262E",
+                      fill: "var(--t-ink)",
                     }}
                   />
                   <Line
                     type="stepAfter"
                     dataKey="residualDf"
                     name="residual df"
-                    stroke="#4F7A32"
+                    stroke="var(--t-reed)"
                     strokeWidth={2}
                     dot={{ r: 3 }}
                     isAnimationActive={false}

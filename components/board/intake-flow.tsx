@@ -93,7 +93,7 @@ export function IntakeFlow({
                 x={p.x + nodeW + 4}
                 y={p.y + Math.min(p.h / 2 + 4, p.h + 10)}
                 fontSize="11"
-                fill="#12262E"
+                fill="var(--t-ink)"
               >
                 {batchStateLabel(s)} {formatCount(value[s])}
               </text>

@@ -57,20 +57,20 @@ export function PoolHeadroom({ rows }: { rows: HeadroomRow[] }) {
                 </td>
                 <td className="py-1">
                   <svg viewBox="0 0 200 14" className="h-3.5 w-full" aria-hidden="true">
-                    <rect x="0" y="3" width="200" height="8" fill="#EFEADF" />
+                    <rect x="0" y="3" width="200" height="8" fill="var(--t-sand-deep)" />
                     <rect
                       x="0"
                       y="3"
                       width={(Math.max(0, r.residualDf) / scale) * 200}
                       height="8"
-                      fill={r.headroom >= 0 ? "#4F7A32" : "#A8660B"}
+                      fill={r.headroom >= 0 ? "var(--t-reed)" : "var(--t-ochre)"}
                     />
                     <line
                       x1={(r.dfTarget / scale) * 200}
                       x2={(r.dfTarget / scale) * 200}
                       y1="0"
                       y2="14"
-                      stroke="#12262E"
+                      stroke="var(--t-ink)"
                       strokeWidth="2"
                     />
                   </svg>

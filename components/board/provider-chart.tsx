@@ -54,17 +54,22 @@ export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
         >
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={decided} layout="vertical" margin={{ top: 4, right: 24, bottom: 4, left: 8 }}>
-              <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" horizontal={false} />
+              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
               <XAxis
                 type="number"
                 domain={[0, 100]}
                 ticks={[0, 25, 50, 75, 100]}
                 unit=" %"
-                tick={{ fontSize: 12, fill: "#6B6354" }}
+                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
               />
-              <YAxis type="category" dataKey="name" width={260} tick={{ fontSize: 12, fill: "#12262E" }} />
+              <YAxis
+                type="category"
+                dataKey="name"
+                width={260}
+                tick={{ fontSize: 12, fill: "var(--t-ink)" }}
+              />
               <Tooltip formatter={(v) => `${v} % bounced`} />
-              <Bar dataKey="rate" name="bounce rate" fill="#A63D24" isAnimationActive={false} />
+              <Bar dataKey="rate" name="bounce rate" fill="var(--t-clay)" isAnimationActive={false} />
             </BarChart>
           </ResponsiveContainer>
         </figure>

@@ -48,12 +48,12 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
         >
           <ResponsiveContainer width="100%" height="100%">
             <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
-              <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
-              <XAxis dataKey="label" tick={{ fontSize: 12, fill: "#6B6354" }} />
+              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
+              <XAxis dataKey="label" tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }} />
               <YAxis
                 domain={[0, ticks[ticks.length - 1] ?? 1]}
                 ticks={ticks}
-                tick={{ fontSize: 12, fill: "#6B6354" }}
+                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
                 tickFormatter={(v: number) => `${formatCount(v)} h`}
                 width={64}
               />
@@ -63,7 +63,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
                 type="monotone"
                 dataKey="medianHours"
                 name="median"
-                stroke="#1F6F78"
+                stroke="var(--t-channel)"
                 strokeWidth={2}
                 connectNulls
                 dot={{ r: 3 }}
@@ -73,7 +73,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
                 type="monotone"
                 dataKey="p90Hours"
                 name="90th percentile"
-                stroke="#A8660B"
+                stroke="var(--t-ochre)"
                 strokeWidth={2}
                 strokeDasharray="5 3"
                 connectNulls

@@ -3,8 +3,8 @@
  * from, the fixes applied, who approved them, and the change log (the first cells here, all of
  * them as CSV).
  */
+import { LocalTime } from "@/components/ui/local-time";
 import { Section } from "@/components/ui/section";
-import { formatDateTime } from "@/lib/format";
 import type { FixChange } from "@/lib/readiness";
 
 export type MachineCorrectedProps = {
@@ -35,8 +35,8 @@ export function MachineCorrected({ batchId, version, fix, preview }: MachineCorr
         <p className="text-sm">
           Produced from version {fix.fromVersion} by applying {fix.proposals.map((p) => p.id).join(", ")};{" "}
           {fix.changeCount.toLocaleString("en")} cell
-          {fix.changeCount === 1 ? "" : "s"} changed. Approved by {fix.approvedBy} on {formatDateTime(fix.at)}
-          .
+          {fix.changeCount === 1 ? "" : "s"} changed. Approved by {fix.approvedBy} on{" "}
+          <LocalTime value={fix.at} />.
         </p>
         <ul className="mt-1 grid gap-0.5 text-sm">
           {fix.proposals.map((p) => (

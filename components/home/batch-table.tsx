@@ -1,10 +1,10 @@
 "use client";
 
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
 import { StateBadge } from "@/components/state-badge";
 import { EmptyState } from "@/components/ui/empty-state";
-import { formatDateTime } from "@/lib/format";
 
 export type BatchRow = {
   id: number;
@@ -79,7 +79,7 @@ export function BatchTable({
       header: "State since",
       width: "11rem",
       value: (r) => r.stateChangedAt,
-      render: (r) => <span className="tabular">{formatDateTime(r.stateChangedAt)}</span>,
+      render: (r) => <LocalTime value={r.stateChangedAt} className="tabular" />,
     },
   );
   return (

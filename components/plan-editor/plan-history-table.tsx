@@ -1,8 +1,8 @@
 "use client";
 
+import { LocalTime } from "@/components/ui/local-time";
 import { DataTable, type Column } from "@/components/data-table";
 import { Badge } from "@/components/ui/badge";
-import { formatDateTime } from "@/lib/format";
 
 export type PlanHistoryRow = {
   id: number;
@@ -35,7 +35,7 @@ export function PlanHistoryTable({ rows }: { rows: PlanHistoryRow[] }) {
       header: "Published",
       width: "11rem",
       value: (r) => r.createdAt,
-      render: (r) => <span className="tabular">{formatDateTime(r.createdAt)}</span>,
+      render: (r) => <LocalTime value={r.createdAt} className="tabular" />,
     },
     { key: "who", header: "By", width: "minmax(9rem, 1fr)", value: (r) => r.createdByName ?? "" },
     {

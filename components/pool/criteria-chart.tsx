@@ -55,11 +55,11 @@ function SmallChart({
       <figcaption className="mb-1 text-sm font-semibold">{LABEL[field]}</figcaption>
       <ResponsiveContainer width="100%" height="85%">
         <LineChart data={data} margin={{ top: 4, right: 12, bottom: 4, left: 4 }}>
-          <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" />
-          <XAxis dataKey="size" tick={{ fontSize: 11, fill: "#6B6354" }} allowDecimals={false} />
+          <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
+          <XAxis dataKey="size" tick={{ fontSize: 11, fill: "var(--t-silt-ink)" }} allowDecimals={false} />
           <YAxis
             domain={values.length ? ["auto", "auto"] : [0, 1]}
-            tick={{ fontSize: 11, fill: "#6B6354" }}
+            tick={{ fontSize: 11, fill: "var(--t-silt-ink)" }}
             width={56}
             tickFormatter={(v: number) => formatStat(v, field === "adjR2" ? 3 : 1)}
           />
@@ -70,15 +70,15 @@ function SmallChart({
           {pick === undefined ? null : (
             <ReferenceLine
               x={pick}
-              stroke="#A8660B"
+              stroke="var(--t-ochre)"
               strokeDasharray="4 3"
-              label={{ value: "pick", position: "top", fontSize: 11, fill: "#A8660B" }}
+              label={{ value: "pick", position: "top", fontSize: 11, fill: "var(--t-ochre)" }}
             />
           )}
           <Line
             type="monotone"
             dataKey={field}
-            stroke="#1F6F78"
+            stroke="var(--t-channel)"
             strokeWidth={2}
             dot={{ r: 3 }}
             connectNulls

@@ -83,20 +83,25 @@ export function InfluenceChart({
         >
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={data} layout="vertical" margin={{ top: 16, right: 32, bottom: 16, left: 8 }}>
-              <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" horizontal={false} />
+              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
               <XAxis
                 type="number"
                 domain={[0, Math.ceil(top * 10) / 10]}
-                tick={{ fontSize: 12, fill: "#6B6354" }}
+                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
                 label={{
                   value: "largest shift, standard errors",
                   position: "insideBottom",
                   offset: -10,
                   fontSize: 12,
-                  fill: "#6B6354",
+                  fill: "var(--t-silt-ink)",
                 }}
               />
-              <YAxis type="category" dataKey="name" width={240} tick={{ fontSize: 12, fill: "#12262E" }} />
+              <YAxis
+                type="category"
+                dataKey="name"
+                width={240}
+                tick={{ fontSize: 12, fill: "var(--t-ink)" }}
+              />
               <Tooltip
                 formatter={(v, _n, item) => [
                   `${formatStat(typeof v === "number" ? v : null)} SE (${(item.payload as { term: string }).term})`,
@@ -105,19 +110,19 @@ export function InfluenceChart({
               />
               <Bar dataKey="shift" name="largest shift" isAnimationActive={false}>
                 {data.map((d) => (
-                  <Cell key={d.id} fill={d.influential ? "#A8660B" : "#1F6F78"} />
+                  <Cell key={d.id} fill={d.influential ? "var(--t-ochre)" : "var(--t-channel)"} />
                 ))}
               </Bar>
               <ReferenceLine
                 x={threshold}
-                stroke="#12262E"
+                stroke="var(--t-ink)"
                 strokeWidth={2}
                 strokeDasharray="4 3"
                 label={{
                   value: `${formatStat(threshold)} SE`,
                   position: "top",
                   fontSize: 12,
-                  fill: "#12262E",
+                  fill: "var(--t-ink)",
                 }}
               />
             </BarChart>

@@ -1,8 +1,9 @@
 "use client";
 /** The accepted versions that make up a pool: provider, batch, version, rows, decision time. */
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
-import { formatCount, formatDateTime } from "@/lib/format";
+import { formatCount } from "@/lib/format";
 
 export type MemberRow = {
   id: string;
@@ -60,7 +61,7 @@ const columns: Column<MemberRow>[] = [
     key: "decided",
     header: "Accepted",
     value: (r) => r.decidedAt,
-    render: (r) => formatDateTime(r.decidedAt),
+    render: (r) => <LocalTime value={r.decidedAt} />,
     width: "10rem",
   },
   {

@@ -1,5 +1,5 @@
 /** When the stored pool questions were computed, for what, and whether newer ones are on their way. */
-import { formatDateTime } from "@/lib/format";
+import { LocalTime } from "@/components/ui/local-time";
 import type { QuestionsView } from "@/lib/pool/questions";
 import { RefreshWhilePending } from "./refresh-while-pending";
 
@@ -20,8 +20,8 @@ export function QuestionsStatus({ view, what = "these figures" }: { view: Questi
   return (
     <p className="text-sm text-silt-ink" data-testid="questions-status" role="status">
       {pending}
-      Computed {formatDateTime(s.computedAt)} by the worker under data plan version {s.planVersion}, over {n}{" "}
-      accepted {n === 1 ? "version" : "versions"}.
+      Computed <LocalTime value={s.computedAt} /> by the worker under data plan version {s.planVersion}, over{" "}
+      {n} accepted {n === 1 ? "version" : "versions"}.
       {view.recomputing ? (
         <strong className="ml-1 font-semibold text-ochre-ink" data-testid="recomputing">
           Being recomputed: the pool has changed; the figures below are the previous ones until the new ones

@@ -57,26 +57,31 @@ export function StabilityBars({ stability, csvName }: { stability: Stability; cs
       >
         <ResponsiveContainer width="100%" height="100%">
           <BarChart data={data} layout="vertical" margin={{ top: 16, right: 24, bottom: 4, left: 8 }}>
-            <CartesianGrid stroke="#E2DCCF" strokeDasharray="3 3" horizontal={false} />
-            <XAxis type="number" domain={[0, 100]} unit=" %" tick={{ fontSize: 12, fill: "#6B6354" }} />
-            <YAxis type="category" dataKey="term" width={180} tick={{ fontSize: 12, fill: "#12262E" }} />
+            <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
+            <XAxis
+              type="number"
+              domain={[0, 100]}
+              unit=" %"
+              tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
+            />
+            <YAxis type="category" dataKey="term" width={180} tick={{ fontSize: 12, fill: "var(--t-ink)" }} />
             <Tooltip formatter={(v) => `${v} % of the fits`} />
             <Bar dataKey="pct" name="chosen in" isAnimationActive={false}>
               {data.map((d) => (
-                <Cell key={d.id} fill={unstable(d.share) ? "#A8660B" : "#1F6F78"} />
+                <Cell key={d.id} fill={unstable(d.share) ? "var(--t-ochre)" : "var(--t-channel)"} />
               ))}
             </Bar>
             <ReferenceLine
               x={20}
-              stroke="#8A8170"
+              stroke="var(--t-silt)"
               strokeDasharray="4 3"
-              label={{ value: "20 %", position: "top", fontSize: 11, fill: "#6B6354" }}
+              label={{ value: "20 %", position: "top", fontSize: 11, fill: "var(--t-silt-ink)" }}
             />
             <ReferenceLine
               x={80}
-              stroke="#8A8170"
+              stroke="var(--t-silt)"
               strokeDasharray="4 3"
-              label={{ value: "80 %", position: "top", fontSize: 11, fill: "#6B6354" }}
+              label={{ value: "80 %", position: "top", fontSize: 11, fill: "var(--t-silt-ink)" }}
             />
           </BarChart>
         </ResponsiveContainer>

@@ -1,12 +1,12 @@
 "use client";
 /** Personal API tokens for scripts: create (shown once), list, revoke. */
+import { LocalTime } from "@/components/ui/local-time";
 import { useState, useTransition } from "react";
 import { useRouter } from "next/navigation";
 import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
-import { formatDateTime } from "@/lib/format";
 import type { Result } from "@/lib/result";
 
 type Token = {
@@ -99,11 +99,17 @@ export function ApiTokens({
               <tr key={t.id} className="border-b border-silt-line">
                 <td className="py-1.5 pr-4">{t.name}</td>
                 <td className="pr-4 font-mono">{t.prefix}…</td>
-                <td className="pr-4 tabular-nums">{formatDateTime(t.createdAt)}</td>
-                <td className="pr-4 tabular-nums">{t.lastUsedAt ? formatDateTime(t.lastUsedAt) : "never"}</td>
+                <td className="pr-4 tabular-nums">
+                  <LocalTime value={t.createdAt} />
+                </td>
+                <td className="pr-4 tabular-nums">
+                  {t.lastUsedAt ? <LocalTime value={t.lastUsedAt} /> : "never"}
+                </td>
                 <td>
                   {t.revokedAt ? (
-                    <span className="text-silt-ink">revoked {formatDateTime(t.revokedAt)}</span>
+                    <span className="text-silt-ink">
+                      revoked <LocalTime value={t.revokedAt} />
+                    </span>
                   ) : (
                     <Button
                       variant="danger"

@@ -1,11 +1,11 @@
 "use client";
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { useTransition } from "react";
 import { useRouter } from "next/navigation";
 import { toast } from "sonner";
 import { DataTable, type Column } from "@/components/data-table";
 import { Button } from "@/components/ui/button";
-import { formatDateTime } from "@/lib/format";
 import type { Result } from "@/lib/result";
 
 type Job = {
@@ -46,7 +46,7 @@ export function JobsTable({ jobs, retry }: { jobs: Job[]; retry: (id: number) =>
       header: "Queued",
       width: "11rem",
       value: (j) => j.createdAt,
-      render: (j) => formatDateTime(j.createdAt),
+      render: (j) => <LocalTime value={j.createdAt} />,
     },
     {
       key: "retry",

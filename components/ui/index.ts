@@ -7,3 +7,5 @@ export { PageHeader } from "./page-header";
 export { EmptyState } from "./empty-state";
 export { Section } from "./section";
 export { cx } from "./cx";
+export { LocalTime } from "./local-time";
+export { MatrixTable } from "./matrix-table";

@@ -1,3 +1,4 @@
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader, Section, EmptyState } from "@/components/ui";
@@ -139,7 +140,7 @@ export default async function BoardPage() {
             {board.silent.map((s) => (
               <li key={`${s.studySlug}:${s.organisationName}`}>
                 <span className="font-semibold">{s.organisationName}</span> — {s.studyTitle}, admitted{" "}
-                {formatDate(s.admittedAt)}
+                <LocalTime value={s.admittedAt} dateOnly />
               </li>
             ))}
           </ul>

@@ -1,10 +1,10 @@
+import { LocalTime } from "@/components/ui/local-time";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader } from "@/components/ui/page-header";
 import { EmptyState } from "@/components/ui/empty-state";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { formatDateTime } from "@/lib/format";
 import { listMailFor, mailboxEnabled } from "@/lib/mail/demo-mailbox";
 
 export const metadata = { title: "Demo mailbox" };
@@ -33,7 +33,9 @@ export default async function MailboxPage() {
                 className="grid gap-0.5 px-4 py-2 hover:bg-channel-wash sm:grid-cols-[1fr_auto]"
               >
                 <span className="font-semibold">{m.subject}</span>
-                <span className="text-sm text-silt-ink tabular-nums">{formatDateTime(m.receivedAt)}</span>
+                <span className="text-sm text-silt-ink tabular-nums">
+                  <LocalTime value={m.receivedAt} />
+                </span>
                 <span className="text-sm text-silt-ink">to {m.to.join(", ")}</span>
               </Link>
             </li>

@@ -1,5 +1,6 @@
 "use client";
 
+import { LocalTime } from "@/components/ui/local-time";
 import { useState, useTransition } from "react";
 import { toast } from "sonner";
 import { DataTable, type Column } from "@/components/data-table";
@@ -7,7 +8,7 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Select } from "@/components/ui/select";
 import { ROLES, type UserRole } from "@/db/schema";
-import { formatDate, roleLabel } from "@/lib/format";
+import { roleLabel } from "@/lib/format";
 import { changeRoleAction, setActiveAction } from "./actions";
 
 export type UserRow = {
@@ -126,7 +127,7 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
       header: "Created",
       width: "8rem",
       value: (r) => r.createdAt,
-      render: (r) => <span className="tabular">{formatDate(r.createdAt)}</span>,
+      render: (r) => <LocalTime value={r.createdAt} dateOnly className="tabular" />,
     },
     {
       key: "actions",

@@ -3,7 +3,7 @@ import { notFound } from "next/navigation";
 import { PageHeader } from "@/components/ui/page-header";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { formatDateTime } from "@/lib/format";
+import { LocalTime } from "@/components/ui/local-time";
 import { getMailFor, mailboxEnabled } from "@/lib/mail/demo-mailbox";
 
 export const metadata = { title: "E-mail" };
@@ -24,7 +24,11 @@ export default async function MailPage({ params }: { params: Promise<{ id: strin
           </Link>
         }
         title={m.subject}
-        description={`From ${m.from} to ${m.to.join(", ")}, ${formatDateTime(m.receivedAt)}`}
+        description={
+          <>
+            From {m.from} to {m.to.join(", ")}, <LocalTime value={m.receivedAt} />
+          </>
+        }
       />
       <pre
         className="whitespace-pre-wrap rounded border border-silt-line bg-white p-4 font-sans text-base"

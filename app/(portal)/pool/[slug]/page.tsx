@@ -10,6 +10,7 @@ import {
   LevelBars,
 } from "@/components/report/report-tables";
 import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "@/components/report/report-pictures";
+import { MatrixTable } from "@/components/ui/matrix-table";
 import { MembersTable } from "@/components/pool/members-table";
 import { PoolFigures } from "@/components/pool/pool-figures";
 import { PoolQuestionsSections } from "@/components/pool/pool-questions";
@@ -169,7 +170,14 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
                   vifStrong={t.vifStrong}
                   csvName={`${pool.slug}-pool-collinearity`}
                 />
-                <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
+                <div>
+                  <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
+                  <MatrixTable
+                    caption="Correlations of the design columns"
+                    labels={coll.correlations.columns}
+                    matrix={coll.correlations.matrix}
+                  />
+                </div>
                 <ConditionIndices
                   indices={coll.conditionIndices}
                   proportions={coll.varianceProportions}

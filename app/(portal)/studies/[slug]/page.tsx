@@ -11,7 +11,7 @@ import { Section } from "@/components/ui/section";
 import { can } from "@/lib/auth/permissions";
 import { requireUser } from "@/lib/auth/session";
 import { getStudyForUser } from "@/lib/studies/queries-detail";
-import { formatDateTime } from "@/lib/format";
+import { LocalTime } from "@/components/ui/local-time";
 import { DEFAULT_THRESHOLDS, parsePlan, type Plan } from "@/lib/readiness";
 import { modelSize } from "@/lib/studies/model-size";
 import { listMembershipCandidates, listPlanVersionsForUser } from "@/lib/studies/queries";
@@ -137,9 +137,13 @@ export default async function StudyPage({ params }: { params: Promise<{ slug: st
         id="plan"
         title={study.currentPlan ? `Data plan, version ${study.currentPlan.version}` : "Data plan"}
         note={
-          study.currentPlan
-            ? `Current since ${formatDateTime(study.currentPlan.createdAt)}${current?.createdByName ? `, published by ${current.createdByName}` : ""}. Every batch version is checked against the plan version current when it arrived.`
-            : undefined
+          study.currentPlan ? (
+            <>
+              Current since <LocalTime value={study.currentPlan.createdAt} />
+              {current?.createdByName ? `, published by ${current.createdByName}` : ""}. Every batch version
+              is checked against the plan version current when it arrived.
+            </>
+          ) : undefined
         }
       >
         {!study.currentPlan ? (
