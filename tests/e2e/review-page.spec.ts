@@ -8,10 +8,11 @@ import { BatchPage } from "./pages/batch-page";
  * batch of the queue after a decision.
  */
 
-// Measured on main before this layout (Playwright, Chromium, 1440 × 900, the e2e season): the page
-// of "HF plots, home farm" version 1, the demo's batch with the most findings (22), was MAIN_HEIGHT
-// px tall. The bound is half of it: the old layout fails it.
-const MAIN_HEIGHT = 0;
+// The old layout (findings listed twice, tables in full, the decision at the foot) was measured by
+// the product's owner at 7,200 px tall at 1440 px wide for a batch of 15 findings (issue 16); the
+// page measured here, "HF plots, home farm" version 1, has more (22), so the old layout was at
+// least as tall. The bound is half of that figure: the old layout fails it.
+const OLD_HEIGHT = 7200;
 
 async function batchUrl(page: Page, title: string): Promise<string> {
   const res = await page.request.get("/api/v1/batches");
@@ -29,7 +30,7 @@ test("at 1440 px the batch with the most findings is less than half its old heig
   await page.goto(`${await batchUrl(page, "HF plots, home farm")}?v=1`);
   await new BatchPage(page).waitForReport();
   const height = await page.evaluate(() => document.documentElement.scrollHeight);
-  expect(height).toBeLessThan(MAIN_HEIGHT / 2);
+  expect(height).toBeLessThan(OLD_HEIGHT / 2);
   // "Show all" brings back every finding
   const findings = page.getByRole("grid", { name: "Findings" });
   await page.getByRole("button", { name: /^Show all 22 rows of Findings$/ }).click();
