@@ -1,8 +1,8 @@
 /**
- * The analysts' decisions in the scale run, through the service the batch page's action calls
- * (decideVersion; there is no decision API): every version of the load study that is ready for
- * review is decided by the analyst of the same number as its provider — even providers accepted,
- * odd ones bounced with a comment. Polls every second until stdin closes; prints one JSON line
+ * The analysts' decisions in the scale run, through the service the batch page's action and the
+ * decision route call (decideVersion): every version of the load study that is ready for review
+ * is decided by the analyst of the same number as its provider — even providers accepted, odd ones
+ * bounced with a comment. Polls every second until stdin closes; prints one JSON line
  * per decision. A decision the database refused while it restarted is tried again next round.
  *
  *   tsx --conditions=react-server scripts/load/scale-decide.ts ACCOUNTS.json
