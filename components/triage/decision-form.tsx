@@ -78,8 +78,8 @@ export function DecisionForm({ batchId, version, findings, canAccept, decide }: 
         </label>
         <textarea
           id="decision-comment"
-          className="h-8 w-full rounded border border-silt bg-white px-2 py-1 text-sm focus:h-20 focus:outline-2 focus:outline-channel"
-          rows={1}
+          className="h-14 w-full resize-y rounded border border-silt bg-white px-2 py-1 text-sm focus:outline-2 focus:outline-channel"
+          rows={2}
           value={comment}
           onChange={(e) => setComment(e.target.value)}
           maxLength={5000}
