@@ -65,7 +65,9 @@ for (const [role, email] of Object.entries(ROLE_ACCOUNTS)) {
     await expect(menu).toBeFocused();
     await expect(nav).toBeHidden();
 
-    // following a link from the menu closes it
+    // following a link from the menu closes it (from another page, so that the link navigates)
+    await page.goto(await firstBatchPath(page));
+    await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
     await menu.click();
     await nav.getByRole("link", { name: "Home" }).click();
     await page.waitForURL(/\/(provider|analyst|lead|admin)$/);
