@@ -8,6 +8,9 @@ import type { Db } from "@/db/client";
 import { batches, batchVersions, dataPlans, decisions, organisations, reports, studies } from "@/db/schema";
 import { isEngineState, parsePlan, poolReport, type Plan, type ReadinessReport } from "@/lib/readiness";
 import { readStoredPool } from "./stored-read";
+import { versionColumns, type VersionRow } from "./version-columns";
+
+export { versionColumns } from "./version-columns";
 
 // "if accepted" lives in its own file; importers of the pool find it here too
 export { getIfAccepted, type IfAccepted } from "./if-accepted";
@@ -128,30 +131,6 @@ async function newestReports(db: Db, versionIds: number[]) {
       out.set(r.versionId, { report: r.report, engineState: r.engineState, planHash: r.planHash });
   return out;
 }
-
-type VersionRow = {
-  batchVersionId: number;
-  batchId: number;
-  batchPublicId: string;
-  batchTitle: string;
-  version: number;
-  organisationId: number;
-  organisationName: string;
-  fileKey: string;
-  fileName: string;
-};
-
-export const versionColumns = {
-  batchVersionId: batchVersions.id,
-  batchId: batches.id,
-  batchPublicId: batches.publicId,
-  batchTitle: batches.title,
-  version: batchVersions.version,
-  organisationId: organisations.id,
-  organisationName: organisations.name,
-  fileKey: batchVersions.fileKey,
-  fileName: batchVersions.fileName,
-};
 
 export async function withStates(
   db: Db,

@@ -7,6 +7,7 @@ import type { DbOrTx } from "@/db/client";
 import { batches, batchVersions, decisions, organisations, poolMembers, poolStates } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness";
 import type { PoolMember } from "./pool";
+import { versionColumns } from "./version-columns";
 
 export type StoredPool = {
   planVersion: number;
@@ -29,15 +30,7 @@ export async function readStoredPool(
   if (!row || row.planVersion !== planVersion) return null;
   const rows = await db
     .select({
-      batchVersionId: poolMembers.batchVersionId,
-      batchId: batches.id,
-      batchPublicId: batches.publicId,
-      batchTitle: batches.title,
-      version: batchVersions.version,
-      organisationId: organisations.id,
-      organisationName: organisations.name,
-      fileKey: batchVersions.fileKey,
-      fileName: batchVersions.fileName,
+      ...versionColumns,
       rowsTotal: poolMembers.rowsTotal,
       rowsComplete: poolMembers.rowsComplete,
       residualDf: poolMembers.residualDf,

@@ -1,7 +1,7 @@
 /** The printed figures and targets of `npm run load -- --scale` (scripts/load/scale-run.ts). */
 import type { AfterChecks } from "./scale-checks";
 import type { ScaleRecorder, UploadOutcome } from "./scale-traffic";
-import { ms, percentile, table, type Endpoint } from "./stats";
+import { figureCells, ms, percentile, table, type Endpoint } from "./stats";
 
 export interface FaultNote {
   name: string;
@@ -29,17 +29,7 @@ export function printScale(r: {
   machine: string;
 }) {
   const s = r.settings;
-  const row = (label: string, f: ReturnType<ScaleRecorder["all"]["figures"]>) => [
-    label,
-    String(f.requests),
-    f.throughput.toFixed(1),
-    ms(f.p50),
-    ms(f.p95),
-    ms(f.p99),
-    ms(f.max),
-    String(f.non2xx),
-    String(f.socketErrors),
-  ];
+  const row = figureCells;
   const head = ["endpoint", "requests", "req/s", "p50", "p95", "p99", "max", "non-2xx", "socket errors"];
   const all = ENDPOINTS.map((e) => r.rec.all.figures(e)).filter((f) => f.requests > 0);
   const perInstance = [...r.rec.byInstance.entries()]

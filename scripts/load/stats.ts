@@ -159,3 +159,18 @@ export function table(header: string[], rows: string[][]): string {
 }
 
 export const ms = (x: number | null) => (x === null ? "–" : `${x.toFixed(0)} ms`);
+
+/** One endpoint's row of the printed tables (plain and scale runs): requests, rate, latencies, errors. */
+export function figureCells(label: string, f: EndpointFigures): string[] {
+  return [
+    label,
+    String(f.requests),
+    f.throughput.toFixed(1),
+    ms(f.p50),
+    ms(f.p95),
+    ms(f.p99),
+    ms(f.max),
+    String(f.non2xx),
+    String(f.socketErrors),
+  ];
+}

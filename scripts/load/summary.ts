@@ -1,7 +1,7 @@
 /** The printed table of a load run, its targets, and the JSON kept in .data/load/last.json. */
 import type { LoopFigures } from "./loop";
 import type { CheckProgress } from "./progress";
-import { ms, table, type EndpointFigures } from "./stats";
+import { figureCells, ms, table, type EndpointFigures } from "./stats";
 import type { UploadOutcome } from "./traffic";
 
 export interface RunSettings {
@@ -88,17 +88,7 @@ export function render(
     loop: LoopFigures;
   },
 ): string {
-  const rows = figs.map((f) => [
-    LABEL[f.endpoint] ?? f.endpoint,
-    String(f.requests),
-    `${f.throughput.toFixed(1)}`,
-    ms(f.p50),
-    ms(f.p95),
-    ms(f.p99),
-    ms(f.max),
-    String(f.non2xx),
-    String(f.socketErrors),
-  ]);
+  const rows = figs.map((f) => figureCells(LABEL[f.endpoint] ?? f.endpoint, f));
   const rowsTotal = s.providers * s.rows;
   const lines = [
     `Tributary load run: ${s.providers} providers × ${s.rows.toLocaleString("en")} rows uploaded at once, ${s.analysts} analysts at ${s.analystRate} request/s each, ${s.workers} worker${s.workers === 1 ? "" : "s"}`,
