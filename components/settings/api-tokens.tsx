@@ -7,6 +7,9 @@ import { toast } from "sonner";
 import { Button } from "@/components/ui/button";
 import { Field } from "@/components/ui/field";
 import { Input } from "@/components/ui/input";
+import { ShowNext } from "@/components/ui/show-next";
+import type { ListPage } from "@/lib/client/fetcher";
+import { usePagedList } from "@/lib/client/use-paged-list";
 import type { Result } from "@/lib/result";
 
 type Token = {
@@ -19,11 +22,13 @@ type Token = {
 };
 
 export function ApiTokens({
-  tokens,
+  first,
+  pageSize,
   create,
   revoke,
 }: {
-  tokens: Token[];
+  first: ListPage<Token>;
+  pageSize: number;
   create: (name: string) => Promise<Result<{ token: string; name: string }>>;
   revoke: (id: number) => Promise<Result<unknown>>;
 }) {
@@ -32,6 +37,7 @@ export function ApiTokens({
   const [errors, setErrors] = useState<Record<string, string[]>>({});
   const [shown, setShown] = useState<{ name: string; token: string } | null>(null);
   const [pending, start] = useTransition();
+  const { rows: tokens, next, busy, error, showNext } = usePagedList(first);
 
   return (
     <div className="grid max-w-3xl gap-4">
@@ -132,6 +138,17 @@ export function ApiTokens({
             ))}
           </tbody>
         </table>
+      ) : null}
+      {tokens.length ? (
+        <ShowNext
+          shown={tokens.length}
+          more={next !== null}
+          pageSize={pageSize}
+          noun="tokens"
+          busy={busy}
+          error={error}
+          onNext={showNext}
+        />
       ) : (
         <p className="text-sm text-silt-ink">No tokens yet.</p>
       )}

@@ -7,6 +7,8 @@ import { SeverityBadge } from "@/components/severity-badge";
 import { StateBadge } from "@/components/state-badge";
 import { Select } from "@/components/ui/select";
 import { countOf, formatCount, formatHours } from "@/lib/format";
+import { ShowNext } from "@/components/ui/show-next";
+import type { ListPage } from "@/lib/client/fetcher";
 import { useQueue, type QueueRow } from "@/lib/client/use-queue";
 
 type Row = QueueRow & { id: string };
@@ -30,8 +32,8 @@ const SEVERITIES = {
   clean: "No blockers or warnings",
 } as const;
 
-export function QueueView({ initial }: { initial: QueueRow[] }) {
-  const { data = initial, error } = useQueue(initial);
+export function QueueView({ initial, pageSize }: { initial: ListPage<QueueRow>; pageSize: number }) {
+  const { rows: data, next, error, busy, showNext } = useQueue(initial);
   const [study, setStudy] = useState("");
   const [org, setOrg] = useState("");
   const [state, setState] = useState("ready");
@@ -169,6 +171,15 @@ export function QueueView({ initial }: { initial: QueueRow[] }) {
         csvName="review-queue"
         filterPlaceholder="Filter batches"
         empty={<p className="text-base text-silt-ink">Nothing waits in these filters.</p>}
+      />
+      {/* the filters above sort through the batches loaded so far: more may wait beyond them */}
+      <ShowNext
+        shown={data.length}
+        more={next !== null}
+        pageSize={pageSize}
+        noun="batches"
+        busy={busy}
+        onNext={showNext}
       />
     </div>
   );

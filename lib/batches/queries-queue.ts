@@ -1,10 +1,12 @@
 import "server-only";
-import { and, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, eq, gt, inArray, isNull } from "drizzle-orm";
 import { alias } from "drizzle-orm/mysql-core";
 import { getDb } from "@/db/client";
 import { batches, batchVersions, organisations, reports, studies, type BatchState } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import { batchScope } from "@/lib/studies";
+import { afterKey, keysetList, pageOf, rowsToRead, type Page, type PageRequest } from "@/lib/http/keyset";
+import { PAGE_MAX } from "@/lib/http/page";
 
 export type QueueItem = {
   batchId: string;
@@ -32,12 +34,20 @@ export const QUEUE_STATES = [
   "received",
 ] as const satisfies readonly BatchState[];
 
+/** The queue pages oldest wait first by (state since, version id): the version id breaks ties. */
+export const QUEUE_LIST = keysetList<[Date, number]>("queue", ["date", "int"]);
+
 /**
- * The review queue: the latest version of every batch in the user's scope that waits on
- * the analysts (ready for review, unreadable) or on the checks (received, checking).
+ * A page of the review queue: the latest version of every batch in the user's scope that waits
+ * on the analysts (ready for review, unreadable) or on the checks (received, checking), longest
+ * waiting first, each with its newest report (a re-checked version has several).
  */
-export async function listQueueForUser(user: SessionUser): Promise<QueueItem[]> {
+export async function pageQueueForUser(
+  user: SessionUser,
+  page: PageRequest<[Date, number]>,
+): Promise<Page<QueueItem, [Date, number]>> {
   const latest = alias(batchVersions, "queue_version");
+  const newer = alias(reports, "newer_report");
   const rows = await getDb()
     .select({
       batchId: batches.publicId,
@@ -55,24 +65,30 @@ export async function listQueueForUser(user: SessionUser): Promise<QueueItem[]> 
       notes: reports.notes,
       completeCases: reports.completeCases,
       residualDf: reports.residualDf,
-      reportId: reports.id,
+      versionId: latest.id,
     })
     .from(batches)
     .innerJoin(latest, and(eq(latest.batchId, batches.id), eq(latest.version, batches.latestVersion)))
     .innerJoin(studies, eq(studies.id, batches.studyId))
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
     .leftJoin(reports, eq(reports.batchVersionId, latest.id))
-    .where(and(batchScope(user), inArray(latest.state, [...QUEUE_STATES])))
-    .orderBy(latest.stateChangedAt, desc(reports.id))
-    .limit(2000);
-  // a re-checked version has several reports: keep the newest
-  const seen = new Set<string>();
-  const out: QueueItem[] = [];
-  for (const { reportId: _r, ...row } of rows) {
-    const key = `${row.batchId}:${row.version}`;
-    if (seen.has(key)) continue;
-    seen.add(key);
-    out.push(row);
-  }
-  return out;
+    // no newer report of the same version: the newest one, or none yet
+    .leftJoin(newer, and(eq(newer.batchVersionId, latest.id), gt(newer.id, reports.id)))
+    .where(
+      and(
+        batchScope(user),
+        inArray(latest.state, [...QUEUE_STATES]),
+        isNull(newer.id),
+        afterKey([latest.stateChangedAt, latest.id], page.after, "asc"),
+      ),
+    )
+    .orderBy(asc(latest.stateChangedAt), asc(latest.id))
+    .limit(rowsToRead(page.limit));
+  const got = pageOf(rows, page.limit, (r) => [r.since, r.versionId] as [Date, number]);
+  return { ...got, rows: got.rows.map(({ versionId: _v, ...row }) => row) };
+}
+
+/** The first `limit` rows of the queue (the whole of it for a small one). */
+export async function listQueueForUser(user: SessionUser, limit = PAGE_MAX): Promise<QueueItem[]> {
+  return (await pageQueueForUser(user, { limit })).rows;
 }

@@ -5,6 +5,7 @@ import { getDb } from "@/db/client";
 import { batches, batchVersions, organisations, studies, users, type BatchState } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import { batchScope } from "@/lib/studies";
+import { afterKey, keysetList, pageOf, rowsToRead, type Page, type PageRequest } from "@/lib/http/keyset";
 
 export type BatchSummary = {
   id: number;
@@ -72,22 +73,37 @@ function batchQuery(where: SQL | undefined) {
     .where(where);
 }
 
+type BatchFilter = { studyId?: number; state?: BatchState };
+
+/** The batch list pages newest first by (created, id): the id breaks ties between batches of one moment. */
+export const BATCH_LIST = keysetList<[Date, number]>("batches", ["date", "int"]);
+
 /**
- * Batches the user may see, newest first, each with its latest version's state. Providers
- * see their organisation's, analysts those of their assigned studies, leads and admins all.
+ * A page of the batches the user may see, newest first, each with its latest version's state.
+ * Providers see their organisation's, analysts those of their assigned studies, leads and admins all.
  */
-export async function listBatchesForUser(
+export async function pageBatchesForUser(
   user: SessionUser,
-  opts: { studyId?: number; state?: BatchState; limit?: number } = {},
-): Promise<BatchSummary[]> {
+  opts: BatchFilter & PageRequest<[Date, number]>,
+): Promise<Page<BatchSummary, [Date, number]>> {
   const where = and(
     batchScope(user),
     opts.studyId !== undefined ? eq(batches.studyId, opts.studyId) : undefined,
     opts.state !== undefined ? eq(latest.state, opts.state) : undefined,
+    afterKey([batches.createdAt, batches.id], opts.after, "desc"),
   );
-  return batchQuery(where)
+  const rows = await batchQuery(where)
     .orderBy(desc(batches.createdAt), desc(batches.id))
-    .limit(Math.min(Math.max(opts.limit ?? 500, 1), 2000));
+    .limit(rowsToRead(opts.limit));
+  return pageOf(rows, opts.limit, (b) => [b.createdAt, b.id]);
+}
+
+/** The first `limit` (default 500) batches of pageBatchesForUser, for summaries that show a few. */
+export async function listBatchesForUser(
+  user: SessionUser,
+  opts: BatchFilter & { limit?: number } = {},
+): Promise<BatchSummary[]> {
+  return (await pageBatchesForUser(user, { ...opts, limit: opts.limit ?? 500 })).rows;
 }
 
 /**

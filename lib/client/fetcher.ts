@@ -10,3 +10,15 @@ export async function fetchApiData<T>(url: string): Promise<T> {
   if (!res.ok || !body?.data) throw new Error(body?.detail ?? `The server answered ${res.status}.`);
   return body.data;
 }
+
+/** One page of a v1 list: its rows and the address of the next page (null on the last). */
+export type ListPage<T> = { data: T[]; next: string | null };
+
+/** GET one page of a v1 list (lib/http/page.ts), or throw the API's own message as fetchApiData does. */
+export async function fetchApiPage<T>(url: string): Promise<ListPage<T>> {
+  const res = await fetch(url, { headers: { accept: "application/json" } });
+  const body = (await res.json().catch(() => null)) as (Partial<ListPage<T>> & { detail?: string }) | null;
+  if (!res.ok || !Array.isArray(body?.data))
+    throw new Error(body?.detail ?? `The server answered ${res.status}.`);
+  return { data: body.data, next: body.next ?? null };
+}

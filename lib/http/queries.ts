@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { BATCH_STATES } from "@/db/schema";
+import { pageParams } from "./page";
 
 const positiveId = (what: string) =>
   z.coerce.number().int().positive(`${what} is a positive whole number.`).optional();
@@ -12,8 +13,11 @@ const positiveId = (what: string) =>
 export const batchesQuery = z.object({
   studyId: positiveId("studyId"),
   state: z.enum(BATCH_STATES, { error: `state is one of: ${BATCH_STATES.join(", ")}.` }).optional(),
-  limit: z.coerce.number().int().min(1).max(2000, "limit is at most 2000.").optional(),
+  ...pageParams,
 });
+
+/** GET /api/v1/queue, GET /api/v1/tokens, GET /api/v1/admin/users: a page and nothing else */
+export const pageQuery = z.object(pageParams);
 
 /** GET /api/v1/audit */
 export const auditQuery = z.object({
@@ -21,8 +25,10 @@ export const auditQuery = z.object({
   objectId: z.string().max(64, "objectId has at most 64 characters.").optional(),
   batchId: positiveId("batchId"),
   studyId: positiveId("studyId"),
-  beforeId: positiveId("beforeId"),
-  limit: z.coerce.number().int().min(1, "limit is at least 1.").max(500, "limit is at most 500.").optional(),
+  beforeId: positiveId("beforeId").meta({
+    description: "Only events with a smaller id (the older way to page; `next` carries a cursor instead).",
+  }),
+  ...pageParams,
 });
 
 /** GET /api/v1/board */

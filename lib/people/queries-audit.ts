@@ -5,6 +5,7 @@ import { auditEvents, users } from "@/db/schema";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
+import { afterKey, keysetList, pageOf, rowsToRead, type Page, type PageRequest } from "@/lib/http/keyset";
 
 export type AuditEventItem = {
   id: number;
@@ -25,20 +26,23 @@ export type AuditFilter = {
   objectId?: string;
   batchId?: number;
   studyId?: number;
+  /** the older cursor of earlier clients: rows with a smaller id (the `cursor` of `next` does the same) */
   beforeId?: number;
-  limit?: number;
 };
 
+/** The audit trail pages newest first by its id. */
+export const AUDIT_LIST = keysetList<[number]>("audit", ["int"]);
+
 /**
- * The audit trail, newest first, for roles with audit.read (leads, admins); others get
- * AppError("forbidden"). Page with `beforeId` (the last id of the previous page).
+ * A page of the audit trail, newest first, for roles with audit.read (leads, admins); others get
+ * AppError("forbidden").
  */
 export async function listAuditEvents(
   user: SessionUser,
-  filter: AuditFilter = {},
-): Promise<AuditEventItem[]> {
+  filter: AuditFilter & PageRequest<[number]>,
+): Promise<Page<AuditEventItem, [number]>> {
   if (!can(user.role, "audit.read")) throw new AppError("forbidden");
-  return getDb()
+  const rows = await getDb()
     .select({
       id: auditEvents.id,
       action: auditEvents.action,
@@ -61,8 +65,10 @@ export async function listAuditEvents(
         filter.batchId !== undefined ? eq(auditEvents.batchId, filter.batchId) : undefined,
         filter.studyId !== undefined ? eq(auditEvents.studyId, filter.studyId) : undefined,
         filter.beforeId !== undefined ? lt(auditEvents.id, filter.beforeId) : undefined,
+        afterKey([auditEvents.id], filter.after, "desc"),
       ),
     )
     .orderBy(desc(auditEvents.id))
-    .limit(Math.min(Math.max(filter.limit ?? 100, 1), 500));
+    .limit(rowsToRead(filter.limit));
+  return pageOf(rows, filter.limit, (e) => [e.id]);
 }

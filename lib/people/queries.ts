@@ -1,11 +1,13 @@
 import "server-only";
-import { asc, desc, eq } from "drizzle-orm";
+import { and, asc, desc, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { apiTokens, organisations, users } from "@/db/schema";
+import { apiTokens, organisations, ROLES, users } from "@/db/schema";
 import { userIdentityColumns } from "@/lib/auth/load-user";
 import { can } from "@/lib/auth/permissions";
 import type { SessionUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
+import { afterKey, keysetList, pageOf, rowsToRead, type Page, type PageRequest } from "@/lib/http/keyset";
+import { PAGE_MAX } from "@/lib/http/page";
 
 export type UserListItem = SessionUser & { active: boolean; createdAt: Date; updatedAt: Date };
 
@@ -15,14 +17,28 @@ export const userListColumns = {
   updatedAt: users.updatedAt,
 };
 
-/** Every user (never a password hash), for admins and leads; others get AppError("forbidden"). */
-export async function listUsers(actor: SessionUser): Promise<UserListItem[]> {
+/**
+ * Users page by role (in the order of ROLES: providers first), then name, then id (the tie-breaker).
+ * The role is keyed by its place in ROLES, the order MariaDB sorts an ENUM in (its text compares
+ * alphabetically, which is another order).
+ */
+export const USER_LIST = keysetList<[number, string, number]>("users", ["int", "text", "int"]);
+const roleIndex = sql<number>`(${users.role} + 0)`;
+
+/** A page of the users (never a password hash), for admins and leads; others get AppError("forbidden"). */
+export async function listUsers(
+  actor: SessionUser,
+  page: PageRequest<[number, string, number]> = { limit: PAGE_MAX },
+): Promise<Page<UserListItem, [number, string, number]>> {
   if (!can(actor.role, "user.manage") && !can(actor.role, "user.invite")) throw new AppError("forbidden");
-  return getDb()
+  const rows = await getDb()
     .select(userListColumns)
     .from(users)
     .leftJoin(organisations, eq(organisations.id, users.organisationId))
-    .orderBy(asc(users.role), asc(users.name));
+    .where(afterKey([roleIndex, users.name, users.id], page.after, "asc"))
+    .orderBy(asc(roleIndex), asc(users.name), asc(users.id))
+    .limit(rowsToRead(page.limit));
+  return pageOf(rows, page.limit, (u) => [ROLES.indexOf(u.role) + 1, u.name, u.id]);
 }
 
 /** One user by id for admins and leads, or null. */
@@ -46,9 +62,15 @@ export type ApiTokenListItem = {
   revokedAt: Date | null;
 };
 
-/** The actor's own API tokens (never the token or its hash). */
-export async function listApiTokens(actorId: number): Promise<ApiTokenListItem[]> {
-  return getDb()
+/** Tokens page newest first by (created, id). */
+export const TOKEN_LIST = keysetList<[Date, number]>("tokens", ["date", "int"]);
+
+/** A page of the actor's own API tokens (never the token or its hash), newest first. */
+export async function listApiTokens(
+  actorId: number,
+  page: PageRequest<[Date, number]> = { limit: PAGE_MAX },
+): Promise<Page<ApiTokenListItem, [Date, number]>> {
+  const rows = await getDb()
     .select({
       id: apiTokens.id,
       name: apiTokens.name,
@@ -58,6 +80,10 @@ export async function listApiTokens(actorId: number): Promise<ApiTokenListItem[]
       revokedAt: apiTokens.revokedAt,
     })
     .from(apiTokens)
-    .where(eq(apiTokens.userId, actorId))
-    .orderBy(desc(apiTokens.createdAt));
+    .where(
+      and(eq(apiTokens.userId, actorId), afterKey([apiTokens.createdAt, apiTokens.id], page.after, "desc")),
+    )
+    .orderBy(desc(apiTokens.createdAt), desc(apiTokens.id))
+    .limit(rowsToRead(page.limit));
+  return pageOf(rows, page.limit, (t) => [t.createdAt, t.id]);
 }

@@ -92,7 +92,7 @@ describe("getHomeSummary", () => {
 
 describe("users and organisations", () => {
   test("listUsers is for admins and leads; others are refused", async () => {
-    const list = await listUsers(sessionUser(w.users.lead));
+    const list = (await listUsers(sessionUser(w.users.lead))).rows;
     expect(list.map((u) => u.id)).toEqual(expect.arrayContaining([w.users.providerA.id]));
     expect(JSON.stringify(list)).not.toMatch(/hash/i);
     await expect(listUsers(sessionUser(w.users.providerA))).rejects.toMatchObject({ code: "forbidden" });

@@ -5,7 +5,8 @@ import { PASSWORD_MIN_LENGTH } from "@/lib/auth/password-rules";
 import { roleLabel } from "@/lib/format";
 import { ApiTokens } from "@/components/settings/api-tokens";
 import { can } from "@/lib/auth/permissions";
-import { listApiTokens } from "@/lib/people";
+import { listApiTokens, TOKEN_LIST } from "@/lib/people/queries";
+import { nextHref, PAGE_SIZE } from "@/lib/http/page";
 import { PasswordForm } from "./password-form";
 import { createTokenAction, revokeTokenAction } from "./token-actions";
 
@@ -13,7 +14,9 @@ export const metadata = { title: "Settings" };
 
 export default async function SettingsPage() {
   const user = await requireUser();
-  const tokens = can(user.role, "token.manage") ? await listApiTokens(user.id) : [];
+  const tokens = can(user.role, "token.manage")
+    ? await listApiTokens(user.id, { limit: PAGE_SIZE })
+    : { rows: [], nextKey: null };
   return (
     <>
       <PageHeader title="Settings" description="Your account." />
@@ -43,12 +46,16 @@ export default async function SettingsPage() {
           note="For scripts that upload batches or read reports through the API (see the README). A token can do what you can, no more."
         >
           <ApiTokens
-            tokens={tokens.map((t) => ({
-              ...t,
-              createdAt: t.createdAt.toISOString(),
-              lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
-              revokedAt: t.revokedAt?.toISOString() ?? null,
-            }))}
+            first={{
+              data: tokens.rows.map((t) => ({
+                ...t,
+                createdAt: t.createdAt.toISOString(),
+                lastUsedAt: t.lastUsedAt?.toISOString() ?? null,
+                revokedAt: t.revokedAt?.toISOString() ?? null,
+              })),
+              next: nextHref("/api/v1/tokens", new URLSearchParams(), TOKEN_LIST, tokens),
+            }}
+            pageSize={PAGE_SIZE}
             create={createTokenAction}
             revoke={revokeTokenAction}
           />

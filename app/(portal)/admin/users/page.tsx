@@ -1,7 +1,8 @@
 import { redirect } from "next/navigation";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
-import { listUsers } from "@/lib/people/queries";
+import { listUsers, USER_LIST } from "@/lib/people/queries";
+import { nextHref, PAGE_SIZE } from "@/lib/http/page";
 import { listOrganisations } from "@/lib/people/queries-organisations";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
@@ -15,7 +16,7 @@ export const metadata = { title: "Users" };
 export default async function AdminUsersPage() {
   const user = await requireUser();
   if (!can(user.role, "user.manage")) redirect(ROLE_HOME[user.role]);
-  const [users, orgs] = await Promise.all([listUsers(user), listOrganisations(user)]);
+  const [page, orgs] = await Promise.all([listUsers(user, { limit: PAGE_SIZE }), listOrganisations(user)]);
   return (
     <>
       <PageHeader
@@ -26,15 +27,20 @@ export default async function AdminUsersPage() {
       <Section id="users" title="All users">
         <UsersTable
           currentUserId={user.id}
-          rows={users.map((u) => ({
-            id: u.id,
-            name: u.name,
-            email: u.email,
-            role: u.role,
-            organisationName: u.organisationName,
-            active: u.active,
-            createdAt: u.createdAt,
-          }))}
+          pageSize={PAGE_SIZE}
+          first={{
+            data: page.rows.map((u) => ({
+              id: u.id,
+              name: u.name,
+              email: u.email,
+              role: u.role,
+              organisationName: u.organisationName,
+              active: u.active,
+              createdAt: u.createdAt.toISOString(),
+            })),
+            // the following pages come from the API, in the same order
+            next: nextHref("/api/v1/admin/users", new URLSearchParams(), USER_LIST, page),
+          }}
         />
       </Section>
       <Section

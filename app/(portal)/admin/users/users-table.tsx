@@ -9,6 +9,9 @@ import { Button } from "@/components/ui/button";
 import { Select } from "@/components/ui/select";
 import { ROLES, type UserRole } from "@/db/schema";
 import { roleLabel } from "@/lib/format";
+import { ShowNext } from "@/components/ui/show-next";
+import type { ListPage } from "@/lib/client/fetcher";
+import { usePagedList } from "@/lib/client/use-paged-list";
 import { changeRoleAction, setActiveAction } from "./actions";
 
 export type UserRow = {
@@ -18,7 +21,8 @@ export type UserRow = {
   role: UserRole;
   organisationName: string | null;
   active: boolean;
-  createdAt: Date;
+  /** ISO 8601, as the server page and the API both send it */
+  createdAt: string;
 };
 
 function RoleCell({ row, self }: { row: UserRow; self: boolean }) {
@@ -92,7 +96,16 @@ function ActiveCell({ row, self }: { row: UserRow; self: boolean }) {
   );
 }
 
-export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUserId: number }) {
+export function UsersTable({
+  first,
+  pageSize,
+  currentUserId,
+}: {
+  first: ListPage<UserRow>;
+  pageSize: number;
+  currentUserId: number;
+}) {
+  const { rows, next, busy, error, showNext } = usePagedList(first);
   const columns: Column<UserRow>[] = [
     {
       key: "name",
@@ -140,12 +153,23 @@ export function UsersTable({ rows, currentUserId }: { rows: UserRow[]; currentUs
     },
   ];
   return (
-    <DataTable
-      rows={rows}
-      columns={columns}
-      caption="Users"
-      csvName="tributary-users"
-      filterPlaceholder="Filter by name, e-mail, role…"
-    />
+    <div className="grid gap-3">
+      <DataTable
+        rows={rows}
+        columns={columns}
+        caption="Users"
+        csvName="tributary-users"
+        filterPlaceholder="Filter by name, e-mail, role…"
+      />
+      <ShowNext
+        shown={rows.length}
+        more={next !== null}
+        pageSize={pageSize}
+        noun="users"
+        busy={busy}
+        error={error}
+        onNext={showNext}
+      />
+    </div>
   );
 }

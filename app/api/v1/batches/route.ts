@@ -1,11 +1,12 @@
-// GET /api/v1/batches[?studyId=&state=] — the batches the caller may see, with their latest version's state.
+// GET /api/v1/batches[?studyId=&state=&limit=&cursor=] — the batches the caller may see, newest first, with their latest version's state; pages follow `next`.
 // POST /api/v1/batches — upload a batch file (multipart: study, file, batch?, label?); the same pipeline as the browser.
 import { apiRoute } from "@/lib/http/route";
 import { parseQuery } from "@/lib/http/parse";
 import { batchesQuery } from "@/lib/http/queries";
 import { uploadFieldsSchema } from "@/lib/http/api-schemas";
 import { jsonData } from "@/lib/http/respond";
-import { listBatchesForUser } from "@/lib/batches/queries";
+import { BATCH_LIST, pageBatchesForUser } from "@/lib/batches/queries";
+import { decodeCursor, pageResponse } from "@/lib/http/page";
 import { AppError } from "@/lib/errors";
 import { fieldErrorsOf } from "@/lib/result";
 import { env } from "@/lib/env";
@@ -13,8 +14,9 @@ import { uploadBatchViaApi } from "@/lib/batches/intake/api-upload";
 import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
 
 export const GET = apiRoute({ action: "batch.read" }, async ({ req, actor }) => {
-  const query = parseQuery(req, batchesQuery);
-  return jsonData(await listBatchesForUser(actor, query));
+  const { cursor, ...query } = parseQuery(req, batchesQuery);
+  const after = decodeCursor(BATCH_LIST, cursor);
+  return pageResponse(req, BATCH_LIST, await pageBatchesForUser(actor, { ...query, after }));
 });
 
 export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) => {

@@ -1,14 +1,19 @@
-// GET /api/v1/tokens — the caller's API tokens; POST — create one (its value is shown once).
+// GET /api/v1/tokens[?limit=&cursor=] — the caller's API tokens, newest first, a page at a time; POST — create one (its value is shown once).
 import { apiRoute } from "@/lib/http/route";
-import { parseJsonBody } from "@/lib/http/parse";
-import { jsonData, resultResponse } from "@/lib/http/respond";
+import { parseJsonBody, parseQuery } from "@/lib/http/parse";
+import { pageQuery } from "@/lib/http/queries";
+import { decodeCursor, pageResponse } from "@/lib/http/page";
+import { resultResponse } from "@/lib/http/respond";
 import { AppError } from "@/lib/errors";
-import { createApiToken, listApiTokens } from "@/lib/people";
+import { createApiToken } from "@/lib/people";
+import { listApiTokens, TOKEN_LIST } from "@/lib/people/queries";
 import { createApiTokenSchema } from "@/lib/people/schemas";
 
-export const GET = apiRoute({ action: "token.manage" }, async ({ actor }) =>
-  jsonData(await listApiTokens(actor.id)),
-);
+export const GET = apiRoute({ action: "token.manage" }, async ({ req, actor }) => {
+  const { cursor, limit } = parseQuery(req, pageQuery);
+  const after = decodeCursor(TOKEN_LIST, cursor);
+  return pageResponse(req, TOKEN_LIST, await listApiTokens(actor.id, { after, limit }));
+});
 
 export const POST = apiRoute({ action: "token.manage" }, async ({ req, actor }) => {
   // a token cannot mint further tokens: that takes a signed-in person

@@ -1,12 +1,18 @@
-// GET /api/v1/admin/users — every user; POST — create one. Admins only.
+// GET /api/v1/admin/users[?limit=&cursor=] — every user, by role and name, a page at a time; POST — create one. Admins only.
 import { apiRoute } from "@/lib/http/route";
-import { parseJsonBody } from "@/lib/http/parse";
-import { jsonData, resultResponse } from "@/lib/http/respond";
-import { listUsers } from "@/lib/people/queries";
+import { parseJsonBody, parseQuery } from "@/lib/http/parse";
+import { pageQuery } from "@/lib/http/queries";
+import { decodeCursor, pageResponse } from "@/lib/http/page";
+import { resultResponse } from "@/lib/http/respond";
+import { listUsers, USER_LIST } from "@/lib/people/queries";
 import { createUser } from "@/lib/people/commands-users";
 import { createUserSchema } from "@/lib/people/schemas";
 
-export const GET = apiRoute({ action: "user.manage" }, async ({ actor }) => jsonData(await listUsers(actor)));
+export const GET = apiRoute({ action: "user.manage" }, async ({ req, actor }) => {
+  const { cursor, limit } = parseQuery(req, pageQuery);
+  const after = decodeCursor(USER_LIST, cursor);
+  return pageResponse(req, USER_LIST, await listUsers(actor, { after, limit }));
+});
 
 export const POST = apiRoute({ action: "user.manage" }, async ({ req, actor }) => {
   const input = await parseJsonBody(req, createUserSchema);
