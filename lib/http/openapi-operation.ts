@@ -23,7 +23,7 @@ export type Op = {
   anonymous?: boolean;
   /** when the operation can answer 409: what conflicts */
   conflict?: string;
-  /** a list with a cursor: the answer carries `next` */
+  /** a list with a cursor (lib/http/page.ts): `data` is an array of items of `data`, and the answer carries `next` */
   paged?: boolean;
 };
 
@@ -36,16 +36,41 @@ const LOCATION = {
   Location: { description: "The address of what was created.", schema: { type: "string" as const } },
 };
 
+const LINK = {
+  Link: {
+    description:
+      'RFC 8288: `<next address>; rel="next"` while another page follows; absent on the last page.',
+    schema: { type: "string" as const },
+  },
+};
+
+/** A page of a list: its items, and the address of the next page (lib/http/page.ts). */
+function pageSchema(item: z.ZodType) {
+  return z.object({
+    data: z.array(item),
+    next: z.string().nullable().meta({
+      description:
+        "The address of the next page (relative to the server; the query kept, the cursor moved on), or null on the last page.",
+    }),
+  });
+}
+
 /** The success answer and every refusal the operation can give. */
 function responses(op: Op): ZodOpenApiOperationObject["responses"] {
   const status = op.status ?? 200;
   const success = op.raw
     ? { description: "The file.", content: { [op.raw]: { schema: z.string() } } }
-    : {
-        description: status === 201 ? "Created." : status === 202 ? "Accepted." : "Done.",
-        ...(status === 201 ? { headers: LOCATION } : {}),
-        content: { "application/json": { schema: z.object({ data: op.data ?? z.looseObject({}) }) } },
-      };
+    : op.paged
+      ? {
+          description: "A page of the list.",
+          headers: LINK,
+          content: { "application/json": { schema: pageSchema(op.data ?? z.looseObject({})) } },
+        }
+      : {
+          description: status === 201 ? "Created." : status === 202 ? "Accepted." : "Done.",
+          ...(status === 201 ? { headers: LOCATION } : {}),
+          content: { "application/json": { schema: z.object({ data: op.data ?? z.looseObject({}) }) } },
+        };
   const body = op.json || op.multipart;
   return {
     [status]: success,
@@ -60,6 +85,9 @@ function responses(op: Op): ZodOpenApiOperationObject["responses"] {
               : "The body is not multipart/form-data, or the file is not a CSV file.",
           ),
         }
+      : {}),
+    ...(op.paged
+      ? { 400: problem("The cursor is not one this list gave out; follow `next` unchanged.") }
       : {}),
     ...(op.anonymous
       ? {}

@@ -6,7 +6,14 @@ import { createApiTokenSchema, createUserSchema, updateUserSchema } from "@/lib/
 import { meSchema, uploadBodySchema } from "./api-schemas";
 import type { Routes } from "./openapi-operation";
 import { batchParams, batchVersionParams, idParams, poolParams, studyParams } from "./params";
-import { auditQuery, batchesQuery, boardQuery, dictionaryQuery, ifAcceptedQuery } from "./queries";
+import { auditQuery, batchesQuery, boardQuery, dictionaryQuery, ifAcceptedQuery, pageQuery } from "./queries";
+import {
+  auditItemSchema,
+  batchItemSchema,
+  queueItemSchema,
+  tokenItemSchema,
+  userItemSchema,
+} from "./page-schemas";
 
 const tokenParams = idParams("A token id is a positive whole number.");
 const userParams = idParams("A user id is a positive whole number.");
@@ -38,9 +45,11 @@ export const READ_ROUTES: Routes = {
   },
   "/api/v1/batches": {
     get: {
-      summary: "The batches the caller may see, with their latest state.",
+      summary: "The batches the caller may see, newest first, with their latest state; a page at a time.",
       tag: "batches",
       query: batchesQuery,
+      paged: true,
+      data: batchItemSchema,
     },
     post: {
       summary: "Upload a batch file (a new batch, or a new version with `batch`).",
@@ -84,7 +93,15 @@ export const READ_ROUTES: Routes = {
       raw: "text/csv",
     },
   },
-  "/api/v1/queue": { get: { summary: "The review queue (analysts).", tag: "batches" } },
+  "/api/v1/queue": {
+    get: {
+      summary: "The review queue (analysts), longest waiting first; a page at a time.",
+      tag: "batches",
+      query: pageQuery,
+      paged: true,
+      data: queueItemSchema,
+    },
+  },
   "/api/v1/pool": { get: { summary: "Each visible study's pool in brief.", tag: "pool" } },
   "/api/v1/pool/{slug}": {
     get: { summary: "The study's pool of accepted data.", tag: "pool", path: poolParams },
@@ -134,10 +151,22 @@ export const READ_ROUTES: Routes = {
     post: { summary: "Queue the weekly digest to every active lead now.", tag: "board", status: 202 },
   },
   "/api/v1/audit": {
-    get: { summary: "The audit trail, newest first (leads, admins).", tag: "people", query: auditQuery },
+    get: {
+      summary: "The audit trail, newest first (leads, admins); a page at a time.",
+      tag: "people",
+      query: auditQuery,
+      paged: true,
+      data: auditItemSchema,
+    },
   },
   "/api/v1/tokens": {
-    get: { summary: "The caller's API tokens.", tag: "people" },
+    get: {
+      summary: "The caller's API tokens, newest first; a page at a time.",
+      tag: "people",
+      query: pageQuery,
+      paged: true,
+      data: tokenItemSchema,
+    },
     post: {
       summary: "Create an API token (its value is shown once).",
       tag: "people",
@@ -149,7 +178,13 @@ export const READ_ROUTES: Routes = {
     delete: { summary: "Revoke one of the caller's API tokens.", tag: "people", path: tokenParams },
   },
   "/api/v1/admin/users": {
-    get: { summary: "Every user (admins).", tag: "people" },
+    get: {
+      summary: "Every user (admins), by role and name; a page at a time.",
+      tag: "people",
+      query: pageQuery,
+      paged: true,
+      data: userItemSchema,
+    },
     post: {
       summary: "Create a user, or invite one (no password: an e-mail link).",
       tag: "people",
