@@ -15,9 +15,16 @@ import { BatchPage } from "./pages/batch-page";
 const OLD_HEIGHT = 7200;
 
 async function batchUrl(page: Page, title: string): Promise<string> {
-  const res = await page.request.get("/api/v1/batches");
-  const list = ((await res.json()) as { data: { publicId: string; title: string }[] }).data;
-  const b = list.find((x) => x.title === title);
+  // the list pages (README "Lists page"): follow next until the batch turns up or the list ends
+  let b: { publicId: string; title: string } | undefined;
+  for (let next: string | null = "/api/v1/batches?limit=500"; next && !b;) {
+    const body = (await (await page.request.get(next)).json()) as {
+      data: { publicId: string; title: string }[];
+      next: string | null;
+    };
+    b = body.data.find((x) => x.title === title);
+    next = body.next;
+  }
   expect(b, title).toBeTruthy();
   return `/batches/${b!.publicId}`;
 }
