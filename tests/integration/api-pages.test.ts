@@ -236,6 +236,8 @@ test("real pages validate against the OpenAPI document's schemas (JSON Schema 20
     components: unknown;
   };
   const ajv = new Ajv2020({ strict: false });
+  // RFC 3339 §5.6 date-time, the format JSON Schema's "date-time" names
+  ajv.addFormat("date-time", /^\d{4}-\d\d-\d\dT\d\d:\d\d:\d\d(\.\d+)?(Z|[+-]\d\d:\d\d)$/i);
   ajv.addSchema({ $id: "doc", components: doc.components });
   const admin = { cookie: await sessionCookieFor(w.users.admin) };
   for (const [handler, path, doc_path, as] of [
