@@ -18,7 +18,7 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import { FACTORS, GAPPY, GENERATOR_VERSION, NUMERIC, RESPONSE, generate, plan } from "./bench/generate";
 import { hasGnuTime, median, timedRun, type Run } from "./bench/measure";
-import { printSummary, type Measured } from "./bench/summary";
+import { printSummary, reportKeyOf, type Measured } from "./bench/summary";
 
 const { values: opt } = parseArgs({
   options: {
@@ -49,7 +49,10 @@ interface Config {
 }
 
 /** F and complete cases from a run's output: the report JSON for ours, fit.R's last lines for R. */
-function resultOf(c: Config, r: Run): { F: number | null; n: number | null; note: string } {
+function resultOf(
+  c: Config,
+  r: Run,
+): { F: number | null; n: number | null; note: string; reportKey?: string } {
   if (c.kind === "r") {
     const F = Number(/^F (\S+)/m.exec(r.stdout)?.[1] ?? NaN);
     return {
@@ -63,6 +66,7 @@ function resultOf(c: Config, r: Run): { F: number | null; n: number | null; note
     return {
       F: rep.fit?.F ?? null,
       n: rep.rows?.complete ?? null,
+      reportKey: reportKeyOf(rep),
       note: `exit ${r.status}: ${rep.counts.blocker} blockers, ${rep.counts.warning} warnings, ${rep.counts.note} notes`,
     };
   } catch {
@@ -135,9 +139,10 @@ async function main() {
     `${ROWS.toLocaleString("en")} rows × ${plan.columns.length} columns, ${(bytes / 1e6).toFixed(1)} MB; ${ROUNDS} round${ROUNDS > 1 ? "s" : ""} of ${configs.length} runs, alternating; ` +
       `${CORES} cores, load average ${load0.toFixed(1)}${hasGnuTime() ? "" : "; GNU time not found: CPU and memory not measured"}\n`,
   );
-  const runs = new Map<Config, { run: Run; F: number | null; n: number | null; note: string }[]>(
-    configs.map((c) => [c, []]),
-  );
+  const runs = new Map<
+    Config,
+    { run: Run; F: number | null; n: number | null; note: string; reportKey?: string }[]
+  >(configs.map((c) => [c, []]));
   for (let round = 1; round <= ROUNDS; round++) {
     for (const c of configs) {
       const run = timedRun(c.cmd, c.args);
@@ -159,6 +164,7 @@ async function main() {
       peakMB: Math.max(...rs.map((r) => r.run.peakMB)),
       F: rs[0]!.F,
       n: rs[0]!.n,
+      reportKey: rs[0]!.reportKey,
       walls: rs.map((r) => r.run.wallS),
     };
   });

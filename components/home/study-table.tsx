@@ -1,8 +1,7 @@
 "use client";
 
-import Link from "next/link";
 import { DataTable, type Column } from "@/components/data-table";
-import { Badge } from "@/components/ui/badge";
+import { studyColumns } from "./study-columns";
 import type { BatchState } from "@/db/schema";
 
 export type StudyRow = {
@@ -34,45 +33,7 @@ export function StudyTable({
   variant: "provider" | "analyst" | "lead";
   caption: string;
 }) {
-  const columns: Column<StudyRow>[] = [
-    {
-      key: "title",
-      header: "Study",
-      width: "minmax(12rem, 3fr)",
-      value: (r) => r.title,
-      render: (r) => (
-        <span className="block">
-          <Link
-            href={`/studies/${r.slug}`}
-            className="block font-semibold text-channel underline-offset-2 hover:underline"
-          >
-            {r.title}
-          </Link>
-          <span className="block font-mono text-xs text-silt-ink">{r.slug}</span>
-        </span>
-      ),
-    },
-    { key: "team", header: "Run by", width: "minmax(8rem, 2fr)", value: (r) => r.team },
-    {
-      key: "status",
-      header: "Status",
-      width: "5.5rem",
-      value: (r) => r.status,
-      render: (r) => (
-        <Badge tone={r.status === "open" ? "channel" : "neutral"}>
-          {r.status === "open" ? "Open" : "Closed"}
-        </Badge>
-      ),
-    },
-    {
-      key: "plan",
-      header: "Data plan",
-      width: "5.5rem",
-      numeric: true,
-      value: (r) => r.planVersion,
-      render: (r) => (r.planVersion == null ? "none" : `v${r.planVersion}`),
-    },
-  ];
+  const columns: Column<StudyRow>[] = studyColumns<StudyRow>(true);
   if (variant === "lead") {
     columns.push({
       key: "providers",

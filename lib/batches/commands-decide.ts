@@ -7,17 +7,7 @@
 import { and, eq } from "drizzle-orm";
 import type { z } from "zod";
 import { getDb, type DbOrTx, type Tx } from "@/db/client";
-import {
-  batches,
-  batchVersions,
-  decisions,
-  findingComments,
-  organisations,
-  reports,
-  studies,
-  studyAnalysts,
-  users,
-} from "@/db/schema";
+import { batches, batchVersions, decisions, findingComments, users } from "@/db/schema";
 import type { Actor } from "@/lib/core/actor";
 import { write, type Audit } from "@/lib/core/write";
 import { env } from "@/lib/env";
@@ -25,9 +15,10 @@ import { enqueueEmail } from "@/lib/mail";
 import { addToStoredPool } from "@/lib/pool";
 import { fail, fieldErrorsOf, ok, type Result } from "@/lib/result";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
-import type { ReadinessReport } from "@/lib/readiness";
 import { decisionEmail } from "./decision-email";
-import { decisionInput } from "./schemas";
+import { batchForDecider, lockVersion, reportFindings } from "./decidable";
+import { BOUNCE_NEEDS_COMMENT, decisionInput } from "./schemas";
+import { attachNotes, pendingNotes } from "./commands-finding-notes";
 
 export type { DecisionInput } from "./schemas";
 import type { DecisionInput } from "./schemas";
@@ -68,37 +59,10 @@ async function decideInTx(
   versionNo: number,
   input: z.output<typeof decisionInput>,
 ): Promise<Result<DecisionDone>> {
-  const [batch] = await tx
-    .select({
-      id: batches.id,
-      publicId: batches.publicId,
-      title: batches.title,
-      latestVersion: batches.latestVersion,
-      studyId: batches.studyId,
-      studyTitle: studies.title,
-      organisationId: batches.organisationId,
-      organisationName: organisations.name,
-    })
-    .from(batches)
-    .innerJoin(studies, eq(studies.id, batches.studyId))
-    .innerJoin(organisations, eq(organisations.id, batches.organisationId))
-    .where(eq(batches.publicId, batchPublicId));
   const notFound = fail<DecisionDone>("No batch with this id is visible to you.", undefined, "not_found");
+  const batch = await batchForDecider(tx, actor, batchPublicId);
   if (!batch) return notFound;
-  if (actor.role === "analyst") {
-    const [assigned] = await tx
-      .select({ s: studyAnalysts.studyId })
-      .from(studyAnalysts)
-      .where(and(eq(studyAnalysts.studyId, batch.studyId), eq(studyAnalysts.userId, actor.id)));
-    if (!assigned) return notFound;
-  }
-
-  // lock the version: a second decider waits here, then sees the first one's decision
-  const [version] = await tx
-    .select({ id: batchVersions.id, state: batchVersions.state, version: batchVersions.version })
-    .from(batchVersions)
-    .where(and(eq(batchVersions.batchId, batch.id), eq(batchVersions.version, versionNo)))
-    .for("update");
+  const version = await lockVersion(tx, batch.id, versionNo);
   if (!version) return notFound;
   if (version.state === "accepted" || version.state === "bounced")
     return describeDecided(tx, version.id, version.state);
@@ -121,18 +85,22 @@ async function decideInTx(
     );
   }
 
-  const [report] = await tx
-    .select({ report: reports.report })
-    .from(reports)
-    .where(eq(reports.batchVersionId, version.id))
-    .limit(1);
-  const findings = (report?.report as ReadinessReport | undefined)?.findings ?? [];
+  const findings = await reportFindings(tx, version.id);
   for (const fc of input.findingComments) {
     if (!findings.some((f) => f.code === fc.code))
       return fail(`The report has no finding "${fc.code}" to comment on.`, {
         findingComments: [`unknown finding ${fc.code}`],
       });
   }
+
+  // notes made on findings before the decision go with it, first, as they were written
+  const notes = await pendingNotes(tx, version.id);
+  if (input.decision === "bounce" && !input.comment && !input.findingComments.length && !notes.length)
+    return fail(BOUNCE_NEEDS_COMMENT, { comment: [BOUNCE_NEEDS_COMMENT] });
+  const sent = [
+    ...notes.map(({ code, columns, comment }) => ({ code, columns, comment })),
+    ...input.findingComments,
+  ];
 
   const state = input.decision === "accept" ? "accepted" : "bounced";
   const [ins] = await tx
@@ -145,6 +113,7 @@ async function decideInTx(
     })
     .$returningId();
   if (!ins) throw new Error("inserting the decision returned no id");
+  await attachNotes(tx, version.id, ins.id);
   if (input.findingComments.length) {
     await tx.insert(findingComments).values(
       input.findingComments.map((fc) => ({
@@ -177,7 +146,7 @@ async function decideInTx(
       state,
       decisionId: ins.id,
       comment: input.comment || null,
-      findingComments: input.findingComments.length,
+      findingComments: sent.length,
     },
   });
 
@@ -199,7 +168,7 @@ async function decideInTx(
       version: version.version,
       decidedBy: actor.name,
       comment: input.comment,
-      findingComments: input.findingComments.map((fc) => ({
+      findingComments: sent.map((fc) => ({
         ...fc,
         message:
           findings.find((f) => f.code === fc.code && sameColumns(f.columns, fc.columns))?.message ??

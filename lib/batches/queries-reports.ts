@@ -6,6 +6,7 @@ import { batchVersions, dataPlans, decisions, findingComments, reports, users } 
 import type { SessionUser } from "@/lib/auth/session";
 import type { ReadinessReport } from "@/lib/readiness";
 import { getBatchForUser, type BatchDetail, type BatchVersionSummary } from "./queries";
+import { versionFindingComments, type FindingCommentView } from "./queries-finding-notes";
 
 export type VersionReport = {
   batch: BatchDetail;
@@ -21,6 +22,8 @@ export type VersionReport = {
     decidedAt: Date;
     findingComments: { code: string; columns: string[]; comment: string }[];
   } | null;
+  /** notes on findings waiting for the decision (never shown to providers; empty once decided) */
+  notes: FindingCommentView[];
 };
 
 /**
@@ -80,13 +83,18 @@ export async function getVersionReportForUser(
     const expected = version.state !== "received" && version.state !== "checking";
     return rows.length === 0 && expected && replica !== db ? storedReport(db) : rows;
   };
-  const [[plan], [row], { d, comments }] = await Promise.all([
+  const pendingNotes = async () =>
+    user.role === "provider" || version.state === "accepted" || version.state === "bounced"
+      ? []
+      : (await versionFindingComments(version.id, false)).filter((c) => !c.sent);
+  const [[plan], [row], { d, comments }, notes] = await Promise.all([
     replica
       .select({ id: dataPlans.id, version: dataPlans.version, plan: dataPlans.plan })
       .from(dataPlans)
       .where(eq(dataPlans.id, version.planId)),
     reportRow(),
     decisionWithComments(),
+    pendingNotes(),
   ]);
   return {
     decision: d
@@ -103,6 +111,7 @@ export async function getVersionReportForUser(
     plan: plan ?? { id: version.planId, version: 0, plan: null },
     report: (row?.report as ReadinessReport | undefined) ?? null,
     reportedAt: row?.createdAt ?? null,
+    notes,
   };
 }
 

@@ -29,3 +29,25 @@ export const studyMemberParams = z.object({
   id: z.string().min(1).max(100),
   memberId: memberIdSchema,
 });
+
+/** One comment on a finding, as GET …/finding-comments lists it and POST answers it. */
+const findingCommentAnswer = z.object({
+  id: z.number().int(),
+  code: z.string().meta({ description: "The finding's code in the version's report." }),
+  columns: z.array(z.string()),
+  comment: z.string(),
+  author: z.string(),
+  createdAt: z.string().meta({ description: "ISO 8601, UTC." }),
+});
+
+/** GET /api/v1/batches/{id}/versions/{version}/finding-comments */
+export const findingCommentsAnswer = z.array(
+  findingCommentAnswer.extend({
+    sent: z.boolean().meta({
+      description: "True once a decision sent it to the provider; false for a note waiting for the decision.",
+    }),
+  }),
+);
+
+/** POST /api/v1/batches/{id}/versions/{version}/finding-comments */
+export const findingNoteAnswer = findingCommentAnswer;

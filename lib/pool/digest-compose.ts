@@ -7,7 +7,7 @@ import type { Db } from "@/db/client";
 import { batches, batchVersions, decisions, organisations, studies } from "@/db/schema";
 import { env } from "@/lib/env";
 import { escapeHtml } from "@/lib/mail";
-import { loadAccepted, loadCurrentPlan, poolOf } from "@/lib/pool/pool";
+import { loadAccepted, loadCurrentPlan, poolOf, STUDY_REF_COLUMNS } from "@/lib/pool/pool";
 import { countOf, formatCount } from "@/lib/format";
 
 const DAY = 86_400_000;
@@ -70,15 +70,7 @@ export async function digestData(db: Db, now = new Date()): Promise<DigestData> 
     .where(and(gte(decisions.decidedAt, from), lt(decisions.decidedAt, now)))
     .orderBy(asc(decisions.decidedAt));
   const pools: DigestData["pools"] = [];
-  const list = await db
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
-    .from(studies)
-    .orderBy(asc(studies.title));
+  const list = await db.select(STUDY_REF_COLUMNS).from(studies).orderBy(asc(studies.title));
   for (const s of list) {
     if (s.currentPlanVersion == null) continue;
     try {

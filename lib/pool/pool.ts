@@ -76,6 +76,14 @@ export function poolFigures(pool: StudyPool): PoolFigures {
 
 export type StudyRef = { id: number; slug: string; title: string; currentPlanVersion: number | null };
 
+/** The columns of a StudyRef, for every read that names a study's pool. */
+export const STUDY_REF_COLUMNS = {
+  id: studies.id,
+  slug: studies.slug,
+  title: studies.title,
+  currentPlanVersion: studies.currentPlanVersion,
+};
+
 type Loaded = { member: PoolMember; state: unknown };
 
 /** The study's current data plan, parsed. Throws when the study has none or it is invalid. */
@@ -100,12 +108,7 @@ export async function loadCurrentPlan(
 
 export async function getStudyRef(db: Db, by: { id: number } | { slug: string }): Promise<StudyRef | null> {
   const [s] = await db
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
+    .select(STUDY_REF_COLUMNS)
     .from(studies)
     .where("id" in by ? eq(studies.id, by.id) : eq(studies.slug, by.slug));
   return s ?? null;

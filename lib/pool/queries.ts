@@ -9,7 +9,14 @@ import { z } from "zod";
 import { write } from "@/lib/core/write";
 import { unwrap } from "@/lib/errors";
 import { ok } from "@/lib/result";
-import { getIfAccepted, getStudyPool, type IfAccepted, type StudyPool, type StudyRef } from "./pool";
+import {
+  getIfAccepted,
+  getStudyPool,
+  STUDY_REF_COLUMNS,
+  type IfAccepted,
+  type StudyPool,
+  type StudyRef,
+} from "./pool";
 import { getBoard, type Board } from "./queries-board";
 
 /** A study the user may see the pool of (analysts: assigned studies; leads and admins: all), or null. */
@@ -17,12 +24,7 @@ export async function getPoolStudyForUser(user: SessionUser, slug: string): Prom
   if (!can(user.role, "pool.read")) return null;
   const scope = studyScope(user);
   const [s] = await getDb()
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
+    .select(STUDY_REF_COLUMNS)
     .from(studies)
     .where(scope ? and(eq(studies.slug, slug), scope) : eq(studies.slug, slug));
   return s ?? null;
@@ -32,16 +34,7 @@ export async function getPoolStudyForUser(user: SessionUser, slug: string): Prom
 export async function listPoolStudiesForUser(user: SessionUser): Promise<StudyRef[]> {
   if (!can(user.role, "pool.read")) return [];
   const scope = studyScope(user);
-  return getDb()
-    .select({
-      id: studies.id,
-      slug: studies.slug,
-      title: studies.title,
-      currentPlanVersion: studies.currentPlanVersion,
-    })
-    .from(studies)
-    .where(scope)
-    .orderBy(asc(studies.title));
+  return getDb().select(STUDY_REF_COLUMNS).from(studies).where(scope).orderBy(asc(studies.title));
 }
 
 export async function getPoolForUser(user: SessionUser, slug: string): Promise<StudyPool | null> {

@@ -13,6 +13,7 @@ import {
   OFFENDER_CHARS,
   addExtreme,
   inferValue,
+  newInferCounts,
   type Extreme,
   type InferCounts,
   type LevelAcc,
@@ -23,7 +24,7 @@ const encoder = new TextEncoder();
 
 export class ColumnAccumulators {
   readonly missing: RowSample;
-  readonly infer: InferCounts = { seen: 0, integer: 0, number: 0, boolean: 0, date: 0, comma: 0 };
+  readonly infer: InferCounts = newInferCounts();
   levels: Map<string, LevelAcc> | null = null;
   levelOverflow = 0;
   moments = new Moments();

@@ -4,6 +4,7 @@
  */
 import { RowSample, type MomentsJSON } from "./accumulators";
 import { LEVEL_CAP, OFFENDER_CAP, type ColumnScan, type InferCounts, type LevelAcc } from "./column-scan";
+import { absorbInfer } from "./column-types";
 
 /** Everything this column gathered, as plain data (to send from a worker thread). */
 export function columnPart(c: ColumnScan): ColumnPart {
@@ -11,7 +12,7 @@ export function columnPart(c: ColumnScan): ColumnPart {
   return {
     total: c.total,
     missing: rs(c.missing),
-    infer: { ...c.infer },
+    infer: { ...c.infer, log: c.infer.log.slice(0, c.infer.seen) },
     levels: c.levels ? [...c.levels.entries()] : null,
     levelOverflow: c.levelOverflow,
     moments: c.moments.toJSON(),
@@ -40,7 +41,7 @@ export function columnPart(c: ColumnScan): ColumnPart {
 export function absorbColumn(c: ColumnScan, p: ColumnPart): void {
   c.total += p.total;
   c.missing.absorb(p.missing);
-  for (const k of Object.keys(c.infer) as (keyof InferCounts)[]) c.infer[k] += p.infer[k];
+  absorbInfer(c.infer, p.infer);
   if (c.levels && p.levels) {
     for (const [l, a] of p.levels) {
       const mine = c.levels.get(l);

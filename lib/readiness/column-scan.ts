@@ -3,7 +3,7 @@
  * column's accumulators (./column-acc.ts).
  */
 import { ColumnAccumulators } from "./column-acc";
-import { FieldStatus, INFER_LIMIT, inferredTypeOf } from "./column-types";
+import { FieldStatus, INFER, INFER_LIMIT, inferredTypeOf, numberBits, tallyInfer } from "./column-types";
 import type { BlockText } from "./fields";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
@@ -51,13 +51,7 @@ export class ColumnScan extends ColumnAccumulators {
         const isInt = Number.isInteger(v);
         if (kind === "number" || isInt) {
           this.total++;
-          if (this.infer.seen < INFER_LIMIT) {
-            const f = this.infer;
-            f.seen++;
-            f.number++;
-            if (isInt) f.integer++;
-            if (v === 0 || v === 1) f.boolean++;
-          }
+          if (this.infer.seen < INFER_LIMIT) tallyInfer(this.infer, numberBits(v));
           this.valueNumber(v, line);
           return;
         }
@@ -95,10 +89,7 @@ export class ColumnScan extends ColumnAccumulators {
       const d = byteDigits(buf, a + 8, a + 10);
       if (y >= 0 && m >= 0 && d >= 0 && validYmd(y, m, d)) {
         this.total++;
-        if (this.infer.seen < INFER_LIMIT) {
-          this.infer.seen++;
-          this.infer.date++;
-        }
+        if (this.infer.seen < INFER_LIMIT) tallyInfer(this.infer, INFER.date);
         this.status = FieldStatus.Usable;
         return;
       }
@@ -123,10 +114,7 @@ export class ColumnScan extends ColumnAccumulators {
     if (x < 0 || y < 0 || byteDigits(buf, s2 + 1, b) < 0) return false;
     if (!((x >= 1 && x <= 31 && y >= 1 && y <= 12) || (y >= 1 && y <= 31 && x >= 1 && x <= 12))) return false;
     this.total++;
-    if (this.infer.seen < INFER_LIMIT) {
-      this.infer.seen++;
-      this.infer.date++;
-    }
+    if (this.infer.seen < INFER_LIMIT) tallyInfer(this.infer, INFER.date);
     const dt = this.date;
     dt.pairs++;
     if (x > 12) dt.a13++;

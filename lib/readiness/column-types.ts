@@ -25,6 +25,39 @@ export interface InferCounts {
   boolean: number;
   date: number;
   comma: number;
+  /**
+   * What each counted value looked like (INFER bits), in file order: a later part of the file
+   * (another thread's byte range) adds exactly the values one pass would still have counted.
+   */
+  log: Uint8Array;
+}
+
+/** One bit per count an inferred value adds to. */
+export const INFER = { number: 1, integer: 2, boolean: 4, date: 8, comma: 16 } as const;
+
+export function newInferCounts(): InferCounts {
+  return { seen: 0, integer: 0, number: 0, boolean: 0, date: 0, comma: 0, log: new Uint8Array(INFER_LIMIT) };
+}
+
+/** Count one value that looked like `bits` (the caller checks seen < INFER_LIMIT). */
+export function tallyInfer(f: InferCounts, bits: number): void {
+  f.log[f.seen++] = bits;
+  if (bits & INFER.number) f.number++;
+  if (bits & INFER.integer) f.integer++;
+  if (bits & INFER.boolean) f.boolean++;
+  if (bits & INFER.date) f.date++;
+  if (bits & INFER.comma) f.comma++;
+}
+
+/** A number as type inference counts it. */
+export function numberBits(v: number): number {
+  return INFER.number | (Number.isInteger(v) ? INFER.integer : 0) | (v === 0 || v === 1 ? INFER.boolean : 0);
+}
+
+/** Add the values of a later part that one pass would still have counted (parts in file order). */
+export function absorbInfer(f: InferCounts, later: InferCounts): void {
+  const take = Math.min(INFER_LIMIT - f.seen, later.seen);
+  for (let i = 0; i < take; i++) tallyInfer(f, later.log[i]!);
 }
 
 /** What the field just read holds. */
@@ -49,20 +82,11 @@ export interface Extreme {
 
 /** Count what one non-missing value looks like (type inference). */
 export function inferValue(f: InferCounts, s: string): void {
-  f.seen++;
   const v = readNumber(s);
-  if (v === v) {
-    f.number++;
-    if (Number.isInteger(v)) f.integer++;
-    if (v === 0 || v === 1) f.boolean++;
-    return;
-  }
-  if (readDecimalComma(s) === readDecimalComma(s)) {
-    f.comma++;
-    return;
-  }
-  if (parseBoolean(s) !== null) f.boolean++;
-  else if (parseDate(s).kind !== "bad") f.date++;
+  if (v === v) return tallyInfer(f, numberBits(v));
+  if (readDecimalComma(s) === readDecimalComma(s)) return tallyInfer(f, INFER.comma);
+  if (parseBoolean(s) !== null) return tallyInfer(f, INFER.boolean);
+  tallyInfer(f, parseDate(s).kind !== "bad" ? INFER.date : 0);
 }
 
 /** The type the values look like, from the first INFER_LIMIT non-missing values and the number of distinct ones. */

@@ -10,6 +10,15 @@ export interface Measured {
   F: number | null;
   n: number | null;
   walls: number[];
+  /** the report's figures without timings and merge state (ours only): equal on every core count */
+  reportKey?: string;
+}
+
+/** The report's figures as one string: no timings, no mergeable state, numbers to 10 significant digits. */
+export function reportKeyOf(report: unknown): string {
+  return JSON.stringify(report, (k, v) =>
+    k === "timings" || k === "state" ? undefined : typeof v === "number" ? Number(v.toPrecision(10)) : v,
+  );
 }
 
 /** The targets of issue 15 on this two-core machine (a benchmark's targets, not a test's). */
@@ -76,6 +85,10 @@ export function printSummary(
   const fOk = r ? ours.every((m) => rel(m) <= TARGETS.fRelative) : null;
   out.push(
     `  F equal to R's within ${TARGETS.fRelative} relative: ${verdict(fOk)}${r && ours.some((m) => m.n !== r.n) ? " (complete rows differ)" : ""}`,
+  );
+  const keys = new Set(ours.map((m) => m.reportKey));
+  out.push(
+    `  the same report on one core and on all cores: ${verdict(ours.length > 1 && !keys.has(undefined) ? keys.size === 1 : null)}`,
   );
   const w = ctx.worker;
   out.push(

@@ -9,9 +9,6 @@ import { beforeAll, describe, expect, test } from "vitest";
 // a small upload limit, so the over-limit file needs no large body; read at env()'s first use
 process.env.MAX_UPLOAD_MB = "1";
 
-import { eq } from "drizzle-orm";
-import { getDb } from "@/db/client";
-import { users } from "@/db/schema";
 import { POST as postBatch } from "@/app/api/v1/batches/route";
 import { POST as decide } from "@/app/api/v1/batches/[id]/versions/[version]/decision/route";
 import { POST as changePassword } from "@/app/api/v1/me/password/route";
@@ -22,6 +19,7 @@ import { call } from "./helpers/api";
 import { uploadAndCheck } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
 import { addApiToken, createWorld, type World } from "./helpers/world";
+import { cookieOf } from "./helpers/seeded";
 
 let w: World;
 let providerCookie = "";
@@ -54,20 +52,7 @@ async function upload(
   return { status: res.status, json: (await res.json()) as Record<string, unknown> };
 }
 
-const demoCookie = async (email: string) => {
-  const [u] = await getDb()
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      organisationId: users.organisationId,
-      sessionVersion: users.sessionVersion,
-    })
-    .from(users)
-    .where(eq(users.email, email));
-  return sessionCookieFor(u!);
-};
+const demoCookie = cookieOf;
 
 beforeAll(async () => {
   w = await createWorld();

@@ -8,7 +8,7 @@ import { and, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
 import { users } from "@/db/schema";
 import { call, expectSafeError } from "./helpers/api";
-import { sessionCookieFor } from "./helpers/session";
+import { cookieOf } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 
@@ -18,19 +18,7 @@ const { GET: pools } = await import("@/app/api/v1/pool/route");
 
 const db = getDb();
 
-async function as(email: string) {
-  const [u] = await db
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      sessionVersion: users.sessionVersion,
-    })
-    .from(users)
-    .where(eq(users.email, email));
-  return { cookie: await sessionCookieFor(u!) };
-}
+const as = async (email: string) => ({ cookie: await cookieOf(email) });
 
 afterAll(async () => {
   await getPool().end();

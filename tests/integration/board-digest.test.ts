@@ -5,24 +5,14 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { and, eq, like } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import {
-  auditEvents,
-  dataPlans,
-  emailOutbox,
-  organisations,
-  studies,
-  studyAnalysts,
-  studyProviders,
-  users,
-} from "@/db/schema";
+import { auditEvents, emailOutbox, users } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { BARLEY_PLAN } from "@/lib/demo/plans";
-import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { composeDigest, digestData } from "@/lib/pool/digest-compose";
 import { digestDue } from "@/lib/pool/digest-schedule";
 import { sendDigest } from "@/lib/pool/digest-send";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
+import { releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 
@@ -33,28 +23,7 @@ let waitingId = "";
 let bouncedId = "";
 
 beforeAll(async () => {
-  const parsed = parsePlan(BARLEY_PLAN);
-  if (!parsed.ok) throw new Error("demo plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [s] = await db
-    .insert(studies)
-    .values({ slug: SLUG, title: TITLE, currentPlanVersion: 1, createdById: lead })
-    .$returningId();
-  await db.insert(dataPlans).values({
-    studyId: s!.id,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
-  });
-  for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db
-      .select({ id: organisations.id })
-      .from(organisations)
-      .where(eq(organisations.slug, org));
-    await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
-  }
-  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
+  await scratchStudy(SLUG, { title: TITLE, providers: ["harrowgate", "fennick-hill"] });
   const analyst = await userId("analyst@lowmoor.test");
   const demo = barleyBatches();
   // 180 clean plots: the pool goes from empty to past its target of 150 residual df
@@ -75,12 +44,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  // leave the demo accounts' memberships as the seed made them, for the other test files
-  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
-  if (s) {
-    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
-    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
-  }
+  await releaseScratchStudy(SLUG);
   await getPool().end();
 });
 

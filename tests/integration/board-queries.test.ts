@@ -6,18 +6,8 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import {
-  batchVersions,
-  dataPlans,
-  decisions,
-  organisations,
-  studies,
-  studyAnalysts,
-  studyProviders,
-} from "@/db/schema";
+import { batchVersions, decisions } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { BARLEY_PLAN } from "@/lib/demo/plans";
-import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import {
   getBoard,
@@ -30,6 +20,7 @@ import {
 } from "@/lib/pool/queries-board";
 import { quantile, weekStart } from "@/lib/pool/board-stats";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
+import { releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 
@@ -41,28 +32,10 @@ const NOW = new Date("2026-11-25T12:00:00.000Z");
 let ids: { accepted: string; resubmitted: string };
 
 beforeAll(async () => {
-  const parsed = parsePlan(BARLEY_PLAN);
-  if (!parsed.ok) throw new Error("demo plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [s] = await db
-    .insert(studies)
-    .values({ slug: SLUG, title: `Board test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
-    .$returningId();
-  await db.insert(dataPlans).values({
-    studyId: s!.id,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
+  await scratchStudy(SLUG, {
+    title: `Board test ${SLUG}`,
+    providers: ["harrowgate", "fennick-hill", "brackenridge"],
   });
-  for (const org of ["harrowgate", "fennick-hill", "brackenridge"]) {
-    const [o] = await db
-      .select({ id: organisations.id })
-      .from(organisations)
-      .where(eq(organisations.slug, org));
-    await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
-  }
-  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
   const analyst = await userId("analyst@lowmoor.test");
   const demo = barleyBatches();
   const a = await uploadAndCheck("provider@harrowgate.test", SLUG, demo[0]!.csv);
@@ -105,12 +78,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  // leave the demo accounts' memberships as the seed made them, for the other test files
-  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
-  if (s) {
-    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
-    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
-  }
+  await releaseScratchStudy(SLUG);
   await getPool().end();
 });
 

@@ -5,11 +5,12 @@
 import { afterAll, describe, expect, it } from "vitest";
 import { and, eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import { auditEvents, batchVersions, decisions, emailOutbox, findingComments, users } from "@/db/schema";
+import { auditEvents, batchVersions, decisions, emailOutbox, findingComments } from "@/db/schema";
 import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { barleyBatches } from "@/lib/demo/batches";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
+import { sessionUser } from "./helpers/seeded";
 
 const db = getDb();
 const fennick = () => barleyBatches()[1]!.csv;
@@ -63,19 +64,7 @@ describe("decisions", () => {
     expect(mail[0]?.htmlBody).toContain("level.variant");
 
     // the comments reach the provider of that organisation, and nobody outside the batch's scope
-    const asUser = async (email: string) => {
-      const [u] = await db
-        .select({
-          id: users.id,
-          email: users.email,
-          name: users.name,
-          role: users.role,
-          organisationId: users.organisationId,
-        })
-        .from(users)
-        .where(eq(users.email, email));
-      return { ...u!, organisationName: null };
-    };
+    const asUser = sessionUser;
     const own = await getVersionReportForUser(await asUser("provider@fennick.test"), up.batchPublicId, 1);
     expect(own?.decision?.findingComments.map((c) => c.code).sort()).toEqual([
       "collinear.exact",

@@ -33,6 +33,7 @@ import { call } from "./helpers/api";
 import { drainQueue } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
 import { PROCESS_PATIENCE_MS, processTestTimeout } from "../helpers/processes";
+import { seededUser } from "./helpers/seeded";
 
 v8.setFlagsFromString("--expose-gc");
 const gc = vm.runInNewContext("gc") as () => void;
@@ -105,17 +106,8 @@ beforeAll(async () => {
   const t = await createApiToken(provider!.id, { name: "hostile files" });
   if (!t.ok) throw new Error(t.message);
   token = t.data.token;
-  const [analyst] = await db
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      sessionVersion: users.sessionVersion,
-    })
-    .from(users)
-    .where(eq(users.email, "analyst@lowmoor.test"));
-  analystCookie = await sessionCookieFor(analyst!);
+  const analyst = await seededUser("analyst@lowmoor.test");
+  analystCookie = await sessionCookieFor(analyst);
   await drainQueue();
 });
 

@@ -8,21 +8,11 @@ import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { and, eq } from "drizzle-orm";
 import Papa from "papaparse";
 import { getDb, getPool } from "@/db/client";
-import {
-  auditEvents,
-  dataPlans,
-  organisations,
-  studies,
-  studyAnalysts,
-  studyProviders,
-  users,
-} from "@/db/schema";
+import { auditEvents } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { BARLEY_PLAN } from "@/lib/demo/plans";
-import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
-import { sessionCookieFor } from "./helpers/session";
+import { cookieOf, releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 // the routes read stored files through the file store; here the files live in this process's memory
@@ -39,20 +29,6 @@ const db = getDb();
 const SLUG = `pool-export-${process.pid}`;
 let studyIdOf = 0;
 
-async function cookieOf(email: string) {
-  const [u] = await db
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      sessionVersion: users.sessionVersion,
-    })
-    .from(users)
-    .where(eq(users.email, email));
-  return sessionCookieFor(u!);
-}
-
 async function get(
   handler: (req: Request, ctx: { params: Promise<{ slug: string }> }) => Promise<Response>,
   path: string,
@@ -66,29 +42,11 @@ async function get(
 }
 
 beforeAll(async () => {
-  const parsed = parsePlan(BARLEY_PLAN);
-  if (!parsed.ok) throw new Error("demo plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [s] = await db
-    .insert(studies)
-    .values({ slug: SLUG, title: `Export test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
-    .$returningId();
-  studyIdOf = s!.id;
-  await db.insert(dataPlans).values({
-    studyId: s!.id,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
+  const s = await scratchStudy(SLUG, {
+    title: `Export test ${SLUG}`,
+    providers: ["harrowgate", "fennick-hill"],
   });
-  for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db
-      .select({ id: organisations.id })
-      .from(organisations)
-      .where(eq(organisations.slug, org));
-    await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
-  }
-  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
+  studyIdOf = s.id;
 
   const analyst = await userId("analyst@lowmoor.test");
   const demo = barleyBatches();
@@ -106,12 +64,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  // leave the demo accounts' memberships as the seed made them, for the other test files
-  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
-  if (s) {
-    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
-    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
-  }
+  await releaseScratchStudy(SLUG);
   await getPool().end();
 });
 

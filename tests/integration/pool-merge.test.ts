@@ -6,57 +6,18 @@
  * least-squares fit is the fit on the stacked rows (normal equations add: X'X = Σ X_b'X_b).
  */
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
-import { eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import { organisations, studies, studyAnalysts, studyProviders, dataPlans } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { BARLEY_PLAN } from "@/lib/demo/plans";
-import { checkBatch, hashPlan, parsePlan, type ReadinessReport } from "@/lib/readiness";
+import { checkBatch, type Plan, type ReadinessReport } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { getIfAccepted, getStudyPool, getStudyRef } from "@/lib/pool/pool";
 import { streamOf, uploadAndCheck, userId } from "./helpers/pipeline";
+import { releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 
 const db = getDb();
 const SLUG = `pool-merge-${process.pid}`;
-
-/** A study of its own with the barley plan, so batches of other test files never enter its pool. */
-async function scratchStudy(slug: string) {
-  const parsed = parsePlan(BARLEY_PLAN);
-  if (!parsed.ok) throw new Error("demo plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [team] = await db
-    .select({ id: organisations.id })
-    .from(organisations)
-    .where(eq(organisations.slug, "lowmoor"));
-  const [s] = await db
-    .insert(studies)
-    .values({
-      slug,
-      title: `Pool test ${slug}`,
-      teamOrganisationId: team?.id ?? null,
-      currentPlanVersion: 1,
-      createdById: lead,
-    })
-    .$returningId();
-  await db.insert(dataPlans).values({
-    studyId: s!.id,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
-  });
-  for (const org of ["harrowgate", "fennick-hill"]) {
-    const [o] = await db
-      .select({ id: organisations.id })
-      .from(organisations)
-      .where(eq(organisations.slug, org));
-    await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
-  }
-  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst@lowmoor.test") });
-  return { id: s!.id, plan: parsed.plan };
-}
 
 /** The CSVs under one header (all demo barley files share it). */
 function concat(csvs: string[]): string {
@@ -82,17 +43,12 @@ function expectSameFigures(pool: ReadinessReport, ref: ReadinessReport) {
   });
 }
 
-let plan: Awaited<ReturnType<typeof scratchStudy>>["plan"];
+let plan: Plan;
 beforeAll(async () => {
-  plan = (await scratchStudy(SLUG)).plan;
+  plan = (await scratchStudy(SLUG, { title: `Pool test ${SLUG}`, team: "lowmoor" })).plan;
 });
 afterAll(async () => {
-  // leave the demo accounts' memberships as the seed made them, for the other test files
-  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
-  if (s) {
-    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
-    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
-  }
+  await releaseScratchStudy(SLUG);
   await getPool().end();
 });
 

@@ -14,7 +14,7 @@ import type { ReadinessReport } from "@/lib/readiness";
 import { GET } from "@/app/api/v1/batches/[id]/versions/[version]/rows-at-fault/route";
 import { openMemoryFile, uploadAndCheck } from "./helpers/pipeline";
 import { sessionCookieFor } from "./helpers/session";
-import { users } from "@/db/schema";
+import { seededUser } from "./helpers/seeded";
 
 afterAll(async () => {
   await getPool().end();
@@ -72,20 +72,9 @@ describe("rows at fault", () => {
 
   it("answers 404 to a provider of another organisation and to an analyst of another study", async () => {
     const up = await uploadAndCheck("provider@fennick.test", "barley-nitrogen", barleyBatches()[1]!.csv);
-    const db = getDb();
     for (const email of ["provider@harrowgate.test", "analyst2@lowmoor.test"]) {
-      const [u] = await db
-        .select({
-          id: users.id,
-          email: users.email,
-          name: users.name,
-          role: users.role,
-          organisationId: users.organisationId,
-          sessionVersion: users.sessionVersion,
-        })
-        .from(users)
-        .where(eq(users.email, email));
-      const cookie = await sessionCookieFor(u!);
+      const u = await seededUser(email);
+      const cookie = await sessionCookieFor(u);
       const res = await GET(
         new Request(`http://127.0.0.1:3410/api/v1/batches/${up.batchPublicId}/versions/1/rows-at-fault`, {
           headers: { cookie },

@@ -7,25 +7,15 @@
 import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { eq } from "drizzle-orm";
 import { getDb, getPool } from "@/db/client";
-import {
-  batchVersions,
-  dataPlans,
-  decisions,
-  emailOutbox,
-  organisations,
-  studies,
-  studyAnalysts,
-  studyProviders,
-} from "@/db/schema";
+import { batchVersions, decisions, emailOutbox } from "@/db/schema";
 import { barleyBatches } from "@/lib/demo/batches";
-import { BARLEY_PLAN } from "@/lib/demo/plans";
-import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { now, setClock } from "@/lib/core/clock";
 import { getStudyPool, poolFigures } from "@/lib/pool/pool";
 import { headroomByWeek } from "@/lib/pool/headroom-history";
 import { turnaroundByWeek } from "@/lib/pool/queries-board";
 import { uploadAndCheck, userId } from "./helpers/pipeline";
+import { releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 
 vi.mock("server-only", () => ({}));
 
@@ -39,27 +29,7 @@ let studyId = 0;
 let versionId = 0;
 
 beforeAll(async () => {
-  const parsed = parsePlan(BARLEY_PLAN);
-  if (!parsed.ok) throw new Error("demo plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [s] = await db
-    .insert(studies)
-    .values({ slug: SLUG, title: `Clock test ${SLUG}`, currentPlanVersion: 1, createdById: lead })
-    .$returningId();
-  studyId = s!.id;
-  await db.insert(dataPlans).values({
-    studyId,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
-  });
-  const [o] = await db
-    .select({ id: organisations.id })
-    .from(organisations)
-    .where(eq(organisations.slug, "harrowgate"));
-  await db.insert(studyProviders).values({ studyId, organisationId: o!.id });
-  await db.insert(studyAnalysts).values({ studyId, userId: await userId("analyst@lowmoor.test") });
+  studyId = (await scratchStudy(SLUG, { title: `Clock test ${SLUG}`, providers: ["harrowgate"] })).id;
 
   setClock(UPLOADED);
   const up = await uploadAndCheck("provider@harrowgate.test", SLUG, barleyBatches()[0]!.csv);
@@ -74,8 +44,7 @@ beforeAll(async () => {
 
 afterAll(async () => {
   setClock(null);
-  await db.delete(studyProviders).where(eq(studyProviders.studyId, studyId));
-  await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, studyId));
+  await releaseScratchStudy(SLUG);
   await getPool().end();
 });
 

@@ -7,17 +7,15 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import Papa from "papaparse";
-import { eq } from "drizzle-orm";
-import { getDb, getPool } from "@/db/client";
-import { dataPlans, organisations, studies, studyAnalysts, studyProviders } from "@/db/schema";
+import { getPool } from "@/db/client";
 import { heatPumpRows } from "@/lib/demo/batches";
 import { HEAT_PUMP_PLAN } from "@/lib/demo/plans";
-import { hashPlan, parsePlan } from "@/lib/readiness";
 import { decideVersion } from "@/lib/batches/commands-decide";
 import { GET as rowsAtFaultRoute } from "@/app/api/v1/batches/[id]/versions/[version]/rows-at-fault/route";
 import { GET as poolRowsRoute } from "@/app/api/v1/pool/[slug]/rows/route";
 import { GET as dictionaryRoute } from "@/app/api/v1/pool/[slug]/dictionary/route";
 import { userId } from "./helpers/pipeline";
+import { releaseScratchStudy, scratchStudy } from "./helpers/seeded";
 import { callAs, startFileStore, stopFileStore, uploadChecked } from "./helpers/security-world";
 
 const SLUG = `sec-export-${process.pid}`;
@@ -59,31 +57,16 @@ let faulty = { batchId: "", version: 1 };
 
 beforeAll(async () => {
   await startFileStore();
-  const db = getDb();
   const plan = structuredClone(HEAT_PUMP_PLAN);
   plan.columns = plan.columns.map((c) =>
     c.name === "installer_note" ? { ...c, description: HOSTILE_DESCRIPTION } : c,
   );
-  const parsed = parsePlan(plan);
-  if (!parsed.ok) throw new Error("plan invalid");
-  const lead = await userId("lead@lowmoor.test");
-  const [s] = await db
-    .insert(studies)
-    .values({ slug: SLUG, title: `Export safety ${SLUG}`, currentPlanVersion: 1, createdById: lead })
-    .$returningId();
-  await db.insert(dataPlans).values({
-    studyId: s!.id,
-    version: 1,
-    plan: parsed.plan,
-    planHash: await hashPlan(parsed.plan),
-    createdById: lead,
+  await scratchStudy(SLUG, {
+    title: `Export safety ${SLUG}`,
+    plan,
+    providers: ["greenhearth"],
+    analyst: "analyst2@lowmoor.test",
   });
-  const [o] = await db
-    .select({ id: organisations.id })
-    .from(organisations)
-    .where(eq(organisations.slug, "greenhearth"));
-  await db.insert(studyProviders).values({ studyId: s!.id, organisationId: o!.id });
-  await db.insert(studyAnalysts).values({ studyId: s!.id, userId: await userId("analyst2@lowmoor.test") });
 
   // batch A: clean for the checks, with formula-looking notes and negative savings
   const rowsA = heatPumpRows("SA-", 260, 4242);
@@ -114,12 +97,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  const db = getDb();
-  const [s] = await db.select({ id: studies.id }).from(studies).where(eq(studies.slug, SLUG));
-  if (s) {
-    await db.delete(studyProviders).where(eq(studyProviders.studyId, s.id));
-    await db.delete(studyAnalysts).where(eq(studyAnalysts.studyId, s.id));
-  }
+  await releaseScratchStudy(SLUG);
   await stopFileStore();
   await getPool().end();
 });

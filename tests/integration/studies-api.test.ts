@@ -11,7 +11,7 @@ import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
 vi.mock("server-only", () => ({}));
 
 import { getDb, getPool } from "@/db/client";
-import { organisations, studies, users } from "@/db/schema";
+import { organisations, studies } from "@/db/schema";
 import { GET as getPlan } from "@/app/api/v1/studies/[id]/plan/route";
 import { BARLEY_PLAN } from "@/lib/demo/plans";
 import { planHash } from "@/lib/demo/plan-hash";
@@ -19,6 +19,7 @@ import { parsePlan } from "@/lib/readiness";
 import { admitProvider, createStudy, publishPlanVersion } from "@/lib/studies";
 import { call, expectSafeError, type Caller } from "./helpers/api";
 import { sessionCookieFor } from "./helpers/session";
+import { seededUser } from "./helpers/seeded";
 
 const db = getDb();
 const as: Record<string, Caller> = {};
@@ -37,17 +38,7 @@ const EMAILS = {
 
 beforeAll(async () => {
   for (const [key, email] of Object.entries(EMAILS)) {
-    const [u] = await db
-      .select({
-        id: users.id,
-        email: users.email,
-        name: users.name,
-        role: users.role,
-        sessionVersion: users.sessionVersion,
-      })
-      .from(users)
-      .where(eq(users.email, email));
-    if (!u) throw new Error(`no demo user ${email}`);
+    const u = await seededUser(email);
     userIds[key] = u.id;
     as[key] = { cookie: await sessionCookieFor(u) };
   }

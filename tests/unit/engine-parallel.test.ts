@@ -104,3 +104,28 @@ describe("checkFile with worker threads equals one pass", () => {
     close(strip(one), strip(par), "report");
   });
 });
+
+describe("type inference over ranges counts the values one pass counts", () => {
+  // One pass infers a column's type from its first INFER_LIMIT (20,000) non-missing values. Two
+  // ranges of 30,000 rows each counted their own first 20,000: summed, the merge saw 40,000 values,
+  // and a column of unique ids (5,000 distinct kept, LEVEL_CAP) passed the category rule
+  // "distinct ≤ 20 % of the values seen" (8,000) that one pass (4,000) does not: text became category.
+  test("a column of unique plot ids is text in both, over 60,000 rows in 2 ranges", async () => {
+    const n = 60_000;
+    const lines = ["plot_code,yield"];
+    for (let i = 0; i < n; i++)
+      lines.push(`P${String(i).padStart(6, "0")},${(5 + (i % 97) / 10).toFixed(1)}`);
+    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "tributary-infer-")), "batch.csv");
+    fs.writeFileSync(file, `${lines.join("\n")}\n`);
+    const parsed = parsePlan({
+      columns: [{ name: "yield", type: "number", role: "response" }],
+      model: { response: "yield", terms: [] },
+    });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const one = await checkBatch(fs.createReadStream(file), parsed.plan);
+    const par = await checkFile(file, parsed.plan, { minBytes: 0, workers: 2, inThread: true });
+    const type = (r: ReadinessReport) => r.columns.find((c) => c.name === "plot_code")?.inferredType;
+    expect(type(one)).toBe("text");
+    expect(type(par)).toBe("text");
+  });
+});

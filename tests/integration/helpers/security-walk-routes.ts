@@ -14,6 +14,7 @@ import {
   freshToken,
   freshUser,
   freshVersion,
+  WALK_FINDING,
   type WalkWorld,
   type Side,
 } from "./security-walk-world";
@@ -221,6 +222,13 @@ export const WORK_PROBES: Record<string, (fn: RouteFn, url: string, method: stri
   "POST /api/v1/batches/[id]/versions/[version]/decision | accept": route(async (c) => {
     const v = await freshVersion(c.w, c.scope === "own");
     return { params: { id: v.publicId, version: String(v.version) }, body: { decision: "accept" } };
+  }, scopedChange),
+  "POST /api/v1/batches/[id]/versions/[version]/finding-comments | a note on a finding": route(async (c) => {
+    const v = await freshVersion(c.w, c.scope === "own", "with a finding");
+    return {
+      params: { id: v.publicId, version: String(v.version) },
+      body: { code: WALK_FINDING, comment: "Walk note." },
+    };
   }, scopedChange),
   "POST /api/v1/studies | —": route(
     () => ({ body: { slug: `walk-api-${process.pid}-${++n}`, title: "Walk API study", description: "" } }),

@@ -18,6 +18,7 @@ import {
   checkJobs,
   dataPlans,
   organisations,
+  reports,
   studies,
   studyAnalysts,
   studyProviders,
@@ -166,10 +167,13 @@ export async function freshStudy(w: WalkWorld, own: boolean): Promise<{ id: numb
 }
 
 /** A throwaway version ready for review in study A (own) or B (other); or, with `failed`, one whose check job failed. */
+/** The finding code of the report freshVersion(…, "with a finding") stores. */
+export const WALK_FINDING = "level.variant";
+
 export async function freshVersion(
   w: WalkWorld,
   own: boolean,
-  job?: "failed",
+  job?: "failed" | "with a finding",
 ): Promise<{ publicId: string; version: number; jobId?: number }> {
   const db = getDb();
   const study = own ? w.studyA : w.studyB;
@@ -201,7 +205,17 @@ export async function freshVersion(
       uploadedById: uploader.id,
     })
     .$returningId();
-  if (!job) return { publicId, version: 1 };
+  if (job === "with a finding") {
+    // a stored report with one finding, for the routes that comment on findings
+    await db.insert(reports).values({
+      batchVersionId: v!.id,
+      planId: plan!.id,
+      status: "checked",
+      engineVersion: "walk",
+      report: { findings: [{ code: WALK_FINDING, severity: "warning", columns: [], message: "walk" }] },
+    });
+  }
+  if (job !== "failed") return { publicId, version: 1 };
   const [j] = await db
     .insert(checkJobs)
     .values({

@@ -7,16 +7,13 @@
 import os from "node:os";
 import path from "node:path";
 import { mkdtemp, rm } from "node:fs/promises";
-import { eq } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { users } from "@/db/schema";
 import { parseUploadToken, startUploadFake, type UploadFake } from "@/fakes/upload-service";
 import { claimJob } from "@/lib/batches/jobs/check-jobs";
 import { runJob } from "@/lib/batches/jobs/worker";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { POST as uploadRoute } from "@/app/api/v1/batches/route";
 import { drainQueue } from "./pipeline";
-import { sessionCookieFor } from "./session";
 
 export type Handler<P> = (req: Request, ctx: { params: Promise<P> }) => Promise<Response>;
 
@@ -38,21 +35,9 @@ export async function stopFileStore(): Promise<void> {
   if (dir) await rm(dir, { recursive: true, force: true });
 }
 
-/** A session cookie of the seeded user with this e-mail. */
-export async function cookieOf(email: string): Promise<string> {
-  const [u] = await getDb()
-    .select({
-      id: users.id,
-      email: users.email,
-      name: users.name,
-      role: users.role,
-      sessionVersion: users.sessionVersion,
-    })
-    .from(users)
-    .where(eq(users.email, email));
-  if (!u) throw new Error(`no user ${email}`);
-  return sessionCookieFor(u);
-}
+import { cookieOf } from "./seeded";
+
+export { cookieOf };
 
 /** Calls a route handler as `email` (anonymous when null). */
 export async function callAs<P extends Record<string, string>>(
