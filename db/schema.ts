@@ -180,11 +180,14 @@ export const batchVersions = mysqlTable(
     progressRows: bigint("progress_rows", { mode: "number", unsigned: true }).notNull().default(0),
     progressBytes: bigint("progress_bytes", { mode: "number", unsigned: true }).notNull().default(0),
     uploadedById: ref("uploaded_by_id").references(() => users.id),
+    /** the API upload's Idempotency-Key: a retry with the same key answers this version again */
+    idempotencyKey: varchar("idempotency_key", { length: 200 }),
     uploadedAt: created(),
     stateChangedAt: stamped("state_changed_at"),
   },
   (t) => [
     uniqueIndex("batch_versions_batch_version_uq").on(t.batchId, t.version),
+    uniqueIndex("batch_versions_idempotency_uq").on(t.uploadedById, t.idempotencyKey),
     uniqueIndex("batch_versions_file_key_uq").on(t.fileKey),
     index("batch_versions_state_idx").on(t.state),
   ],

@@ -12,6 +12,7 @@ import {
 } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
 import { formatCount, niceTicks } from "@/lib/format";
+import { AXIS_TICK, CHART_GRID, LINE_MARGIN } from "@/components/ui/chart-style";
 
 export type HeadroomSeries = {
   studySlug: string;
@@ -72,13 +73,13 @@ export function HeadroomChart({ series }: { series: HeadroomSeries[] }) {
             >
               <figcaption className="mb-1 text-sm font-semibold">{s.studyTitle}</figcaption>
               <ResponsiveContainer width="100%" height="90%">
-                <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
-                  <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
-                  <XAxis dataKey="label" tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }} />
+                <LineChart data={data} margin={LINE_MARGIN}>
+                  <CartesianGrid {...CHART_GRID} />
+                  <XAxis dataKey="label" tick={AXIS_TICK} />
                   <YAxis
                     domain={[0, ticks[ticks.length - 1] ?? 1]}
                     ticks={ticks}
-                    tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
+                    tick={AXIS_TICK}
                     tickFormatter={(v: number) => formatCount(v)}
                     width={56}
                   />

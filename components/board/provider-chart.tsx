@@ -4,6 +4,7 @@ import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxi
 import { DataTable, type Column } from "@/components/data-table";
 import type { ProviderStats } from "@/lib/pool/queries-board";
 import { formatNumber } from "@/lib/format";
+import { AXIS_TICK, CHART_GRID, NAME_TICK } from "@/components/ui/chart-style";
 
 /** A row of the board's provider figures (lib/pool/queries-board.ts), keyed for the table. */
 export type ProviderRow = Omit<ProviderStats, "studySlug"> & { id: string };
@@ -54,20 +55,15 @@ export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
         >
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={decided} layout="vertical" margin={{ top: 4, right: 24, bottom: 4, left: 8 }}>
-              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
+              <CartesianGrid {...CHART_GRID} horizontal={false} />
               <XAxis
                 type="number"
                 domain={[0, 100]}
                 ticks={[0, 25, 50, 75, 100]}
                 unit=" %"
-                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
+                tick={AXIS_TICK}
               />
-              <YAxis
-                type="category"
-                dataKey="name"
-                width={260}
-                tick={{ fontSize: 12, fill: "var(--t-ink)" }}
-              />
+              <YAxis type="category" dataKey="name" width={260} tick={NAME_TICK} />
               <Tooltip formatter={(v) => `${v} % bounced`} />
               <Bar dataKey="rate" name="bounce rate" fill="var(--t-clay)" isAnimationActive={false} />
             </BarChart>

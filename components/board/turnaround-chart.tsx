@@ -4,6 +4,7 @@ import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, X
 import { DataTable, type Column } from "@/components/data-table";
 import { formatCount, niceTicks } from "@/lib/format";
 import { formatHours } from "./format";
+import { AXIS_TICK, CHART_GRID, LINE_MARGIN } from "@/components/ui/chart-style";
 
 export type TurnaroundRow = {
   week: string;
@@ -47,13 +48,13 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
           data-testid="turnaround-chart"
         >
           <ResponsiveContainer width="100%" height="100%">
-            <LineChart data={data} margin={{ top: 8, right: 16, bottom: 4, left: 0 }}>
-              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
-              <XAxis dataKey="label" tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }} />
+            <LineChart data={data} margin={LINE_MARGIN}>
+              <CartesianGrid {...CHART_GRID} />
+              <XAxis dataKey="label" tick={AXIS_TICK} />
               <YAxis
                 domain={[0, ticks[ticks.length - 1] ?? 1]}
                 ticks={ticks}
-                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
+                tick={AXIS_TICK}
                 tickFormatter={(v: number) => `${formatCount(v)} h`}
                 width={64}
               />

@@ -19,6 +19,7 @@ import { formatCount } from "@/lib/format";
 import type { SelectionPreview } from "@/lib/readiness";
 import { statColumn, termsColumn } from "./question-columns";
 import { formatStat } from "./questions-format";
+import { CHART_GRID, SMALL_TICK } from "@/components/ui/chart-style";
 
 type Criterion = "adjR2" | "cp" | "aic" | "bic" | "lobo";
 type Point = { size: number; adjR2: number; cp: number; aic: number; bic: number; lobo: number | null };
@@ -55,11 +56,11 @@ function SmallChart({
       <figcaption className="mb-1 text-sm font-semibold">{LABEL[field]}</figcaption>
       <ResponsiveContainer width="100%" height="85%">
         <LineChart data={data} margin={{ top: 4, right: 12, bottom: 4, left: 4 }}>
-          <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" />
-          <XAxis dataKey="size" tick={{ fontSize: 11, fill: "var(--t-silt-ink)" }} allowDecimals={false} />
+          <CartesianGrid {...CHART_GRID} />
+          <XAxis dataKey="size" tick={SMALL_TICK} allowDecimals={false} />
           <YAxis
             domain={values.length ? ["auto", "auto"] : [0, 1]}
-            tick={{ fontSize: 11, fill: "var(--t-silt-ink)" }}
+            tick={SMALL_TICK}
             width={56}
             tickFormatter={(v: number) => formatStat(v, field === "adjR2" ? 3 : 1)}
           />

@@ -19,6 +19,7 @@ import { formatCount } from "@/lib/format";
 import type { InfluenceRow } from "@/lib/readiness";
 import { countColumn, statColumn } from "./question-columns";
 import { formatStat } from "./questions-format";
+import { AXIS_TICK, CHART_GRID, NAME_TICK } from "@/components/ui/chart-style";
 
 type Row = InfluenceRow & { id: string };
 
@@ -83,11 +84,11 @@ export function InfluenceChart({
         >
           <ResponsiveContainer width="100%" height="100%">
             <BarChart data={data} layout="vertical" margin={{ top: 16, right: 32, bottom: 16, left: 8 }}>
-              <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
+              <CartesianGrid {...CHART_GRID} horizontal={false} />
               <XAxis
                 type="number"
                 domain={[0, Math.ceil(top * 10) / 10]}
-                tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
+                tick={AXIS_TICK}
                 label={{
                   value: "largest shift, standard errors",
                   position: "insideBottom",
@@ -96,12 +97,7 @@ export function InfluenceChart({
                   fill: "var(--t-silt-ink)",
                 }}
               />
-              <YAxis
-                type="category"
-                dataKey="name"
-                width={240}
-                tick={{ fontSize: 12, fill: "var(--t-ink)" }}
-              />
+              <YAxis type="category" dataKey="name" width={240} tick={NAME_TICK} />
               <Tooltip
                 formatter={(v, _n, item) => [
                   `${formatStat(typeof v === "number" ? v : null)} SE (${(item.payload as { term: string }).term})`,

@@ -14,6 +14,7 @@ import {
 import { DataTable, type Column } from "@/components/data-table";
 import type { SelectionPreview } from "@/lib/readiness";
 import { formatShare, rounded } from "./questions-format";
+import { AXIS_TICK, CHART_GRID, NAME_TICK } from "@/components/ui/chart-style";
 
 type Stability = NonNullable<SelectionPreview["stability"]>;
 type Row = { id: string; term: string; share: number };
@@ -57,14 +58,9 @@ export function StabilityBars({ stability, csvName }: { stability: Stability; cs
       >
         <ResponsiveContainer width="100%" height="100%">
           <BarChart data={data} layout="vertical" margin={{ top: 16, right: 24, bottom: 4, left: 8 }}>
-            <CartesianGrid stroke="var(--t-silt-line)" strokeDasharray="3 3" horizontal={false} />
-            <XAxis
-              type="number"
-              domain={[0, 100]}
-              unit=" %"
-              tick={{ fontSize: 12, fill: "var(--t-silt-ink)" }}
-            />
-            <YAxis type="category" dataKey="term" width={180} tick={{ fontSize: 12, fill: "var(--t-ink)" }} />
+            <CartesianGrid {...CHART_GRID} horizontal={false} />
+            <XAxis type="number" domain={[0, 100]} unit=" %" tick={AXIS_TICK} />
+            <YAxis type="category" dataKey="term" width={180} tick={NAME_TICK} />
             <Tooltip formatter={(v) => `${v} % of the fits`} />
             <Bar dataKey="pct" name="chosen in" isAnimationActive={false}>
               {data.map((d) => (

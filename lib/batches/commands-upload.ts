@@ -19,7 +19,7 @@ import {
 import { loadActor, type Actor } from "@/lib/core/actor";
 import { write } from "@/lib/core/write";
 import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
-import type { Result } from "@/lib/result";
+import { fail, type Result } from "@/lib/result";
 import { rebuildStoredPool } from "@/lib/pool";
 import { cleanFileName, cleanText } from "./intake/file-rules";
 import { now } from "@/lib/core/clock";
@@ -32,13 +32,11 @@ export interface UploadTarget {
   title?: string | null;
 }
 
-export interface StoredFile {
-  key: string;
-  url: string;
-  name: string;
-  size: number;
+/** A file in the store; `idempotencyKey`: the API upload's key (intake/idempotency.ts). */
+export type StoredFile = { key: string; url: string; name: string; size: number } & {
   hash?: string | null;
-}
+  idempotencyKey?: string | null;
+};
 
 interface Admitted {
   actor: { id: number; organisationId: number };
@@ -165,6 +163,9 @@ export function recordBatchVersion(
     actorId,
     may: "batch.upload",
     forbidden: "Only a provider organisation's users can send batches.",
+    // the same Idempotency-Key recorded by a simultaneous attempt: intake/api-upload.ts answers its version
+    onDuplicate: () =>
+      fail("This upload was recorded by another attempt a moment ago.", undefined, "conflict"),
     schema: uploadTargetSchema,
     input: target,
     run: async ({ tx, actor: who, audit }) => {
@@ -250,6 +251,7 @@ export function recordBatchVersion(
           fileName,
           fileSize: file.size,
           contentHash: file.hash ?? null,
+          idempotencyKey: file.idempotencyKey ?? null,
           state: "received",
           uploadedById: actor.id,
         })

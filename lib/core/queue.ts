@@ -5,7 +5,8 @@
  * failed attempt leaves behind.
  */
 import os from "node:os";
-import { and, eq, lte, or } from "drizzle-orm";
+import { and, eq, lte, or, sql } from "drizzle-orm";
+import type { DbOrTx } from "@/db/client";
 import { checkJobs, type JOB_KINDS } from "@/db/schema";
 import { now as clockNow } from "@/lib/core/clock";
 import { msFromEnv } from "@/lib/env";
@@ -42,6 +43,31 @@ export function afterFailure(attempt: number, error: unknown) {
     finishedAt: final ? clockNow() : null,
     lockedBy: null,
   };
+}
+
+/** Marks a claimed job failed for good, adding why to its errors (a job that can never run). */
+export async function giveUpJob(tx: DbOrTx, jobId: number, now: Date, why: string): Promise<void> {
+  await tx
+    .update(checkJobs)
+    .set({
+      status: "failed",
+      finishedAt: now,
+      lastError: sql`CONCAT(COALESCE(${checkJobs.lastError}, ''), ${`\n${why}`})`,
+    })
+    .where(eq(checkJobs.id, jobId));
+}
+
+/** Marks a claimed job running for this worker: one more attempt, a fresh heartbeat. */
+export async function markJobRunning(
+  tx: DbOrTx,
+  job: { id: number; attempts: number },
+  workerId: string,
+  now: Date,
+): Promise<void> {
+  await tx
+    .update(checkJobs)
+    .set({ status: "running", attempts: job.attempts + 1, lockedBy: workerId, heartbeatAt: now })
+    .where(eq(checkJobs.id, job.id));
 }
 
 /** A worker's name in locked_by: host, process id and a random tag. */

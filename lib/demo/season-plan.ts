@@ -142,10 +142,8 @@ export function seasonEvents(today: Date): SeasonEvent[] {
     let t = Array.isArray(s.at)
       ? start.getTime() + (s.at[0] * 7 + s.at[1]) * DAY + s.at[2] * HOUR
       : today.getTime() - s.at.hoursAgo * HOUR;
-    s.steps.forEach((step, v) => {
-      const version = v + 1;
-      const fileName = `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`;
-      const csv = seasonCsv(s.study, `${s.code}${i}`, s.rows + 2 * v, 9000 + i * 31 + v, step.defect);
+    // version `version` of the batch, uploaded at t; its rows grow by two per version
+    const upload = (version: number, seedOffset: number, defect: Defect) =>
       events.push({
         kind: "upload",
         at: clamp(t),
@@ -153,10 +151,19 @@ export function seasonEvents(today: Date): SeasonEvent[] {
         study: s.study,
         title,
         version,
-        fileName,
-        csv,
-        defect: step.defect,
+        fileName: `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`,
+        csv: seasonCsv(
+          s.study,
+          `${s.code}${i}`,
+          s.rows + 2 * (version - 1),
+          9000 + i * 31 + seedOffset,
+          defect,
+        ),
+        defect,
       });
+    s.steps.forEach((step, v) => {
+      const version = v + 1;
+      upload(version, v, step.defect);
       if (step.outcome === "wait") return;
       const decidedAt = t + (step.afterHours ?? 4) * HOUR;
       events.push({
@@ -175,27 +182,7 @@ export function seasonEvents(today: Date): SeasonEvent[] {
     });
     // a bounce as the last step: the provider's fix is waiting in today's queue
     const last = s.steps[s.steps.length - 1];
-    if (last?.outcome === "bounce") {
-      const version = s.steps.length + 1;
-      const csv = seasonCsv(
-        s.study,
-        `${s.code}${i}`,
-        s.rows + 2 * s.steps.length,
-        9000 + i * 31 + version,
-        "clean",
-      );
-      events.push({
-        kind: "upload",
-        at: clamp(t),
-        org: s.org,
-        study: s.study,
-        title,
-        version,
-        fileName: `${s.org}-${s.label.replace(/[^a-z0-9]+/gi, "-").toLowerCase()}-v${version}.csv`,
-        csv,
-        defect: "clean",
-      });
-    }
+    if (last?.outcome === "bounce") upload(s.steps.length + 1, s.steps.length + 1, "clean");
   });
   // uploads of one batch keep their order when clamped to the same moment
   return events

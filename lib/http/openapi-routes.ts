@@ -53,6 +53,8 @@ export const READ_ROUTES: Routes = {
     },
     post: {
       summary: "Upload a batch file (a new batch, or a new version with `batch`).",
+      description:
+        'Send `Idempotency-Key: "<unique key>"` (1–200 visible ASCII characters) to make retries safe: a repeat with the same key answers the version the first attempt made (with `Idempotent-Replayed: true`), never a second one; the same key with another file, study or batch answers 422.',
       tag: "batches",
       multipart: uploadBodySchema,
       status: 201,

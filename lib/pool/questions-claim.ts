@@ -3,10 +3,10 @@
  * number of workers; a job whose worker went quiet is claimed again after the stale timeout,
  * and one that failed MAX_ATTEMPTS times is marked failed.
  */
-import { and, asc, eq, sql } from "drizzle-orm";
+import { and, asc, eq } from "drizzle-orm";
 import type { Db } from "@/db/client";
 import { checkJobs } from "@/db/schema";
-import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/core/queue";
+import { MAX_ATTEMPTS, afterFailure, claimable, giveUpJob, markJobRunning } from "@/lib/core/queue";
 import type { DbOrTx } from "@/db/client";
 import { POOL_QUESTIONS_JOB } from "@/lib/core/pool-questions-queue";
 
@@ -42,20 +42,10 @@ export async function claimPoolQuestionsJob(
     if (job.studyId === null || job.attempts >= MAX_ATTEMPTS) {
       const why =
         job.studyId === null ? "The job names no study." : `Gave up after ${job.attempts} attempts.`;
-      await tx
-        .update(checkJobs)
-        .set({
-          status: "failed",
-          finishedAt: now,
-          lastError: sql`CONCAT(COALESCE(${checkJobs.lastError}, ''), ${`\n${why}`})`,
-        })
-        .where(eq(checkJobs.id, job.id));
+      await giveUpJob(tx, job.id, now, why);
       return null;
     }
-    await tx
-      .update(checkJobs)
-      .set({ status: "running", attempts: job.attempts + 1, lockedBy: workerId, heartbeatAt: now })
-      .where(eq(checkJobs.id, job.id));
+    await markJobRunning(tx, job, workerId, now);
     return {
       jobId: job.id,
       workerId,

@@ -3,7 +3,8 @@
  * recorded per endpoint and per instance (HAProxy's X-Tributary-Instance header). A request
  * that met no instance or a database that was restarting (socket error, 502, 503) is tried
  * again after a pause (at most 40 times, about 40 s), as a client of a real deployment would;
- * each retry is counted. Only a request that never succeeded is an error.
+ * each retry is counted. Only a request that never succeeded is an error. Uploads carry an
+ * Idempotency-Key, so a retried upload never records a second version.
  */
 import type { UploadBody } from "./batches";
 import { Recorder, type Endpoint } from "./stats";
@@ -24,6 +25,8 @@ export class ScaleRecorder {
 }
 
 const RETRYABLE = new Set([502, 503, 504]);
+/** this run's name in the uploads' Idempotency-Keys */
+const RUN = `${process.pid}-${Date.now().toString(36)}`;
 const pause = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** One request with retries; resolves with the last answer (status 0: never answered). */
@@ -128,7 +131,13 @@ export async function upload(
     rec,
     "upload",
     `${origin}/api/v1/batches`,
-    { method: "POST", headers: b.headers, body: new Uint8Array(b.body) },
+    // one key per provider's upload: a retry after a cut connection or a killed instance answers
+    // the version the first attempt recorded instead of making a second one
+    {
+      method: "POST",
+      headers: { ...b.headers, "idempotency-key": `"scale-${RUN}-${k}"` },
+      body: new Uint8Array(b.body),
+    },
     180_000,
   );
   const batchId =

@@ -18,6 +18,7 @@ import { STORE_DOWN_MESSAGE } from "./upload-errors";
 import { authoriseUpload } from "../commands-upload";
 import { recordStoredFile } from "./record-stored-file";
 import { studyIdBySlug } from "./upload-router";
+import { replayOf } from "./idempotency";
 
 export interface ApiUploadInput {
   studySlug: string;
@@ -25,6 +26,8 @@ export interface ApiUploadInput {
   label?: string | null;
   /** streamed to a temporary file by receiveMultipart (multipart-upload.ts) */
   file: ReceivedFile;
+  /** the request's Idempotency-Key (idempotency.ts): a retry answers the version the first attempt made */
+  idempotencyKey?: string | null;
 }
 
 /**
@@ -51,6 +54,10 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   const studyId = await studyIdBySlug(input.studySlug);
   if (studyId === null)
     throw new AppError("not_found", "This study does not exist or your organisation is not admitted to it.");
+  const key = input.idempotencyKey ?? null;
+  const sent = { studyId, batchPublicId: input.batchId ?? null, hash: input.file.hash };
+  const earlier = key ? await replayOf(db, actor.id, key, sent) : null;
+  if (earlier) return { ...earlier, replayed: true };
   const admitted = await authoriseUpload(db, actor.id, { studyId, batchPublicId: input.batchId ?? null });
   // a study or batch outside the organisation answers like a missing one (404), not 403
   if (!admitted.ok) throw new AppError(admitted.code ?? "forbidden", admitted.message);
@@ -66,9 +73,24 @@ async function storeAndRecord(actor: SessionUser, input: ApiUploadInput) {
   if (stored.error || !stored.data) {
     throw new AppError("unavailable", STORE_DOWN_MESSAGE, { cause: stored.error });
   }
-  return recordStoredFile(
-    actor.id,
-    { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
-    { key: stored.data.key, url: stored.data.ufsUrl, name, size: input.file.size, hash: input.file.hash },
-  );
+  const file = {
+    key: stored.data.key,
+    url: stored.data.ufsUrl,
+    name,
+    size: input.file.size,
+    hash: input.file.hash,
+  };
+  try {
+    const done = await recordStoredFile(
+      actor.id,
+      { studyId, batchPublicId: input.batchId ?? null, title: input.label ?? null },
+      { ...file, idempotencyKey: key },
+    );
+    return { batchPublicId: done.batchPublicId, version: done.version, state: "received", replayed: false };
+  } catch (e) {
+    // two attempts with one key at once: the other one's version stands (ours was not recorded)
+    const winner = key ? await replayOf(db, actor.id, key, sent) : null;
+    if (winner) return { ...winner, replayed: true };
+    throw e;
+  }
 }

@@ -17,7 +17,7 @@ import { enqueuePoolQuestions } from "@/lib/core/pool-questions-queue";
 import { batchVersions, batches, checkJobs, dataPlans, reports } from "@/db/schema";
 import type { ReadinessReport } from "@/lib/readiness";
 import { now as clockNow } from "@/lib/core/clock";
-import { MAX_ATTEMPTS, afterFailure, claimable } from "@/lib/core/queue";
+import { MAX_ATTEMPTS, afterFailure, claimable, giveUpJob, markJobRunning } from "@/lib/core/queue";
 
 export { MAX_ATTEMPTS, STALE_AFTER_MS } from "@/lib/core/queue";
 
@@ -50,14 +50,7 @@ export async function claimJob(db: Db, workerId: string, now = clockNow()): Prom
     if (!job || job.batchVersionId === null) return null;
 
     if (job.attempts >= MAX_ATTEMPTS) {
-      await tx
-        .update(checkJobs)
-        .set({
-          status: "failed",
-          finishedAt: now,
-          lastError: sql`CONCAT(COALESCE(${checkJobs.lastError}, ''), ${`\nGave up after ${job.attempts} attempts.`})`,
-        })
-        .where(eq(checkJobs.id, job.id));
+      await giveUpJob(tx, job.id, now, `Gave up after ${job.attempts} attempts.`);
       return null;
     }
 
@@ -77,17 +70,11 @@ export async function claimJob(db: Db, workerId: string, now = clockNow()): Prom
       .innerJoin(dataPlans, eq(dataPlans.id, batchVersions.planId))
       .where(eq(batchVersions.id, job.batchVersionId));
     if (!row) {
-      await tx
-        .update(checkJobs)
-        .set({ status: "failed", finishedAt: now, lastError: "The batch version no longer exists." })
-        .where(eq(checkJobs.id, job.id));
+      await giveUpJob(tx, job.id, now, "The batch version no longer exists.");
       return null;
     }
 
-    await tx
-      .update(checkJobs)
-      .set({ status: "running", attempts: job.attempts + 1, lockedBy: workerId, heartbeatAt: now })
-      .where(eq(checkJobs.id, job.id));
+    await markJobRunning(tx, job, workerId, now);
     if (row.state === "received" || row.state === "checking") {
       await tx
         .update(batchVersions)

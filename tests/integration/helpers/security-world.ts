@@ -57,6 +57,7 @@ export async function callAs<P extends Record<string, string>>(
 export async function apiUpload(
   email: string,
   fields: { study: string; file: File; label?: string; batch?: string },
+  headers: Record<string, string> = {},
 ) {
   await drainQueue();
   const form = new FormData();
@@ -67,13 +68,14 @@ export async function apiUpload(
   const res = await uploadRoute(
     new Request("http://127.0.0.1:3410/api/v1/batches", {
       method: "POST",
-      headers: { cookie: await cookieOf(email) },
+      headers: { ...headers, cookie: await cookieOf(email) },
       body: form,
     }),
     { params: Promise.resolve({}) },
   );
   return {
     status: res.status,
+    headers: res.headers,
     body: (await res.json()) as {
       data?: { batchId: string; version: number };
       code?: string;

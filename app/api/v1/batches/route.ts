@@ -1,5 +1,6 @@
 // GET /api/v1/batches[?studyId=&state=&limit=&cursor=] — the batches the caller may see, newest first, with their latest version's state; pages follow `next`.
 // POST /api/v1/batches — upload a batch file (multipart: study, file, batch?, label?); the same pipeline as the browser.
+// With `Idempotency-Key`, a retry of the same upload answers the version the first attempt made.
 import { apiRoute } from "@/lib/http/route";
 import { parseQuery } from "@/lib/http/parse";
 import { batchesQuery } from "@/lib/http/queries";
@@ -12,6 +13,7 @@ import { fieldErrorsOf } from "@/lib/result";
 import { env } from "@/lib/env";
 import { uploadBatchViaApi } from "@/lib/batches/intake/api-upload";
 import { receiveMultipart } from "@/lib/batches/intake/multipart-upload";
+import { idempotencyKeyOf } from "@/lib/batches/intake/idempotency";
 
 export const GET = apiRoute({ action: "batch.read" }, async ({ req, actor }) => {
   const { cursor, ...query } = parseQuery(req, batchesQuery);
@@ -32,6 +34,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
   const length = Number(req.headers.get("content-length") ?? 0);
   if (length > limit + 64 * 1024)
     throw new AppError("too_large", tooLarge, { fieldErrors: { file: [tooLarge] } });
+  const key = idempotencyKeyOf(req);
   // the file streams to a temporary file (never whole in memory) and is removed when done
   const upload = await receiveMultipart(req, limit, tooLarge);
   let done: Awaited<ReturnType<typeof uploadBatchViaApi>>;
@@ -52,6 +55,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
       });
     }
     done = await uploadBatchViaApi(actor, {
+      idempotencyKey: key,
       studySlug: fields.data.study,
       batchId: fields.data.batch,
       label: fields.data.label,
@@ -61,11 +65,11 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
     await upload.discard();
   }
   const batchUrl = `/api/v1/batches/${done.batchPublicId}`;
-  return jsonData(
+  const answer = jsonData(
     {
       batchId: done.batchPublicId,
       version: done.version,
-      state: "received",
+      state: done.state,
       links: {
         batch: batchUrl,
         report: `${batchUrl}/versions/${done.version}/report`,
@@ -75,4 +79,7 @@ export const POST = apiRoute({ action: "batch.upload" }, async ({ req, actor }) 
     // the version created, addressed by its report (a version has no address of its own)
     `${batchUrl}/versions/${done.version}/report`,
   );
+  // a retry with the same Idempotency-Key: the version the first attempt made
+  if (done.replayed) answer.headers.set("idempotent-replayed", "true");
+  return answer;
 });

@@ -1,0 +1,2 @@
+ALTER TABLE `batch_versions` ADD `idempotency_key` varchar(200);--> statement-breakpoint
+ALTER TABLE `batch_versions` ADD CONSTRAINT `batch_versions_idempotency_uq` UNIQUE(`uploaded_by_id`,`idempotency_key`);
