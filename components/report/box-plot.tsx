@@ -15,19 +15,19 @@ export function BoxPlot({ s }: { s: Summary }) {
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width={W} height={H} role="img" aria-label={label} className="shrink-0">
       <title>{label}</title>
-      <line x1={x(s.min)} x2={x(s.max)} y1={H / 2} y2={H / 2} stroke="#6B6354" strokeWidth="1" />
-      <line x1={x(s.min)} x2={x(s.min)} y1={3} y2={H - 3} stroke="#6B6354" strokeWidth="1" />
-      <line x1={x(s.max)} x2={x(s.max)} y1={3} y2={H - 3} stroke="#6B6354" strokeWidth="1" />
+      <line x1={x(s.min)} x2={x(s.max)} y1={H / 2} y2={H / 2} stroke="var(--t-silt-ink)" strokeWidth="1" />
+      <line x1={x(s.min)} x2={x(s.min)} y1={3} y2={H - 3} stroke="var(--t-silt-ink)" strokeWidth="1" />
+      <line x1={x(s.max)} x2={x(s.max)} y1={3} y2={H - 3} stroke="var(--t-silt-ink)" strokeWidth="1" />
       <rect
         x={x(s.q1)}
         y={2}
         width={Math.max(1, x(s.q3) - x(s.q1))}
         height={H - 4}
-        fill="#D8E6E7"
-        stroke="#1F6F78"
+        fill="var(--t-shallows)"
+        stroke="var(--t-channel)"
         strokeWidth="1"
       />
-      <line x1={x(s.median)} x2={x(s.median)} y1={1} y2={H - 1} stroke="#12262E" strokeWidth="2" />
+      <line x1={x(s.median)} x2={x(s.median)} y1={1} y2={H - 1} stroke="var(--t-ink)" strokeWidth="2" />
     </svg>
   );
 }

@@ -53,13 +53,13 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
   const W = 640;
   const x = (v: number) => (v / scale) * W;
   const segs = [
-    { key: "intercept", w: data.intercept ? 1 : 0, fill: "#12262E", label: "intercept" },
-    { key: "numeric", w: data.numericParameters, fill: "#1F6F78", label: "numeric terms" },
+    { key: "intercept", w: data.intercept ? 1 : 0, fill: "var(--t-ink)", label: "intercept" },
+    { key: "numeric", w: data.numericParameters, fill: "var(--t-channel)", label: "numeric terms" },
     { key: "indicator", w: data.indicatorParameters, fill: "url(#ledger-hatch)", label: "indicator columns" },
     {
       key: "residual",
       w: Math.min(residual, Math.max(0, data.complete - used)),
-      fill: data.residualDf >= data.target ? "#4F7A32" : "#A8660B",
+      fill: data.residualDf >= data.target ? "var(--t-reed)" : "var(--t-ochre)",
       label: "residual df",
     },
   ];
@@ -77,11 +77,11 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
             patternUnits="userSpaceOnUse"
             patternTransform="rotate(45)"
           >
-            <rect width="5" height="5" fill="#D8ECEB" />
-            <line x1="0" y1="0" x2="0" y2="5" stroke="#1F6F78" strokeWidth="2" />
+            <rect width="5" height="5" fill="var(--t-shallows)" />
+            <line x1="0" y1="0" x2="0" y2="5" stroke="var(--t-channel)" strokeWidth="2" />
           </pattern>
         </defs>
-        <rect x="0" y="6" width={W} height="20" fill="#EFEADF" />
+        <rect x="0" y="6" width={W} height="20" fill="var(--t-sand-deep)" />
         {segs.map((s) => {
           const rect = (
             <rect key={s.key} x={x(at)} y="6" width={Math.max(0, x(s.w))} height="20" fill={s.fill}>
@@ -92,30 +92,30 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
           return rect;
         })}
         {lost > 0 ? (
-          <rect x={x(data.complete)} y="6" width={x(lost)} height="20" fill="#8A8170" opacity="0.25">
+          <rect x={x(data.complete)} y="6" width={x(lost)} height="20" fill="var(--t-silt)" opacity="0.25">
             <title>{`rows lost to missing values: ${formatCount(lost)}`}</title>
           </rect>
         ) : null}
-        <line x1={x(targetEnd)} x2={x(targetEnd)} y1="1" y2="31" stroke="#12262E" strokeWidth="2" />
-        <text x={Math.min(x(targetEnd) + 4, W - 60)} y="33" fontSize="8" fill="#12262E">
+        <line x1={x(targetEnd)} x2={x(targetEnd)} y1="1" y2="31" stroke="var(--t-ink)" strokeWidth="2" />
+        <text x={Math.min(x(targetEnd) + 4, W - 60)} y="33" fontSize="8" fill="var(--t-ink)">
           target
         </text>
       </svg>
       <figcaption className="flex flex-wrap gap-x-4 gap-y-1 text-xs text-silt-ink tabular-nums">
         <span>
-          <Swatch fill="#1F6F78" /> numeric terms {data.numericParameters}
+          <Swatch fill="var(--t-channel)" /> numeric terms {data.numericParameters}
         </span>
         <span>
           <Swatch hatch /> indicator columns {data.indicatorParameters}
         </span>
         <span>
-          <Swatch fill={data.residualDf >= data.target ? "#4F7A32" : "#A8660B"} /> residual df{" "}
+          <Swatch fill={data.residualDf >= data.target ? "var(--t-reed)" : "var(--t-ochre)"} /> residual df{" "}
           {formatCount(data.residualDf)}
         </span>
         <span>┃ target {formatCount(data.target)}</span>
         {lost > 0 ? (
           <span>
-            <Swatch fill="#8A8170" faded /> lost to missing values {formatCount(lost)}
+            <Swatch fill="var(--t-silt)" faded /> lost to missing values {formatCount(lost)}
           </span>
         ) : null}
       </figcaption>
@@ -130,7 +130,9 @@ function Swatch({ fill, hatch, faded }: { fill?: string; hatch?: boolean; faded?
       className="mr-1 inline-block h-2.5 w-2.5 align-[-1px]"
       style={
         hatch
-          ? { background: "repeating-linear-gradient(45deg,#1F6F78 0 2px,#D8ECEB 2px 5px)" }
+          ? {
+              background: "repeating-linear-gradient(45deg,var(--t-channel) 0 2px,var(--t-shallows) 2px 5px)",
+            }
           : { background: fill, opacity: faded ? 0.35 : 1 }
       }
     />

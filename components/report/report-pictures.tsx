@@ -2,13 +2,22 @@
 import { formatCount, formatNumber } from "@/lib/format";
 import { SeverityBadge } from "@/components/severity-badge";
 
-/** Diverging clay ↔ sand ↔ channel (the palette of tailwind.config.ts), r in [-1, 1]. */
+/**
+ * Diverging clay ↔ sand ↔ channel, r in [-1, 1], mixed from the scheme's custom properties
+ * (app/globals.css) so the picture follows the light or dark scheme.
+ */
 function corrColour(r: number): string {
   const t = Math.max(-1, Math.min(1, r));
-  const mix = (a: number[], b: number[], k: number) => a.map((v, i) => Math.round(v + ((b[i] ?? v) - v) * k));
-  const sand = [247, 244, 238];
-  const c = t >= 0 ? mix(sand, [31, 111, 120], t) : mix(sand, [166, 61, 36], -t);
-  return `rgb(${c.join(",")})`;
+  const end = t >= 0 ? "var(--t-channel)" : "var(--t-clay)";
+  return `color-mix(in srgb, ${end} ${Math.round(Math.abs(t) * 100)}%, var(--t-sand))`;
+}
+
+/**
+ * The value's colour on its cell: ink on the paler cells, sand on the deeper ones. At |r| = 0.7 both
+ * schemes keep WCAG contrast of at least 3.3:1 either side (computed from the palette's values).
+ */
+function corrTextColour(r: number): string {
+  return Math.abs(r) > 0.7 ? "var(--t-sand)" : "var(--t-ink)";
 }
 
 export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; matrix: number[][] }) {
@@ -37,7 +46,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
             y={label + i * cell + cell / 2 + 3}
             fontSize="10"
             textAnchor="end"
-            fill="#12262E"
+            fill="var(--t-ink)"
           >
             {c.length > 22 ? `${c.slice(0, 21)}…` : c}
           </text>
@@ -48,7 +57,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
             x={0}
             y={0}
             fontSize="10"
-            fill="#12262E"
+            fill="var(--t-ink)"
             transform={`translate(${label + j * cell + cell / 2 + 3}, ${label - 6}) rotate(-60)`}
           >
             {c.length > 22 ? `${c.slice(0, 21)}…` : c}
@@ -62,7 +71,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
                 y={label + i * cell}
                 width={cell - 1}
                 height={cell - 1}
-                fill={corrColour(r)}
+                style={{ fill: corrColour(r) }}
               >
                 <title>{`${columns[i]} × ${columns[j]}: r = ${formatNumber(r, "statistic")}`}</title>
               </rect>
@@ -72,7 +81,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
                   y={label + i * cell + cell / 2 + 3}
                   fontSize="10"
                   textAnchor="middle"
-                  fill={Math.abs(r) > 0.55 ? "#FFFFFF" : "#12262E"}
+                  style={{ fill: corrTextColour(r) }}
                   className="tabular-nums"
                 >
                   {formatNumber(Math.round(r * 100) / 100, "measure")}
@@ -85,7 +94,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
       <p className="mt-1 text-xs text-silt-ink">
         <span
           className="mr-1 inline-block h-2.5 w-6 align-middle"
-          style={{ background: "linear-gradient(90deg, rgb(166,61,36), rgb(247,244,238), rgb(31,111,120))" }}
+          style={{ background: "linear-gradient(90deg, var(--t-clay), var(--t-sand), var(--t-channel))" }}
           aria-hidden="true"
         />
         r from −1 (clay) through 0 (sand) to +1 (channel), on the complete cases.

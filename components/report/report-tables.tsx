@@ -23,12 +23,17 @@ export function FindingsTable({
   findings,
   caption = "Findings",
   csvName,
+  commentable = false,
 }: {
   findings: FindingRow[];
   caption?: string;
   csvName?: string;
+  /** the version's own findings on a page where a decision is made: a comment box on each row */
+  commentable?: boolean;
 }) {
-  const review = useReview();
+  // the pool's findings (drift, poolability) shown under a decision are not the version's: no comment
+  const context = useReview();
+  const review = commentable ? context : null;
   const columns: Column<FindingRow>[] = [
     {
       key: "severity",

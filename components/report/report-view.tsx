@@ -1,5 +1,5 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
-import { Section } from "@/components/ui";
+import { MatrixTable, Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
 import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
@@ -103,7 +103,7 @@ export function ReportView({
         id="findings"
         note="Row numbers count the header as row 1, as a spreadsheet shows them."
       >
-        <FindingsTable findings={rows} csvName={`${csvPrefix}-findings`} />
+        <FindingsTable findings={rows} csvName={`${csvPrefix}-findings`} commentable />
       </Section>
 
       {report.status === "checked" ? (
@@ -141,7 +141,14 @@ export function ReportView({
                   vifStrong={t.vifStrong}
                   csvName={`${csvPrefix}-collinearity`}
                 />
-                <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
+                <div>
+                  <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
+                  <MatrixTable
+                    caption="Correlations of the design columns"
+                    labels={coll.correlations.columns}
+                    matrix={coll.correlations.matrix}
+                  />
+                </div>
                 <div>
                   <h3 className="mb-1 text-md font-semibold">Condition indices</h3>
                   <p className="mb-2 text-xs text-silt-ink">

@@ -1,6 +1,6 @@
 "use client";
 import { DataTable, type Column } from "@/components/data-table";
-import { formatDateTime } from "@/lib/format";
+import { LocalTime } from "@/components/ui/local-time";
 
 type Entry = { id: string; at: string; who: string; what: string; detail: string };
 
@@ -8,10 +8,10 @@ export function TrailTable({ entries, csvName }: { entries: Entry[]; csvName: st
   const columns: Column<Entry>[] = [
     {
       key: "at",
-      header: "When (UTC)",
+      header: "When",
       width: "12rem",
       value: (e) => e.at,
-      render: (e) => formatDateTime(e.at),
+      render: (e) => <LocalTime value={e.at} className="tabular" />,
     },
     { key: "what", header: "What", width: "12rem", value: (e) => e.what },
     { key: "who", header: "Who", width: "12rem", value: (e) => e.who },

@@ -20,7 +20,8 @@ import { getVersionReportForUser } from "@/lib/batches/queries-reports";
 import { getVersionFixForUser } from "@/lib/batches/queries-fixes";
 import { FixPanel } from "@/components/fixes/fix-panel";
 import { MachineCorrected } from "@/components/fixes/machine-corrected";
-import { formatBytes, formatDateTime } from "@/lib/format";
+import { LocalTime } from "@/components/ui/local-time";
+import { formatBytes } from "@/lib/format";
 
 export const metadata = { title: "Batch" };
 
@@ -89,7 +90,7 @@ export default async function BatchPage({
           <>
             Version {version.version} of {batch.latestVersion}:{" "}
             <span className="font-mono text-sm">{version.fileName}</span> ({formatBytes(version.fileSize)}),
-            uploaded {formatDateTime(version.uploadedAt)}
+            uploaded <LocalTime value={version.uploadedAt} />
             {version.uploadedByName ? ` by ${version.uploadedByName}` : ""}, checked against data plan version{" "}
             {found.plan.version}.
           </>
@@ -201,7 +202,7 @@ export default async function BatchPage({
           >
             <p className="text-sm">
               {found.decision.decision === "accept" ? "Accepted" : "Bounced"} by {found.decision.decidedBy} on{" "}
-              {formatDateTime(found.decision.decidedAt)}.
+              <LocalTime value={found.decision.decidedAt} />.
             </p>
             {found.decision.comment ? (
               <p className="mt-2 whitespace-pre-wrap text-base">{found.decision.comment}</p>
