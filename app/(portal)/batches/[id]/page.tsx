@@ -11,6 +11,7 @@ import { ReportView, findingKey, verdictOf } from "@/components/report/report-vi
 import { SummaryBar, type SectionLink } from "@/components/triage/summary-bar";
 import { ReviewProvider } from "@/components/triage/review-context";
 import { NextInQueue } from "@/components/triage/next-in-queue";
+import { PendingNotes } from "@/components/triage/pending-notes";
 import { getNextInQueueForUser } from "@/lib/batches/queries-next";
 import { getIfAcceptedForUser } from "@/lib/pool/queries";
 import { requireUser } from "@/lib/auth/session";
@@ -166,6 +167,7 @@ export default async function BatchPage({
       />
 
       <CheckProgress batchId={batch.publicId} version={version.version} state={version.state} />
+      <PendingNotes notes={found.notes} />
 
       {previous ? (
         <Section
