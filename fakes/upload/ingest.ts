@@ -5,7 +5,7 @@
  * posts /callback-result (fakes/UPLOADS.md "One upload, step by step").
  */
 import type { IncomingMessage, ServerResponse } from "node:http";
-import { boundaryOf, MultipartError, receiveMultipartFile } from "./multipart";
+import { isMultipartWithBoundary, MultipartError, NOT_MULTIPART, receiveMultipartFile } from "./multipart";
 import { CORS_HEADERS, drain, sendJson } from "./http-util";
 import { checkSignedUrl, sign, utParam } from "./signing";
 import { IngestState, type Registration } from "./state";
@@ -119,8 +119,8 @@ export async function handlePut(
   const range = /^bytes=(\d+)-$/.exec(String(req.headers.range ?? "bytes=0-"));
   if (!range || range[1] !== "0")
     return reject(req, res, 416, "Only whole uploads are accepted (Range: bytes=0-).");
-  const boundary = boundaryOf(req.headers["content-type"]);
-  if (!boundary) return reject(req, res, 400, "The upload must be multipart/form-data with a `file` part.");
+  const contentType = req.headers["content-type"];
+  if (!isMultipartWithBoundary(contentType)) return reject(req, res, 400, NOT_MULTIPART);
   if (ctx.state.uploading.has(key)) return reject(req, res, 409, "This file key is being uploaded already.");
 
   const slug = utParam(p, "x-ut-slug");
@@ -143,7 +143,7 @@ export async function handlePut(
     const hasSize = Number.isInteger(declared) && declared >= 0;
     let got;
     try {
-      got = await receiveMultipartFile(req, boundary, temp, hasSize ? declared : ctx.maxUploadBytes);
+      got = await receiveMultipartFile(req, contentType, temp, hasSize ? declared : ctx.maxUploadBytes);
     } catch (e) {
       await ctx.store.discard(temp);
       if (!(e instanceof MultipartError)) {
