@@ -3,7 +3,7 @@
  * The provider's upload: choose the study (or send a new version of a batch), choose a
  * file, see the engine's findings from the browser at once, then upload with progress.
  */
-import { useMemo, useRef, useState } from "react";
+import { useEffect, useMemo, useRef, useState } from "react";
 import { useRouter } from "next/navigation";
 import { toast } from "sonner";
 import { generateReactHelpers } from "@uploadthing/react";
@@ -13,6 +13,7 @@ import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
 import { batchFileProblem } from "@/lib/batches/intake/file-rules";
 import { countOf, formatBytes } from "@/lib/format";
 import { usePrecheck } from "@/lib/client/use-precheck";
+import { useHydrated } from "@/lib/client/use-hydrated";
 import { uploadErrorMessage } from "@/lib/batches/intake/upload-errors";
 
 const { useUploadThing } = generateReactHelpers<BatchFileRouter>();
@@ -39,6 +40,7 @@ export function UploadPanel({
   const [progress, setProgress] = useState<number | null>(null);
   const input = useRef<HTMLInputElement>(null);
   const precheck = usePrecheck();
+  const hydrated = useHydrated();
   const study = useMemo(() => studies.find((s) => s.slug === studySlug), [studies, studySlug]);
 
   const { startUpload, isUploading } = useUploadThing("batchFile", {
@@ -59,6 +61,14 @@ export function UploadPanel({
     setFile(f);
     if (study) precheck.run(f, study.plan);
   }
+
+  // A file chosen before the page's script ran (a slow connection, or a test driving the input)
+  // fired its change event with no handler yet: take it up once the page is live, so it is not lost.
+  const chooseOnMount = useRef(choose);
+  useEffect(() => {
+    const early = input.current?.files?.[0];
+    if (early) chooseOnMount.current(early);
+  }, []);
 
   async function upload() {
     if (!file || !study) return;
@@ -133,6 +143,7 @@ export function UploadPanel({
           className="sr-only"
           aria-label="Batch file"
           data-testid="batch-file-input"
+          data-ready={hydrated ? "true" : undefined}
           onChange={(e) => choose(e.target.files?.[0] ?? null)}
         />
         <p className="mt-3 text-sm text-silt-ink">CSV or TSV, UTF-8, up to {maxUploadMb} MB.</p>

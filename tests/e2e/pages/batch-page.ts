@@ -15,9 +15,10 @@ export class BatchPage {
 
   /** Chooses a file (built in memory) in the upload panel. */
   async chooseFile(name: string, csv: string): Promise<void> {
-    await this.page
-      .getByTestId("batch-file-input")
-      .setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
+    // the panel takes the file from its script on: wait until the page is live (data-ready)
+    const input = this.page.locator('[data-testid="batch-file-input"][data-ready="true"]');
+    await input.waitFor({ state: "attached" });
+    await input.setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
   }
 
   async upload(): Promise<string> {
