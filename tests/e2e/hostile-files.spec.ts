@@ -29,10 +29,11 @@ async function signedIn(browser: Browser): Promise<Page> {
 
 async function choose(page: Page, id: string): Promise<void> {
   const f = file(id);
-  // the panel takes the file from its script on: wait until the page is live (data-ready)
-  const input = page.locator('[data-testid="batch-file-input"][data-ready="true"]');
-  await input.waitFor({ state: "attached" });
-  await input.setInputFiles({ name: f.fileName, mimeType: "text/csv", buffer: Buffer.from(f.bytes()) });
+  await new BatchPage(page).fileInput.setInputFiles({
+    name: f.fileName,
+    mimeType: "text/csv",
+    buffer: Buffer.from(f.bytes()),
+  });
 }
 
 /** The server still answers (the provider's home loads), and the page ran without CSP refusals or uncaught errors. */
@@ -114,7 +115,7 @@ test("a 20 MB line without a line break: the page stays responsive while the bro
         w.beat.last = now;
       }, 20);
     });
-    await page.locator('[data-testid="batch-file-input"][data-ready="true"]').setInputFiles(onDisk);
+    await batch.fileInput.setInputFiles(onDisk);
     // the page answers input while the check runs in its Web Worker
     await page.getByLabel("Batch name (optional)").fill("one long line");
     await expect(page.getByLabel("Batch name (optional)")).toHaveValue("one long line");

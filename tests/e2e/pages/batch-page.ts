@@ -5,20 +5,20 @@ export class BatchPage {
   readonly precheck: Locator;
   readonly verdict: Locator;
   readonly findings: Locator;
+  /** The file input once the page is live: the panel takes a file from its script on (data-ready). */
+  readonly fileInput: Locator;
 
   constructor(readonly page: Page) {
     this.precheck = page.getByTestId("precheck");
     this.verdict = page.getByTestId("verdict");
     // react-table-library renders its tables with the grid role
     this.findings = page.getByRole("grid", { name: "Findings" });
+    this.fileInput = page.locator('[data-testid="batch-file-input"][data-ready="true"]');
   }
 
   /** Chooses a file (built in memory) in the upload panel. */
   async chooseFile(name: string, csv: string): Promise<void> {
-    // the panel takes the file from its script on: wait until the page is live (data-ready)
-    const input = this.page.locator('[data-testid="batch-file-input"][data-ready="true"]');
-    await input.waitFor({ state: "attached" });
-    await input.setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
+    await this.fileInput.setInputFiles({ name, mimeType: "text/csv", buffer: Buffer.from(csv, "utf8") });
   }
 
   async upload(): Promise<string> {
