@@ -11,6 +11,7 @@ import type { BatchFileRouter } from "@/lib/batches/intake/file-router";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { SeverityBadge, SeverityShape } from "@/components/severity-badge";
 import { batchFileProblem } from "@/lib/batches/intake/file-rules";
+import { beforeUploadList } from "@/lib/batches/intake/precheck-list";
 import { countOf, formatBytes } from "@/lib/format";
 import { usePrecheck } from "@/lib/client/use-precheck";
 import { useHydrated } from "@/lib/client/use-hydrated";
@@ -88,6 +89,7 @@ export function UploadPanel({
   }
 
   const s = precheck.state;
+  const serious = s.phase === "done" ? beforeUploadList(s.report.findings) : { listed: [], more: 0 };
   const pct =
     s.phase === "running" && s.total > 0 ? Math.min(100, Math.round((s.bytes / s.total) * 100)) : null;
 
@@ -132,7 +134,7 @@ export function UploadPanel({
           choose(e.dataTransfer.files?.[0] ?? null);
         }}
       >
-        <p className="mb-3 text-ink">Drop a CSV file here, or</p>
+        <p className="mb-3 text-ink">Drop the batch file here, or</p>
         <Button variant="secondary" onClick={() => input.current?.click()}>
           Choose a file
         </Button>
@@ -175,20 +177,23 @@ export function UploadPanel({
                 {countOf(s.report.rows.total, "row")}, {countOf(s.report.rows.complete, "complete case")}
               </span>
             </div>
-            {s.report.findings.filter((f) => f.severity !== "note").length > 0 ? (
+            {serious.listed.length > 0 ? (
               <ul className="grid gap-1 text-sm">
-                {s.report.findings
-                  .filter((f) => f.severity !== "note")
-                  .slice(0, 12)
-                  .map((f, i) => (
-                    <li key={`${f.code}-${i}`} className="flex gap-2">
-                      <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
-                      <span>
-                        <code className="text-xs text-silt-ink">{f.code}</code> {f.message}{" "}
-                        <span className="text-silt-ink">— {f.fix}</span>
-                      </span>
-                    </li>
-                  ))}
+                {serious.listed.map((f, i) => (
+                  <li key={`${f.code}-${i}`} className="flex gap-2">
+                    <SeverityShape severity={f.severity} className="mt-1 shrink-0" />
+                    <span>
+                      <code className="text-xs text-silt-ink">{f.code}</code> {f.message}{" "}
+                      <span className="text-silt-ink">— {f.fix}</span>
+                    </span>
+                  </li>
+                ))}
+                {serious.more > 0 ? (
+                  <li className="text-silt-ink">
+                    and {countOf(serious.more, "more blocker or warning", "more blockers or warnings")}: the
+                    report after upload lists every one.
+                  </li>
+                ) : null}
               </ul>
             ) : (
               <p className="text-sm text-reed">No blockers or warnings found in the browser.</p>
