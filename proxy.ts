@@ -7,7 +7,8 @@ import { getToken } from "next-auth/jwt";
 import { contentSecurityPolicy } from "@/lib/csp";
 import { rawSetting } from "@/lib/env";
 
-const PUBLIC_PAGES = ["/sign-in", "/forgot-password", "/set-password"];
+// the API reference is public like the document it draws (GET /api/v1/openapi.json)
+const PUBLIC_PAGES = ["/sign-in", "/forgot-password", "/set-password", "/api-reference"];
 
 function isPublicPage(pathname: string): boolean {
   return PUBLIC_PAGES.some((p) => pathname === p || pathname.startsWith(`${p}/`));

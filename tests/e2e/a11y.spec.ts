@@ -37,6 +37,21 @@ test("the sign-in page has no serious or critical accessibility violation, light
   expect(found, JSON.stringify(found, null, 2)).toEqual([]);
 });
 
+test("the API reference page has no serious or critical accessibility violation, light or dark", async ({
+  page,
+}) => {
+  await page.goto("/api-reference");
+  // scan once the viewer has drawn the document (its title and first operation), not its loading line
+  await expect(page.getByRole("heading", { name: "Tributary API" })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "This document." })).toBeVisible();
+  const found: Found[] = [];
+  for (const scheme of ["light", "dark"] as const) {
+    await page.emulateMedia({ colorScheme: scheme });
+    found.push(...(await scan(page, "/api-reference", scheme)));
+  }
+  expect(found, JSON.stringify(found, null, 2)).toEqual([]);
+});
+
 for (const [role, email] of Object.entries(ROLE_ACCOUNTS)) {
   test(`every page of the ${role} has no serious or critical accessibility violation, light or dark`, async ({
     page,

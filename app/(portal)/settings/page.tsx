@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { requireUser } from "@/lib/auth/session";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
@@ -43,8 +44,14 @@ export default async function SettingsPage() {
         <Section
           id="tokens"
           title="API tokens"
-          note="For scripts that upload batches or read reports through the API (see the README). A token can do what you can, no more."
+          note="For scripts that upload batches or read reports through the API. A token can do what you can, no more."
         >
+          <p className="mb-3 text-base">
+            <Link href="/api-reference" className="text-channel-deep underline underline-offset-2">
+              API reference
+            </Link>{" "}
+            — every route, its parameters and its answers.
+          </p>
           <ApiTokens
             first={{
               data: tokens.rows.map((t) => ({
