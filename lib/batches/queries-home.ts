@@ -78,6 +78,9 @@ function sumCounts(all: Iterable<StateCounts>): StateCounts {
   return total;
 }
 
+/** How many batches awaiting review the analyst's home lists; the review queue pages through all. */
+export const HOME_QUEUE_SHOWN = 20;
+
 /** What the user's home page shows, shaped by role. */
 export async function getHomeSummary(user: SessionUser): Promise<HomeSummary> {
   const db = getDb();
@@ -101,7 +104,7 @@ export async function getHomeSummary(user: SessionUser): Promise<HomeSummary> {
       const [studyList, counts, queue] = await Promise.all([
         listStudiesForUser(user),
         stateCountsByStudy(user),
-        listBatchesForUser(user, { state: "ready", limit: 20 }),
+        listBatchesForUser(user, { state: "ready", limit: HOME_QUEUE_SHOWN }),
       ]);
       const withCounts = studyList.map((s) => {
         const c = counts.get(s.id) ?? emptyCounts();

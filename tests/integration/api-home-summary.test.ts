@@ -6,7 +6,7 @@ vi.mock("server-only", () => ({}));
 
 import { getPool } from "@/db/client";
 import type { SessionUser } from "@/lib/auth/session";
-import { getHomeSummary } from "@/lib/batches/queries-home";
+import { getHomeSummary, HOME_QUEUE_SHOWN } from "@/lib/batches/queries-home";
 import { listOrganisations } from "@/lib/people/queries-organisations";
 import { listUsers } from "@/lib/people/queries";
 import { createWorld, type World, type WorldUser } from "./helpers/world";
@@ -55,6 +55,19 @@ describe("getHomeSummary", () => {
       [w.studyB.id, 0, 1],
     ]);
     expect(b.queue).toEqual([]);
+  });
+
+  test("analyst: past the home's list, the count still says how many wait (the page links to the queue)", async () => {
+    const big = await createWorld();
+    for (let i = 0; i < HOME_QUEUE_SHOWN + 4; i++) {
+      await big.addBatch(big.studyA.id, big.farmA.id, big.users.providerA, "ready");
+    }
+    const home = await getHomeSummary(sessionUser(big.users.analystA));
+    if (home.role !== "analyst") throw new Error("expected an analyst home");
+    // the world's own ready batch plus the ones added here
+    expect(home.readyForReview).toBe(HOME_QUEUE_SHOWN + 5);
+    expect(home.queue).toHaveLength(HOME_QUEUE_SHOWN);
+    expect(new Set(home.queue.map((q) => q.publicId)).size).toBe(HOME_QUEUE_SHOWN);
   });
 
   test("lead: every study with batches by state and providers admitted", async () => {

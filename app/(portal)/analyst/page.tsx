@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { getHomeSummary } from "@/lib/batches/queries-home";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
@@ -32,7 +33,19 @@ export default async function AnalystHome() {
       <Section
         id="queue"
         title="Awaiting review"
-        note="Oldest first is usually fairest: sort by “State since”."
+        note={
+          home.readyForReview > home.queue.length ? (
+            <>
+              The {home.queue.length} most recently uploaded of {home.readyForReview} waiting.{" "}
+              <Link href="/queue" className="text-channel-deep underline underline-offset-2">
+                The review queue
+              </Link>{" "}
+              lists every one, oldest first.
+            </>
+          ) : (
+            "Oldest first is usually fairest: sort by “State since”."
+          )
+        }
       >
         <BatchTable
           caption="Batches awaiting review"

@@ -51,6 +51,13 @@ export type World = {
   };
   batchA: { id: number; publicId: string };
   batchB: { id: number; publicId: string };
+  /** One more batch with a single version in `state`, uploaded by `uploader`. */
+  addBatch: (
+    studyId: number,
+    organisationId: number,
+    uploader: WorldUser,
+    state: "ready" | "accepted",
+  ) => Promise<{ id: number; publicId: string }>;
 };
 
 // bcrypt cost 4 keeps the fixtures fast; the sign-in code reads the cost from the hash
@@ -159,7 +166,7 @@ export async function createWorld(): Promise<World> {
   const batchA = await batch(studyA.id, farmA.id, u.providerA, "ready");
   const batchB = await batch(studyB.id, farmB.id, u.providerB, "accepted");
 
-  return { tag, team, farmA, farmB, studyA, studyB, users: u, batchA, batchB };
+  return { tag, team, farmA, farmB, studyA, studyB, users: u, batchA, batchB, addBatch: batch };
 }
 
 /** Inserts an API token for `user` directly and returns its value. */
