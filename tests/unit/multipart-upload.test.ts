@@ -65,6 +65,19 @@ describe("receiveMultipart", () => {
     expect(await tempUploads()).toBe(before);
   });
 
+  test("a file of exactly the limit is accepted, one byte more is refused (the limit is inclusive)", async () => {
+    const sized = (n: number) => {
+      const form = new FormData();
+      form.append("file", new File([new Uint8Array(n).fill(49)], "edge.csv"));
+      return formRequest(form, true);
+    };
+    const got = await receiveMultipart(await sized(100_000), 100_000, "too large");
+    expect(got.file?.size).toBe(100_000);
+    await got.discard();
+    const err = await receiveMultipart(await sized(100_001), 100_000, "too large").catch((e: unknown) => e);
+    expect((err as AppError).message).toBe("too large");
+  });
+
   test("two file parts are refused; a body without a file gives file null", async () => {
     const two = new FormData();
     two.append("file", new File(["a\n1\n"], "a.csv"));

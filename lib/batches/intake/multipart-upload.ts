@@ -62,7 +62,9 @@ export async function receiveMultipart(
       headers: { "content-type": type },
       defParamCharset: "utf8",
       preservePath: true,
-      limits: { files: 1, fileSize: maxBytes, fields: 16, fieldSize: 4096, parts: 20 },
+      // busboy flags a file once it *reaches* fileSize: one byte more keeps a file of exactly
+      // maxBytes acceptable, as the size rule before upload and the upload service both allow
+      limits: { files: 1, fileSize: maxBytes + 1, fields: 16, fieldSize: 4096, parts: 20 },
     });
   } catch {
     await discard();
