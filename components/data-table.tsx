@@ -205,7 +205,7 @@ export function DataTable<T extends TableNode>({
       {rows.length === 0 && empty ? (
         empty
       ) : (
-        <div className="overflow-x-auto rounded border border-silt-line">
+        <div className="relative overflow-x-auto rounded border border-silt-line">
           <Table
             data={data}
             sort={sort}

@@ -55,8 +55,8 @@ export function HeadroomChart({ series }: { series: HeadroomSeries[] }) {
     })),
   );
   return (
-    <div className="grid gap-4">
-      <div className="grid gap-4 md:grid-cols-2" data-testid="headroom-chart">
+    <div className="grid grid-cols-1 gap-4">
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-2" data-testid="headroom-chart">
         {series.map((s) => {
           const data = s.history.map((h) => ({ ...h, label: h.week.slice(5) }));
           const ticks = niceTicks(

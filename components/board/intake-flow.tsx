@@ -65,7 +65,7 @@ export function IntakeFlow({
   const stillReceived = received - value.checking!;
   const summary = `Since ${sinceLabel}: ${received} versions received, ${value.checking} checked, ${value.ready} awaiting review, ${value.unreadable} unreadable, ${value.accepted} accepted, ${value.bounced} bounced, ${value.superseded} superseded before a decision, ${waitingInReady} still waiting for a decision.`;
   return (
-    <figure className="grid gap-1" data-testid="intake-flow">
+    <figure className="grid grid-cols-1 gap-1" data-testid="intake-flow">
       <svg viewBox={`0 0 ${W} ${H}`} className="w-full max-w-4xl" role="img" aria-label={summary}>
         {links.map((l) => {
           const a = pos[l.from]!;

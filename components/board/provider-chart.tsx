@@ -45,7 +45,7 @@ export function ProviderChart({ rows }: { rows: ProviderRow[] }) {
       vpb: r.versionsPerBatch,
     }));
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       {decided.length ? (
         <figure
           className="w-full max-w-4xl"

@@ -40,7 +40,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
   // whole hours, 1-2-2.5-5 steps: distinct labels whatever the spread
   const ticks = niceTicks(0, Math.max(1, ...weeks.map((w) => w.p90Hours ?? 0)), 5, true);
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       {any ? (
         <figure
           className="h-64 w-full max-w-4xl"

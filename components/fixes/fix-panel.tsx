@@ -177,7 +177,7 @@ export function FixPanel(props: {
               ))}
             </fieldset>
           )}
-          <ul className="grid gap-2">
+          <ul className="grid grid-cols-1 gap-2">
             {s.proposals.map((p) => (
               <ProposalRow
                 key={p.id}

@@ -94,13 +94,13 @@ export function UploadPanel({
     s.phase === "running" && s.total > 0 ? Math.min(100, Math.round((s.bytes / s.total) * 100)) : null;
 
   return (
-    <div className="grid gap-5">
+    <div className="grid grid-cols-1 gap-5">
       {batch ? (
         <p className="text-sm text-ink">
           New version of <strong>{batch.title}</strong>. The previous version will be marked superseded.
         </p>
       ) : (
-        <div className="grid gap-4 sm:grid-cols-2">
+        <div className="grid grid-cols-1 gap-4 sm:grid-cols-2">
           <Field id="study" label="Study">
             <Select
               id="study"
@@ -167,7 +167,7 @@ export function UploadPanel({
         ) : null}
         {s.phase === "error" ? <p className="text-sm text-silt-ink">{s.message}</p> : null}
         {s.phase === "done" ? (
-          <div className="grid gap-2">
+          <div className="grid grid-cols-1 gap-2">
             <div className="flex flex-wrap items-center gap-3 text-sm">
               <span className="font-semibold">Before upload:</span>
               <SeverityBadge severity="blocker" count={s.report.counts.blocker} />
@@ -178,7 +178,7 @@ export function UploadPanel({
               </span>
             </div>
             {serious.listed.length > 0 ? (
-              <ul className="grid gap-1 text-sm">
+              <ul className="grid grid-cols-1 gap-1 text-sm">
                 {serious.listed.map((f, i) => (
                   <li key={`${f.code}-${i}`} className="flex gap-2">
                     <SeverityShape severity={f.severity} className="mt-1 shrink-0" />

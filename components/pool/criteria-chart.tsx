@@ -114,8 +114,8 @@ export function CriteriaCharts({ selection, csvName }: { selection: SelectionPre
   }));
   const pick = (c: Criterion) => selection.picks.find((p) => p.criterion === c)?.size;
   return (
-    <div className="grid gap-4">
-      <div className="grid gap-4 md:grid-cols-2 xl:grid-cols-4" data-testid="criteria-chart">
+    <div className="grid grid-cols-1 gap-4">
+      <div className="grid grid-cols-1 gap-4 md:grid-cols-2 xl:grid-cols-4" data-testid="criteria-chart">
         {(["adjR2", "cp", "aic", "bic"] as const).map((c) => (
           <SmallChart key={c} data={rows} field={c} pick={pick(c)} testId={`criterion-${c}`} />
         ))}

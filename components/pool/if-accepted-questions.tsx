@@ -24,7 +24,7 @@ export async function IfAcceptedQuestions({
   const q = view.stored?.result ?? null;
   const name = `${batchPublicId}-v${version}`;
   return (
-    <div className="grid gap-3" data-testid="if-accepted-questions">
+    <div className="grid grid-cols-1 gap-3" data-testid="if-accepted-questions">
       <h3 className="text-md font-semibold">Can it be pooled?</h3>
       <QuestionsStatus view={view} what="this version's poolability and influence" />
       {view.stored?.error ? (

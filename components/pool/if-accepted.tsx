@@ -45,7 +45,7 @@ export async function IfAcceptedPanel({
         </>
       }
     >
-      <div className="grid gap-4" data-testid="if-accepted">
+      <div className="grid grid-cols-1 gap-4" data-testid="if-accepted">
         <PoolFigures
           caption="Pool figures now and if this version is accepted"
           columns={[

@@ -74,7 +74,7 @@ export function InfluenceChart({
     .map((d) => `${d.name}: ${formatStat(d.shift)} SE${d.influential ? ", at or above the threshold" : ""}`)
     .join("; ");
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       {data.length ? (
         <figure
           className="w-full max-w-4xl"

@@ -37,7 +37,7 @@ function Poolability({ q, slug }: { q: PoolQuestions; slug: string }) {
   ];
   const own = findings(q, "pool.");
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       {p.whole ? (
         <Callout testId="whole-pool-test">
           <p className="font-semibold">{p.whole.words}</p>
@@ -81,7 +81,7 @@ function Overall({ q }: { q: PoolQuestions }) {
   if (!o)
     return <p className="text-sm text-silt-ink">No test: the pool has no residual degrees of freedom yet.</p>;
   return (
-    <div className="grid gap-2">
+    <div className="grid grid-cols-1 gap-2">
       <Callout testId="overall-test">
         <p className="font-semibold">{o.words}</p>
       </Callout>
@@ -122,7 +122,7 @@ function Selection({ q, slug }: { q: PoolQuestions; slug: string }) {
   }
   const own = findings(q, "selection.");
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       <Callout testId="selection-caution">
         <p className="font-semibold">{q.caution}</p>
       </Callout>
@@ -178,7 +178,7 @@ export function PoolQuestionsSections({ view, slug }: { view: QuestionsView; slu
         id="poolability"
         note="Each batch and each provider against the rest of the pool by Chow's test (Chow 1960); beside p, the largest shift of the coefficients it causes — with thousands of rows a harmless difference tests significant, so read the size too."
       >
-        <div className="grid gap-3">
+        <div className="grid grid-cols-1 gap-3">
           <QuestionsStatus view={view} what="the pool's questions" />
           {body((x) => (
             <Poolability q={x} slug={slug} />

@@ -49,7 +49,7 @@ export function StabilityBars({ stability, csvName }: { stability: Stability; cs
   const rows = stability.shares.map((s) => ({ id: s.term, term: s.term, share: s.share }));
   const data = rows.map((r) => ({ ...r, pct: Math.round(r.share * 100) }));
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       <figure
         className="w-full max-w-3xl"
         style={{ height: 60 + 28 * data.length }}

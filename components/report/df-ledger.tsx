@@ -67,7 +67,7 @@ export function DfLedger({ data, label }: { data: LedgerInput; label: string }) 
   const headroom = data.residualDf - data.target;
   const summary = `${label}: ${formatCount(data.complete)} complete of ${formatCount(data.total)} rows; ${used} used by the intercept and ${data.numericParameters + data.indicatorParameters} parameters (${data.indicatorParameters} indicator columns); residual df ${formatCount(data.residualDf)} against a target of ${formatCount(data.target)} (${headroom >= 0 ? `${formatCount(headroom)} to spare` : `${formatCount(-headroom)} short`}).`;
   return (
-    <figure className="grid gap-1" data-testid="df-ledger">
+    <figure className="grid grid-cols-1 gap-1" data-testid="df-ledger">
       <svg viewBox={`0 0 ${W} 34`} className="h-9 w-full max-w-[640px]" role="img" aria-label={summary}>
         <defs>
           <pattern

@@ -31,7 +31,7 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
   const size = label + n * cell;
   const showValues = cell >= 40;
   return (
-    <div className="overflow-x-auto">
+    <div className="relative overflow-x-auto">
       <svg
         width={size}
         height={size}
@@ -117,7 +117,7 @@ export function MissingnessMap({
     return <p className="text-sm text-reed-ink">No missing values in the planned columns.</p>;
   const max = Math.max(1, ...patterns.map((p) => p.count));
   return (
-    <div className="overflow-x-auto">
+    <div className="relative overflow-x-auto">
       <table className="border-collapse text-xs" aria-label="Missingness patterns">
         <thead>
           <tr>
@@ -184,32 +184,34 @@ export function ConditionIndices({
 }) {
   if (indices.length === 0) return null;
   return (
-    <table className="text-sm" aria-label="Condition indices">
-      <thead>
-        <tr className="text-left">
-          <th className="pr-4 font-semibold">Dimension</th>
-          <th className="pr-4 text-right font-semibold">Condition index</th>
-          <th className="font-semibold">Columns with more than {share} of their variance here</th>
-        </tr>
-      </thead>
-      <tbody>
-        {indices.map((eta, k) => {
-          const cols = (proportions.matrix[k] ?? [])
-            .map((v, j) => (v > share ? proportions.columns[j] : null))
-            .filter(Boolean);
-          const high = eta >= threshold && cols.length >= 2;
-          return (
-            <tr key={k} className={high ? "text-ochre-ink" : undefined}>
-              <td className="pr-4 tabular-nums">{k + 1}</td>
-              <td className="pr-4 text-right tabular-nums">
-                {formatNumber(eta, "statistic")}
-                {high ? <SeverityBadge severity="warning" className="ml-2" /> : null}
-              </td>
-              <td className="font-mono text-xs">{cols.join(", ") || "—"}</td>
-            </tr>
-          );
-        })}
-      </tbody>
-    </table>
+    <div className="relative overflow-x-auto">
+      <table className="text-sm" aria-label="Condition indices">
+        <thead>
+          <tr className="text-left">
+            <th className="pr-4 font-semibold">Dimension</th>
+            <th className="pr-4 text-right font-semibold">Condition index</th>
+            <th className="font-semibold">Columns with more than {share} of their variance here</th>
+          </tr>
+        </thead>
+        <tbody>
+          {indices.map((eta, k) => {
+            const cols = (proportions.matrix[k] ?? [])
+              .map((v, j) => (v > share ? proportions.columns[j] : null))
+              .filter(Boolean);
+            const high = eta >= threshold && cols.length >= 2;
+            return (
+              <tr key={k} className={high ? "text-ochre-ink" : undefined}>
+                <td className="pr-4 tabular-nums">{k + 1}</td>
+                <td className="pr-4 text-right tabular-nums">
+                  {formatNumber(eta, "statistic")}
+                  {high ? <SeverityBadge severity="warning" className="ml-2" /> : null}
+                </td>
+                <td className="font-mono text-xs">{cols.join(", ") || "—"}</td>
+              </tr>
+            );
+          })}
+        </tbody>
+      </table>
+    </div>
   );
 }

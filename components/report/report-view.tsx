@@ -1,17 +1,12 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
-import { MatrixTable, Section } from "@/components/ui";
+import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
 import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
 import { DfLedger, ledgerOf } from "./df-ledger";
-import {
-  CoefficientsTable,
-  CollinearityTable,
-  ColumnsTable,
-  FindingsTable,
-  type FindingRow,
-} from "./report-tables";
-import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "./report-pictures";
+import { CoefficientsTable, ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
+import { MissingnessMap } from "./report-pictures";
+import { CollinearityPanel } from "./collinearity-panel";
 
 export function verdictOf(report: ReadinessReport): { tone: "clay" | "ochre" | "reed"; text: string } {
   if (report.status === "unreadable")
@@ -73,7 +68,7 @@ export function ReportView({
   const coll = report.collinearity;
 
   return (
-    <div className="grid gap-2">
+    <div className="grid grid-cols-1 gap-2">
       <div className={`mb-4 rounded border-l-4 px-4 py-3 ${toneClass}`} data-testid="verdict">
         <p className="text-md font-semibold">{verdict.text}</p>
         <div className="mt-2 flex flex-wrap items-center gap-3">
@@ -122,48 +117,7 @@ export function ReportView({
             note="On the complete cases of the planned design. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992), comparable to √VIF."
           >
             {coll ? (
-              <div className="grid gap-6">
-                {coll.aliased.length > 0 ? (
-                  <ul className="text-sm">
-                    {coll.aliased.map((a) => (
-                      <li key={a.term} className="text-clay-ink">
-                        ■{" "}
-                        <span className="font-mono">
-                          {a.term} = {a.combination}
-                        </span>
-                      </li>
-                    ))}
-                  </ul>
-                ) : null}
-                <CollinearityTable
-                  terms={coll.terms}
-                  vifWarning={t.vifWarning}
-                  vifStrong={t.vifStrong}
-                  csvName={`${csvPrefix}-collinearity`}
-                />
-                <div>
-                  <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
-                  <MatrixTable
-                    caption="Correlations of the design columns"
-                    labels={coll.correlations.columns}
-                    matrix={coll.correlations.matrix}
-                  />
-                </div>
-                <div>
-                  <h3 className="mb-1 text-md font-semibold">Condition indices</h3>
-                  <p className="mb-2 text-xs text-silt-ink">
-                    Columns scaled to unit length, intercept included, not centred (Belsley, Kuh &amp; Welsch
-                    1980). Flagged at η ≥ {t.conditionIndex} with two or more columns above{" "}
-                    {t.varianceProportion}.
-                  </p>
-                  <ConditionIndices
-                    indices={coll.conditionIndices}
-                    proportions={coll.varianceProportions}
-                    threshold={t.conditionIndex}
-                    share={t.varianceProportion}
-                  />
-                </div>
-              </div>
+              <CollinearityPanel coll={coll} thresholds={t} csvName={`${csvPrefix}-collinearity`} />
             ) : (
               <p className="text-sm text-silt-ink">
                 Not computed: too few complete rows for the planned design.
@@ -193,7 +147,7 @@ export function ReportView({
             note="Least squares on this batch's complete cases — a sanity check, not the analysis."
           >
             {report.fit ? (
-              <div className="grid gap-3">
+              <div className="grid grid-cols-1 gap-3">
                 <p className="text-sm tabular-nums">
                   R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² ={" "}
                   {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}

@@ -40,7 +40,7 @@ export function ForgotPasswordForm({ request }: { request: (email: string) => Pr
   }
   return (
     <form
-      className="grid gap-4"
+      className="grid grid-cols-1 gap-4"
       noValidate
       onSubmit={inTransition(start, async () => {
         const r = await request(email);
@@ -95,7 +95,7 @@ export function SetPasswordForm({
   }
   return (
     <form
-      className="grid gap-4"
+      className="grid grid-cols-1 gap-4"
       noValidate
       onSubmit={inTransition(start, async () => {
         const r = await save(token, password, confirm);

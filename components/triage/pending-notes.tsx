@@ -16,7 +16,7 @@ export function PendingNotes({ notes }: { notes: Note[] }) {
       id="notes"
       note="The decision sends these to the provider with its own comments."
     >
-      <ul className="grid gap-2 text-sm" data-testid="pending-notes">
+      <ul className="grid grid-cols-1 gap-2 text-sm" data-testid="pending-notes">
         {notes.map((n) => (
           <li key={n.id} className="rounded border-l-4 border-channel bg-channel-wash px-3 py-2">
             <code className="text-xs">{n.code}</code>

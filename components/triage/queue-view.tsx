@@ -118,9 +118,9 @@ export function QueueView({ initial, pageSize }: { initial: ListPage<QueueRow>; 
   ];
 
   return (
-    <div className="grid gap-4">
+    <div className="grid grid-cols-1 gap-4">
       <div className="flex flex-wrap items-end gap-3" role="group" aria-label="Filters">
-        <label className="grid gap-1 text-sm font-semibold">
+        <label className="grid grid-cols-1 gap-1 text-sm font-semibold">
           Study
           <Select value={study} onChange={(e) => setStudy(e.target.value)}>
             <option value="">All studies</option>
@@ -129,7 +129,7 @@ export function QueueView({ initial, pageSize }: { initial: ListPage<QueueRow>; 
             ))}
           </Select>
         </label>
-        <label className="grid gap-1 text-sm font-semibold">
+        <label className="grid grid-cols-1 gap-1 text-sm font-semibold">
           Provider
           <Select value={org} onChange={(e) => setOrg(e.target.value)}>
             <option value="">All providers</option>
@@ -138,7 +138,7 @@ export function QueueView({ initial, pageSize }: { initial: ListPage<QueueRow>; 
             ))}
           </Select>
         </label>
-        <label className="grid gap-1 text-sm font-semibold">
+        <label className="grid grid-cols-1 gap-1 text-sm font-semibold">
           State
           <Select value={state} onChange={(e) => setState(e.target.value)}>
             <option value="ready">Awaiting review</option>
@@ -148,7 +148,7 @@ export function QueueView({ initial, pageSize }: { initial: ListPage<QueueRow>; 
             <option value="">Any of these</option>
           </Select>
         </label>
-        <label className="grid gap-1 text-sm font-semibold">
+        <label className="grid grid-cols-1 gap-1 text-sm font-semibold">
           Severity
           <Select value={severity} onChange={(e) => setSeverity(e.target.value as keyof typeof SEVERITIES)}>
             {Object.entries(SEVERITIES).map(([k, v]) => (

@@ -21,7 +21,7 @@ export function PageHeader({
         <h1 className="text-2xl font-semibold">{title}</h1>
         {description ? <p className="mt-1 max-w-3xl text-md text-ink-soft">{description}</p> : null}
       </div>
-      {actions ? <div className="flex shrink-0 items-center gap-2">{actions}</div> : null}
+      {actions ? <div className="flex min-w-0 flex-wrap items-center gap-2">{actions}</div> : null}
     </header>
   );
 }

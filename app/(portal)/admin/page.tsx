@@ -36,7 +36,7 @@ export default async function AdminHome() {
           { id: "studies", label: "Studies", value: home.studies },
         ]}
       />
-      <div className="grid gap-8 lg:grid-cols-2">
+      <div className="grid grid-cols-1 gap-8 lg:grid-cols-2">
         <Section id="roles" title="Users by role">
           <table className="w-full max-w-md border-collapse text-sm" aria-labelledby="roles-title">
             <thead>

@@ -74,7 +74,7 @@ export default async function BoardPage() {
         id="by-state"
         note="The newest version of every batch. Time in state counts from the last change of state."
       >
-        <div className="mb-4 grid gap-3">
+        <div className="mb-4 grid grid-cols-1 gap-3">
           {studies.map(([slug, title]) => (
             <div key={slug}>
               <h3 className="mb-1 text-sm font-semibold">
@@ -136,7 +136,7 @@ export default async function BoardPage() {
         {board.silent.length === 0 ? (
           <EmptyState title="Every admitted provider has sent at least one batch." />
         ) : (
-          <ul className="grid gap-1 text-sm" data-testid="silent-providers">
+          <ul className="grid grid-cols-1 gap-1 text-sm" data-testid="silent-providers">
             {board.silent.map((s) => (
               <li key={`${s.studySlug}:${s.organisationName}`}>
                 <span className="font-semibold">{s.organisationName}</span> — {s.studyTitle}, admitted{" "}

@@ -30,7 +30,7 @@ export default async function MailboxPage() {
             <li key={m.id}>
               <Link
                 href={`/mailbox/${m.id}`}
-                className="grid gap-0.5 px-4 py-2 hover:bg-channel-wash sm:grid-cols-[1fr_auto]"
+                className="grid grid-cols-1 gap-0.5 px-4 py-2 hover:bg-channel-wash sm:grid-cols-[1fr_auto]"
               >
                 <span className="font-semibold">{m.subject}</span>
                 <span className="text-sm text-silt-ink tabular-nums">

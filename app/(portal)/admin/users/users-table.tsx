@@ -153,7 +153,7 @@ export function UsersTable({
     },
   ];
   return (
-    <div className="grid gap-3">
+    <div className="grid grid-cols-1 gap-3">
       <DataTable
         rows={rows}
         columns={columns}

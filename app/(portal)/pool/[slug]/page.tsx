@@ -2,15 +2,9 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader, Section } from "@/components/ui";
 import { DfLedger, ledgerOf } from "@/components/report/df-ledger";
-import {
-  CoefficientsTable,
-  CollinearityTable,
-  ColumnsTable,
-  FindingsTable,
-  LevelBars,
-} from "@/components/report/report-tables";
-import { ConditionIndices, CorrelationHeatmap, MissingnessMap } from "@/components/report/report-pictures";
-import { MatrixTable } from "@/components/ui/matrix-table";
+import { CoefficientsTable, ColumnsTable, FindingsTable, LevelBars } from "@/components/report/report-tables";
+import { MissingnessMap } from "@/components/report/report-pictures";
+import { CollinearityPanel } from "@/components/report/collinearity-panel";
 import { MembersTable } from "@/components/pool/members-table";
 import { PoolFigures } from "@/components/pool/pool-figures";
 import { PoolQuestionsSections } from "@/components/pool/pool-questions";
@@ -143,7 +137,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             id="levels"
             note={`Levels with fewer than ${t.sparseLevel} complete cases are marked sparse.`}
           >
-            <div className="grid gap-6 md:grid-cols-2">
+            <div className="grid grid-cols-1 gap-6 md:grid-cols-2">
               {factors.map((c) => (
                 <div key={c.name}>
                   <h3 className="mb-1 font-mono text-sm">{c.name}</h3>
@@ -163,28 +157,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             note="On the pool's complete cases. VIF for one-column terms; GVIF^(1/(2·df)) for terms with several columns (Fox & Monette 1992)."
           >
             {coll ? (
-              <div className="grid gap-6">
-                <CollinearityTable
-                  terms={coll.terms}
-                  vifWarning={t.vifWarning}
-                  vifStrong={t.vifStrong}
-                  csvName={`${pool.slug}-pool-collinearity`}
-                />
-                <div>
-                  <CorrelationHeatmap columns={coll.correlations.columns} matrix={coll.correlations.matrix} />
-                  <MatrixTable
-                    caption="Correlations of the design columns"
-                    labels={coll.correlations.columns}
-                    matrix={coll.correlations.matrix}
-                  />
-                </div>
-                <ConditionIndices
-                  indices={coll.conditionIndices}
-                  proportions={coll.varianceProportions}
-                  threshold={t.conditionIndex}
-                  share={t.varianceProportion}
-                />
-              </div>
+              <CollinearityPanel coll={coll} thresholds={t} csvName={`${pool.slug}-pool-collinearity`} />
             ) : (
               <p className="text-sm text-silt-ink">
                 Not computed: too few complete rows for the planned design.
@@ -202,7 +175,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             note="Least squares on the pool's complete cases — a sanity check before the modelling, not the analysis."
           >
             {r.fit ? (
-              <div className="grid gap-3">
+              <div className="grid grid-cols-1 gap-3">
                 <p className="text-sm tabular-nums">
                   R² = {formatNumber(r.fit.rSquared, "estimate")} · adjusted R² ={" "}
                   {formatNumber(r.fit.adjRSquared, "estimate")} · residual standard error{" "}
