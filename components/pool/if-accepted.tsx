@@ -14,6 +14,17 @@ import type { IfAccepted } from "@/lib/pool/pool";
 import { IfAcceptedQuestions } from "./if-accepted-questions";
 import { PoolFigures } from "./pool-figures";
 
+/** What stands in the panel's place while the pool with this version is merged (streamed after the page). */
+export function IfAcceptedPending() {
+  return (
+    <Section title="If accepted" id="if-accepted">
+      <p className="text-sm text-silt-ink" role="status">
+        Merging this version into the study&apos;s pool…
+      </p>
+    </Section>
+  );
+}
+
 export async function IfAcceptedPanel({
   batchPublicId,
   version,
@@ -26,6 +37,16 @@ export async function IfAcceptedPanel({
   data?: IfAccepted | null;
 }) {
   const r = data === undefined ? await getIfAcceptedForUser(user, batchPublicId, version) : data;
+  if (!r && data === undefined)
+    // streamed in for a version awaiting review: say why nothing is shown rather than leave the
+    // section index pointing nowhere
+    return (
+      <Section title="If accepted" id="if-accepted">
+        <p className="text-sm text-silt-ink">
+          Not available for this version: no engine state of it is stored under the study&apos;s current plan.
+        </p>
+      </Section>
+    );
   if (!r) return null;
   const crosses =
     r.before.model.residualDf < r.before.model.dfTarget && r.after.model.residualDf >= r.after.model.dfTarget;

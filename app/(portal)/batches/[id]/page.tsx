@@ -1,11 +1,12 @@
 import Link from "next/link";
 import { notFound } from "next/navigation";
+import { Suspense } from "react";
 import { PageHeader } from "@/components/ui/page-header";
 import { Section } from "@/components/ui/section";
 import { StateBadge } from "@/components/state-badge";
 import { CheckProgress } from "@/components/report/check-progress";
 import { DecisionForm } from "@/components/triage/decision-form";
-import { IfAcceptedPanel } from "@/components/pool/if-accepted";
+import { IfAcceptedPanel, IfAcceptedPending } from "@/components/pool/if-accepted";
 import { decideAction } from "./actions";
 import { ReportView, findingKey, verdictOf } from "@/components/report/report-view";
 import { SummaryBar, type SectionLink } from "@/components/triage/summary-bar";
@@ -13,7 +14,6 @@ import { ReviewProvider } from "@/components/triage/review-context";
 import { NextInQueue } from "@/components/triage/next-in-queue";
 import { PendingNotes } from "@/components/triage/pending-notes";
 import { getNextInQueueForUser } from "@/lib/batches/queries-next";
-import { getIfAcceptedForUser } from "@/lib/pool/queries";
 import { requireUser } from "@/lib/auth/session";
 import { can } from "@/lib/auth/permissions";
 import { getBatchForUser } from "@/lib/batches/queries";
@@ -43,25 +43,31 @@ export default async function BatchPage({
   if (!found) notFound();
   const { batch, version, report } = found;
 
-  // compare with the previous version, finding by finding
+  // what the page needs beside the report, read at once: the previous version's report (to
+  // compare finding by finding), a machine correction, and after a decision the next in queue
+  const [prev, fix, next] = await Promise.all([
+    report && version.version > 1
+      ? getVersionReportForUser(user, id, version.version - 1, batchInfo)
+      : Promise.resolve(null),
+    getVersionFixForUser(user, id, version.version, batchInfo),
+    can(user.role, "batch.decide") && found.decision
+      ? getNextInQueueForUser(user, batch.publicId)
+      : Promise.resolve(null),
+  ]);
   let previous: {
     resolved: NonNullable<typeof report>["findings"];
     status: Map<string, "remains" | "new">;
   } | null = null;
-  if (report && version.version > 1) {
-    const prev = await getVersionReportForUser(user, id, version.version - 1, batchInfo);
-    if (prev?.report) {
-      const before = new Set(prev.report.findings.map(findingKey));
-      const now = new Set(report.findings.map(findingKey));
-      previous = {
-        resolved: prev.report.findings.filter((f) => !now.has(findingKey(f))),
-        status: new Map(
-          report.findings.map((f) => [findingKey(f), before.has(findingKey(f)) ? "remains" : "new"]),
-        ),
-      };
-    }
+  if (report && prev?.report) {
+    const before = new Set(prev.report.findings.map(findingKey));
+    const now = new Set(report.findings.map(findingKey));
+    previous = {
+      resolved: prev.report.findings.filter((f) => !now.has(findingKey(f))),
+      status: new Map(
+        report.findings.map((f) => [findingKey(f), before.has(findingKey(f)) ? "remains" : "new"]),
+      ),
+    };
   }
-  const fix = await getVersionFixForUser(user, id, version.version, batchInfo);
   const isProvider = user.role === "provider" && can(user.role, "batch.upload");
   const canDecide =
     can(user.role, "batch.decide") &&
@@ -69,17 +75,14 @@ export default async function BatchPage({
     (version.state === "ready" || version.state === "unreadable");
   const canResubmit = isProvider && version.version === batch.latestVersion && batch.state !== "accepted";
   const reviewing = canDecide && !!report && !found.decision;
-  const ifAccepted = await getIfAcceptedForUser(user, batch.publicId, version.version);
-  // once decided, the reviewer's next batch is one click away
-  const next =
-    can(user.role, "batch.decide") && found.decision
-      ? await getNextInQueueForUser(user, batch.publicId)
-      : null;
+  // "If accepted" merges this version into the study's pool: the slowest part of the page, so it
+  // streams in after the rest (a version awaiting review, for those who may see the pool)
+  const ifAccepted = can(user.role, "pool.read") && version.state === "ready";
   const sections = sectionsOf({
     since: !!previous,
     decision: !!found.decision,
     report,
-    ifAccepted: !!ifAccepted,
+    ifAccepted,
   });
 
   const page = (
@@ -257,12 +260,11 @@ export default async function BatchPage({
         <p className="text-base">No readiness report is stored for this version.</p>
       )}
 
-      <IfAcceptedPanel
-        batchPublicId={batch.publicId}
-        version={version.version}
-        user={user}
-        data={ifAccepted}
-      />
+      {ifAccepted ? (
+        <Suspense fallback={<IfAcceptedPending />}>
+          <IfAcceptedPanel batchPublicId={batch.publicId} version={version.version} user={user} />
+        </Suspense>
+      ) : null}
     </div>
   );
   return reviewing ? <ReviewProvider>{page}</ReviewProvider> : page;
