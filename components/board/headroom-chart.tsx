@@ -1,18 +1,10 @@
 "use client";
 /** Each study's pooled residual df at the end of each week, against the df target of its plan (a dashed line), and as a table. */
-import {
-  CartesianGrid,
-  Line,
-  LineChart,
-  ReferenceLine,
-  ResponsiveContainer,
-  Tooltip,
-  XAxis,
-  YAxis,
-} from "recharts";
+import { Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
 import { formatCount, niceTicks } from "@/lib/format";
-import { AXIS_TICK, CHART_GRID, LINE_MARGIN } from "@/components/ui/chart-style";
+import { LINE_MARGIN } from "@/components/ui/chart-style";
+import { weekAxes } from "@/components/ui/week-axes";
 
 export type HeadroomSeries = {
   studySlug: string;
@@ -74,15 +66,7 @@ export function HeadroomChart({ series }: { series: HeadroomSeries[] }) {
               <figcaption className="mb-1 text-sm font-semibold">{s.studyTitle}</figcaption>
               <ResponsiveContainer width="100%" height="90%">
                 <LineChart data={data} margin={LINE_MARGIN}>
-                  <CartesianGrid {...CHART_GRID} />
-                  <XAxis dataKey="label" tick={AXIS_TICK} />
-                  <YAxis
-                    domain={[0, ticks[ticks.length - 1] ?? 1]}
-                    ticks={ticks}
-                    tick={AXIS_TICK}
-                    tickFormatter={(v: number) => formatCount(v)}
-                    width={56}
-                  />
+                  {weekAxes({ ticks, format: (v) => formatCount(v), width: 56 })}
                   <Tooltip formatter={(v) => formatCount(typeof v === "number" ? v : null)} />
                   <ReferenceLine
                     y={s.dfTarget}

@@ -1,10 +1,11 @@
 "use client";
 /** Turnaround from upload to decision by week: median and 90th percentile as lines, and as a table. */
-import { CartesianGrid, Legend, Line, LineChart, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { Legend, Line, LineChart, ResponsiveContainer, Tooltip } from "recharts";
 import { DataTable, type Column } from "@/components/data-table";
 import { formatCount, niceTicks } from "@/lib/format";
 import { formatHours } from "./format";
-import { AXIS_TICK, CHART_GRID, LINE_MARGIN } from "@/components/ui/chart-style";
+import { LINE_MARGIN } from "@/components/ui/chart-style";
+import { weekAxes } from "@/components/ui/week-axes";
 
 export type TurnaroundRow = {
   week: string;
@@ -49,15 +50,7 @@ export function TurnaroundChart({ weeks }: { weeks: TurnaroundRow[] }) {
         >
           <ResponsiveContainer width="100%" height="100%">
             <LineChart data={data} margin={LINE_MARGIN}>
-              <CartesianGrid {...CHART_GRID} />
-              <XAxis dataKey="label" tick={AXIS_TICK} />
-              <YAxis
-                domain={[0, ticks[ticks.length - 1] ?? 1]}
-                ticks={ticks}
-                tick={AXIS_TICK}
-                tickFormatter={(v: number) => `${formatCount(v)} h`}
-                width={64}
-              />
+              {weekAxes({ ticks, format: (v) => `${formatCount(v)} h`, width: 64 })}
               <Tooltip formatter={(v) => formatHours(typeof v === "number" ? v : null)} />
               <Legend wrapperStyle={{ fontSize: 12 }} />
               <Line
