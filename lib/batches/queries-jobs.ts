@@ -22,10 +22,19 @@ export type CheckJobItem = {
   organisationName: string;
 };
 
-/** Check jobs that are not done (queued, running, failed), newest first — for admins. */
-export async function listOpenCheckJobs(user: SessionUser): Promise<CheckJobItem[]> {
+/** How many open check jobs the admins' page lists, newest first. */
+export const OPEN_JOBS_SHOWN = 500;
+
+/**
+ * Check jobs that are not done (queued, running, failed), newest first — for admins: at most
+ * `limit`, and whether there are more, so the page can say so rather than stop silently.
+ */
+export async function listOpenCheckJobs(
+  user: SessionUser,
+  limit = OPEN_JOBS_SHOWN,
+): Promise<{ jobs: CheckJobItem[]; more: boolean }> {
   if (!can(user.role, "user.manage")) throw new AppError("forbidden");
-  return getDb()
+  const rows = await getDb()
     .select({
       id: checkJobs.id,
       status: checkJobs.status,
@@ -48,5 +57,6 @@ export async function listOpenCheckJobs(user: SessionUser): Promise<CheckJobItem
     .innerJoin(organisations, eq(organisations.id, batches.organisationId))
     .where(and(eq(checkJobs.kind, "check"), inArray(checkJobs.status, ["queued", "running", "failed"])))
     .orderBy(desc(checkJobs.id))
-    .limit(500);
+    .limit(limit + 1);
+  return { jobs: rows.slice(0, limit), more: rows.length > limit };
 }
