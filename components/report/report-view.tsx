@@ -1,10 +1,11 @@
 /** A readiness report on screen: verdict, df ledger, findings, columns, collinearity, missingness, fit. */
 import { Section } from "@/components/ui";
 import { SeverityBadge } from "@/components/severity-badge";
-import { countOf, detectableR2 as detectable, formatCount, formatNumber, pEquals } from "@/lib/format";
+import { countOf, formatCount, formatNumber, pEquals } from "@/lib/format";
 import { DEFAULT_THRESHOLDS, parsePlan, thresholdsOf, type ReadinessReport } from "@/lib/readiness";
 import { DfLedger, ledgerOf } from "./df-ledger";
-import { CoefficientsTable, ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
+import { ColumnsTable, FindingsTable, type FindingRow } from "./report-tables";
+import { FitSummary } from "./fit-summary";
 import { MissingnessMap } from "./report-pictures";
 import { CollinearityPanel } from "./collinearity-panel";
 
@@ -147,22 +148,7 @@ export function ReportView({
             note="Least squares on this batch's complete cases — a sanity check, not the analysis."
           >
             {report.fit ? (
-              <div className="grid grid-cols-1 gap-3">
-                <p className="text-sm tabular-nums">
-                  R² = {formatNumber(report.fit.rSquared, "estimate")} · adjusted R² ={" "}
-                  {formatNumber(report.fit.adjRSquared, "estimate")} · residual standard error{" "}
-                  {formatNumber(report.fit.residualStdError, "estimate")} on {report.fit.dfResidual} df ·
-                  overall F = {formatNumber(report.fit.F, "statistic")} on ({report.fit.dfModel},{" "}
-                  {report.fit.dfResidual}) df, p {pEquals(report.fit.pValue)}
-                  {report.fit.power?.detectableR2 != null
-                    ? ` · detects ${detectable(report.fit.power.detectableR2)} with power ${formatNumber(report.fit.power.power, "estimate")} at α = ${formatNumber(report.fit.power.alpha, "estimate")}`
-                    : ""}
-                </p>
-                <CoefficientsTable
-                  coefficients={report.fit.coefficients}
-                  csvName={`${csvPrefix}-coefficients`}
-                />
-              </div>
+              <FitSummary fit={report.fit} csvName={`${csvPrefix}-coefficients`} />
             ) : (
               <p className="text-sm text-silt-ink">
                 No fit: the model has no residual degrees of freedom on this batch.

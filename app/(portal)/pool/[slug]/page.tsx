@@ -2,7 +2,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { PageHeader, Section } from "@/components/ui";
 import { DfLedger, ledgerOf } from "@/components/report/df-ledger";
-import { CoefficientsTable, ColumnsTable, FindingsTable, LevelBars } from "@/components/report/report-tables";
+import { ColumnsTable, FindingsTable, LevelBars } from "@/components/report/report-tables";
+import { FitSummary } from "@/components/report/fit-summary";
 import { MissingnessMap } from "@/components/report/report-pictures";
 import { CollinearityPanel } from "@/components/report/collinearity-panel";
 import { MembersTable } from "@/components/pool/members-table";
@@ -175,18 +176,7 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
             note="Least squares on the pool's complete cases — a sanity check before the modelling, not the analysis."
           >
             {r.fit ? (
-              <div className="grid grid-cols-1 gap-3">
-                <p className="text-sm tabular-nums">
-                  R² = {formatNumber(r.fit.rSquared, "estimate")} · adjusted R² ={" "}
-                  {formatNumber(r.fit.adjRSquared, "estimate")} · residual standard error{" "}
-                  {formatNumber(r.fit.residualStdError, "estimate")} on {r.fit.dfResidual} df · F ={" "}
-                  {formatNumber(r.fit.F, "statistic")} on ({r.fit.dfModel}, {r.fit.dfResidual}) df
-                </p>
-                <CoefficientsTable
-                  coefficients={r.fit.coefficients}
-                  csvName={`${pool.slug}-pool-coefficients`}
-                />
-              </div>
+              <FitSummary fit={r.fit} csvName={`${pool.slug}-pool-coefficients`} />
             ) : (
               <p className="text-sm text-silt-ink">
                 No fit: the pool has no residual degrees of freedom yet.
