@@ -1,8 +1,8 @@
 /**
  * "If accepted" for a version ready for review: the study's pool as it stands beside the pool
  * with this version added, the df ledger of the pool after, and the drift of this version
- * against the pool. A server component for the batch page; renders nothing for providers or
- * for versions that are not ready for review.
+ * against the pool. A server component the batch page streams in (behind Suspense, with
+ * IfAcceptedPending meanwhile) for a version awaiting review, when the viewer may see the pool.
  */
 import Link from "next/link";
 import { Section } from "@/components/ui";
@@ -10,7 +10,6 @@ import { DfLedger, ledgerOf } from "@/components/report/df-ledger";
 import { FindingsTable } from "@/components/report/report-tables";
 import type { SessionUser } from "@/lib/auth/session";
 import { getIfAcceptedForUser } from "@/lib/pool/queries";
-import type { IfAccepted } from "@/lib/pool/pool";
 import { IfAcceptedQuestions } from "./if-accepted-questions";
 import { PoolFigures } from "./pool-figures";
 
@@ -29,25 +28,23 @@ export async function IfAcceptedPanel({
   batchPublicId,
   version,
   user,
-  data,
 }: {
   batchPublicId: string;
   version: number;
   user: SessionUser;
-  data?: IfAccepted | null;
 }) {
-  const r = data === undefined ? await getIfAcceptedForUser(user, batchPublicId, version) : data;
-  if (!r && data === undefined)
-    // streamed in for a version awaiting review: say why nothing is shown rather than leave the
-    // section index pointing nowhere
+  const r = await getIfAcceptedForUser(user, batchPublicId, version);
+  if (!r)
+    // the page streams this in for a version awaiting review: say why nothing is shown rather
+    // than leave the section index pointing nowhere
     return (
       <Section title="If accepted" id="if-accepted">
         <p className="text-sm text-silt-ink">
-          Not available for this version: no engine state of it is stored under the study&apos;s current plan.
+          Not available for this version: it is no longer awaiting review, or no engine state of it is stored
+          under the study&apos;s current plan.
         </p>
       </Section>
     );
-  if (!r) return null;
   const crosses =
     r.before.model.residualDf < r.before.model.dfTarget && r.after.model.residualDf >= r.after.model.dfTarget;
   return (

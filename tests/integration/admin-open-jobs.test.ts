@@ -6,9 +6,9 @@ import { afterAll, beforeAll, describe, expect, test, vi } from "vitest";
 
 vi.mock("server-only", () => ({}));
 
-import { eq, inArray } from "drizzle-orm";
+import { inArray } from "drizzle-orm";
 import { getDb } from "@/db/client";
-import { batchVersions, checkJobs } from "@/db/schema";
+import { checkJobs } from "@/db/schema";
 import type { SessionUser } from "@/lib/auth/session";
 import { AppError } from "@/lib/errors";
 import { listOpenCheckJobs } from "@/lib/batches/queries-jobs";
@@ -32,14 +32,10 @@ beforeAll(async () => {
   // two failed checks of this world, the newest open jobs in the database once inserted
   for (let i = 0; i < 2; i++) {
     const b = await w.addBatch(w.studyA.id, w.farmA.id, w.users.providerA, "ready");
-    const [v] = await db
-      .select({ id: batchVersions.id })
-      .from(batchVersions)
-      .where(eq(batchVersions.batchId, b.id));
     const [j] = await db
       .insert(checkJobs)
       .values({
-        batchVersionId: v!.id,
+        batchVersionId: b.versionId,
         status: "failed",
         attempts: 3,
         lastError: `test ${i}`,

@@ -57,7 +57,7 @@ export type World = {
     organisationId: number,
     uploader: WorldUser,
     state: "ready" | "accepted",
-  ) => Promise<{ id: number; publicId: string }>;
+  ) => Promise<{ id: number; publicId: string; versionId: number }>;
 };
 
 // bcrypt cost 4 keeps the fixtures fast; the sign-in code reads the cost from the hash
@@ -150,18 +150,21 @@ export async function createWorld(): Promise<World> {
       .select({ id: dataPlans.id })
       .from(dataPlans)
       .where(eq(dataPlans.studyId, studyId));
-    await db.insert(batchVersions).values({
-      batchId: row.id,
-      version: 1,
-      planId: plan!.id,
-      fileKey: `key-${publicId}`,
-      fileUrl: `http://127.0.0.1:3411/f/key-${publicId}`,
-      fileName: `${publicId}.csv`,
-      fileSize: 1234,
-      state,
-      uploadedById: uploader.id,
-    });
-    return { id: row.id, publicId };
+    const [ver] = await db
+      .insert(batchVersions)
+      .values({
+        batchId: row.id,
+        version: 1,
+        planId: plan!.id,
+        fileKey: `key-${publicId}`,
+        fileUrl: `http://127.0.0.1:3411/f/key-${publicId}`,
+        fileName: `${publicId}.csv`,
+        fileSize: 1234,
+        state,
+        uploadedById: uploader.id,
+      })
+      .$returningId();
+    return { id: row.id, publicId, versionId: ver!.id };
   };
   const batchA = await batch(studyA.id, farmA.id, u.providerA, "ready");
   const batchB = await batch(studyB.id, farmB.id, u.providerB, "accepted");
