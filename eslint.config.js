@@ -82,7 +82,17 @@ const featureBoundary = (self) => {
 };
 
 export default tseslint.config(
-  { ignores: [".next/**", "node_modules/**", "drizzle/**", ".data/**", "next-env.d.ts", "bench-out/**", "lib/readiness/.build/**"] },
+  {
+    ignores: [
+      ".next/**",
+      "node_modules/**",
+      "drizzle/**",
+      ".data/**",
+      "next-env.d.ts",
+      "bench-out/**",
+      "lib/readiness/.build/**",
+    ],
+  },
   ...tseslint.configs.recommended,
   {
     rules: {
