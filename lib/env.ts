@@ -193,6 +193,20 @@ export function rawSetting(name: keyof Env): string | undefined {
 }
 
 /**
+ * The worker's CPU priority as a Unix nice value (TRIBUTARY_WORKER_NICE, 0 to 19; default 10):
+ * checks are batch work, so on a machine shared with an app instance the app's answers get the
+ * processor first. 0 runs the worker at the app's priority.
+ */
+export function workerNiceFromEnv(): number {
+  const raw = process.env.TRIBUTARY_WORKER_NICE;
+  if (raw === undefined || raw.trim() === "") return 10;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 0 || n > 19)
+    throw new Error(`TRIBUTARY_WORKER_NICE must be a whole number from 0 to 19; it is "${raw}".`);
+  return n;
+}
+
+/**
  * How many threads the worker checks a large batch with (TRIBUTARY_CHECK_WORKERS, 1 to 16);
  * unset means the engine's default, one per core.
  */

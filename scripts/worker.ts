@@ -9,8 +9,12 @@
  * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none).
+ * The process lowers its own CPU priority to TRIBUTARY_WORKER_NICE (default 10) before it starts
+ * any thread, so that an app instance on the same machine answers first; the check threads
+ * inherit it.
  */
-import { checkWorkersFromEnv, exitUnlessEnvOk, msFromEnv } from "@/lib/env";
+import os from "node:os";
+import { checkWorkersFromEnv, exitUnlessEnvOk, msFromEnv, workerNiceFromEnv } from "@/lib/env";
 import { getDb, getPool } from "@/db/client";
 import { runDigestSchedule } from "@/lib/pool/digest-schedule";
 import { runMailSender } from "@/lib/mail";
@@ -27,6 +31,13 @@ const stopGraceMs = msFromEnv("TRIBUTARY_WORKER_STOP_GRACE_MS", 10_000);
 const pollMs = msFromEnv("TRIBUTARY_WORKER_POLL_MS", 1_000);
 const stallMs = msFromEnv("TRIBUTARY_JOB_STALL_MS", 120_000);
 const checkWorkers = checkWorkersFromEnv();
+const nice = workerNiceFromEnv();
+try {
+  os.setPriority(nice);
+} catch (e) {
+  // lowering a priority is always allowed; raising it back (a parent already niced) may not be
+  log(`could not set the CPU priority to nice ${nice}: ${(e as Error).message}`);
+}
 for (const sig of ["SIGINT", "SIGTERM"] as const) {
   process.on(sig, () => {
     if (controller.signal.aborted) {
@@ -45,7 +56,7 @@ process.on("unhandledRejection", (reason) =>
 );
 
 const workerId = defaultWorkerId();
-log(`started as ${workerId}`);
+log(`started as ${workerId} (nice ${os.getPriority()})`);
 await Promise.all([
   runWorker({
     db: getDb(),

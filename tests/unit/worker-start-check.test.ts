@@ -53,6 +53,33 @@ test(
       await w.stop();
     }
     expect(w.output()).not.toContain("refusing to start");
+    // checks are batch work: the worker runs at nice 10 unless TRIBUTARY_WORKER_NICE says otherwise
+    expect(w.output()).toMatch(/\[worker\] started as \S+ \(nice 10\)/);
   },
   processTestTimeout(2),
+);
+
+test(
+  "TRIBUTARY_WORKER_NICE sets the worker's priority; a value outside 0–19 is refused with what to write",
+  async () => {
+    const w = startProcess(process.execPath, WORKER, {
+      cwd: root,
+      env: { ...demo, TRIBUTARY_DEMO: "1", UPLOADTHING_TOKEN: "x".repeat(20), TRIBUTARY_WORKER_NICE: "15" },
+    });
+    try {
+      await w.waitForLine(/\[worker\] started as/);
+    } finally {
+      await w.stop();
+    }
+    expect(w.output()).toMatch(/started as \S+ \(nice 15\)/);
+    const r = spawnSync(process.execPath, WORKER, {
+      cwd: root,
+      env: { ...demo, TRIBUTARY_DEMO: "1", UPLOADTHING_TOKEN: "x".repeat(20), TRIBUTARY_WORKER_NICE: "-5" },
+      encoding: "utf8",
+      timeout: PROCESS_PATIENCE_MS,
+    });
+    expect(r.status).not.toBe(0);
+    expect(r.stderr).toContain('TRIBUTARY_WORKER_NICE must be a whole number from 0 to 19; it is "-5".');
+  },
+  processTestTimeout(3),
 );
