@@ -102,76 +102,89 @@ export function mulberry32(seed: number): () => number {
 }
 
 /**
- * Values for quartiles. Exact while the column has at most `cap` values (all are kept);
- * beyond that a uniform reservoir sample of `cap` values (Vitter's algorithm R), whose
- * quartiles are an approximation with standard error about 0.87·IQR/√cap.
+ * A row's sampling priority: MurmurHash3's 32-bit finaliser of its line number, a bijection on
+ * 32-bit integers, so no two rows share one and the order looks random.
+ */
+export function linePriority(line: number): number {
+  let h = line >>> 0;
+  h = Math.imul(h ^ (h >>> 16), 0x85ebca6b);
+  h = Math.imul(h ^ (h >>> 13), 0xc2b2ae35);
+  return (h ^ (h >>> 16)) >>> 0;
+}
+
+/**
+ * Values for quartiles. Exact while the column has at most `cap` values (all are kept, in file
+ * order); beyond that a uniform sample of `cap` values without replacement: the values of the
+ * `cap` rows with the smallest priority (linePriority, bottom-k sampling), kept in a max-heap on
+ * the priority. The kept set depends only on which rows hold values, never on how the file was
+ * cut into parts, so parts merge to exactly the sample of one pass. The quartiles of the sample
+ * have a standard error of about 0.87·IQR/√cap.
  */
 export class QuantileStore {
   private buf: Float64Array;
+  private keys: Uint32Array;
   private len = 0;
   seen = 0;
-  private rnd = mulberry32(0x5eed);
-  /** Li's algorithm L: the index of the next value to enter the reservoir, and the running W */
-  private nextIn = 0;
-  private w = 1;
   constructor(private cap: number) {
     this.buf = new Float64Array(Math.min(cap, 1024));
+    this.keys = new Uint32Array(this.buf.length);
   }
-  add(x: number): void {
+  /** The value of the row on `line` (a spreadsheet's row number). */
+  add(x: number, line: number): void {
     this.seen++;
+    this.keep(x, linePriority(line));
+  }
+  private keep(x: number, key: number): void {
     if (this.len < this.cap) {
       if (this.len === this.buf.length) {
-        const b = new Float64Array(Math.min(this.cap, this.buf.length * 2));
+        const n = Math.min(this.cap, this.buf.length * 2);
+        const b = new Float64Array(n);
         b.set(this.buf);
         this.buf = b;
+        const k = new Uint32Array(n);
+        k.set(this.keys);
+        this.keys = k;
       }
-      this.buf[this.len++] = x;
-    } else {
-      if (this.seen === this.cap + 1) this.skip();
-      if (this.seen === this.nextIn) {
-        this.buf[Math.floor(this.rnd() * this.cap)] = x;
-        this.skip();
-      }
+      this.buf[this.len] = x;
+      this.keys[this.len++] = key;
+      if (this.len === this.cap) for (let i = (this.cap >> 1) - 1; i >= 0; i--) this.siftDown(i);
+    } else if (key < this.keys[0]!) {
+      this.buf[0] = x;
+      this.keys[0] = key;
+      this.siftDown(0);
     }
   }
-  /** Algorithm L (Li 1994): geometric jumps between replacements, one draw per replacement. */
-  private skip(): void {
-    const k = this.cap;
-    this.w *= Math.exp(Math.log(Math.max(this.rnd(), 1e-300)) / k);
-    this.nextIn =
-      (this.nextIn === 0 ? this.cap : this.nextIn) +
-      Math.floor(Math.log(Math.max(this.rnd(), 1e-300)) / Math.log(1 - this.w)) +
-      1;
+  private siftDown(i: number): void {
+    const { keys, buf, len } = this;
+    const key = keys[i]!;
+    const x = buf[i]!;
+    for (;;) {
+      let c = 2 * i + 1;
+      if (c >= len) break;
+      if (c + 1 < len && keys[c + 1]! > keys[c]!) c++;
+      if (keys[c]! <= key) break;
+      keys[i] = keys[c]!;
+      buf[i] = buf[c]!;
+      i = c;
+    }
+    keys[i] = key;
+    buf[i] = x;
   }
   get exact(): boolean {
     return this.seen <= this.cap;
   }
-  /** The kept values and how many values they stand for (to merge parts of a file). */
-  part(): { values: Float64Array; seen: number } {
-    return { values: this.buf.slice(0, this.len), seen: this.seen };
+  /** The kept values, their priorities and how many values they stand for (to merge parts of a file). */
+  part(): { values: Float64Array; keys: Uint32Array; seen: number } {
+    return { values: this.buf.slice(0, this.len), keys: this.keys.slice(0, this.len), seen: this.seen };
   }
   /**
-   * Add a later part: exact while the union fits, else a sample of `cap` values drawn from
-   * each part in proportion to the values it stands for (each part's kept values being a
-   * uniform sample of it, the result is a uniform sample of the union).
+   * Add a later part of the file: its kept values join in its order, so that while the union
+   * fits the values stay in file order; beyond `cap` the union's smallest priorities are kept,
+   * the same set one pass over both parts keeps.
    */
-  absorb(o: { values: Float64Array; seen: number }): void {
-    const total = this.seen + o.seen;
-    if (total <= this.cap) {
-      for (const v of o.values) this.add(v);
-      return;
-    }
-    const mine = Math.round((this.cap * this.seen) / total);
-    const out = new Float64Array(this.cap);
-    const pick = (src: Float64Array, m: number, at: number) => {
-      for (let i = 0; i < m; i++) out[at + i] = src[Math.floor(((i + 0.5) * src.length) / m)]!;
-    };
-    pick(this.buf.subarray(0, this.len), Math.min(mine, this.len), 0);
-    const taken = Math.min(mine, this.len);
-    pick(o.values, Math.min(this.cap - taken, o.values.length), taken);
-    this.len = taken + Math.min(this.cap - taken, o.values.length);
-    this.buf = out;
-    this.seen = total;
+  absorb(o: { values: Float64Array; keys: Uint32Array; seen: number }): void {
+    for (let i = 0; i < o.values.length; i++) this.keep(o.values[i]!, o.keys[i]!);
+    this.seen += o.seen;
   }
   /** Sorted copy of the kept values. */
   sorted(): Float64Array {
@@ -179,17 +192,19 @@ export class QuantileStore {
   }
   /**
    * Quantiles (R type 7) of the kept values by selection, O(n) each, without a full sort.
-   * Reorders the kept values (their order is not needed afterwards).
+   * Works on a copy, so the kept values keep their order (and their priorities).
    */
   quantiles(ps: number[]): number[] {
-    const a = this.buf.subarray(0, this.len);
+    const a = this.buf.slice(0, this.len);
     return ps.map((p) => selectQuantile(a, p));
   }
   /** A systematic sample of at most m kept values (for the pool state). */
   sample(m: number): number[] {
-    if (this.len <= m) return Array.from(this.buf.subarray(0, this.len));
+    // in file order while exact; beyond the cap the heap's order depends on the parts, so sorted
+    const kept = this.exact ? this.buf.subarray(0, this.len) : this.sorted();
+    if (this.len <= m) return Array.from(kept);
     const out: number[] = [];
-    for (let i = 0; i < m; i++) out.push(this.buf[Math.floor(((i + 0.5) * this.len) / m)]!);
+    for (let i = 0; i < m; i++) out.push(kept[Math.floor(((i + 0.5) * this.len) / m)]!);
     return out;
   }
 }

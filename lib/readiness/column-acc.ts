@@ -145,7 +145,7 @@ export class ColumnAccumulators {
 
   protected numeric(v: number, line: number): void {
     this.moments.add(v);
-    this.quant?.add(v);
+    this.quant?.add(v, line);
     addExtreme(this.lo, this.hi, v, line, this.sampleCap);
   }
 }

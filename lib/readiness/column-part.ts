@@ -108,7 +108,7 @@ export interface ColumnPart {
   levels: [string, LevelAcc][] | null;
   levelOverflow: number;
   moments: MomentsJSON;
-  quant: { values: Float64Array; seen: number } | null;
+  quant: { values: Float64Array; keys: Uint32Array; seen: number } | null;
   mismatch: { count: number; rows: number[] };
   offenders: [string, number][];
   comma: { count: number; rows: number[] };

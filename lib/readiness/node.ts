@@ -208,7 +208,7 @@ export async function runRangeWorker(): Promise<void> {
   const transfer = [
     part.rowSet.slots.buffer,
     ...part.keys.map(([, k]) => k.set.slots.buffer),
-    ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer] : [])),
+    ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer, c.quant.keys.buffer] : [])),
   ];
   parentPort!.postMessage(r, transfer as ArrayBuffer[]);
 }

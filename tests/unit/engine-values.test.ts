@@ -75,13 +75,46 @@ describe("quartiles", () => {
   test("beyond the bound the reservoir's quartiles of U(0,1) are within 5 standard errors", () => {
     const q = new QuantileStore(2000);
     const r = rng(8);
-    for (let i = 0; i < 200_000; i++) q.add(r());
+    for (let i = 0; i < 200_000; i++) q.add(r(), i + 2);
     expect(q.exact).toBe(false);
     const [q1, med, q3] = q.quantiles([0.25, 0.5, 0.75]) as [number, number, number];
     // SE of a sample quantile of U(0,1): √(p(1−p)/m)
     expect(Math.abs(q1 - 0.25)).toBeLessThan(5 * Math.sqrt(0.1875 / 2000));
     expect(Math.abs(med - 0.5)).toBeLessThan(5 * Math.sqrt(0.25 / 2000));
     expect(Math.abs(q3 - 0.75)).toBeLessThan(5 * Math.sqrt(0.1875 / 2000));
+  });
+  test("the sample beyond the bound is the same set however the file is cut into parts", () => {
+    const r = rng(11);
+    const xs = Array.from({ length: 30_000 }, () => r());
+    const one = new QuantileStore(2000);
+    xs.forEach((x, i) => one.add(x, i + 2));
+    for (const cuts of [[1], [1999, 2001], [7000, 15_000, 29_999], [100, 200, 300]]) {
+      const parts = [0, ...cuts, xs.length].slice(1).map(() => new QuantileStore(2000));
+      const bounds = [0, ...cuts, xs.length];
+      parts.forEach((q, p) => {
+        for (let i = bounds[p]!; i < bounds[p + 1]!; i++) q.add(xs[i]!, i + 2);
+      });
+      const merged = parts[0]!;
+      for (const q of parts.slice(1)) merged.absorb(q.part());
+      expect(merged.seen).toBe(30_000);
+      expect(merged.exact).toBe(false);
+      expect(Array.from(merged.sorted())).toEqual(Array.from(one.sorted()));
+      expect(merged.quantiles([0.25, 0.5, 0.75])).toEqual(one.quantiles([0.25, 0.5, 0.75]));
+      expect(merged.sample(512)).toEqual(one.sample(512));
+    }
+  });
+  test("within the bound every value is kept, in file order, however the file is cut", () => {
+    const one = new QuantileStore(2000);
+    const a = new QuantileStore(2000);
+    const b = new QuantileStore(2000);
+    for (let i = 0; i < 1500; i++) {
+      one.add(i % 97, i + 2);
+      (i < 600 ? a : b).add(i % 97, i + 2);
+    }
+    a.absorb(b.part());
+    expect(a.exact).toBe(true);
+    expect(a.sample(5000)).toEqual(Array.from({ length: 1500 }, (_, i) => i % 97));
+    expect(a.sample(512)).toEqual(one.sample(512));
   });
   test("merged moments equal one pass", () => {
     const r = rng(3);
