@@ -12,7 +12,7 @@ import { LeastSquares, PatternMoments } from "./stats";
 
 /** total values kept for exact quartiles across all columns (8 bytes each) */
 export const QUANTILE_BUDGET = 4_000_000;
-/** per-column bound of exact quartiles; beyond it a reservoir sample of this size */
+/** per-column bound of exact quartiles; beyond it a uniform sample of this size (QuantileStore) */
 export const QUANTILE_COLUMN_CAP = 200_000;
 /** distinct rows (and keys) hashed for duplicate detection; 20–40 bytes each */
 export const DUPLICATE_CAP = 4_000_000;

@@ -1,7 +1,7 @@
 /**
  * Value readers and streaming accumulators against their definitions: number parsing equals
  * ECMAScript Number() on plain decimals; quartiles by selection equal R's type-7 quantile on the
- * sorted values (R: quantile(c(1, 2, 3, 4, 10)) = 2, 3, 4); the reservoir beyond its bound stays
+ * sorted values (R: quantile(c(1, 2, 3, 4, 10)) = 2, 3, 4); the sample beyond its bound stays
  * within a few standard errors; pooled moments equal one pass (Chan et al. 1979).
  */
 import { describe, expect, test } from "vitest";
@@ -72,7 +72,7 @@ describe("quartiles", () => {
         expect(selectQuantile(v.slice(), p)).toBeCloseTo(quantile(sorted, p), 12);
     }
   });
-  test("beyond the bound the reservoir's quartiles of U(0,1) are within 5 standard errors", () => {
+  test("beyond the bound the sample's quartiles of U(0,1) are within 5 standard errors", () => {
     const q = new QuantileStore(2000);
     const r = rng(8);
     for (let i = 0; i < 200_000; i++) q.add(r(), i + 2);
