@@ -115,18 +115,24 @@ export function linePriority(line: number): number {
 /**
  * Values for quartiles. Exact while the column has at most `cap` values (all are kept, in file
  * order); beyond that a uniform sample of `cap` values without replacement: the values of the
- * `cap` rows with the smallest priority (linePriority, bottom-k sampling), kept in a max-heap on
- * the priority. The kept set depends only on which rows hold values, never on how the file was
- * cut into parts, so parts merge to exactly the sample of one pass. The quartiles of the sample
- * have a standard error of about 0.87·IQR/√cap.
+ * `cap` rows with the smallest priority (linePriority; bottom-k sampling). Candidates below the
+ * running threshold are appended to a buffer with a quarter of `cap` to spare; when it is full,
+ * a selection on the priorities keeps the smallest `cap` and lowers the threshold. The kept set
+ * depends only on which rows hold values, never on how the file was cut into parts, so parts
+ * merge to exactly the sample of one pass. The quartiles of the sample have a standard error of
+ * about 0.87·IQR/√cap.
  */
 export class QuantileStore {
   private buf: Float64Array;
   private keys: Uint32Array;
   private len = 0;
   seen = 0;
+  /** once the buffer has been cut to `cap`: a priority at or above this is never kept */
+  private limit = Infinity;
+  private readonly room: number;
   constructor(private cap: number) {
-    this.buf = new Float64Array(Math.min(cap, 1024));
+    this.room = cap + Math.max(64, cap >> 2);
+    this.buf = new Float64Array(Math.min(this.room, 1024));
     this.keys = new Uint32Array(this.buf.length);
   }
   /** The value of the row on `line` (a spreadsheet's row number). */
@@ -135,9 +141,13 @@ export class QuantileStore {
     this.keep(x, linePriority(line));
   }
   private keep(x: number, key: number): void {
-    if (this.len < this.cap) {
-      if (this.len === this.buf.length) {
-        const n = Math.min(this.cap, this.buf.length * 2);
+    if (key >= this.limit) return;
+    if (this.len === this.buf.length) {
+      if (this.len === this.room) {
+        this.cut();
+        if (key >= this.limit) return;
+      } else {
+        const n = Math.min(this.room, this.buf.length * 2);
         const b = new Float64Array(n);
         b.set(this.buf);
         this.buf = b;
@@ -145,36 +155,50 @@ export class QuantileStore {
         k.set(this.keys);
         this.keys = k;
       }
-      this.buf[this.len] = x;
-      this.keys[this.len++] = key;
-      if (this.len === this.cap) for (let i = (this.cap >> 1) - 1; i >= 0; i--) this.siftDown(i);
-    } else if (key < this.keys[0]!) {
-      this.buf[0] = x;
-      this.keys[0] = key;
-      this.siftDown(0);
     }
+    this.buf[this.len] = x;
+    this.keys[this.len++] = key;
   }
-  private siftDown(i: number): void {
-    const { keys, buf, len } = this;
-    const key = keys[i]!;
-    const x = buf[i]!;
-    for (;;) {
-      let c = 2 * i + 1;
-      if (c >= len) break;
-      if (c + 1 < len && keys[c + 1]! > keys[c]!) c++;
-      if (keys[c]! <= key) break;
-      keys[i] = keys[c]!;
-      buf[i] = buf[c]!;
-      i = c;
+  /** Keep the `cap` smallest priorities (Hoare's selection, the values moved along; priorities are distinct). */
+  private cut(): void {
+    if (this.len <= this.cap) return;
+    const { keys, buf } = this;
+    const k = this.cap - 1;
+    let lo = 0;
+    let hi = this.len - 1;
+    while (hi > lo) {
+      const pivot = keys[(lo + hi) >>> 1]!;
+      let i = lo;
+      let j = hi;
+      while (i <= j) {
+        while (keys[i]! < pivot) i++;
+        while (keys[j]! > pivot) j--;
+        if (i <= j) {
+          const tk = keys[i]!;
+          keys[i] = keys[j]!;
+          keys[j] = tk;
+          const tv = buf[i]!;
+          buf[i] = buf[j]!;
+          buf[j] = tv;
+          i++;
+          j--;
+        }
+      }
+      if (k <= j) hi = j;
+      else if (k >= i) lo = i;
+      else break;
     }
-    keys[i] = key;
-    buf[i] = x;
+    this.len = this.cap;
+    let t = 0;
+    for (let i = 0; i < this.cap; i++) if (keys[i]! > t) t = keys[i]!;
+    this.limit = t;
   }
   get exact(): boolean {
     return this.seen <= this.cap;
   }
   /** The kept values, their priorities and how many values they stand for (to merge parts of a file). */
   part(): { values: Float64Array; keys: Uint32Array; seen: number } {
+    this.cut();
     return { values: this.buf.slice(0, this.len), keys: this.keys.slice(0, this.len), seen: this.seen };
   }
   /**
@@ -188,6 +212,7 @@ export class QuantileStore {
   }
   /** Sorted copy of the kept values. */
   sorted(): Float64Array {
+    this.cut();
     return this.buf.slice(0, this.len).sort();
   }
   /**
@@ -195,11 +220,13 @@ export class QuantileStore {
    * Works on a copy, so the kept values keep their order (and their priorities).
    */
   quantiles(ps: number[]): number[] {
+    this.cut();
     const a = this.buf.slice(0, this.len);
     return ps.map((p) => selectQuantile(a, p));
   }
   /** A systematic sample of at most m kept values (for the pool state). */
   sample(m: number): number[] {
+    this.cut();
     // in file order while exact; beyond the cap the heap's order depends on the parts, so sorted
     const kept = this.exact ? this.buf.subarray(0, this.len) : this.sorted();
     if (this.len <= m) return Array.from(kept);

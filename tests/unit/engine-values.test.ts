@@ -5,7 +5,7 @@
  * within a few standard errors; pooled moments equal one pass (Chan et al. 1979).
  */
 import { describe, expect, test } from "vitest";
-import { Moments, QuantileStore, quantile, selectQuantile } from "@/lib/readiness/accumulators";
+import { Moments, QuantileStore, linePriority, quantile, selectQuantile } from "@/lib/readiness/accumulators";
 import { foldLevel, oneEditApart, parseDate, readDecimalComma, readNumber } from "@/lib/readiness/values";
 import { rng } from "../fixtures/engine/data";
 
@@ -102,6 +102,21 @@ describe("quartiles", () => {
       expect(merged.quantiles([0.25, 0.5, 0.75])).toEqual(one.quantiles([0.25, 0.5, 0.75]));
       expect(merged.sample(512)).toEqual(one.sample(512));
     }
+  });
+  test("the sample is the values of the rows of smallest priority (a brute-force bottom-k)", () => {
+    const r = rng(13);
+    const xs = Array.from({ length: 20_000 }, () => r());
+    const q = new QuantileStore(1500);
+    xs.forEach((x, i) => q.add(x, i + 2));
+    const expected = xs
+      .map((x, i) => [linePriority(i + 2), x] as const)
+      .sort((a, b) => a[0] - b[0])
+      .slice(0, 1500)
+      .map(([, x]) => x)
+      .sort((a, b) => a - b);
+    expect(Array.from(q.sorted())).toEqual(expected);
+    // a bijection: no two rows share a priority
+    expect(new Set(Array.from({ length: 100_000 }, (_, i) => linePriority(i))).size).toBe(100_000);
   });
   test("within the bound every value is kept, in file order, however the file is cut", () => {
     const one = new QuantileStore(2000);
