@@ -159,7 +159,10 @@ export class QuantileStore {
     this.buf[this.len] = x;
     this.keys[this.len++] = key;
   }
-  /** Keep the `cap` smallest priorities (Hoare's selection, the values moved along; priorities are distinct). */
+  /**
+   * Keep the `cap` smallest priorities (priorities are distinct). The loop is selectInPlace's
+   * (below), written again because every swap must move the value along with its priority.
+   */
   private cut(): void {
     if (this.len <= this.cap) return;
     const { keys, buf } = this;
