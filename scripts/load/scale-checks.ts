@@ -75,6 +75,11 @@ export interface AfterChecks {
   mailboxMessages: number;
   mailsSentTwice: number;
   checkJobsTakenOver: number;
+  /** e-mails that needed more than one attempt (a failed round, an expired claim) */
+  mailsRetried: number;
+  /** when the last decision was recorded and the last e-mail sent (to explain the run's tail) */
+  lastDecisionAt: Date | null;
+  lastMailSentAt: Date | null;
 }
 
 export async function afterChecks(
@@ -85,6 +90,11 @@ export async function afterChecks(
   const one = async (sql: string) => {
     const [rows] = await pool.query(sql, [studySlug]);
     return Number(Object.values((rows as Record<string, unknown>[])[0] ?? {})[0] ?? 0);
+  };
+  const when = async (sql: string): Promise<Date | null> => {
+    const [rows] = await pool.query(sql, [studySlug]);
+    const v = Object.values((rows as Record<string, unknown>[])[0] ?? {})[0];
+    return v instanceof Date ? v : v ? new Date(String(v)) : null;
   };
   const inStudy = `join batches b on b.id = v.batch_id join studies s on s.id = b.study_id and s.slug = ?`;
   const { messages } = (await (await fetch(`${mailboxUrl}/messages`)).json()) as {
@@ -117,6 +127,15 @@ export async function afterChecks(
     mailsSentTwice: keys.length - new Set(keys).size,
     checkJobsTakenOver: await one(
       `select count(*) from check_jobs j join batch_versions v on v.id = j.batch_version_id ${inStudy} where j.attempts > 1`,
+    ),
+    mailsRetried: await one(
+      `select count(*) from email_outbox o join batches b on b.id = o.batch_id join studies s on s.id = b.study_id and s.slug = ? where o.attempts > 1`,
+    ),
+    lastDecisionAt: await when(
+      `select max(d.created_at) from decisions d join batch_versions v on v.id = d.batch_version_id ${inStudy}`,
+    ),
+    lastMailSentAt: await when(
+      `select max(o.sent_at) from email_outbox o join batches b on b.id = o.batch_id join studies s on s.id = b.study_id and s.slug = ?`,
     ),
   };
 }

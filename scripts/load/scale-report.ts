@@ -26,6 +26,8 @@ export function printScale(r: {
   windowS: number;
   uploadsS: number;
   checksS: number | null;
+  /** when the last report was stored (the database's clock, as the after-run checks' times) */
+  lastReportAt: Date | null;
   machine: string;
 }) {
   const s = r.settings;
@@ -86,6 +88,10 @@ export function printScale(r: {
     },
   ];
   const t0 = Math.min(...r.faults.map((f) => f.at), Date.now());
+  const tail = (at: Date | null) =>
+    at && r.lastReportAt
+      ? `the last ${((at.getTime() - r.lastReportAt.getTime()) / 1000).toFixed(1)} s after the last report`
+      : "the last: –";
   const lines = [
     `Tributary scale run: HAProxy → app-a, app-b (next start); 2 workers; MariaDB primary + 1 replica. ${s.batches} providers × ${s.rows!.toLocaleString("en")} rows in waves of ${s.wave}; ${s.analysts} analysts and ${s.leads} leads at ${s.rate} request/s each`,
     "",
@@ -99,7 +105,8 @@ export function printScale(r: {
     "",
     `uploads accepted         ${accepted}/${s.batches} in ${r.uploadsS.toFixed(1)} s; whole window ${r.windowS.toFixed(1)} s`,
     `checks                   ${(s.batches! * s.rows!).toLocaleString("en")} rows, first upload → last report ${r.checksS === null ? "–" : `${r.checksS.toFixed(1)} s`}; ${a.checkJobsTakenOver} check jobs needed a second attempt`,
-    `decisions                ${r.decided} made by the analysts (even providers accepted, odd bounced)`,
+    `decisions                ${r.decided} made by the analysts (even providers accepted, odd bounced); ${tail(a.lastDecisionAt)}`,
+    `e-mails                  ${a.outboxSent}/${a.outboxRows} sent, ${a.mailsRetried} needed a second attempt; ${tail(a.lastMailSentAt)}`,
     `reports opened           ${r.reportsOpened} distinct versions`,
     `replication lag          p50 ${ms(percentile(lagMs, 50))}, p95 ${ms(percentile(lagMs, 95))}, max ${ms(lagMs.at(-1) ?? null)} over ${lagMs.length} samples (${r.lag.length - lagMs.length} while a server was down)`,
     `machine                  ${r.machine}`,

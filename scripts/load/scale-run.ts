@@ -174,6 +174,7 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
     decided,
     windowS: (doneAt - startedAt) / 1000,
     uploadsS: (lastAccepted - startedAt) / 1000,
+    lastReportAt: p.lastReportAt,
     checksS:
       p.firstUploadAt && p.lastReportAt
         ? (p.lastReportAt.getTime() - p.firstUploadAt.getTime()) / 1000
