@@ -10,8 +10,8 @@
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
  * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none).
  * The process lowers its own CPU priority to TRIBUTARY_WORKER_NICE (default 10) before it starts
- * any thread, so that an app instance on the same machine answers first; the check threads
- * inherit it.
+ * its check threads, so that an app instance on the same machine answers first; the check
+ * threads inherit it (on Linux a priority is per thread, and a new thread takes its creator's).
  */
 import os from "node:os";
 import { checkWorkersFromEnv, exitUnlessEnvOk, msFromEnv, workerNiceFromEnv } from "@/lib/env";
