@@ -192,9 +192,8 @@ export class QuantileStore {
       else break;
     }
     this.len = this.cap;
-    let t = 0;
-    for (let i = 0; i < this.cap; i++) if (keys[i]! > t) t = keys[i]!;
-    this.limit = t;
+    // the selection leaves the cap-th smallest at k, above everything before it
+    this.limit = keys[k]!;
   }
   get exact(): boolean {
     return this.seen <= this.cap;
@@ -230,7 +229,7 @@ export class QuantileStore {
   /** A systematic sample of at most m kept values (for the pool state). */
   sample(m: number): number[] {
     this.cut();
-    // in file order while exact; beyond the cap the heap's order depends on the parts, so sorted
+    // in file order while exact; beyond the cap the buffer's order depends on the parts, so sorted
     const kept = this.exact ? this.buf.subarray(0, this.len) : this.sorted();
     if (this.len <= m) return Array.from(kept);
     const out: number[] = [];

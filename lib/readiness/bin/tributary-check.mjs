@@ -6,10 +6,11 @@
 // bundling is not possible (a read-only checkout, esbuild missing), tsx's module hooks load the
 // sources instead: slower to start, the same command. checkFile's worker threads start from this
 // file too, and take the same bundle.
-import { mkdirSync, readdirSync, renameSync, rmSync, statSync } from "node:fs";
+import { existsSync, mkdirSync, readdirSync, renameSync, rmSync, statSync } from "node:fs";
 import { createRequire } from "node:module";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { isMainThread } from "node:worker_threads";
 
 const ENGINE = path.resolve(path.dirname(fileURLToPath(import.meta.url)), "..");
 const BUNDLE = path.join(ENGINE, ".build", "tributary-check.cjs");
@@ -67,9 +68,14 @@ async function buildBundle() {
   }
 }
 
-if (process.env.TRIBUTARY_CHECK_SOURCES !== "1" && (bundleIsFresh() || (await buildBundle()))) {
+// a check's worker thread takes what its main thread settled: the bundle, without walking the sources again
+const useBundle =
+  process.env.TRIBUTARY_CHECK_SOURCES !== "1" &&
+  (isMainThread ? bundleIsFresh() || (await buildBundle()) : existsSync(BUNDLE));
+if (useBundle) {
   createRequire(import.meta.url)(BUNDLE);
 } else {
+  process.env.TRIBUTARY_CHECK_SOURCES = "1"; // and so do the worker threads, which inherit it
   const { register } = await import("tsx/esm/api");
   register();
   await import("../cli/entry.ts");
