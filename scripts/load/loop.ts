@@ -15,13 +15,27 @@ export interface LoopFigures {
   appSecondsOver100Ms: number;
 }
 
-/** Starts watching this process's event loop; call the result to stop and read it. */
-export function watchOwnLoop(): () => number {
+/**
+ * Starts watching this process's event loop; call the result to stop and read the longest
+ * stall (ms). `seconds`, when given, receives [Date.now(), longest stall in that second] once a
+ * second, so a run can line its slow answers up with the generator's own stalls.
+ */
+export function watchOwnLoop(seconds?: [number, number][]): () => number {
   const h = monitorEventLoopDelay({ resolution: 10 });
   h.enable();
+  let max = 0;
+  const tick = seconds
+    ? setInterval(() => {
+        const m = h.max / 1e6;
+        max = Math.max(max, m);
+        seconds.push([Date.now(), Math.round(m)]);
+        h.reset();
+      }, 1000).unref()
+    : null;
   return () => {
+    if (tick) clearInterval(tick);
     h.disable();
-    return Math.round(h.max / 1e6);
+    return Math.round(Math.max(max, h.max / 1e6));
   };
 }
 

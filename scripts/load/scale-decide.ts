@@ -2,8 +2,10 @@
  * The analysts' decisions in the scale run, through the service the batch page's action and the
  * decision route call (decideVersion): every version of the load study that is ready for review
  * is decided by the analyst of the same number as its provider — even providers accepted, odd ones
- * bounced with a comment. Polls every second until stdin closes; prints one JSON line
- * per decision. A decision the database refused while it restarted is tried again next round.
+ * bounced with a comment. Polls every second until stdin closes; prints `{"ready":true}` once
+ * its first round is done (so the run can start it before the measured window: its own start-up
+ * is a second or two of a core, which is no part of the app's load), then one JSON line per
+ * decision. A decision the database refused while it restarted is tried again next round.
  *
  *   tsx --conditions=react-server scripts/load/scale-decide.ts ACCOUNTS.json
  */
@@ -52,12 +54,15 @@ async function round(): Promise<void> {
   }
 }
 
+let first = true;
 while (open) {
   try {
     await round();
   } catch (e) {
     console.log(JSON.stringify({ retry: e instanceof Error ? e.message : String(e) }));
   }
+  if (first) console.log(JSON.stringify({ ready: true }));
+  first = false;
   await new Promise((r) => setTimeout(r, 1000));
 }
 await getPool().end();

@@ -142,6 +142,27 @@ export function runStep(what: string, command: string, args: string[], env: Node
 }
 
 /** The HAProxy configuration of scripts/load/haproxy.cfg with its ports filled in. */
+/**
+ * An instance's first request to a route loads that route's code, a few hundred ms of one core
+ * with its event loop held; a deployment warms a new instance before it takes traffic. One
+ * request to each route the clients use, without credentials (401 or 404), one at a time.
+ */
+export async function warmRoutes(port: number): Promise<void> {
+  const base = `http://127.0.0.1:${port}`;
+  const routes: [string, string][] = [
+    ["GET", "/api/v1/me"],
+    ["GET", "/api/v1/queue"],
+    ["GET", "/api/v1/board"],
+    ["GET", "/api/v1/pool/warm-up"],
+    ["GET", "/api/v1/batches/warm-up/versions/1/report"],
+    ["POST", "/api/v1/batches"],
+  ];
+  for (const [method, route] of routes)
+    await fetch(base + route, { method, signal: AbortSignal.timeout(30_000) })
+      .then((r) => r.arrayBuffer())
+      .catch(() => undefined);
+}
+
 export function haproxyConfig(
   root: string,
   ports: { front: number; appA: number; appB: number; stats: number },

@@ -1,7 +1,7 @@
 /** The printed figures and targets of `npm run load -- --scale` (scripts/load/scale-run.ts). */
 import type { AfterChecks } from "./scale-checks";
 import type { ScaleRecorder, UploadOutcome } from "./scale-traffic";
-import { figureCells, ms, percentile, table, type Endpoint } from "./stats";
+import { figureCells, ms, percentile, Recorder, table, type Endpoint } from "./stats";
 
 export interface FaultNote {
   name: string;
@@ -29,8 +29,21 @@ export function printScale(r: {
   /** when the last report was stored (the database's clock, as the after-run checks' times) */
   lastReportAt: Date | null;
   machine: string;
+  /** when the first wave was sent (Date.now() clock) */
+  startedAt: number;
 }) {
   const s = r.settings;
+  // the p95 targets are judged while the network is at work: from the first upload to the last
+  // report or decision, whichever is later. The wait for a last e-mail after that adds only
+  // quiet answers (the analysts then poll an empty queue), which would flatter the p95.
+  const busyTo = Math.max(
+    r.lastReportAt?.getTime() ?? -Infinity,
+    r.after.lastDecisionAt?.getTime() ?? -Infinity,
+  );
+  const busy = new Recorder();
+  for (const [e, , at, latency, status] of r.rec.log)
+    if (at >= r.startedAt && at <= busyTo) busy.response(e, status, latency, 0, undefined, at);
+  const busyS = Number.isFinite(busyTo) ? (busyTo - r.startedAt) / 1000 : null;
   const row = figureCells;
   const head = ["endpoint", "requests", "req/s", "p50", "p95", "p99", "max", "non-2xx", "socket errors"];
   const all = ENDPOINTS.map((e) => r.rec.all.figures(e)).filter((f) => f.requests > 0);
@@ -63,11 +76,14 @@ export function printScale(r: {
       detail: `${a.versions} versions of ${a.batches} batches; ${a.versionsWithoutOneReport} without exactly one report; ${a.orgsWithMoreThanOneBatch} providers with a second batch`,
     },
     ...READS.map((e) => {
-      const f = r.rec.all.figures(e);
+      const f = busy.figures(e);
       return {
-        name: `${e} p95 < ${P95_TARGET_MS} ms`,
+        name: `${e} p95 < ${P95_TARGET_MS} ms while busy`,
         met: f.p95 !== null && f.p95 < P95_TARGET_MS,
-        detail: f.p95 === null ? "no request measured" : `p95 ${ms(f.p95)} over ${f.requests} requests`,
+        detail:
+          f.p95 === null
+            ? "no request measured"
+            : `p95 ${ms(f.p95)} over ${f.requests} requests (whole run: ${ms(r.rec.all.figures(e).p95)} over ${r.rec.all.figures(e).requests})`,
       };
     }),
     {
@@ -100,6 +116,14 @@ export function printScale(r: {
       all.map((f) => row(f.endpoint, f)),
     ),
     "",
+    `while busy: from the first upload to the last report or decision (${busyS === null ? "–" : `${busyS.toFixed(1)} s`}); the p95 targets are judged here`,
+    table(
+      head,
+      READS.map((e) => busy.figures(e))
+        .filter((f) => f.requests > 0)
+        .map((f) => row(f.endpoint, f)),
+    ),
+    "",
     'per instance (the X-Tributary-Instance header HAProxy sets; "none": HAProxy answered itself)',
     table(head, perInstance),
     "",
@@ -122,6 +146,7 @@ export function printScale(r: {
     finishedAt: new Date().toISOString(),
     settings: s,
     figures: all,
+    busy: { seconds: busyS, figures: READS.map((e) => busy.figures(e)) },
     perInstance: Object.fromEntries(
       [...r.rec.byInstance].map(([i, rec]) => [i, ENDPOINTS.map((e) => rec.figures(e))]),
     ),

@@ -16,7 +16,7 @@ import type { LoadAccounts } from "./accounts";
 import { loadBatch } from "./batches";
 import { progressReader } from "./progress";
 import { afterChecks, openServer, sampleLag, selects } from "./scale-checks";
-import { until } from "./scale-parts";
+import { until, warmRoutes } from "./scale-parts";
 import { printScale, type FaultNote } from "./scale-report";
 import { SCALE, startScaleStack, type ScaleStack } from "./scale-stack";
 import { ScaleRecorder, signInLimit, startReaders, upload, type UploadOutcome } from "./scale-traffic";
@@ -83,16 +83,6 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   log(
     `sign-in limit: ${JSON.stringify(signIn.instances)} answered the failures; refused after: ${signIn.refusedAfter}`,
   );
-  const lag = sampleLag(primary, replica);
-  const ownLoop = watchOwnLoop();
-  const readers = startReaders(
-    origin,
-    accounts.studySlug,
-    accounts.analysts.slice(1).map((a) => a.token),
-    accounts.leads.map((l) => l.token),
-    rec,
-    s.rate!,
-  );
   const decider = spawn(
     path.join(ROOT, "node_modules/.bin/tsx"),
     ["--conditions=react-server", "scripts/load/scale-decide.ts", stack.accountsFile],
@@ -104,6 +94,30 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   );
   let decided = 0;
   decider.stdout.on("data", (d: Buffer) => (decided += (d.toString().match(/"ok":true/g) ?? []).length));
+  // the decider's own start-up (tsx, the services) takes a core for a second or two: it is the
+  // harness, not the app's load, so it is done before the readers start and the window opens
+  await new Promise<void>((resolve, reject) => {
+    const ready = (d: Buffer) => {
+      if (!d.toString().includes('"ready":true')) return;
+      decider.stdout.off("data", ready);
+      resolve();
+    };
+    decider.stdout.on("data", ready);
+    decider.once("exit", (code) => reject(new Error(`the decider exited (${code}) before it was ready`)));
+  });
+  const lag = sampleLag(primary, replica);
+  const ownSeconds: [number, number][] = [];
+  const ownLoop = watchOwnLoop(ownSeconds);
+  const readers = startReaders(
+    origin,
+    accounts.studySlug,
+    accounts.analysts.slice(1).map((a) => a.token),
+    accounts.leads.map((l) => l.token),
+    rec,
+    s.rate!,
+  );
+  // one round of every reader before the first wave, so the window opens on the full read load
+  await new Promise((r) => setTimeout(r, 1000 / s.rate!));
   const startedAt = Date.now();
   const outcomes: UploadOutcome[] = [];
   const side: Promise<void>[] = [];
@@ -175,6 +189,7 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
     windowS: (doneAt - startedAt) / 1000,
     uploadsS: (lastAccepted - startedAt) / 1000,
     lastReportAt: p.lastReportAt,
+    startedAt,
     checksS:
       p.firstUploadAt && p.lastReportAt
         ? (p.lastReportAt.getTime() - p.firstUploadAt.getTime()) / 1000
@@ -186,7 +201,12 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   const dir = path.join(ROOT, ".data", "load");
   mkdirSync(dir, { recursive: true });
   writeFileSync(path.join(dir, "scale-last.json"), JSON.stringify(figures, null, 2));
-  log("figures written to .data/load/scale-last.json");
+  // every answer with its time, beside the faults' times: where the slow ones fell
+  writeFileSync(
+    path.join(dir, "scale-requests.json"),
+    JSON.stringify({ startedAt, faults, generatorLoop: ownSeconds, requests: rec.log }),
+  );
+  log("figures written to .data/load/scale-last.json, every answer to .data/load/scale-requests.json");
   return figures.passed ? 0 : 1;
 }
 
@@ -196,9 +216,11 @@ async function killApp(stack: ScaleStack, note: (n: string, w: string) => void) 
   await stack.parts.kill("app-a", "SIGKILL");
   await new Promise((r) => setTimeout(r, 10_000));
   await stack.parts.restart("app-a");
+  // as a deployment would: its routes loaded while HAProxy's checks pass and its slow start ramps up
+  await warmRoutes(SCALE.appA);
   note(
     "app instance killed",
-    "app-a started again and listening; HAProxy adds it back after two good checks",
+    "app-a started again, listening and warmed; HAProxy adds it back after two good checks, at full weight after 5 s",
   );
 }
 

@@ -10,7 +10,7 @@ import { spawn } from "node:child_process";
 import { rmSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { createInterface } from "node:readline";
-import { haproxyConfig, loopbackEnv, Parts, runStep, type PartSpec } from "./scale-parts";
+import { haproxyConfig, loopbackEnv, Parts, runStep, warmRoutes, type PartSpec } from "./scale-parts";
 
 export const SCALE = {
   front: 3430,
@@ -150,8 +150,10 @@ export async function startScaleStack(
     for (const [name, port] of [
       ["app-a", SCALE.appA],
       ["app-b", SCALE.appB],
-    ] as const)
+    ] as const) {
       await part(name, next, ["start", "-H", "127.0.0.1", "-p", String(port)], { port }, monitor);
+      await warmRoutes(port);
+    }
     const cfg = path.join(logDir, "haproxy.cfg");
     writeFileSync(
       cfg,
