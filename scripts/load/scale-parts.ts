@@ -141,7 +141,6 @@ export function runStep(what: string, command: string, args: string[], env: Node
   return r.stdout;
 }
 
-/** The HAProxy configuration of scripts/load/haproxy.cfg with its ports filled in. */
 /**
  * An instance's first request to a route loads that route's code, a few hundred ms of one core
  * with its event loop held; a deployment warms a new instance before it takes traffic. One
@@ -163,6 +162,7 @@ export async function warmRoutes(port: number): Promise<void> {
       .catch(() => undefined);
 }
 
+/** The HAProxy configuration of scripts/load/haproxy.cfg with its ports filled in. */
 export function haproxyConfig(
   root: string,
   ports: { front: number; appA: number; appB: number; stats: number },

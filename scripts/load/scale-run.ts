@@ -17,7 +17,7 @@ import { loadBatch } from "./batches";
 import { progressReader } from "./progress";
 import { afterChecks, openServer, sampleLag, selects } from "./scale-checks";
 import { until, warmRoutes } from "./scale-parts";
-import { printScale, type FaultNote } from "./scale-report";
+import { ENDPOINTS, printScale, type FaultNote } from "./scale-report";
 import { SCALE, startScaleStack, type ScaleStack } from "./scale-stack";
 import { ScaleRecorder, signInLimit, startReaders, upload, type UploadOutcome } from "./scale-traffic";
 import { watchOwnLoop } from "./loop";
@@ -204,7 +204,18 @@ async function measure(stack: ScaleStack, s: Record<string, number>, loadBefore:
   // every answer with its time, beside the faults' times: where the slow ones fell
   writeFileSync(
     path.join(dir, "scale-requests.json"),
-    JSON.stringify({ startedAt, faults, generatorLoop: ownSeconds, requests: rec.log }),
+    JSON.stringify({
+      startedAt,
+      faults,
+      generatorLoop: ownSeconds,
+      // per instance and endpoint: [ms after startedAt when answered, latency ms, status]
+      answers: Object.fromEntries(
+        [...rec.byInstance].map(([i, r]) => [
+          i,
+          Object.fromEntries(ENDPOINTS.map((e) => [e, r.samples(e, startedAt)])),
+        ]),
+      ),
+    }),
   );
   log("figures written to .data/load/scale-last.json, every answer to .data/load/scale-requests.json");
   return figures.passed ? 0 : 1;

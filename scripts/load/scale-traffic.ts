@@ -15,11 +15,8 @@ export class ScaleRecorder {
   retries: Partial<Record<Endpoint, number>> = {};
   /** requests that failed every try */
   failures: string[] = [];
-  /** every answer as [endpoint, instance, answered at (Date.now()), latency ms, status], for .data/load/scale-requests.json */
-  readonly log: [Endpoint, string, number, number, number][] = [];
 
   record(endpoint: Endpoint, instance: string, status: number, latencyMs: number, body: string) {
-    this.log.push([endpoint, instance, Date.now(), Math.round(latencyMs), status]);
     this.all.response(endpoint, status, latencyMs, body.length, body);
     let r = this.byInstance.get(instance);
     if (!r) this.byInstance.set(instance, (r = new Recorder()));
