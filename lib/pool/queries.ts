@@ -18,6 +18,19 @@ import {
   type StudyRef,
 } from "./pool";
 import { getBoard, type Board } from "./queries-board";
+import { sharedRead } from "@/lib/core/shared-read";
+
+/**
+ * The board and a study's pool answer every reader the same, and readers come in bursts (the
+ * leads' boards refreshing together, a hundred analysts on one study): requests that arrive
+ * while the same read runs on this instance share it (lib/core/shared-read.ts). Measured with
+ * `npm run load -- --scale`: README, Scaling out.
+ */
+const sharedBoard = sharedRead((weeks: number) => getBoard(getDb(), new Date(), weeks));
+/** the pool of one study at one plan version, shared the same way */
+const readPool = sharedRead((study: StudyRef) => getStudyPool(getDb(), study), {
+  keyOf: (study) => `${study.id}:${study.currentPlanVersion ?? ""}`,
+});
 
 /** A study the user may see the pool of (analysts: assigned studies; leads and admins: all), or null. */
 export async function getPoolStudyForUser(user: SessionUser, slug: string): Promise<StudyRef | null> {
@@ -40,7 +53,7 @@ export async function listPoolStudiesForUser(user: SessionUser): Promise<StudyRe
 export async function getPoolForUser(user: SessionUser, slug: string): Promise<StudyPool | null> {
   const study = await getPoolStudyForUser(user, slug);
   if (!study || study.currentPlanVersion == null) return null;
-  return getStudyPool(getDb(), study);
+  return readPool(study);
 }
 
 /**
@@ -97,10 +110,13 @@ export const NO_VISIBLE_POOL = "No study with this name has a pool you can see."
 
 /** The pool of a study already found in the user's scope (listPoolStudiesForUser). */
 export function loadPool(study: StudyRef): Promise<StudyPool> {
-  return getStudyPool(getDb(), study);
+  return readPool(study);
 }
 
-/** The lead's board over the last `weeks` weeks; the caller has checked board.read. */
-export function loadBoard(weeks: number, now = new Date()): Promise<Board> {
-  return getBoard(getDb(), now, weeks);
+/**
+ * The lead's board over the last `weeks` weeks; the caller has checked board.read. Without
+ * `now` it is shared with the same board already being read on this instance.
+ */
+export function loadBoard(weeks: number, now?: Date): Promise<Board> {
+  return now ? getBoard(getDb(), now, weeks) : sharedBoard(weeks);
 }
