@@ -74,6 +74,9 @@ export function startReaders(
   let stopped = false;
   const opened = new Set<string>();
   const every = 1000 / rate;
+  // Each reader starts at its own slot within one period, so the readers' requests are spread evenly
+  // over it; the leads take the slots after the analysts' (they once reused slots 0..4, which sent all
+  // five board reads within a few ms of each other every period).
   const loop = async (token: string, i: number, lead: boolean) => {
     const headers = { authorization: `Bearer ${token}`, accept: "application/json" };
     let seen: QueueItem[] = [];
@@ -102,7 +105,10 @@ export function startReaders(
       await pause(Math.max(0, every - (Date.now() - started)));
     }
   };
-  const runs = [...analysts.map((t, i) => loop(t, i, false)), ...leads.map((t, i) => loop(t, i, true))];
+  const runs = [
+    ...analysts.map((t, i) => loop(t, i, false)),
+    ...leads.map((t, i) => loop(t, analysts.length + i, true)),
+  ];
   return {
     async stop() {
       stopped = true;
