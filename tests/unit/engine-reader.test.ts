@@ -9,7 +9,7 @@ import path from "node:path";
 import { describe, expect, test } from "vitest";
 import { checkBatch, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
-import { checkStream } from "@/lib/readiness/node-stream";
+import { checkStream, rangeWorkerScript } from "@/lib/readiness/node-stream";
 import { poolCsvLines } from "@/lib/pool/export";
 import type { StudyPool } from "@/lib/pool/pool";
 import { csvRecords } from "@/lib/readiness/records";
@@ -186,5 +186,15 @@ describe("the server's check of a byte stream uses all cores", () => {
     expect(par.findings.find((f) => f.code === "type.mismatch")?.rows).toEqual([3502]);
     const small = await checkStream(chunks(text, 5000), P, { workers: 2 });
     expect(small.findings).toEqual(one.findings);
+  });
+
+  test("its threads start from the command's bundle of the engine, fresh, not from the sources through tsx", async () => {
+    const script = await rangeWorkerScript();
+    expect(path.relative(process.cwd(), script)).toBe(
+      path.join("lib", "readiness", "bin", "tributary-check.mjs"),
+    );
+    const { BUNDLE, bundleIsFresh } = await import("@/lib/readiness/bin/bundle.mjs");
+    expect(fs.existsSync(BUNDLE)).toBe(true);
+    expect(bundleIsFresh()).toBe(true);
   });
 });

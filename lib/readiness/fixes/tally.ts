@@ -126,21 +126,26 @@ export class ColumnTally {
     }
     const t = s.trim();
     if (this.comma) {
-      if (POINTED.test(t) && readNumber(t) === readNumber(t)) this.point++;
-      this.comma.see(s, row);
+      // each number is read once: a cell that reads with a point is never a decimal-comma fix
+      // (commaToPoint), and is its own value for the sentinels (cellNumber)
+      const vs = readNumber(s);
+      const vt = t === s ? vs : readNumber(t);
+      if (vt === vt && POINTED.test(t)) this.point++;
+      if (vs !== vs) this.comma.see(s, row);
       if (this.sentinels.size) {
-        const v = cellNumber(s);
+        const v = vs === vs ? vs : cellNumber(s);
         if (v === v) this.sentinels.get(v)?.see(s, row);
       }
     }
     if (this.dmy) {
+      // only a day/month pair can become an ISO date (isoDate), so the two orders are tried only then
       const d = parseDate(t);
       if (d.kind === "pair") {
         if (d.a > 12) this.a13++;
         if (d.b > 12) this.b13++;
+        this.dmy.see(s, row);
+        this.mdy!.see(s, row);
       }
-      this.dmy.see(s, row);
-      this.mdy!.see(s, row);
     }
   }
 }
