@@ -10,7 +10,7 @@ import { fileURLToPath } from "node:url";
 import { isUtf8 } from "node:buffer";
 import { checkBatch, type CheckOptions } from "./check";
 import { bytesOf, type ByteInput } from "./csv-reader";
-import { PARALLEL_MIN_BYTES, checkFile, defaultWorkers } from "./node";
+import { PARALLEL_MIN_BYTES, RangePool, checkFile, defaultWorkers } from "./node";
 import type { Plan } from "./plan";
 import type { ReadinessReport } from "./report";
 
@@ -25,6 +25,22 @@ let threadScript: Promise<string> | null = null;
  * one on a 24 MB batch before). When the bundle cannot be built, or TRIBUTARY_CHECK_SOURCES=1,
  * the sources through tsx (./range-worker.ts).
  */
+const pools = new Map<string, RangePool>();
+
+/** The process's kept range threads for a script (made on first use; idle ones do not keep it alive). */
+function keptThreads(script: string): RangePool {
+  let p = pools.get(script);
+  if (!p) pools.set(script, (p = new RangePool(script)));
+  return p;
+}
+
+/** How many kept range threads wait for a check in this process (keepThreads). */
+export function keptThreadCount(): number {
+  let n = 0;
+  for (const p of pools.values()) n += p.idleThreads;
+  return n;
+}
+
 export function rangeWorkerScript(): Promise<string> {
   threadScript ??=
     process.env.TRIBUTARY_CHECK_SOURCES === "1"
@@ -48,7 +64,15 @@ async function* replay(held: Uint8Array[]): AsyncGenerator<Uint8Array> {
 export async function checkStream(
   input: ByteInput,
   plan: Plan,
-  opts: CheckOptions & { workers?: number; minBytes?: number; workerScript?: string } = {},
+  opts: CheckOptions & {
+    workers?: number;
+    minBytes?: number;
+    workerScript?: string;
+    /** a large batch's ranges all on worker threads, none on this one (checkFile) */
+    threadsOnly?: boolean;
+    /** keep the worker threads for the next check (a long-running process; see RangePool) */
+    keepThreads?: boolean;
+  } = {},
 ): Promise<ReadinessReport> {
   const workers = opts.workers ?? defaultWorkers();
   if (workers < 2) return checkBatch(input, plan, { isUtf8, ...opts });
@@ -80,11 +104,9 @@ export async function checkStream(
     } finally {
       await out.close();
     }
-    return await checkFile(file, plan, {
-      ...opts,
-      workers,
-      workerScript: opts.workerScript ?? (await rangeWorkerScript()),
-    });
+    const workerScript = opts.workerScript ?? (await rangeWorkerScript());
+    const pool = opts.keepThreads ? keptThreads(workerScript) : undefined;
+    return await checkFile(file, plan, { ...opts, workers, workerScript, pool });
   } finally {
     await fs.promises.rm(dir, { recursive: true, force: true });
   }

@@ -69,6 +69,10 @@ export async function checkFile(
     minBytes?: number;
     /** read the ranges one after another in this thread (tests of the splitting) */
     inThread?: boolean;
+    /** every range on a worker thread, this one reading none (it has other work: the fix tally) */
+    threadsOnly?: boolean;
+    /** threads kept between checks (a long-running process: no thread start-up per check) */
+    pool?: RangePool;
   } = {},
 ): Promise<ReadinessReport> {
   const size = fs.statSync(file).size;
@@ -99,7 +103,9 @@ export async function checkFile(
     new Promise<RangeResult>((resolve, reject) => {
       const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
       // this thread reads the first range itself while the workers read the others
-      if (opts.inThread || i === 0) return resolve(readRange(job, (rows) => report(i, rows)));
+      if (opts.inThread || (i === 0 && !opts.threadsOnly))
+        return resolve(readRange(job, (rows) => report(i, rows)));
+      if (opts.pool) return void opts.pool.run(job, (rows) => report(i, rows)).then(resolve, reject);
       const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
       w.on("message", (m: RangeResult) => {
         if ("progress" in m) report(i, m.progress);
@@ -199,10 +205,23 @@ async function readRange(job: RangeJob, onProgress?: (rows: number) => void): Pr
   }
 }
 
-/** The worker side of checkFile: read the range, post the Scan's part. */
+/** The worker side of checkFile: read the range (or, in a pool, each range it is sent), post the Scan's part. */
 export async function runRangeWorker(): Promise<void> {
-  const job = (workerData as { tributaryRange: RangeJob }).tributaryRange;
-  const r = await readRange(job, (rows) => parentPort!.postMessage({ progress: rows } satisfies RangeResult));
+  const job = (workerData as { tributaryRange: RangeJob | typeof POOLED }).tributaryRange;
+  if (job !== POOLED) return postRange(await readRange(job, postProgress));
+  parentPort!.on("message", (m: { job: RangeJob }) => {
+    readRange(m.job, postProgress).then(postRange, (e: unknown) => {
+      // an error that is not the file's ends this thread, and its check fails, as a one-range thread's does
+      setImmediate(() => {
+        throw e;
+      });
+    });
+  });
+}
+
+const postProgress = (rows: number) => parentPort!.postMessage({ progress: rows } satisfies RangeResult);
+
+function postRange(r: RangeResult): void {
   if (!("ok" in r) || !r.ok) return parentPort!.postMessage(r);
   const part = r.part;
   const transfer = [
@@ -211,4 +230,60 @@ export async function runRangeWorker(): Promise<void> {
     ...part.cols.flatMap((c) => (c.quant ? [c.quant.values.buffer, c.quant.keys.buffer] : [])),
   ];
   parentPort!.postMessage(r, transfer as ArrayBuffer[]);
+}
+
+const POOLED = "pooled";
+
+/**
+ * Range threads kept between checks, for a long-running process (the server's check worker): a
+ * kept thread has loaded the engine and warmed up, which a new one pays for on every check. An
+ * idle thread does not keep the process alive; close() ends them.
+ */
+export class RangePool {
+  private idle: Worker[] = [];
+  constructor(
+    private readonly script: string,
+    private readonly execArgv?: string[],
+  ) {}
+
+  run(job: RangeJob, onProgress: (rows: number) => void): Promise<RangeResult> {
+    const w = this.idle.pop() ?? startWorker(this.script, { tributaryRange: POOLED }, this.execArgv);
+    w.ref();
+    return new Promise<RangeResult>((resolve, reject) => {
+      const done = () => {
+        w.off("message", message);
+        w.off("error", error);
+        w.off("exit", exit);
+      };
+      const message = (m: RangeResult) => {
+        if ("progress" in m) return onProgress(m.progress);
+        done();
+        w.unref();
+        this.idle.push(w);
+        resolve(m);
+      };
+      const error = (e: Error) => {
+        done();
+        void w.terminate();
+        reject(e);
+      };
+      const exit = (code: number) => {
+        done();
+        reject(new Error(`range worker exited with code ${code}`));
+      };
+      w.on("message", message);
+      w.on("error", error);
+      w.on("exit", exit);
+      w.postMessage({ job });
+    });
+  }
+
+  /** Threads waiting for a check. */
+  get idleThreads(): number {
+    return this.idle.length;
+  }
+
+  async close(): Promise<void> {
+    await Promise.all(this.idle.splice(0).map((w) => w.terminate()));
+  }
 }

@@ -1,0 +1,89 @@
+/**
+ * The server's check of a stored batch (lib/batches/jobs/proposals.ts): the check and the fix
+ * tally read one download at the same time — the check on kept worker threads (RangePool,
+ * lib/readiness/node.ts), the tally on the job's own thread — and give exactly what the check
+ * and then the tally, one after the other on one thread, give.
+ */
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { afterAll, describe, expect, test } from "vitest";
+import { checkBatch, proposeFixes, type ReadinessReport } from "@/lib/readiness";
+import { RangePool, checkFile } from "@/lib/readiness/node";
+import { keptThreadCount, rangeWorkerScript } from "@/lib/readiness/node-stream";
+import { checkAndPropose } from "@/lib/batches/jobs/proposals";
+import { close } from "../helpers/close";
+import { HEADER, chunks, cleanRows, csvOf, plan, type Row } from "../fixtures/engine/data";
+
+const P = plan();
+const strip = ({ state: _s, timings: _t, ...rest }: ReadinessReport) => rest;
+const dir = fs.mkdtempSync(path.join(os.tmpdir(), "tributary-server-check-"));
+afterAll(() => fs.rmSync(dir, { recursive: true, force: true }));
+
+/** A batch with fixable cells: a level in another case, a missing-value token, a quoted line break. */
+function batch(n: number): string {
+  const rows = cleanRows(n, 7).map((r, i): Row => {
+    const row: Row = [...r];
+    if (row[2] === "clay" && i % 3 === 0) row[2] = "Clay";
+    if (i % 40 === 5) row[4] = "NA";
+    if (i % 500 === 9) row[1] = '"two\nlines"';
+    return row;
+  });
+  return csvOf(HEADER, rows);
+}
+
+describe("kept range threads", () => {
+  test("a pool's threads are used again and give the report one pass gives, check after check", async () => {
+    const text = batch(4000);
+    const file = path.join(dir, "batch.csv");
+    fs.writeFileSync(file, text);
+    const one = strip(await checkBatch(chunks(text, 1 << 16), P));
+    const pool = new RangePool(await rangeWorkerScript());
+    try {
+      for (let round = 0; round < 3; round++) {
+        const par = await checkFile(file, P, { workers: 2, minBytes: 0, threadsOnly: true, pool });
+        // numbers to 1e-9 relative (the merged factor's floating-point order), as the parallel tests compare
+        close(strip(par), one, "report");
+        // every range went to a thread of the pool, which kept them for the next check
+        expect(pool.idleThreads).toBe(2);
+      }
+    } finally {
+      await pool.close();
+    }
+    expect(pool.idleThreads).toBe(0);
+  });
+});
+
+describe("the check and the fix tally, from one download at the same time", () => {
+  const job = (lines: string[]) => ({ log: (l: string) => lines.push(l), jobId: 1 });
+
+  test("the same report and proposals as the check, then the tally, on one thread", async () => {
+    const text = batch(4000);
+    const alone = await checkBatch(chunks(text, 1 << 16), P);
+    const proposals = await proposeFixes(chunks(text, 1 << 16), P, alone);
+    expect(proposals.map((p) => p.code)).toEqual(expect.arrayContaining(["level.variant", "missing.token"]));
+    for (const minBytes of [0, 1 << 30]) {
+      // minBytes 0: spooled and checked on worker threads; 1 GiB: read as it arrives, on this thread
+      const lines: string[] = [];
+      const both = await checkAndPropose(chunks(text, 3000), P, { workers: 2, minBytes, job: job(lines) });
+      close(strip(both), { ...strip(alone), proposals }, "report");
+      expect(both.proposals).toEqual(proposals);
+      expect(lines).toEqual([]);
+      // spooled (the first): its ranges were read by the process's two kept threads, which now wait
+      // for the next check; read as it arrives (the second): no thread taken, none started
+      expect(keptThreadCount()).toBe(2);
+    }
+  });
+
+  test("a download that fails rejects the check, and no tally is left waiting", async () => {
+    const text = batch(2000);
+    async function* failing(): AsyncGenerator<Uint8Array> {
+      yield* chunks(text.slice(0, 20_000), 4096);
+      throw new Error("the download stopped");
+    }
+    for (const minBytes of [0, 1 << 30])
+      await expect(checkAndPropose(failing(), P, { workers: 2, minBytes, job: job([]) })).rejects.toThrow(
+        "the download stopped",
+      );
+  });
+});
