@@ -54,6 +54,20 @@ export class HashSet64 {
     if (this.size * 5 > this.cap * 3) this.grow();
     return 0;
   }
+  /** The line stored with an entry (its first occurrence), 0 when it is not in the set. */
+  lineOf(h1: number, h2: number): number {
+    if (h1 === 0 && h2 === 0) h2 = 1;
+    const a1 = h1 >>> 0;
+    const a2 = h2 >>> 0;
+    const t = this.slots;
+    const mask = this.cap - 1;
+    for (let i = (h1 ^ Math.imul(h2, 0x9e3779b1)) & mask; ; i = (i + 1) & mask) {
+      const a = t[3 * i]!;
+      const b = t[3 * i + 1]!;
+      if (a === 0 && b === 0) return 0;
+      if (a === a1 && b === a2) return t[3 * i + 2]!;
+    }
+  }
   private grow(to?: number): void {
     const old = this.slots;
     const oldCap = this.cap;

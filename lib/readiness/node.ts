@@ -18,6 +18,7 @@ import { UnreadableError } from "./decode";
 import type { Plan } from "./plan";
 import type { ReadinessReport } from "./report";
 import { Scan } from "./scan";
+import { KeyExampleRecount } from "./key-examples";
 import { absorbPart, scanPart, type ScanPart } from "./scan-merge";
 import { survey } from "./split";
 
@@ -121,11 +122,14 @@ export async function checkFile(
   else first.push(...(await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)))));
   // in file order: each range must start where the one before it stopped
   const results: RangeResult[] = [];
+  /** where each range read was: its start, first line and end */
+  const spans: { start: number; firstLine: number; end: number }[] = [];
   let expect = { start: s.starts[0]!.start, line: s.starts[0]!.firstLine };
   for (let i = 0; i < first.length; i++) {
     let r = first[i]!;
     if ("ok" in r && r.ok && r.start !== expect.start) r = await run(i, expect.start, expect.line);
     results.push(r);
+    spans.push({ start: expect.start, firstLine: expect.line, end: ends[i]! });
     if (!("ok" in r) || !r.ok) break;
     expect = { start: r.stoppedAt, line: r.lineAfter };
   }
@@ -147,6 +151,7 @@ export async function checkFile(
       records += r.records;
     }
   });
+  await recountKeyExamples(scan, file, s.header, s.meta, results as RangeDone[], spans);
   return reportFromScan(
     scan,
     plan,
@@ -154,6 +159,34 @@ export async function checkFile(
     { bytes: size, records, bom: s.meta.bom, delimiter: s.meta.delimiter },
     t0,
   );
+}
+
+/**
+ * The examples of repeated keys as one pass finds them (./key-examples.ts): when a range after
+ * the first holds a repeated key, the first range's examples are kept and the later ranges are
+ * read again, in file order, for their key columns only.
+ */
+async function recountKeyExamples(
+  scan: Scan,
+  file: string,
+  header: string[],
+  meta: CsvMeta,
+  parts: RangeDone[],
+  spans: { start: number; firstLine: number; end: number }[],
+): Promise<void> {
+  const firstPart = new Map(parts[0]!.part.keys.map(([k, v]) => [k, v]));
+  const later = [...scan.keys].filter(([k, v]) => v.dup.count > (firstPart.get(k)?.dup.count ?? 0));
+  if (later.length === 0) return;
+  for (const [k, v] of later) v.examples = new Map(firstPart.get(k)?.examples ?? []);
+  const sink = new KeyExampleRecount(scan, new Set(later.map(([k]) => k)));
+  sink.onHeader(header, meta);
+  for (let i = 1; i < parts.length; i++) {
+    const { start, firstLine, end } = spans[i]!;
+    await readCsv(fs.createReadStream(file, { start, highWaterMark: 1 << 20 }), sink, {
+      range: { meta, byteOffset: start, firstLine, endOffset: end },
+      isUtf8,
+    });
+  }
 }
 
 /** Start a worker on a script; a TypeScript one is loaded through tsx's module hooks (development). */

@@ -7,6 +7,7 @@ import { FieldStatus } from "./column-scan";
 import type { CsvSink } from "./csv-reader";
 import { BlockText, type FieldBatch } from "./fields";
 import { hashByteFields, hashFields } from "./hashing";
+import { addKeyExample } from "./key-examples";
 import { ScanState } from "./scan-state";
 
 export {
@@ -103,9 +104,7 @@ export class Scan extends ScanState implements CsvSink {
         key.lastRepeatOf = first;
         if (first) {
           key.dup.add(line);
-          const v = c.str || String(c.value);
-          if (key.examples.size < 10 || key.examples.has(v))
-            key.examples.set(v, (key.examples.get(v) ?? 1) + 1);
+          addKeyExample(key.examples, c.str || String(c.value));
         }
       }
       if (!this.ready) return;
