@@ -1,7 +1,8 @@
 /**
  * Node-only: check a batch that arrives as a byte stream (the server's check worker) on all
- * cores. A small batch is read as it arrives; a larger one is written to a private temporary
- * file while it downloads, then checked by worker threads (checkFile), and the file removed.
+ * cores. A small batch is held in memory as it arrives; a larger one is written to a private
+ * temporary file while it downloads, then checked by worker threads (checkFile), and the file
+ * removed (spoolStream, checkSpooled).
  */
 import fs from "node:fs";
 import os from "node:os";
@@ -52,43 +53,55 @@ export function rangeWorkerScript(): Promise<string> {
   return threadScript;
 }
 
-async function* replay(held: Uint8Array[]): AsyncGenerator<Uint8Array> {
-  for (const c of held) yield c;
+/**
+ * A downloaded batch, read once from its stream: held in memory when it is smaller than the
+ * limit, otherwise written to a private temporary file, so that more than one reader (the check,
+ * the server's fix tally) can read it without a second download and without holding a large
+ * batch in memory. remove() deletes the file.
+ */
+export interface Spooled {
+  readonly size: number;
+  /** the temporary file, or null when the batch is held in memory */
+  readonly file: string | null;
+  /** every byte from the start; ends early, without an error, once `stop` is aborted */
+  read(stop?: AbortSignal): AsyncIterable<Uint8Array>;
+  remove(): Promise<void>;
 }
 
-/**
- * Check a byte stream against a plan with `workers` threads (default: one per core; 1 reads
- * the stream in this thread). Never throws for a bad file (an "unreadable" report); a failing
- * download rejects, as checkBatch does.
- */
-export async function checkStream(
+/** Reads `input` to its end (rejecting when the download fails, leaving no file behind). */
+export async function spoolStream(
   input: ByteInput,
-  plan: Plan,
-  opts: CheckOptions & {
-    workers?: number;
-    minBytes?: number;
-    workerScript?: string;
-    /** a large batch's ranges all on worker threads, none on this one (checkFile) */
-    threadsOnly?: boolean;
-    /** keep the worker threads for the next check (a long-running process; see RangePool) */
-    keepThreads?: boolean;
-  } = {},
-): Promise<ReadinessReport> {
-  const workers = opts.workers ?? defaultWorkers();
-  if (workers < 2) return checkBatch(input, plan, { isUtf8, ...opts });
-  const limit = opts.minBytes ?? PARALLEL_MIN_BYTES;
+  limit = PARALLEL_MIN_BYTES,
+  onProgress?: CheckOptions["onProgress"],
+): Promise<Spooled> {
   const it = bytesOf(input)[Symbol.asyncIterator]();
   const held: Uint8Array[] = [];
   let size = 0;
   for (;;) {
     const r = await it.next();
-    if (r.done) return checkBatch(replay(held), plan, { isUtf8, expectedBytes: size, ...opts });
+    if (r.done)
+      return {
+        size,
+        file: null,
+        async *read(stop) {
+          for (const c of held) {
+            if (stop?.aborted) return;
+            yield c;
+            // let other work on this thread (the check's threads' messages) go on between chunks
+            await new Promise<void>((w) => setImmediate(w));
+          }
+        },
+        remove: async () => {
+          held.length = 0;
+        },
+      };
     held.push(r.value);
     size += r.value.length;
     if (size >= limit) break;
   }
   const dir = await fs.promises.mkdtemp(path.join(os.tmpdir(), "tributary-check-"));
   const file = path.join(dir, "batch.csv");
+  const remove = () => fs.promises.rm(dir, { recursive: true, force: true });
   try {
     const out = await fs.promises.open(file, "wx", 0o600);
     try {
@@ -99,15 +112,73 @@ export async function checkStream(
         if (r.done) break;
         await out.write(r.value);
         size += r.value.length;
-        opts.onProgress?.({ rows: 0, bytes: size });
+        onProgress?.({ rows: 0, bytes: size });
       }
     } finally {
       await out.close();
     }
-    const workerScript = opts.workerScript ?? (await rangeWorkerScript());
-    const pool = opts.keepThreads ? keptThreads(workerScript) : undefined;
-    return await checkFile(file, plan, { ...opts, workers, workerScript, pool });
+  } catch (e) {
+    await remove();
+    throw e;
+  }
+  return {
+    size,
+    file,
+    async *read(stop) {
+      const stream = fs.createReadStream(file, { highWaterMark: 1 << 16 });
+      try {
+        for await (const c of stream) {
+          if (stop?.aborted) return;
+          yield c as Uint8Array;
+        }
+      } finally {
+        stream.destroy();
+      }
+    },
+    remove,
+  };
+}
+
+type StreamCheckOptions = CheckOptions & {
+  workers?: number;
+  /** the size from which a batch is spooled to a file and checked on threads (PARALLEL_MIN_BYTES) */
+  minBytes?: number;
+  workerScript?: string;
+  /** a large batch's ranges all on worker threads, none on this one (checkFile) */
+  threadsOnly?: boolean;
+  /** keep the worker threads for the next check (a long-running process; see RangePool) */
+  keepThreads?: boolean;
+};
+
+/** Check a spooled batch: in memory on this thread, from its file with `workers` threads. */
+export async function checkSpooled(
+  s: Spooled,
+  plan: Plan,
+  opts: StreamCheckOptions = {},
+): Promise<ReadinessReport> {
+  if (s.file === null) return checkBatch(s.read(), plan, { isUtf8, expectedBytes: s.size, ...opts });
+  const workers = opts.workers ?? defaultWorkers();
+  const workerScript = opts.workerScript ?? (await rangeWorkerScript());
+  const pool = opts.keepThreads && workers > 1 ? keptThreads(workerScript) : undefined;
+  return checkFile(s.file, plan, { ...opts, workers, workerScript, pool });
+}
+
+/**
+ * Check a byte stream against a plan with `workers` threads (default: one per core; 1 reads
+ * the stream in this thread as it arrives). Never throws for a bad file (an "unreadable"
+ * report); a failing download rejects, as checkBatch does.
+ */
+export async function checkStream(
+  input: ByteInput,
+  plan: Plan,
+  opts: StreamCheckOptions = {},
+): Promise<ReadinessReport> {
+  const workers = opts.workers ?? defaultWorkers();
+  if (workers < 2) return checkBatch(input, plan, { isUtf8, ...opts });
+  const spooled = await spoolStream(input, opts.minBytes, opts.onProgress);
+  try {
+    return await checkSpooled(spooled, plan, { ...opts, workers });
   } finally {
-    await fs.promises.rm(dir, { recursive: true, force: true });
+    await spooled.remove();
   }
 }

@@ -10,7 +10,7 @@ import path from "node:path";
 import { afterAll, describe, expect, test } from "vitest";
 import { checkBatch, proposeFixes, type ReadinessReport } from "@/lib/readiness";
 import { RangePool, checkFile } from "@/lib/readiness/node";
-import { keptThreadCount, rangeWorkerScript } from "@/lib/readiness/node-stream";
+import { keptThreadCount, rangeWorkerScript, spoolStream } from "@/lib/readiness/node-stream";
 import { checkAndPropose } from "@/lib/batches/jobs/proposals";
 import { close } from "../helpers/close";
 import { HEADER, chunks, cleanRows, csvOf, plan, type Row } from "../fixtures/engine/data";
@@ -51,6 +51,51 @@ describe("kept range threads", () => {
       await pool.close();
     }
     expect(pool.idleThreads).toBe(0);
+  });
+});
+
+describe("one download, read by more than one reader (spoolStream)", () => {
+  const bytesOf = async (it: AsyncIterable<Uint8Array>) => {
+    const parts: Uint8Array[] = [];
+    for await (const c of it) parts.push(c);
+    return Buffer.concat(parts).toString("utf8");
+  };
+
+  test("under the limit it is held in memory; from the limit on it is a private file, removed after", async () => {
+    const text = batch(1500);
+    const held = await spoolStream(chunks(text, 3000), 1 << 30);
+    expect(held.file).toBeNull();
+    expect(held.size).toBe(Buffer.byteLength(text));
+    expect(await bytesOf(held.read())).toBe(text);
+    expect(await bytesOf(held.read())).toBe(text);
+    const spooled = await spoolStream(chunks(text, 3000), 10_000);
+    expect(spooled.file).not.toBeNull();
+    expect(fs.statSync(spooled.file!).mode & 0o777).toBe(0o600);
+    expect(fs.readFileSync(spooled.file!, "utf8")).toBe(text);
+    expect(await bytesOf(spooled.read())).toBe(text);
+    // a reader told to stop ends early, without an error
+    const stop = new AbortController();
+    let seen = 0;
+    for await (const c of spooled.read(stop.signal)) {
+      seen += c.length;
+      stop.abort();
+    }
+    expect(seen).toBeGreaterThan(0);
+    expect(seen).toBeLessThan(spooled.size);
+    await spooled.remove();
+    expect(fs.existsSync(path.dirname(spooled.file!))).toBe(false);
+  });
+
+  test("a download that fails past the limit rejects and leaves no file behind", async () => {
+    const text = batch(1500);
+    const before = fs.readdirSync(os.tmpdir()).filter((n) => n.startsWith("tributary-check-"));
+    async function* failing(): AsyncGenerator<Uint8Array> {
+      yield* chunks(text, 4096);
+      throw new Error("the download stopped");
+    }
+    await expect(spoolStream(failing(), 10_000)).rejects.toThrow("the download stopped");
+    const after = fs.readdirSync(os.tmpdir()).filter((n) => n.startsWith("tributary-check-"));
+    expect(after.filter((n) => !before.includes(n))).toEqual([]);
   });
 });
 
