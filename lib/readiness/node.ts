@@ -86,10 +86,37 @@ export async function checkFile(
     });
   if (workers < 2 || size < (opts.minBytes ?? PARALLEL_MIN_BYTES)) return single();
   const t0 = now();
-  const s = survey(file, size, workers);
+  // the threads start (an isolate each, loading the engine) while this one surveys the file
+  const script = path.resolve(opts.workerScript ?? process.argv[1]!);
+  const own = opts.pool || opts.inThread ? null : new RangePool(script, opts.execArgv);
+  const pool = opts.pool ?? own;
+  pool?.warm(opts.threadsOnly ? workers : workers - 1);
+  try {
+    const ranges = { ...opts, workers, pool: opts.inThread ? null : pool, read: () => own?.close() };
+    return await checkRanges(file, size, plan, ranges, single, t0);
+  } finally {
+    await own?.close();
+  }
+}
+
+async function checkRanges(
+  file: string,
+  size: number,
+  plan: Plan,
+  opts: CheckOptions & {
+    workers: number;
+    inThread?: boolean;
+    threadsOnly?: boolean;
+    pool: RangePool | null;
+    /** every range has been read once: threads of this check alone can end (their memory freed) */
+    read: () => Promise<void> | undefined;
+  },
+  single: () => Promise<ReadinessReport>,
+  t0: number,
+): Promise<ReadinessReport> {
+  const s = survey(file, size, opts.workers);
   if (!s || s.starts.length < 2) return single();
   const planHash = await hashPlan(plan);
-  const script = path.resolve(opts.workerScript ?? process.argv[1]!);
   const progress = s.starts.map(() => 0);
   const ends = s.starts.map((_, i) => s.starts[i + 1]?.start ?? size);
   const report = (i: number, rows: number) => {
@@ -100,26 +127,16 @@ export async function checkFile(
       bytes: Math.min(size, Math.round((size * all) / Math.max(1, s.rowsGuess))),
     });
   };
-  const run = (i: number, start: number, firstLine: number) =>
-    new Promise<RangeResult>((resolve, reject) => {
-      const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
-      // this thread reads the first range itself while the workers read the others
-      if (opts.inThread || (i === 0 && !opts.threadsOnly))
-        return resolve(readRange(job, (rows) => report(i, rows)));
-      if (opts.pool) return void opts.pool.run(job, (rows) => report(i, rows)).then(resolve, reject);
-      const w = startWorker(script, { tributaryRange: job }, opts.execArgv);
-      w.on("message", (m: RangeResult) => {
-        if ("progress" in m) report(i, m.progress);
-        else resolve(m);
-      });
-      w.on("error", reject);
-      w.on("exit", (code) =>
-        code !== 0 ? reject(new Error(`range worker exited with code ${code}`)) : undefined,
-      );
-    });
+  const run = (i: number, start: number, firstLine: number): Promise<RangeResult> => {
+    const job: RangeJob = { file, start, end: ends[i]!, plan, meta: s.meta, header: s.header, firstLine };
+    // this thread reads the first range itself while the workers read the others
+    if (!opts.pool || (i === 0 && !opts.threadsOnly)) return readRange(job, (rows) => report(i, rows));
+    return opts.pool.run(job, (rows) => report(i, rows));
+  };
   const first: RangeResult[] = [];
   if (opts.inThread) for (const [i, r] of s.starts.entries()) first.push(await run(i, r.start, r.firstLine));
   else first.push(...(await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)))));
+  await opts.read();
   // in file order: each range must start where the one before it stopped
   const results: RangeResult[] = [];
   /** where each range read was: its start, first line and end */
@@ -238,13 +255,11 @@ async function readRange(job: RangeJob, onProgress?: (rows: number) => void): Pr
   }
 }
 
-/** The worker side of checkFile: read the range (or, in a pool, each range it is sent), post the Scan's part. */
+/** The worker side of checkFile (a RangePool's thread): read each range it is sent, post the Scan's part. */
 export async function runRangeWorker(): Promise<void> {
-  const job = (workerData as { tributaryRange: RangeJob | typeof POOLED }).tributaryRange;
-  if (job !== POOLED) return postRange(await readRange(job, postProgress));
   parentPort!.on("message", (m: { job: RangeJob }) => {
     readRange(m.job, postProgress).then(postRange, (e: unknown) => {
-      // an error that is not the file's ends this thread, and its check fails, as a one-range thread's does
+      // an error that is not the file's ends this thread, and its check fails
       setImmediate(() => {
         throw e;
       });
@@ -278,6 +293,15 @@ export class RangePool {
     private readonly script: string,
     private readonly execArgv?: string[],
   ) {}
+
+  /** Start threads until `n` wait (a thread's start-up then overlaps other work). */
+  warm(n: number): void {
+    while (this.idle.length < n) {
+      const w = startWorker(this.script, { tributaryRange: POOLED }, this.execArgv);
+      w.unref();
+      this.idle.push(w);
+    }
+  }
 
   run(job: RangeJob, onProgress: (rows: number) => void): Promise<RangeResult> {
     const w = this.idle.pop() ?? startWorker(this.script, { tributaryRange: POOLED }, this.execArgv);

