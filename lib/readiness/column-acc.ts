@@ -7,7 +7,6 @@ import { Moments, QuantileStore, RowSample } from "./accumulators";
 import type { PlanColumn } from "./plan";
 import {
   FieldStatus,
-  KNOWN_BYTES_CAP,
   LEVEL_CAP,
   OFFENDER_CAP,
   OFFENDER_CHARS,
@@ -18,9 +17,9 @@ import {
   type InferCounts,
   type LevelAcc,
 } from "./column-types";
+import { fieldText } from "./fields";
+import { LevelIndex } from "./level-index";
 import { readNumber } from "./values";
-
-const encoder = new TextEncoder();
 
 export class ColumnAccumulators {
   readonly missing: RowSample;
@@ -44,10 +43,14 @@ export class ColumnAccumulators {
   /** parsed value of the current row (number, boolean 0/1) */
   value = NaN;
   status: FieldStatus = FieldStatus.Missing;
-  /** the text of the current field for category/text/profile columns ("" otherwise) */
+  /** the text of the current field for category/text/profile columns ("" otherwise; see keyText) */
   str = "";
-  /** the first levels of a category column with their UTF-8 bytes (readBytes matches them) */
-  protected levelBytes: { bytes: Uint8Array; text: string; acc: LevelAcc }[] = [];
+  /** a text field readBytes counted without making its string: its bytes, for keyText */
+  protected pendBuf: Uint8Array | null = null;
+  protected pendA = 0;
+  protected pendB = 0;
+  /** the levels of a category or text column by their UTF-8 bytes (readBytes finds them) */
+  protected byBytes: LevelIndex | null = null;
   /** level-table entry of the current field (category columns) */
   lastLevel: LevelAcc | undefined = undefined;
   /** numbers may be read straight from the text (no missing token looks like a number) */
@@ -76,6 +79,7 @@ export class ColumnAccumulators {
     const numeric = this.kind === "number" || this.kind === "integer" || this.kind === "profile";
     this.quant = numeric ? new QuantileStore(quantCap) : null;
     if (this.kind === "category" || this.kind === "profile" || this.kind === "text") this.levels = new Map();
+    if (this.kind === "category" || this.kind === "text") this.byBytes = new LevelIndex();
     if (this.kind === "date") this.date.ambiguous = new RowSample(sampleCap);
   }
 
@@ -106,19 +110,28 @@ export class ColumnAccumulators {
     else if (this.offenders.size < OFFENDER_CAP) this.offenders.set(s, 1);
   }
 
+  /** The current field as a repeated key's example: its number, or its text. */
+  keyText(): string {
+    if (this.kind === "number" || this.kind === "integer" || this.kind === "boolean")
+      return String(this.value);
+    if (this.pendBuf) {
+      this.str = fieldText(this.pendBuf, this.pendA, this.pendB);
+      this.pendBuf = null;
+    }
+    return this.str || String(this.value);
+  }
+
   protected level(s: string, line: number): void {
     const m = this.levels!;
     this.str = s;
+    this.pendBuf = null;
     let acc = m.get(s);
     if (acc) {
       acc.count++;
       if (acc.rows.length < this.sampleCap) acc.rows.push(line);
     } else if (m.size < LEVEL_CAP) {
       m.set(s, (acc = { count: 1, complete: 0, rows: [line] }));
-      if (this.kind === "category") {
-        if (m.size <= KNOWN_BYTES_CAP) this.levelBytes.push({ bytes: encoder.encode(s), text: s, acc });
-        else this.levelBytes = [];
-      }
+      this.byBytes?.add(s, acc);
     } else this.levelOverflow++;
     this.lastLevel = acc;
   }

@@ -3,7 +3,15 @@
  * column's accumulators (./column-acc.ts).
  */
 import { ColumnAccumulators } from "./column-acc";
-import { FieldStatus, INFER, INFER_LIMIT, inferredTypeOf, numberBits, tallyInfer } from "./column-types";
+import {
+  FieldStatus,
+  INFER,
+  INFER_LIMIT,
+  LEVEL_CAP,
+  inferredTypeOf,
+  numberBits,
+  tallyInfer,
+} from "./column-types";
 import type { BlockText } from "./fields";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
@@ -58,27 +66,36 @@ export class ColumnScan extends ColumnAccumulators {
       }
     }
     if (
-      kind === "category" &&
+      this.byBytes !== null &&
       n > this.maxToken &&
-      this.levelBytes.length > 0 &&
       buf[a]! > 32 &&
-      buf[b - 1]! > 32
+      buf[b - 1]! > 32 &&
+      (kind === "category" || kind === "text")
     ) {
-      // a few levels: find the bytes among the known levels' bytes without making a string
-      const known = this.levelBytes;
-      for (let k = 0; k < known.length; k++) {
-        const l = known[k]!;
-        if (l.bytes.length !== n) continue;
-        let i = 0;
-        while (i < n && l.bytes[i] === buf[a + i]) i++;
-        if (i < n) continue;
+      // a level already seen, found by its bytes without making a string
+      const l = this.byBytes.find(buf, a, b);
+      if (l) {
         this.total++;
         if (this.infer.seen < INFER_LIMIT) this.inferOne(l.text);
         const acc = l.acc;
         acc.count++;
         if (acc.rows.length < this.sampleCap) acc.rows.push(line);
         this.str = l.text;
+        this.pendBuf = null;
         this.lastLevel = acc;
+        this.status = FieldStatus.Usable;
+        return;
+      }
+      // a new value of a text column whose level table is full (an identifier, say): counted as
+      // read() counts it, its text made only if it is wanted (keyText)
+      if (kind === "text" && this.levels!.size >= LEVEL_CAP && this.infer.seen >= INFER_LIMIT) {
+        this.total++;
+        this.levelOverflow++;
+        this.str = "";
+        this.pendBuf = buf;
+        this.pendA = a;
+        this.pendB = b;
+        this.lastLevel = undefined;
         this.status = FieldStatus.Usable;
         return;
       }
@@ -96,7 +113,8 @@ export class ColumnScan extends ColumnAccumulators {
     }
     if (kind === "date" && n >= 8 && n <= 10 && n > this.maxToken && this.dayMonthBytes(buf, a, b, line))
       return;
-    this.read(text.get(a, b), line);
+    // an empty field needs no text from the block (which would decode the whole block)
+    this.read(n === 0 ? "" : text.get(a, b), line);
   }
 
   /**
@@ -135,6 +153,7 @@ export class ColumnScan extends ColumnAccumulators {
       this.missing.add(line);
       this.status = FieldStatus.Missing;
       this.str = s;
+      this.pendBuf = null;
       return;
     }
     if (this.infer.seen < INFER_LIMIT) this.inferOne(s);

@@ -69,9 +69,6 @@ export const FieldStatus = {
 } as const;
 export type FieldStatus = (typeof FieldStatus)[keyof typeof FieldStatus];
 
-/** levels of a category matched by their bytes (beyond it, the level table is looked up by string) */
-export const KNOWN_BYTES_CAP = 16;
-
 /** an extreme value of a column: its count, first rows, and the next distinct value */
 export interface Extreme {
   v: number;

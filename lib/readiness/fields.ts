@@ -45,13 +45,18 @@ export function recordText(b: FieldBatch, r: number): string[] {
 const latin1 = new TextDecoder("latin1");
 
 /**
- * The text of a block's fields, decoded once per block when the block is ASCII (a field's
- * text is then a slice of one string, as cheap as a substring); otherwise field by field.
+ * The text of a block's fields. The first fields asked for are decoded one by one; once a block
+ * has asked for many (a column of free text, say), an ASCII block is decoded once and a field's
+ * text is a slice of that one string, as cheap as a substring; otherwise field by field.
  */
 export class BlockText {
   private buf: Uint8Array | null = null;
   private from = 0;
+  private to = 0;
   private text: string | null = null;
+  private ascii: boolean | null = null;
+  /** fields asked for in this block so far */
+  private asked = 0;
 
   /** Start a block: its bytes buf[from, to) hold every field. */
   reset(buf: Uint8Array, from: number, to: number): void {
@@ -60,13 +65,14 @@ export class BlockText {
     this.to = to;
     this.text = null;
     this.ascii = null;
+    this.asked = 0;
   }
-  private to = 0;
-  private ascii: boolean | null = null;
 
   /** The text of buf[s, e) of the current block. */
   get(s: number, e: number): string {
     const buf = this.buf!;
+    // a few fields of a block (a missing-value token here and there) are not worth the block's decoding
+    if (this.ascii === null && ++this.asked <= BLOCK_DECODE_AFTER) return fieldText(buf, s, e);
     if (this.ascii === null) {
       let ascii = true;
       for (let i = this.from; i < this.to; i++) {
@@ -81,3 +87,6 @@ export class BlockText {
     return this.text !== null ? this.text.substring(s - this.from, e - this.from) : fieldText(buf, s, e);
   }
 }
+
+/** fields of a block decoded one by one before the whole block is decoded at once */
+const BLOCK_DECODE_AFTER = 256;

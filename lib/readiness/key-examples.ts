@@ -51,7 +51,7 @@ export class KeyExampleRecount implements CsvSink {
     if (col.status !== FieldStatus.Usable) return;
     const key = this.scan.keys.get(at)!;
     const first = key.set.lineOf(this.hash.a, this.hash.b);
-    if (first > 0 && first < line) addKeyExample(key.examples, col.str || String(col.value));
+    if (first > 0 && first < line) addKeyExample(key.examples, col.keyText());
   }
 
   onBatch(bt: FieldBatch): void {

@@ -104,7 +104,7 @@ export class Scan extends ScanState implements CsvSink {
         key.lastRepeatOf = first;
         if (first) {
           key.dup.add(line);
-          addKeyExample(key.examples, c.str || String(c.value));
+          addKeyExample(key.examples, c.keyText());
         }
       }
       if (!this.ready) return;

@@ -35,6 +35,51 @@ describe("the byte-span hot path equals the string path", () => {
   });
 });
 
+describe("levels found by their bytes equal the string path", () => {
+  test("a text key past the level table's cap, repeated keys, non-ASCII levels and variants", async () => {
+    // 30,000 codes fill the text column's level table (LEVEL_CAP, 5,000) and then count as
+    // overflow without a string each; codes repeated past the cap give key examples from bytes
+    // decoded only then; a numeric key's examples are its numbers
+    const lines = ["code,num,site,crop,y"];
+    const sites = ["Öland", "Älvdal", "Côte", "Ribe"];
+    const crops = ["barley", "oats", "Barley", "oats "];
+    for (let i = 0; i < 30_000; i++) {
+      const code =
+        i % 2000 === 7 && i > 5000
+          ? `P${String(i - 4000).padStart(6, "0")}`
+          : `P${String(i).padStart(6, "0")}`;
+      const num = i === 9000 ? "NA" : i % 2500 === 11 && i > 2500 ? String(i - 2500) : String(i);
+      lines.push(
+        `${code},${num},${sites[i % 4]},${crops[i % 7 === 0 ? 2 + (i % 2) : i % 2]},${(i % 89) / 10}`,
+      );
+    }
+    lines.push("P029990,29990x,Ribe,oats,1.0", "P029991,29991,Ribe,oats,1.0");
+    const parsed = parsePlan({
+      columns: [
+        { name: "code", role: "key", type: "text" },
+        { name: "num", role: "key", type: "integer" },
+        { name: "site", role: "predictor", type: "category", levels: ["Öland", "Älvdal", "Côte", "Ribe"] },
+        { name: "crop", role: "predictor", type: "category", levels: ["barley", "oats"] },
+        { name: "y", role: "response", type: "number" },
+      ],
+      missingTokens: ["NA"],
+    });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const text = `${lines.join("\n")}\n`;
+    const fast = await checkBatch(chunks(text, 65_536), parsed.plan);
+    const slow = await checkBatch(chunks(text, 65_536), parsed.plan, { path: "strings" });
+    const strip = ({ timings: _t, ...rest }: ReadinessReport) => rest;
+    close(strip(slow), strip(fast), "report");
+    const dup = fast.findings.filter((f) => f.code === "key.duplicate");
+    // rows 6,007 and 8,007 (past the cap) repeat the codes of rows 2,007 and 4,007
+    expect(dup.find((f) => f.message.includes("“code”"))?.message).toContain("“P002007”, “P004007”");
+    expect(dup.find((f) => f.message.includes("“num”"))?.message).toContain("(e.g. “11”, “29991”)");
+    const levels = fast.findings.find((f) => f.code === "level.unknown" && f.message.includes("crop"));
+    expect(levels?.message).toContain("“Barley”");
+    expect(levels?.message).toContain("“oats ”");
+  });
+});
+
 describe("day/month dates read from the bytes equal the string path", () => {
   test("two-digit and one-digit parts, '/', '.' and '-', a mixed separator, ambiguous and not", async () => {
     const dates = ["23/06/2026", "3/4/2026", "03.04.2026", "12-11-26", "1/12/2026", "12/1/2026", "5/5/2026"];
