@@ -129,6 +129,8 @@ export class QuantileStore {
   seen = 0;
   /** once the buffer has been cut to `cap`: a priority at or above this is never kept */
   private limit = Infinity;
+  /** a copy of the kept values with some ranks in place (orderedAt), until a value is kept */
+  private ordered: Float64Array | null = null;
   private readonly room: number;
   constructor(private cap: number) {
     this.room = cap + Math.max(64, cap >> 2);
@@ -142,6 +144,7 @@ export class QuantileStore {
   }
   private keep(x: number, key: number): void {
     if (key >= this.limit) return;
+    this.ordered = null;
     if (this.len === this.buf.length) {
       if (this.len === this.room) {
         this.cut();
@@ -165,6 +168,7 @@ export class QuantileStore {
    */
   private cut(): void {
     if (this.len <= this.cap) return;
+    this.ordered = null;
     const { keys, buf } = this;
     const k = this.cap - 1;
     let lo = 0;
@@ -218,31 +222,75 @@ export class QuantileStore {
     return this.buf.slice(0, this.len).sort();
   }
   /**
-   * Quantiles (R type 7) of the kept values by selection, O(n) each, without a full sort.
-   * Works on a copy, so the kept values keep their order (and their priorities).
+   * Quantiles (R type 7) of the kept values by selection, without a full sort. Works on a copy,
+   * so the kept values keep their order (and their priorities).
    */
   quantiles(ps: number[]): number[] {
-    this.cut();
-    const a = this.buf.slice(0, this.len);
-    return ps.map((p) => selectQuantile(a, p));
+    const n = this.kept();
+    if (n === 0) return ps.map(() => NaN);
+    const at = ps.map((p) => (n - 1) * p);
+    const ranks = new Set<number>();
+    for (const h of at) ranks.add(Math.floor(h)).add(Math.min(n - 1, Math.floor(h) + 1));
+    const a = this.orderedAt([...ranks]);
+    return at.map((h) => {
+      const lo = Math.floor(h);
+      return h === lo ? a[lo]! : a[lo]! + (h - lo) * (a[Math.min(n - 1, lo + 1)]! - a[lo]!);
+    });
   }
   /** A systematic sample of at most m kept values (for the pool state). */
   sample(m: number): number[] {
+    const n = this.kept();
+    // in file order while exact; beyond the cap the buffer's order depends on the parts, so by rank
+    if (this.exact) {
+      const kept = this.buf.subarray(0, n);
+      if (n <= m) return Array.from(kept);
+      return Array.from({ length: m }, (_, i) => kept[Math.floor(((i + 0.5) * n) / m)]!);
+    }
+    if (n <= m) return Array.from(this.sorted());
+    const ranks = Array.from({ length: m }, (_, i) => Math.floor(((i + 0.5) * n) / m));
+    const a = this.orderedAt(ranks);
+    return ranks.map((r) => a[r]!);
+  }
+  /** How many values are kept (after cutting to the cap). */
+  private kept(): number {
     this.cut();
-    // in file order while exact; beyond the cap the buffer's order depends on the parts, so sorted
-    const kept = this.exact ? this.buf.subarray(0, this.len) : this.sorted();
-    if (this.len <= m) return Array.from(kept);
-    const out: number[] = [];
-    for (let i = 0; i < m; i++) out.push(kept[Math.floor(((i + 0.5) * this.len) / m)]!);
-    return out;
+    return this.len;
+  }
+  /** The kept values, copied once, with each of `ranks` (distinct, any order) in its sorted place. */
+  private orderedAt(ranks: number[]): Float64Array {
+    this.ordered ??= this.buf.slice(0, this.len);
+    selectRanks(
+      this.ordered,
+      ranks.sort((x, y) => x - y),
+    );
+    return this.ordered;
   }
 }
 
-/** Rearrange a so that a[k] is its k-th smallest value (Hoare's selection, median-of-three pivot). */
+/** Rearrange a so that a[k] is its k-th smallest value; returns it. */
 export function selectInPlace(a: Float64Array, k: number): number {
-  let lo = 0;
-  let hi = a.length - 1;
-  while (hi > lo) {
+  selectRanks(a, [k]);
+  return a[k]!;
+}
+
+/**
+ * Rearrange a so that a[r] is its r-th smallest value (0-based) for every r of `ranks`
+ * (ascending): Hoare's selection with a median-of-three pivot, going on only into the parts
+ * that hold a wanted rank, so m ranks of n values cost about n·log₂(m) steps, not a sort's n·log₂(n).
+ */
+export function selectRanks(a: Float64Array, ranks: ArrayLike<number>): void {
+  // parts still to order: [lo, hi, first rank, last rank] each
+  const todo: number[] = [0, a.length - 1, 0, ranks.length - 1];
+  while (todo.length > 0) {
+    const rhi = todo.pop()!;
+    const rlo = todo.pop()!;
+    const hi = todo.pop()!;
+    const lo = todo.pop()!;
+    if (rlo > rhi || hi <= lo) continue;
+    if (hi - lo < 16) {
+      insertionSort(a, lo, hi);
+      continue;
+    }
     const mid = (lo + hi) >>> 1;
     if (a[mid]! < a[lo]!) swap(a, mid, lo);
     if (a[hi]! < a[lo]!) swap(a, hi, lo);
@@ -259,11 +307,25 @@ export function selectInPlace(a: Float64Array, k: number): number {
         j--;
       }
     }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else break;
+    // now a[lo..j] ≤ pivot ≤ a[i..hi], and what lies between equals the pivot (in place)
+    let k = rlo;
+    while (k <= rhi && ranks[k]! <= j) k++;
+    let m = k;
+    while (m <= rhi && ranks[m]! < i) m++;
+    todo.push(lo, j, rlo, k - 1, i, hi, m, rhi);
   }
-  return a[k]!;
+}
+
+function insertionSort(a: Float64Array, lo: number, hi: number): void {
+  for (let i = lo + 1; i <= hi; i++) {
+    const v = a[i]!;
+    let j = i - 1;
+    while (j >= lo && a[j]! > v) {
+      a[j + 1] = a[j]!;
+      j--;
+    }
+    a[j + 1] = v;
+  }
 }
 
 function swap(a: Float64Array, i: number, j: number): void {
@@ -278,11 +340,9 @@ export function selectQuantile(a: Float64Array, p: number): number {
   if (n === 0) return NaN;
   const h = (n - 1) * p;
   const lo = Math.floor(h);
-  const v = selectInPlace(a, lo);
-  if (h === lo || lo + 1 >= n) return v;
-  let next = Infinity;
-  for (let i = lo + 1; i < n; i++) if (a[i]! < next) next = a[i]!;
-  return v + (h - lo) * (next - v);
+  if (h === lo || lo + 1 >= n) return selectInPlace(a, lo);
+  selectRanks(a, [lo, lo + 1]);
+  return a[lo]! + (h - lo) * (a[lo + 1]! - a[lo]!);
 }
 
 /** Quantile by R's default definition (type 7): linear interpolation between order statistics. */

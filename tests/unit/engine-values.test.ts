@@ -5,7 +5,14 @@
  * within a few standard errors; pooled moments equal one pass (Chan et al. 1979).
  */
 import { describe, expect, test } from "vitest";
-import { Moments, QuantileStore, linePriority, quantile, selectQuantile } from "@/lib/readiness/accumulators";
+import {
+  Moments,
+  QuantileStore,
+  linePriority,
+  quantile,
+  selectQuantile,
+  selectRanks,
+} from "@/lib/readiness/accumulators";
 import { foldLevel, oneEditApart, parseDate, readDecimalComma, readNumber } from "@/lib/readiness/values";
 import { rng } from "../fixtures/engine/data";
 
@@ -70,6 +77,22 @@ describe("quartiles", () => {
       const sorted = v.slice().sort();
       for (const p of [0.25, 0.5, 0.75])
         expect(selectQuantile(v.slice(), p)).toBeCloseTo(quantile(sorted, p), 12);
+    }
+  });
+  test("several order statistics at once are each where a sort puts them, ties and all", () => {
+    const r = rng(21);
+    for (let t = 0; t < 300; t++) {
+      const n = 1 + Math.floor(r() * 3000);
+      // few distinct values now and then: long runs equal to the pivot
+      const spread = t % 3 === 0 ? 4 : 1e6;
+      const v = Float64Array.from({ length: n }, () => Math.floor(r() * spread) - spread / 2);
+      const ranks = [...new Set(Array.from({ length: 1 + Math.floor(r() * 40) }, () => Math.floor(r() * n)))];
+      ranks.sort((a, b) => a - b);
+      const a = v.slice();
+      selectRanks(a, ranks);
+      const sorted = v.slice().sort();
+      for (const k of ranks) expect(a[k], `n ${n}, rank ${k}`).toBe(sorted[k]);
+      expect(a.slice().sort()).toEqual(sorted);
     }
   });
   test("beyond the bound the sample's quartiles of U(0,1) are within 5 standard errors", () => {
