@@ -17,7 +17,6 @@ import {
   type InferCounts,
   type LevelAcc,
 } from "./column-types";
-import { fieldText } from "./fields";
 import { LevelIndex } from "./level-index";
 import { readNumber } from "./values";
 
@@ -43,12 +42,8 @@ export class ColumnAccumulators {
   /** parsed value of the current row (number, boolean 0/1) */
   value = NaN;
   status: FieldStatus = FieldStatus.Missing;
-  /** the text of the current field for category/text/profile columns ("" otherwise; see keyText) */
+  /** the text of the current field for category/profile columns, and text columns within their level cap ("" otherwise) */
   str = "";
-  /** a text field readBytes counted without making its string: its bytes, for keyText */
-  protected pendBuf: Uint8Array | null = null;
-  protected pendA = 0;
-  protected pendB = 0;
   /** the levels of a category or text column by their UTF-8 bytes (readBytes finds them) */
   protected byBytes: LevelIndex | null = null;
   /** level-table entry of the current field (category columns) */
@@ -110,21 +105,9 @@ export class ColumnAccumulators {
     else if (this.offenders.size < OFFENDER_CAP) this.offenders.set(s, 1);
   }
 
-  /** The current field as a repeated key's example: its number, or its text. */
-  keyText(): string {
-    if (this.kind === "number" || this.kind === "integer" || this.kind === "boolean")
-      return String(this.value);
-    if (this.pendBuf) {
-      this.str = fieldText(this.pendBuf, this.pendA, this.pendB);
-      this.pendBuf = null;
-    }
-    return this.str || String(this.value);
-  }
-
   protected level(s: string, line: number): void {
     const m = this.levels!;
     this.str = s;
-    this.pendBuf = null;
     let acc = m.get(s);
     if (acc) {
       acc.count++;

@@ -81,20 +81,16 @@ export class ColumnScan extends ColumnAccumulators {
         acc.count++;
         if (acc.rows.length < this.sampleCap) acc.rows.push(line);
         this.str = l.text;
-        this.pendBuf = null;
         this.lastLevel = acc;
         this.status = FieldStatus.Usable;
         return;
       }
       // a new value of a text column whose level table is full (an identifier, say): counted as
-      // read() counts it, its text made only if it is wanted (keyText)
+      // read() counts it, without making its string (a repeated key's example is made from the bytes)
       if (kind === "text" && this.levels!.size >= LEVEL_CAP && this.infer.seen >= INFER_LIMIT) {
         this.total++;
         this.levelOverflow++;
         this.str = "";
-        this.pendBuf = buf;
-        this.pendA = a;
-        this.pendB = b;
         this.lastLevel = undefined;
         this.status = FieldStatus.Usable;
         return;
@@ -153,7 +149,6 @@ export class ColumnScan extends ColumnAccumulators {
       this.missing.add(line);
       this.status = FieldStatus.Missing;
       this.str = s;
-      this.pendBuf = null;
       return;
     }
     if (this.infer.seen < INFER_LIMIT) this.inferOne(s);

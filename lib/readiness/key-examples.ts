@@ -19,6 +19,11 @@ export function addKeyExample(examples: Map<string, number>, value: string): voi
   if (examples.size < 10 || examples.has(value)) examples.set(value, (examples.get(value) ?? 1) + 1);
 }
 
+/** A repeated key's example: a number as the engine read it, any other value as the file has it. */
+export function keyExampleText(kind: ColumnScan["kind"], value: number, field: string): string {
+  return kind === "number" || kind === "integer" || kind === "boolean" ? String(value) : field;
+}
+
 /** A sink that counts a later range's repeated keys into the merged scan's examples (in file order). */
 export class KeyExampleRecount implements CsvSink {
   private readonly hash = new Hash64();
@@ -47,11 +52,11 @@ export class KeyExampleRecount implements CsvSink {
     }));
   }
 
-  private repeat(at: number, col: ColumnScan, line: number): void {
+  private repeat(at: number, col: ColumnScan, line: number, field: () => string): void {
     if (col.status !== FieldStatus.Usable) return;
     const key = this.scan.keys.get(at)!;
     const first = key.set.lineOf(this.hash.a, this.hash.b);
-    if (first > 0 && first < line) addKeyExample(key.examples, col.keyText());
+    if (first > 0 && first < line) addKeyExample(key.examples, keyExampleText(col.kind, col.value, field()));
   }
 
   onBatch(bt: FieldBatch): void {
@@ -64,7 +69,7 @@ export class KeyExampleRecount implements CsvSink {
         const f = f0 + at;
         col.readBytes(buf, starts[f]!, ends[f]!, lines[r]!, this.text);
         hashByteFields(this.hash, buf, starts, ends, f, f + 1);
-        this.repeat(at, col, lines[r]!);
+        this.repeat(at, col, lines[r]!, () => this.text.get(starts[f]!, ends[f]!));
       }
     }
   }
@@ -76,7 +81,7 @@ export class KeyExampleRecount implements CsvSink {
       for (const { at, col } of this.cols) {
         col.read(row[at]!, lines[r]!);
         hashFields(this.hash, row, at, at + 1);
-        this.repeat(at, col, lines[r]!);
+        this.repeat(at, col, lines[r]!, () => row[at]!);
       }
     }
   }

@@ -27,6 +27,15 @@ export interface ModelColumn {
   index: number;
 }
 
+/** A planned key column's repeats: its hash table, the repeated rows, the first repeated values. */
+export interface ScanKey {
+  set: HashSet64;
+  dup: RowSample;
+  examples: Map<string, number>;
+  /** the line of the earlier row with the key just read (0: none) */
+  lastRepeatOf: number;
+}
+
 export class ScanState {
   header: string[] = [];
   meta: CsvMeta | null = null;
@@ -44,16 +53,12 @@ export class ScanState {
   duplicateOf: [number, number][] = [];
   /** @internal (scan-merge.ts) */
   rowSet = new HashSet64(DUPLICATE_CAP);
-  keys = new Map<
-    number,
-    { set: HashSet64; dup: RowSample; examples: Map<string, number>; lastRepeatOf: number }
-  >();
+  keys = new Map<number, ScanKey>();
   /** line of the earlier equal row of the row just read (0: none) */
   lastRepeatOf = 0;
   protected keyList: number[] = [];
   /** the hash of the row (or key) just read */
   protected readonly hash = new Hash64();
-  protected keyHash = new Float64Array(0);
   predictors: Predictor[];
   design: Design;
   /** @internal (scan-merge.ts) */
@@ -135,7 +140,6 @@ export class ScanState {
       }
     }
     this.keyList = [...this.keys.keys()];
-    this.keyHash = new Float64Array(2 * this.keyList.length);
     const resp = this.plan.columns.find((c) => c.role === "response");
     if (resp) this.response = { name: resp.name, index: this.index.get(resp.name) ?? -1 };
     this.model = [

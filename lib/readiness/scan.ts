@@ -7,8 +7,8 @@ import { FieldStatus } from "./column-scan";
 import type { CsvSink } from "./csv-reader";
 import { BlockText, type FieldBatch } from "./fields";
 import { hashByteFields, hashFields } from "./hashing";
-import { addKeyExample } from "./key-examples";
-import { ScanState } from "./scan-state";
+import { addKeyExample, keyExampleText } from "./key-examples";
+import { ScanState, type ScanKey } from "./scan-state";
 
 export {
   DUPLICATE_CAP,
@@ -19,8 +19,42 @@ export {
   type ModelColumn,
 } from "./scan-state";
 
+/**
+ * One block's row and key hashes (and what a repeated key's example needs), kept from the
+ * reading of its rows until its lookups in the duplicate tables (Scan.onBatch).
+ */
+class BlockHashes {
+  rows = 0;
+  keys = 0;
+  rowA = new Uint32Array(0);
+  rowB = new Uint32Array(0);
+  lines = new Int32Array(0);
+  /** each row's first field in the block */
+  f0 = new Int32Array(0);
+  /** key q of row i at q * rows + i: its hash halves, whether it was usable, its number */
+  keyA = new Uint32Array(0);
+  keyB = new Uint32Array(0);
+  keyUsable = new Uint8Array(0);
+  keyValue = new Float64Array(0);
+
+  fit(rows: number, keys: number): void {
+    if (rows <= this.rows && keys === this.keys) return;
+    this.rows = Math.max(rows, this.rows);
+    this.keys = keys;
+    this.rowA = new Uint32Array(this.rows);
+    this.rowB = new Uint32Array(this.rows);
+    this.lines = new Int32Array(this.rows);
+    this.f0 = new Int32Array(this.rows);
+    this.keyA = new Uint32Array(this.rows * keys);
+    this.keyB = new Uint32Array(this.rows * keys);
+    this.keyUsable = new Uint8Array(this.rows * keys);
+    this.keyValue = new Float64Array(this.rows * keys);
+  }
+}
+
 export class Scan extends ScanState implements CsvSink {
   private readonly blockText = new BlockText();
+  private readonly block = new BlockHashes();
 
   onRecords(rows: string[][], lines: number[]): void {
     const cols = this.cols;
@@ -34,13 +68,18 @@ export class Scan extends ScanState implements CsvSink {
       }
       this.rowsTotal++;
       for (let j = 0; j < ncol; j++) cols[j]!.read(f[j]!, line);
-      for (let q = 0; q < this.keyList.length; q++) {
-        hashFields(this.hash, f, this.keyList[q]!, this.keyList[q]! + 1);
-        this.keyHash[2 * q] = this.hash.a;
-        this.keyHash[2 * q + 1] = this.hash.b;
-      }
       hashFields(this.hash, f);
-      this.finishRow(line);
+      this.rowRepeat(this.hash.a, this.hash.b, line);
+      for (let q = 0; q < this.keyList.length; q++) {
+        const k = this.keyList[q]!;
+        const c = cols[k]!;
+        if (c.status !== FieldStatus.Usable) continue;
+        hashFields(this.hash, f, k, k + 1);
+        const key = this.keys.get(k)!;
+        if (this.keyRepeat(key, this.hash.a, this.hash.b, line))
+          addKeyExample(key.examples, keyExampleText(c.kind, c.value, f[k]!));
+      }
+      if (this.ready) this.modelRow(line);
     }
   }
 
@@ -49,7 +88,12 @@ export class Scan extends ScanState implements CsvSink {
     this.raggedWidths.set(width, (this.raggedWidths.get(width) ?? 0) + 1);
   }
 
-  /** A block of records as byte spans (the tokenizer's): the hot path. */
+  /**
+   * A block of records as byte spans (the tokenizer's): the hot path. Each row's fields are read
+   * and its hashes kept; then the block's rows are looked up in the row table, and then in each
+   * key's, one after another: in file order as before, and the lookups, which mostly miss the
+   * processor's caches in a large table, no longer wait on each other.
+   */
   onBatch(bt: FieldBatch): void {
     const cols = this.cols;
     const ncol = cols.length;
@@ -64,6 +108,12 @@ export class Scan extends ScanState implements CsvSink {
       for (const k of this.keys.values()) k.set.reserve(rows);
       this.expectedBytes = 0;
     }
+    const keyList = this.keyList;
+    const nk = keyList.length;
+    const h = this.block;
+    h.fit(bt.count - bt.first, nk);
+    const stride = h.rows;
+    let n = 0;
     for (let r = bt.first; r < bt.count; r++) {
       const f0 = recs[r]!;
       const line = lines[r]!;
@@ -74,42 +124,54 @@ export class Scan extends ScanState implements CsvSink {
       }
       this.rowsTotal++;
       for (let k = 0; k < ncol; k++) cols[k]!.readBytes(buf, starts[f0 + k]!, ends[f0 + k]!, line, text);
-      for (let q = 0; q < this.keyList.length; q++) {
-        const k = f0 + this.keyList[q]!;
-        hashByteFields(this.hash, buf, starts, ends, k, k + 1);
-        this.keyHash[2 * q] = this.hash.a;
-        this.keyHash[2 * q + 1] = this.hash.b;
-      }
       hashByteFields(this.hash, buf, starts, ends, f0, f0 + ncol);
-      this.finishRow(line);
+      h.rowA[n] = this.hash.a;
+      h.rowB[n] = this.hash.b;
+      h.lines[n] = line;
+      h.f0[n] = f0;
+      for (let q = 0; q < nk; q++) {
+        const k = keyList[q]!;
+        const c = cols[k]!;
+        const at = q * stride + n;
+        h.keyUsable[at] = c.status === FieldStatus.Usable ? 1 : 0;
+        h.keyValue[at] = c.value;
+        hashByteFields(this.hash, buf, starts, ends, f0 + k, f0 + k + 1);
+        h.keyA[at] = this.hash.a;
+        h.keyB[at] = this.hash.b;
+      }
+      if (this.ready) this.modelRow(line);
+      n++;
+    }
+    for (let i = 0; i < n; i++) this.rowRepeat(h.rowA[i]!, h.rowB[i]!, h.lines[i]!);
+    for (let q = 0; q < nk; q++) {
+      const k = keyList[q]!;
+      const key = this.keys.get(k)!;
+      const kind = cols[k]!.kind;
+      for (let i = 0; i < n; i++) {
+        const at = q * stride + i;
+        if (h.keyUsable[at] !== 1 || !this.keyRepeat(key, h.keyA[at]!, h.keyB[at]!, h.lines[i]!)) continue;
+        const f = h.f0[i]! + k;
+        addKeyExample(key.examples, keyExampleText(kind, h.keyValue[at]!, text.get(starts[f]!, ends[f]!)));
+      }
     }
   }
 
-  /** After the columns of one row were read and `hash` holds the row's hash (keys' in keyHash). */
-  private finishRow(line: number): void {
-    const cols = this.cols;
-    {
-      const prev = this.rowSet.addOrGet(this.hash.a, this.hash.b, line);
-      this.lastRepeatOf = prev;
-      if (prev) {
-        this.duplicateRows.add(line);
-        if (this.duplicateOf.length < this.t.sampleRows) this.duplicateOf.push([line, prev]);
-      }
-      for (let q = 0; q < this.keyList.length; q++) {
-        const k = this.keyList[q]!;
-        const c = cols[k]!;
-        if (c.status !== FieldStatus.Usable) continue;
-        const key = this.keys.get(k)!;
-        const first = key.set.addOrGet(this.keyHash[2 * q]!, this.keyHash[2 * q + 1]!, line);
-        key.lastRepeatOf = first;
-        if (first) {
-          key.dup.add(line);
-          addKeyExample(key.examples, c.keyText());
-        }
-      }
-      if (!this.ready) return;
-      this.modelRow(line);
+  /** The row with hash (a, b) on `line`: a repeat of an earlier row, or a new one. */
+  private rowRepeat(a: number, b: number, line: number): void {
+    const prev = this.rowSet.addOrGet(a, b, line);
+    this.lastRepeatOf = prev;
+    if (prev) {
+      this.duplicateRows.add(line);
+      if (this.duplicateOf.length < this.t.sampleRows) this.duplicateOf.push([line, prev]);
     }
+  }
+
+  /** A usable key with hash (a, b) on `line`; true when an earlier row has it. */
+  private keyRepeat(key: ScanKey, a: number, b: number, line: number): boolean {
+    const first = key.set.addOrGet(a, b, line);
+    key.lastRepeatOf = first;
+    if (first) key.dup.add(line);
+    return first !== 0;
   }
 
   /** The planned model's share of a row: complete cases, missingness patterns, least squares. */
