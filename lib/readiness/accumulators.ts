@@ -202,17 +202,33 @@ export class QuantileStore {
   get exact(): boolean {
     return this.seen <= this.cap;
   }
-  /** The kept values, their priorities and how many values they stand for (to merge parts of a file). */
+  /**
+   * The kept values, their priorities and how many values they stand for (to merge parts of a
+   * file). The part holds this store's own arrays, not copies: the store is not used after it
+   * (a byte range's scan ends with its part).
+   */
   part(): { values: Float64Array; keys: Uint32Array; seen: number } {
     this.cut();
-    return { values: this.buf.slice(0, this.len), keys: this.keys.slice(0, this.len), seen: this.seen };
+    return { values: this.buf.subarray(0, this.len), keys: this.keys.subarray(0, this.len), seen: this.seen };
   }
   /**
    * Add a later part of the file: its kept values join in its order, so that while the union
    * fits the values stay in file order; beyond `cap` the union's smallest priorities are kept,
-   * the same set one pass over both parts keeps.
+   * the same set one pass over both parts keeps. An empty store takes the first part's arrays
+   * over, with the room behind them, rather than copying them.
    */
   absorb(o: { values: Float64Array; keys: Uint32Array; seen: number }): void {
+    if (this.seen === 0 && this.len === 0 && o.values.length <= this.cap) {
+      const room = (a: { buffer: ArrayBufferLike; byteOffset: number; BYTES_PER_ELEMENT: number }) =>
+        Math.min(this.room, (a.buffer.byteLength - a.byteOffset) / a.BYTES_PER_ELEMENT);
+      const n = Math.min(room(o.values), room(o.keys));
+      this.buf = new Float64Array(o.values.buffer, o.values.byteOffset, n);
+      this.keys = new Uint32Array(o.keys.buffer, o.keys.byteOffset, n);
+      this.len = o.values.length;
+      this.seen = o.seen;
+      this.ordered = null;
+      return;
+    }
     for (let i = 0; i < o.values.length; i++) this.keep(o.values[i]!, o.keys[i]!);
     this.seen += o.seen;
   }

@@ -16,6 +16,10 @@ export class HashSet64 {
   private cap = 1024;
   size = 0;
   full = false;
+  /** the sets of later parts of the file (a merge), looked up after this one's own entries */
+  private later: HashSet64[] = [];
+  /** entries of the later sets already in an earlier one */
+  private laterRepeats = 0;
   constructor(private maxEntries: number) {
     this.slots = new Uint32Array(3 * this.cap);
   }
@@ -43,7 +47,11 @@ export class HashSet64 {
       if (a === a1 && b === a2) return t[at + 2]!;
       i = (i + 1) & mask;
     }
-    if (this.size >= this.maxEntries) {
+    for (let k = 0; k < this.later.length; k++) {
+      const l = this.later[k]!.ownLineOf(a1, a2);
+      if (l) return l;
+    }
+    if (this.entries >= this.maxEntries) {
       this.full = true;
       return 0;
     }
@@ -57,16 +65,38 @@ export class HashSet64 {
   /** The line stored with an entry (its first occurrence), 0 when it is not in the set. */
   lineOf(h1: number, h2: number): number {
     if (h1 === 0 && h2 === 0) h2 = 1;
-    const a1 = h1 >>> 0;
-    const a2 = h2 >>> 0;
+    const own = this.ownLineOf(h1 >>> 0, h2 >>> 0);
+    if (own) return own;
+    for (let k = 0; k < this.later.length; k++) {
+      const l = this.later[k]!.ownLineOf(h1 >>> 0, h2 >>> 0);
+      if (l) return l;
+    }
+    return 0;
+  }
+  private ownLineOf(a1: number, a2: number): number {
     const t = this.slots;
     const mask = this.cap - 1;
-    for (let i = (h1 ^ Math.imul(h2, 0x9e3779b1)) & mask; ; i = (i + 1) & mask) {
+    for (let i = (a1 ^ Math.imul(a2, 0x9e3779b1)) & mask; ; i = (i + 1) & mask) {
       const a = t[3 * i]!;
       const b = t[3 * i + 1]!;
       if (a === 0 && b === 0) return 0;
       if (a === a1 && b === a2) return t[3 * i + 2]!;
     }
+  }
+  /** Distinct entries, here and in the later parts' sets. */
+  get entries(): number {
+    let n = this.size - this.laterRepeats;
+    for (const s of this.later) n += s.size;
+    return n;
+  }
+  /**
+   * Take the set of a later part of the file as it is, to be looked up after this one (no
+   * entries copied, no table grown: a merge of byte ranges keeps each range's table);
+   * `repeats` of its entries are in this set already.
+   */
+  chain(later: HashSet64, repeats: number): void {
+    this.later.push(later);
+    this.laterRepeats += repeats;
   }
   private grow(to?: number): void {
     const old = this.slots;

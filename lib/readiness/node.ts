@@ -159,16 +159,21 @@ async function checkRanges(
       null,
       now() - t0,
     );
+  first.length = 0;
+  const head = results[0] as RangeDone;
+  const firstKeys = new Map(
+    head.part.keys.map(([k, v]) => [k, { repeats: v.dup.count, examples: v.examples }]),
+  );
   const scan = new Scan(plan);
   scan.onHeader(s.header, s.meta);
   let records = 0;
-  results.forEach((r, i) => {
-    if ("ok" in r && r.ok) {
-      absorbPart(scan, r.part, i === 0);
-      records += r.records;
-    }
-  });
-  await recountKeyExamples(scan, file, s.header, s.meta, results as RangeDone[], spans);
+  // each part is let go once it is absorbed: its tables need not outlive the merge
+  for (let i = 0; results.length > 0; i++) {
+    const r = results.shift() as RangeDone;
+    absorbPart(scan, r.part, i === 0);
+    records += r.records;
+  }
+  await recountKeyExamples(scan, file, s.header, s.meta, firstKeys, spans);
   return reportFromScan(
     scan,
     plan,
@@ -188,16 +193,15 @@ async function recountKeyExamples(
   file: string,
   header: string[],
   meta: CsvMeta,
-  parts: RangeDone[],
+  firstPart: Map<number, { repeats: number; examples: [string, number][] }>,
   spans: { start: number; firstLine: number; end: number }[],
 ): Promise<void> {
-  const firstPart = new Map(parts[0]!.part.keys.map(([k, v]) => [k, v]));
-  const later = [...scan.keys].filter(([k, v]) => v.dup.count > (firstPart.get(k)?.dup.count ?? 0));
+  const later = [...scan.keys].filter(([k, v]) => v.dup.count > (firstPart.get(k)?.repeats ?? 0));
   if (later.length === 0) return;
   for (const [k, v] of later) v.examples = new Map(firstPart.get(k)?.examples ?? []);
   const sink = new KeyExampleRecount(scan, new Set(later.map(([k]) => k)));
   sink.onHeader(header, meta);
-  for (let i = 1; i < parts.length; i++) {
+  for (let i = 1; i < spans.length; i++) {
     const { start, firstLine, end } = spans[i]!;
     await readCsv(fs.createReadStream(file, { start, highWaterMark: 1 << 20 }), sink, {
       range: { meta, byteOffset: start, firstLine, endOffset: end },

@@ -88,14 +88,19 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
     const crossPairs: [number, number][] = [];
     // a row first seen in this part but repeating an earlier part's: its repeats inside this part repeat that earlier row
     const earlier = new Map<number, number>();
-    HashSet64.fromRaw(raw, DUPLICATE_CAP).forEach((h1, h2, line) => {
-      const prev = set.addOrGet(h1, h2, line);
+    const part = HashSet64.fromRaw(raw, DUPLICATE_CAP);
+    // within the cap, the part's table is kept as it is, after the earlier parts' (no table grown
+    // to hold them all); past it, its entries are added one by one, as one pass adds them until full
+    const chained = set.entries + part.size <= DUPLICATE_CAP;
+    part.forEach((h1, h2, line) => {
+      const prev = chained ? set.lineOf(h1, h2) : set.addOrGet(h1, h2, line);
       if (prev) {
         cross.push(line);
         crossPairs.push([line, prev]);
         earlier.set(line, prev);
       }
     });
+    if (chained) set.chain(part, cross.length);
     const rows = [...partSample.rows, ...cross].sort((a, b) => a - b).slice(0, scan.t.sampleRows);
     sample.absorb({ count: partSample.count + cross.length, rows });
     const inPart = partPairs.map(([l, p]): [number, number] => [l, earlier.get(p) ?? p]);
