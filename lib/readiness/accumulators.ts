@@ -163,16 +163,40 @@ export class QuantileStore {
     this.keys[this.len++] = key;
   }
   /**
-   * Keep the `cap` smallest priorities (priorities are distinct). The loop is selectInPlace's
-   * (below), written again because every swap must move the value along with its priority.
+   * Keep the `cap` smallest priorities (priorities are distinct). The kept priorities are spread
+   * evenly below the limit (a hash of the line), so the cap-th smallest lies close to
+   * limit · cap / len: one pass puts every priority below a window around that guess first and
+   * every one above it last, and the selection is left with the window (when the guess misses,
+   * with everything). The selection is selectRanks' loop (below), written again because every
+   * swap must move the value along with its priority.
    */
   private cut(): void {
     if (this.len <= this.cap) return;
     this.ordered = null;
     const { keys, buf } = this;
     const k = this.cap - 1;
-    let lo = 0;
-    let hi = this.len - 1;
+    const top = this.limit === Infinity ? 2 ** 32 : this.limit;
+    // five standard deviations of the cap-th of len evenly spread priorities, either side
+    const guess = (top * this.cap) / this.len;
+    const spread = (5 * top * Math.sqrt(this.cap)) / this.len;
+    const below = guess - spread;
+    const above = guess + spread;
+    let a = 0;
+    let m = 0;
+    let b = this.len - 1;
+    while (m <= b) {
+      const key = keys[m]!;
+      if (key < below) {
+        if (a !== m) swapBoth(keys, buf, a, m);
+        a++;
+        m++;
+      } else if (key >= above) {
+        swapBoth(keys, buf, m, b);
+        b--;
+      } else m++;
+    }
+    let lo = a <= k && k <= b ? a : 0;
+    let hi = a <= k && k <= b ? b : this.len - 1;
     while (hi > lo) {
       const pivot = keys[(lo + hi) >>> 1]!;
       let i = lo;
@@ -181,12 +205,7 @@ export class QuantileStore {
         while (keys[i]! < pivot) i++;
         while (keys[j]! > pivot) j--;
         if (i <= j) {
-          const tk = keys[i]!;
-          keys[i] = keys[j]!;
-          keys[j] = tk;
-          const tv = buf[i]!;
-          buf[i] = buf[j]!;
-          buf[j] = tv;
+          swapBoth(keys, buf, i, j);
           i++;
           j--;
         }
@@ -342,6 +361,15 @@ function insertionSort(a: Float64Array, lo: number, hi: number): void {
     }
     a[j + 1] = v;
   }
+}
+
+function swapBoth(keys: Uint32Array, values: Float64Array, i: number, j: number): void {
+  const tk = keys[i]!;
+  keys[i] = keys[j]!;
+  keys[j] = tk;
+  const tv = values[i]!;
+  values[i] = values[j]!;
+  values[j] = tv;
 }
 
 function swap(a: Float64Array, i: number, j: number): void {
