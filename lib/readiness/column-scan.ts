@@ -13,6 +13,7 @@ import {
   tallyInfer,
 } from "./column-types";
 import type { BlockText } from "./fields";
+import { INDEXED_LEVEL_BYTES } from "./level-index";
 import { POW10, parseBoolean, parseDate, readDecimalComma, readNumber, validYmd } from "./values";
 
 export {
@@ -68,6 +69,7 @@ export class ColumnScan extends ColumnAccumulators {
     if (
       this.byBytes !== null &&
       n > this.maxToken &&
+      n <= INDEXED_LEVEL_BYTES &&
       buf[a]! > 32 &&
       buf[b - 1]! > 32 &&
       (kind === "category" || kind === "text")

@@ -2,7 +2,8 @@
  * The levels of a category or text column found by their UTF-8 bytes: the hot path
  * (./column-scan.ts readBytes) counts a known level, or a value beyond the level table's cap,
  * without making a string for the field. Open addressing over an FNV-1a hash of the bytes;
- * a hit is confirmed byte by byte.
+ * a hit is confirmed byte by byte. Levels longer than INDEXED_LEVEL_BYTES are not indexed
+ * (free text: its string is made, as before): a field that long is never looked up here.
  */
 import type { LevelAcc } from "./column-types";
 
@@ -13,6 +14,9 @@ export interface IndexedLevel {
 }
 
 const encoder = new TextEncoder();
+
+/** the longest level, in UTF-8 bytes, kept by its bytes */
+export const INDEXED_LEVEL_BYTES = 256;
 
 export class LevelIndex {
   private readonly levels: IndexedLevel[] = [];
@@ -31,14 +35,16 @@ export class LevelIndex {
   }
 
   add(text: string, acc: LevelAcc): void {
+    if (text.length > INDEXED_LEVEL_BYTES) return;
     const bytes = encoder.encode(text);
+    if (bytes.length > INDEXED_LEVEL_BYTES) return;
     this.levels.push({ bytes, text, acc });
     this.hashes.push(hashBytes(bytes, 0, bytes.length));
     if (this.levels.length * 2 > this.slots.length) this.grow();
     else this.place(this.levels.length - 1);
   }
 
-  /** The level whose bytes are buf[a, b), if there is one. */
+  /** The level whose bytes are buf[a, b) (at most INDEXED_LEVEL_BYTES), if there is one. */
   find(buf: Uint8Array, a: number, b: number): IndexedLevel | undefined {
     const h = hashBytes(buf, a, b);
     const n = b - a;

@@ -92,7 +92,7 @@ export async function checkFile(
   const pool = opts.pool ?? own;
   pool?.warm(opts.threadsOnly ? workers : workers - 1);
   try {
-    const ranges = { ...opts, workers, pool: opts.inThread ? null : pool, read: () => own?.close() };
+    const ranges = { ...opts, workers, pool: opts.inThread ? null : pool, rangesRead: () => own?.close() };
     return await checkRanges(file, size, plan, ranges, single, t0);
   } finally {
     await own?.close();
@@ -108,8 +108,8 @@ async function checkRanges(
     inThread?: boolean;
     threadsOnly?: boolean;
     pool: RangePool | null;
-    /** every range has been read once: threads of this check alone can end (their memory freed) */
-    read: () => Promise<void> | undefined;
+    /** called once every range has been read: the threads of this check alone can end (their memory freed) */
+    rangesRead: () => Promise<void> | undefined;
   },
   single: () => Promise<ReadinessReport>,
   t0: number,
@@ -136,7 +136,7 @@ async function checkRanges(
   const first: RangeResult[] = [];
   if (opts.inThread) for (const [i, r] of s.starts.entries()) first.push(await run(i, r.start, r.firstLine));
   else first.push(...(await Promise.all(s.starts.map((r, i) => run(i, r.start, r.firstLine)))));
-  await opts.read();
+  await opts.rangesRead();
   // in file order: each range must start where the one before it stopped
   const results: RangeResult[] = [];
   /** where each range read was: its start, first line and end */

@@ -40,7 +40,9 @@ describe("levels found by their bytes equal the string path", () => {
     // 30,000 codes fill the text column's level table (LEVEL_CAP, 5,000) and then count as
     // overflow without a string each; codes repeated past the cap give key examples from bytes
     // decoded only then; a numeric key's examples are its numbers
-    const lines = ["code,num,site,crop,y"];
+    // a remark longer than the bytes a level is indexed by (256), before and after the cap
+    const long = `"${"a long remark, ".repeat(24)}the end"`;
+    const lines = ["code,num,site,crop,y,remark"];
     const sites = ["Öland", "Älvdal", "Côte", "Ribe"];
     const crops = ["barley", "oats", "Barley", "oats "];
     for (let i = 0; i < 30_000; i++) {
@@ -49,11 +51,12 @@ describe("levels found by their bytes equal the string path", () => {
           ? `P${String(i - 4000).padStart(6, "0")}`
           : `P${String(i).padStart(6, "0")}`;
       const num = i === 9000 ? "NA" : i % 2500 === 11 && i > 2500 ? String(i - 2500) : String(i);
+      const remark = i % 5000 === 3 ? long : `r${i}`;
       lines.push(
-        `${code},${num},${sites[i % 4]},${crops[i % 7 === 0 ? 2 + (i % 2) : i % 2]},${(i % 89) / 10}`,
+        `${code},${num},${sites[i % 4]},${crops[i % 7 === 0 ? 2 + (i % 2) : i % 2]},${(i % 89) / 10},${remark}`,
       );
     }
-    lines.push("P029990,29990x,Ribe,oats,1.0", "P029991,29991,Ribe,oats,1.0");
+    lines.push("P029990,29990x,Ribe,oats,1.0,x", "P029991,29991,Ribe,oats,1.0,x");
     const parsed = parsePlan({
       columns: [
         { name: "code", role: "key", type: "text" },
@@ -61,6 +64,7 @@ describe("levels found by their bytes equal the string path", () => {
         { name: "site", role: "predictor", type: "category", levels: ["Öland", "Älvdal", "Côte", "Ribe"] },
         { name: "crop", role: "predictor", type: "category", levels: ["barley", "oats"] },
         { name: "y", role: "response", type: "number" },
+        { name: "remark", role: "carry", type: "text" },
       ],
       missingTokens: ["NA"],
     });
@@ -74,6 +78,10 @@ describe("levels found by their bytes equal the string path", () => {
     // rows 6,007 and 8,007 (past the cap) repeat the codes of rows 2,007 and 4,007
     expect(dup.find((f) => f.message.includes("“code”"))?.message).toContain("“P002007”, “P004007”");
     expect(dup.find((f) => f.message.includes("“num”"))?.message).toContain("(e.g. “11”, “29991”)");
+    // the long remark is one level counted six times on both paths, not an overflow past the cap
+    type Col = { name: string; levels: [string, number, number][] | null };
+    const remark = (fast.state as { columns: Col[] }).columns.find((c) => c.name === "remark");
+    expect(remark?.levels?.find(([l]) => l === long.slice(1, -1))?.[1]).toBe(6);
     const levels = fast.findings.find((f) => f.code === "level.unknown" && f.message.includes("crop"));
     expect(levels?.message).toContain("“Barley”");
     expect(levels?.message).toContain("“oats ”");
