@@ -8,7 +8,9 @@
  * (two 32-bit hash halves and the first row's line, side by side in one table, so a probe
  * touches one cache line rather than three), kept at most 60 % full (linear probing stays
  * short there, and a smaller table means fewer fresh memory pages to fault in), so 20–40
- * bytes per distinct row; it stops growing at `maxEntries` and then says so.
+ * bytes per distinct row; it stops growing at `maxEntries` and then says so. The table has any
+ * number of slots (a hash picks its first slot by multiplying, not by masking bits), so a table
+ * sized for the rows expected is not rounded up to a power of two (up to twice the memory).
  */
 export class HashSet64 {
   /** slot i: slots[3i] and slots[3i + 1] the hash halves (both 0: empty), slots[3i + 2] the line */
@@ -26,9 +28,7 @@ export class HashSet64 {
   /** Make room for about n entries at once (avoids rehashing while a large file is read). */
   reserve(n: number): void {
     const want = Math.ceil((Math.min(this.maxEntries, Math.max(0, Math.floor(n))) * 5) / 3);
-    let cap = this.cap;
-    while (cap < want) cap *= 2;
-    if (cap > this.cap) this.grow(cap);
+    if (want > this.cap) this.grow(want);
   }
 
   /** Insert; returns the line of an earlier equal entry, 0 when new (or when the set is full). */
@@ -37,15 +37,15 @@ export class HashSet64 {
     const a1 = h1 >>> 0;
     const a2 = h2 >>> 0;
     const t = this.slots;
-    const mask = this.cap - 1;
-    let i = (h1 ^ Math.imul(h2, 0x9e3779b1)) & mask;
+    const cap = this.cap;
+    let i = firstSlot(a1, a2, cap);
     for (;;) {
       const at = 3 * i;
       const a = t[at]!;
       const b = t[at + 1]!;
       if (a === 0 && b === 0) break;
       if (a === a1 && b === a2) return t[at + 2]!;
-      i = (i + 1) & mask;
+      if (++i === cap) i = 0;
     }
     for (let k = 0; k < this.later.length; k++) {
       const l = this.later[k]!.ownLineOf(a1, a2);
@@ -75,12 +75,13 @@ export class HashSet64 {
   }
   private ownLineOf(a1: number, a2: number): number {
     const t = this.slots;
-    const mask = this.cap - 1;
-    for (let i = (a1 ^ Math.imul(a2, 0x9e3779b1)) & mask; ; i = (i + 1) & mask) {
+    const cap = this.cap;
+    for (let i = firstSlot(a1, a2, cap); ;) {
       const a = t[3 * i]!;
       const b = t[3 * i + 1]!;
       if (a === 0 && b === 0) return 0;
       if (a === a1 && b === a2) return t[3 * i + 2]!;
+      if (++i === cap) i = 0;
     }
   }
   /** Distinct entries, here and in the later parts' sets. */
@@ -103,13 +104,12 @@ export class HashSet64 {
     const oldCap = this.cap;
     const cap = to ?? oldCap * 2;
     const t = new Uint32Array(3 * cap);
-    const mask = cap - 1;
     for (let k = 0; k < oldCap; k++) {
       const a = old[3 * k]!;
       const b = old[3 * k + 1]!;
       if (a === 0 && b === 0) continue;
-      let i = (a ^ Math.imul(b, 0x9e3779b1)) & mask;
-      while (t[3 * i] !== 0 || t[3 * i + 1] !== 0) i = (i + 1) & mask;
+      let i = firstSlot(a, b, cap);
+      while (t[3 * i] !== 0 || t[3 * i + 1] !== 0) if (++i === cap) i = 0;
       t[3 * i] = a;
       t[3 * i + 1] = b;
       t[3 * i + 2] = old[3 * k + 2]!;
@@ -140,6 +140,11 @@ export class HashSet64 {
     for (let at = 0; at < t.length; at += 3)
       if (t[at] !== 0 || t[at + 1] !== 0) f(t[at]!, t[at + 1]!, t[at + 2]!);
   }
+}
+
+/** The slot where the probe for (a, b) starts, in 0 … cap − 1: the mixed hash scaled to cap. */
+function firstSlot(a: number, b: number, cap: number): number {
+  return Math.floor(((a ^ Math.imul(b, 0x9e3779b1)) >>> 0) * cap * 2 ** -32);
 }
 
 /** Two 32-bit hash halves: the output of hashFields / hashByteFields (one per reader, reused per row). */

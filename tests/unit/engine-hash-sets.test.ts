@@ -49,4 +49,24 @@ describe("sets of later parts looked up in turn equal one set holding them all",
     expect(chained.addOrGet(a, b, 99_999)).toBe(parts[2]!.lineOf(a, b));
     expect(chained.entries).toBe(one.size);
   });
+
+  test("a table sized for the rows expected is that size, and finds every entry after growing", () => {
+    const s = new HashSet64(1_000_000);
+    // 5/3 slots per row expected (at most 60 % full), 12 bytes a slot, not rounded to a power of two
+    s.reserve(300_000);
+    expect(s.bytes).toBe(500_000 * 12);
+    const r = rng(43);
+    const keys = Array.from(
+      { length: 700_000 },
+      () => [(r() * 2 ** 32) >>> 0, (r() * 2 ** 32) >>> 0] as const,
+    );
+    let repeats = 0;
+    keys.forEach(([a, b], i) => (repeats += s.addOrGet(a, b, i + 2) ? 1 : 0));
+    expect(repeats).toBe(0);
+    // grown past 60 % full: twice the slots
+    expect(s.bytes).toBe(1_000_000 * 12 * 2);
+    const wrong = keys.filter(([a, b], i) => s.lineOf(a, b) !== i + 2);
+    expect(wrong).toEqual([]);
+    expect(s.size).toBe(700_000);
+  });
 });
