@@ -52,6 +52,8 @@ export class ColumnAccumulators {
   protected spanNumbers: boolean;
   protected tokens: Set<string>;
   protected maxToken: number;
+  /** the missing-value tokens' UTF-8 bytes (readBytes tells a short level from a token by them) */
+  protected tokenBytes: Uint8Array[];
   protected sentinelSet: Set<number>;
   readonly kind: "number" | "integer" | "boolean" | "category" | "date" | "text" | "profile" | "ignore";
 
@@ -64,6 +66,7 @@ export class ColumnAccumulators {
   ) {
     this.tokens = new Set([...fileTokens, ...(plan?.missingTokens ?? [])]);
     this.maxToken = Math.max(0, ...[...this.tokens].map((x) => x.length));
+    this.tokenBytes = [...this.tokens].map((x) => new TextEncoder().encode(x));
     this.spanNumbers = [...this.tokens].every((x) => readNumber(x) !== readNumber(x));
     this.sentinelSet = new Set(plan?.sentinels ?? []);
     this.missing = new RowSample(sampleCap);
@@ -85,6 +88,18 @@ export class ColumnAccumulators {
     if (s.charCodeAt(0) <= 32 || s.charCodeAt(n - 1) <= 32) {
       const t = s.trim();
       return t === "" || this.tokens.has(t);
+    }
+    return false;
+  }
+
+  /** Whether buf[a, b) is one of the missing-value tokens, byte for byte. */
+  protected isTokenBytes(buf: Uint8Array, a: number, b: number): boolean {
+    const n = b - a;
+    for (const t of this.tokenBytes) {
+      if (t.length !== n) continue;
+      let i = 0;
+      while (i < n && t[i] === buf[a + i]) i++;
+      if (i === n) return true;
     }
     return false;
   }

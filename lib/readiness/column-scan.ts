@@ -68,11 +68,13 @@ export class ColumnScan extends ColumnAccumulators {
     }
     if (
       this.byBytes !== null &&
-      n > this.maxToken &&
+      n > 0 &&
       n <= INDEXED_LEVEL_BYTES &&
       buf[a]! > 32 &&
       buf[b - 1]! > 32 &&
-      (kind === "category" || kind === "text")
+      (kind === "category" || kind === "text") &&
+      // a level as short as a missing-value token ("A" beside "NA") is read here too, a token is not
+      (n > this.maxToken || !this.isTokenBytes(buf, a, b))
     ) {
       // a level already seen, found by its bytes without making a string
       const l = this.byBytes.find(buf, a, b);

@@ -42,7 +42,9 @@ describe("levels found by their bytes equal the string path", () => {
     // decoded only then; a numeric key's examples are its numbers
     // a remark longer than the bytes a level is indexed by (256), before and after the cap
     const long = `"${"a long remark, ".repeat(24)}the end"`;
-    const lines = ["code,num,site,crop,y,remark"];
+    // one-letter levels beside the two-letter missing-value token "NA"
+    const grades = ["A", "B", "N", "NA"];
+    const lines = ["code,num,site,crop,y,remark,grade"];
     const sites = ["Öland", "Älvdal", "Côte", "Ribe"];
     const crops = ["barley", "oats", "Barley", "oats "];
     for (let i = 0; i < 30_000; i++) {
@@ -51,12 +53,13 @@ describe("levels found by their bytes equal the string path", () => {
           ? `P${String(i - 4000).padStart(6, "0")}`
           : `P${String(i).padStart(6, "0")}`;
       const num = i === 9000 ? "NA" : i % 2500 === 11 && i > 2500 ? String(i - 2500) : String(i);
-      const remark = i % 5000 === 3 ? long : `r${i}`;
+      // and "NA" now and then, also past the cap: missing, not a new value
+      const remark = i % 5000 === 3 ? long : i % 1000 === 500 ? "NA" : `r${i}`;
       lines.push(
-        `${code},${num},${sites[i % 4]},${crops[i % 7 === 0 ? 2 + (i % 2) : i % 2]},${(i % 89) / 10},${remark}`,
+        `${code},${num},${sites[i % 4]},${crops[i % 7 === 0 ? 2 + (i % 2) : i % 2]},${(i % 89) / 10},${remark},${grades[i % 4]}`,
       );
     }
-    lines.push("P029990,29990x,Ribe,oats,1.0,x", "P029991,29991,Ribe,oats,1.0,x");
+    lines.push("P029990,29990x,Ribe,oats,1.0,x,A", "P029991,29991,Ribe,oats,1.0,x,B");
     const parsed = parsePlan({
       columns: [
         { name: "code", role: "key", type: "text" },
@@ -65,6 +68,7 @@ describe("levels found by their bytes equal the string path", () => {
         { name: "crop", role: "predictor", type: "category", levels: ["barley", "oats"] },
         { name: "y", role: "response", type: "number" },
         { name: "remark", role: "carry", type: "text" },
+        { name: "grade", role: "predictor", type: "category", levels: ["A", "B", "N"] },
       ],
       missingTokens: ["NA"],
     });
@@ -82,6 +86,9 @@ describe("levels found by their bytes equal the string path", () => {
     type Col = { name: string; levels: [string, number, number][] | null };
     const remark = (fast.state as { columns: Col[] }).columns.find((c) => c.name === "remark");
     expect(remark?.levels?.find(([l]) => l === long.slice(1, -1))?.[1]).toBe(6);
+    const grade = fast.columns.find((c) => c.name === "grade");
+    expect(grade?.missing.count).toBe(7500);
+    expect(fast.columns.find((c) => c.name === "remark")?.missing.count).toBe(30);
     const levels = fast.findings.find((f) => f.code === "level.unknown" && f.message.includes("crop"));
     expect(levels?.message).toContain("“Barley”");
     expect(levels?.message).toContain("“oats ”");
