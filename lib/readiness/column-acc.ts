@@ -17,7 +17,7 @@ import {
   type InferCounts,
   type LevelAcc,
 } from "./column-types";
-import { LevelIndex } from "./level-index";
+import { LevelIndex, sameBytes } from "./level-index";
 import { readNumber } from "./values";
 
 export class ColumnAccumulators {
@@ -94,13 +94,7 @@ export class ColumnAccumulators {
 
   /** Whether buf[a, b) is one of the missing-value tokens, byte for byte. */
   protected isTokenBytes(buf: Uint8Array, a: number, b: number): boolean {
-    const n = b - a;
-    for (const t of this.tokenBytes) {
-      if (t.length !== n) continue;
-      let i = 0;
-      while (i < n && t[i] === buf[a + i]) i++;
-      if (i === n) return true;
-    }
+    for (const t of this.tokenBytes) if (sameBytes(t, buf, a, b)) return true;
     return false;
   }
 

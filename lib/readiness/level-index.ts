@@ -47,18 +47,13 @@ export class LevelIndex {
   /** The level whose bytes are buf[a, b) (at most INDEXED_LEVEL_BYTES), if there is one. */
   find(buf: Uint8Array, a: number, b: number): IndexedLevel | undefined {
     const h = hashBytes(buf, a, b);
-    const n = b - a;
     const mask = this.slots.length - 1;
     for (let i = h & mask; ; i = (i + 1) & mask) {
       const s = this.slots[i]!;
       if (s === 0) return undefined;
       if (this.hashes[s - 1] !== h) continue;
       const l = this.levels[s - 1]!;
-      const bytes = l.bytes;
-      if (bytes.length !== n) continue;
-      let k = 0;
-      while (k < n && bytes[k] === buf[a + k]) k++;
-      if (k === n) return l;
+      if (sameBytes(l.bytes, buf, a, b)) return l;
     }
   }
 
@@ -73,6 +68,15 @@ export class LevelIndex {
     this.slots = new Int32Array(this.slots.length * 2);
     for (let j = 0; j < this.levels.length; j++) this.place(j);
   }
+}
+
+/** Whether `bytes` equals buf[a, b). */
+export function sameBytes(bytes: Uint8Array, buf: Uint8Array, a: number, b: number): boolean {
+  const n = b - a;
+  if (bytes.length !== n) return false;
+  let k = 0;
+  while (k < n && bytes[k] === buf[a + k]) k++;
+  return k === n;
 }
 
 /** FNV-1a (32 bits) of buf[a, b). */
