@@ -120,6 +120,17 @@ describe("the check and the fix tally, from one download at the same time", () =
     }
   });
 
+  test("a large batch whose check on two threads ends before the tally: the proposals count every row", async () => {
+    // 200,000 rows (about 20 MB): the threads check it faster than this thread tallies it, so a
+    // tally stopped when the check ends (as in fa1f3b6 until this test) proposed fixes from part of the file
+    const text = batch(200_000);
+    const alone = await checkBatch(chunks(text, 1 << 16), P);
+    const proposals = await proposeFixes(chunks(text, 1 << 16), P, alone);
+    const both = await checkAndPropose(chunks(text, 1 << 16), P, { workers: 2, minBytes: 0, job: job([]) });
+    expect(both.status).toBe("checked");
+    expect(both.proposals).toEqual(proposals);
+  }, 120_000);
+
   test("a download that fails rejects the check, and no tally is left waiting", async () => {
     const text = batch(2000);
     async function* failing(): AsyncGenerator<Uint8Array> {

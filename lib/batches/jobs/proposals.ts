@@ -1,8 +1,8 @@
 /**
  * The server's check of a stored file and its fix proposals (REPORT-FORMAT.md "proposals") from
  * one download, read once and kept (in memory, or in a temporary file for a large batch) so that
- * the check and the fix tally (which needs no report) read it at the same time. When the tally fails the report stands without proposals (unless
- * the job is being stopped).
+ * the check and the fix tally (which needs no report) read it at the same time. When the tally
+ * fails the report stands without proposals (unless the job is being stopped).
  */
 import {
   tallyFixes,
@@ -41,10 +41,15 @@ export async function checkAndPropose(
     let report: ReadinessReport;
     try {
       report = await checkSpooled(spooled, plan, { ...check, threadsOnly: true, keepThreads: true });
-    } finally {
+    } catch (e) {
       stopTally.abort();
+      throw e;
     }
-    if (report.status !== "checked") return report;
+    if (report.status !== "checked") {
+      stopTally.abort();
+      return report;
+    }
+    // a checked report: the tally reads every byte, as the check did
     const t = await tallying;
     if ("tally" in t) return { ...report, proposals: t.tally.proposals(report) };
     if (job.signal?.aborted) throw t.error;
