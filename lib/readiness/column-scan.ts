@@ -45,16 +45,38 @@ export class ColumnScan extends ColumnAccumulators {
       let m = 0;
       let digits = 0;
       let frac = -1;
+      let comma = false;
       for (; i < b; i++) {
         const c = buf[i]!;
         if (c >= 48 && c <= 57) {
           m = m * 10 + (c - 48);
           digits++;
           if (frac >= 0) frac++;
-        } else if (c === 46 && frac < 0) frac = 0;
-        else break;
+        } else if ((c === 46 || c === 44) && frac < 0) {
+          frac = 0;
+          comma = c === 44;
+        } else break;
       }
-      if (i === b && digits > 0 && digits <= 15) {
+      if (comma) {
+        // `12,5`: what read() makes of it (readDecimalComma: the same double), once the column's
+        // type evidence and its examples of decimal commas, which need the text, are complete
+        if (
+          i === b &&
+          digits <= 15 &&
+          frac > 0 &&
+          digits > frac &&
+          kind === "number" &&
+          this.infer.seen >= INFER_LIMIT &&
+          this.commaExamples.length >= 5 &&
+          (n > this.maxToken || !this.isTokenBytes(buf, a, b))
+        ) {
+          const v = m / POW10[frac]!;
+          this.total++;
+          this.comma.add(line);
+          this.valueNumber(neg ? -v : v, line);
+          return;
+        }
+      } else if (i === b && digits > 0 && digits <= 15) {
         let v = frac > 0 ? m / POW10[frac]! : m;
         if (neg) v = -v;
         const isInt = Number.isInteger(v);

@@ -9,7 +9,7 @@ import path from "node:path";
 import { describe, expect, test } from "vitest";
 import { checkBatch, parsePlan, type ReadinessReport } from "@/lib/readiness";
 import { checkFile } from "@/lib/readiness/node";
-import { HEADER, chunks, cleanRows, csvOf, plan } from "../fixtures/engine/data";
+import { HEADER, chunks, cleanRows, csvOf, plan, rng } from "../fixtures/engine/data";
 import { close } from "../helpers/close";
 
 describe("the byte-span hot path equals the string path", () => {
@@ -92,6 +92,37 @@ describe("levels found by their bytes equal the string path", () => {
     const levels = fast.findings.find((f) => f.code === "level.unknown" && f.message.includes("crop"));
     expect(levels?.message).toContain("“Barley”");
     expect(levels?.message).toContain("“oats ”");
+  });
+});
+
+describe("decimal commas read from the bytes equal the string path", () => {
+  test("30,000 rows of `12,5`-style numbers, with odd ones among them", async () => {
+    // past the first 20,000 values (type evidence) and the first five examples, a plain decimal
+    // comma is read from the bytes; these must stay what read() makes of them
+    const odd = [",5", "-,5", "5,", "1,2,3", "1.234,5", "+1,5", "1,5e3", "12,50000000000000001", "NA", ""];
+    const r = rng(61);
+    const rows = Array.from({ length: 30_000 }, (_, i) => {
+      const v =
+        i % 997 === 13
+          ? odd[Math.floor(i / 997) % odd.length]!
+          : `${i % 3 ? "" : "-"}${(r() * 1000).toFixed(1 + (i % 4)).replace(".", ",")}`;
+      return `P${i};${v};${(i % 89) / 10}`;
+    });
+    const parsed = parsePlan({
+      columns: [
+        { name: "code", role: "key", type: "text" },
+        { name: "x", role: "predictor", type: "number" },
+        { name: "y", role: "response", type: "number" },
+      ],
+      missingTokens: ["NA"],
+    });
+    if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+    const text = `code;x;y\n${rows.join("\n")}\n`;
+    const fast = await checkBatch(chunks(text, 65_536), parsed.plan);
+    const slow = await checkBatch(chunks(text, 65_536), parsed.plan, { path: "strings" });
+    const strip = ({ timings: _t, ...rest }: ReadinessReport) => rest;
+    close(strip(slow), strip(fast), "report");
+    expect(fast.findings.map((f) => f.code)).toContain("number.decimal-comma");
   });
 });
 
