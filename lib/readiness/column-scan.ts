@@ -103,7 +103,7 @@ export class ColumnScan extends ColumnAccumulators {
       if (l) {
         this.total++;
         if (this.infer.seen < INFER_LIMIT) this.inferOne(l.text);
-        const acc = l.acc;
+        const acc = l.value;
         acc.count++;
         if (acc.rows.length < this.sampleCap) acc.rows.push(line);
         this.str = l.text;

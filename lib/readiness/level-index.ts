@@ -4,13 +4,15 @@
  * without making a string for the field. Open addressing over an FNV-1a hash of the bytes;
  * a hit is confirmed byte by byte. Levels longer than INDEXED_LEVEL_BYTES are not indexed
  * (free text: its string is made, as before): a field that long is never looked up here.
+ * Generic in what it keeps per value: the check keeps a level's accumulator, the fix tally
+ * (./fixes/tally.ts) what its rules make of a value.
  */
 import type { LevelAcc } from "./column-types";
 
-export interface IndexedLevel {
+export interface IndexedLevel<T = LevelAcc> {
   bytes: Uint8Array;
   text: string;
-  acc: LevelAcc;
+  value: T;
 }
 
 const encoder = new TextEncoder();
@@ -18,8 +20,8 @@ const encoder = new TextEncoder();
 /** the longest level, in UTF-8 bytes, kept by its bytes */
 export const INDEXED_LEVEL_BYTES = 256;
 
-export class LevelIndex {
-  private readonly levels: IndexedLevel[] = [];
+export class LevelIndex<T = LevelAcc> {
+  private readonly levels: IndexedLevel<T>[] = [];
   private readonly hashes: number[] = [];
   /** slot → level number + 1 (0: empty), at most half full */
   private slots: Int32Array;
@@ -34,18 +36,18 @@ export class LevelIndex {
     return this.levels.length;
   }
 
-  add(text: string, acc: LevelAcc): void {
+  add(text: string, value: T): void {
     if (text.length > INDEXED_LEVEL_BYTES) return;
     const bytes = encoder.encode(text);
     if (bytes.length > INDEXED_LEVEL_BYTES) return;
-    this.levels.push({ bytes, text, acc });
+    this.levels.push({ bytes, text, value });
     this.hashes.push(hashBytes(bytes, 0, bytes.length));
     if (this.levels.length * 2 > this.slots.length) this.grow();
     else this.place(this.levels.length - 1);
   }
 
   /** The level whose bytes are buf[a, b) (at most INDEXED_LEVEL_BYTES), if there is one. */
-  find(buf: Uint8Array, a: number, b: number): IndexedLevel | undefined {
+  find(buf: Uint8Array, a: number, b: number): IndexedLevel<T> | undefined {
     const h = hashBytes(buf, a, b);
     const mask = this.slots.length - 1;
     for (let i = h & mask; ; i = (i + 1) & mask) {

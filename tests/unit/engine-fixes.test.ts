@@ -302,6 +302,9 @@ describe("byte-faithful rewriting on random files", () => {
           "number.decimal-comma",
         ]),
       );
+      // each proposal's count (the tally, read from the bytes) is the cells it changes
+      for (const x of proposals)
+        expect(x.cells, x.id).toBe(expected.filter((e) => e.proposal === x.id).length);
       // small chunks cross every field and record boundary, and the reader's buffer moves
       const applied = applyFixes(chunks(text, 1 + (seed % 7)), proposals);
       const parts: Uint8Array[] = [];
