@@ -104,6 +104,9 @@ export class ColumnTally {
   private tokenLengths = new Set<number>();
   private isNear: (s: string) => boolean = () => false;
   private nearCache = new Map<string, boolean>();
+  /** outcomes by the value's bytes, while the column repeats its values (dropped when it does not) */
+  private memo: LevelIndex<Outcome> | null = new LevelIndex();
+  private memoHits = 0;
 
   constructor(
     readonly idx: number,
@@ -151,10 +154,6 @@ export class ColumnTally {
     if (this.nearCache.size < CACHE_CAP) this.nearCache.set(s, near);
     return near;
   }
-
-  /** outcomes by the value's bytes, while the column repeats its values (dropped when it does not) */
-  private memo: LevelIndex<Outcome> | null = new LevelIndex();
-  private memoHits = 0;
 
   /** Count the non-empty field buf[a, b) of line `row`. */
   seeBytes(buf: Uint8Array, a: number, b: number, row: number): void {
