@@ -8,7 +8,8 @@
  * (the job in hand is then taken again after the stale timeout, TRIBUTARY_JOB_STALE_MS).
  * A file download that sends nothing for TRIBUTARY_JOB_STALL_MS (default 120 000) fails the
  * attempt; TRIBUTARY_WORKER_POLL_MS (default 1 000) is how often an idle worker looks for work.
- * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none).
+ * A large batch is checked by TRIBUTARY_CHECK_WORKERS threads (default one per core; 1: none),
+ * started with the process and kept between jobs.
  * The process lowers its own CPU priority to TRIBUTARY_WORKER_NICE (default 10) before it starts
  * its check threads, so that an app instance on the same machine answers first; the check
  * threads inherit it (on Linux a priority is per thread, and a new thread takes its creator's).
@@ -21,6 +22,7 @@ import { runMailSender } from "@/lib/mail";
 import { openStoredFile } from "@/lib/batches/intake/file-store";
 import { defaultWorkerId, runWorker } from "@/lib/batches/jobs/worker";
 import { runPoolQuestionsWorker } from "@/lib/pool/questions-job";
+import { warmCheckThreads } from "@/lib/readiness/node-stream";
 
 // refuse the demo secrets in production, and say what is missing, before touching anything
 exitUnlessEnvOk("worker");
@@ -57,6 +59,10 @@ process.on("unhandledRejection", (reason) =>
 
 const workerId = defaultWorkerId();
 log(`started as ${workerId} (nice ${os.getPriority()})`);
+// the check threads load the engine now, while no job waits (they take the priority set above)
+await warmCheckThreads(checkWorkers).catch((e: unknown) =>
+  log(`the check threads start with the first large batch (${e instanceof Error ? e.message : String(e)})`),
+);
 await Promise.all([
   runWorker({
     db: getDb(),

@@ -42,6 +42,15 @@ export function keptThreadCount(): number {
   return n;
 }
 
+/**
+ * Start the process's kept range threads before its first large check (a long-running worker
+ * process): they load the engine while the process waits for work, not during the first job.
+ */
+export async function warmCheckThreads(workers = defaultWorkers()): Promise<void> {
+  if (workers < 2) return;
+  keptThreads(await rangeWorkerScript()).warm(workers);
+}
+
 export function rangeWorkerScript(): Promise<string> {
   threadScript ??=
     process.env.TRIBUTARY_CHECK_SOURCES === "1"

@@ -6,7 +6,8 @@
  * The benchmark plan is published on the demo barley study, the demo provider records the
  * benchmark file (at --rows rows) as a new batch, and the worker's own runJob takes the claimed
  * job: signed URL, download from the fake, check, report and states stored in one transaction.
- * The time is runJob's, from its call to its return; the upload before it is not counted.
+ * The time is runJob's, from its call to its return; the upload before it is not counted. The
+ * check threads are started first, as the worker process starts them when it starts.
  * Prints one JSON line {ms, rows, runs, what}. Run through the services' React server condition:
  *
  *   npx tsx --conditions=react-server scripts/bench/worker.ts [--rows 200000] [--rounds 3]
@@ -17,6 +18,7 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, renameSync, rmSync } 
 import os from "node:os";
 import path from "node:path";
 import { parseArgs } from "node:util";
+import { warmCheckThreads } from "@/lib/readiness/node-stream";
 import { GENERATOR_VERSION, generate, plan } from "./generate";
 import { median } from "./measure";
 
@@ -41,6 +43,9 @@ async function main() {
     await generate(`${csv}.part`, ROWS);
     renameSync(`${csv}.part`, csv);
   }
+  // as the worker process does at its start (scripts/worker.ts): its check threads load the engine
+  // before the first job, here while the scratch database is made
+  await warmCheckThreads();
   db("start");
   const name = `tributary_bench_${process.pid}`;
   db("drop-db", name);

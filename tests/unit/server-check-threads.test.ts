@@ -10,7 +10,12 @@ import path from "node:path";
 import { afterAll, describe, expect, test } from "vitest";
 import { checkBatch, proposeFixes, type ReadinessReport } from "@/lib/readiness";
 import { RangePool, checkFile } from "@/lib/readiness/node";
-import { keptThreadCount, rangeWorkerScript, spoolStream } from "@/lib/readiness/node-stream";
+import {
+  keptThreadCount,
+  rangeWorkerScript,
+  spoolStream,
+  warmCheckThreads,
+} from "@/lib/readiness/node-stream";
 import { checkAndPropose } from "@/lib/batches/jobs/proposals";
 import { close } from "../helpers/close";
 import { HEADER, chunks, cleanRows, csvOf, plan, type Row } from "../fixtures/engine/data";
@@ -102,6 +107,23 @@ describe("one download, read by more than one reader (spoolStream)", () => {
 describe("the check and the fix tally, from one download at the same time", () => {
   const job = (lines: string[]) => ({ log: (l: string) => lines.push(l), jobId: 1 });
 
+  test("threads started ahead (a worker process at its start) are the ones the first check takes", async () => {
+    // the first test here to use the process's kept threads: none wait yet
+    expect(keptThreadCount()).toBe(0);
+    await warmCheckThreads(1); // one thread is no check on threads: nothing starts
+    expect(keptThreadCount()).toBe(0);
+    await warmCheckThreads(2);
+    expect(keptThreadCount()).toBe(2);
+    const both = await checkAndPropose(chunks(batch(4000), 3000), P, {
+      workers: 2,
+      minBytes: 0,
+      job: job([]),
+    });
+    expect(both.status).toBe("checked");
+    // a check that started threads of its own would hand them back too: more would wait now
+    expect(keptThreadCount()).toBe(2);
+  });
+
   test("the same report and proposals as the check, then the tally, on one thread", async () => {
     const text = batch(4000);
     const alone = await checkBatch(chunks(text, 1 << 16), P);
@@ -121,7 +143,7 @@ describe("the check and the fix tally, from one download at the same time", () =
   });
 
   test("a large batch whose check on two threads ends before the tally: the proposals count every row", async () => {
-    // 200,000 rows (about 20 MB): the threads check it faster than this thread tallies it, so a
+    // 200,000 rows (about 20 MB): the threads may check it faster than this thread tallies it, so a
     // tally stopped when the check ends (as in fa1f3b6 until this test) proposed fixes from part of the file
     const text = batch(200_000);
     const alone = await checkBatch(chunks(text, 1 << 16), P);
