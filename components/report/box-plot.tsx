@@ -7,11 +7,14 @@ type Summary = NonNullable<ColumnReport["summary"]>;
 const W = 120;
 const H = 14;
 
+/** Said beside quartiles the engine found from a bounded sample of the column (REPORT-FORMAT.md, `quartiles`). */
+export const SAMPLED_QUARTILES = "from a uniform sample of the column's values: close, not exact";
+
 /** Whiskers from min to max, the box from the lower to the upper quartile, a bar at the median. */
-export function BoxPlot({ s }: { s: Summary }) {
+export function BoxPlot({ s, sampled = false }: { s: Summary; sampled?: boolean }) {
   const span = s.max - s.min;
   const x = (v: number) => (span > 0 ? ((v - s.min) / span) * (W - 2) + 1 : W / 2);
-  const label = `min ${formatNumber(s.min, "measure")}, lower quartile ${formatNumber(s.q1, "measure")}, median ${formatNumber(s.median, "measure")}, upper quartile ${formatNumber(s.q3, "measure")}, max ${formatNumber(s.max, "measure")}`;
+  const label = `min ${formatNumber(s.min, "measure")}, lower quartile ${formatNumber(s.q1, "measure")}, median ${formatNumber(s.median, "measure")}, upper quartile ${formatNumber(s.q3, "measure")}, max ${formatNumber(s.max, "measure")}${sampled ? ` (quartiles and median ${SAMPLED_QUARTILES})` : ""}`;
   return (
     <svg viewBox={`0 0 ${W} ${H}`} width={W} height={H} role="img" aria-label={label} className="shrink-0">
       <title>{label}</title>
@@ -32,16 +35,21 @@ export function BoxPlot({ s }: { s: Summary }) {
   );
 }
 
-/** The box plot beside min · q1 · median · q3 · max, with the mean and sd. */
-export function SummaryText({ s }: { s: Summary }) {
+/**
+ * The box plot beside min · q1 · median · q3 · max, with the mean and sd. Quartiles from a sample
+ * (`sampled`) read "≈" and say so on hover and to a screen reader.
+ */
+export function SummaryText({ s, sampled = false }: { s: Summary; sampled?: boolean }) {
   const m = (v: number) => formatNumber(v, "measure");
+  const q = (v: number) => (sampled ? `≈${m(v)}` : m(v));
+  const from = sampled ? `, ${SAMPLED_QUARTILES}` : "";
   return (
     <span className="flex flex-wrap items-center gap-2 text-xs tabular-nums">
-      <BoxPlot s={s} />
+      <BoxPlot s={s} sampled={sampled} />
       <span>
-        {m(s.min)} · <span title="lower quartile">{m(s.q1)}</span> ·{" "}
-        <strong title="median">{m(s.median)}</strong> · <span title="upper quartile">{m(s.q3)}</span> ·{" "}
-        {m(s.max)}
+        {m(s.min)} · <span title={`lower quartile${from}`}>{q(s.q1)}</span> ·{" "}
+        <strong title={`median${from}`}>{q(s.median)}</strong> ·{" "}
+        <span title={`upper quartile${from}`}>{q(s.q3)}</span> · {m(s.max)}
         <span className="text-silt-ink">
           {" "}
           (mean {formatNumber(s.mean, "estimate")}, sd {formatNumber(s.sd, "estimate")})

@@ -185,13 +185,13 @@ export function ColumnsTable({
       width: "minmax(16rem, 3fr)",
       value: (c) =>
         c.summary
-          ? `min ${formatNumber(c.summary.min, "measure")}, median ${formatNumber(c.summary.median, "measure")}, max ${formatNumber(c.summary.max, "measure")}, mean ${formatNumber(c.summary.mean, "estimate")}, sd ${formatNumber(c.summary.sd, "estimate")}`
+          ? `min ${formatNumber(c.summary.min, "measure")}, median ${c.quartiles === "sample" ? "≈" : ""}${formatNumber(c.summary.median, "measure")}, max ${formatNumber(c.summary.max, "measure")}, mean ${formatNumber(c.summary.mean, "estimate")}, sd ${formatNumber(c.summary.sd, "estimate")}`
           : (c.levels ?? []).map((l) => `${l.level} ${l.count}`).join("; "),
       render: (c) =>
         c.levels && c.levels.length > 0 ? (
           <LevelBars levels={c.levels} />
         ) : c.summary ? (
-          <SummaryText s={c.summary} />
+          <SummaryText s={c.summary} sampled={c.quartiles === "sample"} />
         ) : (
           "–"
         ),
