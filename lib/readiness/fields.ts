@@ -46,14 +46,21 @@ const latin1 = new TextDecoder("latin1");
 
 /**
  * The text of a block's fields. The first fields asked for are decoded one by one; once a block
- * has asked for many (a column of free text, say), an ASCII block is decoded once and a field's
- * text is a slice of that one string, as cheap as a substring; otherwise field by field.
+ * has asked for many (a column of free text, say), an ASCII block is decoded a window at a time
+ * and a field's text is a slice of the window's string, as cheap as a substring; otherwise field
+ * by field. A window is at most WINDOW_BYTES: a string that short lives in V8's young generation,
+ * while a whole block's megabyte string went to the large-object space, which only a full
+ * collection frees (a file with a long free-text column piled up 50–70 MB of them), and a slice
+ * kept by the check (a new level, an example) holds on to its window, not to the block.
  */
 export class BlockText {
   private buf: Uint8Array | null = null;
   private from = 0;
   private to = 0;
-  private text: string | null = null;
+  private text = "";
+  /** the window the text holds: buf[winFrom, winTo) */
+  private winFrom = 0;
+  private winTo = 0;
   private ascii: boolean | null = null;
   /** fields asked for in this block so far */
   private asked = 0;
@@ -63,7 +70,8 @@ export class BlockText {
     this.buf = buf;
     this.from = from;
     this.to = to;
-    this.text = null;
+    this.text = "";
+    this.winFrom = this.winTo = 0;
     this.ascii = null;
     this.asked = 0;
   }
@@ -82,11 +90,19 @@ export class BlockText {
         }
       }
       this.ascii = ascii;
-      if (ascii) this.text = latin1.decode(buf.subarray(this.from, this.to));
     }
-    return this.text !== null ? this.text.substring(s - this.from, e - this.from) : fieldText(buf, s, e);
+    if (!this.ascii || e - s > WINDOW_BYTES / 2) return fieldText(buf, s, e);
+    if (s < this.winFrom || e > this.winTo) {
+      this.winFrom = s;
+      this.winTo = Math.min(this.to, s + WINDOW_BYTES);
+      this.text = latin1.decode(buf.subarray(this.winFrom, this.winTo));
+    }
+    return this.text.substring(s - this.winFrom, e - this.winFrom);
   }
 }
+
+/** the most bytes BlockText decodes into one string */
+const WINDOW_BYTES = 1 << 16;
 
 /** fields of a block decoded one by one before the whole block is decoded at once */
 const BLOCK_DECODE_AFTER = 256;
