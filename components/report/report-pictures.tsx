@@ -103,16 +103,28 @@ export function CorrelationHeatmap({ columns, matrix }: { columns: string[]; mat
   );
 }
 
-/** Rows of patterns (not raw rows): one row per missingness pattern, its count as a bar. */
+/**
+ * Rows of patterns (not raw rows): one row per missingness pattern, its count as a bar. Past the
+ * engine's limit of distinct patterns (`overflow`) there are none to draw, and it says why.
+ */
 export function MissingnessMap({
   patterns,
   columns,
   total,
+  overflow,
 }: {
   patterns: { columns: string[]; count: number }[];
   columns: string[];
   total: number;
+  overflow?: { limit: number };
 }) {
+  if (overflow)
+    return (
+      <p className="text-sm text-silt-ink">
+        The rows with gaps fall into more than {overflow.limit.toLocaleString("en")} different combinations of
+        missing columns: too scattered to draw. Each column&apos;s missing count is in the columns table.
+      </p>
+    );
   if (patterns.length === 0)
     return <p className="text-sm text-reed-ink">No missing values in the planned columns.</p>;
   const max = Math.max(1, ...patterns.map((p) => p.count));

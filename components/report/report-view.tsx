@@ -137,6 +137,7 @@ export function ReportView({
           >
             <MissingnessMap
               patterns={report.missingness.patterns}
+              overflow={report.missingness.patternsOverflow}
               columns={planned}
               total={report.rows.total}
             />

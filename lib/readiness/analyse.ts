@@ -10,7 +10,7 @@ import { collinearityFindings, dfFindings } from "./findings-model";
 import type { Plan, Thresholds } from "./plan";
 import { selectionBudget } from "./pooling/terms";
 import type { ColumnReport, Finding, ReadinessReport } from "./report";
-import type { EngineState } from "./state";
+import { patternLimit, type EngineState } from "./state";
 import {
   LeastSquares,
   PatternMoments,
@@ -169,7 +169,13 @@ export function analyse(
       dfTarget: t.dfTarget ?? t.dfFloor,
     },
     columns,
-    missingness: { patterns, ...(littleMCAR ? { littleMCAR } : {}) },
+    missingness: {
+      patterns,
+      ...(state.patterns.overflowed
+        ? { patternsOverflow: { limit: patternLimit(state.patterns.columns.length) } }
+        : {}),
+      ...(littleMCAR ? { littleMCAR } : {}),
+    },
     collinearity,
     fit,
     sampleSize,

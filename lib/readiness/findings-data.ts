@@ -6,7 +6,7 @@
 import { finding, list, pct, quote, rowsOf as nRows, sampleOf } from "./findings";
 import type { Plan, Thresholds } from "./plan";
 import type { Finding } from "./report";
-import type { EngineState } from "./state";
+import { patternLimit, type EngineState } from "./state";
 import { foldLevel, oneEditApart } from "./values";
 
 /** Row evidence only a pass over the file has (absent for a pool). */
@@ -99,7 +99,18 @@ export function missingFindings(
       ),
     );
   }
-  if (state.patterns.masks.length > 0) {
+  if (state.patterns.overflowed) {
+    out.push(
+      finding(
+        "missing.pattern",
+        "note",
+        [],
+        `The rows with gaps in the model columns fall into more than ${patternLimit(cols.length).toLocaleString("en")} different combinations of missing columns: the gaps are scattered, not shared by a few patterns, so none is listed.`,
+        "Look at the missing counts of each column; scattered gaps usually have many separate causes rather than one skipped form.",
+        { detail: { patterns: [], limit: patternLimit(cols.length) } },
+      ),
+    );
+  } else if (state.patterns.masks.length > 0) {
     const patterns = [...state.patterns.masks]
       .sort((a, b) => b[1] - a[1])
       .slice(0, 5)

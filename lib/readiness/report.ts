@@ -103,6 +103,11 @@ export interface ReadinessReport {
   columns: ColumnReport[];
   missingness: {
     patterns: { columns: string[]; count: number }[];
+    /**
+     * present when the rows held more distinct missingness patterns than `limit` (the engine's
+     * bound for this many model columns): patterns is then empty
+     */
+    patternsOverflow?: { limit: number };
     littleMCAR?: { statistic: number; df: number; pValue: number };
   };
   collinearity: CollinearityReport | null;

@@ -8,6 +8,7 @@ import { ColumnScan } from "./column-scan";
 import type { CsvMeta } from "./csv-reader";
 import { RowEncoder, buildDesign, predictorsOf, type Design, type Predictor } from "./design";
 import { thresholdsOf, type Plan, type Thresholds } from "./plan";
+import { patternLimit } from "./state";
 import { LeastSquares, PatternMoments } from "./stats";
 
 /** total values kept for exact quartiles across all columns (12 bytes each, with their priorities) */
@@ -77,10 +78,15 @@ export class ScanState {
   /** @internal (scan-merge.ts) */
   levelIndex: Map<string, number>[] = [];
   protected vals: Float64Array;
-  /** model columns used in the missingness patterns: response then predictors */
+  /** missingness patterns over the model columns (response then predictors) as masks, "1" = missing */
   patterns = new Map<string, number>();
   /** patterns as bit masks while counting (model columns ≤ 30), turned into strings by patternMasks() */
   protected bitPatterns = new Map<number, number>();
+  /** more distinct patterns than patternLimit(model columns): none kept (state.ts) */
+  patternsOverflowed = false;
+  protected patternCap = 1;
+  /** a row's mask as bytes ("0"/"1") over more than 30 model columns, decoded once per incomplete row */
+  protected maskBytes = new Uint8Array(0);
   soleUnusable: number[] = [];
   responseMissing: RowSample;
   pm: PatternMoments | null = null;
@@ -158,6 +164,8 @@ export class ScanState {
     this.levelIndex = this.predictors.map((p) => new Map(p.levels.map((l, j) => [l, j])));
     this.unknownLevels = this.predictors.map(() => new Map());
     this.soleUnusable = this.model.map(() => 0);
+    this.patternCap = patternLimit(this.model.length);
+    this.maskBytes = new Uint8Array(this.model.length);
     const numericModel = this.model.filter((m) => {
       const c = planByName.get(m.name)!;
       return m.index >= 0 && (c.type === "number" || c.type === "integer");
@@ -168,6 +176,21 @@ export class ScanState {
       this.pmVals = new Float64Array(numericModel.length);
     }
     this.ready = this.model.every((m) => m.index >= 0) && this.response !== null;
+  }
+
+  /** Count a row's pattern (a key of `map`) unless the distinct patterns would pass the cap. */
+  protected countPattern<K>(map: Map<K, number>, key: K): void {
+    const c = map.get(key);
+    if (c !== undefined) map.set(key, c + 1);
+    else if (this.patterns.size + this.bitPatterns.size < this.patternCap) map.set(key, 1);
+    else this.overflowPatterns();
+  }
+
+  /** @internal (scan-merge.ts) Drop the patterns: there are more distinct ones than the cap. */
+  overflowPatterns(): void {
+    this.patternsOverflowed = true;
+    this.patterns.clear();
+    this.bitPatterns.clear();
   }
 
   /** Missingness patterns over the model columns as strings ("1" = missing), with counts. */

@@ -10,6 +10,8 @@ import { hashByteFields, hashFields } from "./hashing";
 import { addKeyExample, keyExampleText } from "./key-examples";
 import { ScanState, type ScanKey } from "./scan-state";
 
+const latin1 = new TextDecoder("latin1");
+
 export {
   DUPLICATE_CAP,
   MAX_DESIGN_COLUMNS,
@@ -181,9 +183,10 @@ export class Scan extends ScanState implements CsvSink {
     const vals = this.vals;
     let unusable = 0;
     let sole = -1;
-    let mask = "";
+    let missing = false;
     let bits = 0;
     const useBits = nModel <= 30;
+    const maskBytes = this.maskBytes;
     for (let m = 0; m < nModel; m++) {
       const c = mc[m]!;
       const status = c.status;
@@ -197,19 +200,21 @@ export class Scan extends ScanState implements CsvSink {
         } else vals[pi] = c.value;
       }
       if (status === FieldStatus.Missing) {
+        missing = true;
         if (useBits) bits |= 1 << m;
-        else mask += "1";
-      } else if (!useBits) mask += "0";
+        else maskBytes[m] = 49; // "1"
+      } else if (!useBits) maskBytes[m] = 48; // "0"
       if (!ok) {
         unusable++;
         sole = m;
       }
     }
     if (this.response && mc[0]!.status === FieldStatus.Missing) this.responseMissing.add(line);
-    if (useBits) {
-      if (bits !== 0) this.bitPatterns.set(bits, (this.bitPatterns.get(bits) ?? 0) + 1);
-    } else if (mask.indexOf("1") >= 0) this.patterns.set(mask, (this.patterns.get(mask) ?? 0) + 1);
-    if (this.pm) {
+    if (missing && !this.patternsOverflowed) {
+      if (useBits) this.countPattern(this.bitPatterns, bits);
+      else this.countPattern(this.patterns, latin1.decode(maskBytes));
+    }
+    if (this.pm && !this.pm.overflowed) {
       const pv = this.pmVals;
       let observed = 0;
       for (let q = 0; q < this.pmScans.length; q++) {
@@ -220,7 +225,11 @@ export class Scan extends ScanState implements CsvSink {
         }
       }
       if (this.pmScans.length <= 30) this.pm.addMasked(pv, observed);
-      else this.pm.addRow(this.pmScans.map((c) => (c.status === FieldStatus.Usable ? c.value : null)));
+      else {
+        for (let q = 0; q < this.pmScans.length; q++)
+          if (this.pmScans[q]!.status !== FieldStatus.Usable) pv[q] = NaN;
+        this.pm.addRow(pv);
+      }
     }
     if (unusable === 1) this.soleUnusable[sole]!++;
     if (unusable > 0) return;

@@ -11,6 +11,18 @@ import type { LeastSquaresJSON } from "./stats/least-squares";
 export const STATE_KIND = "tributary-engine-state";
 /** values per column kept in the state for pooled quartiles */
 export const STATE_SAMPLE = 512;
+/** characters of missingness masks a scan or a state keeps (one per model column per pattern) */
+export const PATTERN_CHARS = 4_000_000;
+
+/**
+ * The most distinct missingness patterns kept over m model columns. Beyond it the masks are
+ * dropped and `overflowed` set: gaps in scattered combinations (each row its own pattern) would
+ * otherwise grow with the rows, and the state with them. Whether a file passes it does not
+ * depend on how the file was cut into parts.
+ */
+export function patternLimit(m: number): number {
+  return Math.max(1, Math.floor(PATTERN_CHARS / Math.max(1, m)));
+}
 
 export interface ColumnState {
   name: string;
@@ -35,8 +47,11 @@ export interface EngineState {
   design: { columns: string[]; levels: Record<string, string[]> };
   ls: LeastSquaresJSON;
   pm: unknown | null;
-  /** missingness patterns over the model columns (response first), "1" = missing */
-  patterns: { columns: string[]; masks: [string, number][] };
+  /**
+   * missingness patterns over the model columns (response first), "1" = missing; `overflowed`
+   * (masks then empty) when there were more than patternLimit(columns) distinct ones
+   */
+  patterns: { columns: string[]; masks: [string, number][]; overflowed?: true };
   /** rows made incomplete by this model column alone, aligned with patterns.columns */
   soleUnusable: number[];
   responseMissing: number;
@@ -56,7 +71,11 @@ export function stateOf(scan: Scan, engineVersion: string, planHash: string): En
     design: { columns: [...scan.design.columns], levels },
     ls: scan.ls.toJSON() as LeastSquaresJSON,
     pm: scan.pm ? scan.pm.toJSON() : null,
-    patterns: { columns: scan.model.map((m) => m.name), masks: scan.patternMasks() },
+    patterns: {
+      columns: scan.model.map((m) => m.name),
+      masks: scan.patternMasks(),
+      ...(scan.patternsOverflowed ? { overflowed: true as const } : {}),
+    },
     soleUnusable: [...scan.soleUnusable],
     responseMissing: scan.responseMissing.count,
     columns: scan.cols.map((c) => ({
@@ -178,12 +197,16 @@ export function mergeStates(
   const first = states[0]!;
   const masks = new Map<string, number>();
   const sole = first.patterns.columns.map(() => 0);
+  let overflowed = false;
   for (const s of states) {
     const same = s.patterns.columns.join("\u0000") === first.patterns.columns.join("\u0000");
     if (!same) continue;
-    for (const [m, c] of s.patterns.masks) masks.set(m, (masks.get(m) ?? 0) + c);
+    overflowed ||= s.patterns.overflowed === true;
+    if (!overflowed) for (const [m, c] of s.patterns.masks) masks.set(m, (masks.get(m) ?? 0) + c);
+    overflowed ||= masks.size > patternLimit(first.patterns.columns.length);
     s.soleUnusable.forEach((v, i) => (sole[i]! += v));
   }
+  if (overflowed) masks.clear();
   return {
     kind: STATE_KIND,
     version: 1,
@@ -197,7 +220,11 @@ export function mergeStates(
     design: { columns, levels },
     ls: ls!.toJSON() as LeastSquaresJSON,
     pm: pm ? pm.toJSON() : null,
-    patterns: { columns: first.patterns.columns, masks: [...masks.entries()] },
+    patterns: {
+      columns: first.patterns.columns,
+      masks: [...masks.entries()],
+      ...(overflowed ? { overflowed: true as const } : {}),
+    },
     soleUnusable: sole,
     responseMissing: states.reduce((t, s) => t + s.responseMissing, 0),
     columns: header.map((h) => byName.get(h)!),

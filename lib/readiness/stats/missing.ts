@@ -91,7 +91,7 @@ export class PatternMoments {
   }
 
   /** One row: values of the m columns in order, null (or NaN) for missing. */
-  addRow(values: (number | null)[]): void {
+  addRow(values: ArrayLike<number | null>): void {
     const m = this.columns.length;
     if (values.length !== m) throw new RangeError(`row has ${values.length} values, expected ${m}`);
     if (this.over) return;

@@ -167,7 +167,12 @@ export default async function PoolPage({ params }: { params: Promise<{ slug: str
           </Section>
 
           <Section title="Missingness" id="missingness">
-            <MissingnessMap patterns={r.missingness.patterns} columns={planned} total={r.rows.total} />
+            <MissingnessMap
+              patterns={r.missingness.patterns}
+              overflow={r.missingness.patternsOverflow}
+              columns={planned}
+              total={r.rows.total}
+            />
           </Section>
 
           <Section
