@@ -175,7 +175,7 @@ cmd_start() {
     "--datadir=$DATADIR" --bind-address=127.0.0.1 "--port=$PORT" "--socket=$SOCKET" \
     "--pid-file=$PIDFILE" "--log-error=$LOGFILE" \
     --character-set-server=utf8mb4 --collation-server=utf8mb4_unicode_ci \
-    --skip-name-resolve --innodb-buffer-pool-size=128M "${SERVER_ARGS[@]}" \
+    --skip-name-resolve --innodb-buffer-pool-size=128M --max-allowed-packet=64M "${SERVER_ARGS[@]}" \
     </dev/null >/dev/null 2>&1 9>&- &
   pid=$!
   wait_ready "$pid"

@@ -211,6 +211,28 @@ describe("workers", () => {
     expect(v?.state).toBe("unreadable");
   });
 
+  it("a report too large to store fails the attempt, saying its size, and stores nothing", async () => {
+    const r = await recordBatchVersion(providerId, { studyId }, store(barleyBatches()[0]!.csv));
+    if (!r.ok) throw new Error(r.message);
+    const job = await claimJob(db, "w");
+    const lines: string[] = [];
+    // 10 KB: far below the demo batch's report, as a wide batch's would once be over the real bound
+    const report = await runJob({ db, openFile, maxStoredBytes: 10_000, log: (l) => lines.push(l) }, job!);
+    expect(report).toBeNull();
+    const [j] = await db.select().from(checkJobs).where(eq(checkJobs.id, job!.jobId));
+    expect(j?.status).not.toBe("done");
+    expect(j?.lastError).toMatch(
+      /^The report of this batch is \d+ KB, more than the 10 KB a report may take/,
+    );
+    expect(lines.join("\n")).toContain("storing the report failed");
+    const stored = await db.select().from(reports).where(eq(reports.batchVersionId, r.data.batchVersionId));
+    expect(stored).toEqual([]);
+    // the next attempt, within the bound, stores it
+    const again = await claimJob(db, "w", new Date(Date.now() + 120_000));
+    expect(again?.batchVersionId).toBe(r.data.batchVersionId);
+    expect((await runJob({ db, openFile }, again!))?.status).toBe("checked");
+  });
+
   it("a file that cannot be fetched fails the attempt and is retried later, then marked failed", async () => {
     const r = await recordBatchVersion(
       providerId,

@@ -45,8 +45,25 @@ export interface WorkerOptions {
   stallMs?: number;
   /** threads per check of a large batch (default one per core; 1 checks in this thread) */
   checkWorkers?: number;
+  /** a report with its state larger than this (bytes of JSON) is not stored: the attempt fails, saying why */
+  maxStoredBytes?: number;
   log?: (line: string) => void;
 }
+
+/**
+ * The largest report and engine state, together, that a check job stores (JSON bytes): well below
+ * the 64 MB MariaDB packet scripts/db.sh sets, so a row is never refused mid-transaction (which
+ * closes the connection and looked like a database outage, retried without end).
+ */
+export const MAX_STORED_BYTES = 32 * 1024 * 1024;
+
+/** The JSON size of what completeJob stores: the report and its engine state. */
+function storedBytes(report: ReadinessReport): number {
+  return Buffer.byteLength(JSON.stringify(report), "utf8");
+}
+
+const sizeText = (b: number) =>
+  b >= 2 ** 20 ? `${(b / 2 ** 20).toFixed(1)} MB` : `${Math.ceil(b / 1024)} KB`;
 
 /** Thrown into the check when the worker stops before the check ends. */
 class StopRequested extends Error {
@@ -228,6 +245,12 @@ export async function runJob(opts: WorkerOptions, job: ClaimedJob): Promise<Read
 
     await finish();
     try {
+      const max = opts.maxStoredBytes ?? MAX_STORED_BYTES;
+      const size = storedBytes(report);
+      if (size > max)
+        throw new Error(
+          `The report of this batch is ${sizeText(size)}, more than the ${sizeText(max)} a report may take in the database; check the plan's columns and levels (a column with thousands of levels makes a large report).`,
+        );
       const stored = await withDbRetry(() => completeJob(db, job, report), {
         what: `storing the report of job ${job.jobId}`,
         signal: stopJob.signal,
