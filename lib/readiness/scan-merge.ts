@@ -8,7 +8,6 @@ import { absorbColumn, columnPart, type ColumnPart } from "./column-part";
 import { RowEncoder, buildDesign } from "./design";
 import { HashSet64 } from "./hashing";
 import { DUPLICATE_CAP, type Scan } from "./scan";
-import { patternLimit } from "./state";
 import { LeastSquares, PatternMoments } from "./stats";
 import type { LeastSquaresJSON } from "./stats/least-squares";
 
@@ -148,12 +147,7 @@ export function absorbPart(scan: Scan, p: ScanPart, first: boolean): void {
   scan.levelIndex = scan.predictors.map((pr) => new Map(pr.levels.map((l, j) => [l, j])));
   scan.encoder = new RowEncoder(scan.plan, scan.predictors, scan.design, true);
   if (scan.pm && p.pm) scan.pm.merge(PatternMoments.fromJSON(p.pm));
-  // a part past the cap, or parts that are past it together, are past it in one pass too
-  if (p.patternsOverflowed) scan.overflowPatterns();
-  if (!scan.patternsOverflowed) {
-    for (const [m, c] of p.patterns) scan.patterns.set(m, (scan.patterns.get(m) ?? 0) + c);
-    if (scan.patterns.size > patternLimit(scan.model.length)) scan.overflowPatterns();
-  }
+  scan.absorbPatterns(p.patterns, p.patternsOverflowed);
   p.soleUnusable.forEach((v, i) => (scan.soleUnusable[i]! += v));
   scan.responseMissing.absorb(p.responseMissing);
   p.cols.forEach((c, i) => {

@@ -186,11 +186,22 @@ export class ScanState {
     else this.overflowPatterns();
   }
 
-  /** @internal (scan-merge.ts) Drop the patterns: there are more distinct ones than the cap. */
-  overflowPatterns(): void {
+  /** Drop the patterns: there are more distinct ones than the cap. */
+  protected overflowPatterns(): void {
     this.patternsOverflowed = true;
     this.patterns.clear();
     this.bitPatterns.clear();
+  }
+
+  /**
+   * @internal (scan-merge.ts) Add a later part's patterns: a part past the cap, or parts past it
+   * together, are past it in one pass too.
+   */
+  absorbPatterns(masks: [string, number][], overflowed: boolean): void {
+    if (overflowed) this.overflowPatterns();
+    if (this.patternsOverflowed) return;
+    for (const [m, c] of masks) this.patterns.set(m, (this.patterns.get(m) ?? 0) + c);
+    if (this.patterns.size + this.bitPatterns.size > this.patternCap) this.overflowPatterns();
   }
 
   /** Missingness patterns over the model columns as strings ("1" = missing), with counts. */

@@ -222,14 +222,10 @@ export class Scan extends ScanState implements CsvSink {
         if (c.status === FieldStatus.Usable) {
           pv[q] = c.value;
           observed |= 1 << q;
-        }
+        } else pv[q] = NaN; // missing for addRow; addMasked reads only the observed
       }
       if (this.pmScans.length <= 30) this.pm.addMasked(pv, observed);
-      else {
-        for (let q = 0; q < this.pmScans.length; q++)
-          if (this.pmScans[q]!.status !== FieldStatus.Usable) pv[q] = NaN;
-        this.pm.addRow(pv);
-      }
+      else this.pm.addRow(pv);
     }
     if (unusable === 1) this.soleUnusable[sole]!++;
     if (unusable > 0) return;
